@@ -1,0 +1,59 @@
+package org.loopstand.protocol.bus;
+
+import java.util.concurrent.atomic.LongAdder;
+
+/** Counters a bus connection keeps; read at any time from any thread. */
+public final class BusCounters {
+    private final LongAdder received = new LongAdder();
+    private final LongAdder rejected = new LongAdder();
+    private final LongAdder sent = new LongAdder();
+    private final LongAdder sendFailed = new LongAdder();
+    private final LongAdder reconnects = new LongAdder();
+
+    public void onReceived() {
+        received.increment();
+    }
+
+    /** A received message the application refused (bad payload, wrong topic). */
+    public void onRejected() {
+        rejected.increment();
+    }
+
+    public void onSent() {
+        sent.increment();
+    }
+
+    public void onSendFailed() {
+        sendFailed.increment();
+    }
+
+    public void onReconnect() {
+        reconnects.increment();
+    }
+
+    public long received() {
+        return received.sum();
+    }
+
+    public long rejected() {
+        return rejected.sum();
+    }
+
+    public long sent() {
+        return sent.sum();
+    }
+
+    public long sendFailed() {
+        return sendFailed.sum();
+    }
+
+    public long reconnects() {
+        return reconnects.sum();
+    }
+
+    @Override
+    public String toString() {
+        return "received=" + received() + " rejected=" + rejected() + " sent=" + sent()
+                + " sendFailed=" + sendFailed() + " reconnects=" + reconnects();
+    }
+}
