@@ -60,8 +60,11 @@ final class JacksonErrors {
         if (e instanceof MismatchedInputException) {
             Matcher missing = MISSING_PROPERTY.matcher(detail == null ? "" : detail);
             if (missing.find()) {
-                return new DecodeError(DecodeErrorKind.MISSING_FIELD, FieldChecks.at(path, missing.group(1)),
-                        "required field is missing");
+                String name = missing.group(1);
+                // Jackson's path names the missing field itself in recent versions; older ones stop at the object.
+                String field = path.equals(name) || path.endsWith("." + name) ? path
+                        : FieldChecks.at(path.equals(DecodeError.ROOT) ? "" : path, name);
+                return new DecodeError(DecodeErrorKind.MISSING_FIELD, field, "required field is missing");
             }
             if (detail != null && detail.startsWith("No content to map")) {
                 return new DecodeError(DecodeErrorKind.MALFORMED, DecodeError.ROOT, "empty payload");

@@ -131,8 +131,6 @@ public final class MessageCodec {
                 .enable(DeserializationFeature.FAIL_ON_READING_DUP_TREE_KEY)
                 .disable(DeserializationFeature.ACCEPT_FLOAT_AS_INT)
                 .disable(MapperFeature.ALLOW_COERCION_OF_SCALARS)
-                .disable(MapperFeature.AUTO_DETECT_GETTERS)
-                .disable(MapperFeature.AUTO_DETECT_IS_GETTERS)
                 .enable(SerializationFeature.ORDER_MAP_ENTRIES_BY_KEYS)
                 .disable(SerializationFeature.FAIL_ON_EMPTY_BEANS)
                 .defaultSetterInfo(JsonSetter.Value.construct(Nulls.FAIL, Nulls.FAIL))
