@@ -25,6 +25,10 @@ final class JacksonErrors {
     }
 
     static DecodeError toError(Exception e) {
+        // Databind wraps parser errors met inside lists and objects; the parser's own context has the full path.
+        if (e instanceof JsonMappingException && e.getCause() instanceof StreamReadException read) {
+            return readError(read);
+        }
         if (e instanceof JsonMappingException mapping) {
             return mappingError(mapping);
         }
@@ -53,7 +57,7 @@ final class JacksonErrors {
         }
         if (e instanceof InvalidFormatException format) {
             Class<?> target = format.getTargetType();
-            boolean isEnum = target != null && target.isEnum();
+            boolean isEnum = target != null && target.isEnum() && format.getValue() instanceof String;
             return new DecodeError(isEnum ? DecodeErrorKind.INVALID_VALUE : DecodeErrorKind.WRONG_TYPE, path,
                     shorten(detail));
         }
