@@ -3,13 +3,12 @@ package org.loopstand.protocol.codec;
 import com.fasterxml.jackson.annotation.JsonSetter;
 import com.fasterxml.jackson.annotation.Nulls;
 import com.fasterxml.jackson.core.JsonFactory;
-import com.fasterxml.jackson.core.JsonParser;
 import com.fasterxml.jackson.core.JsonProcessingException;
 import com.fasterxml.jackson.core.StreamReadConstraints;
+import com.fasterxml.jackson.core.StreamReadFeature;
 import com.fasterxml.jackson.core.json.JsonReadFeature;
 import com.fasterxml.jackson.databind.DeserializationFeature;
 import com.fasterxml.jackson.databind.MapperFeature;
-import com.fasterxml.jackson.databind.ObjectMapper;
 import com.fasterxml.jackson.databind.ObjectReader;
 import com.fasterxml.jackson.databind.ObjectWriter;
 import com.fasterxml.jackson.databind.SerializationFeature;
@@ -35,7 +34,7 @@ public final class MessageCodec {
     /** Deepest nesting accepted (fault parameters are the only free-form part). */
     static final int MAX_NESTING_DEPTH = 16;
 
-    private static final ObjectMapper MAPPER = buildMapper();
+    private static final JsonMapper MAPPER = buildMapper();
     private static final ObjectWriter WRITER = MAPPER.writer();
     private static final Map<Class<?>, ObjectReader> READERS = new ConcurrentHashMap<>();
 
@@ -116,10 +115,10 @@ public final class MessageCodec {
         return READERS.computeIfAbsent(type, MAPPER::readerFor);
     }
 
-    private static ObjectMapper buildMapper() {
+    private static JsonMapper buildMapper() {
         JsonFactory factory = JsonFactory.builder()
                 .disable(JsonReadFeature.ALLOW_NON_NUMERIC_NUMBERS)
-                .enable(com.fasterxml.jackson.core.StreamReadFeature.STRICT_DUPLICATE_DETECTION)
+                .enable(StreamReadFeature.STRICT_DUPLICATE_DETECTION)
                 .streamReadConstraints(StreamReadConstraints.builder().maxNestingDepth(MAX_NESTING_DEPTH).build())
                 .build();
         JsonMapper mapper = JsonMapper.builder(factory)
@@ -154,6 +153,6 @@ public final class MessageCodec {
 
     /** Parser feature check for tests: the strict parser refuses NaN literals. */
     static boolean allowsNonNumericNumbers() {
-        return MAPPER.getFactory().isEnabled(JsonParser.Feature.ALLOW_NON_NUMERIC_NUMBERS);
+        return MAPPER.isEnabled(JsonReadFeature.ALLOW_NON_NUMERIC_NUMBERS);
     }
 }

@@ -146,12 +146,12 @@ class JsonSchemaConformanceTest {
         assertBothRefuse(AreaMeter.class, tree(MessageCodecRejectionTest.METER).put("frequencyHz", 70.5));
         assertBothRefuse(AreaMeter.class, tree(MessageCodecRejectionTest.METER).put("area", "a/b"));
         ObjectNode twice = tree(MessageCodecRejectionTest.METER);
-        twice.with("frequencyQuality").putArray("flags").add("test").add("test");
+        twice.withObjectProperty("frequencyQuality").putArray("flags").add("test").add("test");
         assertBothRefuse(AreaMeter.class, twice);
         assertBothRefuse(ClockTick.class, tree(MessageCodecRejectionTest.CLOCK).put("rate", 0.0));
         assertBothRefuse(FaultOrder.class, tree(MessageCodecRejectionTest.FAULT).put("durationS", 0.0));
         ObjectNode nullParameter = tree(MessageCodecRejectionTest.FAULT);
-        nullParameter.with("parameters").putNull("x");
+        nullParameter.withObjectProperty("parameters").putNull("x");
         assertBothRefuse(FaultOrder.class, nullParameter);
         assertBothRefuse(LinkStatus.class, tree(MessageCodecRejectionTest.LINK).put("clientId", "a\u0001b"));
     }

@@ -202,6 +202,8 @@ class MessageCodecRejectionTest {
                         DecodeErrorKind.MISSING_FIELD, "frequencyHz"),
                 Arguments.of("missing nested field", AreaMeter.class, mutated(METER, n -> ((ObjectNode) n.get("ties").get(1))
                         .remove("quality")), DecodeErrorKind.MISSING_FIELD, "ties[1].quality"),
+                Arguments.of("missing quality flags", AreaMeter.class, mutated(METER, n -> n.withObjectProperty("frequencyQuality")
+                        .remove("flags")), DecodeErrorKind.MISSING_FIELD, "frequencyQuality.flags"),
                 Arguments.of("missing primitive boolean", UnitTelemetry.class, mutated(TELEMETRY, n -> n.remove("acceptsSetpoints")),
                         DecodeErrorKind.MISSING_FIELD, "acceptsSetpoints"),
                 Arguments.of("null for primitive", AreaMeter.class, mutated(METER, n -> n.putNull("seq")), DecodeErrorKind.WRONG_TYPE,
@@ -240,18 +242,18 @@ class MessageCodecRejectionTest {
                         .put("lossMw", 1)), DecodeErrorKind.UNKNOWN_FIELD, "ties[1].lossMw"),
                 Arguments.of("duplicate key", AreaMeter.class, meter.replace("\"meter\":\"m1\"", "\"meter\":\"m1\",\"meter\":\"m2\""),
                         DecodeErrorKind.MALFORMED, "meter"),
-                Arguments.of("duplicate quality flag", AreaMeter.class, mutated(METER, n -> n.with("frequencyQuality")
+                Arguments.of("duplicate quality flag", AreaMeter.class, mutated(METER, n -> n.withObjectProperty("frequencyQuality")
                         .putArray("flags").add("oldData").add("oldData")), DecodeErrorKind.INVALID_VALUE,
                         "frequencyQuality"),
                 Arguments.of("rejection without reason", CommandAck.class,
                         mutated(ACK, n -> n.put("outcome", "rejected")), DecodeErrorKind.MISSING_FIELD, "reason"),
                 Arguments.of("pulse without direction", UnitCommand.class, pulse.replace(",\"direction\":\"raise\"", ""),
                         DecodeErrorKind.MISSING_FIELD, "direction"),
-                Arguments.of("null in fault parameters", FaultOrder.class, mutated(FAULT, n -> n.with("parameters").putNull("x")),
+                Arguments.of("null in fault parameters", FaultOrder.class, mutated(FAULT, n -> n.withObjectProperty("parameters").putNull("x")),
                         DecodeErrorKind.WRONG_TYPE, "parameters.x"),
-                Arguments.of("nested null in fault parameters", FaultOrder.class, mutated(FAULT, n -> n.with("parameters")
+                Arguments.of("nested null in fault parameters", FaultOrder.class, mutated(FAULT, n -> n.withObjectProperty("parameters")
                         .putArray("list").add(1).addNull()), DecodeErrorKind.WRONG_TYPE, "parameters.list[1]"),
-                Arguments.of("nesting too deep", FaultOrder.class, mutated(FAULT, n -> n.with("parameters").put("deep", 0))
+                Arguments.of("nesting too deep", FaultOrder.class, mutated(FAULT, n -> n.withObjectProperty("parameters").put("deep", 0))
                         .replace("\"deep\":0", "\"deep\":" + "[".repeat(40) + "]".repeat(40)),
                         DecodeErrorKind.MALFORMED, null));
     }

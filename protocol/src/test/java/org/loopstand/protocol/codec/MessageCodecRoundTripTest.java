@@ -76,6 +76,24 @@ class MessageCodecRoundTripTest {
     }
 
     @Test
+    void shouldGiveTheSameResultsWhenSharedAcrossThreads() throws Exception {
+        List<Object> messages = MessageArbitraries.anyMessage().sampleStream().limit(400).toList();
+        java.util.concurrent.ExecutorService pool = java.util.concurrent.Executors.newFixedThreadPool(4);
+        try {
+            List<java.util.concurrent.Future<Boolean>> results = new java.util.ArrayList<>();
+            for (Object message : messages) {
+                results.add(pool.submit(() -> codec.decode(codec.encode(message), message.getClass())
+                        .equals(new Decoded.Ok<>(message))));
+            }
+            for (java.util.concurrent.Future<Boolean> result : results) {
+                assertThat(result.get(30, java.util.concurrent.TimeUnit.SECONDS)).isTrue();
+            }
+        } finally {
+            pool.shutdownNow();
+        }
+    }
+
+    @Test
     void shouldHoldQualityFlagsInDeclarationOrderWhateverTheInputOrder() {
         Quality quality = new Quality(Validity.INVALID, Set.of(QualityFlag.TEST, QualityFlag.OVERFLOW,
                 QualityFlag.FAILURE));
