@@ -116,6 +116,24 @@ class JsonSchemaConformanceTest {
         }
     }
 
+    @Test
+    void shouldSendAValidPulseWithTheDocumentedMosquittoCommand() throws IOException {
+        String doc = Files.readString(DOCS.resolve("messages.md"));
+        Matcher command = Pattern.compile("mosquitto_pub .*? -x (\\d+) \\\\\\n\\s+-t (\\S+) \\\\\\n\\s+-m \"(.*?)\"\\n")
+                .matcher(doc);
+        assertThat(command.find()).as("mosquitto_pub command in messages.md").isTrue();
+        long now = 1_767_225_600_000L;
+        // What the shell makes of the -m argument at time `now`.
+        String payload = command.group(3).replace("$(($NOW+8000))", Long.toString(now + 8000))
+                .replace("$NOW", Long.toString(now)).replace("\\\"", "\"");
+        assertThat(command.group(2)).isEqualTo(org.loopstand.protocol.topic.TopicTree.forSite("demo-site")
+                .unitCommand("hydro-2"));
+        Decoded<UnitCommand> decoded = CODEC.decode(payload.getBytes(StandardCharsets.UTF_8), UnitCommand.class);
+        UnitCommand pulse = decoded.message().orElseThrow(() -> new AssertionError(decoded.rejection()));
+        assertThat(pulse.validUntil() - pulse.issuedAt()).isEqualTo(Long.parseLong(command.group(1)) * 1000);
+        assertThat(SCHEMAS.get(UnitCommand.class).validate(TREE.readTree(payload))).isEmpty();
+    }
+
     @Property(tries = 300)
     void shouldEmitOnlyMessagesThatValidateAgainstTheirSchema(@ForAll("messages") Object message) throws IOException {
         JsonNode encoded = TREE.readTree(CODEC.encode(message));
