@@ -47,4 +47,23 @@ class HistogramLogsTest {
         // Median of {0, 100, …, 10,000, 20,000} (102 values): the 51st value is 5,000 µs.
         assertThat((double) h.getValueAtPercentile(50)).isBetween(4_995.0, 5_005.0);
     }
+
+    @Test
+    void shouldReportATornLastIntervalLineAndKeepTheCompleteOnes() throws Exception {
+        VirtualClock clock = new VirtualClock(1_700_000_000_000L);
+        Path file = dir.resolve("plant.hlog");
+        HistogramLogs logs = HistogramLogs.create(file, clock, 1_000_000L, 2, 1000);
+        logs.record("ageAtUseMs", 40);
+        logs.record("ageAtUseMs", 60);
+        clock.advanceMillis(1000);
+        logs.writeInterval();
+        logs.close();
+        String text = Files.readString(file);
+        // A killed writer: half of a further interval line.
+        String line = text.lines().filter(l -> l.startsWith("Tag=")).findFirst().orElseThrow();
+        Files.writeString(file, text + line.substring(0, line.length() / 2), java.nio.file.StandardOpenOption.TRUNCATE_EXISTING);
+        HistogramLogs.Totals totals = HistogramLogs.readTotals(file);
+        assertThat(totals.tornTail()).isTrue();
+        assertThat(totals.histograms().get("ageAtUseMs").getTotalCount()).isEqualTo(2);
+    }
 }
