@@ -104,7 +104,7 @@ public final class ResponseJudge {
                             Collectors.counting()));
             figure = e.refusals().size() + " refused"
                     + (byReason.isEmpty() ? "" : " (" + byReason.entrySet().stream()
-                            .map(x -> x.getKey().name().toLowerCase(Locale.ROOT) + " ×" + x.getValue())
+                            .map(x -> x.getKey().wireName() + " ×" + x.getValue())
                             .collect(Collectors.joining(", ")) + ")")
                     + (e.unanswered() > 0 ? ", " + e.unanswered() + " unanswered" : "");
         }

@@ -20,7 +20,7 @@ package org.loopstand.controller.pulsetest.analysis;
  * @param finalErrorMw       finalMw − (baselineMw + requestedChangeMw), MW
  * @param peakExcursionMw    largest |output − baseline| in the window, MW
  * @param turnDelayS         reversal only: from the opposite pulses until the output turned, s
- * @param opposite           the output moved beyond the noise threshold against the command
+ * @param opposite           the net move went against the command by more than the noise threshold
  * @param samples            number of samples in the window
  */
 public record StepMeasurement(double baselineMw, double finalMw, double measuredChangeMw, double requestedChangeMw,

@@ -57,9 +57,11 @@ public final class StepResponseAnalyzer {
             if (sign != 0 && Double.isNaN(firstMove) && d * sign > noiseThresholdMw) {
                 firstMove = (s.tMs() - w.startMs()) / 1000.0;
             }
-            if (sign != 0 && d * sign < -noiseThresholdMw && w.kind() != StepKind.HOLD) {
-                opposite = true;
-            }
+        }
+        // Opposite means the net move went the wrong way; a unit still finishing the previous step may
+        // drift against the command for a while without that being a swapped direction.
+        if (sign != 0 && change * sign < -noiseThresholdMw) {
+            opposite = true;
         }
         double ramp = Double.NaN;
         double deadTime = firstMove;
