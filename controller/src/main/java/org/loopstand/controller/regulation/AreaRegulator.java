@@ -65,6 +65,15 @@ public final class AreaRegulator {
         lastBand = null;
     }
 
+    /**
+     * Align the regulator with where the units actually are, without resetting the filter (used
+     * after an assist-band cycle, where units moved at full rate rather than to the PI level).
+     */
+    public void trackLevel(double currentLevelMw, double aceMw) {
+        pi.track(currentLevelMw, aceMw);
+        levelMw = currentLevelMw;
+    }
+
     /** Base points moved by {@code deltaMw} in total: shift the level so the unit targets stay put. */
     public void onBasePointsMoved(double deltaMw) {
         pi.shiftIntegrator(-deltaMw);
