@@ -32,6 +32,7 @@ final class AreaController {
     private final TertiaryRedispatch redispatch;
     private final Map<String, Double> basePointsMw = new LinkedHashMap<>();
     private final Map<String, Double> staticFactors = new HashMap<>();
+    private Set<String> lastEligible = Set.of();
 
     AreaController(AreaSetup setup) {
         this.setup = setup;
@@ -70,6 +71,13 @@ final class AreaController {
             basePointsMw.putIfAbsent(u.unitId(), u.setpointMw());
         }
         regulator.resume(currentLevelMw(eligible), aceMw);
+        lastEligible = idsOf(eligible);
+    }
+
+    private static Set<String> idsOf(List<UnitState> units) {
+        Set<String> ids = new java.util.TreeSet<>();
+        units.forEach(u -> ids.add(u.unitId()));
+        return ids;
     }
 
     /** One regulating cycle of this area. */
@@ -81,6 +89,18 @@ final class AreaController {
         if (redispatch != null) {
             tertiary(eligible, nowMs, notes);
         }
+        Set<String> ids = idsOf(eligible);
+        if (ids.isEmpty()) {
+            notes.add("noEligibleUnits:" + areaId());
+            regulator.suspend();
+            lastEligible = ids;
+            return new AreaCycleResult(areaId(), aceResult, null, null);
+        }
+        if (!ids.equals(lastEligible)) {
+            // a unit left or joined: start from where the eligible units are, so nobody is yanked
+            regulator.resume(currentLevelMw(eligible), aceResult.aceMw());
+        }
+        lastEligible = ids;
         double[] range = RegulationAllocator.reachableRangeMw(eligible, basePointsMw);
         RegulationResult reg = regulator.step(aceResult.aceMw(), range[0], range[1]);
         Allocation alloc = null;

@@ -60,6 +60,7 @@ public final class ControlCycle {
         List<String> notes = new ArrayList<>();
         InterlockCheck check = new InterlockCheck().busLink(in.busLinkUp());
         Map<String, AceResult> aceByArea = new LinkedHashMap<>();
+        Map<String, Double> freqDevByArea = new HashMap<>();
         Map<String, AreaCycleInputs> inputsByArea = new HashMap<>();
         for (AreaCycleInputs a : in.areas()) {
             if (!areas.containsKey(a.areaId())) {
@@ -75,6 +76,11 @@ public final class ControlCycle {
                 continue;
             }
             AceResult ace = ace(area, a, check);
+            UsableValue.from(a.frequencyHz()).ifPresent(f -> {
+                if (a.schedule() != null) {
+                    freqDevByArea.put(area.areaId(), f.value() - a.schedule().frequencyScheduledHz());
+                }
+            });
             if (ace != null) {
                 check.ace(area.areaId(), ace.aceMw(), settings.interlock().aceSanityLimitMw());
                 aceByArea.put(area.areaId(), ace);
@@ -85,8 +91,10 @@ public final class ControlCycle {
         List<UnitState> units = effectiveUnits(in.units());
         List<FollowingCheck> checks = new ArrayList<>();
         for (UnitState u : units) {
-            if (u.telemetryGood() && u.online()) {
-                checks.add(following.check(u.unitId(), in.nowMs(), u.outputMw(), u.rampMwPerMin()));
+            Double dfHz = freqDevByArea.get(u.areaId());
+            // judged only with a good frequency, so the governor share can be taken out
+            if (u.telemetryGood() && u.online() && dfHz != null) {
+                checks.add(following.check(u.unitId(), in.nowMs(), responseMw(u, dfHz), u.rampMwPerMin()));
             }
         }
         Set<String> flagged = following.flaggedUnits();
@@ -124,7 +132,8 @@ public final class ControlCycle {
                 if (p.sends()) {
                     PlannedCommand c = p.command();
                     commands.add(c);
-                    following.onCommand(u.unitId(), c.deltaMw(), in.nowMs(), u.outputMw());
+                    following.onCommand(u.unitId(), c.deltaMw(), in.nowMs(),
+                            responseMw(u, freqDevByArea.get(u.areaId())));
                     lastCommands.put(u.unitId(), new LastCommand(in.nowMs() + c.durationMs(),
                             u.setpointMw() + c.deltaMw()));
                 }
@@ -150,6 +159,12 @@ public final class ControlCycle {
             return null;
         }
         return area.computeAce(f.get(), ties, a.schedule(), a.timeErrorS(), a.inadvertentAccumMwh());
+    }
+
+    /** Output with the expected governor response {@code −K·Δf} removed, MW. */
+    private double responseMw(UnitState u, double dfHz) {
+        double k = settings.primaryResponseMwPerHz().getOrDefault(u.unitId(), 0.0);
+        return u.outputMw() + k * dfHz;
     }
 
     /** While a unit's telemetry predates the end of our last command to it, use the commanded setpoint. */

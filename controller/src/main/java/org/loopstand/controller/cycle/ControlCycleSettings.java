@@ -2,6 +2,7 @@ package org.loopstand.controller.cycle;
 
 import java.util.HashSet;
 import java.util.List;
+import java.util.Map;
 import java.util.Set;
 import org.loopstand.controller.following.FollowingSettings;
 import org.loopstand.controller.pulse.PulseSettings;
@@ -18,11 +19,22 @@ import org.loopstand.controller.safety.InterlockSettings;
  *                         long after the end of the last command to the unit, ms, ≥ 0 (default
  *                         500); until then the commanded setpoint is used, so a lagging report
  *                         cannot make the cycle send the same move twice
+ * @param primaryResponseMwPerHz per unit id, the unit's expected governor response, MW/Hz
+ *                         (rating / (droop · f0)), ≥ 0; the following check removes
+ *                         {@code −K·(f − Fs)} from the measured output so that a unit's primary
+ *                         response is not taken for not following; a unit not listed gets 0
  */
 public record ControlCycleSettings(long cycleMs, List<AreaSetup> areas, PulseSettings pulses,
-                                   InterlockSettings interlock, FollowingSettings following, long commandSettleMs) {
+                                   InterlockSettings interlock, FollowingSettings following, long commandSettleMs,
+                                   Map<String, Double> primaryResponseMwPerHz) {
     public ControlCycleSettings {
         areas = List.copyOf(areas);
+        primaryResponseMwPerHz = Map.copyOf(primaryResponseMwPerHz);
+        primaryResponseMwPerHz.forEach((id, k) -> {
+            if (!(k >= 0) || !Double.isFinite(k)) {
+                throw new IllegalArgumentException("unit " + id + ": primaryResponseMwPerHz must be >= 0, was " + k);
+            }
+        });
         if (cycleMs < 500 || cycleMs > 60_000) {
             throw new IllegalArgumentException("cycleMs must be in [500, 60000], was " + cycleMs);
         }
@@ -50,6 +62,6 @@ public record ControlCycleSettings(long cycleMs, List<AreaSetup> areas, PulseSet
     /** Defaults for everything but the areas. */
     public static ControlCycleSettings of(long cycleMs, List<AreaSetup> areas) {
         return new ControlCycleSettings(cycleMs, areas, PulseSettings.DEFAULTS, InterlockSettings.DEFAULTS,
-                FollowingSettings.DEFAULTS, 500);
+                FollowingSettings.DEFAULTS, 500, Map.of());
     }
 }
