@@ -86,9 +86,7 @@ final class AreaController {
         for (UnitState u : eligible) {
             basePointsMw.putIfAbsent(u.unitId(), u.setpointMw());
         }
-        if (redispatch != null) {
-            tertiary(eligible, nowMs, notes);
-        }
+        double baseMovedMw = redispatch != null ? tertiary(eligible, nowMs, notes) : 0;
         Set<String> ids = idsOf(eligible);
         if (ids.isEmpty()) {
             notes.add("noEligibleUnits:" + areaId());
@@ -104,7 +102,8 @@ final class AreaController {
         double[] range = RegulationAllocator.reachableRangeMw(eligible, basePointsMw);
         RegulationResult reg = regulator.step(aceResult.aceMw(), range[0], range[1]);
         Allocation alloc = null;
-        if (reg.band() == AceBand.REGULATING) {
+        // in the quiet band only base point moves go out (the regulation level is held)
+        if (reg.band() == AceBand.REGULATING || (reg.band() == AceBand.QUIET && baseMovedMw > 0)) {
             alloc = allocator.allocate(reg.levelMw(), eligible, basePointsMw, factors(), excluded);
         } else if (reg.band() == AceBand.ASSIST) {
             int direction = reg.filteredAceMw() < 0 ? 1 : -1;
@@ -118,7 +117,8 @@ final class AreaController {
         return new AreaCycleResult(areaId(), aceResult, reg, alloc);
     }
 
-    private void tertiary(List<UnitState> eligible, long nowMs, List<String> notes) {
+    /** @return Σ|base point move| this cycle, MW */
+    private double tertiary(List<UnitState> eligible, long nowMs, List<String> notes) {
         if (redispatch.due(nowMs)) {
             double demand = 0;
             for (UnitState u : eligible) {
@@ -132,13 +132,17 @@ final class AreaController {
         }
         Map<String, Double> moved = redispatch.stepBasePoints(basePointsMw, eligible, setup.regulation().cycleS());
         double total = 0;
+        double absTotal = 0;
         for (Map.Entry<String, Double> e : moved.entrySet()) {
-            total += e.getValue() - basePointsMw.get(e.getKey());
+            double d = e.getValue() - basePointsMw.get(e.getKey());
+            total += d;
+            absTotal += Math.abs(d);
         }
         basePointsMw.putAll(moved);
         if (total != 0) {
             regulator.onBasePointsMoved(total);
         }
+        return absTotal;
     }
 
     private Map<String, Double> factors() {
