@@ -25,7 +25,11 @@ class ControlCycleTest {
     private static final long CYCLE_MS = 4000;
 
     private static ControlCycle cycle(int resumeAfter) {
-        AreaSetup a = AreaSetup.of(AreaControlSettings.builder("A").europeanK(1000).build(),
+        return cycle(resumeAfter, AreaControlSettings.builder("A").europeanK(1000).build());
+    }
+
+    private static ControlCycle cycle(int resumeAfter, AreaControlSettings ace) {
+        AreaSetup a = AreaSetup.of(ace,
                 RegulationSettings.builder().cycleS(4).filterTimeConstantS(0).kp(0.2).integralTimeS(40)
                         .quietMw(5).assistMw(300).build());
         return new ControlCycle(new ControlCycleSettings(CYCLE_MS, List.of(a), new PulseSettings(200, 4000, false, 0.5),
@@ -117,5 +121,38 @@ class ControlCycleTest {
         assertThat(o1.areas().get(0).regulation().levelMw()).isCloseTo(-1, within(1e-9));
         assertThat(c.basePointsMw("A")).containsEntry("U1", 120.0).containsEntry("U2", 150.0);
         assertThat(o1.commands()).extracting(PlannedCommand::deltaMw).containsOnly(-0.5);
+    }
+
+    @Test
+    void shouldGiveSameCommandsInBothConventions() {
+        // B = -100 MW/0.1 Hz is K = 1000 MW/Hz; over-generation: f high, exporting more than scheduled
+        ControlCycle na = cycle(1, AreaControlSettings.builder("A").northAmericanBias(-100).build());
+        ControlCycle eu = cycle(1, AreaControlSettings.builder("A").europeanK(1000).build());
+        CycleInputs in = new CycleInputs(0, T0, true, List.of(area(50.04, 30)), List.of(unit("U1", 100, T0)));
+        CycleOutcome a = na.step(in);
+        CycleOutcome b = eu.step(in);
+        assertThat(a.areas().get(0).aceMw()).isCloseTo(70, within(1e-9));
+        assertThat(a.commands()).hasSize(1);
+        assertThat(a.commands().get(0).direction()).isEqualTo(PulseDirection.LOWER);
+        assertThat(b.commands()).isEqualTo(a.commands());
+    }
+
+    @Test
+    void shouldRegulateOnHeldFrequencyAndSuspendOnBadTie() {
+        ControlCycle c = cycle(1);
+        ValidatedValue held = new ValidatedValue(49.95, true, Set.of(ValidationReason.STALE, ValidationReason.HELD_LAST_GOOD),
+                true, 12_000);
+        CycleOutcome o = c.step(new CycleInputs(0, T0, true, List.of(new AreaCycleInputs("A", held,
+                Map.of("t1", ValidatedValue.good(-50, 500)), new AreaSchedule(0, 50), 0, 0)), List.of(unit("U1", 100, T0))));
+        assertThat(o.state()).isEqualTo(InterlockState.REGULATING);
+        assertThat(o.commands()).isNotEmpty();
+        CycleOutcome bad = c.step(new CycleInputs(1, T0 + CYCLE_MS, true, List.of(new AreaCycleInputs("A",
+                ValidatedValue.good(49.95, 100), Map.of("t1", ValidatedValue.good(-50, 500),
+                        "t2", ValidatedValue.unusable(Set.of(ValidationReason.BAD_QUALITY), 100)),
+                new AreaSchedule(0, 50), 0, 0)), List.of(unit("U1", 104, T0 + CYCLE_MS))));
+        assertThat(bad.state()).isEqualTo(InterlockState.SUSPENDED);
+        assertThat(bad.reasons()).containsExactly("tieFlowUnusable:A:t2");
+        assertThat(bad.commands()).isEmpty();
+        assertThat(bad.areas().get(0).ace()).isNull();
     }
 }
