@@ -177,6 +177,17 @@ public final class MappingReader {
         return null;
     }
 
+    /** Records a problem with the value of {@code key} (at the key's line) and marks the key as failed. */
+    public void fail(String key, String message) {
+        failedKeys.add(key);
+        problems.add(locationOf(key) + ": " + key + " of " + what + " " + message);
+    }
+
+    /** Marks keys as allowed without reading them (when their meaning depends on a value that was refused). */
+    public void allow(String... keys) {
+        known.addAll(java.util.List.of(keys));
+    }
+
     /** @return true when the key was missing or of the wrong type (already reported) */
     public boolean failed(String key) {
         return failedKeys.contains(key);

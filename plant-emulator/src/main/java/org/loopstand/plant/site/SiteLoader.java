@@ -96,8 +96,7 @@ public final class SiteLoader {
         switch (convention) {
             case "european" -> a.aceConvention(AceConvention.EUROPEAN);
             case "northAmerican" -> a.aceConvention(AceConvention.NORTH_AMERICAN);
-            default -> problems.add(r.locationOf("aceConvention") + ": aceConvention of " + r.what()
-                    + " must be 'european' or 'northAmerican', got '" + convention + "'");
+            default -> r.fail("aceConvention", "must be 'european' or 'northAmerican', got '" + convention + "'");
         }
         r.finish();
     }
@@ -158,8 +157,11 @@ public final class SiteLoader {
                         r.requiredDouble("reheatTimeConstantS"), r.requiredDouble("hpFraction"));
                 case "hydro" -> u.hydro(r.requiredDouble("waterStartingTimeS"),
                         r.optionalDouble("transientDroopPct", Double.NaN), r.optionalDouble("resetTimeS", 0.0));
-                default -> problems.add(r.locationOf("turbine") + ": turbine of " + r.what()
-                        + " must be nonReheat, reheat or hydro, got '" + turbine + "'");
+                default -> {
+                    r.fail("turbine", "must be nonReheat, reheat or hydro, got '" + turbine + "'");
+                    r.allow("turbineTimeConstantS", "steamChestTimeConstantS", "reheatTimeConstantS", "hpFraction",
+                            "waterStartingTimeS", "transientDroopPct", "resetTimeS");
+                }
             }
         }
         r.finish();

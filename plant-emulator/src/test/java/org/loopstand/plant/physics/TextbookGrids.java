@@ -18,13 +18,20 @@ final class TextbookGrids {
      * the example's plots do not show; the steady state is the same either way.) Governor/turbine time constants 0.2/0.5 s and
      * 0.3/0.6 s as in the same example (from memory; they affect only the transient).
      */
+    static final double TEXTBOOK_TIE_MW_PER_RAD = 2.0 * 1000 / (2 * Math.PI * 60);
+
     static Grid twoArea() {
+        return twoArea(TEXTBOOK_TIE_MW_PER_RAD);
+    }
+
+    /** The same two areas with another tie strength, MW/rad. */
+    static Grid twoArea(double synchronizingMwPerRad) {
         GridBuilder b = new GridBuilder("two-area-textbook");
         b.area("area1").nominalFrequencyHz(60).ratingMva(1000).inertiaS(5).dampingMwPerHz(0.6 * 1000 / 60)
                 .aceConvention(AceConvention.NORTH_AMERICAN).biasMwPer01Hz(-20.6 * 1000 / 60 / 10);
         b.area("area2").nominalFrequencyHz(60).ratingMva(1000).inertiaS(4).dampingMwPerHz(0.9 * 1000 / 60)
                 .aceConvention(AceConvention.NORTH_AMERICAN).biasMwPer01Hz(-16.9 * 1000 / 60 / 10);
-        b.tie("tie12", "area1", "area2").synchronizingMwPerRad(2.0 * 1000 / (2 * Math.PI * 60));
+        b.tie("tie12", "area1", "area2").synchronizingMwPerRad(synchronizingMwPerRad);
         b.unit("gen1", "area1").nonReheat(0.5).governorTimeConstantS(0.2).ratingMw(1000).droopPct(5)
                 .initialOutputMw(500);
         b.unit("gen2", "area2").nonReheat(0.6).governorTimeConstantS(0.3).ratingMw(1000).droopPct(6.25)
