@@ -139,10 +139,16 @@ public final class EmbeddedBroker implements AutoCloseable {
             hivemq = null;
         }
         if (home != null) {
-            try (Stream<Path> files = Files.walk(home)) {
-                files.sorted(Comparator.reverseOrder()).forEach(p -> p.toFile().delete());
-            } catch (IOException e) {
-                LOG.warn("could not delete {}: {}", home, e.toString());
+            // Twice: HiveMQ's own shutdown hook may still write a file while the first pass runs.
+            for (int pass = 0; pass < 2 && Files.exists(home); pass++) {
+                try (Stream<Path> files = Files.walk(home)) {
+                    files.sorted(Comparator.reverseOrder()).forEach(p -> p.toFile().delete());
+                } catch (IOException | UncheckedIOException e) {
+                    LOG.debug("deleting {}: {}", home, e.toString());
+                }
+            }
+            if (Files.exists(home)) {
+                LOG.warn("could not delete the embedded broker's temp dir {}", home);
             }
             home = null;
         }
