@@ -17,10 +17,8 @@ import java.util.concurrent.atomic.LongAdder;
 import java.util.concurrent.locks.Condition;
 import java.util.concurrent.locks.ReentrantLock;
 import org.eclipse.paho.mqttv5.client.IMqttToken;
-import org.eclipse.paho.mqttv5.client.MqttActionListener;
 import org.eclipse.paho.mqttv5.client.MqttAsyncClient;
 import org.eclipse.paho.mqttv5.client.MqttCallback;
-import org.eclipse.paho.mqttv5.client.MqttClientException;
 import org.eclipse.paho.mqttv5.client.MqttConnectionOptions;
 import org.eclipse.paho.mqttv5.client.MqttDisconnectResponse;
 import org.eclipse.paho.mqttv5.client.persist.MemoryPersistence;
@@ -30,7 +28,6 @@ import org.eclipse.paho.mqttv5.common.MqttSubscription;
 import org.eclipse.paho.mqttv5.common.packet.MqttProperties;
 import org.eclipse.paho.mqttv5.common.util.MqttTopicValidator;
 import org.loopstand.protocol.bus.BusCounters;
-import org.loopstand.protocol.bus.BusException;
 import org.loopstand.protocol.bus.BusException.Reason;
 import org.loopstand.protocol.bus.ConnectionListener;
 import org.loopstand.protocol.bus.InboundMessage;
@@ -69,6 +66,7 @@ public final class MqttLink implements MessageBus {
     private final ReceiveQueue receiveQueue;
     private final InflightGate inflight = new InflightGate();
     private final ReconnectBackoff backoff;
+    private final LinkPublisher publisher;
     private final ScheduledThreadPoolExecutor reconnectThread;
     private final List<ConnectionListener> connectionListeners = new CopyOnWriteArrayList<>();
     private final ReentrantLock stateLock = new ReentrantLock();
@@ -105,6 +103,7 @@ public final class MqttLink implements MessageBus {
             throw new IllegalArgumentException("cannot create MQTT client for " + config + ": " + e.getMessage(), e);
         }
         client.setCallback(new PahoCallback());
+        this.publisher = new LinkPublisher(client, inflight, counters, failures, config);
     }
 
     private MqttConnectionOptions connectionOptions() {
@@ -267,86 +266,7 @@ public final class MqttLink implements MessageBus {
 
     @Override
     public CompletableFuture<Void> publish(OutboundMessage message) {
-        Objects.requireNonNull(message, "message");
-        if (closed.get()) {
-            return failed(Reason.CLOSED, "link is closed", null);
-        }
-        if (!client.isConnected()) {
-            return failed(Reason.NOT_CONNECTED, "not connected to " + config.serverUri(), null);
-        }
-        boolean gated = message.qos() == Qos.AT_LEAST_ONCE;
-        if (gated && !inflight.tryAcquire()) {
-            return failed(Reason.BACK_PRESSURE, inflight.limit() + " QoS 1 publishes already in flight", null);
-        }
-        MqttMessage m = new MqttMessage(message.payload(), message.qos().level(), message.retained(), null);
-        if (message.expirySeconds() > 0) {
-            MqttProperties props = new MqttProperties();
-            props.setMessageExpiryInterval(message.expirySeconds());
-            m.setProperties(props);
-        }
-        CompletableFuture<Void> result = new CompletableFuture<>();
-        AtomicBoolean released = new AtomicBoolean();
-        Runnable release = () -> {
-            if (gated && released.compareAndSet(false, true)) {
-                inflight.release();
-            }
-        };
-        try {
-            client.publish(message.topic(), m, null, new MqttActionListener() {
-                @Override
-                public void onSuccess(IMqttToken token) {
-                    release.run();
-                    counters.onSent();
-                    result.complete(null);
-                }
-
-                @Override
-                public void onFailure(IMqttToken token, Throwable e) {
-                    release.run();
-                    fail(result, reasonOf(e), "publish to " + message.topic() + " failed: " + e.getMessage(), e);
-                }
-            });
-        } catch (MqttException | RuntimeException e) {
-            release.run();
-            fail(result, reasonOf(e), "publish to " + message.topic() + " refused: " + e.getMessage(), e);
-        }
-        return result;
-    }
-
-    /** Maps Paho's reason codes onto the bus's reasons. */
-    static Reason reasonOf(Throwable e) {
-        if (e instanceof MqttException me) {
-            switch (me.getReasonCode()) {
-                case MqttClientException.REASON_CODE_MAX_INFLIGHT: // 32202 too many publishes in progress
-                case MqttClientException.REASON_CODE_NO_MESSAGE_IDS_AVAILABLE: // 32001
-                    return Reason.BACK_PRESSURE;
-                case MqttClientException.REASON_CODE_CLIENT_NOT_CONNECTED: // 32104
-                case MqttClientException.REASON_CODE_CONNECTION_LOST: // 32109
-                case MqttClientException.REASON_CODE_CLIENT_DISCONNECTING: // 32102
-                case MqttClientException.REASON_CODE_SERVER_DISCONNECTED: // 32204
-                    return Reason.NOT_CONNECTED;
-                case MqttClientException.REASON_CODE_CLIENT_CLOSED:
-                    return Reason.CLOSED;
-                case MqttClientException.REASON_CODE_CLIENT_TIMEOUT:
-                    return Reason.TIMEOUT;
-                default:
-                    return me.getReasonCode() >= 0x80 && me.getReasonCode() <= 0xFF
-                            ? Reason.REFUSED_BY_BROKER : Reason.TRANSPORT_ERROR;
-            }
-        }
-        return Reason.TRANSPORT_ERROR;
-    }
-
-    private CompletableFuture<Void> failed(Reason reason, String text, Throwable cause) {
-        CompletableFuture<Void> f = new CompletableFuture<>();
-        fail(f, reason, text, cause);
-        return f;
-    }
-
-    private void fail(CompletableFuture<Void> f, Reason reason, String text, Throwable cause) {
-        counters.onSendFailed();
-        failures.get(reason).increment();
-        f.completeExceptionally(new BusException(reason, config.clientId() + ": " + text, cause));
+        return publisher.publish(message, closed.get());
     }
 
     /**

@@ -45,14 +45,14 @@ class MqttLinkTest {
 
     @Test
     void shouldTreatPahoInflightAndMessageIdExhaustionAsBackPressure() {
-        assertThat(MqttLink.reasonOf(new MqttException(MqttClientException.REASON_CODE_MAX_INFLIGHT)))
+        assertThat(LinkPublisher.reasonOf(new MqttException(MqttClientException.REASON_CODE_MAX_INFLIGHT)))
                 .isEqualTo(Reason.BACK_PRESSURE);
-        assertThat(MqttLink.reasonOf(new MqttException(MqttClientException.REASON_CODE_NO_MESSAGE_IDS_AVAILABLE)))
+        assertThat(LinkPublisher.reasonOf(new MqttException(MqttClientException.REASON_CODE_NO_MESSAGE_IDS_AVAILABLE)))
                 .isEqualTo(Reason.BACK_PRESSURE);
-        assertThat(MqttLink.reasonOf(new MqttException(MqttClientException.REASON_CODE_CLIENT_NOT_CONNECTED)))
+        assertThat(LinkPublisher.reasonOf(new MqttException(MqttClientException.REASON_CODE_CLIENT_NOT_CONNECTED)))
                 .isEqualTo(Reason.NOT_CONNECTED);
         // 0x87 Not authorized is a PUBACK reason code (MQTT 5 §3.4.2.1, from memory).
-        assertThat(MqttLink.reasonOf(new MqttException(0x87))).isEqualTo(Reason.REFUSED_BY_BROKER);
+        assertThat(LinkPublisher.reasonOf(new MqttException(0x87))).isEqualTo(Reason.REFUSED_BY_BROKER);
     }
 
     @Test
