@@ -15,6 +15,7 @@ import java.util.List;
 import java.util.Map;
 import java.util.Optional;
 import java.util.TreeMap;
+import org.loopstand.protocol.message.Ids;
 
 /**
  * The command keys of a site: per unit, key id → {@link UnitKey}. Immutable and thread-safe.
@@ -87,6 +88,11 @@ public final class KeyRing {
             String name = line.substring(0, eq).strip();
             String value = line.substring(eq + 1).strip();
             String[] parts = name.split("\\.", -1);
+            if (parts.length < 2 || parts.length > 3 || !Ids.isValid(parts[0]) || !Ids.isValid(parts[1])) {
+                // The name is not echoed: a line missing its '=' may hold key material here.
+                throw new IllegalArgumentException(where + ": expected 'unit.keyId = base64' or "
+                        + "'unit.keyId.validFrom|validUntil = time' with ids matching " + Ids.PATTERN.pattern());
+            }
             if (parts.length == 2) {
                 String id = parts[0] + "." + parts[1];
                 if (secrets.containsKey(id)) {
