@@ -17,13 +17,19 @@ final class StudyLoop {
     final GridSimulator sim;
     final StudyPlantAdapter plant;
     final ControllerAgent agent;
+    final TestBus.Connection controllerLink;
 
     StudyLoop(GridSimulator sim, ControllerSiteConfig config) {
         this.sim = sim;
         this.plant = new StudyPlantAdapter(sim, broker.connect("plant"), clock);
-        this.agent = new ControllerAgent(config, broker.connect("controller"), clock, null, "controller-1", START_MS,
+        this.controllerLink = broker.connect("controller");
+        this.agent = new ControllerAgent(config, controllerLink, clock, null, "controller-1", START_MS,
                 null, null);
         agent.onStart();
+    }
+
+    static TestBus.Connection controllerConnection(StudyLoop loop) {
+        return loop.controllerLink;
     }
 
     /** Runs until {@code untilS} of virtual time. */

@@ -48,6 +48,10 @@ final class StudyPlantAdapter {
     private final Map<String, Double> setpointTarget = new HashMap<>();
     private long seq;
     final List<UnitCommand> accepted = new ArrayList<>();
+    /** areas whose meter stops publishing (fault injection in tests) */
+    final java.util.Set<String> silentAreas = new java.util.HashSet<>();
+    /** offset added to a tie flow as reported by the named area's meter, MW (a data error) */
+    final Map<String, Double> tieErrorMwByArea = new HashMap<>();
     int refused;
 
     StudyPlantAdapter(GridSimulator sim, MessageBus bus, Clock clock) {
@@ -114,11 +118,15 @@ final class StudyPlantAdapter {
     void publishScan() {
         long now = clock.epochMillis();
         for (Area a : sim.grid().areas()) {
+            if (silentAreas.contains(a.id())) {
+                continue;
+            }
             List<TieFlow> flows = new ArrayList<>();
             for (TieLine t : sim.grid().ties()) {
                 if (t.fromArea().equals(a.id()) || t.toArea().equals(a.id())) {
                     double sign = t.fromArea().equals(a.id()) ? 1 : -1;
-                    flows.add(new TieFlow(t.id(), sign * sim.tieFlowMw(t.id()), Quality.GOOD));
+                    flows.add(new TieFlow(t.id(), sign * sim.tieFlowMw(t.id())
+                            + tieErrorMwByArea.getOrDefault(a.id(), 0.0), Quality.GOOD));
                 }
             }
             AreaMeter m = new AreaMeter(++seq, now, a.id(), a.id() + "-m1", sim.frequencyHz(a.id()), Quality.GOOD,
