@@ -7,7 +7,6 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.List;
-import java.util.Locale;
 import java.util.Set;
 import java.util.function.Supplier;
 import org.loopstand.controller.ace.AceConvention;
@@ -28,6 +27,8 @@ import org.loopstand.controller.safety.InterlockSettings;
 public final class ControllerSiteReader {
     private final List<String> problems = new ArrayList<>();
     private final LocatedYaml yaml;
+    /** every area id written in the file, also of areas refused for another reason */
+    private final Set<String> declaredAreas = new HashSet<>();
 
     private ControllerSiteReader(LocatedYaml yaml) {
         this.yaml = yaml;
@@ -68,8 +69,8 @@ public final class ControllerSiteReader {
             String from = t.requiredString("fromArea");
             String to = t.requiredString("toArea");
             double sched = t.dbl("scheduledFlowMw", 0.0);
-            checkArea(t, "fromArea", from, areaIds);
-            checkArea(t, "toArea", to, areaIds);
+            checkArea(t, "fromArea", from, declaredAreas);
+            checkArea(t, "toArea", to, declaredAreas);
             if (id != null && from != null && to != null) {
                 ties.add(new SiteTie(id, from, to, sched));
             }
@@ -78,7 +79,7 @@ public final class ControllerSiteReader {
         for (Section u : site.list("units", false)) {
             String id = u.requiredString("id");
             String area = u.requiredString("area");
-            checkArea(u, "area", area, areaIds);
+            checkArea(u, "area", area, declaredAreas);
             double rating = u.dbl("ratingMw", Double.NaN);
             double min = u.dbl("regulatingMinMw", u.dbl("minOutputMw", 0.0));
             double max = u.dbl("regulatingMaxMw", u.dbl("maxOutputMw", Double.isNaN(rating) ? Double.NaN : rating));
@@ -101,6 +102,9 @@ public final class ControllerSiteReader {
 
     private SiteArea readArea(Section a) {
         String id = a.requiredString("id");
+        if (id != null) {
+            declaredAreas.add(id);
+        }
         double f0 = a.requiredDouble("nominalFrequencyHz");
         String conv = a.string("aceConvention", "european");
         AceConvention convention;
@@ -254,7 +258,7 @@ public final class ControllerSiteReader {
             builder.get();
             return true;
         } catch (IllegalArgumentException e) {
-            s.fail(e.getMessage().toLowerCase(Locale.ROOT).isEmpty() ? "invalid" : e.getMessage());
+            s.fail(e.getMessage());
             return false;
         }
     }
