@@ -1,0 +1,25 @@
+package org.loopstand.protocol.message;
+
+import java.util.List;
+import java.util.Objects;
+
+/**
+ * The controller's state, published each cycle and retained; the offline form is its last will.
+ *
+ * @param seq          per-controller sequence number, ≥ 0
+ * @param sourceTime   epoch ms at the controller, &gt; 0
+ * @param controllerId controller id
+ * @param epoch        controller epoch, ≥ 0
+ * @param state        regulating, suspended, off or offline
+ * @param reasons      why it is not regulating (free text, each 1 to 256 characters), may be empty
+ * @param cycle        control cycle count, ≥ 0
+ * @param areas        ACE of each area (area ids unique)
+ */
+public record ControllerStatus(long seq, long sourceTime, String controllerId, long epoch, ControllerState state,
+        List<String> reasons, long cycle, List<AreaAce> areas) {
+    public ControllerStatus {
+        Objects.requireNonNull(controllerId, "controllerId");
+        reasons = List.copyOf(reasons);
+        areas = List.copyOf(areas);
+    }
+}
