@@ -36,6 +36,7 @@ public final class UnitHost {
     /** @return work done (messages handled + telemetry published) */
     public int work() {
         int work = 0;
+        link.announceIfDue();
         for (byte[] s; (s = link.pollStatus()) != null; work++) {
             Decoded<ControllerStatus> d = codec.decode(s, ControllerStatus.class);
             d.message().ifPresent(unit::onControllerStatus);

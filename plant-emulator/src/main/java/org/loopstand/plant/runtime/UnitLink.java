@@ -41,6 +41,7 @@ public final class UnitLink implements UnitOutput {
     private final LongAdder dropped = new LongAdder();
     private final LongAdder sendFailed = new LongAdder();
     private volatile boolean failed;
+    private final java.util.concurrent.atomic.AtomicBoolean announceDue = new java.util.concurrent.atomic.AtomicBoolean(true);
 
     public UnitLink(String unitId, MessageBus bus, TopicTree topics, MessageCodec codec, Clock clock,
                     Qos telemetryQos, int commandQueueCapacity) {
@@ -56,6 +57,10 @@ public final class UnitLink implements UnitOutput {
 
     public String unitId() {
         return unitId;
+    }
+
+    public String site() {
+        return topics.site();
     }
 
     public MessageBus bus() {
@@ -104,6 +109,18 @@ public final class UnitLink implements UnitOutput {
     /** Publishes the retained link state of this unit (online unless the link is cut). */
     public void announce() {
         publishLink(failed ? LinkState.OFFLINE : LinkState.ONLINE);
+    }
+
+    /** Any thread (e.g. a connection listener): asks for the link state to be published again. */
+    public void requestAnnounce() {
+        announceDue.set(true);
+    }
+
+    /** Owner thread: publishes the link state when asked to and connected (retained state after a reconnect). */
+    public void announceIfDue() {
+        if (bus.isConnected() && announceDue.compareAndSet(true, false)) {
+            announce();
+        }
     }
 
     /** @return the message to register as this unit's last will (offline, retained) */
