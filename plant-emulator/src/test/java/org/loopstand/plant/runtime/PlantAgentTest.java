@@ -1,0 +1,123 @@
+package org.loopstand.plant.runtime;
+
+import static org.assertj.core.api.Assertions.assertThat;
+import static org.assertj.core.api.Assertions.within;
+
+import java.nio.file.Path;
+import java.util.List;
+import java.util.Map;
+import java.util.Set;
+
+import org.junit.jupiter.api.Test;
+import org.loopstand.plant.grid.Grid;
+import org.loopstand.plant.meter.MeterSettings;
+import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.plant.site.SiteLoader;
+import org.loopstand.plant.unit.InterfaceOptions;
+import org.loopstand.protocol.bus.OutboundMessage;
+import org.loopstand.protocol.bus.Qos;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.message.AckOutcome;
+import org.loopstand.protocol.message.AreaMeter;
+import org.loopstand.protocol.message.CommandAck;
+import org.loopstand.protocol.message.LinkState;
+import org.loopstand.protocol.message.LinkStatus;
+import org.loopstand.protocol.message.PulseDirection;
+import org.loopstand.protocol.message.UnitCommand;
+import org.loopstand.protocol.message.UnitTelemetry;
+import org.loopstand.protocol.time.VirtualClock;
+import org.loopstand.protocol.topic.TopicTree;
+
+/** The plant loop on a virtual clock and a loopback bus: deterministic, no broker. */
+class PlantAgentTest {
+    static final Path SITE = Path.of("..", "config", "sites", "demo-site.yaml");
+    final MessageCodec codec = new MessageCodec();
+    final VirtualClock clock = new VirtualClock(1_700_000_000_000L);
+    final LoopbackBroker broker = new LoopbackBroker();
+    final TopicTree topics = TopicTree.forSite("demo-site");
+
+    PlantRunner plant(ConnectionGrouping grouping, Set<String> remote) throws Exception {
+        Grid grid = SiteLoader.load(SITE);
+        GridSimulator sim = new GridSimulator(grid);
+        List<MeterSettings> meters = List.of(MeterSettings.defaults("north-basin"),
+                MeterSettings.defaults("south-ridge").withScanPeriodMs(1_000));
+        PlantOptions o = new PlantOptions(1, remote, grouping, 2, meters,
+                InterfaceOptions.defaults().withTelemetryScanMs(2_000, Map.of("ridge-hydro-1", 500L)),
+                Qos.AT_MOST_ONCE, 256, 7, 1.0);
+        return new PlantRunner(sim, List.of(), o, broker, clock, s -> { });
+    }
+
+    void run(PlantRunner p, double s) {
+        for (long i = 0, n = Math.round(s / 0.01); i < n; i++) {
+            clock.advanceMillis(10);
+            p.agent().doWork();
+        }
+    }
+
+    void send(UnitCommand c) {
+        broker.publish(OutboundMessage.of(topics.unitCommand(c.unit()), codec.encode(c), Qos.AT_LEAST_ONCE));
+    }
+
+    <T> List<T> decoded(String topic, Class<T> type) {
+        return broker.on(topic).stream().map(m -> codec.decode(m.payload(), type).message().orElseThrow()).toList();
+    }
+
+    @Test
+    void shouldPublishMetersAndTelemetryOnTheirOwnScanPeriods() throws Exception {
+        try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of())) {
+            run(p, 20);
+            List<AreaMeter> north = decoded(topics.areaMeter("north-basin", "main"), AreaMeter.class);
+            List<AreaMeter> south = decoded(topics.areaMeter("south-ridge", "main"), AreaMeter.class);
+            assertThat(north).hasSize(11);   // t = 0, 2, ... 20 s
+            assertThat(south).hasSize(21);   // every 1 s
+            assertThat(north.get(2).sourceTime() - north.get(1).sourceTime()).isEqualTo(2_000);
+            AreaMeter last = north.get(north.size() - 1);
+            assertThat(last.frequencyHz()).isCloseTo(50, within(0.2));
+            assertThat(last.ties()).hasSize(1);
+            // north-basin is the tie's from-area: export ≈ scheduled 100 MW
+            assertThat(last.netInterchangeMw()).isCloseTo(100, within(30.0));
+            assertThat(south.get(south.size() - 1).netInterchangeMw()).isCloseTo(-100, within(30.0));
+            assertThat(decoded(topics.unitTelemetry("basin-steam-1"), UnitTelemetry.class)).hasSize(11);
+            assertThat(decoded(topics.unitTelemetry("ridge-hydro-1"), UnitTelemetry.class)).hasSize(41);
+            assertThat(decoded(topics.unitLink("basin-gas-1"), LinkStatus.class).get(0).state()).isEqualTo(LinkState.ONLINE);
+        }
+    }
+
+    @Test
+    void shouldMoveTheTurbinesReferenceByPulseRateTimesDuration() throws Exception {
+        try (PlantRunner p = plant(ConnectionGrouping.POOLED, Set.of())) {
+            run(p, 240); // the demo site starts off balance: let the governors settle first
+            double before = p.sim().loadReferenceMw("basin-steam-1");
+            long now = clock.epochMillis();
+            send(UnitCommand.pulse(1, now, "basin-steam-1", "controller-1", 0, now + 8_000, PulseDirection.RAISE, 4_000));
+            run(p, 6);
+            // 18 MW/min × 4 s = 1.2 MW
+            assertThat(p.sim().loadReferenceMw("basin-steam-1") - before).isCloseTo(1.2, within(1e-9));
+            assertThat(decoded(topics.unitAck("basin-steam-1"), CommandAck.class)).singleElement()
+                    .extracting(CommandAck::outcome).isEqualTo(AckOutcome.ACCEPTED);
+            assertThat(p.host("basin-steam-1").unit().latency().toOutputUs().getTotalCount()).isEqualTo(1);
+        }
+    }
+
+    @Test
+    void shouldCutOneUnitsLinkAloneInASharedConnection() throws Exception {
+        try (PlantRunner p = plant(ConnectionGrouping.PER_PLANT, Set.of())) {
+            run(p, 1);
+            broker.publish(OutboundMessage.of(topics.faults(), codec.encode(new org.loopstand.protocol.message.FaultOrder(
+                    1, clock.epochMillis(), "cut-1", org.loopstand.protocol.message.FaultAction.START, "unitLinkDown",
+                    List.of("basin-steam-2"), Map.of(), null)), Qos.AT_LEAST_ONCE));
+            run(p, 0.1);
+            int telemetryBefore = broker.on(topics.unitTelemetry("basin-steam-2")).size();
+            int otherBefore = broker.on(topics.unitTelemetry("basin-steam-1")).size();
+            long now = clock.epochMillis();
+            send(UnitCommand.pulse(1, now, "basin-steam-2", "controller-1", 0, now + 8_000, PulseDirection.RAISE, 1_000));
+            run(p, 6);
+            assertThat(broker.on(topics.unitTelemetry("basin-steam-2"))).hasSize(telemetryBefore);
+            assertThat(broker.on(topics.unitTelemetry("basin-steam-1")).size()).isGreaterThan(otherBefore);
+            assertThat(broker.on(topics.unitAck("basin-steam-2"))).isEmpty();
+            List<LinkStatus> link = decoded(topics.unitLink("basin-steam-2"), LinkStatus.class);
+            assertThat(link.get(link.size() - 1).state()).isEqualTo(LinkState.OFFLINE);
+            assertThat(link.get(link.size() - 1).clientId()).isEqualTo("demo-site-gateway-north-basin");
+        }
+    }
+}
