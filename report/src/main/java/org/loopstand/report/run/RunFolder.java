@@ -1,0 +1,114 @@
+package org.loopstand.report.run;
+
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Collections;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.OptionalDouble;
+import java.util.function.Predicate;
+import java.util.stream.Stream;
+import org.loopstand.protocol.journal.JournalEntry;
+import org.loopstand.protocol.journal.JournalReader;
+import org.loopstand.protocol.journal.JournalSummary;
+import org.loopstand.report.model.TimeSeries;
+
+/**
+ * A run folder ({@code runs/<timestamp>-<scenario>/}) read back: every {@code *.jsonl} journal in it,
+ * by process name, with helpers to pull time series out for the report.
+ *
+ * @param folder   the run folder
+ * @param journals process name → contents, in file name order
+ */
+public record RunFolder(Path folder, Map<String, JournalReader.Contents> journals) {
+
+    /**
+     * Reads every {@code *.jsonl} file in the folder.
+     *
+     * @param folder a run folder
+     * @return the journals
+     * @throws IllegalArgumentException when the folder holds no journal
+     */
+    public static RunFolder read(Path folder) {
+        Map<String, JournalReader.Contents> journals = new LinkedHashMap<>();
+        try (Stream<Path> files = Files.list(folder)) {
+            for (Path p : files.filter(f -> f.getFileName().toString().endsWith(".jsonl")).sorted().toList()) {
+                JournalReader.Contents c = JournalReader.readAll(p);
+                String name = p.getFileName().toString();
+                journals.put(name.substring(0, name.length() - ".jsonl".length()), c);
+            }
+        } catch (IOException e) {
+            throw new UncheckedIOException("cannot list run folder " + folder + ": " + e.getMessage(), e);
+        }
+        if (journals.isEmpty()) {
+            throw new IllegalArgumentException("run folder " + folder + " holds no *.jsonl journal");
+        }
+        return new RunFolder(folder, Collections.unmodifiableMap(journals));
+    }
+
+    /** @return true when any journal lacks its end entry */
+    public boolean cutShort() {
+        return journals.values().stream().anyMatch(c -> c.summary().cutShort());
+    }
+
+    /** @return one line per journal that was cut short, torn or damaged; empty when all are clean */
+    public List<String> problems() {
+        List<String> out = new ArrayList<>();
+        journals.forEach((name, c) -> {
+            JournalSummary s = c.summary();
+            if (s.cutShort() || s.tornTail() || !s.damagedLines().isEmpty()) {
+                out.add(name + ".jsonl: " + s.describe());
+            }
+        });
+        return out;
+    }
+
+    /** @return earliest header start time over the journals, epoch ms; −1 when none */
+    public long startedAtMs() {
+        return journals.values().stream().map(JournalReader.Contents::summary)
+                .flatMap(s -> s.header().stream()).mapToLong(h -> h.path("startedAt").asLong(Long.MAX_VALUE))
+                .min().orElse(-1);
+    }
+
+    /** @return latest entry time over the journals, epoch ms */
+    public long endedAtMs() {
+        return journals.values().stream().mapToLong(c -> c.summary().end().map(JournalEntry::tMs)
+                .orElse(c.summary().lastEntryTimeMs())).max().orElse(-1);
+    }
+
+    /**
+     * Pulls a numeric field out of one process's entries as a series.
+     *
+     * @param process journal name, e.g. {@code plant}
+     * @param kind    entry kind, e.g. {@code truth}
+     * @param filter  which entries of that kind (e.g. {@code e -> "north".equals(e.text("area"))})
+     * @param field   numeric field, e.g. {@code frequencyHz}
+     * @param name    series name
+     * @param unit    series unit
+     * @return the series; entries without the field are skipped
+     */
+    public TimeSeries series(String process, String kind, Predicate<JournalEntry> filter, String field, String name,
+            String unit) {
+        JournalReader.Contents c = journals.get(process);
+        if (c == null) {
+            throw new IllegalArgumentException("run " + folder + " has no journal '" + process + "' (has "
+                    + journals.keySet() + ")");
+        }
+        List<JournalEntry> picked = c.entries().stream().filter(e -> e.kind().equals(kind)).filter(filter).toList();
+        long[] t = new long[picked.size()];
+        double[] v = new double[picked.size()];
+        int n = 0;
+        for (JournalEntry e : picked) {
+            OptionalDouble x = e.number(field);
+            if (x.isPresent()) {
+                t[n] = e.tMs();
+                v[n++] = x.getAsDouble();
+            }
+        }
+        return new TimeSeries(name, unit, java.util.Arrays.copyOf(t, n), java.util.Arrays.copyOf(v, n));
+    }
+}
