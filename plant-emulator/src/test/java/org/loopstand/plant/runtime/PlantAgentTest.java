@@ -14,7 +14,12 @@ import org.loopstand.plant.meter.MeterSettings;
 import org.loopstand.plant.physics.GridSimulator;
 import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.plant.unit.InterfaceOptions;
+import org.loopstand.protocol.bus.InboundMessage;
 import org.loopstand.protocol.bus.OutboundMessage;
+import org.loopstand.protocol.bus.memory.DeliveryMode;
+import org.loopstand.protocol.bus.memory.InMemoryBroker;
+import org.loopstand.protocol.bus.memory.InMemoryBus;
+import org.loopstand.protocol.testing.Inbox;
 import org.loopstand.protocol.bus.Qos;
 import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.AckOutcome;
@@ -28,13 +33,19 @@ import org.loopstand.protocol.message.UnitTelemetry;
 import org.loopstand.protocol.time.VirtualClock;
 import org.loopstand.protocol.topic.TopicTree;
 
-/** The plant loop on a virtual clock and a loopback bus: deterministic, no broker. */
+/** The plant loop on a virtual clock and the in-memory bus: deterministic, no broker. */
 class PlantAgentTest {
     static final Path SITE = Path.of("..", "config", "sites", "demo-site.yaml");
     final MessageCodec codec = new MessageCodec();
     final VirtualClock clock = new VirtualClock(1_700_000_000_000L);
-    final LoopbackBroker broker = new LoopbackBroker();
+    final InMemoryBroker broker = new InMemoryBroker(clock, DeliveryMode.DIRECT);
     final TopicTree topics = TopicTree.forSite("demo-site");
+    final Inbox inbox = new Inbox();
+    final InMemoryBus tester = broker.connect("tester");
+
+    {
+        tester.subscribe(topics.filterEverything(), Qos.AT_LEAST_ONCE, inbox);
+    }
 
     PlantRunner plant(ConnectionGrouping grouping, Set<String> remote) throws Exception {
         Grid grid = SiteLoader.load(SITE);
@@ -44,7 +55,7 @@ class PlantAgentTest {
         PlantOptions o = new PlantOptions(1, remote, grouping, 2, meters,
                 InterfaceOptions.defaults().withTelemetryScanMs(2_000, Map.of("ridge-hydro-1", 500L)),
                 Qos.AT_MOST_ONCE, 256, 7, 1.0);
-        return new PlantRunner(sim, List.of(), o, broker, clock, s -> { });
+        return new PlantRunner(sim, List.of(), o, broker::connect, clock, s -> { });
     }
 
     void run(PlantRunner p, double s) {
@@ -54,12 +65,16 @@ class PlantAgentTest {
         }
     }
 
+    List<InboundMessage> on(String topic) {
+        return inbox.messages().stream().filter(m -> m.topic().equals(topic)).toList();
+    }
+
     void send(UnitCommand c) {
-        broker.publish(OutboundMessage.of(topics.unitCommand(c.unit()), codec.encode(c), Qos.AT_LEAST_ONCE));
+        tester.publish(OutboundMessage.of(topics.unitCommand(c.unit()), codec.encode(c), Qos.AT_LEAST_ONCE));
     }
 
     <T> List<T> decoded(String topic, Class<T> type) {
-        return broker.on(topic).stream().map(m -> codec.decode(m.payload(), type).message().orElseThrow()).toList();
+        return on(topic).stream().map(m -> codec.decode(m.payload(), type).message().orElseThrow()).toList();
     }
 
     @Test
@@ -105,18 +120,18 @@ class PlantAgentTest {
     void shouldCutOneUnitsLinkAloneInASharedConnection() throws Exception {
         try (PlantRunner p = plant(ConnectionGrouping.PER_PLANT, Set.of())) {
             run(p, 1);
-            broker.publish(OutboundMessage.of(topics.faults(), codec.encode(new org.loopstand.protocol.message.FaultOrder(
+            tester.publish(OutboundMessage.of(topics.faults(), codec.encode(new org.loopstand.protocol.message.FaultOrder(
                     1, clock.epochMillis(), "cut-1", org.loopstand.protocol.message.FaultAction.START, "unitLinkDown",
                     List.of("basin-steam-2"), Map.of(), null)), Qos.AT_LEAST_ONCE));
             run(p, 0.1);
-            int telemetryBefore = broker.on(topics.unitTelemetry("basin-steam-2")).size();
-            int otherBefore = broker.on(topics.unitTelemetry("basin-steam-1")).size();
+            int telemetryBefore = on(topics.unitTelemetry("basin-steam-2")).size();
+            int otherBefore = on(topics.unitTelemetry("basin-steam-1")).size();
             long now = clock.epochMillis();
             send(UnitCommand.pulse(1, now, "basin-steam-2", "controller-1", 0, now + 8_000, PulseDirection.RAISE, 1_000));
             run(p, 6);
-            assertThat(broker.on(topics.unitTelemetry("basin-steam-2"))).hasSize(telemetryBefore);
-            assertThat(broker.on(topics.unitTelemetry("basin-steam-1")).size()).isGreaterThan(otherBefore);
-            assertThat(broker.on(topics.unitAck("basin-steam-2"))).isEmpty();
+            assertThat(on(topics.unitTelemetry("basin-steam-2"))).hasSize(telemetryBefore);
+            assertThat(on(topics.unitTelemetry("basin-steam-1")).size()).isGreaterThan(otherBefore);
+            assertThat(on(topics.unitAck("basin-steam-2"))).isEmpty();
             List<LinkStatus> link = decoded(topics.unitLink("basin-steam-2"), LinkStatus.class);
             assertThat(link.get(link.size() - 1).state()).isEqualTo(LinkState.OFFLINE);
             assertThat(link.get(link.size() - 1).clientId()).isEqualTo("demo-site-gateway-north-basin");
