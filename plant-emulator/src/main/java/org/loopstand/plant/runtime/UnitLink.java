@@ -24,6 +24,7 @@ import org.loopstand.protocol.topic.TopicTree;
  * ({@link #setFailed}) cuts this unit alone: nothing in, nothing out, link topic says offline.
  */
 public final class UnitLink implements UnitOutput {
+    private static final org.slf4j.Logger LOG = org.slf4j.LoggerFactory.getLogger(UnitLink.class);
     /** A command as it came off the bus. */
     public record Received(byte[] payload, long receivedNanos) {
     }
@@ -98,12 +99,25 @@ public final class UnitLink implements UnitOutput {
 
     @Override
     public void telemetry(UnitTelemetry t) {
-        send(new OutboundMessage(topics.unitTelemetry(unitId), codec.encode(t), telemetryQos, false, 0));
+        send(topics.unitTelemetry(unitId), t, telemetryQos);
     }
 
     @Override
     public void ack(CommandAck a) {
-        send(OutboundMessage.of(topics.unitAck(unitId), codec.encode(a), Qos.AT_LEAST_ONCE));
+        send(topics.unitAck(unitId), a, Qos.AT_LEAST_ONCE);
+    }
+
+    private void send(String topic, Object message, Qos qos) {
+        byte[] payload;
+        try {
+            payload = codec.encode(message);
+        } catch (IllegalArgumentException e) {
+            // a bug upstream must not stop the plant loop; count and log it
+            sendFailed.increment();
+            LOG.error("{}: not sent, the codec refused it: {}", unitId, e.getMessage());
+            return;
+        }
+        send(new OutboundMessage(topic, payload, qos, false, 0));
     }
 
     /** Publishes the retained link state of this unit (online unless the link is cut). */

@@ -189,7 +189,7 @@ public final class UnitPlantInterface {
     public UnitTelemetry telemetry() {
         boolean ready = field.ready();
         Quality q = ready ? Quality.GOOD : Quality.of(Validity.INVALID, QualityFlag.FAILURE);
-        double setpoint = motion != null ? motion.referenceMw() : field.loadReferenceMw();
+        double setpoint = motion != null ? motion.referenceMw() : ready ? field.loadReferenceMw() : 0.0;
         return new UnitTelemetry(seq++, clock.epochMillis(), settings.unitId(), ready ? field.outputMw() : 0.0, q,
                 setpoint, ready ? field.status() : UnitStatus.OFFLINE, mode, settings.regulatingMinMw(),
                 settings.regulatingMaxMw(), settings.rampMwPerMin(), settings.pulseRateMwPerMin(),

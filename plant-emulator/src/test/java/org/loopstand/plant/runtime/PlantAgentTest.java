@@ -137,4 +137,26 @@ class PlantAgentTest {
             assertThat(link.get(link.size() - 1).clientId()).isEqualTo("demo-site-gateway-north-basin");
         }
     }
+
+    @Test
+    void shouldKeepSteppingAndServeOtherUnitsThroughACommandFlood() throws Exception {
+        try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of())) {
+            run(p, 1);
+            long steps = p.sim().stepCount();
+            long now = clock.epochMillis();
+            // 10,000 commands land at one unit within one cycle: the bus thread never blocks
+            for (int i = 1; i <= 10_000; i++) {
+                send(UnitCommand.pulse(i, now, "basin-gas-1", "controller-1", 0, now + 8_000, PulseDirection.LOWER, 10));
+            }
+            send(UnitCommand.pulse(1, now, "basin-steam-1", "controller-1", 0, now + 8_000, PulseDirection.RAISE, 1_000));
+            run(p, 1);
+            // 1 s at the demo site's 20 ms step = 50 steps, as without the flood
+            assertThat(p.sim().stepCount() - steps).isEqualTo(50);
+            UnitHost flooded = p.host("basin-gas-1");
+            assertThat(flooded.link().overflowCount()).isEqualTo(10_000 - 256);
+            assertThat(flooded.unit().acceptedCount()).isEqualTo(256);
+            assertThat(p.host("basin-steam-1").unit().acceptedCount()).isEqualTo(1);
+            assertThat(p.journal().entries()).anyMatch(e -> e.kind().equals("overflow") && e.unit().equals("basin-gas-1"));
+        }
+    }
 }

@@ -39,7 +39,6 @@ import org.loopstand.protocol.message.UnitTelemetry;
 import org.loopstand.protocol.testing.Inbox;
 import org.loopstand.protocol.testing.Mosquitto;
 import org.loopstand.protocol.time.WallClock;
-import org.loopstand.protocol.topic.TopicKind;
 import org.loopstand.protocol.topic.TopicTree;
 
 /** The plant in real time against the embedded broker and the system Mosquitto. */
@@ -144,7 +143,7 @@ class PlantOverMqttTest {
             long s = now;
             String c = "controller-1";
             // a newer epoch first, so epoch 0 is old afterwards; then the refusals, one per reason
-            send(r, UnitCommand.pulse(s, now, UNIT, c, 5, now + 8_000, PulseDirection.RAISE, 0 + 1));
+            send(r, UnitCommand.pulse(s, now, UNIT, c, 5, now + 8_000, PulseDirection.RAISE, 1));
             List<UnitCommand> bad = List.of(
                     UnitCommand.pulse(s + 1, now - 9_000, UNIT, c, 5, now - 1_000, PulseDirection.RAISE, 1_000),     // expired
                     UnitCommand.pulse(s + 1, now, UNIT, c, 5, now + 8_000, PulseDirection.RAISE, 1_000),               // duplicate
@@ -177,9 +176,5 @@ class PlantOverMqttTest {
                     RefusalReason.DUPLICATE, RefusalReason.NOT_IN_REMOTE, RefusalReason.MALFORMED));
             assertThat(r.plant().journal().entries()).filteredOn(e -> e.kind().equals("refused")).hasSize(8);
         }
-    }
-
-    static String filterOf(TopicTree t) {
-        return t.filterAll(TopicKind.UNIT_LINK);
     }
 }

@@ -255,6 +255,10 @@ class UnitPlantInterfaceTest {
         UnitPlantInterface u = unit();
         receive(u, pulse(PulseDirection.RAISE, 1_000));
         assertThat(out.lastAck().reason()).isEqualTo(RefusalReason.UNIT_OFFLINE);
+        field.referenceMw = Double.NaN; // a remote field has no reference before its first reading
+        assertThat(u.telemetry().setpointMw()).isEqualTo(0.0);
+        assertThat(u.telemetry().outputQuality().validity()).isEqualTo(org.loopstand.protocol.message.Validity.INVALID);
+        assertThat(u.telemetry().status()).isEqualTo(UnitStatus.OFFLINE);
         field.referenceMw = 712.5;
         field.ready = true;
         run(u, 1);
