@@ -24,6 +24,7 @@ import org.loopstand.protocol.bus.Qos;
 import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.AckOutcome;
 import org.loopstand.protocol.message.AreaMeter;
+import org.loopstand.protocol.message.ClockTick;
 import org.loopstand.protocol.message.CommandAck;
 import org.loopstand.protocol.message.LinkState;
 import org.loopstand.protocol.message.LinkStatus;
@@ -47,15 +48,21 @@ class PlantAgentTest {
         tester.subscribe(topics.filterEverything(), Qos.AT_LEAST_ONCE, inbox);
     }
 
+    final List<String> warnings = new java.util.ArrayList<>();
+
     PlantRunner plant(ConnectionGrouping grouping, Set<String> remote) throws Exception {
+        return plant(grouping, remote, 1);
+    }
+
+    PlantRunner plant(ConnectionGrouping grouping, Set<String> remote, double rate) throws Exception {
         Grid grid = SiteLoader.load(SITE);
         GridSimulator sim = new GridSimulator(grid);
         List<MeterSettings> meters = List.of(MeterSettings.defaults("north-basin"),
                 MeterSettings.defaults("south-ridge").withScanPeriodMs(1_000));
-        PlantOptions o = new PlantOptions(1, remote, grouping, 2, meters,
+        PlantOptions o = new PlantOptions(rate, remote, grouping, 2, meters,
                 InterfaceOptions.defaults().withTelemetryScanMs(2_000, Map.of("ridge-hydro-1", 500L)),
                 Qos.AT_MOST_ONCE, 256, 7, 1.0);
-        return new PlantRunner(sim, List.of(), o, broker::connect, clock, s -> { });
+        return new PlantRunner(sim, List.of(), o, broker::connect, clock, warnings::add);
     }
 
     void run(PlantRunner p, double s) {
@@ -157,6 +164,41 @@ class PlantAgentTest {
             assertThat(flooded.unit().acceptedCount()).isEqualTo(256);
             assertThat(p.host("basin-steam-1").unit().acceptedCount()).isEqualTo(1);
             assertThat(p.journal().entries()).anyMatch(e -> e.kind().equals("overflow") && e.unit().equals("basin-gas-1"));
+        }
+    }
+
+    @Test
+    void shouldSayOnceThatItFellBehindAndCatchUpWithoutSlowingTheClock() throws Exception {
+        try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of())) {
+            run(p, 1);
+            assertThat(warnings).isEmpty();
+            clock.advanceMillis(3_000); // the loop was held up for 3 s
+            for (int i = 0; i < 3; i++) {
+                p.agent().doWork(); // 250 steps at most per cycle: 150 steps of 20 ms are due
+            }
+            assertThat(p.sim().timeS()).isCloseTo(4.0, within(1e-9));
+            assertThat(warnings).singleElement().asString().contains("falling behind the clock by 2.9");
+            clock.advanceMillis(3_000);
+            p.agent().doWork();
+            assertThat(warnings).hasSize(1);
+            assertThat(p.lateness().histogramUs().getMaxValue()).isGreaterThan(2_900_000L);
+        }
+    }
+
+    @Test
+    void shouldPublishTheScenarioClockWhenTheRateIsNotOne() throws Exception {
+        try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of(), 10)) {
+            run(p, 25);
+            List<ClockTick> ticks = decoded(topics.clock(), ClockTick.class);
+            // once per wall second = every 10 s of scenario time: t = 0.01, 10, 20 s
+            assertThat(ticks).hasSize(3);
+            assertThat(ticks).allSatisfy(t -> assertThat(t.rate()).isEqualTo(10));
+            assertThat(ticks.get(2).scenarioTimeMs()).isEqualTo(20_000);
+            assertThat(on(topics.clock()).get(0).retained()).isFalse(); // live delivery; the broker keeps it
+        }
+        try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of())) {
+            run(p, 5);
+            assertThat(on(topics.clock())).hasSize(3); // nothing more at rate 1
         }
     }
 }
