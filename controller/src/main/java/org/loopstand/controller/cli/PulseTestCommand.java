@@ -90,7 +90,7 @@ public final class PulseTestCommand implements Callable<Integer> {
                 return 4;
             }
             runner = new PulseTestRunner(link, clock, topics, unit, plan, fromTelemetry ? null : siteUnit.unit(), caps,
-                    epoch == null ? clock.epochMillis() / 1000 : epoch, new KeyAbortSwitch(System.in), 30);
+                    epoch == null ? clock.epochMillis() / 1000 : epoch, new KeyAbortSwitch(console), 30);
             o.printf(Locale.ROOT, "pulse-test: unit %s on %s, plan %s; caps %.1f MW, %.0f s. Type q and Enter to stop.%n",
                     unit, broker, plan.name(), caps.maxExcursionMw(), caps.maxDurationS());
             PulseTestRunner r = runner;
