@@ -1,0 +1,85 @@
+package org.loopstand.plant.scenario;
+
+import java.io.IOException;
+import java.io.Reader;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Optional;
+
+import org.loopstand.plant.grid.Grid;
+import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.plant.site.MappingReader;
+import org.loopstand.plant.site.YamlNode;
+
+/**
+ * Reads a scenario file and checks it against the site: keys {@code site, durationS, seed,
+ * startHourOfDay, traceIntervalS, stepS, events}; each event has {@code atS}, {@code type} and the
+ * type's own keys. Every problem is reported as {@code file:line:column: what}.
+ */
+public final class ScenarioLoader {
+    private ScenarioLoader() {
+    }
+
+    public static Scenario load(Path file, EventTypeRegistry registry, Grid grid) throws IOException {
+        try (Reader r = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
+            return load(file.toString(), r, registry, grid);
+        }
+    }
+
+    public static Scenario load(String fileName, Reader reader, EventTypeRegistry registry, Grid grid) throws IOException {
+        List<String> problems = new ArrayList<>();
+        MappingReader top = new MappingReader(YamlNode.read(fileName, reader), "the scenario", problems);
+        String site = top.requiredString("site");
+        if (site != null && !site.equals(grid.siteId())) {
+            problems.add(top.locationOf("site") + ": the scenario is for site '" + site + "' but the site file is '"
+                    + grid.siteId() + "'");
+        }
+        double durationS = top.requiredDouble("durationS");
+        if (!(durationS > 0) && !top.failed("durationS")) {
+            problems.add(top.locationOf("durationS") + ": durationS must be greater than 0 s, got " + durationS);
+        }
+        long seed = top.optionalLong("seed", 0L);
+        double startHour = top.optionalDouble("startHourOfDay", 0.0);
+        if (!(startHour >= 0 && startHour < 24)) {
+            problems.add(top.locationOf("startHourOfDay") + ": startHourOfDay must lie in [0, 24), got " + startHour);
+        }
+        double traceIntervalS = top.optionalDouble("traceIntervalS", 1.0);
+        if (!(traceIntervalS > 0)) {
+            problems.add(top.locationOf("traceIntervalS") + ": traceIntervalS must be greater than 0 s, got " + traceIntervalS);
+        }
+        double stepS = top.optionalDouble("stepS", Double.NaN);
+        List<ScenarioEvent> events = new ArrayList<>();
+        for (YamlNode n : top.sequence("events", false)) {
+            MappingReader e = new MappingReader(n, "event", problems);
+            double atS = e.requiredDouble("atS");
+            if (!(atS >= 0) && !e.failed("atS")) {
+                problems.add(e.locationOf("atS") + ": atS must be 0 or more, got " + atS);
+            }
+            String type = e.requiredString("type");
+            if (type == null) {
+                continue;
+            }
+            EventTypeRegistry.EventParser parser = registry.parser(type);
+            if (parser == null) {
+                problems.add(e.locationOf("type") + ": unknown event type '" + type + "'; known types: " + registry.types());
+                continue;
+            }
+            int before = problems.size();
+            ScenarioEvent event = parser.parse(atS, e);
+            e.finish();
+            if (problems.size() == before) {
+                Optional<String> wrong = event.check(grid);
+                wrong.ifPresent(w -> problems.add(e.location() + ": " + type + " event: " + w));
+                events.add(event);
+            }
+        }
+        top.finish();
+        if (!problems.isEmpty()) {
+            throw new ConfigFileException(problems);
+        }
+        return new Scenario(site, durationS, seed, startHour, traceIntervalS, stepS, events);
+    }
+}

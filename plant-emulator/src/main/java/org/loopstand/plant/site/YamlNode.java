@@ -1,0 +1,89 @@
+package org.loopstand.plant.site;
+
+import java.io.IOException;
+import java.io.Reader;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+
+import com.fasterxml.jackson.core.JsonLocation;
+import com.fasterxml.jackson.core.JsonParser;
+import com.fasterxml.jackson.core.JsonProcessingException;
+import com.fasterxml.jackson.core.JsonToken;
+import com.fasterxml.jackson.dataformat.yaml.YAMLFactory;
+
+/**
+ * A YAML document read into a small tree that remembers where every key and value came from, so a
+ * refusal can point at the line. Jackson's own tree forgets locations.
+ */
+public sealed interface YamlNode permits YamlNode.Mapping, YamlNode.Sequence, YamlNode.Scalar {
+    SourceLocation location();
+
+    /** A mapping; keys keep file order. */
+    record Mapping(SourceLocation location, Map<String, Entry> entries) implements YamlNode {
+    }
+
+    /** A key and its value; {@code keyLocation} is where the key is written. */
+    record Entry(SourceLocation keyLocation, YamlNode value) {
+    }
+
+    record Sequence(SourceLocation location, List<YamlNode> items) implements YamlNode {
+    }
+
+    /** A plain value; {@code token} tells number, string, boolean or null apart. */
+    record Scalar(SourceLocation location, String text, JsonToken token) implements YamlNode {
+    }
+
+    /**
+     * Reads one YAML document.
+     *
+     * @param fileName shown in messages
+     * @throws ConfigFileException on a syntax error or a duplicate key, with the location
+     */
+    static YamlNode read(String fileName, Reader reader) throws IOException {
+        try (JsonParser p = new YAMLFactory().createParser(reader)) {
+            JsonToken first = p.nextToken();
+            if (first == null) {
+                throw new ConfigFileException(List.of(fileName + ":1:1: the file is empty"));
+            }
+            return readValue(fileName, p);
+        } catch (JsonProcessingException e) {
+            JsonLocation l = e.getLocation();
+            String where = l == null ? fileName : fileName + ":" + l.getLineNr() + ":" + l.getColumnNr();
+            throw new ConfigFileException(List.of(where + ": not valid YAML: " + e.getOriginalMessage()));
+        }
+    }
+
+    private static YamlNode readValue(String file, JsonParser p) throws IOException {
+        SourceLocation at = locate(file, p);
+        JsonToken token = p.currentToken();
+        if (token == JsonToken.START_OBJECT) {
+            Map<String, Entry> entries = new LinkedHashMap<>();
+            while (p.nextToken() == JsonToken.FIELD_NAME) {
+                String key = p.currentName();
+                SourceLocation keyAt = locate(file, p);
+                p.nextToken();
+                YamlNode value = readValue(file, p);
+                if (entries.putIfAbsent(key, new Entry(keyAt, value)) != null) {
+                    throw new ConfigFileException(List.of(keyAt + ": key '" + key + "' appears twice (first at line "
+                            + entries.get(key).keyLocation().line() + ")"));
+                }
+            }
+            return new Mapping(at, entries);
+        }
+        if (token == JsonToken.START_ARRAY) {
+            List<YamlNode> items = new ArrayList<>();
+            while (p.nextToken() != JsonToken.END_ARRAY) {
+                items.add(readValue(file, p));
+            }
+            return new Sequence(at, items);
+        }
+        return new Scalar(at, p.getText(), token);
+    }
+
+    private static SourceLocation locate(String file, JsonParser p) {
+        JsonLocation l = p.currentTokenLocation();
+        return new SourceLocation(file, l.getLineNr(), l.getColumnNr());
+    }
+}
