@@ -28,7 +28,7 @@ public final class TargetCatalog {
 
     private TargetCatalog(String siteId, Set<String> areas, List<TieLine> tieLines, Set<String> units) {
         this.siteId = siteId;
-        this.areas = Set.copyOf(areas);
+        this.areas = java.util.Collections.unmodifiableSet(new LinkedHashSet<>(areas));
         this.tieLines = List.copyOf(tieLines);
         Set<String> t = new LinkedHashSet<>();
         tieLines.forEach(l -> t.add(l.id()));
@@ -103,7 +103,7 @@ public final class TargetCatalog {
     }
 
     private static String kindsText(Set<TargetKind> kinds) {
-        return kinds.stream().map(TargetKind::wireName).toList().toString();
+        return kinds.stream().sorted().map(TargetKind::wireName).toList().toString();
     }
 
     /** Either a target or a reason. */

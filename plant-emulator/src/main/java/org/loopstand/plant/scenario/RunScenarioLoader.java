@@ -167,6 +167,7 @@ public final class RunScenarioLoader {
                             + "' is neither an event type of this scenario nor a fault id (events: "
                             + events.stream().map(ScenarioEvent::type).distinct().toList() + ", faults: "
                             + faults.stream().map(FaultSpec::id).toList() + ")");
+                    return;
                 } else {
                     params.put("afterS", at);
                 }
