@@ -206,6 +206,12 @@ public final class MappingReader {
         String best = null;
         int bestDistance = Integer.MAX_VALUE;
         for (String k : known) {
+            // the usual slip: the unit suffix left off ("droop" for "droopPct")
+            if (k.toLowerCase(java.util.Locale.ROOT).startsWith(key.toLowerCase(java.util.Locale.ROOT))) {
+                return k;
+            }
+        }
+        for (String k : known) {
             int d = distance(key.toLowerCase(java.util.Locale.ROOT), k.toLowerCase(java.util.Locale.ROOT));
             if (d < bestDistance) {
                 bestDistance = d;

@@ -9,6 +9,7 @@ public final class BusCounters {
     private final LongAdder sent = new LongAdder();
     private final LongAdder sendFailed = new LongAdder();
     private final LongAdder reconnects = new LongAdder();
+    private final LongAdder dropped = new LongAdder();
 
     public void onReceived() {
         received.increment();
@@ -31,6 +32,14 @@ public final class BusCounters {
         reconnects.increment();
     }
 
+    /**
+     * A received message that never reached a listener: the receive queue was full (the application
+     * is too slow) or no subscription matched its topic.
+     */
+    public void onDropped() {
+        dropped.increment();
+    }
+
     public long received() {
         return received.sum();
     }
@@ -51,9 +60,13 @@ public final class BusCounters {
         return reconnects.sum();
     }
 
+    public long dropped() {
+        return dropped.sum();
+    }
+
     @Override
     public String toString() {
-        return "received=" + received() + " rejected=" + rejected() + " sent=" + sent()
+        return "received=" + received() + " rejected=" + rejected() + " dropped=" + dropped() + " sent=" + sent()
                 + " sendFailed=" + sendFailed() + " reconnects=" + reconnects();
     }
 }

@@ -1,0 +1,181 @@
+package org.loopstand.controller.cycle;
+
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Set;
+import org.loopstand.controller.ace.AceCalculator;
+import org.loopstand.controller.ace.AceInputs;
+import org.loopstand.controller.ace.AceResult;
+import org.loopstand.controller.allocation.Allocation;
+import org.loopstand.controller.allocation.RegulationAllocator;
+import org.loopstand.controller.allocation.TertiaryRedispatch;
+import org.loopstand.controller.allocation.UnitAllocation;
+import org.loopstand.controller.allocation.UnitState;
+import org.loopstand.controller.dispatch.InfeasibleDispatchException;
+import org.loopstand.controller.regulation.AceBand;
+import org.loopstand.controller.regulation.AreaRegulator;
+import org.loopstand.controller.regulation.RegulationResult;
+import org.loopstand.controller.safety.UsableValue;
+
+/**
+ * The per-area state of the cycle: ACE calculator, regulator, base points and optional tertiary
+ * re-dispatch. Used by {@link ControlCycle}; takes only {@link UsableValue}s, never raw values.
+ */
+final class AreaController {
+    private final AreaSetup setup;
+    private final AceCalculator ace;
+    private final AreaRegulator regulator;
+    private final RegulationAllocator allocator;
+    private final TertiaryRedispatch redispatch;
+    private final Map<String, Double> basePointsMw = new LinkedHashMap<>();
+    private final Map<String, Double> staticFactors = new HashMap<>();
+    private Set<String> lastEligible = Set.of();
+
+    AreaController(AreaSetup setup) {
+        this.setup = setup;
+        this.ace = new AceCalculator(setup.ace());
+        this.regulator = new AreaRegulator(setup.regulation());
+        this.allocator = new RegulationAllocator(setup.regulation().cycleS());
+        this.redispatch = setup.redispatchPeriodMs() > 0
+                ? new TertiaryRedispatch(setup.redispatchPeriodMs(), setup.redispatchRampShare(), setup.costs()) : null;
+        if (!setup.costs().isEmpty()) {
+            staticFactors.putAll(org.loopstand.controller.dispatch.ParticipationFactors
+                    .of(setup.costs(), Set.of()).factors());
+        }
+    }
+
+    String areaId() {
+        return setup.ace().areaId();
+    }
+
+    AceResult computeAce(UsableValue frequencyHz, List<UsableValue> tieFlowsMw, AreaSchedule schedule,
+                         double timeErrorS, double inadvertentAccumMwh) {
+        double ni = 0;
+        for (UsableValue t : tieFlowsMw) {
+            ni += t.value();
+        }
+        return ace.compute(new AceInputs(ni, schedule.netInterchangeScheduledMw(), frequencyHz.value(),
+                schedule.frequencyScheduledHz(), timeErrorS, inadvertentAccumMwh));
+    }
+
+    void suspend() {
+        regulator.suspend();
+    }
+
+    /** Bumpless resume: the regulator starts from where the eligible units are now. */
+    void resume(List<UnitState> eligible, double aceMw) {
+        for (UnitState u : eligible) {
+            basePointsMw.putIfAbsent(u.unitId(), u.setpointMw());
+        }
+        regulator.resume(currentLevelMw(eligible), aceMw);
+        lastEligible = idsOf(eligible);
+    }
+
+    private static Set<String> idsOf(List<UnitState> units) {
+        Set<String> ids = new java.util.TreeSet<>();
+        units.forEach(u -> ids.add(u.unitId()));
+        return ids;
+    }
+
+    /** One regulating cycle of this area. */
+    AreaCycleResult regulate(AceResult aceResult, List<UnitState> eligible, List<String> excluded, long nowMs,
+                             List<String> notes) {
+        for (UnitState u : eligible) {
+            basePointsMw.putIfAbsent(u.unitId(), u.setpointMw());
+        }
+        double baseMovedMw = redispatch != null ? tertiary(eligible, nowMs, notes) : 0;
+        Set<String> ids = idsOf(eligible);
+        if (ids.isEmpty()) {
+            notes.add("noEligibleUnits:" + areaId());
+            regulator.suspend();
+            lastEligible = ids;
+            return new AreaCycleResult(areaId(), aceResult, null, null);
+        }
+        if (!ids.equals(lastEligible)) {
+            // a unit left or joined: start from where the eligible units are, so nobody is yanked
+            regulator.resume(currentLevelMw(eligible), aceResult.aceMw());
+        }
+        lastEligible = ids;
+        double[] range = RegulationAllocator.reachableRangeMw(eligible, basePointsMw);
+        RegulationResult reg = regulator.step(aceResult.aceMw(), range[0], range[1]);
+        Allocation alloc = null;
+        // in the quiet band only base point moves go out (the regulation level is held)
+        if (reg.band() == AceBand.REGULATING || (reg.band() == AceBand.QUIET && baseMovedMw > 0)) {
+            alloc = allocator.allocate(reg.levelMw(), eligible, basePointsMw, factors(), excluded);
+        } else if (reg.band() == AceBand.ASSIST) {
+            int direction = reg.filteredAceMw() < 0 ? 1 : -1;
+            alloc = allocator.assist(direction, eligible, basePointsMw, excluded);
+            double level = 0;
+            for (UnitAllocation a : alloc.units()) {
+                level += a.targetMw() - a.basePointMw();
+            }
+            regulator.trackLevel(level, reg.filteredAceMw());
+        }
+        return new AreaCycleResult(areaId(), aceResult, reg, alloc);
+    }
+
+    /** @return Σ|base point move| this cycle, MW */
+    private double tertiary(List<UnitState> eligible, long nowMs, List<String> notes) {
+        if (redispatch.due(nowMs)) {
+            double demand = 0;
+            for (UnitState u : eligible) {
+                demand += u.setpointMw();
+            }
+            try {
+                redispatch.redispatch(nowMs, demand);
+            } catch (InfeasibleDispatchException e) {
+                notes.add("redispatchInfeasible:" + areaId());
+            }
+        }
+        Map<String, Double> moved = redispatch.stepBasePoints(basePointsMw, eligible, setup.regulation().cycleS());
+        double total = 0;
+        double absTotal = 0;
+        for (Map.Entry<String, Double> e : moved.entrySet()) {
+            double d = e.getValue() - basePointsMw.get(e.getKey());
+            total += d;
+            absTotal += Math.abs(d);
+        }
+        basePointsMw.putAll(moved);
+        if (total != 0) {
+            regulator.onBasePointsMoved(total);
+        }
+        return absTotal;
+    }
+
+    private Map<String, Double> factors() {
+        return redispatch != null ? redispatch.participationFactors().factors() : staticFactors;
+    }
+
+    double currentLevelMw(List<UnitState> eligible) {
+        double level = 0;
+        for (UnitState u : eligible) {
+            level += u.setpointMw() - basePointsMw.getOrDefault(u.unitId(), u.setpointMw());
+        }
+        return level;
+    }
+
+    Map<String, Double> basePointsMw() {
+        return Map.copyOf(basePointsMw);
+    }
+
+    void setBasePoint(String unitId, double mw) {
+        basePointsMw.put(unitId, mw);
+    }
+
+    AreaRegulator regulator() {
+        return regulator;
+    }
+
+    static List<UnitState> unitsOf(String areaId, List<UnitState> all) {
+        List<UnitState> out = new ArrayList<>();
+        for (UnitState u : all) {
+            if (u.areaId().equals(areaId)) {
+                out.add(u);
+            }
+        }
+        return out;
+    }
+}

@@ -1,0 +1,210 @@
+package org.loopstand.controller.cycle;
+
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Optional;
+import java.util.Set;
+import org.loopstand.controller.ace.AceResult;
+import org.loopstand.controller.allocation.RegulationAllocator;
+import org.loopstand.controller.allocation.UnitAllocation;
+import org.loopstand.controller.allocation.UnitState;
+import org.loopstand.controller.following.FollowingCheck;
+import org.loopstand.controller.following.UnitFollowingMonitor;
+import org.loopstand.controller.intake.ValidatedValue;
+import org.loopstand.controller.pulse.PlannedCommand;
+import org.loopstand.controller.pulse.PulseOutcome;
+import org.loopstand.controller.pulse.PulsePlanner;
+import org.loopstand.controller.safety.InterlockCheck;
+import org.loopstand.controller.safety.InterlockDecision;
+import org.loopstand.controller.safety.RegulationInterlock;
+import org.loopstand.controller.safety.UsableValue;
+
+/**
+ * One deterministic control cycle: validated inputs in, ACE, regulation, allocation and planned
+ * commands out. No clock, no bus, no threads: the caller passes the cycle time in
+ * {@link CycleInputs#nowMs()}, so the same inputs always give the same outcome.
+ *
+ * <p>Order within a cycle: (1) interlock conditions: bus link, every area's frequency, every tie
+ * flow and schedule must be usable (a held value is usable), then ACE within its sanity limit;
+ * (2) unit-following checks; (3) if the interlock says suspended, the regulators freeze and no
+ * command is planned; on the cycle it resumes, each regulator tracks the units' present level;
+ * (4) per area: tertiary base point step, filter, band, PI, allocation, pulse/setpoint planning.
+ * Values are taken only through {@link UsableValue#from}, so nothing is computed from a value
+ * that failed validation. Not thread-safe: one cycle thread.
+ */
+public final class ControlCycle {
+    private final ControlCycleSettings settings;
+    private final Map<String, AreaController> areas = new LinkedHashMap<>();
+    private final RegulationInterlock interlock;
+    private final UnitFollowingMonitor following;
+    private final PulsePlanner pulses;
+    private final Map<String, LastCommand> lastCommands = new HashMap<>();
+
+    private record LastCommand(long endMs, double setpointMw) {
+    }
+
+    public ControlCycle(ControlCycleSettings settings) {
+        this.settings = settings;
+        for (AreaSetup a : settings.areas()) {
+            areas.put(a.ace().areaId(), new AreaController(a));
+        }
+        this.interlock = new RegulationInterlock(settings.interlock());
+        this.following = new UnitFollowingMonitor(settings.following());
+        this.pulses = new PulsePlanner(settings.pulses());
+    }
+
+    public CycleOutcome step(CycleInputs in) {
+        List<String> notes = new ArrayList<>();
+        InterlockCheck check = new InterlockCheck().busLink(in.busLinkUp());
+        Map<String, AceResult> aceByArea = new LinkedHashMap<>();
+        Map<String, Double> freqDevByArea = new HashMap<>();
+        Map<String, AreaCycleInputs> inputsByArea = new HashMap<>();
+        for (AreaCycleInputs a : in.areas()) {
+            if (!areas.containsKey(a.areaId())) {
+                notes.add("unknownArea:" + a.areaId());
+            } else {
+                inputsByArea.put(a.areaId(), a);
+            }
+        }
+        for (AreaController area : areas.values()) {
+            AreaCycleInputs a = inputsByArea.get(area.areaId());
+            if (a == null) {
+                check.other("areaInputsMissing:" + area.areaId());
+                continue;
+            }
+            AceResult ace = ace(area, a, check);
+            UsableValue.from(a.frequencyHz()).ifPresent(f -> {
+                if (a.schedule() != null) {
+                    freqDevByArea.put(area.areaId(), f.value() - a.schedule().frequencyScheduledHz());
+                }
+            });
+            if (ace != null) {
+                check.ace(area.areaId(), ace.aceMw(), settings.interlock().aceSanityLimitMw());
+                aceByArea.put(area.areaId(), ace);
+            }
+        }
+        InterlockDecision decision = interlock.evaluate(check);
+
+        List<UnitState> units = effectiveUnits(in.units());
+        List<FollowingCheck> checks = new ArrayList<>();
+        for (UnitState u : units) {
+            Double dfHz = freqDevByArea.get(u.areaId());
+            // judged only with a good frequency, so the governor share can be taken out
+            if (u.telemetryGood() && u.online() && dfHz != null) {
+                checks.add(following.check(u.unitId(), in.nowMs(), responseMw(u, dfHz), u.rampMwPerMin()));
+            }
+        }
+        Set<String> flagged = following.flaggedUnits();
+
+        List<AreaCycleResult> results = new ArrayList<>();
+        List<PlannedCommand> commands = new ArrayList<>();
+        if (!decision.mayCommand()) {
+            for (AreaController area : areas.values()) {
+                area.suspend();
+                results.add(new AreaCycleResult(area.areaId(), aceByArea.get(area.areaId()), null, null));
+            }
+            return new CycleOutcome(in.cycleNumber(), in.nowMs(), decision.state(), decision.reasons(), results,
+                    List.of(), checks, notes);
+        }
+        Map<String, UnitState> byId = new HashMap<>();
+        for (UnitState u : units) {
+            byId.put(u.unitId(), u);
+        }
+        for (AreaController area : areas.values()) {
+            List<String> excluded = new ArrayList<>();
+            List<UnitState> eligible = RegulationAllocator.eligible(AreaController.unitsOf(area.areaId(), units),
+                    flagged, excluded);
+            AceResult ace = aceByArea.get(area.areaId());
+            if (decision.resumedNow()) {
+                area.resume(eligible, ace.aceMw());
+            }
+            AreaCycleResult r = area.regulate(ace, eligible, excluded, in.nowMs(), notes);
+            results.add(r);
+            if (r.allocation() == null) {
+                continue;
+            }
+            for (UnitAllocation ua : r.allocation().units()) {
+                UnitState u = byId.get(ua.unitId());
+                PulseOutcome p = pulses.plan(u, ua.targetMw(), in.nowMs(), settings.cycleMs());
+                if (p.sends()) {
+                    PlannedCommand c = p.command();
+                    commands.add(c);
+                    following.onCommand(u.unitId(), c.deltaMw(), in.nowMs(),
+                            responseMw(u, freqDevByArea.get(u.areaId())));
+                    lastCommands.put(u.unitId(), new LastCommand(in.nowMs() + c.durationMs(),
+                            u.setpointMw() + c.deltaMw()));
+                }
+            }
+        }
+        return new CycleOutcome(in.cycleNumber(), in.nowMs(), decision.state(), List.of(), results, commands, checks,
+                notes);
+    }
+
+    private static AceResult ace(AreaController area, AreaCycleInputs a, InterlockCheck check) {
+        Optional<UsableValue> f = UsableValue.from(a.frequencyHz());
+        check.frequency(area.areaId(), f.isPresent());
+        List<UsableValue> ties = new ArrayList<>();
+        boolean tiesOk = true;
+        for (Map.Entry<String, ValidatedValue> t : new java.util.TreeMap<>(a.tieFlowsMw()).entrySet()) {
+            Optional<UsableValue> v = UsableValue.from(t.getValue());
+            check.tieFlow(area.areaId(), t.getKey(), v.isPresent());
+            v.ifPresent(ties::add);
+            tiesOk &= v.isPresent();
+        }
+        check.schedule(area.areaId(), a.schedule() != null);
+        if (f.isEmpty() || !tiesOk || a.schedule() == null) {
+            return null;
+        }
+        return area.computeAce(f.get(), ties, a.schedule(), a.timeErrorS(), a.inadvertentAccumMwh());
+    }
+
+    /** Output with the expected governor response {@code −K·Δf} removed, MW. */
+    private double responseMw(UnitState u, double dfHz) {
+        double k = settings.primaryResponseMwPerHz().getOrDefault(u.unitId(), 0.0);
+        return u.outputMw() + k * dfHz;
+    }
+
+    /** While a unit's telemetry predates the end of our last command to it, use the commanded setpoint. */
+    private List<UnitState> effectiveUnits(List<UnitState> reported) {
+        List<UnitState> out = new ArrayList<>(reported.size());
+        for (UnitState u : reported) {
+            LastCommand c = lastCommands.get(u.unitId());
+            if (c != null && u.telemetryTimeMs() < c.endMs() + settings.commandSettleMs()) {
+                out.add(u.withSetpointMw(c.setpointMw()));
+            } else {
+                out.add(u);
+            }
+        }
+        return out;
+    }
+
+    /** Operator reset of a unit flagged as not following. */
+    public void resetFollowing(String unitId) {
+        following.reset(unitId);
+    }
+
+    /** @return base points of an area's units, MW */
+    public Map<String, Double> basePointsMw(String areaId) {
+        return area(areaId).basePointsMw();
+    }
+
+    /** Set a unit's base point, e.g. from an operator schedule, MW. */
+    public void setBasePoint(String areaId, String unitId, double mw) {
+        area(areaId).setBasePoint(unitId, mw);
+    }
+
+    public ControlCycleSettings settings() {
+        return settings;
+    }
+
+    private AreaController area(String areaId) {
+        AreaController a = areas.get(areaId);
+        if (a == null) {
+            throw new IllegalArgumentException("no area " + areaId);
+        }
+        return a;
+    }
+}

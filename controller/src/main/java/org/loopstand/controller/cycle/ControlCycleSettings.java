@@ -1,0 +1,67 @@
+package org.loopstand.controller.cycle;
+
+import java.util.HashSet;
+import java.util.List;
+import java.util.Map;
+import java.util.Set;
+import org.loopstand.controller.following.FollowingSettings;
+import org.loopstand.controller.pulse.PulseSettings;
+import org.loopstand.controller.safety.InterlockSettings;
+
+/**
+ * @param cycleMs          control cycle, ms, in [500, 60000] (default 4000); each area's
+ *                         regulation cycleS must equal cycleMs/1000
+ * @param areas            the areas, ids unique, at least one
+ * @param pulses           pulse sizing
+ * @param interlock        suspension rules
+ * @param following        unit-following check
+ * @param commandSettleMs  the reported setpoint is trusted only from telemetry stamped at least this
+ *                         long after the end of the last command to the unit, ms, ≥ 0 (default
+ *                         500); until then the commanded setpoint is used, so a lagging report
+ *                         cannot make the cycle send the same move twice
+ * @param primaryResponseMwPerHz per unit id, the unit's expected governor response, MW/Hz
+ *                         (rating / (droop · f0)), ≥ 0; the following check removes
+ *                         {@code −K·(f − Fs)} from the measured output so that a unit's primary
+ *                         response is not taken for not following; a unit not listed gets 0
+ */
+public record ControlCycleSettings(long cycleMs, List<AreaSetup> areas, PulseSettings pulses,
+                                   InterlockSettings interlock, FollowingSettings following, long commandSettleMs,
+                                   Map<String, Double> primaryResponseMwPerHz) {
+    public ControlCycleSettings {
+        areas = List.copyOf(areas);
+        primaryResponseMwPerHz = Map.copyOf(primaryResponseMwPerHz);
+        primaryResponseMwPerHz.forEach((id, k) -> {
+            if (!(k >= 0) || !Double.isFinite(k)) {
+                throw new IllegalArgumentException("unit " + id + ": primaryResponseMwPerHz must be >= 0, was " + k);
+            }
+        });
+        if (cycleMs < 500 || cycleMs > 60_000) {
+            throw new IllegalArgumentException("cycleMs must be in [500, 60000], was " + cycleMs);
+        }
+        if (areas.isEmpty()) {
+            throw new IllegalArgumentException("at least one area is needed");
+        }
+        Set<String> ids = new HashSet<>();
+        for (AreaSetup a : areas) {
+            if (!ids.add(a.ace().areaId())) {
+                throw new IllegalArgumentException("area " + a.ace().areaId() + " appears twice");
+            }
+            if (Math.abs(a.regulation().cycleS() * 1000 - cycleMs) > 1e-6) {
+                throw new IllegalArgumentException("area " + a.ace().areaId() + ": regulation cycleS "
+                        + a.regulation().cycleS() + " does not match cycleMs " + cycleMs);
+            }
+        }
+        if (pulses == null || interlock == null || following == null) {
+            throw new IllegalArgumentException("pulses, interlock and following settings are required");
+        }
+        if (commandSettleMs < 0) {
+            throw new IllegalArgumentException("commandSettleMs must be >= 0, was " + commandSettleMs);
+        }
+    }
+
+    /** Defaults for everything but the areas. */
+    public static ControlCycleSettings of(long cycleMs, List<AreaSetup> areas) {
+        return new ControlCycleSettings(cycleMs, areas, PulseSettings.DEFAULTS, InterlockSettings.DEFAULTS,
+                FollowingSettings.DEFAULTS, 500, Map.of());
+    }
+}

@@ -1,0 +1,20 @@
+package org.loopstand.controller.following;
+
+/**
+ * Result of one unit-following check.
+ *
+ * @param unitId        unit id
+ * @param evaluated     false when nothing was outstanding (the unit is idle; baseline resynced)
+ * @param expectedMw    expected output at (now − dead time), MW
+ * @param measuredMw    measured output, MW
+ * @param shortfallMw   how far the unit lags in the commanded direction, MW (≤ 0 = on or ahead)
+ * @param following     shortfall within tolerance
+ * @param missedCycles  consecutive failed checks
+ * @param flagged       the unit is flagged as not following (out of the allocation)
+ * @param flaggedNow    flagged on this check
+ * @param returnedNow   returned to the allocation on this check
+ */
+public record FollowingCheck(String unitId, boolean evaluated, double expectedMw, double measuredMw, double shortfallMw,
+                             boolean following, int missedCycles, boolean flagged, boolean flaggedNow,
+                             boolean returnedNow) {
+}

@@ -1,0 +1,168 @@
+package org.loopstand.controller.following;
+
+import java.util.ArrayDeque;
+import java.util.Collections;
+import java.util.Deque;
+import java.util.HashMap;
+import java.util.Map;
+import java.util.Set;
+import java.util.TreeSet;
+
+/**
+ * Checks that units answer their commands.
+ *
+ * <p>Per unit an <em>expected output</em> moves from the measured output at the first command toward
+ * the commanded target ({@code target += Δ} for each command) at the unit's ramp rate. At a check
+ * at time t the measured output is compared with the expected output at {@code t − deadTimeMs}
+ * (the dead time allowance); the shortfall is measured in the direction of the move, so overshoot
+ * is not a fault. Failing {@code missedCyclesToFlag} checks in a row flags the unit; it returns
+ * after {@code followedCyclesToReturn} passed checks in a row (it caught up with what it was told)
+ * or on {@link #reset(String)}. Once the whole move is done and checked good, the unit is idle
+ * again: its baseline follows the measured output so governor drift is not counted.
+ * Not thread-safe.
+ */
+public final class UnitFollowingMonitor {
+    private final FollowingSettings settings;
+    private final Map<String, Track> tracks = new HashMap<>();
+
+    public UnitFollowingMonitor(FollowingSettings settings) {
+        this.settings = settings;
+    }
+
+    /** A command was sent: the unit's target moves by {@code deltaMw}. */
+    public void onCommand(String unitId, double deltaMw, long issuedAtMs, double measuredOutputMw) {
+        Track t = tracks.computeIfAbsent(unitId, k -> new Track(measuredOutputMw, issuedAtMs));
+        if (!t.commanded) {
+            t.resync(measuredOutputMw, issuedAtMs);
+        }
+        t.commanded = true;
+        t.targetMw += deltaMw;
+        if (deltaMw != 0) {
+            t.lastDirection = Math.signum(deltaMw);
+        }
+        t.lastCommandMs = issuedAtMs;
+    }
+
+    /** One check per unit per cycle, after the unit's telemetry for this cycle is known. */
+    public FollowingCheck check(String unitId, long nowMs, double measuredOutputMw, double rampMwPerMin) {
+        Track t = tracks.computeIfAbsent(unitId, k -> new Track(measuredOutputMw, nowMs));
+        if (!t.commanded) {
+            // nothing asked of the unit: follow its drift (governor action) without judging it
+            t.resync(measuredOutputMw, nowMs);
+            return new FollowingCheck(unitId, false, measuredOutputMw, measuredOutputMw, 0, true, t.missed, t.flagged,
+                    false, false);
+        }
+        t.advance(nowMs, rampMwPerMin);
+        double expectedDelayed = t.expectedAt(nowMs - settings.deadTimeMs());
+        double remaining = t.targetMw - expectedDelayed;
+        double direction = Math.abs(remaining) > 1e-9 ? Math.signum(remaining) : t.lastDirection;
+        double shortfall = direction * (expectedDelayed - measuredOutputMw);
+        boolean following = shortfall <= settings.toleranceMw();
+        boolean flaggedNow = false;
+        boolean returnedNow = false;
+        if (following) {
+            t.missed = 0;
+            if (t.flagged && ++t.followed >= settings.followedCyclesToReturn()) {
+                t.flagged = false;
+                t.followed = 0;
+                returnedNow = true;
+            }
+        } else {
+            t.followed = 0;
+            if (++t.missed >= settings.missedCyclesToFlag() && !t.flagged) {
+                t.flagged = true;
+                flaggedNow = true;
+            }
+        }
+        boolean done = Math.abs(remaining) <= 1e-9 && nowMs - t.lastCommandMs > settings.deadTimeMs();
+        if (done && following && !t.flagged) {
+            t.commanded = false;
+        }
+        return new FollowingCheck(unitId, true, expectedDelayed, measuredOutputMw, shortfall, following, t.missed,
+                t.flagged, flaggedNow, returnedNow);
+    }
+
+    /** Operator reset: the unit returns to the allocation and its history is forgotten. */
+    public void reset(String unitId) {
+        tracks.remove(unitId);
+    }
+
+    public boolean flagged(String unitId) {
+        Track t = tracks.get(unitId);
+        return t != null && t.flagged;
+    }
+
+    /** @return ids of flagged units, sorted */
+    public Set<String> flaggedUnits() {
+        Set<String> out = new TreeSet<>();
+        tracks.forEach((id, t) -> {
+            if (t.flagged) {
+                out.add(id);
+            }
+        });
+        return Collections.unmodifiableSet(out);
+    }
+
+    private final class Track {
+        boolean commanded;
+        double lastDirection;
+        double targetMw;
+        double expectedMw;
+        long lastMs;
+        long lastCommandMs = Long.MIN_VALUE / 2;
+        int missed;
+        int followed;
+        boolean flagged;
+        final Deque<long[]> historyTimes = new ArrayDeque<>();
+        final Deque<Double> historyValues = new ArrayDeque<>();
+
+        Track(double mw, long nowMs) {
+            resync(mw, nowMs);
+        }
+
+        void resync(double mw, long nowMs) {
+            targetMw = mw;
+            expectedMw = mw;
+            lastMs = nowMs;
+            historyTimes.clear();
+            historyValues.clear();
+            push(nowMs, mw);
+        }
+
+        void advance(long nowMs, double rampMwPerMin) {
+            double step = rampMwPerMin * Math.max(0, nowMs - lastMs) / 60_000.0;
+            double d = targetMw - expectedMw;
+            expectedMw += Math.max(-step, Math.min(step, d));
+            lastMs = nowMs;
+            push(nowMs, expectedMw);
+        }
+
+        /** Latest expected value at or before {@code tMs}; the oldest one if none is that old. */
+        double expectedAt(long tMs) {
+            double v = historyValues.peekFirst();
+            var ti = historyTimes.iterator();
+            var vi = historyValues.iterator();
+            while (ti.hasNext()) {
+                long t = ti.next()[0];
+                double x = vi.next();
+                if (t <= tMs) {
+                    v = x;
+                } else {
+                    break;
+                }
+            }
+            return v;
+        }
+
+        private void push(long tMs, double v) {
+            historyTimes.addLast(new long[] {tMs});
+            historyValues.addLast(v);
+            // keep what the dead time needs plus a margin; bounded in count as well
+            while (historyTimes.size() > 2 && (historyTimes.size() > 1024
+                    || historyTimes.peekFirst()[0] < tMs - 2 * settings.deadTimeMs() - 60_000)) {
+                historyTimes.removeFirst();
+                historyValues.removeFirst();
+            }
+        }
+    }
+}

@@ -1,0 +1,3 @@
+package org.loopstand.controller.pulse;
+
+public enum CommandKind { PULSE, SETPOINT }

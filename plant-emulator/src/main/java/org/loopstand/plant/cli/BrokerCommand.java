@@ -1,0 +1,39 @@
+package org.loopstand.plant.cli;
+
+import java.time.Duration;
+import java.util.concurrent.Callable;
+import java.util.concurrent.CountDownLatch;
+import org.loopstand.plant.broker.EmbeddedBroker;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+
+/** {@code loopstand broker}: runs the embedded MQTT 5 broker until Ctrl-C. */
+@Command(name = "broker", mixinStandardHelpOptions = true,
+        description = "Run the embedded MQTT 5 broker (HiveMQ CE) until Ctrl-C.")
+public final class BrokerCommand implements Callable<Integer> {
+    @Option(names = "--port", defaultValue = "1884", description = "TCP port, 0 = any free port (default ${DEFAULT-VALUE})")
+    int port;
+
+    @Option(names = "--bind", defaultValue = "127.0.0.1", description = "address to listen on (default ${DEFAULT-VALUE})")
+    String bindAddress;
+
+    @Override
+    public Integer call() throws InterruptedException {
+        CountDownLatch stopped = new CountDownLatch(1);
+        EmbeddedBroker broker = new EmbeddedBroker(bindAddress, port);
+        try {
+            broker.start(Duration.ofSeconds(30));
+        } catch (IllegalStateException e) {
+            System.err.println("broker: " + e.getMessage());
+            return 1;
+        }
+        Runtime.getRuntime().addShutdownHook(new Thread(() -> {
+            broker.close();
+            stopped.countDown();
+        }, "broker-shutdown"));
+        System.out.println("broker listening on " + broker.serverUri());
+        System.out.flush();
+        stopped.await();
+        return 0;
+    }
+}

@@ -1,0 +1,140 @@
+package org.loopstand.plant.benchmark;
+
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+
+import org.hipparchus.ode.ODEState;
+import org.hipparchus.ode.OrdinaryDifferentialEquation;
+import org.hipparchus.ode.nonstiff.DormandPrince853Integrator;
+import org.loopstand.plant.grid.Grid;
+import org.loopstand.plant.physics.GridDynamics;
+import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.plant.site.SiteLoader;
+import org.loopstand.protocol.time.SystemTime;
+import org.junit.jupiter.api.Tag;
+import org.junit.jupiter.api.Test;
+
+/**
+ * Speed of the physics, not a check: prints figures and writes target/benchmark-physics.txt. Excluded from
+ * the normal build; run it with the command in docs/performance.md.
+ */
+@Tag("benchmark")
+class PhysicsBenchmarkTest {
+    private final List<String> report = new ArrayList<>();
+
+    @Test
+    void shouldMeasureSimulatedSecondsPerWallSecond() throws IOException {
+        Grid demo = SiteLoader.load(Path.of("..", "config", "sites", "demo-site.yaml"));
+        Grid large = GeneratedSite.build(20, 50, 20, 900);
+        line("RK4 fixed step, load noise on:");
+        speed("demo-site (2 areas, 6 units)", demo, 20_000);
+        speed("generated (20 areas, 1000 units, 30 ties)", large, 600);
+
+        String demoNoiseFree = Files.readString(Path.of("..", "config", "sites", "demo-site.yaml"))
+                .replaceAll("noiseSigmaMw: [0-9.]+", "noiseSigmaMw: 0")
+                .replaceAll("deadBandHz: [0-9.]+", "deadBandHz: 0")
+                .replaceAll(" *(raise|lower)RateMwPerMin: [0-9.]+\\n", "");
+        Grid demoQuiet = SiteLoader.load("demo-site (no noise)", new java.io.StringReader(demoNoiseFree));
+        line("RK4 against Hipparchus Dormand-Prince 8(5,3) at equal accuracy (linear configuration: no noise, dead band or rate limit;"
+                + " 100 MW step in the first area, 60 s):");
+        equalAccuracy("demo-site", demoQuiet, demoQuiet.areas().get(0).id(), 60, 20);
+        Grid largeQuiet = GeneratedSite.build(20, 50, 0, Double.POSITIVE_INFINITY);
+        equalAccuracy("generated 1000 units", largeQuiet, "area-0", 60, 3);
+        Files.write(Path.of("target", "benchmark-physics.txt"), report, StandardCharsets.UTF_8);
+    }
+
+    private void speed(String name, Grid grid, double simulatedS) {
+        for (int warm = 0; warm < 2; warm++) {
+            run(grid, simulatedS / 4);
+        }
+        double best = 0;
+        for (int rep = 0; rep < 3; rep++) {
+            best = Math.max(best, run(grid, simulatedS));
+        }
+        line(String.format(Locale.ROOT, "  %-45s step %.3f s: %,.0f simulated s per wall s (best of 3, %.0f s simulated)",
+                name, new GridSimulator(grid).stepS(), best, simulatedS));
+    }
+
+    private static double run(Grid grid, double simulatedS) {
+        GridSimulator sim = new GridSimulator(grid, new GridSimulator(grid).stepS(), 1, 12);
+        sim.stepLoadMw(grid.areas().get(0).id(), 50);
+        long start = SystemTime.wallMonotonicNanos();
+        sim.advanceTo(simulatedS);
+        double wallS = (SystemTime.wallMonotonicNanos() - start) / 1e9;
+        if (!Double.isFinite(sim.frequencyHz(0))) {
+            throw new IllegalStateException("diverged");
+        }
+        return simulatedS / wallS;
+    }
+
+    private void equalAccuracy(String name, Grid grid, String stepArea, double durationS, int repeats) {
+        GridSimulator rk4 = new GridSimulator(grid);
+        rk4.stepLoadMw(stepArea, 100);
+        double[] x0 = rk4.stateCopy();
+        GridDynamics dynamics = rk4.dynamics();
+        OrdinaryDifferentialEquation ode = new OrdinaryDifferentialEquation() {
+            @Override
+            public int getDimension() {
+                return dynamics.dimension();
+            }
+
+            @Override
+            public double[] computeDerivatives(double t, double[] y) {
+                double[] dy = new double[y.length];
+                dynamics.derivatives(t, y, dy);
+                return dy;
+            }
+        };
+        double[] reference = dormandPrince(ode, x0, durationS, 1e-12);
+        int areas = grid.areas().size();
+
+        long start = SystemTime.wallMonotonicNanos();
+        double[] rk4End = null;
+        for (int r = 0; r < repeats; r++) {
+            GridSimulator sim = new GridSimulator(grid);
+            sim.stepLoadMw(stepArea, 100);
+            sim.advanceTo(durationS);
+            rk4End = sim.stateCopy();
+        }
+        double rk4WallS = (SystemTime.wallMonotonicNanos() - start) / 1e9 / repeats;
+        double rk4ErrorHz = maxFrequencyError(rk4End, reference, areas);
+
+        double tolerance = 1e-3;
+        double[] dp = dormandPrince(ode, x0, durationS, tolerance);
+        while (maxFrequencyError(dp, reference, areas) > rk4ErrorHz && tolerance > 1e-14) {
+            tolerance /= 2;
+            dp = dormandPrince(ode, x0, durationS, tolerance);
+        }
+        start = SystemTime.wallMonotonicNanos();
+        for (int r = 0; r < repeats; r++) {
+            dp = dormandPrince(ode, x0, durationS, tolerance);
+        }
+        double dpWallS = (SystemTime.wallMonotonicNanos() - start) / 1e9 / repeats;
+        line(String.format(Locale.ROOT, "  %-22s RK4 h=%.3f s: error %.2e Hz, %.4f s wall | DP853 tol %.1e: error %.2e Hz, "
+                        + "%.4f s wall | RK4 is %.1fx faster", name, rk4.stepS(), rk4ErrorHz, rk4WallS, tolerance,
+                maxFrequencyError(dp, reference, areas), dpWallS, dpWallS / rk4WallS));
+    }
+
+    private static double[] dormandPrince(OrdinaryDifferentialEquation ode, double[] x0, double durationS, double tolerance) {
+        DormandPrince853Integrator integrator = new DormandPrince853Integrator(1e-14, 5.0, tolerance, tolerance);
+        return integrator.integrate(ode, new ODEState(0, x0.clone()), durationS).getPrimaryState();
+    }
+
+    private static double maxFrequencyError(double[] x, double[] reference, int areas) {
+        double worst = 0;
+        for (int a = 0; a < areas; a++) {
+            worst = Math.max(worst, Math.abs(x[a] - reference[a]));
+        }
+        return worst;
+    }
+
+    private void line(String s) {
+        System.out.println(s);
+        report.add(s);
+    }
+}
