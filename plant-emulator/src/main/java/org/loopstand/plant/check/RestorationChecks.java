@@ -2,7 +2,6 @@ package org.loopstand.plant.check;
 
 import java.util.function.IntToDoubleFunction;
 
-import org.loopstand.plant.grid.AceConvention;
 import org.loopstand.plant.grid.Area;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.grid.TieLine;
@@ -39,15 +38,9 @@ final class RestorationChecks {
      * the truth ACE from the physics (not what the controller computed).
      */
     static CheckOutcome aceRecovered(CheckSpec spec, RunRecord run, Grid grid) {
-        Area area = grid.areas().get(grid.areaIndex(spec.text("area")));
-        RunRecord.Series f = run.series("frequencyHz/" + area.id());
-        RunRecord.Series ni = run.series("netInterchangeMw/" + area.id());
-        double scheduledNi = scheduledNetInterchangeMw(grid, area.id());
-        IntToDoubleFunction ace = i -> {
-            double df = f.value(i) - area.nominalFrequencyHz();
-            double dp = ni.value(i) - scheduledNi;
-            return area.aceConvention() == AceConvention.EUROPEAN ? dp + area.kMwPerHz() * df : dp - 10 * area.biasMwPer01Hz() * df;
-        };
+        String areaId = spec.text("area");
+        RunRecord.Series f = TruthAce.of(run, grid, areaId);
+        IntToDoubleFunction ace = f::value;
         double after = spec.number("afterS");
         double within = spec.number("withinS");
         double tol = spec.number("toleranceMw");
@@ -70,7 +63,7 @@ final class RestorationChecks {
                 dipped = i;
             }
         }
-        String what = "truth ACE of " + area.id() + " back to " + CheckOutcome.format(Math.min(0, pre)) + " MW (tolerance "
+        String what = "truth ACE of " + areaId + " back to " + CheckOutcome.format(Math.min(0, pre)) + " MW (tolerance "
                 + CheckOutcome.format(tol) + " MW)";
         if (dipped < 0) {
             return new CheckOutcome(spec.name(), true, 0, "s", within, what + ": ACE never fell below it after "
@@ -85,18 +78,6 @@ final class RestorationChecks {
         }
         return new CheckOutcome(spec.name(), false, Double.NaN, "s", within, what + ": not recovered by the end ("
                 + CheckOutcome.format(run.endS()) + " s), ACE then " + CheckOutcome.format(ace.applyAsDouble(f.size() - 1)) + " MW", false);
-    }
-
-    static double scheduledNetInterchangeMw(Grid grid, String area) {
-        double sum = 0;
-        for (TieLine t : grid.ties()) {
-            if (t.fromArea().equals(area)) {
-                sum += t.scheduledFlowMw();
-            } else if (t.toArea().equals(area)) {
-                sum -= t.scheduledFlowMw();
-            }
-        }
-        return sum;
     }
 
     private interface Out {
