@@ -67,7 +67,7 @@ class CheckEvaluationTest {
                 .evaluate(dipAndRecovery(false), grid);
         assertThat(never.passed()).isFalse();
         assertThat(never.decidingFigure()).isNaN();
-        assertThat(never.detail()).contains("not back by the end").contains("deviation then 100 mHz");
+        assertThat(never.detail()).contains("not back by the end").contains("deviation then 100.000 mHz");
     }
 
     @Test
