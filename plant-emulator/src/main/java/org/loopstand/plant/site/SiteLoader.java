@@ -45,6 +45,7 @@ public final class SiteLoader {
         readersBySubject.put("site", site);
         GridBuilder b = new GridBuilder(site.requiredString("siteId"));
         site.optionalString("description", "");
+        site.allow("controller"); // the controller's own section, read by the controller
         for (YamlNode n : site.sequence("areas", true)) {
             readArea(b, n);
         }

@@ -1,0 +1,335 @@
+package org.loopstand.controller.intake;
+
+import java.util.ArrayList;
+import java.util.HashSet;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Set;
+import java.util.TreeMap;
+import java.util.concurrent.ArrayBlockingQueue;
+import java.util.concurrent.BlockingQueue;
+import java.util.concurrent.ConcurrentHashMap;
+import java.util.concurrent.atomic.AtomicLong;
+import java.util.concurrent.atomic.LongAdder;
+import java.util.function.Consumer;
+import org.loopstand.controller.allocation.UnitState;
+import org.loopstand.controller.config.ControllerSettings;
+import org.loopstand.controller.config.ControllerSiteConfig;
+import org.loopstand.controller.config.SiteArea;
+import org.loopstand.controller.config.SiteTie;
+import org.loopstand.controller.config.SiteUnit;
+import org.loopstand.controller.cycle.AreaCycleInputs;
+import org.loopstand.controller.cycle.AreaSchedule;
+import org.loopstand.protocol.bus.InboundMessage;
+import org.loopstand.protocol.bus.MessageListener;
+import org.loopstand.protocol.codec.Decoded;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.message.AckOutcome;
+import org.loopstand.protocol.message.AreaMeter;
+import org.loopstand.protocol.message.ClockTick;
+import org.loopstand.protocol.message.CommandAck;
+import org.loopstand.protocol.message.ControlMode;
+import org.loopstand.protocol.message.Schedule;
+import org.loopstand.protocol.message.TieFlow;
+import org.loopstand.protocol.message.UnitStatus;
+import org.loopstand.protocol.message.UnitTelemetry;
+import org.loopstand.protocol.message.Validity;
+import org.loopstand.protocol.time.Clock;
+import org.loopstand.protocol.topic.ParsedTopic;
+import org.loopstand.protocol.topic.TopicKind;
+import org.loopstand.protocol.topic.TopicTree;
+
+/**
+ * The controller's intake: bus listener threads only stamp and enqueue messages into a bounded
+ * queue ({@link #listener()}); the cycle thread calls {@link #drain()} and then reads validated
+ * inputs. Decoding never throws: rejections are counted per reason and reported to the observer.
+ *
+ * <p>Inputs, each with its own {@link ValidatedInput}:
+ * <ul>
+ *   <li>frequency of each area: primary source = the first meter heard in that area; any other
+ *       meter of the area is the alternate source (used under the alternateSource policy);</li>
+ *   <li>flow of each tie seen from each end area (+ = export from that area): primary = that area's
+ *       primary meter; alternate = the other end's primary meter, sign flipped;</li>
+ *   <li>unit telemetry: output checked for age, quality, sequence and skew; a unit whose
+ *       telemetry fails is not eligible ({@code telemetryBad});</li>
+ *   <li>schedules per area (the latest whose effectiveFrom has come); without one the site
+ *       file's schedule is used if {@code scheduleFromSite}.</li>
+ * </ul>
+ * Not thread-safe except {@link #listener()} and the counters.
+ */
+public final class IntakeRouter {
+    /** A message as handed over by a bus thread, stamped with controller time on arrival. */
+    private record Arrival(InboundMessage message, long receivedAtMs) {
+    }
+
+    private final ControllerSiteConfig site;
+    private final ControllerSettings settings;
+    private final Clock clock;
+    private final MessageCodec codec;
+    private final IntakeObserver observer;
+    private final BlockingQueue<Arrival> queue;
+    private final LongAdder queueOverflow = new LongAdder();
+    private final Map<String, AtomicLong> rejectedByReason = new ConcurrentHashMap<>();
+    private final Map<String, AtomicLong> acksByOutcome = new ConcurrentHashMap<>();
+    private final Map<String, ValidatedInput> frequency = new LinkedHashMap<>();
+    private final Map<String, String> primaryMeter = new LinkedHashMap<>();
+    /** key area + "/" + tie */
+    private final Map<String, ValidatedInput> tieFlow = new LinkedHashMap<>();
+    private final Map<String, UnitTelemetry> telemetry = new LinkedHashMap<>();
+    private final Map<String, SourceValidator> telemetryCheck = new LinkedHashMap<>();
+    private final Map<String, List<Schedule>> schedules = new LinkedHashMap<>();
+    private final Set<String> skewReported = new HashSet<>();
+    private Consumer<ClockTick> clockListener = t -> { };
+    private long messagesRouted;
+
+    public IntakeRouter(ControllerSiteConfig site, Clock clock, MessageCodec codec, IntakeObserver observer) {
+        this.site = site;
+        this.settings = site.settings();
+        this.clock = clock;
+        this.codec = codec;
+        this.observer = observer == null ? new IntakeObserver() { } : observer;
+        this.queue = new ArrayBlockingQueue<>(settings.intakeQueueCapacity());
+        long skew = settings.clockSkewLimitMs();
+        for (SiteArea a : site.areas()) {
+            frequency.put(a.id(), new ValidatedInput(settings.frequency().toSettings("frequency:" + a.id(), skew)));
+            for (SiteTie t : site.tiesOf(a.id())) {
+                tieFlow.put(a.id() + "/" + t.id(),
+                        new ValidatedInput(settings.tieFlow().toSettings("tieFlow:" + a.id() + ":" + t.id(), skew)));
+            }
+        }
+        for (SiteUnit u : site.units()) {
+            telemetryCheck.put(u.id(), new SourceValidator(InputValidationSettings.builder("telemetry:" + u.id())
+                    .maxAgeMs(settings.unitTelemetryMaxAgeMs()).clockSkewLimitMs(skew).build()));
+        }
+    }
+
+    /** @param listener told of every clock tick (for {@code --clock bus}), on the draining thread */
+    public void onClockTick(Consumer<ClockTick> listener) {
+        this.clockListener = listener;
+    }
+
+    /** @return the topic filters to subscribe to, for this site */
+    public List<String> subscriptions() {
+        TopicTree tree = TopicTree.forSite(site.siteId());
+        return List.of(tree.filterAll(TopicKind.AREA_METER), tree.filterAll(TopicKind.UNIT_TELEMETRY),
+                tree.filterAll(TopicKind.UNIT_ACK), tree.filterAll(TopicKind.AREA_SCHEDULE), tree.clock());
+    }
+
+    /** @return the bus listener: stamps and enqueues only, never blocks; a full queue counts {@code queueFull} */
+    public MessageListener listener() {
+        return m -> {
+            if (!queue.offer(new Arrival(m, clock.epochMillis()))) {
+                queueOverflow.increment();
+                count(rejectedByReason, "queueFull");
+            }
+        };
+    }
+
+    /** Routes every queued message. @return how many were taken from the queue */
+    public int drain() {
+        int n = 0;
+        Arrival a;
+        while ((a = queue.poll()) != null) {
+            route(a.message().topic(), a.message().payload(), a.receivedAtMs());
+            n++;
+        }
+        return n;
+    }
+
+    /** Routes one message at once (used by {@link #drain()}; tests may call it directly). */
+    public void route(String topic, byte[] payload, long receivedAtMs) {
+        messagesRouted++;
+        ParsedTopic p = TopicTree.parse(topic).orElse(null);
+        if (p == null || !p.site().equals(site.siteId())) {
+            reject(topic, "unknownTopic", "not a topic of site " + site.siteId());
+            return;
+        }
+        switch (p.kind()) {
+            case AREA_METER -> decode(topic, payload, AreaMeter.class, m -> onMeter(topic, p, m, receivedAtMs));
+            case UNIT_TELEMETRY -> decode(topic, payload, UnitTelemetry.class, m -> onTelemetry(topic, p, m, receivedAtMs));
+            case UNIT_ACK -> decode(topic, payload, CommandAck.class, m -> onAck(m, receivedAtMs));
+            case AREA_SCHEDULE -> decode(topic, payload, Schedule.class, m -> onSchedule(topic, p, m));
+            case CLOCK -> decode(topic, payload, ClockTick.class, clockListener);
+            default -> reject(topic, "unknownTopic", "the controller does not read " + p.kind() + " topics");
+        }
+    }
+
+    private <T> void decode(String topic, byte[] payload, Class<T> type, Consumer<T> sink) {
+        Decoded<T> d = codec.decode(payload, type);
+        if (d instanceof Decoded.Ok<T> ok) {
+            sink.accept(ok.value());
+        } else {
+            d.rejection().ifPresent(e -> reject(topic, e.kind().name(), e.toString()));
+        }
+    }
+
+    private void onMeter(String topic, ParsedTopic p, AreaMeter m, long receivedAtMs) {
+        String area = p.area();
+        String meter = p.id("meter");
+        if (!m.area().equals(area) || !m.meter().equals(meter)) {
+            reject(topic, "topicMismatch", "payload names area " + m.area() + " meter " + m.meter());
+            return;
+        }
+        ValidatedInput f = frequency.get(area);
+        if (f == null) {
+            reject(topic, "unknownArea", "area " + area + " is not in the site file");
+            return;
+        }
+        String primary = primaryMeter.computeIfAbsent(area, k -> meter);
+        boolean isPrimary = primary.equals(meter);
+        MeasuredValue fv = new MeasuredValue(m.frequencyHz(), m.sourceTime(), receivedAtMs,
+                m.frequencyQuality().validity() == Validity.GOOD, m.seq());
+        if (isPrimary) {
+            noteSkew("meter:" + meter, f.acceptPrimary(fv), fv);
+        } else if (f.alternate() != null) {
+            noteSkew("meter:" + meter, f.acceptAlternate(fv), fv);
+        }
+        if (!isPrimary) {
+            return; // tie flows come from each area's primary meter only
+        }
+        for (TieFlow t : m.ties()) {
+            MeasuredValue own = new MeasuredValue(t.flowMw(), m.sourceTime(), receivedAtMs,
+                    t.quality().validity() == Validity.GOOD, m.seq());
+            ValidatedInput mine = tieFlow.get(area + "/" + t.tie());
+            if (mine == null) {
+                count(rejectedByReason, "unknownTie");
+                continue;
+            }
+            mine.acceptPrimary(own);
+            SiteTie tie = site.ties().stream().filter(x -> x.id().equals(t.tie())).findFirst().orElseThrow();
+            ValidatedInput theirs = tieFlow.get(tie.otherEnd(area) + "/" + t.tie());
+            if (theirs != null && theirs.alternate() != null) {
+                theirs.acceptAlternate(new MeasuredValue(-t.flowMw(), own.sourceTimeMs(), receivedAtMs,
+                        own.qualityGood(), m.seq()));
+            }
+        }
+    }
+
+    private void onTelemetry(String topic, ParsedTopic p, UnitTelemetry t, long receivedAtMs) {
+        SourceValidator v = telemetryCheck.get(p.unit());
+        if (v == null) {
+            reject(topic, "unknownUnit", "unit " + p.unit() + " is not in the site file");
+            return;
+        }
+        if (!t.unit().equals(p.unit())) {
+            reject(topic, "topicMismatch", "payload names unit " + t.unit());
+            return;
+        }
+        MeasuredValue mv = new MeasuredValue(t.outputMw(), t.sourceTime(), receivedAtMs,
+                t.outputQuality().validity() == Validity.GOOD, t.seq());
+        Set<ValidationReason> r = v.accept(mv);
+        noteSkew("unit:" + t.unit(), r, mv);
+        if (!r.contains(ValidationReason.DUPLICATE) && !r.contains(ValidationReason.OUT_OF_ORDER)) {
+            telemetry.put(t.unit(), t);
+        }
+    }
+
+    private void onAck(CommandAck a, long receivedAtMs) {
+        String key = a.outcome() == AckOutcome.ACCEPTED ? "accepted" : "refused:" + a.reason().name();
+        count(acksByOutcome, key);
+        observer.onAck(a, receivedAtMs);
+    }
+
+    private void onSchedule(String topic, ParsedTopic p, Schedule s) {
+        if (!frequency.containsKey(p.area()) || !s.area().equals(p.area())) {
+            reject(topic, frequency.containsKey(p.area()) ? "topicMismatch" : "unknownArea", "schedule for " + s.area());
+            return;
+        }
+        List<Schedule> list = schedules.computeIfAbsent(p.area(), k -> new ArrayList<>());
+        list.add(s);
+        list.sort((x, y) -> Long.compare(x.effectiveFrom(), y.effectiveFrom()));
+    }
+
+    private void noteSkew(String source, Set<ValidationReason> reasons, MeasuredValue v) {
+        for (ValidationReason r : reasons) {
+            if ((r == ValidationReason.CLOCK_SKEW_AHEAD || r == ValidationReason.CLOCK_SKEW_BEHIND)
+                    && skewReported.add(source + ":" + r.code())) {
+                observer.onClockSkew(source, v.sourceTimeMs() - v.receivedAtMs());
+            }
+        }
+    }
+
+    private void reject(String topic, String reason, String detail) {
+        count(rejectedByReason, reason);
+        observer.onRejected(topic, reason, detail);
+    }
+
+    private static void count(Map<String, AtomicLong> m, String key) {
+        m.computeIfAbsent(key, k -> new AtomicLong()).incrementAndGet();
+    }
+
+    // ---- what the cycle reads
+
+    /** @return validated inputs of one area at controller time {@code nowMs} */
+    public AreaCycleInputs areaInputs(String areaId, long nowMs) {
+        ValidatedInput f = frequency.get(areaId);
+        if (f == null) {
+            throw new IllegalArgumentException("no area " + areaId);
+        }
+        Map<String, ValidatedValue> ties = new TreeMap<>();
+        for (SiteTie t : site.tiesOf(areaId)) {
+            ties.put(t.id(), tieFlow.get(areaId + "/" + t.id()).evaluate(nowMs));
+        }
+        return new AreaCycleInputs(areaId, f.evaluate(nowMs), ties, schedule(areaId, nowMs), 0, 0);
+    }
+
+    /** @return the schedule in force at {@code nowMs}, the site's when none was received, or null */
+    public AreaSchedule schedule(String areaId, long nowMs) {
+        Schedule inForce = null;
+        for (Schedule s : schedules.getOrDefault(areaId, List.of())) {
+            if (s.effectiveFrom() <= nowMs) {
+                inForce = s;
+            }
+        }
+        if (inForce != null) {
+            return new AreaSchedule(inForce.scheduledNetInterchangeMw(), inForce.scheduledFrequencyHz());
+        }
+        return settings.scheduleFromSite() ? site.siteSchedule(areaId) : null;
+    }
+
+    /** @return every unit with telemetry, as the cycle sees it at {@code nowMs} */
+    public List<UnitState> unitStates(long nowMs) {
+        List<UnitState> out = new ArrayList<>();
+        for (SiteUnit u : site.units()) {
+            UnitTelemetry t = telemetry.get(u.id());
+            if (t == null) {
+                continue;
+            }
+            boolean good = telemetryCheck.get(u.id()).evaluate(nowMs).usable();
+            double min = Math.min(t.regulatingMinMw(), t.regulatingMaxMw());
+            out.add(new UnitState(u.id(), u.area(), t.controlMode() == ControlMode.REMOTE,
+                    t.status() == UnitStatus.ONLINE, good, t.setpointMw(), t.outputMw(), min, t.regulatingMaxMw(),
+                    Math.max(0, t.rampMwPerMin()), Math.max(0, t.pulseRateMwPerMin()), t.acceptsSetpoints(),
+                    t.sourceTime()));
+        }
+        return out;
+    }
+
+    // ---- counters and diagnostics
+
+    /** @return rejected messages by reason code (decode error kinds, unknownTopic, queueFull, …) */
+    public Map<String, Long> rejectedByReason() {
+        Map<String, Long> out = new TreeMap<>();
+        rejectedByReason.forEach((k, v) -> out.put(k, v.get()));
+        return out;
+    }
+
+    /** @return acks by outcome: {@code accepted} and {@code refused:REASON} */
+    public Map<String, Long> acksByOutcome() {
+        Map<String, Long> out = new TreeMap<>();
+        acksByOutcome.forEach((k, v) -> out.put(k, v.get()));
+        return out;
+    }
+
+    public long queueOverflowCount() { return queueOverflow.sum(); }
+    public long messagesRouted() { return messagesRouted; }
+    /** @return the frequency input of an area (for diagnostics and tests) */
+    public ValidatedInput frequencyInput(String areaId) { return frequency.get(areaId); }
+    /** @return the flow input of a tie seen from one area */
+    public ValidatedInput tieFlowInput(String areaId, String tieId) { return tieFlow.get(areaId + "/" + tieId); }
+    /** @return the telemetry check of a unit */
+    public SourceValidator telemetryCheck(String unitId) { return telemetryCheck.get(unitId); }
+    /** @return the meter taken as primary in an area, or null before any was heard */
+    public String primaryMeter(String areaId) { return primaryMeter.get(areaId); }
+}

@@ -1,0 +1,362 @@
+package org.loopstand.controller.runtime;
+
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Optional;
+import java.util.concurrent.ConcurrentLinkedQueue;
+import org.loopstand.controller.config.ControllerSiteConfig;
+import org.loopstand.controller.config.SiteArea;
+import org.loopstand.controller.cycle.AreaCycleInputs;
+import org.loopstand.controller.cycle.AreaCycleResult;
+import org.loopstand.controller.cycle.ControlCycle;
+import org.loopstand.controller.cycle.CycleInputs;
+import org.loopstand.controller.cycle.CycleOutcome;
+import org.loopstand.controller.cycle.CycleScheduler;
+import org.loopstand.controller.cycle.CycleTick;
+import org.loopstand.controller.intake.IntakeObserver;
+import org.loopstand.controller.intake.IntakeRouter;
+import org.loopstand.controller.pulse.CommandKind;
+import org.loopstand.controller.pulse.PlannedCommand;
+import org.loopstand.controller.pulse.PulseDirection;
+import org.loopstand.controller.safety.InterlockState;
+import org.loopstand.protocol.agent.Agent;
+import org.loopstand.protocol.bus.ConnectionListener;
+import org.loopstand.protocol.bus.MessageBus;
+import org.loopstand.protocol.bus.OutboundMessage;
+import org.loopstand.protocol.bus.Qos;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.journal.EndReason;
+import org.loopstand.protocol.journal.HistogramLogs;
+import org.loopstand.protocol.journal.JournalFormat;
+import org.loopstand.protocol.journal.JournalWriter;
+import org.loopstand.protocol.message.AckOutcome;
+import org.loopstand.protocol.message.AreaAce;
+import org.loopstand.protocol.message.CommandAck;
+import org.loopstand.protocol.message.ControllerState;
+import org.loopstand.protocol.message.ControllerStatus;
+import org.loopstand.protocol.message.UnitCommand;
+import org.loopstand.protocol.time.Clock;
+import org.loopstand.protocol.topic.TopicTree;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/**
+ * The controller as a process on the bus. On every tick of its {@link CycleScheduler} (fixed rate,
+ * no drift) it builds the cycle inputs from the {@link IntakeRouter}, runs {@link ControlCycle#step},
+ * publishes the planned commands as {@link UnitCommand}s (QoS 1, MQTT expiry from validUntil) and a
+ * retained {@link ControllerStatus}, journals the decision and records the cycle start jitter.
+ *
+ * <p>Bus link: a {@link ConnectionListener} keeps {@code linkUp}; while it is down the cycle's
+ * interlock suspends ({@code busLinkDown}) and nothing at all is published. Not thread-safe: one
+ * runner thread calls {@link #doWork()} (or a test after advancing a virtual clock).
+ */
+public final class ControllerAgent implements Agent {
+    private static final Logger LOG = LoggerFactory.getLogger(ControllerAgent.class);
+    /** Jitter tag in the histogram log, µs. */
+    public static final String JITTER_TAG = "cycleStartJitterUs";
+
+    private final ControllerSiteConfig site;
+    private final MessageBus bus;
+    private final Clock clock;
+    private final BusClock busClock;
+    private final String controllerId;
+    private final long epoch;
+    private final JournalWriter journal;
+    private final HistogramLogs histograms;
+    private final TopicTree topics;
+    private final MessageCodec codec = new MessageCodec();
+    private final IntakeRouter intake;
+    private final ControlCycle cycle;
+    private final ConcurrentLinkedQueue<String> publishFailures = new ConcurrentLinkedQueue<>();
+    private final ConcurrentLinkedQueue<Map<String, Object>> journalEvents = new ConcurrentLinkedQueue<>();
+    private volatile boolean linkUp;
+    private CycleScheduler scheduler;
+    private CycleOutcome lastOutcome;
+    private long commandSeq;
+    private long statusSeq;
+    private long commandsSent;
+    private long statusesSent;
+    private long cyclesRun;
+
+    /**
+     * @param site         the controller's site configuration
+     * @param bus          the bus (MQTT link or in-memory); its last will should be this
+     *                     controller's offline status ({@link #offlineStatus})
+     * @param clock        the controller's clock (wall, accelerated, virtual, or {@code busClock})
+     * @param busClock     when following the plant's clock: the same object as {@code clock}, fed
+     *                     from clock ticks; cycles wait for its first tick. Null otherwise
+     * @param controllerId controller id (id pattern)
+     * @param epoch        controller epoch, ≥ 0 (the start time in epoch ms by convention)
+     * @param journal      run journal, or null for none; owned and closed by this agent
+     * @param histograms   histogram log for the cycle jitter, or null; owned and closed by this agent
+     */
+    public ControllerAgent(ControllerSiteConfig site, MessageBus bus, Clock clock, BusClock busClock,
+                           String controllerId, long epoch, JournalWriter journal, HistogramLogs histograms) {
+        if (busClock != null && busClock != clock) {
+            throw new IllegalArgumentException("busClock must be the agent's clock when given");
+        }
+        this.site = site;
+        this.bus = bus;
+        this.clock = clock;
+        this.busClock = busClock;
+        this.controllerId = controllerId;
+        this.epoch = epoch;
+        this.journal = journal;
+        this.histograms = histograms;
+        this.topics = TopicTree.forSite(site.siteId());
+        this.cycle = new ControlCycle(site.toCycleSettings());
+        this.intake = new IntakeRouter(site, clock, codec, new Observer());
+        if (busClock != null) {
+            intake.onClockTick(busClock::onTick);
+        }
+    }
+
+    /** @return the retained status to register as the bus connection's last will */
+    public static OutboundMessage offlineStatus(String siteId, String controllerId, long epoch, long nowMs) {
+        ControllerStatus s = new ControllerStatus(0, Math.max(1, nowMs), controllerId, epoch, ControllerState.OFFLINE,
+                List.of("connectionLost"), 0, List.of());
+        return new OutboundMessage(TopicTree.forSite(siteId).controllerStatus(controllerId),
+                new MessageCodec().encode(s), Qos.AT_LEAST_ONCE, true, 0);
+    }
+
+    @Override
+    public void onStart() {
+        bus.addConnectionListener(new ConnectionListener() {
+            @Override
+            public void onConnected(boolean reconnect) {
+                linkUp = true;
+                journalEvents.add(Map.of("event", reconnect ? "busReconnected" : "busConnected"));
+            }
+
+            @Override
+            public void onDisconnected(Throwable cause) {
+                linkUp = false;
+                journalEvents.add(Map.of("event", "busLinkDown", "cause", String.valueOf(cause)));
+            }
+        });
+        for (String filter : intake.subscriptions()) {
+            bus.subscribe(filter, Qos.AT_LEAST_ONCE, intake.listener());
+        }
+        linkUp = bus.isConnected();
+        if (linkUp) {
+            publishStatus(ControllerState.SUSPENDED, List.of("starting"), 0, List.of());
+        }
+    }
+
+    @Override
+    public int doWork() {
+        int work = intake.drain();
+        drainEvents();
+        if (scheduler == null) {
+            if (busClock != null && !busClock.synced()) {
+                return work;
+            }
+            scheduler = CycleScheduler.alignedTo(clock, site.settings().cycleMs() * 1_000_000L);
+        }
+        Optional<CycleTick> tick = scheduler.poll();
+        if (tick.isPresent()) {
+            runCycle(tick.get());
+            work++;
+        }
+        if (journal != null) {
+            journal.flushIfDue();
+        }
+        if (histograms != null) {
+            histograms.writeIntervalIfDue();
+        }
+        return work;
+    }
+
+    /** @return ns until the next cycle start (for a runner that waits its own way); 0 if unknown */
+    public long nanosUntilNextCycle() {
+        return scheduler == null ? 0 : scheduler.nanosUntilNext();
+    }
+
+    private void runCycle(CycleTick tick) {
+        long nowMs = clock.epochMillis();
+        boolean link = linkUp && bus.isConnected();
+        List<AreaCycleInputs> areas = new ArrayList<>();
+        for (SiteArea a : site.areas()) {
+            areas.add(intake.areaInputs(a.id(), nowMs));
+        }
+        CycleOutcome o = cycle.step(new CycleInputs(tick.cycleNumber(), nowMs, link, areas, intake.unitStates(nowMs)));
+        lastOutcome = o;
+        cyclesRun++;
+        if (histograms != null) {
+            histograms.record(JITTER_TAG, tick.jitterNanos() / 1000);
+        }
+        List<AreaAce> aces = areaAces(o);
+        if (link) {
+            for (PlannedCommand c : o.commands()) {
+                send(c, nowMs);
+            }
+            ControllerState state = o.state() == InterlockState.REGULATING ? ControllerState.REGULATING
+                    : ControllerState.SUSPENDED;
+            publishStatus(state, o.reasons(), tick.cycleNumber(), aces);
+        }
+        if (journal != null) {
+            Map<String, Object> f = new LinkedHashMap<>();
+            f.put("cycle", tick.cycleNumber());
+            f.put("state", o.state().name().toLowerCase(java.util.Locale.ROOT));
+            f.put("reasons", o.reasons());
+            f.put("areas", aces);
+            f.put("commands", o.commands().size());
+            f.put("notes", o.notes());
+            f.put("jitterUs", tick.jitterNanos() / 1000);
+            f.put("missedBefore", tick.missedBefore());
+            f.put("linkUp", link);
+            journal.append(nowMs, JournalFormat.KIND_DECIDED, f);
+        }
+    }
+
+    private static List<AreaAce> areaAces(CycleOutcome o) {
+        List<AreaAce> out = new ArrayList<>();
+        for (AreaCycleResult r : o.areas()) {
+            if (r.ace() == null || !Double.isFinite(r.aceMw())) {
+                continue; // unknown ACE is not published as a number; the reasons say why
+            }
+            double filtered = r.regulation() == null ? r.aceMw() : r.regulation().filteredAceMw();
+            String band = r.regulation() == null ? "held" : r.regulation().band().code();
+            out.add(new AreaAce(r.areaId(), clampMw(r.aceMw()), clampMw(filtered), band));
+        }
+        return out;
+    }
+
+    private static double clampMw(double mw) {
+        return Math.max(-1e6, Math.min(1e6, mw));
+    }
+
+    private void send(PlannedCommand c, long nowMs) {
+        long seq = ++commandSeq;
+        UnitCommand cmd = c.kind() == CommandKind.PULSE
+                ? UnitCommand.pulse(seq, nowMs, c.unitId(), controllerId, epoch, c.validUntilMs(),
+                        c.direction() == PulseDirection.RAISE ? org.loopstand.protocol.message.PulseDirection.RAISE
+                                : org.loopstand.protocol.message.PulseDirection.LOWER, c.durationMs())
+                : UnitCommand.setpoint(seq, nowMs, c.unitId(), controllerId, epoch, c.validUntilMs(), c.setpointMw());
+        long expiryS = Math.max(1, (c.validUntilMs() - nowMs + 999) / 1000);
+        OutboundMessage m = new OutboundMessage(topics.unitCommand(c.unitId()), codec.encode(cmd), Qos.AT_LEAST_ONCE,
+                false, expiryS);
+        bus.publish(m).whenComplete((v, e) -> {
+            if (e != null) {
+                publishFailures.add("command " + seq + " to " + c.unitId() + ": " + e);
+            }
+        });
+        commandsSent++;
+        if (journal != null) {
+            Map<String, Object> f = new LinkedHashMap<>();
+            f.put("unit", c.unitId());
+            f.put("seq", seq);
+            f.put("kind", c.kind().name().toLowerCase(java.util.Locale.ROOT));
+            if (c.kind() == CommandKind.PULSE) {
+                f.put("direction", c.direction().name().toLowerCase(java.util.Locale.ROOT));
+                f.put("durationMs", c.durationMs());
+            } else {
+                f.put("setpointMw", c.setpointMw());
+            }
+            f.put("deltaMw", c.deltaMw());
+            f.put("validUntil", c.validUntilMs());
+            journal.append(nowMs, JournalFormat.KIND_SENT, f);
+        }
+    }
+
+    private void publishStatus(ControllerState state, List<String> reasons, long cycleNumber, List<AreaAce> aces) {
+        long nowMs = Math.max(1, clock.epochMillis());
+        ControllerStatus s = new ControllerStatus(++statusSeq, nowMs, controllerId, epoch, state, reasons,
+                Math.max(0, cycleNumber), aces);
+        bus.publish(new OutboundMessage(topics.controllerStatus(controllerId), codec.encode(s), Qos.AT_LEAST_ONCE,
+                true, 0)).whenComplete((v, e) -> {
+                    if (e != null) {
+                        publishFailures.add("status " + s.seq() + ": " + e);
+                    }
+                });
+        statusesSent++;
+    }
+
+    private void drainEvents() {
+        String failure;
+        while ((failure = publishFailures.poll()) != null) {
+            LOG.warn("publish failed: {}", failure);
+            if (journal != null) {
+                journal.append(clock.epochMillis(), JournalFormat.KIND_REFUSED, Map.of("publishFailed", failure));
+            }
+        }
+        Map<String, Object> ev;
+        while ((ev = journalEvents.poll()) != null) {
+            LOG.info("bus: {}", ev);
+            if (journal != null) {
+                journal.append(clock.epochMillis(), JournalFormat.KIND_EVENT, ev);
+            }
+        }
+    }
+
+    @Override
+    public void onClose() {
+        drainEvents();
+        if (linkUp && bus.isConnected()) {
+            publishStatus(ControllerState.OFF, List.of("stopped"), lastOutcome == null ? 0 : lastOutcome.cycleNumber(),
+                    List.of());
+        }
+        if (journal != null && !journal.isClosed()) {
+            journal.append(clock.epochMillis(), JournalFormat.KIND_EVENT, Map.of("event", "summary",
+                    "cycles", cyclesRun, "commandsSent", commandsSent, "rejected", intake.rejectedByReason(),
+                    "acks", intake.acksByOutcome(), "cyclesMissed", scheduler == null ? 0 : scheduler.cyclesMissed()));
+            journal.close(clock.epochMillis(), EndReason.STOPPED);
+        }
+        if (histograms != null) {
+            histograms.close();
+        }
+    }
+
+    @Override
+    public String roleName() {
+        return "controller-" + controllerId;
+    }
+
+    /** Journals what the intake reports (on the agent thread, while draining). */
+    private final class Observer implements IntakeObserver {
+        @Override
+        public void onRejected(String topic, String reason, String detail) {
+            if (journal != null) {
+                journal.append(clock.epochMillis(), JournalFormat.KIND_REFUSED,
+                        Map.of("topic", topic, "reason", reason, "detail", detail));
+            }
+        }
+
+        @Override
+        public void onAck(CommandAck ack, long receivedAtMs) {
+            if (journal != null) {
+                Map<String, Object> f = new LinkedHashMap<>();
+                f.put("ack", ack.unit());
+                f.put("commandSeq", ack.commandSeq());
+                f.put("outcome", ack.outcome() == AckOutcome.ACCEPTED ? "accepted" : "rejected");
+                if (ack.reason() != null) {
+                    f.put("reason", ack.reason().name());
+                }
+                journal.append(receivedAtMs, ack.outcome() == AckOutcome.ACCEPTED ? JournalFormat.KIND_RECEIVED
+                        : JournalFormat.KIND_REFUSED, f);
+            }
+        }
+
+        @Override
+        public void onClockSkew(String source, long skewMs) {
+            LOG.warn("clock skew of {} ms from {}", skewMs, source);
+            if (journal != null) {
+                journal.append(clock.epochMillis(), JournalFormat.KIND_EVENT,
+                        Map.of("event", "clockSkew", "source", source, "skewMs", skewMs));
+            }
+        }
+    }
+
+    // ---- for tests and the CLI
+
+    public CycleOutcome lastOutcome() { return lastOutcome; }
+    public IntakeRouter intake() { return intake; }
+    public ControlCycle cycle() { return cycle; }
+    public long commandsSent() { return commandsSent; }
+    public long statusesSent() { return statusesSent; }
+    public long cyclesRun() { return cyclesRun; }
+    public boolean linkUp() { return linkUp; }
+    public String controllerId() { return controllerId; }
+}

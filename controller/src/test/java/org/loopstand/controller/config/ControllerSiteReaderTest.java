@@ -1,0 +1,53 @@
+package org.loopstand.controller.config;
+
+import static org.assertj.core.api.Assertions.assertThat;
+import static org.assertj.core.api.Assertions.assertThatThrownBy;
+
+import java.nio.file.Path;
+import org.junit.jupiter.api.Test;
+import org.loopstand.controller.ace.AceConvention;
+
+class ControllerSiteReaderTest {
+    @Test
+    void shouldReadTheDemoSiteIgnoringPhysicsKeys() {
+        ControllerSiteConfig c = ControllerSiteReader.read(Path.of("..", "config", "sites", "demo-site.yaml"));
+        assertThat(c.siteId()).isEqualTo("demo-site");
+        assertThat(c.areas()).extracting(SiteArea::id).containsExactly("north-basin", "south-ridge");
+        assertThat(c.areas().get(0).convention()).isEqualTo(AceConvention.EUROPEAN);
+        assertThat(c.areas().get(0).bias()).isEqualTo(954);
+        assertThat(c.siteSchedule("north-basin").netInterchangeScheduledMw()).isEqualTo(100);
+        assertThat(c.siteSchedule("south-ridge").netInterchangeScheduledMw()).isEqualTo(-100);
+        assertThat(c.units()).hasSize(6);
+        // regulating limits fall back to the output limits like the plant does
+        assertThat(c.unit("ridge-steam-1").orElseThrow().maxMw()).isEqualTo(690);
+        assertThat(c.settings().cycleMs()).isEqualTo(4000);
+        assertThat(c.toCycleSettings().areas()).hasSize(2);
+    }
+
+    @Test
+    void shouldNameEveryProblemWithFileAndLine() {
+        assertThatThrownBy(() -> ControllerSiteReader.read("bad.yaml", """
+                siteId: s
+                areas:
+                  - id: a1
+                    nominalFrequencyHz: 60
+                    aceConvention: northAmerican
+                    biasMwPer01Hz: 34
+                  - id: a2
+                    nominalFrequencyHz: 60
+                    aceConvention: northAmerican
+                units:
+                  - {id: u1, area: nowhere}
+                controller:
+                  cycleS: 20
+                  regulaton: {kp: 1}
+                """)).isInstanceOf(ControllerConfigException.class).satisfies(e -> {
+                    ControllerConfigException x = (ControllerConfigException) e;
+                    assertThat(x.problems()).anySatisfy(p -> assertThat(p).startsWith("bad.yaml:3").contains("B = -34"));
+                    assertThat(x.problems()).anySatisfy(p -> assertThat(p).startsWith("bad.yaml:7").contains("biasMwPer01Hz"));
+                    assertThat(x.problems()).anySatisfy(p -> assertThat(p).startsWith("bad.yaml:11").contains("nowhere"));
+                    assertThat(x.problems()).anySatisfy(p -> assertThat(p).startsWith("bad.yaml:13").contains("[1, 10]"));
+                    assertThat(x.problems()).anySatisfy(p -> assertThat(p).startsWith("bad.yaml:14").contains("regulaton"));
+                });
+    }
+}

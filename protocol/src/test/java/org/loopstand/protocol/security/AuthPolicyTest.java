@@ -1,0 +1,51 @@
+package org.loopstand.protocol.security;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import org.junit.jupiter.api.Test;
+import org.loopstand.protocol.security.AuthPolicy.Decision;
+import org.loopstand.protocol.security.AuthPolicy.Settings;
+
+class AuthPolicyTest {
+    @Test
+    void shouldAllowInsecureOnlyOnLoopbackAndSaySoLoudly() {
+        for (String uri : new String[] {"tcp://127.0.0.1:1883", "tcp://localhost:1883", "tcp://[::1]:1883",
+                "tcp://127.0.0.2:1883"}) {
+            Decision d = AuthPolicy.decide(new Settings(uri, true, false, false));
+            assertThat(d.allowed()).as(uri).isTrue();
+            assertThat(d.insecure()).isTrue();
+            assertThat(d.message()).contains("INSECURE MODE");
+        }
+        Decision remote = AuthPolicy.decide(new Settings("tcp://10.1.2.3:1883", true, false, false));
+        assertThat(remote.allowed()).isFalse();
+        assertThat(remote.message()).contains("--insecure is allowed only with a loopback broker").contains("10.1.2.3");
+        assertThat(AuthPolicy.decide(new Settings("tcp://gateway.plant.example:1883", true, true, true)).allowed())
+                .as("a name is not resolved, so it is not loopback").isFalse();
+    }
+
+    @Test
+    void shouldRefuseToStartWithoutAuthUnlessInsecure() {
+        Decision d = AuthPolicy.decide(new Settings("tcp://127.0.0.1:1883", false, false, false));
+        assertThat(d.allowed()).isFalse();
+        assertThat(d.problems()).hasSize(2);
+        assertThat(d.message()).contains("username/password").contains("LOOPSTAND_KEYS_FILE");
+    }
+
+    @Test
+    void shouldRequireTlsForARemoteBroker() {
+        Decision plain = AuthPolicy.decide(new Settings("tcp://10.1.2.3:1883", false, true, true));
+        assertThat(plain.allowed()).isFalse();
+        assertThat(plain.message()).contains("ssl://");
+        Decision tls = AuthPolicy.decide(new Settings("ssl://10.1.2.3:8883", false, true, true));
+        assertThat(tls.allowed()).isTrue();
+        assertThat(tls.insecure()).isFalse();
+        assertThat(AuthPolicy.decide(new Settings("tcp://127.0.0.1:1883", false, true, true)).allowed())
+                .as("credentials and keys on loopback without TLS").isTrue();
+    }
+
+    @Test
+    void shouldRefuseAnUnparsableUri() {
+        assertThat(AuthPolicy.decide(new Settings("tcp://bad host:1", true, false, false)).allowed()).isFalse();
+        assertThat(AuthPolicy.decide(new Settings(null, true, false, false)).allowed()).isFalse();
+    }
+}
