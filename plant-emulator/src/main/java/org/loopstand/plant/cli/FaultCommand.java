@@ -141,9 +141,18 @@ public final class FaultCommand implements Runnable {
     /** {@code fault list}. */
     @Command(name = "list", mixinStandardHelpOptions = true, description = "List every fault type with its parameters and units.")
     static final class ListTypes implements Callable<Integer> {
+        @Option(names = "--markdown", description = "print the fault and check tables of docs/faults.md")
+        boolean markdown;
+
         @Override
         public Integer call() {
-            print(System.out);
+            if (markdown) {
+                System.out.print(org.loopstand.plant.fault.FaultDocs.faultTable());
+                System.out.println();
+                System.out.print(org.loopstand.plant.fault.FaultDocs.checkTable());
+            } else {
+                print(System.out);
+            }
             return 0;
         }
     }

@@ -69,7 +69,10 @@ public record ParameterSpec(String name, String unit, boolean text, double min, 
         if (defaultValue == null) {
             return "required";
         }
-        return defaultValue instanceof Double d ? format(d) : defaultValue.toString();
+        if (defaultValue instanceof Double d) {
+            return d.isNaN() ? "not set" : format(d);
+        }
+        return defaultValue.toString().isEmpty() ? "not set" : defaultValue.toString();
     }
 
     private String unitText() {
