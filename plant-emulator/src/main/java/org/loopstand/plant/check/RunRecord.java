@@ -80,10 +80,16 @@ public final class RunRecord implements FaultObserver {
     private final List<EventRecord> events = new ArrayList<>();
     private final Map<String, Integer> publicationFates = new LinkedHashMap<>();
     private double endS;
+    private RunRecordJournal.Mirror mirror;
 
     /** @param runStartEpochMs scenario time of t = 0, epoch ms */
     public RunRecord(long runStartEpochMs) {
         this.runStartEpochMs = runStartEpochMs;
+    }
+
+    /** Also writes everything recorded from now on into {@code journal} (see {@link RunRecordJournal}). */
+    public void mirrorTo(org.loopstand.protocol.journal.JournalWriter journal) {
+        mirror = new RunRecordJournal.Mirror(journal, runStartEpochMs);
     }
 
     private double s(long tMs) {
@@ -105,6 +111,15 @@ public final class RunRecord implements FaultObserver {
             series("outputMw/" + grid.units().get(u).id()).add(tS, sim.outputMw(u));
         }
         endS = Math.max(endS, tS);
+        if (mirror != null) {
+            Map<String, Double> values = new LinkedHashMap<>();
+            series.forEach((k, v) -> {
+                if (v.size() > 0 && v.timeS(v.size() - 1) == tS) {
+                    values.put(k, v.value(v.size() - 1));
+                }
+            });
+            mirror.truthSample(tS, values);
+        }
     }
 
     /** @return the named series (created empty if absent), e.g. {@code frequencyHz/north-basin} */
@@ -114,20 +129,41 @@ public final class RunRecord implements FaultObserver {
 
     public void event(double atS, String type, String description) {
         events.add(new EventRecord(atS, type, description));
+        if (mirror != null) {
+            mirror.event(atS, type, description);
+        }
     }
 
     /** The unit plant interface's answer to a command (call once per command handed to the unit). */
     public void commandHandled(long receivedMs, UnitCommand command, AckOutcome outcome, RefusalReason reason, boolean acted) {
-        commands.add(new CommandRecord(s(receivedMs), command, "handled", outcome, reason, acted));
+        add(new CommandRecord(s(receivedMs), command, "handled", outcome, reason, acted));
+    }
+
+    void add(CommandRecord c) {
+        commands.add(c);
+        if (mirror != null) {
+            mirror.command(c);
+        }
+    }
+
+    void add(FaultWindow w) {
+        faults.put(w.id(), w);
     }
 
     public void controllerStatus(long receivedMs, ControllerStatus status) {
         statuses.add(new StatusRecord(s(receivedMs), status));
+        if (mirror != null) {
+            mirror.status(s(receivedMs), status);
+        }
     }
 
     /** Marks the end of the run, s. */
     public void end(double tS) {
         endS = Math.max(endS, tS);
+        if (mirror != null) {
+            faults.values().forEach(mirror::faultWindow);
+            mirror.end(endS);
+        }
     }
 
     @Override
@@ -152,7 +188,7 @@ public final class RunRecord implements FaultObserver {
     @Override
     public void commandPassed(long tMs, UnitCommand command, String fate, List<String> faultIds) {
         if (!faultIds.isEmpty() && fate.equals("dropped")) {
-            commands.add(new CommandRecord(s(tMs), command, fate, null, null, false));
+            add(new CommandRecord(s(tMs), command, fate, null, null, false));
         }
     }
 
