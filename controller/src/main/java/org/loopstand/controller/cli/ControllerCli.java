@@ -9,7 +9,7 @@ import picocli.CommandLine.Command;
  */
 @Command(name = "loopstand", mixinStandardHelpOptions = true, version = "loopstand 0.1.0",
         description = "Loopstand control side: secondary controller and unit response test.",
-        subcommands = {ControlCommand.class})
+        subcommands = {ControlCommand.class, PulseTestCommand.class})
 public final class ControllerCli implements Runnable {
     @CommandLine.Spec
     private CommandLine.Model.CommandSpec spec;

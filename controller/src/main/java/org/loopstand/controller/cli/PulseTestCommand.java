@@ -1,0 +1,130 @@
+package org.loopstand.controller.cli;
+
+import java.io.BufferedReader;
+import java.io.InputStreamReader;
+import java.io.PrintStream;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Path;
+import java.util.LinkedHashMap;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Optional;
+import java.util.concurrent.Callable;
+import org.loopstand.controller.pulsetest.PulseTestEvaluator;
+import org.loopstand.controller.pulsetest.PulseTestResult;
+import org.loopstand.controller.pulsetest.PulseTestRunFolder;
+import org.loopstand.controller.pulsetest.PulseTestRunner;
+import org.loopstand.controller.pulsetest.analysis.Judgement;
+import org.loopstand.controller.pulsetest.plan.PlanException;
+import org.loopstand.controller.pulsetest.plan.PlanLimits;
+import org.loopstand.controller.pulsetest.plan.TestPlan;
+import org.loopstand.controller.pulsetest.plan.TestPlanLoader;
+import org.loopstand.controller.pulsetest.programme.SiteUnitReader;
+import org.loopstand.controller.pulsetest.safety.KeyAbortSwitch;
+import org.loopstand.controller.pulsetest.safety.SafetyGate;
+import org.loopstand.protocol.agent.AgentRunner;
+import org.loopstand.protocol.bus.mqtt.MqttLink;
+import org.loopstand.protocol.bus.mqtt.MqttLinkConfig;
+import org.loopstand.protocol.time.Clock;
+import org.loopstand.protocol.time.WallClock;
+import org.loopstand.protocol.topic.TopicTree;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+
+/** {@code ./loopstand pulse-test}: the unit response test against a broker. */
+@Command(name = "pulse-test", mixinStandardHelpOptions = true,
+        description = "Send a pulse programme to one unit and judge its response (docs/pulse-test.md).")
+public final class PulseTestCommand implements Callable<Integer> {
+    @Option(names = "--unit", required = true, description = "unit id")
+    String unit;
+    @Option(names = "--site", required = true, description = "site file (declared unit data, site id)")
+    Path site;
+    @Option(names = "--broker", defaultValue = "tcp://127.0.0.1:1883", description = "MQTT broker URL (default ${DEFAULT-VALUE})")
+    String broker;
+    @Option(names = "--plan", defaultValue = "config/plans/standard.yaml", description = "test plan (default ${DEFAULT-VALUE})")
+    Path planFile;
+    @Option(names = "--out", defaultValue = "runs", description = "folder for run folders (default ${DEFAULT-VALUE})")
+    Path out;
+    @Option(names = "--test-broker", description = "declare a non-loopback broker a test broker")
+    boolean testBroker;
+    @Option(names = "--live-plant", description = "allow a broker that is not a test broker (asks for a typed confirmation)")
+    boolean livePlant;
+    @Option(names = "--declared-from-telemetry", description = "judge against the unit's telemetry figures, not the site file's")
+    boolean fromTelemetry;
+    @Option(names = "--max-excursion-mw", description = "tighter excursion cap than the plan's, MW")
+    Double maxExcursionMw;
+    @Option(names = "--max-duration-s", description = "tighter duration cap than the plan's, s")
+    Double maxDurationS;
+    @Option(names = "--epoch", description = "controller epoch for the commands (default: now in seconds)")
+    Long epoch;
+
+    @Override
+    public Integer call() throws Exception {
+        PrintStream o = System.out;
+        o.println("CAUTIONS");
+        SafetyGate.CAUTIONS.forEach(c -> o.println("  - " + c));
+        TestPlan plan;
+        SiteUnitReader.SiteUnit siteUnit;
+        try {
+            plan = TestPlanLoader.load(planFile);
+            siteUnit = SiteUnitReader.read(site, unit);
+        } catch (PlanException | IllegalArgumentException e) {
+            System.err.println("pulse-test: " + e.getMessage());
+            return 2;
+        }
+        BufferedReader console = new BufferedReader(new InputStreamReader(System.in, StandardCharsets.UTF_8));
+        Optional<String> refusal = SafetyGate.admit(broker, testBroker, livePlant, unit, console, o);
+        if (refusal.isPresent()) {
+            System.err.println("pulse-test: " + refusal.get());
+            return 3;
+        }
+        PlanLimits caps = SafetyGate.caps(plan.limits(), maxExcursionMw == null ? Double.NaN : maxExcursionMw,
+                maxDurationS == null ? Double.NaN : maxDurationS);
+        Clock clock = WallClock.INSTANCE;
+        TopicTree topics = TopicTree.forSite(siteUnit.siteId());
+        MqttLinkConfig config = MqttLinkConfig.builder().serverUri(broker).clientId("pulse-test-" + unit).build();
+        PulseTestRunner runner;
+        try (MqttLink link = new MqttLink(config, clock).start()) {
+            if (!link.awaitConnected(10_000)) {
+                System.err.println("pulse-test: cannot connect to " + broker);
+                return 4;
+            }
+            runner = new PulseTestRunner(link, clock, topics, unit, plan, fromTelemetry ? null : siteUnit.unit(), caps,
+                    epoch == null ? clock.epochMillis() / 1000 : epoch, new KeyAbortSwitch(System.in), 30);
+            o.printf(Locale.ROOT, "pulse-test: unit %s on %s, plan %s; caps %.1f MW, %.0f s. Type q and Enter to stop.%n",
+                    unit, broker, plan.name(), caps.maxExcursionMw(), caps.maxDurationS());
+            PulseTestRunner r = runner;
+            Thread hook = new Thread(() -> r.abortNow("interrupted (signal)"));
+            Runtime.getRuntime().addShutdownHook(hook);
+            try (AgentRunner agent = new AgentRunner(runner, 10_000_000L).start()) {
+                while (!runner.isDone() && agent.isRunning()) {
+                    Thread.sleep(200); // CLI thread only waits; the agent does the work
+                }
+            }
+            Runtime.getRuntime().removeShutdownHook(hook);
+        }
+        PulseTestResult result = PulseTestEvaluator.evaluate(runner.record(), plan);
+        Path dir = out.resolve(PulseTestRunFolder.runId(result.record().startedMs(), unit));
+        Map<String, String> cfg = new LinkedHashMap<>();
+        cfg.put("broker", broker);
+        cfg.put("site file", site.toString());
+        cfg.put("plan file", planFile.toString());
+        Path html = PulseTestRunFolder.write(dir, result, plan, siteUnit.siteId(), cfg);
+        print(o, result);
+        o.println("report: " + html);
+        return result.verdict() == PulseTestResult.Verdict.PASS ? 0 : 1;
+    }
+
+    static void print(PrintStream o, PulseTestResult r) {
+        o.printf(Locale.ROOT, "%-34s %-26s %-5s %-34s %s%n", "step", "figure", "", "measured", "limit");
+        for (Judgement j : r.rows()) {
+            o.printf(Locale.ROOT, "%-34s %-26s %-5s %-34s %s%n", j.step(), j.figure(), j.passed() ? "PASS" : "FAIL",
+                    j.decidingFigure(), j.limit());
+        }
+        r.findings().forEach(f -> o.println("finding: unit " + f.text()));
+        if (!r.record().stopReason().isEmpty()) {
+            o.println(r.record().state().name().toLowerCase(Locale.ROOT) + ": " + r.record().stopReason());
+        }
+        o.println("verdict: " + r.verdict());
+    }
+}

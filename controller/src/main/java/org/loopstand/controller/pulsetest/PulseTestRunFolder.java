@@ -1,0 +1,222 @@
+package org.loopstand.controller.pulsetest;
+
+import com.fasterxml.jackson.databind.ObjectMapper;
+import com.fasterxml.jackson.databind.SerializationFeature;
+import com.fasterxml.jackson.databind.node.ArrayNode;
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Instant;
+import java.time.ZoneOffset;
+import java.time.format.DateTimeFormatter;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import org.loopstand.controller.pulsetest.analysis.Finding;
+import org.loopstand.controller.pulsetest.analysis.Judgement;
+import org.loopstand.controller.pulsetest.analysis.StepMeasurement;
+import org.loopstand.controller.pulsetest.plan.TestPlan;
+import org.loopstand.controller.pulsetest.safety.SafetyGate;
+import org.loopstand.protocol.message.PulseDirection;
+import org.loopstand.report.html.HtmlReportWriter;
+import org.loopstand.report.model.Chart;
+import org.loopstand.report.model.CheckResult;
+import org.loopstand.report.model.Metric;
+import org.loopstand.report.model.MetricSection;
+import org.loopstand.report.model.ReportModel;
+import org.loopstand.report.model.RunInfo;
+import org.loopstand.report.model.TimeSeries;
+
+/**
+ * Writes a pulse test's run folder: {@code result.json} (every figure and row), {@code telemetry.csv}
+ * (samples as received) and {@code report.html} (the same kind of report as a rehearsal).
+ */
+public final class PulseTestRunFolder {
+    private static final ObjectMapper JSON = new ObjectMapper().enable(SerializationFeature.INDENT_OUTPUT);
+    private static final DateTimeFormatter STAMP = DateTimeFormatter.ofPattern("yyyyMMdd'T'HHmmss").withZone(ZoneOffset.UTC);
+
+    private PulseTestRunFolder() {
+    }
+
+    /** @return folder name for a run: {@code 20260101T120000-pulse-test-unit} */
+    public static String runId(long startedMs, String unit) {
+        return STAMP.format(Instant.ofEpochMilli(startedMs)) + "-pulse-test-" + unit;
+    }
+
+    /**
+     * @param dir           run folder (created)
+     * @param configuration what the run was started with, key → value, shown in the report
+     * @return the HTML report's path
+     */
+    public static Path write(Path dir, PulseTestResult result, TestPlan plan, String site,
+            Map<String, String> configuration) {
+        try {
+            Files.createDirectories(dir);
+            Files.writeString(dir.resolve("result.json"), JSON.writeValueAsString(json(result, plan)));
+            Files.writeString(dir.resolve("telemetry.csv"), csv(result.record()));
+            return HtmlReportWriter.write(model(dir.getFileName().toString(), result, plan, site, configuration),
+                    dir.resolve("report.html"));
+        } catch (IOException e) {
+            throw new UncheckedIOException("cannot write the run folder " + dir + ": " + e.getMessage(), e);
+        }
+    }
+
+    static ObjectNode json(PulseTestResult r, TestPlan plan) {
+        PulseTestRecord rec = r.record();
+        ObjectNode root = JSON.createObjectNode();
+        root.put("unit", rec.unit());
+        root.put("plan", plan.name());
+        root.put("verdict", r.verdict().name().toLowerCase(Locale.ROOT));
+        root.put("state", rec.state().name().toLowerCase(Locale.ROOT));
+        root.put("stopReason", rec.stopReason());
+        root.put("startedMs", rec.startedMs());
+        root.put("programmeStartMs", rec.programmeStartMs());
+        root.put("stoppedMs", rec.stoppedMs());
+        if (rec.declaration() != null) {
+            root.set("declared", JSON.valueToTree(rec.declaration()));
+        }
+        root.put("pulsesSent", rec.pulses().size());
+        ArrayNode findings = root.putArray("findings");
+        for (Finding f : r.findings()) {
+            findings.add(f.text());
+        }
+        ArrayNode steps = root.putArray("steps");
+        for (StepResult s : r.steps()) {
+            ObjectNode n = steps.addObject();
+            n.put("index", s.index());
+            n.put("label", s.evidence().window().label());
+            n.put("kind", s.evidence().window().kind().yamlName());
+            n.put("expectedRampMwPerMin", s.evidence().expectedRampMwPerMin());
+            n.put("expectedMoveS", s.evidence().expectedMoveS());
+            n.set("measured", JSON.valueToTree(s.evidence().measurement()));
+            n.set("refusals", JSON.valueToTree(s.evidence().refusals()));
+            n.put("unanswered", s.evidence().unanswered());
+        }
+        root.set("rows", JSON.valueToTree(r.rows()));
+        root.set("notes", JSON.valueToTree(rec.notes()));
+        return root;
+    }
+
+    private static String csv(PulseTestRecord rec) {
+        StringBuilder b = new StringBuilder("tMs,outputMw,setpointMw,good\r\n");
+        for (TelemetryPoint t : rec.telemetry()) {
+            b.append(t.tMs()).append(',').append(t.outputMw()).append(',').append(t.setpointMw()).append(',')
+                    .append(t.good()).append("\r\n");
+        }
+        return b.toString();
+    }
+
+    static ReportModel model(String runId, PulseTestResult r, TestPlan plan, String site,
+            Map<String, String> configuration) {
+        PulseTestRecord rec = r.record();
+        boolean cut = r.verdict() == PulseTestResult.Verdict.ABORTED || r.verdict() == PulseTestResult.Verdict.REFUSED;
+        RunInfo run = new RunInfo(runId, site, "pulse test " + plan.name() + " on unit " + rec.unit(), rec.startedMs(),
+                Math.max(rec.startedMs(), rec.stoppedMs()), cut,
+                cut ? r.verdict().name().toLowerCase(Locale.ROOT) + ": " + rec.stopReason() : "");
+        List<CheckResult> checks = new ArrayList<>();
+        for (Judgement j : r.rows()) {
+            checks.add(new CheckResult(j.step() + ": " + j.figure(), j.passed(), j.decidingFigure(), j.limit(),
+                    j.passed() ? "plan " + plan.name() : "plan " + plan.name() + "; finding: unit " + j.finding().text()));
+        }
+        List<String> notes = new ArrayList<>(SafetyGate.CAUTIONS);
+        if (!rec.stopReason().isEmpty()) {
+            notes.add(0, "Run " + rec.state().name().toLowerCase(Locale.ROOT) + ": " + rec.stopReason());
+        }
+        for (Finding f : r.findings()) {
+            notes.add("Finding: unit " + f.text());
+        }
+        notes.addAll(rec.notes());
+        List<MetricSection> sections = new ArrayList<>();
+        for (StepResult s : r.steps()) {
+            StepMeasurement m = s.evidence().measurement();
+            // The report has two metric groups; per-step response figures go under the first.
+            sections.add(new MetricSection("Step " + (s.index() + 1) + ": " + s.evidence().window().label(),
+                    MetricSection.Group.FREQUENCY_QUALITY, List.of(
+                            Metric.of("requested change", m.requestedChangeMw(), 2, "MW", "declared pulse rate × pulse time"),
+                            Metric.of("measured change", m.measuredChangeMw(), 2, "MW", "final mean − baseline mean"),
+                            Metric.of("dead time", m.deadTimeS(), 1, "s", "10–90 % fit meets baseline, from first pulse"),
+                            Metric.of("ramp rate", m.rampMwPerMin(), 2, "MW/min", "least squares over 10–90 % of the move"),
+                            Metric.of("expected ramp", s.evidence().expectedRampMwPerMin(), 2, "MW/min",
+                                    "slower of declared ramp and pulse train rate"),
+                            Metric.of("gain", m.gainMwPerPulseS(), 3, "MW/pulse-s", "measured change / pulse-seconds"),
+                            Metric.of("overshoot", m.overshootPct(), 1, "%", "beyond the final value"),
+                            Metric.of("settling time", m.settlingTimeS(), 1, "s", "from first pulse into the band"),
+                            Metric.of("final error", m.finalErrorMw(), 2, "MW", "final − (baseline + requested)"),
+                            Metric.of("turn-round delay", m.turnDelayS(), 1, "s", "reversal: opposite pulses to peak"),
+                            new Metric("refused commands", Integer.toString(s.evidence().refusals().size()), "", ""))));
+        }
+        List<Chart> charts = charts(rec);
+        Map<String, String> config = new LinkedHashMap<>(configuration);
+        config.put("plan", plan.name() + (plan.description().isEmpty() ? "" : " – " + plan.description()));
+        if (rec.declaration() != null) {
+            config.put("declared data", String.format(Locale.ROOT,
+                    "%s: regulating %.1f–%.1f MW, ramp %.2f MW/min, pulse rate %.2f MW/min",
+                    rec.declaration().source(), rec.declaration().regulatingMinMw(), rec.declaration().regulatingMaxMw(),
+                    rec.declaration().rampMwPerMin(), rec.declaration().pulseRateMwPerMin()));
+        }
+        config.put("pulses sent", Integer.toString(rec.pulses().size()));
+        Map<String, String> versions = new LinkedHashMap<>();
+        versions.put("Loopstand", "0.1.0");
+        versions.put("Java", Runtime.version().toString());
+        return new ReportModel(run, checks, sections, charts, List.of(), config, versions, notes);
+    }
+
+    private static List<Chart> charts(PulseTestRecord rec) {
+        List<Chart> charts = new ArrayList<>();
+        List<TelemetryPoint> t = rec.telemetry();
+        if (!t.isEmpty()) {
+            long[] ts = t.stream().mapToLong(TelemetryPoint::tMs).toArray();
+            double[] out = t.stream().mapToDouble(p -> p.good() ? p.outputMw() : Double.NaN).toArray();
+            double[] ref = t.stream().mapToDouble(TelemetryPoint::setpointMw).toArray();
+            List<TimeSeries> series = new ArrayList<>();
+            series.add(new TimeSeries("measured output", "MW", ts, out));
+            series.add(new TimeSeries("unit load reference", "MW", ts, ref));
+            TimeSeries requested = requested(rec);
+            if (requested != null) {
+                series.add(requested);
+            }
+            charts.add(new Chart("Requested vs measured output " + rec.unit(), "MW", series, false));
+        }
+        if (!rec.pulses().isEmpty()) {
+            int n = rec.pulses().size();
+            long[] ts = new long[2 * n];
+            double[] v = new double[2 * n];
+            for (int i = 0; i < n; i++) {
+                SentPulse p = rec.pulses().get(i);
+                long end = Math.max(p.sentMs(), p.sentMs() + p.durationMs());
+                ts[2 * i] = p.sentMs();
+                v[2 * i] = p.direction() == PulseDirection.RAISE ? 1 : -1;
+                ts[2 * i + 1] = i + 1 < n ? Math.min(end, rec.pulses().get(i + 1).sentMs()) : end;
+                v[2 * i + 1] = 0;
+            }
+            charts.add(new Chart("Pulses sent (+1 raise, −1 lower)", "pulse",
+                    List.of(new TimeSeries("pulse", "", ts, v)), true));
+        }
+        return charts;
+    }
+
+    /** Requested output: start + the declared pulse rate integrated over the pulses sent, as a step line. */
+    private static TimeSeries requested(PulseTestRecord rec) {
+        if (rec.programme() == null || rec.declaration() == null || rec.pulses().isEmpty()) {
+            return null;
+        }
+        int n = rec.pulses().size();
+        long[] ts = new long[n + 1];
+        double[] v = new double[n + 1];
+        ts[0] = rec.programmeStartMs();
+        v[0] = rec.programme().startMw();
+        double level = v[0];
+        for (int i = 0; i < n; i++) {
+            SentPulse p = rec.pulses().get(i);
+            level += (p.direction() == PulseDirection.RAISE ? 1 : -1) * rec.declaration().pulseRateMwPerMin()
+                    * p.durationMs() / 60_000.0;
+            ts[i + 1] = Math.max(ts[i], p.sentMs() + p.durationMs());
+            v[i + 1] = level;
+        }
+        return new TimeSeries("requested (declared pulse rate × pulses)", "MW", ts, v);
+    }
+}

@@ -1,0 +1,340 @@
+package org.loopstand.controller.pulsetest;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Optional;
+import java.util.concurrent.ConcurrentLinkedQueue;
+import org.loopstand.controller.pulsetest.plan.PlanException;
+import org.loopstand.controller.pulsetest.plan.PlanLimits;
+import org.loopstand.controller.pulsetest.plan.TestPlan;
+import org.loopstand.controller.pulsetest.programme.ProgrammeStep;
+import org.loopstand.controller.pulsetest.programme.PulseProgramme;
+import org.loopstand.controller.pulsetest.programme.TimedPulse;
+import org.loopstand.controller.pulsetest.programme.UnitDeclaration;
+import org.loopstand.controller.pulsetest.safety.AbortSwitch;
+import org.loopstand.controller.pulsetest.safety.SafetyGate;
+import org.loopstand.protocol.agent.Agent;
+import org.loopstand.protocol.bus.InboundMessage;
+import org.loopstand.protocol.bus.MessageBus;
+import org.loopstand.protocol.bus.OutboundMessage;
+import org.loopstand.protocol.bus.Qos;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.message.CommandAck;
+import org.loopstand.protocol.message.ControlMode;
+import org.loopstand.protocol.message.UnitCommand;
+import org.loopstand.protocol.message.UnitStatus;
+import org.loopstand.protocol.message.UnitTelemetry;
+import org.loopstand.protocol.message.Validity;
+import org.loopstand.protocol.time.Clock;
+import org.loopstand.protocol.topic.TopicTree;
+
+/**
+ * Sends a plan's pulse programme to one unit over the bus and records the answer. An {@link Agent}:
+ * driven by an AgentRunner in production, by hand after advancing a virtual clock in tests.
+ *
+ * <p>Stops at once, sending nothing further, when the abort switch is pressed, when good telemetry is
+ * silent for more than {@code telemetryLossScans} scan periods, when the bus drops, when the unit leaves
+ * online/remote, when its output leaves the excursion cap, or when the duration cap is reached.
+ */
+public final class PulseTestRunner implements Agent {
+    /** Controller id the test's commands carry. */
+    public static final String CONTROLLER_ID = "pulse-test";
+    private static final long DEFAULT_SCAN_MS = 1000;
+
+    private final MessageBus bus;
+    private final Clock clock;
+    private final TopicTree topics;
+    private final MessageCodec codec = new MessageCodec();
+    private final String unitId;
+    private final TestPlan plan;
+    private final UnitDeclaration siteDeclaration;
+    private final PlanLimits caps;
+    private final long epoch;
+    private final AbortSwitch abort;
+    private final long startTimeoutMs;
+    private final ConcurrentLinkedQueue<Object[]> inbox = new ConcurrentLinkedQueue<>();
+
+    private final List<TelemetryPoint> telemetry = new ArrayList<>();
+    private final List<SentPulse> sent = new ArrayList<>();
+    private final Map<Long, CommandAck> acks = new HashMap<>();
+    private final List<String> notes = new ArrayList<>();
+    private final long startedMs;
+    private RunState state = RunState.AWAITING_TELEMETRY;
+    private String stopReason = "";
+    private UnitDeclaration declaration;
+    private PulseProgramme programme;
+    private List<TimedPulse> schedule = List.of();
+    private List<Integer> scheduleStep = List.of();
+    private int nextPulse;
+    private long programmeStartMs = -1;
+    private long stoppedMs = -1;
+    private long nextSeq;
+    private UnitTelemetry latest;
+    private long lastGoodMs = -1;
+
+    /**
+     * @param siteDeclaration declared data from the site file, or null to take it from telemetry
+     * @param caps            excursion and duration caps in force (see {@link SafetyGate#caps})
+     * @param epoch           controller epoch the commands carry, ≥ 0
+     * @param startTimeoutS   how long to wait for the unit's first telemetry, s
+     */
+    public PulseTestRunner(MessageBus bus, Clock clock, TopicTree topics, String unitId, TestPlan plan,
+            UnitDeclaration siteDeclaration, PlanLimits caps, long epoch, AbortSwitch abort, double startTimeoutS) {
+        this.bus = bus;
+        this.clock = clock;
+        this.topics = topics;
+        this.unitId = unitId;
+        this.plan = plan;
+        this.siteDeclaration = siteDeclaration;
+        this.caps = caps;
+        this.epoch = epoch;
+        this.abort = abort;
+        this.startTimeoutMs = Math.round(startTimeoutS * 1000);
+        this.startedMs = clock.epochMillis();
+        // Seq rises across runs (the unit refuses a seq it has seen from this controller id).
+        this.nextSeq = startedMs;
+    }
+
+    @Override
+    public void onStart() {
+        bus.subscribe(topics.unitTelemetry(unitId), Qos.AT_MOST_ONCE, m -> receive(m, UnitTelemetry.class));
+        bus.subscribe(topics.unitAck(unitId), Qos.AT_LEAST_ONCE, m -> receive(m, CommandAck.class));
+    }
+
+    private void receive(InboundMessage m, Class<?> type) {
+        // Stamped on arrival with the test's clock: the plant's clock may be offset from ours.
+        inbox.add(new Object[] {m, type, clock.epochMillis()});
+    }
+
+    @Override
+    public int doWork() {
+        if (isDone()) {
+            return 0;
+        }
+        int work = drain();
+        long now = clock.epochMillis();
+        if (state == RunState.AWAITING_TELEMETRY) {
+            if (latest != null && lastGoodMs >= 0) {
+                begin(now);
+                return work + 1;
+            }
+            if (now - startedMs > startTimeoutMs) {
+                stop(RunState.ABORTED, "no good telemetry from unit " + unitId + " within "
+                        + startTimeoutMs / 1000.0 + " s", now);
+            }
+            return work;
+        }
+        Optional<String> why = abortReason(now);
+        if (why.isPresent()) {
+            stop(RunState.ABORTED, why.get(), now);
+            return work + 1;
+        }
+        while (nextPulse < schedule.size() && programmeStartMs + schedule.get(nextPulse).atOffsetMs() <= now) {
+            send(schedule.get(nextPulse), scheduleStep.get(nextPulse), now);
+            nextPulse++;
+            work++;
+        }
+        if (now >= programmeStartMs + programme.durationMs()) {
+            stop(RunState.FINISHED, "", now);
+        }
+        return work;
+    }
+
+    private int drain() {
+        int n = 0;
+        Object[] item;
+        while ((item = inbox.poll()) != null) {
+            n++;
+            InboundMessage m = (InboundMessage) item[0];
+            long at = (Long) item[2];
+            if (item[1] == UnitTelemetry.class) {
+                codec.decode(m.payload(), UnitTelemetry.class).message().filter(t -> t.unit().equals(unitId))
+                        .ifPresent(t -> onTelemetry(t, at));
+            } else {
+                codec.decode(m.payload(), CommandAck.class)
+                        .message().filter(a -> a.controllerId().equals(CONTROLLER_ID))
+                        .ifPresent(a -> acks.putIfAbsent(a.commandSeq(), a));
+            }
+        }
+        return n;
+    }
+
+    private void onTelemetry(UnitTelemetry t, long at) {
+        boolean good = t.outputQuality().validity() == Validity.GOOD;
+        telemetry.add(new TelemetryPoint(at, t.outputMw(), t.setpointMw(), good));
+        latest = t;
+        if (good) {
+            lastGoodMs = at;
+        }
+    }
+
+    private void begin(long now) {
+        UnitTelemetry t = latest;
+        if (t.status() != UnitStatus.ONLINE || t.controlMode() != ControlMode.REMOTE) {
+            stop(RunState.REFUSED, "unit " + unitId + " is " + t.status().name().toLowerCase(Locale.ROOT) + " in "
+                    + t.controlMode().name().toLowerCase(Locale.ROOT) + " mode; the test needs online and remote", now);
+            return;
+        }
+        try {
+            UnitDeclaration fromTelemetry = new UnitDeclaration(unitId, t.regulatingMinMw(), t.regulatingMaxMw(),
+                    t.rampMwPerMin(), t.pulseRateMwPerMin(), "unit telemetry");
+            declaration = siteDeclaration != null ? siteDeclaration : fromTelemetry;
+            if (siteDeclaration != null) {
+                compare(siteDeclaration, fromTelemetry);
+            }
+        } catch (IllegalArgumentException e) {
+            if (siteDeclaration == null) {
+                stop(RunState.REFUSED, "the unit's telemetry does not declare usable figures: " + e.getMessage(), now);
+                return;
+            }
+            declaration = siteDeclaration;
+            notes.add("the unit's telemetry declares unusable figures (" + e.getMessage() + "); the site file's are used");
+        }
+        try {
+            programme = PulseProgramme.expand(plan, declaration, t.outputMw());
+        } catch (PlanException e) {
+            stop(RunState.REFUSED, "refusing to start: " + String.join("; ", e.problems()), now);
+            return;
+        }
+        Optional<String> capRefusal = SafetyGate.checkCaps(programme, caps);
+        if (capRefusal.isPresent()) {
+            stop(RunState.REFUSED, capRefusal.get(), now);
+            return;
+        }
+        List<TimedPulse> pulses = new ArrayList<>();
+        List<Integer> stepOf = new ArrayList<>();
+        for (ProgrammeStep s : programme.steps()) {
+            for (TimedPulse p : s.pulses()) {
+                pulses.add(p);
+                stepOf.add(s.index());
+            }
+        }
+        schedule = pulses;
+        scheduleStep = stepOf;
+        programmeStartMs = now;
+        state = RunState.RUNNING;
+    }
+
+    private void compare(UnitDeclaration site, UnitDeclaration tel) {
+        double[][] pairs = {{site.rampMwPerMin(), tel.rampMwPerMin()}, {site.pulseRateMwPerMin(), tel.pulseRateMwPerMin()},
+                {site.regulatingMinMw(), tel.regulatingMinMw()}, {site.regulatingMaxMw(), tel.regulatingMaxMw()}};
+        String[] names = {"rampMwPerMin", "pulseRateMwPerMin", "regulatingMinMw", "regulatingMaxMw"};
+        for (int i = 0; i < pairs.length; i++) {
+            if (Math.abs(pairs[i][0] - pairs[i][1]) > 1e-6 * Math.max(1, Math.abs(pairs[i][0]))) {
+                notes.add(String.format(Locale.ROOT, "%s: site file declares %.3f, unit telemetry %.3f; the site "
+                        + "file's figure is judged against", names[i], pairs[i][0], pairs[i][1]));
+            }
+        }
+    }
+
+    private Optional<String> abortReason(long now) {
+        if (abort.abortRequested()) {
+            return Optional.of("stopped by the operator (abort key)");
+        }
+        if (!bus.isConnected()) {
+            return Optional.of("bus connection lost");
+        }
+        long scanMs = scanPeriodMs();
+        long silentMs = now - lastGoodMs;
+        if (silentMs > plan.settings().telemetryLossScans() * scanMs) {
+            return Optional.of(String.format(Locale.ROOT, "telemetry lost: no good reading for %.1f s (limit %d scans "
+                    + "of %.1f s)", silentMs / 1000.0, plan.settings().telemetryLossScans(), scanMs / 1000.0));
+        }
+        if (latest.status() != UnitStatus.ONLINE || latest.controlMode() != ControlMode.REMOTE) {
+            return Optional.of("unit left online/remote: now " + latest.status().name().toLowerCase(Locale.ROOT) + ", "
+                    + latest.controlMode().name().toLowerCase(Locale.ROOT));
+        }
+        double excursion = Math.abs(latest.outputMw() - programme.startMw());
+        if (latest.outputQuality().validity() == Validity.GOOD && excursion > caps.maxExcursionMw()) {
+            return Optional.of(String.format(Locale.ROOT, "output %.2f MW is %.2f MW from the start, beyond the "
+                    + "excursion cap of %.2f MW", latest.outputMw(), excursion, caps.maxExcursionMw()));
+        }
+        if (now - startedMs > caps.maxDurationS() * 1000) {
+            return Optional.of(String.format(Locale.ROOT, "duration cap of %.0f s reached", caps.maxDurationS()));
+        }
+        return Optional.empty();
+    }
+
+    /** Median interval of the last good telemetry scans; 1 s until three intervals are known. */
+    long scanPeriodMs() {
+        List<Long> times = new ArrayList<>();
+        for (int i = telemetry.size() - 1; i >= 0 && times.size() < 21; i--) {
+            if (telemetry.get(i).good()) {
+                times.add(telemetry.get(i).tMs());
+            }
+        }
+        if (times.size() < 4) {
+            return DEFAULT_SCAN_MS;
+        }
+        long[] d = new long[times.size() - 1];
+        for (int i = 0; i + 1 < times.size(); i++) {
+            d[i] = times.get(i) - times.get(i + 1);
+        }
+        Arrays.sort(d);
+        return Math.max(1, d[d.length / 2]);
+    }
+
+    private void send(TimedPulse p, int stepIndex, long now) {
+        long seq = nextSeq++;
+        UnitCommand c = UnitCommand.pulse(seq, now, unitId, CONTROLLER_ID, epoch,
+                now + plan.settings().commandValidityMs(), p.direction(), p.durationMs());
+        long expiryS = Math.max(1, (plan.settings().commandValidityMs() + 999) / 1000);
+        sent.add(new SentPulse(seq, now, stepIndex, p.direction(), p.durationMs()));
+        bus.publish(new OutboundMessage(topics.unitCommand(unitId), codec.encode(c), Qos.AT_LEAST_ONCE, false, expiryS))
+                .exceptionally(e -> {
+                    synchronized (notes) {
+                        notes.add("command seq " + seq + " was not delivered to the broker: " + e.getMessage());
+                    }
+                    return null;
+                });
+    }
+
+    private void stop(RunState end, String reason, long now) {
+        state = end;
+        stopReason = reason;
+        stoppedMs = now;
+    }
+
+    /** @return true once the run finished, was aborted or refused */
+    public boolean isDone() {
+        return state == RunState.FINISHED || state == RunState.ABORTED || state == RunState.REFUSED;
+    }
+
+    /** @return current state */
+    public RunState state() {
+        return state;
+    }
+
+    /** Stops the run from outside (e.g. a shutdown hook); nothing further is sent. */
+    public void abortNow(String reason) {
+        if (!isDone()) {
+            stop(RunState.ABORTED, reason, clock.epochMillis());
+        }
+    }
+
+    /** @return what the run recorded so far (final once {@link #isDone()}) */
+    public PulseTestRecord record() {
+        drain();
+        List<String> n;
+        synchronized (notes) {
+            n = List.copyOf(notes);
+        }
+        return new PulseTestRecord(unitId, state, stopReason, declaration, programme, startedMs, programmeStartMs,
+                stoppedMs < 0 ? clock.epochMillis() : stoppedMs, telemetry, sent, acks, n);
+    }
+
+    @Override
+    public void onClose() {
+        bus.unsubscribe(topics.unitTelemetry(unitId));
+        bus.unsubscribe(topics.unitAck(unitId));
+    }
+
+    @Override
+    public String roleName() {
+        return "pulse-test-" + unitId;
+    }
+}

@@ -1,0 +1,23 @@
+package org.loopstand.controller.pulsetest.plan;
+
+/**
+ * How the programme is sent and measured.
+ *
+ * @param leadInS            quiet time before the first step, s, ≥ 0 (gives the baseline)
+ * @param noiseThresholdMw   output change that counts as movement, MW, &gt; 0
+ * @param averagingS         window for baseline (before a step) and final value (end of a step), s, &gt; 0
+ * @param settleBandPct      settling band, % of the requested change, ≥ 0
+ * @param settleBandMinMw    settling band at least this wide, MW, &gt; 0
+ * @param maxPulseMs         longest single pulse sent; longer moves are split, ms, in [1, 600000]
+ * @param pulseGapMs         pause between split pulses, ms, ≥ 0
+ * @param waitFactor         wait = expected move time × this + extraWaitS, ≥ 1
+ * @param extraWaitS         extra wait after each move, s, ≥ 0
+ * @param commandValidityMs  a pulse not started within this time after issue must not act, ms, ≥ 100
+ * @param telemetryLossScans telemetry silent for more than this many scan periods aborts the test, ≥ 1
+ */
+public record PlanSettings(double leadInS, double noiseThresholdMw, double averagingS, double settleBandPct,
+        double settleBandMinMw, long maxPulseMs, long pulseGapMs, double waitFactor, double extraWaitS,
+        long commandValidityMs, int telemetryLossScans) {
+    /** Defaults used for every key a plan leaves out. */
+    public static final PlanSettings DEFAULTS = new PlanSettings(20, 0.3, 5, 5, 0.5, 10_000, 500, 1.5, 20, 3_000, 5);
+}

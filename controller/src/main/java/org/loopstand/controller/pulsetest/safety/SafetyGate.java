@@ -1,0 +1,136 @@
+package org.loopstand.controller.pulsetest.safety;
+
+import java.io.BufferedReader;
+import java.io.IOException;
+import java.io.PrintStream;
+import java.net.InetAddress;
+import java.net.URI;
+import java.net.UnknownHostException;
+import java.util.List;
+import java.util.Locale;
+import java.util.Optional;
+import org.loopstand.controller.pulsetest.plan.PlanLimits;
+import org.loopstand.controller.pulsetest.programme.PulseProgramme;
+
+/**
+ * What stands between the pulse test and a real generator: the broker check with its typed
+ * confirmation, and the excursion and duration caps.
+ */
+public final class SafetyGate {
+    /** Printed before every test and carried in the report. */
+    public static final List<String> CAUTIONS = List.of(
+            "This test moves a generating unit. Coordinate every run with the plant's control room and the grid "
+                    + "operator before it starts, and keep them informed until it ends.",
+            "Follow local codes and the site's switching and testing procedures; they take precedence over "
+                    + "anything this tool does or says.",
+            "Type q and Enter at any time to stop the programme: nothing further is sent. A pulse already acting "
+                    + "runs out on its own (at most the plan's maxPulseMs).");
+
+    private SafetyGate() {
+    }
+
+    /**
+     * A broker counts as a test broker when it was declared one ({@code --test-broker}), is in memory, or
+     * its host is a loopback address (127.0.0.0/8, ::1, localhost).
+     *
+     * @param brokerUrl          e.g. {@code tcp://127.0.0.1:1883}, {@code mem:}
+     * @param declaredTestBroker the operator said it is a test broker
+     */
+    public static boolean isTestBroker(String brokerUrl, boolean declaredTestBroker) {
+        if (declaredTestBroker) {
+            return true;
+        }
+        if (brokerUrl == null || brokerUrl.isBlank()) {
+            return false;
+        }
+        if (brokerUrl.startsWith("mem:")) {
+            return true;
+        }
+        String host;
+        try {
+            host = URI.create(brokerUrl.trim()).getHost();
+        } catch (IllegalArgumentException e) {
+            return false;
+        }
+        if (host == null) {
+            return false;
+        }
+        if (host.equalsIgnoreCase("localhost")) {
+            return true;
+        }
+        String h = host.startsWith("[") ? host.substring(1, host.length() - 1) : host;
+        // Only literal addresses are classified: resolving a name could reach a name server.
+        if (!h.matches("[0-9.]+") && !h.contains(":")) {
+            return false;
+        }
+        try {
+            return InetAddress.getByName(h).isLoopbackAddress();
+        } catch (UnknownHostException e) {
+            return false;
+        }
+    }
+
+    /**
+     * Decides whether the test may start against this broker. Against a broker that is not a test
+     * broker the operator must have passed {@code --live-plant} and then type the unit id exactly.
+     *
+     * @param in  operator input (the console in production)
+     * @param out where the question is printed
+     * @return empty when allowed, else the refusal in plain words
+     */
+    public static Optional<String> admit(String brokerUrl, boolean declaredTestBroker, boolean livePlant,
+            String unitId, BufferedReader in, PrintStream out) {
+        if (isTestBroker(brokerUrl, declaredTestBroker)) {
+            return Optional.empty();
+        }
+        if (!livePlant) {
+            return Optional.of("refusing to start: broker " + brokerUrl + " is not a test broker (not loopback, "
+                    + "not declared with --test-broker). To move a real unit, pass --live-plant and confirm.");
+        }
+        out.println("LIVE PLANT: broker " + brokerUrl + " is not a test broker. This test will move unit " + unitId
+                + ".");
+        out.println("Type the unit id (" + unitId + ") to confirm, anything else to stop:");
+        out.flush();
+        String answer;
+        try {
+            answer = in.readLine();
+        } catch (IOException e) {
+            return Optional.of("refusing to start: cannot read the confirmation: " + e.getMessage());
+        }
+        if (answer == null || !answer.trim().equals(unitId)) {
+            return Optional.of("refusing to start: confirmation '" + (answer == null ? "" : answer.trim())
+                    + "' does not name unit " + unitId);
+        }
+        return Optional.empty();
+    }
+
+    /**
+     * @param cliMaxExcursionMw  operator's own excursion cap, MW, or NaN for the plan's
+     * @param cliMaxDurationS    operator's own duration cap, s, or NaN for the plan's
+     * @return the caps in force: the tighter of the plan's and the operator's
+     */
+    public static PlanLimits caps(PlanLimits plan, double cliMaxExcursionMw, double cliMaxDurationS) {
+        double mw = Double.isNaN(cliMaxExcursionMw) ? plan.maxExcursionMw()
+                : Math.min(plan.maxExcursionMw(), cliMaxExcursionMw);
+        double s = Double.isNaN(cliMaxDurationS) ? plan.maxDurationS() : Math.min(plan.maxDurationS(), cliMaxDurationS);
+        return new PlanLimits(mw, s);
+    }
+
+    /** @return empty when the programme keeps within the caps, else the refusal naming the figure */
+    public static Optional<String> checkCaps(PulseProgramme programme, PlanLimits caps) {
+        StringBuilder why = new StringBuilder();
+        if (programme.maxExcursionMw() > caps.maxExcursionMw() + 1e-9) {
+            why.append(String.format(Locale.ROOT, "the programme moves the unit up to %.2f MW from its start, above "
+                    + "the cap of %.2f MW", programme.maxExcursionMw(), caps.maxExcursionMw()));
+        }
+        double durationS = programme.durationMs() / 1000.0;
+        if (durationS > caps.maxDurationS()) {
+            if (!why.isEmpty()) {
+                why.append("; ");
+            }
+            why.append(String.format(Locale.ROOT, "the programme lasts %.0f s, above the cap of %.0f s", durationS,
+                    caps.maxDurationS()));
+        }
+        return why.isEmpty() ? Optional.empty() : Optional.of("refusing to start: " + why);
+    }
+}

@@ -1,0 +1,71 @@
+package org.loopstand.controller.pulsetest.plan;
+
+import static org.assertj.core.api.Assertions.assertThat;
+import static org.assertj.core.api.Assertions.catchThrowableOfType;
+
+import java.nio.file.Path;
+import org.junit.jupiter.api.Test;
+import org.loopstand.protocol.message.PulseDirection;
+
+class TestPlanLoaderTest {
+    private static final Path PLANS = Path.of("..", "config", "plans");
+
+    @Test
+    void shouldLoadTheShippedStandardPlanWithEveryStepKind() {
+        TestPlan p = TestPlanLoader.load(PLANS.resolve("standard.yaml"));
+        assertThat(p.steps()).extracting(PlanStep::kind).containsExactly(StepKind.HOLD, StepKind.STAIRCASE,
+                StepKind.STAIRCASE, StepKind.RAMP_TO_LIMIT, StepKind.SHORT_PULSES, StepKind.SHORT_PULSES,
+                StepKind.REVERSAL);
+        assertThat(p.steps().get(2).direction()).isEqualTo(PulseDirection.LOWER);
+        assertThat(p.steps().get(2).size()).isEqualTo(new StepSize(2, true));
+        assertThat(p.limits()).isEqualTo(new PlanLimits(200, 5400));
+    }
+
+    @Test
+    void shouldLoadTheShippedQuickPlan() {
+        assertThat(TestPlanLoader.load(PLANS.resolve("quick.yaml")).name()).isEqualTo("quick");
+    }
+
+    @Test
+    void shouldRefuseUnknownKeysNamingFileAndLine() {
+        String yaml = """
+                name: t
+                limits: {maxExcursionMw: 10, maxDurationS: 100}
+                steps:
+                  - kind: staircase
+                    direction: raise
+                    stepMw: 2
+                    cuont: 3
+                """;
+        PlanException e = catchThrowableOfType(PlanException.class, () -> TestPlanLoader.parse(yaml, "t.yaml"));
+        assertThat(e.problems()).singleElement().asString().startsWith("t.yaml:7: unknown key 'cuont' in steps[0]");
+    }
+
+    @Test
+    void shouldReportEveryProblemAtOnce() {
+        String yaml = """
+                name: t
+                tolerances:
+                  gainPct: -3
+                steps:
+                  - kind: staircase
+                    direction: up
+                    stepMw: 2
+                    stepPct: 1
+                  - kind: jump
+                """;
+        PlanException e = catchThrowableOfType(PlanException.class, () -> TestPlanLoader.parse(yaml, "t.yaml"));
+        assertThat(e.problems()).anyMatch(s -> s.startsWith("t.yaml:1: plan.limits is missing"))
+                .anyMatch(s -> s.startsWith("t.yaml:3: tolerances.gainPct = -3.0 is outside"))
+                .anyMatch(s -> s.startsWith("t.yaml:6: steps[0].direction 'up' must be raise or lower"))
+                .anyMatch(s -> s.startsWith("t.yaml:5: steps[0] needs exactly one of stepMw or stepPct"))
+                .anyMatch(s -> s.startsWith("t.yaml:9: steps[1].kind 'jump' is unknown"));
+    }
+
+    @Test
+    void shouldReportYamlSyntaxErrorsWithTheirLine() {
+        PlanException e = catchThrowableOfType(PlanException.class,
+                () -> TestPlanLoader.parse("name: t\nsteps: [\n  - a: b\n", "bad.yaml"));
+        assertThat(e.getMessage()).startsWith("bad.yaml:").contains("YAML syntax error");
+    }
+}

@@ -1,0 +1,92 @@
+package org.loopstand.plant.field;
+
+import java.util.List;
+import java.util.Map;
+import java.util.concurrent.ConcurrentHashMap;
+
+import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.protocol.bus.MessageBus;
+import org.loopstand.protocol.bus.OutboundMessage;
+import org.loopstand.protocol.bus.Qos;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.message.FieldReading;
+import org.loopstand.protocol.message.FieldReference;
+import org.loopstand.protocol.time.Clock;
+import org.loopstand.protocol.topic.TopicTree;
+
+/**
+ * Physics side of the field topics for units whose plant interface runs in another process: applies
+ * the latest load reference each one sent and publishes each unit's reading on a fixed period. When
+ * a unit's interface goes away nothing arrives and the turbine simply keeps its last load reference,
+ * its governor still acting, as on a real lost plant link.
+ */
+public final class FieldGateway {
+    /** Default reading period, ms of scenario time. */
+    public static final long DEFAULT_PERIOD_MS = 200;
+
+    private final GridSimulator sim;
+    private final MessageBus bus;
+    private final TopicTree topics;
+    private final MessageCodec codec;
+    private final Clock clock;
+    private final List<String> units;
+    private final long periodNanos;
+    private final Map<String, FieldReference> pending = new ConcurrentHashMap<>();
+    private long nextReadingNanos;
+    private long seq;
+    private long applied;
+
+    public FieldGateway(GridSimulator sim, MessageBus bus, TopicTree topics, MessageCodec codec, Clock clock,
+                        List<String> units, long periodMs) {
+        this.sim = sim;
+        this.bus = bus;
+        this.topics = topics;
+        this.codec = codec;
+        this.clock = clock;
+        this.units = List.copyOf(units);
+        this.periodNanos = periodMs * 1_000_000L;
+        this.nextReadingNanos = clock.monotonicNanos();
+        this.seq = clock.epochMillis();
+    }
+
+    public FieldGateway start() {
+        for (String u : units) {
+            bus.subscribe(topics.fieldReference(u), Qos.AT_LEAST_ONCE,
+                    m -> codec.decode(m.payload(), FieldReference.class).message()
+                            .filter(r -> r.unit().equals(u) && Double.isFinite(r.loadReferenceMw()))
+                            .ifPresent(r -> pending.put(u, r)));
+        }
+        return this;
+    }
+
+    /** Owner (physics) thread: applies references, publishes readings when due; @return work done */
+    public int work() {
+        int work = 0;
+        for (String u : units) {
+            FieldReference r = pending.remove(u);
+            if (r != null) {
+                sim.setLoadReferenceMw(u, r.loadReferenceMw());
+                applied++;
+                work++;
+            }
+        }
+        long now = clock.monotonicNanos();
+        if (now >= nextReadingNanos) {
+            nextReadingNanos += ((now - nextReadingNanos) / periodNanos + 1) * periodNanos;
+            if (bus.isConnected()) {
+                for (String u : units) {
+                    FieldReading reading = new FieldReading(seq++, clock.epochMillis(), u, sim.outputMw(u),
+                            sim.loadReferenceMw(u), DirectUnitField.statusOf(sim, u));
+                    bus.publish(OutboundMessage.of(topics.fieldReading(u), codec.encode(reading), Qos.AT_MOST_ONCE));
+                }
+            }
+            work++;
+        }
+        return work;
+    }
+
+    /** @return load references applied since start */
+    public long appliedCount() {
+        return applied;
+    }
+}

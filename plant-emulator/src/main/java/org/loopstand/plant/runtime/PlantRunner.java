@@ -1,0 +1,202 @@
+package org.loopstand.plant.runtime;
+
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.function.Consumer;
+
+import org.loopstand.plant.field.DirectUnitField;
+import org.loopstand.plant.field.FieldGateway;
+import org.loopstand.plant.grid.GeneratingUnit;
+import org.loopstand.plant.meter.AreaMeterPublisher;
+import org.loopstand.plant.meter.MeterSettings;
+import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.plant.scenario.ScenarioEvent;
+import org.loopstand.plant.unit.PlantJournal;
+import org.loopstand.plant.unit.UnitPlantInterface;
+import org.loopstand.plant.unit.UnitSettings;
+import org.loopstand.protocol.agent.AgentRunner;
+import org.loopstand.protocol.bus.ConnectionListener;
+import org.loopstand.protocol.bus.MessageBus;
+import org.loopstand.protocol.bus.OutboundMessage;
+import org.loopstand.protocol.bus.Qos;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.time.Clock;
+import org.loopstand.protocol.topic.TopicKind;
+import org.loopstand.protocol.topic.TopicTree;
+
+/**
+ * Builds and runs a plant process: the plant connection (meters, clock, field topics, orders), one
+ * connection per group of unit links as the grouping says, the {@link PlantAgent}, and optionally a
+ * thread that drives it in real time. Tests can skip {@link #start()} and call
+ * {@code agent().doWork()} after moving a virtual clock.
+ */
+public final class PlantRunner implements AutoCloseable {
+    private final GridSimulator sim;
+    private final PlantOptions options;
+    private final LinkFactory links;
+    private final Clock clock;
+    private final TopicTree topics;
+    private final MessageCodec codec = new MessageCodec();
+    private final PlantJournal journal = new PlantJournal();
+    private final List<MessageBus> buses = new ArrayList<>();
+    private final Map<String, UnitHost> hosts = new LinkedHashMap<>();
+    private final MessageBus plantBus;
+    private final PlantAgent agent;
+    private final StepLateness lateness;
+    private AgentRunner runner;
+
+    /**
+     * @param sim      the physics (owned by the runner's thread from now on)
+     * @param events   scenario events, may be empty
+     * @param warnings where the one-time lateness warning goes
+     */
+    public PlantRunner(GridSimulator sim, List<ScenarioEvent> events, PlantOptions options, LinkFactory links,
+                       Clock clock, Consumer<String> warnings) {
+        this.sim = sim;
+        this.options = options;
+        this.links = links;
+        this.clock = clock;
+        String site = sim.grid().siteId();
+        this.topics = TopicTree.forSite(site);
+        for (String u : options.remoteUnits()) {
+            if (!sim.grid().hasUnit(u)) {
+                throw new IllegalArgumentException("unit '" + u + "' is not in site " + site);
+            }
+        }
+        this.plantBus = track(links.connect(site + "-plant", null));
+        List<GeneratingUnit> local = sim.grid().units().stream()
+                .filter(u -> !options.remoteUnits().contains(u.id())).toList();
+        Map<String, List<String>> plan = options.grouping().plan(site, local, options.poolSize());
+        long seqStart = clock.epochMillis();
+        for (var group : plan.entrySet()) {
+            openGroup(group.getKey(), group.getValue(), seqStart);
+        }
+        List<AreaMeterPublisher> meters = new ArrayList<>();
+        long start = clock.monotonicNanos();
+        for (int i = 0; i < options.meters().size(); i++) {
+            MeterSettings m = options.meters().get(i);
+            meters.add(new AreaMeterPublisher(m, sim.grid(), options.seed() * 1_000 + i, start, seqStart));
+        }
+        FieldGateway field = options.remoteUnits().isEmpty() ? null
+                : new FieldGateway(sim, plantBus, topics, codec, clock,
+                        sim.grid().units().stream().map(GeneratingUnit::id).filter(options.remoteUnits()::contains).toList(),
+                        FieldGateway.DEFAULT_PERIOD_MS).start();
+        List<UnitHost> hostList = List.copyOf(hosts.values());
+        OperatorOrders orders = new OperatorOrders(hostList, codec).subscribe(plantBus, topics);
+        this.lateness = new StepLateness(Math.round(options.lateWarnS() * 1e9), warnings);
+        this.agent = new PlantAgent(new PlantAgent.Parts(sim, clock, plantBus, topics, codec, meters, hostList, field,
+                orders, events, options.rate(), lateness));
+    }
+
+    private void openGroup(String clientId, List<String> unitIds, long seqStart) {
+        OutboundMessage will = options.grouping() == ConnectionGrouping.PER_UNIT
+                ? UnitLink.lastWill(topics, codec, unitIds.get(0), clientId, seqStart, clock.epochMillis()) : null;
+        MessageBus bus = track(links.connect(clientId, will));
+        List<UnitLink> groupLinks = new ArrayList<>();
+        for (String unitId : unitIds) {
+            UnitLink link = new UnitLink(unitId, bus, topics, codec, clock, options.telemetryQos(),
+                    options.commandQueueCapacity());
+            UnitSettings s = UnitSettings.of(sim.grid().units().get(sim.grid().unitIndex(unitId)), options.interfaces());
+            UnitPlantInterface ui = new UnitPlantInterface(s, new DirectUnitField(sim, unitId), clock, link, journal, seqStart);
+            hosts.put(unitId, new UnitHost(ui, link, codec));
+            groupLinks.add(link);
+            bus.subscribe(topics.unitCommand(unitId), Qos.AT_LEAST_ONCE,
+                    m -> link.offerCommand(m.payload(), clock.monotonicNanos()));
+        }
+        subscribeStatus(bus, groupLinks);
+        bus.addConnectionListener(new ConnectionListener() {
+            @Override
+            public void onConnected(boolean reconnect) {
+                groupLinks.forEach(UnitLink::requestAnnounce);
+            }
+
+            @Override
+            public void onDisconnected(Throwable cause) {
+            }
+        });
+    }
+
+    /** One status subscription per connection, fanned out to the links it serves. */
+    static void subscribeStatus(MessageBus bus, List<UnitLink> groupLinks) {
+        // the filter is built from the kind, never by hand
+        String filter = TopicTree.forSite(siteOf(groupLinks)).filterAll(TopicKind.CONTROLLER_STATUS);
+        bus.subscribe(filter, Qos.AT_LEAST_ONCE, m -> groupLinks.forEach(l -> l.offerStatus(m.payload())));
+    }
+
+    private static String siteOf(List<UnitLink> links) {
+        return links.get(0).site();
+    }
+
+    private MessageBus track(MessageBus bus) {
+        buses.add(bus);
+        return bus;
+    }
+
+    /** Starts the loop on its own thread (parks 1 ms when idle). */
+    public PlantRunner start() {
+        runner = new AgentRunner(agent, 1_000_000L).start();
+        return this;
+    }
+
+    public PlantAgent agent() {
+        return agent;
+    }
+
+    public UnitHost host(String unitId) {
+        UnitHost h = hosts.get(unitId);
+        if (h == null) {
+            throw new IllegalArgumentException("unit '" + unitId + "' has no plant interface in this process");
+        }
+        return h;
+    }
+
+    public List<UnitHost> hosts() {
+        return List.copyOf(hosts.values());
+    }
+
+    public MessageBus plantBus() {
+        return plantBus;
+    }
+
+    public List<MessageBus> buses() {
+        return List.copyOf(buses);
+    }
+
+    public PlantJournal journal() {
+        return journal;
+    }
+
+    public StepLateness lateness() {
+        return lateness;
+    }
+
+    public GridSimulator sim() {
+        return sim;
+    }
+
+    public TopicTree topics() {
+        return topics;
+    }
+
+    /** @return the thread's error if the loop stopped on one, else null */
+    public Throwable failure() {
+        return runner == null ? null : runner.failure();
+    }
+
+    /** Stops the loop, then closes every connection (cleanly: no last will). */
+    @Override
+    public void close() {
+        if (runner != null) {
+            runner.close();
+        }
+        for (MessageBus b : buses) {
+            try {
+                b.close();
+            } catch (RuntimeException e) {
+                // closing the rest matters more
+            }
+        }
+    }
+}

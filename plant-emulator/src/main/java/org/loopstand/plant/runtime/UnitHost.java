@@ -1,0 +1,62 @@
+package org.loopstand.plant.runtime;
+
+import org.loopstand.plant.unit.UnitPlantInterface;
+import org.loopstand.protocol.codec.Decoded;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.message.ControllerStatus;
+import org.loopstand.protocol.message.UnitCommand;
+
+/**
+ * Pairs a unit's plant interface with its link and does its share of a duty cycle on the owner
+ * thread: decode what the link queued (bounded per cycle so a flood cannot hold the loop), then tick.
+ */
+public final class UnitHost {
+    /** Most commands one unit handles per cycle; the rest wait in the bounded queue. */
+    public static final int MAX_COMMANDS_PER_CYCLE = 64;
+
+    private final UnitPlantInterface unit;
+    private final UnitLink link;
+    private final MessageCodec codec;
+    private long overflowSeen;
+
+    public UnitHost(UnitPlantInterface unit, UnitLink link, MessageCodec codec) {
+        this.unit = unit;
+        this.link = link;
+        this.codec = codec;
+    }
+
+    public UnitPlantInterface unit() {
+        return unit;
+    }
+
+    public UnitLink link() {
+        return link;
+    }
+
+    /** @return work done (messages handled + telemetry published) */
+    public int work() {
+        int work = 0;
+        link.announceIfDue();
+        for (byte[] s; (s = link.pollStatus()) != null; work++) {
+            Decoded<ControllerStatus> d = codec.decode(s, ControllerStatus.class);
+            d.message().ifPresent(unit::onControllerStatus);
+        }
+        UnitLink.Received r;
+        for (int i = 0; i < MAX_COMMANDS_PER_CYCLE && (r = link.pollCommand()) != null; i++, work++) {
+            Decoded<UnitCommand> d = codec.decode(r.payload(), UnitCommand.class);
+            if (d instanceof Decoded.Ok<UnitCommand> ok) {
+                unit.onCommand(ok.value(), r.receivedNanos());
+            } else {
+                CommandPeek.Peeked p = CommandPeek.peek(r.payload());
+                unit.onMalformed(p.seq(), p.controllerId(), "payload refused by the codec: "
+                        + d.rejection().map(Object::toString).orElse("?"));
+            }
+        }
+        long overflow = link.overflowCount();
+        if (overflow > overflowSeen) {
+            overflowSeen = overflow;
+            unit.reportOverflow(overflow);
+        }
+        return work + unit.tick();
+    }
+}

@@ -1,0 +1,206 @@
+package org.loopstand.plant.runtime;
+
+import java.util.concurrent.ArrayBlockingQueue;
+import java.util.concurrent.atomic.AtomicLong;
+import java.util.concurrent.atomic.LongAdder;
+
+import org.loopstand.plant.unit.UnitOutput;
+import org.loopstand.protocol.bus.MessageBus;
+import org.loopstand.protocol.bus.OutboundMessage;
+import org.loopstand.protocol.bus.Qos;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.message.CommandAck;
+import org.loopstand.protocol.message.LinkState;
+import org.loopstand.protocol.message.LinkStatus;
+import org.loopstand.protocol.message.UnitTelemetry;
+import org.loopstand.protocol.time.Clock;
+import org.loopstand.protocol.topic.TopicTree;
+
+/**
+ * One unit's logical link to the control centre, over a connection it may share with other units.
+ * Inbound commands and controller statuses are handed over through bounded queues (a full queue
+ * drops and counts, it never blocks the bus thread); outbound telemetry and acks go straight to the
+ * bus and are dropped and counted while the link is down, never sent late. A link fault
+ * ({@link #setFailed}) cuts this unit alone: nothing in, nothing out, link topic says offline.
+ */
+public final class UnitLink implements UnitOutput {
+    private static final org.slf4j.Logger LOG = org.slf4j.LoggerFactory.getLogger(UnitLink.class);
+    /** A command as it came off the bus. */
+    public record Received(byte[] payload, long receivedNanos) {
+    }
+
+    private final String unitId;
+    private final MessageBus bus;
+    private final TopicTree topics;
+    private final MessageCodec codec;
+    private final Clock clock;
+    private final Qos telemetryQos;
+    private final ArrayBlockingQueue<Received> commands;
+    private final ArrayBlockingQueue<byte[]> statuses = new ArrayBlockingQueue<>(64);
+    private final AtomicLong linkSeq;
+    private final LongAdder overflow = new LongAdder();
+    private final LongAdder dropped = new LongAdder();
+    private final LongAdder sendFailed = new LongAdder();
+    private volatile boolean failed;
+    private final java.util.concurrent.atomic.AtomicBoolean announceDue = new java.util.concurrent.atomic.AtomicBoolean(true);
+
+    public UnitLink(String unitId, MessageBus bus, TopicTree topics, MessageCodec codec, Clock clock,
+                    Qos telemetryQos, int commandQueueCapacity) {
+        this.unitId = unitId;
+        this.bus = bus;
+        this.topics = topics;
+        this.codec = codec;
+        this.clock = clock;
+        this.telemetryQos = telemetryQos;
+        this.commands = new ArrayBlockingQueue<>(commandQueueCapacity);
+        this.linkSeq = new AtomicLong(clock.epochMillis());
+    }
+
+    public String unitId() {
+        return unitId;
+    }
+
+    public String site() {
+        return topics.site();
+    }
+
+    public MessageBus bus() {
+        return bus;
+    }
+
+    /** Bus thread: queues a command; @return false (and counts) when the queue is full or the link is cut */
+    public boolean offerCommand(byte[] payload, long receivedNanos) {
+        if (failed) {
+            return false;
+        }
+        if (!commands.offer(new Received(payload, receivedNanos))) {
+            overflow.increment();
+            return false;
+        }
+        return true;
+    }
+
+    /** Bus thread: queues a controller status payload. */
+    public void offerStatus(byte[] payload) {
+        if (!failed && !statuses.offer(payload)) {
+            overflow.increment();
+        }
+    }
+
+    /** Owner thread: @return next queued command or null */
+    public Received pollCommand() {
+        return commands.poll();
+    }
+
+    /** Owner thread: @return next queued status payload or null */
+    public byte[] pollStatus() {
+        return statuses.poll();
+    }
+
+    @Override
+    public void telemetry(UnitTelemetry t) {
+        send(topics.unitTelemetry(unitId), t, telemetryQos);
+    }
+
+    @Override
+    public void ack(CommandAck a) {
+        send(topics.unitAck(unitId), a, Qos.AT_LEAST_ONCE);
+    }
+
+    private void send(String topic, Object message, Qos qos) {
+        byte[] payload;
+        try {
+            payload = codec.encode(message);
+        } catch (IllegalArgumentException e) {
+            // a bug upstream must not stop the plant loop; count and log it
+            sendFailed.increment();
+            LOG.error("{}: not sent, the codec refused it: {}", unitId, e.getMessage());
+            return;
+        }
+        send(new OutboundMessage(topic, payload, qos, false, 0));
+    }
+
+    /** Publishes the retained link state of this unit (online unless the link is cut). */
+    public void announce() {
+        publishLink(failed ? LinkState.OFFLINE : LinkState.ONLINE);
+    }
+
+    /** Any thread (e.g. a connection listener): asks for the link state to be published again. */
+    public void requestAnnounce() {
+        announceDue.set(true);
+    }
+
+    /** Owner thread: publishes the link state when asked to and connected (retained state after a reconnect). */
+    public void announceIfDue() {
+        if (bus.isConnected() && announceDue.compareAndSet(true, false)) {
+            announce();
+        }
+    }
+
+    /** @return the message to register as this unit's last will (offline, retained) */
+    public static OutboundMessage lastWill(TopicTree topics, MessageCodec codec, String unitId, String clientId, long seq,
+                                           long epochMs) {
+        return new OutboundMessage(topics.unitLink(unitId),
+                codec.encode(new LinkStatus(seq, epochMs, clientId, LinkState.OFFLINE)), Qos.AT_LEAST_ONCE, true, 0);
+    }
+
+    /** Cuts or restores this unit's link alone (fault injection). */
+    public void setFailed(boolean cut) {
+        if (cut == failed) {
+            return;
+        }
+        if (cut) {
+            publishLink(LinkState.OFFLINE);
+            failed = true;
+            commands.clear();
+            statuses.clear();
+        } else {
+            failed = false;
+            publishLink(LinkState.ONLINE);
+        }
+    }
+
+    public boolean failed() {
+        return failed;
+    }
+
+    private void publishLink(LinkState state) {
+        if (!bus.isConnected()) {
+            return;
+        }
+        byte[] payload = codec.encode(new LinkStatus(linkSeq.getAndIncrement(), clock.epochMillis(), bus.clientId(), state));
+        bus.publish(new OutboundMessage(topics.unitLink(unitId), payload, Qos.AT_LEAST_ONCE, true, 0))
+                .whenComplete((ok, e) -> {
+                    if (e != null) {
+                        sendFailed.increment();
+                    }
+                });
+    }
+
+    private void send(OutboundMessage m) {
+        if (failed || !bus.isConnected()) {
+            dropped.increment(); // stale by the time the link is back: dropped, not replayed
+            return;
+        }
+        bus.publish(m).whenComplete((ok, e) -> {
+            if (e != null) {
+                sendFailed.increment();
+            }
+        });
+    }
+
+    /** @return commands or statuses lost because the intake queue was full */
+    public long overflowCount() {
+        return overflow.sum();
+    }
+
+    /** @return telemetry/acks not sent because the link was down */
+    public long droppedCount() {
+        return dropped.sum();
+    }
+
+    /** @return publishes the bus refused */
+    public long sendFailedCount() {
+        return sendFailed.sum();
+    }
+}

@@ -1,0 +1,85 @@
+package org.loopstand.plant.runtime;
+
+import java.util.List;
+
+import org.loopstand.plant.field.RemoteUnitField;
+import org.loopstand.plant.grid.GeneratingUnit;
+import org.loopstand.plant.unit.InterfaceOptions;
+import org.loopstand.plant.unit.PlantJournal;
+import org.loopstand.plant.unit.UnitPlantInterface;
+import org.loopstand.plant.unit.UnitSettings;
+import org.loopstand.protocol.agent.AgentRunner;
+import org.loopstand.protocol.bus.MessageBus;
+import org.loopstand.protocol.bus.Qos;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.time.Clock;
+import org.loopstand.protocol.topic.TopicTree;
+
+/**
+ * A unit's plant interface as a process of its own: one connection with client id
+ * {@code {site}-unit-{unit}} and last will "offline" on the unit's link topic. Killing the process is
+ * a lost plant link: the controller sees the will and the physics keeps the last load reference.
+ */
+public final class UnitProcess implements AutoCloseable {
+    private final MessageBus bus;
+    private final UnitAgent agent;
+    private final PlantJournal journal = new PlantJournal();
+    private AgentRunner runner;
+
+    public UnitProcess(String site, GeneratingUnit unit, InterfaceOptions options, Qos telemetryQos,
+                       LinkFactory links, Clock clock) {
+        TopicTree topics = TopicTree.forSite(site);
+        MessageCodec codec = new MessageCodec();
+        String clientId = clientId(site, unit.id());
+        long seqStart = clock.epochMillis();
+        this.bus = links.connect(clientId, UnitLink.lastWill(topics, codec, unit.id(), clientId, seqStart, seqStart));
+        RemoteUnitField field = new RemoteUnitField(unit.id(), bus, topics, codec, clock).start();
+        UnitLink link = new UnitLink(unit.id(), bus, topics, codec, clock, telemetryQos, 256);
+        UnitPlantInterface ui = new UnitPlantInterface(UnitSettings.of(unit, options), field, clock, link, journal, seqStart);
+        UnitHost host = new UnitHost(ui, link, codec);
+        bus.subscribe(topics.unitCommand(unit.id()), Qos.AT_LEAST_ONCE, m -> link.offerCommand(m.payload(), clock.monotonicNanos()));
+        PlantRunner.subscribeStatus(bus, List.of(link));
+        bus.addConnectionListener(new org.loopstand.protocol.bus.ConnectionListener() {
+            @Override
+            public void onConnected(boolean reconnect) {
+                link.requestAnnounce();
+            }
+
+            @Override
+            public void onDisconnected(Throwable cause) {
+            }
+        });
+        OperatorOrders orders = new OperatorOrders(List.of(host), codec).subscribe(bus, topics);
+        this.agent = new UnitAgent(host, field, orders);
+    }
+
+    /** @return the client id a unit's own connection uses */
+    public static String clientId(String site, String unitId) {
+        return site + "-unit-" + unitId;
+    }
+
+    public UnitProcess start() {
+        runner = new AgentRunner(agent, 1_000_000L).start();
+        return this;
+    }
+
+    public UnitAgent agent() {
+        return agent;
+    }
+
+    public MessageBus bus() {
+        return bus;
+    }
+
+    public PlantJournal journal() {
+        return journal;
+    }
+
+    @Override
+    public void close() {
+        if (runner != null) {
+            runner.close();
+        }
+        bus.close();
+    }
+}

@@ -1,0 +1,58 @@
+package org.loopstand.plant.unit;
+
+import org.HdrHistogram.Histogram;
+
+/**
+ * Times from a command's receipt at the plant interface to the first load-reference change and to the
+ * first visible change of output, in scenario microseconds. Only the latest accepted command is
+ * followed (a newer one replaces it). Output counts as changed once it has moved by at least
+ * {@value #VISIBLE_MW} MW in the command's direction.
+ */
+public final class CommandLatency {
+    /** Smallest output change taken as visible, MW (above the physics' noise at a held reference). */
+    public static final double VISIBLE_MW = 0.05;
+    private static final long MAX_US = 3_600_000_000L;
+
+    private final Histogram toReferenceUs = new Histogram(MAX_US, 3);
+    private final Histogram toOutputUs = new Histogram(MAX_US, 3);
+    private long receivedNanos = Long.MIN_VALUE;
+    private double outputAtReceiptMw;
+    private double sign;
+    private boolean referencePending;
+    private boolean outputPending;
+
+    /** Starts following an accepted command; {@code sign} +1 raise, −1 lower. */
+    public synchronized void accepted(long receivedNanos, double outputMw, double sign) {
+        this.receivedNanos = receivedNanos;
+        this.outputAtReceiptMw = outputMw;
+        this.sign = sign;
+        referencePending = sign != 0;
+        outputPending = sign != 0;
+    }
+
+    /** Called after each tick with what the unit did. */
+    public synchronized void observe(long nowNanos, boolean referenceChanged, double outputMw) {
+        if (referencePending && referenceChanged) {
+            toReferenceUs.recordValue(clamp((nowNanos - receivedNanos) / 1_000));
+            referencePending = false;
+        }
+        if (outputPending && sign * (outputMw - outputAtReceiptMw) >= VISIBLE_MW) {
+            toOutputUs.recordValue(clamp((nowNanos - receivedNanos) / 1_000));
+            outputPending = false;
+        }
+    }
+
+    private static long clamp(long us) {
+        return Math.max(0, Math.min(MAX_US, us));
+    }
+
+    /** @return receipt → first load-reference change, µs of scenario time (a copy) */
+    public synchronized Histogram toReferenceUs() {
+        return toReferenceUs.copy();
+    }
+
+    /** @return receipt → first visible output change, µs of scenario time */
+    public synchronized Histogram toOutputUs() {
+        return toOutputUs.copy();
+    }
+}

@@ -1,0 +1,53 @@
+package org.loopstand.plant.unit;
+
+import java.util.ArrayList;
+import java.util.List;
+
+import org.loopstand.protocol.message.RefusalReason;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/**
+ * Journal of what the plant interfaces refused or decided on their own (mode changes, watchdog). Keeps
+ * the most recent {@value #KEPT} entries in memory and writes every entry to the log
+ * ({@code org.loopstand.plant.journal}). Thread-safe.
+ */
+public final class PlantJournal {
+    public static final int KEPT = 10_000;
+    private static final Logger LOG = LoggerFactory.getLogger("org.loopstand.plant.journal");
+
+    /**
+     * @param epochMs    scenario time, epoch ms
+     * @param unit       unit id
+     * @param kind       "refused", "mode", "watchdog", "overflow"
+     * @param reason     refusal reason, or null for other kinds
+     * @param commandSeq seq of the command concerned, −1 when none
+     * @param detail     sentence for people
+     */
+    public record Entry(long epochMs, String unit, String kind, RefusalReason reason, long commandSeq, String detail) {
+    }
+
+    private final List<Entry> entries = new ArrayList<>();
+
+    public void refused(long epochMs, String unit, RefusalReason reason, long commandSeq, String detail) {
+        add(new Entry(epochMs, unit, "refused", reason, commandSeq, detail));
+    }
+
+    public void event(long epochMs, String unit, String kind, String detail) {
+        add(new Entry(epochMs, unit, kind, null, -1, detail));
+    }
+
+    private synchronized void add(Entry e) {
+        if (entries.size() == KEPT) {
+            entries.remove(0);
+        }
+        entries.add(e);
+        LOG.info("{} {} {}{} seq={} {}", e.epochMs(), e.unit(), e.kind(),
+                e.reason() == null ? "" : " " + e.reason().wireName(), e.commandSeq(), e.detail());
+    }
+
+    /** @return a copy of the kept entries, oldest first */
+    public synchronized List<Entry> entries() {
+        return List.copyOf(entries);
+    }
+}

@@ -1,0 +1,293 @@
+package org.loopstand.plant.unit;
+
+import java.util.EnumMap;
+import java.util.Map;
+import java.util.concurrent.atomic.AtomicLongArray;
+
+import org.loopstand.plant.field.UnitField;
+import org.loopstand.protocol.message.AckOutcome;
+import org.loopstand.protocol.message.CommandAck;
+import org.loopstand.protocol.message.CommandKind;
+import org.loopstand.protocol.message.ControlMode;
+import org.loopstand.protocol.message.ControllerState;
+import org.loopstand.protocol.message.ControllerStatus;
+import org.loopstand.protocol.message.PulseDirection;
+import org.loopstand.protocol.message.Quality;
+import org.loopstand.protocol.message.QualityFlag;
+import org.loopstand.protocol.message.RefusalReason;
+import org.loopstand.protocol.message.UnitCommand;
+import org.loopstand.protocol.message.UnitStatus;
+import org.loopstand.protocol.message.UnitTelemetry;
+import org.loopstand.protocol.message.Validity;
+import org.loopstand.protocol.time.Clock;
+
+/**
+ * One unit's plant interface, the part a control centre talks to: takes commands through the
+ * {@link CommandGate}, moves the load reference with a {@link LoadReferenceMotion}, keeps the control
+ * mode, runs the heartbeat watchdog and publishes telemetry on its scan period. Pure logic on an
+ * injected clock: no bus, no threads. One owner thread calls every method; only the counters are
+ * safe to read from other threads.
+ *
+ * <p>Watchdog: armed by the first status of an accepted controller; when no status has come for
+ * {@code watchdogS} or the controller reports itself offline, a unit in remote leaves remote (mode
+ * becomes local) and holds its load reference or returns to its base point. It goes back to remote
+ * only on an explicit order ({@link #setControlMode}).
+ */
+public final class UnitPlantInterface {
+    private final UnitSettings settings;
+    private final UnitField field;
+    private final Clock clock;
+    private final UnitOutput output;
+    private final PlantJournal journal;
+    private final CommandGate gate;
+    private final CommandLatency latency = new CommandLatency();
+    private final AtomicLongArray refusals = new AtomicLongArray(RefusalReason.values().length);
+    private final long telemetryPeriodNanos;
+    private LoadReferenceMotion motion;
+    private ControlMode mode = ControlMode.REMOTE;
+    private long seq;
+    private long lastAcceptedSeq;
+    private long lastTickNanos;
+    private long nextTelemetryNanos;
+    private long lastHeartbeatNanos;
+    private boolean watchdogArmed;
+    private volatile long accepted;
+    private long lastOverflowReportNanos = Long.MIN_VALUE;
+
+    /**
+     * @param seqStart first seq this interface publishes with (use the start time in epoch ms so a
+     *                 restarted interface keeps counting upward)
+     */
+    public UnitPlantInterface(UnitSettings settings, UnitField field, Clock clock, UnitOutput output,
+                              PlantJournal journal, long seqStart) {
+        this.settings = settings;
+        this.field = field;
+        this.clock = clock;
+        this.output = output;
+        this.journal = journal;
+        this.gate = new CommandGate(settings);
+        this.telemetryPeriodNanos = settings.telemetryScanMs() * 1_000_000L;
+        this.seq = seqStart;
+        long now = clock.monotonicNanos();
+        this.lastTickNanos = now;
+        this.nextTelemetryNanos = now;
+    }
+
+    public String unitId() {
+        return settings.unitId();
+    }
+
+    public UnitSettings settings() {
+        return settings;
+    }
+
+    /** Handles a command as received; {@code receivedNanos} on this interface's clock. */
+    public void onCommand(UnitCommand c, long receivedNanos) {
+        long nowMs = clock.epochMillis();
+        if (!ensureMotion()) {
+            refuse(c.seq(), c.controllerId(), new Refusal(RefusalReason.UNIT_OFFLINE, "no field reading from the unit yet"));
+            return;
+        }
+        Refusal r = gate.check(c, nowMs, mode, field.status());
+        if (r == null && c.kind() == CommandKind.PULSE && motion.headroomMw(c.direction()) <= 0) {
+            r = new Refusal(RefusalReason.AT_LIMIT, "load reference target " + motion.targetMw() + " MW is at the "
+                    + (c.direction() == PulseDirection.RAISE ? "upper" : "lower") + " regulating limit");
+        }
+        if (r != null) {
+            refuse(c.seq(), c.controllerId(), r);
+            return;
+        }
+        String detail;
+        double sign;
+        if (c.kind() == CommandKind.PULSE) {
+            double askedMw = settings.pulseRateMwPerMin() * c.durationMs() / 60_000.0;
+            double takenMw = motion.pulse(c.direction(), c.durationMs());
+            sign = Math.signum(takenMw);
+            detail = Math.abs(takenMw) < askedMw - 1e-9
+                    ? String.format(java.util.Locale.ROOT, "atLimit: moved %.3f MW of %.3f MW asked", Math.abs(takenMw), askedMw)
+                    : null;
+        } else {
+            double taken = motion.setpoint(c.setpointMw());
+            sign = Math.signum(taken - motion.referenceMw());
+            detail = taken != c.setpointMw()
+                    ? String.format(java.util.Locale.ROOT, "atLimit: setpoint held at %.3f MW", taken) : null;
+        }
+        lastAcceptedSeq = c.seq();
+        accepted++;
+        latency.accepted(receivedNanos, field.outputMw(), sign);
+        output.ack(new CommandAck(seq++, nowMs, settings.unitId(), c.seq(), c.controllerId(), AckOutcome.ACCEPTED, null, detail));
+    }
+
+    /** Handles a payload that did not decode as a command (never applied). */
+    public void onMalformed(long commandSeq, String controllerId, String detail) {
+        refuse(commandSeq, controllerId, new Refusal(RefusalReason.MALFORMED, detail));
+    }
+
+    /** Handles a controller status: heartbeat for the watchdog, epoch for the gate. */
+    public void onControllerStatus(ControllerStatus s) {
+        if (!settings.acceptedControllers().contains(s.controllerId()) || s.epoch() < gate.highestEpoch()) {
+            return;
+        }
+        gate.observeEpoch(s.controllerId(), s.epoch());
+        if (s.state() == ControllerState.OFFLINE) {
+            leaveRemote("controller " + s.controllerId() + " reported offline");
+            return;
+        }
+        lastHeartbeatNanos = clock.monotonicNanos();
+        watchdogArmed = true;
+    }
+
+    /** Operator order: sets the control mode (the only way back to remote after the watchdog). */
+    public void setControlMode(ControlMode newMode, String why) {
+        if (newMode == mode) {
+            return;
+        }
+        journal.event(clock.epochMillis(), settings.unitId(), "mode", mode.wireName() + " -> " + newMode.wireName() + ": " + why);
+        mode = newMode;
+        if (newMode == ControlMode.REMOTE) {
+            lastHeartbeatNanos = clock.monotonicNanos(); // a fresh watchdog period from the order on
+        } else if (ensureMotion()) {
+            motion.hold();
+        }
+    }
+
+    /**
+     * Does what is due at the clock's now: moves the load reference, runs the watchdog, follows the
+     * command latency, publishes telemetry when its scan is due.
+     *
+     * @return 1 when telemetry was published, else 0
+     */
+    public int tick() {
+        long now = clock.monotonicNanos();
+        long dt = Math.max(0, now - lastTickNanos);
+        lastTickNanos = now;
+        if (ensureMotion()) {
+            if (field.status() != UnitStatus.ONLINE) {
+                motion.reset(field.loadReferenceMw());
+            } else {
+                checkWatchdog(now);
+                double before = motion.referenceMw();
+                double after = motion.advance(dt);
+                boolean changed = after != before;
+                if (changed) {
+                    field.writeLoadReferenceMw(after);
+                }
+                latency.observe(now, changed, field.outputMw());
+            }
+        }
+        if (now >= nextTelemetryNanos) {
+            // fixed rate; after a stall skip the missed scans instead of bursting them
+            long missed = (now - nextTelemetryNanos) / telemetryPeriodNanos;
+            nextTelemetryNanos += (missed + 1) * telemetryPeriodNanos;
+            output.telemetry(telemetry());
+            return 1;
+        }
+        return 0;
+    }
+
+    /** @return the telemetry as it would be published now */
+    public UnitTelemetry telemetry() {
+        boolean ready = field.ready();
+        Quality q = ready ? Quality.GOOD : Quality.of(Validity.INVALID, QualityFlag.FAILURE);
+        double setpoint = motion != null ? motion.referenceMw() : ready ? field.loadReferenceMw() : 0.0;
+        return new UnitTelemetry(seq++, clock.epochMillis(), settings.unitId(), ready ? field.outputMw() : 0.0, q,
+                setpoint, ready ? field.status() : UnitStatus.OFFLINE, mode, settings.regulatingMinMw(),
+                settings.regulatingMaxMw(), settings.rampMwPerMin(), settings.pulseRateMwPerMin(),
+                settings.acceptsSetpoints(), lastAcceptedSeq);
+    }
+
+    private void checkWatchdog(long now) {
+        if (watchdogArmed && mode == ControlMode.REMOTE && now - lastHeartbeatNanos > settings.watchdogS() * 1e9) {
+            leaveRemote(String.format(java.util.Locale.ROOT, "no controller status for %.1f s (watchdog %.1f s)",
+                    (now - lastHeartbeatNanos) / 1e9, settings.watchdogS()));
+        }
+    }
+
+    private void leaveRemote(String why) {
+        if (mode != ControlMode.REMOTE) {
+            return;
+        }
+        journal.event(clock.epochMillis(), settings.unitId(), "watchdog", "left remote: " + why);
+        mode = ControlMode.LOCAL;
+        if (ensureMotion()) {
+            if (settings.watchdogAction() == WatchdogAction.BASE_POINT) {
+                motion.setpoint(settings.basePointMw());
+            } else {
+                motion.hold();
+            }
+        }
+    }
+
+    private boolean ensureMotion() {
+        if (motion == null && field.ready()) {
+            // start from the turbine's own reference: a restarted interface resumes without a jump
+            motion = new LoadReferenceMotion(settings, field.loadReferenceMw());
+        }
+        return motion != null;
+    }
+
+    private void refuse(long commandSeq, String controllerId, Refusal r) {
+        refusals.incrementAndGet(r.reason().ordinal());
+        long nowMs = clock.epochMillis();
+        journal.refused(nowMs, settings.unitId(), r.reason(), commandSeq, r.detail());
+        output.ack(new CommandAck(seq++, nowMs, settings.unitId(), Math.max(0, commandSeq), controllerId,
+                AckOutcome.REJECTED, r.reason(), truncate(r.detail())));
+    }
+
+    private static String truncate(String s) {
+        return s == null || s.length() <= 1024 ? s : s.substring(0, 1021) + "...";
+    }
+
+    /**
+     * Journals commands lost before they reached this interface (intake queue full; no ack is
+     * possible), at most once per second of clock time so a flood does not flood the journal.
+     *
+     * @param totalLost commands lost since start
+     */
+    public void reportOverflow(long totalLost) {
+        long now = clock.monotonicNanos();
+        if (lastOverflowReportNanos == Long.MIN_VALUE || now - lastOverflowReportNanos >= 1_000_000_000L) {
+            lastOverflowReportNanos = now;
+            journal.event(clock.epochMillis(), settings.unitId(), "overflow",
+                    "command intake full: " + totalLost + " commands dropped since start");
+        }
+    }
+
+    // ---- readings, safe from any thread unless stated
+
+    public ControlMode controlMode() {
+        return mode;
+    }
+
+    /** @return current load reference, MW (owner thread), NaN before the first field reading */
+    public double loadReferenceMw() {
+        return motion == null ? Double.NaN : motion.referenceMw();
+    }
+
+    /** @return current load reference target, MW (owner thread) */
+    public double targetMw() {
+        return motion == null ? Double.NaN : motion.targetMw();
+    }
+
+    public long refusalCount(RefusalReason reason) {
+        return refusals.get(reason.ordinal());
+    }
+
+    public Map<RefusalReason, Long> refusalCounts() {
+        Map<RefusalReason, Long> m = new EnumMap<>(RefusalReason.class);
+        for (RefusalReason r : RefusalReason.values()) {
+            if (refusals.get(r.ordinal()) > 0) {
+                m.put(r, refusals.get(r.ordinal()));
+            }
+        }
+        return m;
+    }
+
+    public long acceptedCount() {
+        return accepted;
+    }
+
+    public CommandLatency latency() {
+        return latency;
+    }
+}

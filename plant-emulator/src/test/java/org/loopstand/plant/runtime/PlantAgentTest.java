@@ -1,0 +1,204 @@
+package org.loopstand.plant.runtime;
+
+import static org.assertj.core.api.Assertions.assertThat;
+import static org.assertj.core.api.Assertions.within;
+
+import java.nio.file.Path;
+import java.util.List;
+import java.util.Map;
+import java.util.Set;
+
+import org.junit.jupiter.api.Test;
+import org.loopstand.plant.grid.Grid;
+import org.loopstand.plant.meter.MeterSettings;
+import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.plant.site.SiteLoader;
+import org.loopstand.plant.unit.InterfaceOptions;
+import org.loopstand.protocol.bus.InboundMessage;
+import org.loopstand.protocol.bus.OutboundMessage;
+import org.loopstand.protocol.bus.memory.DeliveryMode;
+import org.loopstand.protocol.bus.memory.InMemoryBroker;
+import org.loopstand.protocol.bus.memory.InMemoryBus;
+import org.loopstand.protocol.testing.Inbox;
+import org.loopstand.protocol.bus.Qos;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.message.AckOutcome;
+import org.loopstand.protocol.message.AreaMeter;
+import org.loopstand.protocol.message.ClockTick;
+import org.loopstand.protocol.message.CommandAck;
+import org.loopstand.protocol.message.LinkState;
+import org.loopstand.protocol.message.LinkStatus;
+import org.loopstand.protocol.message.PulseDirection;
+import org.loopstand.protocol.message.UnitCommand;
+import org.loopstand.protocol.message.UnitTelemetry;
+import org.loopstand.protocol.time.VirtualClock;
+import org.loopstand.protocol.topic.TopicTree;
+
+/** The plant loop on a virtual clock and the in-memory bus: deterministic, no broker. */
+class PlantAgentTest {
+    static final Path SITE = Path.of("..", "config", "sites", "demo-site.yaml");
+    final MessageCodec codec = new MessageCodec();
+    final VirtualClock clock = new VirtualClock(1_700_000_000_000L);
+    final InMemoryBroker broker = new InMemoryBroker(clock, DeliveryMode.DIRECT);
+    final TopicTree topics = TopicTree.forSite("demo-site");
+    final Inbox inbox = new Inbox();
+    final InMemoryBus tester = broker.connect("tester");
+
+    {
+        tester.subscribe(topics.filterEverything(), Qos.AT_LEAST_ONCE, inbox);
+    }
+
+    final List<String> warnings = new java.util.ArrayList<>();
+
+    PlantRunner plant(ConnectionGrouping grouping, Set<String> remote) throws Exception {
+        return plant(grouping, remote, 1);
+    }
+
+    PlantRunner plant(ConnectionGrouping grouping, Set<String> remote, double rate) throws Exception {
+        Grid grid = SiteLoader.load(SITE);
+        GridSimulator sim = new GridSimulator(grid);
+        List<MeterSettings> meters = List.of(MeterSettings.defaults("north-basin"),
+                MeterSettings.defaults("south-ridge").withScanPeriodMs(1_000));
+        PlantOptions o = new PlantOptions(rate, remote, grouping, 2, meters,
+                InterfaceOptions.defaults().withTelemetryScanMs(2_000, Map.of("ridge-hydro-1", 500L)),
+                Qos.AT_MOST_ONCE, 256, 7, 1.0);
+        return new PlantRunner(sim, List.of(), o, broker::connect, clock, warnings::add);
+    }
+
+    void run(PlantRunner p, double s) {
+        for (long i = 0, n = Math.round(s / 0.01); i < n; i++) {
+            clock.advanceMillis(10);
+            p.agent().doWork();
+        }
+    }
+
+    List<InboundMessage> on(String topic) {
+        return inbox.messages().stream().filter(m -> m.topic().equals(topic)).toList();
+    }
+
+    void send(UnitCommand c) {
+        tester.publish(OutboundMessage.of(topics.unitCommand(c.unit()), codec.encode(c), Qos.AT_LEAST_ONCE));
+    }
+
+    <T> List<T> decoded(String topic, Class<T> type) {
+        return on(topic).stream().map(m -> codec.decode(m.payload(), type).message().orElseThrow()).toList();
+    }
+
+    @Test
+    void shouldPublishMetersAndTelemetryOnTheirOwnScanPeriods() throws Exception {
+        try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of())) {
+            run(p, 20);
+            List<AreaMeter> north = decoded(topics.areaMeter("north-basin", "main"), AreaMeter.class);
+            List<AreaMeter> south = decoded(topics.areaMeter("south-ridge", "main"), AreaMeter.class);
+            assertThat(north).hasSize(11);   // t = 0, 2, ... 20 s
+            assertThat(south).hasSize(21);   // every 1 s
+            assertThat(north.get(2).sourceTime() - north.get(1).sourceTime()).isEqualTo(2_000);
+            AreaMeter last = north.get(north.size() - 1);
+            // the last scan ran at most 10 ms before the end; noise 1 mHz σ, 0.5 MW σ
+            assertThat(last.frequencyHz()).isCloseTo(p.sim().frequencyHz("north-basin"), within(0.01));
+            assertThat(last.ties()).hasSize(1);
+            // north-basin is the tie's from-area: + = export; the south sees the same flow as import
+            assertThat(last.netInterchangeMw()).isCloseTo(p.sim().netInterchangeMw("north-basin"), within(3.0));
+            assertThat(south.get(south.size() - 1).netInterchangeMw()).isCloseTo(-p.sim().tieFlowMw("basin-ridge"), within(3.0));
+            assertThat(north.stream().mapToDouble(AreaMeter::frequencyHz).distinct().count()).isGreaterThan(5);
+            assertThat(decoded(topics.unitTelemetry("basin-steam-1"), UnitTelemetry.class)).hasSize(11);
+            assertThat(decoded(topics.unitTelemetry("ridge-hydro-1"), UnitTelemetry.class)).hasSize(41);
+            assertThat(decoded(topics.unitLink("basin-gas-1"), LinkStatus.class).get(0).state()).isEqualTo(LinkState.ONLINE);
+        }
+    }
+
+    @Test
+    void shouldMoveTheTurbinesReferenceByPulseRateTimesDuration() throws Exception {
+        try (PlantRunner p = plant(ConnectionGrouping.POOLED, Set.of())) {
+            run(p, 240); // the demo site starts off balance: let the governors settle first
+            double before = p.sim().loadReferenceMw("basin-steam-1");
+            long now = clock.epochMillis();
+            send(UnitCommand.pulse(1, now, "basin-steam-1", "controller-1", 0, now + 8_000, PulseDirection.RAISE, 4_000));
+            run(p, 6);
+            // 18 MW/min × 4 s = 1.2 MW
+            assertThat(p.sim().loadReferenceMw("basin-steam-1") - before).isCloseTo(1.2, within(1e-9));
+            assertThat(decoded(topics.unitAck("basin-steam-1"), CommandAck.class)).singleElement()
+                    .extracting(CommandAck::outcome).isEqualTo(AckOutcome.ACCEPTED);
+            assertThat(p.host("basin-steam-1").unit().latency().toOutputUs().getTotalCount()).isEqualTo(1);
+        }
+    }
+
+    @Test
+    void shouldCutOneUnitsLinkAloneInASharedConnection() throws Exception {
+        try (PlantRunner p = plant(ConnectionGrouping.PER_PLANT, Set.of())) {
+            run(p, 1);
+            tester.publish(OutboundMessage.of(topics.faults(), codec.encode(new org.loopstand.protocol.message.FaultOrder(
+                    1, clock.epochMillis(), "cut-1", org.loopstand.protocol.message.FaultAction.START, "unitLinkDown",
+                    List.of("basin-steam-2"), Map.of(), null)), Qos.AT_LEAST_ONCE));
+            run(p, 0.1);
+            int telemetryBefore = on(topics.unitTelemetry("basin-steam-2")).size();
+            int otherBefore = on(topics.unitTelemetry("basin-steam-1")).size();
+            long now = clock.epochMillis();
+            send(UnitCommand.pulse(1, now, "basin-steam-2", "controller-1", 0, now + 8_000, PulseDirection.RAISE, 1_000));
+            run(p, 6);
+            assertThat(on(topics.unitTelemetry("basin-steam-2"))).hasSize(telemetryBefore);
+            assertThat(on(topics.unitTelemetry("basin-steam-1")).size()).isGreaterThan(otherBefore);
+            assertThat(on(topics.unitAck("basin-steam-2"))).isEmpty();
+            List<LinkStatus> link = decoded(topics.unitLink("basin-steam-2"), LinkStatus.class);
+            assertThat(link.get(link.size() - 1).state()).isEqualTo(LinkState.OFFLINE);
+            assertThat(link.get(link.size() - 1).clientId()).isEqualTo("demo-site-gateway-north-basin");
+        }
+    }
+
+    @Test
+    void shouldKeepSteppingAndServeOtherUnitsThroughACommandFlood() throws Exception {
+        try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of())) {
+            run(p, 1);
+            long steps = p.sim().stepCount();
+            long now = clock.epochMillis();
+            // 10,000 commands land at one unit within one cycle: the bus thread never blocks
+            for (int i = 1; i <= 10_000; i++) {
+                send(UnitCommand.pulse(i, now, "basin-gas-1", "controller-1", 0, now + 8_000, PulseDirection.LOWER, 10));
+            }
+            send(UnitCommand.pulse(1, now, "basin-steam-1", "controller-1", 0, now + 8_000, PulseDirection.RAISE, 1_000));
+            run(p, 1);
+            // 1 s at the demo site's 20 ms step = 50 steps, as without the flood
+            assertThat(p.sim().stepCount() - steps).isEqualTo(50);
+            UnitHost flooded = p.host("basin-gas-1");
+            assertThat(flooded.link().overflowCount()).isEqualTo(10_000 - 256);
+            assertThat(flooded.unit().acceptedCount()).isEqualTo(256);
+            assertThat(p.host("basin-steam-1").unit().acceptedCount()).isEqualTo(1);
+            assertThat(p.journal().entries()).anyMatch(e -> e.kind().equals("overflow") && e.unit().equals("basin-gas-1"));
+        }
+    }
+
+    @Test
+    void shouldSayOnceThatItFellBehindAndCatchUpWithoutSlowingTheClock() throws Exception {
+        try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of())) {
+            run(p, 1);
+            assertThat(warnings).isEmpty();
+            clock.advanceMillis(3_000); // the loop was held up for 3 s
+            for (int i = 0; i < 3; i++) {
+                p.agent().doWork(); // 250 steps at most per cycle: 150 steps of 20 ms are due
+            }
+            assertThat(p.sim().timeS()).isCloseTo(4.0, within(1e-9));
+            assertThat(warnings).singleElement().asString().contains("falling behind the clock by 2.9");
+            clock.advanceMillis(3_000);
+            p.agent().doWork();
+            assertThat(warnings).hasSize(1);
+            assertThat(p.lateness().histogramUs().getMaxValue()).isGreaterThan(2_900_000L);
+        }
+    }
+
+    @Test
+    void shouldPublishTheScenarioClockWhenTheRateIsNotOne() throws Exception {
+        try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of(), 10)) {
+            run(p, 25);
+            List<ClockTick> ticks = decoded(topics.clock(), ClockTick.class);
+            // once per wall second = every 10 s of scenario time: t = 0.01, 10, 20 s
+            assertThat(ticks).hasSize(3);
+            assertThat(ticks).allSatisfy(t -> assertThat(t.rate()).isEqualTo(10));
+            assertThat(ticks.get(2).scenarioTimeMs()).isEqualTo(20_000);
+            assertThat(on(topics.clock()).get(0).retained()).isFalse(); // live delivery; the broker keeps it
+        }
+        try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of())) {
+            run(p, 5);
+            assertThat(on(topics.clock())).hasSize(3); // nothing more at rate 1
+        }
+    }
+}

@@ -1,0 +1,34 @@
+package org.loopstand.plant.unit;
+
+import org.loopstand.plant.field.UnitField;
+import org.loopstand.protocol.message.UnitStatus;
+
+/** A turbine stand-in: output follows the reference with a first-order lag of {@code lagS}, stepped by hand. */
+final class FakeField implements UnitField {
+    double referenceMw;
+    double outputMw;
+    UnitStatus status = UnitStatus.ONLINE;
+    boolean ready = true;
+    int writes;
+
+    FakeField(double mw) {
+        referenceMw = mw;
+        outputMw = mw;
+    }
+
+    /** Moves output toward the reference for dtS with time constant 1 s. */
+    void settle(double dtS) {
+        outputMw += (referenceMw - outputMw) * (1 - Math.exp(-dtS));
+    }
+
+    @Override public boolean ready() { return ready; }
+    @Override public double outputMw() { return outputMw; }
+    @Override public double loadReferenceMw() { return referenceMw; }
+    @Override public UnitStatus status() { return status; }
+
+    @Override
+    public void writeLoadReferenceMw(double mw) {
+        referenceMw = mw;
+        writes++;
+    }
+}
