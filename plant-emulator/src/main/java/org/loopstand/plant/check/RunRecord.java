@@ -22,7 +22,7 @@ import org.loopstand.protocol.message.UnitCommand;
  * listens to the fault stage as a {@link FaultObserver}) or from a journal. Times are scenario s
  * since the run start. Single-threaded.
  */
-public final class RunRecord implements FaultObserver {
+public final class RunRecord implements FaultObserver, org.loopstand.plant.fault.CommandOutcomeListener {
     /** A sampled series. */
     public static final class Series {
         final List<Double> timesS = new ArrayList<>();
@@ -132,6 +132,11 @@ public final class RunRecord implements FaultObserver {
         if (mirror != null) {
             mirror.event(atS, type, description);
         }
+    }
+
+    @Override
+    public void handled(long nowMs, UnitCommand command, AckOutcome outcome, RefusalReason reason, boolean acted) {
+        commandHandled(nowMs, command, outcome, reason, acted);
     }
 
     /** The unit plant interface's answer to a command (call once per command handed to the unit). */

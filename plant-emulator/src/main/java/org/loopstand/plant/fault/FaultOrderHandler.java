@@ -31,9 +31,20 @@ public final class FaultOrderHandler implements MessageListener, Agent {
     private final FaultObserver observer;
     private final Clock clock;
     private final Queue<Object> inbox = new ConcurrentLinkedQueue<>();
+    private final java.util.Set<String> othersTypes;
 
     public FaultOrderHandler(FaultEngine engine, FaultLibrary library, TargetCatalog catalog, MessageCodec codec,
             FaultObserver observer, Clock clock) {
+        this(engine, library, catalog, codec, observer, clock, java.util.Set.of());
+    }
+
+    /**
+     * @param othersTypes order types another handler on the same topic acts on (the plant's operator
+     *                    orders such as {@code setControlMode}); they are left alone, not refused
+     */
+    public FaultOrderHandler(FaultEngine engine, FaultLibrary library, TargetCatalog catalog, MessageCodec codec,
+            FaultObserver observer, Clock clock, java.util.Set<String> othersTypes) {
+        this.othersTypes = java.util.Set.copyOf(othersTypes);
         this.engine = engine;
         this.library = library;
         this.catalog = catalog;
@@ -82,6 +93,9 @@ public final class FaultOrderHandler implements MessageListener, Agent {
      * @return why it was refused, if it was (already told to the observer)
      */
     public Optional<String> handle(FaultOrder order) {
+        if (othersTypes.contains(order.faultType())) {
+            return Optional.empty();
+        }
         if (order.action() == FaultAction.STOP) {
             return engine.stop(order.orderId(), "stopped by order");
         }
