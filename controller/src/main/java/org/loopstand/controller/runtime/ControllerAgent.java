@@ -248,7 +248,7 @@ public final class ControllerAgent implements Agent {
             Map<String, Object> f = new LinkedHashMap<>();
             f.put("unit", c.unitId());
             f.put("seq", seq);
-            f.put("kind", c.kind().name().toLowerCase(java.util.Locale.ROOT));
+            f.put("commandKind", c.kind().name().toLowerCase(java.util.Locale.ROOT));
             if (c.kind() == CommandKind.PULSE) {
                 f.put("direction", c.direction().name().toLowerCase(java.util.Locale.ROOT));
                 f.put("durationMs", c.durationMs());
