@@ -9,7 +9,7 @@ import picocli.CommandLine.Command;
  */
 @Command(name = "loopstand", mixinStandardHelpOptions = true, version = "loopstand 0.1.0",
         description = "Loopstand plant side: embedded broker, plant emulator, study mode.",
-        subcommands = {BrokerCommand.class, StudyCommand.class, PlantCommand.class, UnitCommand.class})
+        subcommands = {BrokerCommand.class, StudyCommand.class, PlantCommand.class, UnitCommand.class, FaultCommand.class})
 public final class PlantCli implements Runnable {
     @CommandLine.Spec
     private CommandLine.Model.CommandSpec spec;

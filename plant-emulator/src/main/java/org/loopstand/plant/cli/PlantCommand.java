@@ -26,7 +26,12 @@ import org.loopstand.plant.runtime.PlantRunner;
 import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.Scenario;
 import org.loopstand.plant.scenario.ScenarioEvent;
-import org.loopstand.plant.scenario.ScenarioLoader;
+import org.loopstand.plant.scenario.RunScenario;
+import org.loopstand.plant.scenario.RunScenarioLoader;
+import org.loopstand.plant.fault.CommandOutcomeListener;
+import org.loopstand.plant.fault.FaultEngine;
+import org.loopstand.plant.fault.FaultLog;
+import org.loopstand.plant.runtime.FaultHooks;
 import org.loopstand.plant.site.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.protocol.time.AcceleratedClock;
@@ -44,7 +49,7 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--site", required = true, description = "site file (YAML)")
     Path site;
 
-    @Option(names = "--scenario", description = "scenario file (YAML): seed, step, events")
+    @Option(names = "--scenario", description = "scenario file (YAML): seed, step, events, faults (see docs/faults.md)")
     Path scenarioFile;
 
     @Option(names = "--broker", description = "broker URL, e.g. tcp://127.0.0.1:1883; default: start the embedded broker on 127.0.0.1:1884")
@@ -87,10 +92,12 @@ public final class PlantCommand implements Callable<Integer> {
     public Integer call() throws Exception {
         Grid grid;
         Scenario scenario = null;
+        RunScenario rehearsal = null;
         try {
             grid = SiteLoader.load(site);
             if (scenarioFile != null) {
-                scenario = ScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
+                rehearsal = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
+                scenario = rehearsal.scenario();
             }
         } catch (ConfigFileException e) {
             System.err.println("refused:");
@@ -123,6 +130,14 @@ public final class PlantCommand implements Callable<Integer> {
         }
         Clock clock = rate == 1.0 ? WallClock.INSTANCE : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
         PlantRunner runner = new PlantRunner(sim, events, options, MqttLinks.to(uri, WallClock.INSTANCE), clock, PlantCommand::say);
+        FaultEngine faults = new FaultEngine(clock, clock.epochMillis(), new FaultLog());
+        if (rehearsal != null) {
+            for (var f : rehearsal.faults()) {
+                faults.schedule(f).ifPresent(why -> say("plant: fault " + f.id() + " not scheduled: " + why));
+            }
+        }
+        FaultHooks.wire(runner, faults, new FaultLog(), CommandOutcomeListener.NONE, clock,
+                scenario == null ? 0 : scenario.seed(), true);
         int here = runner.hosts().size();
         say(String.format(Locale.ROOT, "plant: site %s, broker %s%s, rate %s, %d unit interface(s) here (%s), %d elsewhere",
                 grid.siteId(), uri, embedded != null ? " (embedded)" : "", trim(rate), here,

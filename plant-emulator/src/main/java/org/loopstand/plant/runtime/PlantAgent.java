@@ -46,6 +46,7 @@ public final class PlantAgent implements Agent, ScenarioContext {
     private long clockSeq;
     private volatile long meterDropped;
     private volatile long meterSent;
+    private FaultHooks faults;
 
     public PlantAgent(Parts parts) {
         this.p = parts;
@@ -56,6 +57,11 @@ public final class PlantAgent implements Agent, ScenarioContext {
         this.clockPeriodNanos = Math.max(1_000_000_000L, Math.round(1e9 * parts.rate()));
         this.nextClockNanos = startNanos;
         this.clockSeq = parts.clock().epochMillis();
+    }
+
+    /** Owner thread, before start: meters publish through the fault stages, faults are updated each cycle. */
+    void attachFaults(FaultHooks hooks) {
+        this.faults = hooks;
     }
 
     @Override
@@ -71,6 +77,9 @@ public final class PlantAgent implements Agent, ScenarioContext {
     @Override
     public int doWork() {
         int work = p.orders() == null ? 0 : p.orders().work();
+        if (faults != null) {
+            work += faults.update(p.sim());
+        }
         long now = p.clock().monotonicNanos();
         int steps = 0;
         while (steps < MAX_STEPS_PER_CYCLE) {
@@ -119,6 +128,10 @@ public final class PlantAgent implements Agent, ScenarioContext {
                     continue;
                 }
                 meterSent++;
+                if (faults != null) {
+                    faults.publishMeter(reading);
+                    continue;
+                }
                 p.plantBus().publish(OutboundMessage.of(p.topics().areaMeter(reading.area(), reading.meter()),
                         p.codec().encode(reading), Qos.AT_MOST_ONCE));
             }

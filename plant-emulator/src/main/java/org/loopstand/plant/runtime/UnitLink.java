@@ -42,6 +42,7 @@ public final class UnitLink implements UnitOutput {
     private final LongAdder dropped = new LongAdder();
     private final LongAdder sendFailed = new LongAdder();
     private volatile boolean failed;
+    private org.loopstand.plant.fault.FaultyPublisher telemetryFaults;
     private final java.util.concurrent.atomic.AtomicBoolean announceDue = new java.util.concurrent.atomic.AtomicBoolean(true);
 
     public UnitLink(String unitId, MessageBus bus, TopicTree topics, MessageCodec codec, Clock clock,
@@ -99,7 +100,22 @@ public final class UnitLink implements UnitOutput {
 
     @Override
     public void telemetry(UnitTelemetry t) {
-        send(topics.unitTelemetry(unitId), t, telemetryQos);
+        if (telemetryFaults == null) {
+            send(topics.unitTelemetry(unitId), t, telemetryQos);
+        } else if (failed || !bus.isConnected()) {
+            dropped.increment();
+        } else {
+            telemetryFaults.publishTelemetry(t);
+        }
+    }
+
+    /** Owner thread, before start: telemetry goes through this fault stage (same bus, same QoS). */
+    public void setTelemetryFaults(org.loopstand.plant.fault.FaultyPublisher stage) {
+        this.telemetryFaults = stage;
+    }
+
+    public Qos telemetryQos() {
+        return telemetryQos;
     }
 
     @Override

@@ -4,6 +4,8 @@ import java.util.EnumMap;
 import java.util.Map;
 import java.util.concurrent.atomic.AtomicLongArray;
 
+import org.loopstand.plant.fault.CommandOutcomeListener;
+import org.loopstand.plant.fault.PlantFaultFlags;
 import org.loopstand.plant.field.UnitField;
 import org.loopstand.protocol.message.AckOutcome;
 import org.loopstand.protocol.message.CommandAck;
@@ -53,6 +55,9 @@ public final class UnitPlantInterface {
     private boolean watchdogArmed;
     private volatile long accepted;
     private long lastOverflowReportNanos = Long.MIN_VALUE;
+    private PlantFaultFlags faults = PlantFaultFlags.NONE;
+    private CommandOutcomeListener outcomes = CommandOutcomeListener.NONE;
+    private boolean localByFault;
 
     /**
      * @param seqStart first seq this interface publishes with (use the start time in epoch ms so a
@@ -81,27 +86,45 @@ public final class UnitPlantInterface {
         return settings;
     }
 
+    /** Makes this unit misbehave as its plant faults say (read on every command and tick). */
+    public void setFaultFlags(PlantFaultFlags flags) {
+        this.faults = flags;
+    }
+
+    /** Tells {@code listener} what became of every command (for the checks' run record). */
+    public void setCommandListener(CommandOutcomeListener listener) {
+        this.outcomes = listener;
+    }
+
     /** Handles a command as received; {@code receivedNanos} on this interface's clock. */
     public void onCommand(UnitCommand c, long receivedNanos) {
         long nowMs = clock.epochMillis();
         if (!ensureMotion()) {
             refuse(c.seq(), c.controllerId(), new Refusal(RefusalReason.UNIT_OFFLINE, "no field reading from the unit yet"));
+            outcomes.handled(nowMs, c, AckOutcome.REJECTED, RefusalReason.UNIT_OFFLINE, false);
             return;
         }
-        Refusal r = gate.check(c, nowMs, mode, field.status());
+        Refusal r = gate.check(c, nowMs, mode, field.status(), faults.applyExpiredCommands());
         if (r == null && c.kind() == CommandKind.PULSE && motion.headroomMw(c.direction()) <= 0) {
             r = new Refusal(RefusalReason.AT_LIMIT, "load reference target " + motion.targetMw() + " MW is at the "
                     + (c.direction() == PulseDirection.RAISE ? "upper" : "lower") + " regulating limit");
         }
         if (r != null) {
             refuse(c.seq(), c.controllerId(), r);
+            outcomes.handled(nowMs, c, AckOutcome.REJECTED, r.reason(), false);
             return;
         }
         String detail;
         double sign;
+        boolean acted = true;
         if (c.kind() == CommandKind.PULSE) {
             double askedMw = settings.pulseRateMwPerMin() * c.durationMs() / 60_000.0;
-            double takenMw = motion.pulse(c.direction(), c.durationMs());
+            PulseDirection wired = faults.swapRaiseLower()
+                    ? (c.direction() == PulseDirection.RAISE ? PulseDirection.LOWER : PulseDirection.RAISE) : c.direction();
+            acted = !faults.ignorePulses();
+            // an ignored pulse is acked as if taken: the controller must find out from the output
+            double takenMw = acted ? motion.pulse(wired, c.durationMs())
+                    : (c.direction() == PulseDirection.RAISE ? askedMw : -askedMw);
             sign = Math.signum(takenMw);
             detail = Math.abs(takenMw) < askedMw - 1e-9
                     ? String.format(java.util.Locale.ROOT, "atLimit: moved %.3f MW of %.3f MW asked", Math.abs(takenMw), askedMw)
@@ -116,6 +139,7 @@ public final class UnitPlantInterface {
         accepted++;
         latency.accepted(receivedNanos, field.outputMw(), sign);
         output.ack(new CommandAck(seq++, nowMs, settings.unitId(), c.seq(), c.controllerId(), AckOutcome.ACCEPTED, null, detail));
+        outcomes.handled(nowMs, c, AckOutcome.ACCEPTED, null, acted);
     }
 
     /** Handles a payload that did not decode as a command (never applied). */
@@ -161,6 +185,8 @@ public final class UnitPlantInterface {
         long now = clock.monotonicNanos();
         long dt = Math.max(0, now - lastTickNanos);
         lastTickNanos = now;
+        followLocalFault();
+        dt = Math.round(dt / faults.slowFactor());
         if (ensureMotion()) {
             if (field.status() != UnitStatus.ONLINE) {
                 motion.reset(field.loadReferenceMw());
@@ -194,6 +220,19 @@ public final class UnitPlantInterface {
                 setpoint, ready ? field.status() : UnitStatus.OFFLINE, mode, settings.regulatingMinMw(),
                 settings.regulatingMaxMw(), settings.rampMwPerMin(), settings.pulseRateMwPerMin(),
                 settings.acceptsSetpoints(), lastAcceptedSeq);
+    }
+
+    /** A switch-to-local plant fault takes the unit out of remote; its end gives remote back. */
+    private void followLocalFault() {
+        if (faults.forcedLocal() && !localByFault && mode == ControlMode.REMOTE) {
+            localByFault = true;
+            setControlMode(ControlMode.LOCAL, "plant fault: switched to local at the plant");
+        } else if (!faults.forcedLocal() && localByFault) {
+            localByFault = false;
+            if (mode == ControlMode.LOCAL) {
+                setControlMode(ControlMode.REMOTE, "plant fault ended: back to remote");
+            }
+        }
     }
 
     private void checkWatchdog(long now) {
