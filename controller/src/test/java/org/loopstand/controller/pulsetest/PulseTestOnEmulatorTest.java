@@ -5,8 +5,10 @@ import static org.assertj.core.api.Assertions.within;
 
 import java.util.List;
 import org.junit.jupiter.api.Test;
+import org.loopstand.controller.pulsetest.analysis.Finding;
 import org.loopstand.controller.pulsetest.analysis.StepMeasurement;
 import org.loopstand.controller.pulsetest.plan.StepKind;
+import org.loopstand.plant.fault.PlantFaultFlags;
 
 /**
  * The pulse test against the real plant of the demo site (physics, plant interface, telemetry every
@@ -47,6 +49,69 @@ class PulseTestOnEmulatorTest {
             }
             assertThat(r.findings()).isEmpty();
             assertThat(r.verdict()).isEqualTo(PulseTestResult.Verdict.PASS);
+        }
+    }
+
+    /** Runs the quick plan on basin-steam-1 (quiet loads, 10:30) with a plant fault on its interface. */
+    private static PulseTestResult withFault(PlantFaultFlags fault) throws Exception {
+        try (EmulatorRig rig = new EmulatorRig("basin-steam-1", "quick.yaml", 10.5, 2_000, true)) {
+            rig.unit().setFaultFlags(fault);
+            return rig.settle(120).run();
+        }
+    }
+
+    @Test
+    void shouldFindAUnitThatAcksPulsesButIgnoresThem() throws Exception {
+        PulseTestResult r = withFault(new PlantFaultFlags() {
+            @Override
+            public boolean ignorePulses() {
+                return true;
+            }
+        });
+        assertThat(r.record().state()).isEqualTo(RunState.FINISHED);
+        // every command acked as accepted: only the output shows the fault
+        assertThat(r.record().acks().values()).allSatisfy(a -> assertThat(a.reason()).isNull());
+        assertThat(r.verdict()).isEqualTo(PulseTestResult.Verdict.FAIL);
+        assertThat(r.findings()).first().isEqualTo(Finding.NO_MOVEMENT);
+        for (StepMeasurement m : moves(r)) {
+            assertThat(m.measuredChangeMw()).isCloseTo(0.0, within(0.05)); // quiet loads: nothing moves it
+        }
+    }
+
+    @Test
+    void shouldFindAUnitThatAnswersSlowly() throws Exception {
+        PulseTestResult r = withFault(new PlantFaultFlags() {
+            @Override
+            public double slowFactor() {
+                return 3.0;
+            }
+        });
+        assertThat(r.verdict()).isEqualTo(PulseTestResult.Verdict.FAIL);
+        // Each 12 MW move needs 120 s at a third of the pulse rate but gets a 77 s window, so the next
+        // step starts while the unit is still moving: the short raise pulse after the unfinished lower
+        // move nets a fall and is also reported as opposite. The staircases themselves are not.
+        assertThat(r.findings()).contains(Finding.RAMP_TOO_SLOW, Finding.GAIN_LOW).doesNotContain(Finding.NO_MOVEMENT);
+        for (StepMeasurement m : moves(r)) {
+            assertThat(m.opposite()).isFalse();
+            // the reference moves at 18 / 3 = 6 MW/min: far below the 17.35 MW/min expected
+            assertThat(m.rampMwPerMin()).isBetween(3.0, 6.0);
+        }
+    }
+
+    @Test
+    void shouldFindRaiseAndLowerSwapped() throws Exception {
+        PulseTestResult r = withFault(new PlantFaultFlags() {
+            @Override
+            public boolean swapRaiseLower() {
+                return true;
+            }
+        });
+        assertThat(r.verdict()).isEqualTo(PulseTestResult.Verdict.FAIL);
+        assertThat(r.findings()).first().isEqualTo(Finding.OPPOSITE_DIRECTION);
+        for (StepMeasurement m : moves(r)) {
+            assertThat(m.opposite()).isTrue();
+            // the same size of move the wrong way: gain about −0.29 MW/pulse-s (see the test above)
+            assertThat(m.gainMwPerPulseS()).isCloseTo(-0.29, within(0.03));
         }
     }
 }
