@@ -3,6 +3,7 @@ package org.loopstand.controller.cli;
 import java.io.BufferedReader;
 import java.io.InputStreamReader;
 import java.io.PrintStream;
+import java.io.Reader;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Path;
 import java.util.LinkedHashMap;
@@ -13,6 +14,7 @@ import java.util.concurrent.Callable;
 import org.loopstand.controller.pulsetest.PulseTestEvaluator;
 import org.loopstand.controller.pulsetest.PulseTestResult;
 import org.loopstand.controller.pulsetest.PulseTestRunFolder;
+import org.loopstand.controller.pulsetest.PlantClockFollower;
 import org.loopstand.controller.pulsetest.PulseTestRunner;
 import org.loopstand.controller.pulsetest.analysis.Judgement;
 import org.loopstand.controller.pulsetest.plan.PlanException;
@@ -58,6 +60,12 @@ public final class PulseTestCommand implements Callable<Integer> {
     @Option(names = "--epoch", description = "controller epoch for the commands (default: now in seconds)")
     Long epoch;
 
+    @Option(names = "--follow-plant-clock", description = "emulator at --rate N: take the plant's time base from its clock topic (test broker only)")
+    boolean followPlantClock;
+
+    /** Console for the confirmation and the abort key; tests give their own. */
+    Reader consoleIn = new InputStreamReader(System.in, StandardCharsets.UTF_8);
+
     @Override
     public Integer call() throws Exception {
         PrintStream o = System.out;
@@ -72,7 +80,7 @@ public final class PulseTestCommand implements Callable<Integer> {
             System.err.println("pulse-test: " + e.getMessage());
             return 2;
         }
-        BufferedReader console = new BufferedReader(new InputStreamReader(System.in, StandardCharsets.UTF_8));
+        BufferedReader console = new BufferedReader(consoleIn);
         Optional<String> refusal = SafetyGate.admit(broker, testBroker, livePlant, unit, console, o);
         if (refusal.isPresent()) {
             System.err.println("pulse-test: " + refusal.get());
@@ -80,14 +88,27 @@ public final class PulseTestCommand implements Callable<Integer> {
         }
         PlanLimits caps = SafetyGate.caps(plan.limits(), maxExcursionMw == null ? Double.NaN : maxExcursionMw,
                 maxDurationS == null ? Double.NaN : maxDurationS);
+        if (followPlantClock && !SafetyGate.isTestBroker(broker, testBroker)) {
+            System.err.println("pulse-test: --follow-plant-clock is for an emulated plant on a test broker only");
+            return 3;
+        }
         Clock clock = WallClock.INSTANCE;
         TopicTree topics = TopicTree.forSite(siteUnit.siteId());
         MqttLinkConfig config = MqttLinkConfig.builder().serverUri(broker).clientId("pulse-test-" + unit).build();
         PulseTestRunner runner;
-        try (MqttLink link = new MqttLink(config, clock).start()) {
+        try (MqttLink link = new MqttLink(config, WallClock.INSTANCE).start()) {
             if (!link.awaitConnected(10_000)) {
                 System.err.println("pulse-test: cannot connect to " + broker);
                 return 4;
+            }
+            if (followPlantClock) {
+                Optional<Clock> plantClock = PlantClockFollower.await(link, topics, WallClock.INSTANCE, 10_000);
+                if (plantClock.isEmpty()) {
+                    System.err.println("pulse-test: no tick on " + topics.clock() + " within 10 s (is the plant "
+                            + "running with --rate other than 1?)");
+                    return 4;
+                }
+                clock = plantClock.get();
             }
             runner = new PulseTestRunner(link, clock, topics, unit, plan, fromTelemetry ? null : siteUnit.unit(), caps,
                     epoch == null ? clock.epochMillis() / 1000 : epoch, new KeyAbortSwitch(console), 30);
