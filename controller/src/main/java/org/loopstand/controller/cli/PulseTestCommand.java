@@ -133,7 +133,12 @@ public final class PulseTestCommand implements Callable<Integer> {
         Path html = PulseTestRunFolder.write(dir, result, plan, siteUnit.siteId(), cfg);
         print(o, result);
         o.println("report: " + html);
-        return result.verdict() == PulseTestResult.Verdict.PASS ? 0 : 1;
+        // a programme refused before anything was sent (caps, range, unit state) is a safety refusal
+        return switch (result.verdict()) {
+            case PASS -> 0;
+            case REFUSED -> 3;
+            default -> 1;
+        };
     }
 
     static void print(PrintStream o, PulseTestResult r) {
