@@ -67,24 +67,18 @@ public final class SiteGenerator {
         for (int a = 0; a < areas; a++) {
             int n = unitsIn(a, units, areas);
             for (int u = 0; u < n; u++) {
-                y.append("  - id: ").append(unit(a, u)).append('\n')
-                        .append("    area: ").append(area(a)).append('\n');
+                // one flow-style line per unit: the site loader refuses YAML documents over 3 M code points
+                y.append("  - {id: ").append(unit(a, u)).append(", area: ").append(area(a));
                 switch (u % 3) {
-                    case 0 -> y.append("    turbine: reheat\n    governorTimeConstantS: 0.2\n")
-                            .append("    steamChestTimeConstantS: 0.3\n    reheatTimeConstantS: 7\n    hpFraction: 0.3\n");
-                    case 1 -> y.append("    turbine: nonReheat\n    governorTimeConstantS: 0.2\n    turbineTimeConstantS: 0.4\n");
-                    default -> y.append("    turbine: hydro\n    governorTimeConstantS: 0.5\n    waterStartingTimeS: 2.0\n")
-                            .append("    transientDroopPct: 43\n    resetTimeS: 9\n");
+                    case 0 -> y.append(", turbine: reheat, governorTimeConstantS: 0.2, steamChestTimeConstantS: 0.3,"
+                            + " reheatTimeConstantS: 7, hpFraction: 0.3");
+                    case 1 -> y.append(", turbine: nonReheat, governorTimeConstantS: 0.2, turbineTimeConstantS: 0.4");
+                    default -> y.append(", turbine: hydro, governorTimeConstantS: 0.5, waterStartingTimeS: 2,"
+                            + " transientDroopPct: 43, resetTimeS: 9");
                 }
-                y.append("    ratingMw: ").append(num(UNIT_RATING_MW)).append('\n')
-                        .append("    droopPct: 5\n")
-                        .append("    minOutputMw: 30\n")
-                        .append("    maxOutputMw: ").append(num(UNIT_RATING_MW)).append('\n')
-                        .append("    initialOutputMw: ").append(num(UNIT_OUTPUT_MW)).append('\n')
-                        .append("    regulatingMinMw: 50\n")
-                        .append("    regulatingMaxMw: 140\n")
-                        .append("    rampMwPerMin: 10\n")
-                        .append("    pulseRateMwPerMin: 10\n");
+                y.append(", ratingMw: ").append(num(UNIT_RATING_MW)).append(", droopPct: 5, minOutputMw: 30, maxOutputMw: ")
+                        .append(num(UNIT_RATING_MW)).append(", initialOutputMw: ").append(num(UNIT_OUTPUT_MW))
+                        .append(", rampMwPerMin: 10, pulseRateMwPerMin: 10}\n");
             }
         }
         y.append("loads:\n");
