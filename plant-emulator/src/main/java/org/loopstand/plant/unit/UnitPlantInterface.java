@@ -78,6 +78,20 @@ public final class UnitPlantInterface {
         this.nextTelemetryNanos = now;
     }
 
+    /**
+     * Moves the first telemetry scan {@code phaseNanos} (modulo the scan period) later, so that many
+     * units do not all publish in the same instant. Real field devices are not synchronized; a site of
+     * thousands of units started together would otherwise send every scan as one burst.
+     *
+     * @param phaseNanos ≥ 0, ns
+     */
+    public void staggerTelemetry(long phaseNanos) {
+        if (phaseNanos < 0) {
+            throw new IllegalArgumentException("phaseNanos must be ≥ 0, got " + phaseNanos);
+        }
+        nextTelemetryNanos = lastTickNanos + phaseNanos % telemetryPeriodNanos;
+    }
+
     public String unitId() {
         return settings.unitId();
     }
