@@ -19,6 +19,8 @@ import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.message.UnitStatus;
 import org.loopstand.protocol.message.UnitTelemetry;
 import org.loopstand.protocol.message.Validity;
+import org.loopstand.protocol.security.CommandVerifier;
+import org.loopstand.protocol.security.VerificationResult;
 import org.loopstand.protocol.time.Clock;
 
 /**
@@ -53,6 +55,7 @@ public final class UnitPlantInterface {
     private boolean watchdogArmed;
     private volatile long accepted;
     private long lastOverflowReportNanos = Long.MIN_VALUE;
+    private CommandVerifier verifier;
 
     /**
      * @param seqStart first seq this interface publishes with (use the start time in epoch ms so a
@@ -81,9 +84,32 @@ public final class UnitPlantInterface {
         return settings;
     }
 
+    /**
+     * Requires every command to be signed and fresh: the verifier's checks (signature, key, expiry,
+     * replay) run before every other command rule, so a forged or replayed command never touches the
+     * gate's seq history or the load reference. Without a verifier (insecure demo) signatures are not
+     * looked at. Call before the first command; one verifier (one replay memory) per process.
+     */
+    public UnitPlantInterface verifyCommandsWith(CommandVerifier commandVerifier) {
+        this.verifier = commandVerifier;
+        return this;
+    }
+
+    /** @return whether commands must be signed (a verifier is set) */
+    public boolean verifiesCommands() {
+        return verifier != null;
+    }
+
     /** Handles a command as received; {@code receivedNanos} on this interface's clock. */
     public void onCommand(UnitCommand c, long receivedNanos) {
         long nowMs = clock.epochMillis();
+        if (verifier != null) {
+            VerificationResult v = verifier.verify(settings.unitId(), c);
+            if (!v.accepted()) {
+                refuse(c.seq(), c.controllerId(), new Refusal(v.reason(), v.detail()));
+                return;
+            }
+        }
         if (!ensureMotion()) {
             refuse(c.seq(), c.controllerId(), new Refusal(RefusalReason.UNIT_OFFLINE, "no field reading from the unit yet"));
             return;
