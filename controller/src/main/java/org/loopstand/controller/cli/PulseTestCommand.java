@@ -27,10 +27,16 @@ import org.loopstand.controller.pulsetest.safety.SafetyGate;
 import org.loopstand.protocol.agent.AgentRunner;
 import org.loopstand.protocol.bus.mqtt.MqttLink;
 import org.loopstand.protocol.bus.mqtt.MqttLinkConfig;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.security.AuthOptions;
+import org.loopstand.protocol.security.CommandSigner;
+import org.loopstand.protocol.security.LinkSecurity;
+import org.loopstand.protocol.security.SecuritySetupException;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.WallClock;
 import org.loopstand.protocol.topic.TopicTree;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 
 /** {@code ./loopstand pulse-test}: the unit response test against a broker. */
@@ -59,6 +65,8 @@ public final class PulseTestCommand implements Callable<Integer> {
     Double maxDurationS;
     @Option(names = "--epoch", description = "controller epoch for the commands (default: now in seconds)")
     Long epoch;
+    @Mixin
+    AuthOptions auth;
 
     @Option(names = "--follow-plant-clock", description = "emulator at --rate N: take the plant's time base from its clock topic (test broker only)")
     boolean followPlantClock;
@@ -94,7 +102,19 @@ public final class PulseTestCommand implements Callable<Integer> {
         }
         Clock clock = WallClock.INSTANCE;
         TopicTree topics = TopicTree.forSite(siteUnit.siteId());
-        MqttLinkConfig config = MqttLinkConfig.builder().serverUri(broker).clientId("pulse-test-" + unit).build();
+        LinkSecurity security;
+        MqttLinkConfig config;
+        try {
+            security = auth.resolve(broker, System.getenv());
+            if (security.signsCommands() && security.keys().orElseThrow().signingKey(unit, clock.epochMillis()).isEmpty()) {
+                throw new SecuritySetupException("the keys file has no key valid now for unit " + unit);
+            }
+            config = security.applyTo(MqttLinkConfig.builder().serverUri(broker).clientId("pulse-test-" + unit), null).build();
+        } catch (SecuritySetupException | IllegalArgumentException e) {
+            System.err.println("pulse-test: " + e.getMessage());
+            return 2;
+        }
+        System.err.println(security.startMessage());
         PulseTestRunner runner;
         try (MqttLink link = new MqttLink(config, WallClock.INSTANCE).start()) {
             if (!link.awaitConnected(10_000)) {
@@ -112,6 +132,8 @@ public final class PulseTestCommand implements Callable<Integer> {
             }
             runner = new PulseTestRunner(link, clock, topics, unit, plan, fromTelemetry ? null : siteUnit.unit(), caps,
                     epoch == null ? clock.epochMillis() / 1000 : epoch, new KeyAbortSwitch(console), 30);
+            Clock signingClock = clock; // the plant's time base when following it: key validity and signed times agree
+            security.keys().ifPresent(keys -> runner.signCommandsWith(new CommandSigner(keys, signingClock, new MessageCodec())));
             o.printf(Locale.ROOT, "pulse-test: unit %s on %s, plan %s; caps %.1f MW, %.0f s. Type q and Enter to stop.%n",
                     unit, broker, plan.name(), caps.maxExcursionMw(), caps.maxDurationS());
             PulseTestRunner r = runner;

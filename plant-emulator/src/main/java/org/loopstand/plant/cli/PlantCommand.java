@@ -34,6 +34,10 @@ import org.loopstand.plant.fault.FaultLog;
 import org.loopstand.plant.runtime.FaultHooks;
 import org.loopstand.plant.site.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
+import org.loopstand.plant.runtime.UnitHost;
+import org.loopstand.protocol.security.AuthOptions;
+import org.loopstand.protocol.security.LinkSecurity;
+import org.loopstand.protocol.security.SecuritySetupException;
 import org.loopstand.protocol.time.AcceleratedClock;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.SystemTime;
@@ -88,6 +92,9 @@ public final class PlantCommand implements Callable<Integer> {
     @Mixin
     InterfaceMixin iface;
 
+    @Mixin
+    AuthOptions auth;
+
     @Override
     public Integer call() throws Exception {
         Grid grid;
@@ -116,10 +123,26 @@ public final class PlantCommand implements Callable<Integer> {
                 : new GridSimulator(grid, stepS, scenario.seed(), scenario.startHourOfDay());
         List<ScenarioEvent> events = scenario == null ? List.of() : scenario.events();
 
+        LinkSecurity security;
         EmbeddedBroker embedded = null;
+        try {
+            security = auth.resolve(broker != null ? broker : "tcp://" + EmbeddedBroker.DEFAULT_BIND_ADDRESS + ":"
+                    + EmbeddedBroker.DEFAULT_PORT, System.getenv());
+            PlantSecurity.checkGrouping(security, options.grouping());
+            if (broker == null) {
+                embedded = new EmbeddedBroker();
+                var brokerAuth = PlantSecurity.embeddedAuth(security, grid, options.interfaces().acceptedControllers());
+                if (brokerAuth != null) {
+                    embedded.withAuth(brokerAuth);
+                }
+            }
+        } catch (SecuritySetupException e) {
+            System.err.println("plant: " + e.getMessage());
+            return 2;
+        }
+        System.err.println(security.startMessage());
         String uri = broker;
         if (uri == null) {
-            embedded = new EmbeddedBroker();
             try {
                 embedded.start(Duration.ofSeconds(30));
             } catch (IllegalStateException e) {
@@ -129,7 +152,9 @@ public final class PlantCommand implements Callable<Integer> {
             uri = embedded.serverUri();
         }
         Clock clock = rate == 1.0 ? WallClock.INSTANCE : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
-        PlantRunner runner = new PlantRunner(sim, events, options, MqttLinks.to(uri, WallClock.INSTANCE), clock, PlantCommand::say);
+        PlantRunner runner = new PlantRunner(sim, events, options, MqttLinks.to(uri, WallClock.INSTANCE, security, grid.siteId()),
+                clock, PlantCommand::say);
+        PlantSecurity.requireSignedCommands(security, runner.hosts().stream().map(UnitHost::unit).toList(), clock);
         FaultEngine faults = new FaultEngine(clock, clock.epochMillis(), new FaultLog());
         if (rehearsal != null) {
             for (var f : rehearsal.faults()) {

@@ -21,6 +21,8 @@ import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.message.UnitStatus;
 import org.loopstand.protocol.message.UnitTelemetry;
 import org.loopstand.protocol.message.Validity;
+import org.loopstand.protocol.security.CommandVerifier;
+import org.loopstand.protocol.security.VerificationResult;
 import org.loopstand.protocol.time.Clock;
 
 /**
@@ -58,6 +60,7 @@ public final class UnitPlantInterface {
     private PlantFaultFlags faults = PlantFaultFlags.NONE;
     private CommandOutcomeListener outcomes = CommandOutcomeListener.NONE;
     private boolean localByFault;
+    private CommandVerifier verifier;
 
     /**
      * @param seqStart first seq this interface publishes with (use the start time in epoch ms so a
@@ -78,6 +81,20 @@ public final class UnitPlantInterface {
         this.nextTelemetryNanos = now;
     }
 
+    /**
+     * Moves the first telemetry scan {@code phaseNanos} (modulo the scan period) later, so that many
+     * units do not all publish in the same instant. Real field devices are not synchronized; a site of
+     * thousands of units started together would otherwise send every scan as one burst.
+     *
+     * @param phaseNanos ≥ 0, ns
+     */
+    public void staggerTelemetry(long phaseNanos) {
+        if (phaseNanos < 0) {
+            throw new IllegalArgumentException("phaseNanos must be ≥ 0, got " + phaseNanos);
+        }
+        nextTelemetryNanos = lastTickNanos + phaseNanos % telemetryPeriodNanos;
+    }
+
     public String unitId() {
         return settings.unitId();
     }
@@ -96,9 +113,33 @@ public final class UnitPlantInterface {
         this.outcomes = listener;
     }
 
+    /**
+     * Requires every command to be signed and fresh: the verifier's checks (signature, key, expiry,
+     * replay) run before every other command rule, so a forged or replayed command never touches the
+     * gate's seq history or the load reference. Without a verifier (insecure demo) signatures are not
+     * looked at. Call before the first command; one verifier (one replay memory) per process.
+     */
+    public UnitPlantInterface verifyCommandsWith(CommandVerifier commandVerifier) {
+        this.verifier = commandVerifier;
+        return this;
+    }
+
+    /** @return whether commands must be signed (a verifier is set) */
+    public boolean verifiesCommands() {
+        return verifier != null;
+    }
+
     /** Handles a command as received; {@code receivedNanos} on this interface's clock. */
     public void onCommand(UnitCommand c, long receivedNanos) {
         long nowMs = clock.epochMillis();
+        if (verifier != null) {
+            VerificationResult v = verifier.verify(settings.unitId(), c);
+            if (!v.accepted()) {
+                refuse(c.seq(), c.controllerId(), new Refusal(v.reason(), v.detail()));
+                outcomes.handled(nowMs, c, AckOutcome.REJECTED, v.reason(), false);
+                return;
+            }
+        }
         if (!ensureMotion()) {
             refuse(c.seq(), c.controllerId(), new Refusal(RefusalReason.UNIT_OFFLINE, "no field reading from the unit yet"));
             outcomes.handled(nowMs, c, AckOutcome.REJECTED, RefusalReason.UNIT_OFFLINE, false);
