@@ -13,8 +13,9 @@ import picocli.CommandLine.Option;
 /** Plant-interface options shared by {@code plant} and {@code unit}. */
 public final class InterfaceMixin {
     @Option(names = "--accept-controller", split = ",", paramLabel = "ID",
-            description = "controller ids whose commands are taken (default controller-1)")
-    List<String> acceptedControllers = List.of(InterfaceOptions.DEFAULT_CONTROLLER);
+            description = "controller ids whose commands are taken (default controller-1,pulse-test: the rig's"
+                    + " controller and its unit response test)")
+    List<String> acceptedControllers = List.of(InterfaceOptions.DEFAULT_CONTROLLER, InterfaceOptions.RESPONSE_TEST_CONTROLLER);
 
     @Option(names = "--watchdog-s", defaultValue = "30", description = "controller heartbeat timeout, s of scenario time (default ${DEFAULT-VALUE})")
     double watchdogS;

@@ -17,6 +17,8 @@ public record InterfaceOptions(long maxPulseMs, long telemetryScanMs, Map<String
                                double watchdogS, WatchdogAction watchdogAction, Set<String> acceptedControllers) {
     /** Default controller id accepted when nothing else is configured. */
     public static final String DEFAULT_CONTROLLER = "controller-1";
+    /** Controller id the unit response test ({@code pulse-test}) sends with; the plant command accepts it by default. */
+    public static final String RESPONSE_TEST_CONTROLLER = "pulse-test";
 
     public InterfaceOptions {
         telemetryScanMsByUnit = Map.copyOf(telemetryScanMsByUnit);
