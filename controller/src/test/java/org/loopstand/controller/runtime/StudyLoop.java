@@ -20,6 +20,7 @@ import org.loopstand.protocol.bus.memory.DeliveryMode;
 import org.loopstand.protocol.bus.memory.InMemoryBroker;
 import org.loopstand.protocol.bus.memory.InMemoryBus;
 import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.journal.JournalWriter;
 import org.loopstand.protocol.message.AckOutcome;
 import org.loopstand.protocol.message.CommandAck;
 import org.loopstand.protocol.message.UnitCommand;
@@ -60,6 +61,11 @@ final class StudyLoop {
     }
 
     StudyLoop(GridSimulator sim, ControllerSiteConfig config, List<ScenarioEvent> events) {
+        this(sim, config, events, null);
+    }
+
+    /** @param journal the controller's journal (owned and closed by the agent), or null */
+    StudyLoop(GridSimulator sim, ControllerSiteConfig config, List<ScenarioEvent> events, JournalWriter journal) {
         this.sim = sim;
         this.topics = TopicTree.forSite(sim.grid().siteId());
         broker.connect("recorder").subscribe(topics.filterEverything(), Qos.AT_LEAST_ONCE, m -> {
@@ -90,7 +96,7 @@ final class StudyLoop {
         this.controllerLink = broker.connect("controller", ControllerAgent.offlineStatus(sim.grid().siteId(),
                 "controller-1", START_MS, START_MS));
         this.agent = new ControllerAgent(config, controllerLink, clock, null, "controller-1", START_MS,
-                null, null);
+                journal, null);
         agent.onStart();
     }
 
