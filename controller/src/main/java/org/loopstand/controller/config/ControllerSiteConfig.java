@@ -11,6 +11,7 @@ import org.loopstand.controller.cycle.AreaSchedule;
 import org.loopstand.controller.cycle.AreaSetup;
 import org.loopstand.controller.cycle.ControlCycleSettings;
 import org.loopstand.controller.dispatch.QuadraticCostUnit;
+import org.loopstand.controller.following.GovernorResponse;
 
 /**
  * The controller's view of a site: areas, ties, units and the controller settings. Built by
@@ -56,7 +57,7 @@ public record ControllerSiteConfig(String siteId, List<SiteArea> areas, List<Sit
     public ControlCycleSettings toCycleSettings() {
         ControllerSettings s = settings;
         List<AreaSetup> setups = new ArrayList<>();
-        Map<String, Double> primary = new HashMap<>();
+        Map<String, GovernorResponse> primary = new HashMap<>();
         for (SiteArea a : areas) {
             AreaControlSettings.Builder b = AreaControlSettings.builder(a.id()).mode(s.aceMode())
                     .nominalFrequencyHz(a.nominalFrequencyHz());
@@ -71,7 +72,7 @@ public record ControllerSiteConfig(String siteId, List<SiteArea> areas, List<Sit
                     if (u.costC() > 0) {
                         costs.add(new QuadraticCostUnit(u.id(), u.costA(), u.costB(), u.costC(), u.minMw(), u.maxMw()));
                     }
-                    primary.put(u.id(), u.primaryResponseMwPerHz(a.nominalFrequencyHz()));
+                    primary.put(u.id(), u.governor(a.nominalFrequencyHz()));
                 }
             }
             long redispatch = costs.isEmpty() ? 0 : s.redispatchPeriodMs();

@@ -84,12 +84,17 @@ public final class ControllerSiteReader {
             double min = u.dbl("regulatingMinMw", u.dbl("minOutputMw", 0.0));
             double max = u.dbl("regulatingMaxMw", u.dbl("maxOutputMw", Double.isNaN(rating) ? Double.NaN : rating));
             double c = u.dbl("costC", 0.0);
+            double deadBandHz = u.dbl("deadBandHz", 0.0);
+            if (!(deadBandHz >= 0 && deadBandHz < 1)) {
+                u.fail("deadBandHz", "must be in [0, 1) Hz, got " + deadBandHz);
+                deadBandHz = 0.0;
+            }
             if (c > 0 && !(min <= max)) {
                 u.fail("needs regulating limits (regulatingMinMw/regulatingMaxMw or ratingMw) for its cost curve");
             }
             if (id != null && area != null) {
                 units.add(new SiteUnit(id, area, u.dbl("costA", 0.0), u.dbl("costB", 0.0), c, min, max, rating,
-                        u.dbl("droopPct", Double.NaN)));
+                        u.dbl("droopPct", Double.NaN), deadBandHz));
             }
         }
         double f0 = areas.isEmpty() ? 50.0 : areas.get(0).nominalFrequencyHz();
@@ -184,7 +189,8 @@ public final class ControllerSiteReader {
         FollowingSettings df = d.following();
         FollowingSettings following = build(f, () -> new FollowingSettings(f.lng("deadTimeMs", df.deadTimeMs()),
                 f.dbl("toleranceMw", df.toleranceMw()), (int) f.lng("missedCyclesToFlag", df.missedCyclesToFlag()),
-                (int) f.lng("followedCyclesToReturn", df.followedCyclesToReturn())), df);
+                (int) f.lng("followedCyclesToReturn", df.followedCyclesToReturn()),
+                f.lng("governorSettleMs", df.governorSettleMs())), df);
         long settleMs = c.lng("commandSettleMs", d.commandSettleMs());
         if (settleMs < 0) {
             c.fail("commandSettleMs", "must be >= 0 ms, got " + settleMs);

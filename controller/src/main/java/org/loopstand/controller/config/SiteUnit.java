@@ -1,5 +1,7 @@
 package org.loopstand.controller.config;
 
+import org.loopstand.controller.following.GovernorResponse;
+
 /**
  * What the controller needs of one unit from the site file. Live limits, ramp and pulse rate come
  * from the unit's telemetry; these figures are used for economic dispatch and for the governor
@@ -14,14 +16,25 @@ package org.loopstand.controller.config;
  * @param maxMw       highest regulating output, MW (regulatingMaxMw, else maxOutputMw, else ratingMw)
  * @param ratingMw    rating, MW (NaN when not given)
  * @param droopPct    permanent droop, % (NaN when not given)
+ * @param deadBandHz  governor dead band, Hz (0 when not given)
  */
 public record SiteUnit(String id, String area, double costA, double costB, double costC, double minMw,
-                       double maxMw, double ratingMw, double droopPct) {
+                       double maxMw, double ratingMw, double droopPct, double deadBandHz) {
+    /** Without a governor dead band. */
+    public SiteUnit(String id, String area, double costA, double costB, double costC, double minMw, double maxMw,
+                    double ratingMw, double droopPct) {
+        this(id, area, costA, costB, costC, minMw, maxMw, ratingMw, droopPct, 0.0);
+    }
+
     /** @return the expected governor response rating/(droop·f0), MW/Hz, or 0 when not known */
     public double primaryResponseMwPerHz(double nominalFrequencyHz) {
-        if (!(ratingMw > 0) || !(droopPct > 0)) {
-            return 0.0;
-        }
-        return ratingMw / (droopPct / 100.0) / nominalFrequencyHz;
+        return GovernorResponse.mwPerHz(ratingMw, droopPct, nominalFrequencyHz);
+    }
+
+    /** @return the unit's governor as the following check models it (none when rating or droop is missing) */
+    public GovernorResponse governor(double nominalFrequencyHz) {
+        double k = primaryResponseMwPerHz(nominalFrequencyHz);
+        return k > 0 ? new GovernorResponse(k, deadBandHz >= 0 && Double.isFinite(deadBandHz) ? deadBandHz : 0.0)
+                : GovernorResponse.NONE;
     }
 }

@@ -12,6 +12,7 @@ import org.loopstand.controller.ace.AceResult;
 import org.loopstand.controller.allocation.Allocation;
 import org.loopstand.controller.allocation.RegulationAllocator;
 import org.loopstand.controller.allocation.TertiaryRedispatch;
+import org.loopstand.controller.allocation.LimitedBy;
 import org.loopstand.controller.allocation.UnitAllocation;
 import org.loopstand.controller.allocation.UnitState;
 import org.loopstand.controller.dispatch.InfeasibleDispatchException;
@@ -105,6 +106,7 @@ final class AreaController {
         // in the quiet band only base point moves go out (the regulation level is held)
         if (reg.band() == AceBand.REGULATING || (reg.band() == AceBand.QUIET && baseMovedMw > 0)) {
             alloc = allocator.allocate(reg.levelMw(), eligible, basePointsMw, factors(), excluded);
+            holdIntegratorAtRampLimit(reg, alloc);
         } else if (reg.band() == AceBand.ASSIST) {
             int direction = reg.filteredAceMw() < 0 ? 1 : -1;
             alloc = allocator.assist(direction, eligible, basePointsMw, excluded);
@@ -115,6 +117,26 @@ final class AreaController {
             regulator.trackLevel(level, reg.filteredAceMw());
         }
         return new AreaCycleResult(areaId(), aceResult, reg, alloc);
+    }
+
+    /**
+     * Anti-wind-up against the ramp: when units could not take their share this cycle because of
+     * their ramp rate and the PI level runs ahead of where they can get in the direction it pushes,
+     * the PI tracks the reachable level. Otherwise a slow unit lets the integrator run far ahead after
+     * a large disturbance and the area overshoots for minutes once the error changes sign (seen in
+     * the closed loop on the demo site with a 14 MW/min steam unit).
+     */
+    private void holdIntegratorAtRampLimit(RegulationResult reg, Allocation alloc) {
+        boolean rampLimited = false;
+        double reachableMw = 0;
+        for (UnitAllocation a : alloc.units()) {
+            rampLimited |= a.limitedBy() == LimitedBy.RAMP;
+            reachableMw += a.targetMw() - a.basePointMw();
+        }
+        double push = -reg.filteredAceMw();
+        if (rampLimited && (reg.levelMw() - reachableMw) * push > 0) {
+            regulator.trackLevel(reachableMw, reg.filteredAceMw());
+        }
     }
 
     /** @return Σ|base point move| this cycle, MW */

@@ -12,6 +12,8 @@ import org.loopstand.controller.allocation.RegulationAllocator;
 import org.loopstand.controller.allocation.UnitAllocation;
 import org.loopstand.controller.allocation.UnitState;
 import org.loopstand.controller.following.FollowingCheck;
+import org.loopstand.controller.following.FrequencyHistory;
+import org.loopstand.controller.following.GovernorResponse;
 import org.loopstand.controller.following.UnitFollowingMonitor;
 import org.loopstand.controller.intake.ValidatedValue;
 import org.loopstand.controller.pulse.PlannedCommand;
@@ -42,6 +44,7 @@ public final class ControlCycle {
     private final UnitFollowingMonitor following;
     private final PulsePlanner pulses;
     private final Map<String, LastCommand> lastCommands = new HashMap<>();
+    private final Map<String, FrequencyHistory> frequencyHistory = new HashMap<>();
 
     private record LastCommand(long endMs, double setpointMw) {
     }
@@ -50,6 +53,7 @@ public final class ControlCycle {
         this.settings = settings;
         for (AreaSetup a : settings.areas()) {
             areas.put(a.ace().areaId(), new AreaController(a));
+            frequencyHistory.put(a.ace().areaId(), new FrequencyHistory(settings.following().governorSettleMs()));
         }
         this.interlock = new RegulationInterlock(settings.interlock());
         this.following = new UnitFollowingMonitor(settings.following());
@@ -87,6 +91,7 @@ public final class ControlCycle {
             }
         }
         InterlockDecision decision = interlock.evaluate(check);
+        freqDevByArea.forEach((area, df) -> frequencyHistory.get(area).add(in.nowMs(), df));
 
         List<UnitState> units = effectiveUnits(in.units());
         List<FollowingCheck> checks = new ArrayList<>();
@@ -94,7 +99,8 @@ public final class ControlCycle {
             Double dfHz = freqDevByArea.get(u.areaId());
             // judged only with a good frequency, so the governor share can be taken out
             if (u.telemetryGood() && u.online() && dfHz != null) {
-                checks.add(following.check(u.unitId(), in.nowMs(), responseMw(u, dfHz), u.rampMwPerMin()));
+                checks.add(following.check(u.unitId(), in.nowMs(), responseMw(u, dfHz), u.rampMwPerMin(),
+                        governorUncertaintyMw(u)));
             }
         }
         Set<String> flagged = following.flaggedUnits();
@@ -132,8 +138,9 @@ public final class ControlCycle {
                 if (p.sends()) {
                     PlannedCommand c = p.command();
                     commands.add(c);
-                    following.onCommand(u.unitId(), c.deltaMw(), in.nowMs(),
-                            responseMw(u, freqDevByArea.get(u.areaId())));
+                    Double dfHz = freqDevByArea.get(u.areaId());
+                    following.onCommand(u.unitId(), c.deltaMw(), in.nowMs(), responseMw(u, dfHz == null ? 0 : dfHz),
+                            governorUncertaintyMw(u));
                     lastCommands.put(u.unitId(), new LastCommand(in.nowMs() + c.durationMs(),
                             u.setpointMw() + c.deltaMw()));
                 }
@@ -161,10 +168,26 @@ public final class ControlCycle {
         return area.computeAce(f.get(), ties, a.schedule(), a.timeErrorS(), a.inadvertentAccumMwh());
     }
 
-    /** Output with the expected governor response {@code −K·Δf} removed, MW. */
+    /** Output with the steady-state governor share (−K·Δf beyond the dead band) removed, MW. */
     private double responseMw(UnitState u, double dfHz) {
-        double k = settings.primaryResponseMwPerHz().getOrDefault(u.unitId(), 0.0);
-        return u.outputMw() + k * dfHz;
+        return u.outputMw() - governor(u).shareMw(dfHz);
+    }
+
+    /**
+     * How far the governor share may be from its steady-state value because the turbine lags: the
+     * spread of the share over the deviations of the settling window, MW.
+     */
+    private double governorUncertaintyMw(UnitState u) {
+        FrequencyHistory h = frequencyHistory.get(u.areaId());
+        if (h == null) {
+            return 0.0;
+        }
+        double[] range = h.range();
+        return governor(u).spanMw(range[0], range[1]);
+    }
+
+    private GovernorResponse governor(UnitState u) {
+        return settings.governors().getOrDefault(u.unitId(), GovernorResponse.NONE);
     }
 
     /** While a unit's telemetry predates the end of our last command to it, use the commanded setpoint. */

@@ -5,6 +5,7 @@ import java.util.List;
 import java.util.Map;
 import java.util.Set;
 import org.loopstand.controller.following.FollowingSettings;
+import org.loopstand.controller.following.GovernorResponse;
 import org.loopstand.controller.pulse.PulseSettings;
 import org.loopstand.controller.safety.InterlockSettings;
 
@@ -19,22 +20,17 @@ import org.loopstand.controller.safety.InterlockSettings;
  *                         long after the end of the last command to the unit, ms, ≥ 0 (default
  *                         500); until then the commanded setpoint is used, so a lagging report
  *                         cannot make the cycle send the same move twice
- * @param primaryResponseMwPerHz per unit id, the unit's expected governor response, MW/Hz
- *                         (rating / (droop · f0)), ≥ 0; the following check removes
- *                         {@code −K·(f − Fs)} from the measured output so that a unit's primary
- *                         response is not taken for not following; a unit not listed gets 0
+ * @param governors        per unit id, the unit's expected primary response (K = rating / (droop ·
+ *                         f0) MW/Hz, dead band); the following check removes its steady-state share
+ *                         from the measured output and allows for its lag, so that a unit's
+ *                         governor action is not taken for not following; a unit not listed gets none
  */
 public record ControlCycleSettings(long cycleMs, List<AreaSetup> areas, PulseSettings pulses,
                                    InterlockSettings interlock, FollowingSettings following, long commandSettleMs,
-                                   Map<String, Double> primaryResponseMwPerHz) {
+                                   Map<String, GovernorResponse> governors) {
     public ControlCycleSettings {
         areas = List.copyOf(areas);
-        primaryResponseMwPerHz = Map.copyOf(primaryResponseMwPerHz);
-        primaryResponseMwPerHz.forEach((id, k) -> {
-            if (!(k >= 0) || !Double.isFinite(k)) {
-                throw new IllegalArgumentException("unit " + id + ": primaryResponseMwPerHz must be >= 0, was " + k);
-            }
-        });
+        governors = Map.copyOf(governors);
         if (cycleMs < 500 || cycleMs > 60_000) {
             throw new IllegalArgumentException("cycleMs must be in [500, 60000], was " + cycleMs);
         }

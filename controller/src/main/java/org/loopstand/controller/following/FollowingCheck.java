@@ -13,8 +13,9 @@ package org.loopstand.controller.following;
  * @param flagged       the unit is flagged as not following (out of the allocation)
  * @param flaggedNow    flagged on this check
  * @param returnedNow   returned to the allocation on this check
+ * @param allowanceMw   governor allowance added to the tolerance on this check, MW (≥ 0)
  */
 public record FollowingCheck(String unitId, boolean evaluated, double expectedMw, double measuredMw, double shortfallMw,
                              boolean following, int missedCycles, boolean flagged, boolean flaggedNow,
-                             boolean returnedNow) {
+                             boolean returnedNow, double allowanceMw) {
 }

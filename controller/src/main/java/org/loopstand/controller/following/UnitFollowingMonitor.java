@@ -19,7 +19,14 @@ import java.util.TreeSet;
  * after {@code followedCyclesToReturn} passed checks in a row (it caught up with what it was told)
  * or on {@link #reset(String)}. Once the whole move is done and checked good, the unit is idle
  * again: its baseline follows the measured output so governor drift is not counted.
- * Not thread-safe.
+ *
+ * <p>Governor allowance: the caller passes the output with the steady-state governor share taken
+ * out, and how far that share may be off because the turbine's primary response lags the frequency
+ * ({@code governorUncertaintyMw}, from the spread of the deviation over the settling window). The
+ * uncertainty at the baseline is kept with the track; a check passes while the shortfall is within
+ * {@code toleranceMw + baseline uncertainty + present uncertainty}. So a unit whose movement is
+ * explained by its governor plus its ramp is never flagged; one that does not move at all is flagged
+ * as soon as the commanded move exceeds what governor action could explain. Not thread-safe.
  */
 public final class UnitFollowingMonitor {
     private final FollowingSettings settings;
@@ -29,11 +36,23 @@ public final class UnitFollowingMonitor {
         this.settings = settings;
     }
 
-    /** A command was sent: the unit's target moves by {@code deltaMw}. */
+    /** A command was sent: the unit's target moves by {@code deltaMw}. No governor allowance. */
     public void onCommand(String unitId, double deltaMw, long issuedAtMs, double measuredOutputMw) {
+        onCommand(unitId, deltaMw, issuedAtMs, measuredOutputMw, 0.0);
+    }
+
+    /**
+     * A command was sent: the unit's target moves by {@code deltaMw}.
+     *
+     * @param measuredOutputMw      output with the governor share removed, MW
+     * @param governorUncertaintyMw how far that share may be off now, MW, ≥ 0
+     */
+    public void onCommand(String unitId, double deltaMw, long issuedAtMs, double measuredOutputMw,
+                          double governorUncertaintyMw) {
         Track t = tracks.computeIfAbsent(unitId, k -> new Track(measuredOutputMw, issuedAtMs));
         if (!t.commanded) {
             t.resync(measuredOutputMw, issuedAtMs);
+            t.baselineUncertaintyMw = Math.max(0, governorUncertaintyMw);
         }
         t.commanded = true;
         t.targetMw += deltaMw;
@@ -43,21 +62,33 @@ public final class UnitFollowingMonitor {
         t.lastCommandMs = issuedAtMs;
     }
 
-    /** One check per unit per cycle, after the unit's telemetry for this cycle is known. */
+    /** One check per unit per cycle, after the unit's telemetry for this cycle is known. No governor allowance. */
     public FollowingCheck check(String unitId, long nowMs, double measuredOutputMw, double rampMwPerMin) {
+        return check(unitId, nowMs, measuredOutputMw, rampMwPerMin, 0.0);
+    }
+
+    /**
+     * One check per unit per cycle, after the unit's telemetry for this cycle is known.
+     *
+     * @param measuredOutputMw      output with the governor share removed, MW
+     * @param governorUncertaintyMw how far that share may be off now, MW, ≥ 0
+     */
+    public FollowingCheck check(String unitId, long nowMs, double measuredOutputMw, double rampMwPerMin,
+                                double governorUncertaintyMw) {
         Track t = tracks.computeIfAbsent(unitId, k -> new Track(measuredOutputMw, nowMs));
         if (!t.commanded) {
             // nothing asked of the unit: follow its drift (governor action) without judging it
             t.resync(measuredOutputMw, nowMs);
             return new FollowingCheck(unitId, false, measuredOutputMw, measuredOutputMw, 0, true, t.missed, t.flagged,
-                    false, false);
+                    false, false, 0);
         }
         t.advance(nowMs, rampMwPerMin);
         double expectedDelayed = t.expectedAt(nowMs - settings.deadTimeMs());
         double remaining = t.targetMw - expectedDelayed;
         double direction = Math.abs(remaining) > 1e-9 ? Math.signum(remaining) : t.lastDirection;
         double shortfall = direction * (expectedDelayed - measuredOutputMw);
-        boolean following = shortfall <= settings.toleranceMw();
+        double allowanceMw = t.baselineUncertaintyMw + Math.max(0, governorUncertaintyMw);
+        boolean following = shortfall <= settings.toleranceMw() + allowanceMw;
         boolean flaggedNow = false;
         boolean returnedNow = false;
         if (following) {
@@ -75,11 +106,13 @@ public final class UnitFollowingMonitor {
             }
         }
         boolean done = Math.abs(remaining) <= 1e-9 && nowMs - t.lastCommandMs > settings.deadTimeMs();
-        if (done && following && !t.flagged) {
+        // idle again only when the unit demonstrably got there: a pass thanks to the governor
+        // allowance keeps the track (and its baseline) until the unit is within the tolerance itself
+        if (done && shortfall <= settings.toleranceMw() && !t.flagged) {
             t.commanded = false;
         }
         return new FollowingCheck(unitId, true, expectedDelayed, measuredOutputMw, shortfall, following, t.missed,
-                t.flagged, flaggedNow, returnedNow);
+                t.flagged, flaggedNow, returnedNow, allowanceMw);
     }
 
     /** Operator reset: the unit returns to the allocation and its history is forgotten. */
@@ -113,6 +146,8 @@ public final class UnitFollowingMonitor {
         int missed;
         int followed;
         boolean flagged;
+        /** how far the governor share at the baseline may have been off, MW */
+        double baselineUncertaintyMw;
         final Deque<long[]> historyTimes = new ArrayDeque<>();
         final Deque<Double> historyValues = new ArrayDeque<>();
 

@@ -6,6 +6,7 @@ import static org.assertj.core.api.Assertions.assertThatThrownBy;
 import java.nio.file.Path;
 import org.junit.jupiter.api.Test;
 import org.loopstand.controller.ace.AceConvention;
+import org.loopstand.controller.following.GovernorResponse;
 
 class ControllerSiteReaderTest {
     @Test
@@ -22,6 +23,18 @@ class ControllerSiteReaderTest {
         assertThat(c.unit("ridge-steam-1").orElseThrow().maxMw()).isEqualTo(690);
         assertThat(c.settings().cycleMs()).isEqualTo(4000);
         assertThat(c.toCycleSettings().areas()).hasSize(2);
+    }
+
+    @Test
+    void shouldDeriveEachUnitsPrimaryResponseFromRatingDroopAndDeadBand() {
+        ControllerSiteConfig c = ControllerSiteReader.read(Path.of("..", "config", "sites", "demo-site.yaml"));
+        var governors = c.toCycleSettings().governors();
+        // β_unit = ratingMw / (droopPct/100 · f0): 700 / (0.04 · 50) = 350 MW/Hz, 500 / (0.05 · 50) = 200 MW/Hz
+        assertThat(governors.get("ridge-steam-1")).isEqualTo(new GovernorResponse(350, 0));
+        assertThat(governors.get("ridge-hydro-1")).isEqualTo(new GovernorResponse(200, 0));
+        // basin-steam-1: 900 / (0.05 · 50) = 360 MW/Hz with its 10 mHz dead band
+        assertThat(governors.get("basin-steam-1")).isEqualTo(new GovernorResponse(360, 0.01));
+        assertThat(c.settings().following().governorSettleMs()).isEqualTo(120_000);
     }
 
     @Test

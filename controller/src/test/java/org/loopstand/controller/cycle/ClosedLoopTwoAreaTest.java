@@ -9,6 +9,7 @@ import org.junit.jupiter.api.Test;
 import org.loopstand.controller.ace.AreaControlSettings;
 import org.loopstand.controller.allocation.UnitState;
 import org.loopstand.controller.following.FollowingSettings;
+import org.loopstand.controller.following.GovernorResponse;
 import org.loopstand.controller.intake.ValidatedValue;
 import org.loopstand.controller.pulse.CommandKind;
 import org.loopstand.controller.pulse.PlannedCommand;
@@ -78,7 +79,7 @@ class ClosedLoopTwoAreaTest {
                 new PulseSettings(100, 4000, false, 0.5), new InterlockSettings(2000, 1),
                 new FollowingSettings(8000, 20, 5, 3), 500,
                 // governor response 1/R on 1000 MW per 60 Hz: 333.3 and 266.7 MW/Hz
-                Map.of("G1", BASE_MW / (r[0] * F0), "G2", BASE_MW / (r[1] * F0))));
+                Map.of("G1", new GovernorResponse(BASE_MW / (r[0] * F0), 0), "G2", new GovernorResponse(BASE_MW / (r[1] * F0), 0))));
 
         long startMs = 1_700_000_000_000L;
         int stepsPerCycle = (int) Math.round(CYCLE_MS / 1000.0 / DT_S);

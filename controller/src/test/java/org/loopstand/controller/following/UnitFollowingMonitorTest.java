@@ -66,4 +66,31 @@ class UnitFollowingMonitorTest {
         }
         assertThat(m.flagged("U1")).isFalse();
     }
+
+    @Test
+    void shouldNotFlagAUnitWhoseLagIsExplainedByItsGovernorAllowance() {
+        UnitFollowingMonitor m = new UnitFollowingMonitor(settings);
+        // a frequency excursion is under way: the governor share may be 12 MW off at the command
+        m.onCommand("U1", 10, T0, 100, 12);
+        for (int k = 1; k <= 6; k++) {
+            // the governor-corrected output has not moved yet (the turbine still answers the frequency)
+            FollowingCheck c = m.check("U1", T0 + k * CYCLE, 100, 60, 0.5);
+            assertThat(c.following()).as("check %d", k).isTrue();
+            assertThat(c.allowanceMw()).isCloseTo(12.5, within(1e-9));
+        }
+        assertThat(m.flagged("U1")).isFalse();
+    }
+
+    @Test
+    void shouldFlagAUnitThatFallsShortByMoreThanGovernorActionCouldExplain() {
+        UnitFollowingMonitor m = new UnitFollowingMonitor(settings);
+        m.onCommand("U1", 30, T0, 100, 5);
+        FollowingCheck c = null;
+        for (int k = 1; k <= 6; k++) {
+            c = m.check("U1", T0 + k * CYCLE, 100, 60, 2);
+        }
+        // expected 100 + min(30, 4k − 4): 12, 16, 20 MW short at k = 4..6 > 1 + 5 + 2 MW
+        assertThat(c.shortfallMw()).isCloseTo(20, within(1e-9));
+        assertThat(c.flagged()).isTrue();
+    }
 }

@@ -1,6 +1,7 @@
 package org.loopstand.controller.runtime;
 
 import static org.assertj.core.api.Assertions.assertThat;
+import static org.assertj.core.api.Assertions.within;
 
 import java.util.List;
 import org.junit.jupiter.api.Test;
@@ -10,6 +11,7 @@ import org.loopstand.protocol.bus.InboundMessage;
 import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.ControllerState;
 import org.loopstand.protocol.message.ControllerStatus;
+import org.loopstand.protocol.message.PulseDirection;
 import org.loopstand.protocol.message.UnitCommand;
 
 /** Every safety interlock of the controller process, on the agent level over the bus. */
@@ -44,7 +46,7 @@ class ControllerAgentInterlockTest {
     @Test
     void shouldSuspendAndSendNothingWhenAFrequencyMeterGoesStalePastItsHoldTime() {
         regulateAfterAStep();
-        loop.plant.silentAreas.add("area1");
+        loop.tap.silentAreas.add("area1");
         // max age 10 s + hold 8 s (defaults): still regulating on the held value at 15 s
         loop.runTo(75);
         assertThat(loop.agent.lastOutcome().state()).isEqualTo(InterlockState.REGULATING);
@@ -78,7 +80,7 @@ class ControllerAgentInterlockTest {
     void shouldSuspendWhenAceExceedsTheSanityLimitBecauseOfATieFlowDataError() {
         regulateAfterAStep();
         int before = commandsOnBus().size();
-        loop.plant.tieErrorMwByArea.put("area1", 5000.0); // |ACE| ≈ 5000 MW > 2000 MW limit
+        loop.tap.tieErrorMwByArea.put("area1", 5000.0); // |ACE| ≈ 5000 MW > 2000 MW limit
         loop.runTo(66);
         int atSuspension = commandsOnBus().size();
         loop.runTo(120);
@@ -92,14 +94,17 @@ class ControllerAgentInterlockTest {
     @Test
     void shouldResumeWithoutABumpAfterTheUnitWasMovedWhileSuspended() {
         loop.runTo(60);
-        loop.plant.silentAreas.add("area1");
+        loop.tap.silentAreas.add("area1");
         loop.runTo(100);
         assertThat(lastStatus().state()).isEqualTo(ControllerState.SUSPENDED);
-        // while suspended the unit's reference is moved by 30 MW outside the controller's knowledge
-        loop.sim.setLoadReferenceMw("gen1", loop.sim.loadReferenceMw("gen1") + 30);
+        // while suspended another desk moves the unit by 30 MW, outside the controller's knowledge
+        double refBefore = loop.sim.loadReferenceMw("gen1");
+        loop.operatorPulse("gen1", PulseDirection.RAISE, 3_000); // 600 MW/min × 3 s = 30 MW
+        loop.runTo(110);
+        assertThat(loop.sim.loadReferenceMw("gen1") - refBefore).isCloseTo(30, within(1e-6));
         loop.runTo(140);
         int before = commandsOnBus().size();
-        loop.plant.silentAreas.clear();
+        loop.tap.silentAreas.clear();
         loop.runTo(200);
         assertThat(lastStatus().state()).isEqualTo(ControllerState.REGULATING);
         List<InboundMessage> after = commandsOnBus().subList(before, commandsOnBus().size());

@@ -59,6 +59,9 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--broker", description = "broker URL, e.g. tcp://127.0.0.1:1883; default: start the embedded broker on 127.0.0.1:1884")
     String broker;
 
+    @Option(names = "--broker-port", defaultValue = "1884", description = "port of the embedded broker on 127.0.0.1, 0 = any free port (default ${DEFAULT-VALUE}); not used with --broker")
+    int brokerPort;
+
     @Option(names = "--rate", defaultValue = "1", description = "scenario seconds per wall second (default ${DEFAULT-VALUE})")
     double rate;
 
@@ -127,10 +130,10 @@ public final class PlantCommand implements Callable<Integer> {
         EmbeddedBroker embedded = null;
         try {
             security = auth.resolve(broker != null ? broker : "tcp://" + EmbeddedBroker.DEFAULT_BIND_ADDRESS + ":"
-                    + EmbeddedBroker.DEFAULT_PORT, System.getenv());
+                    + brokerPort, System.getenv());
             PlantSecurity.checkGrouping(security, options.grouping());
             if (broker == null) {
-                embedded = new EmbeddedBroker();
+                embedded = new EmbeddedBroker(EmbeddedBroker.DEFAULT_BIND_ADDRESS, brokerPort);
                 var brokerAuth = PlantSecurity.embeddedAuth(security, grid, options.interfaces().acceptedControllers());
                 if (brokerAuth != null) {
                     embedded.withAuth(brokerAuth);

@@ -1,0 +1,59 @@
+package org.loopstand.controller.runtime;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import org.junit.jupiter.api.Test;
+import org.loopstand.protocol.message.ClockTick;
+import org.loopstand.protocol.time.VirtualClock;
+
+/** {@code --clock bus}: scenario time from the plant's clock ticks, extrapolated at their rate. */
+class BusClockTest {
+    private static final long SCENARIO_MS = 1_800_000_000_000L;
+    private final VirtualClock wall = new VirtualClock(1_700_000_000_000L);
+    private final BusClock clock = new BusClock(wall);
+
+    private static ClockTick tick(long seq, long scenarioEpochMs, double rate, boolean running) {
+        return new ClockTick(seq, scenarioEpochMs, scenarioEpochMs - SCENARIO_MS, rate, running);
+    }
+
+    @Test
+    void shouldKnowNoTimeBeforeTheFirstTick() {
+        assertThat(clock.synced()).isFalse();
+        assertThat(clock.rate()).isZero();
+        assertThat(clock.monotonicNanos()).isZero();
+    }
+
+    @Test
+    void shouldExtrapolateBetweenTicksAtTheTickRate() {
+        clock.onTick(tick(1, SCENARIO_MS, 20, true));
+        assertThat(clock.synced()).isTrue();
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS);
+        wall.advanceMillis(250); // a quarter wall second at rate 20 = 5 scenario seconds
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 5_000);
+        clock.onTick(tick(2, SCENARIO_MS + 20_000, 20, true));
+        wall.advanceMillis(100);
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 22_000);
+        assertThat(clock.rate()).isEqualTo(20);
+    }
+
+    @Test
+    void shouldNeverRunBackwardsWhenATickIsBehindTheExtrapolation() {
+        clock.onTick(tick(1, SCENARIO_MS, 10, true));
+        wall.advanceMillis(1_000);
+        long ahead = clock.monotonicNanos(); // 10 s extrapolated
+        clock.onTick(tick(2, SCENARIO_MS + 9_000, 10, true)); // the plant only got to 9 s
+        assertThat(clock.monotonicNanos()).isEqualTo(ahead);
+        wall.advanceMillis(50); // 9.5 s: still behind, time holds
+        assertThat(clock.monotonicNanos()).isEqualTo(ahead);
+        wall.advanceMillis(150); // 11 s: moves on from the new anchor
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 11_000);
+    }
+
+    @Test
+    void shouldHoldTimeWhileTheScenarioIsStopped() {
+        clock.onTick(tick(1, SCENARIO_MS + 3_000, 5, false));
+        wall.advanceMillis(10_000);
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 3_000);
+        assertThat(clock.rate()).isZero();
+    }
+}
