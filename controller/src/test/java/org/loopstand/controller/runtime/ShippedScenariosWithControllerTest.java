@@ -1,0 +1,106 @@
+package org.loopstand.controller.runtime;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.stream.Stream;
+
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.Arguments;
+import org.junit.jupiter.params.provider.MethodSource;
+import org.loopstand.controller.config.ControllerSiteConfig;
+import org.loopstand.controller.config.ControllerSiteReader;
+import org.loopstand.plant.check.CheckOutcome;
+import org.loopstand.plant.fault.FaultObserver;
+import org.loopstand.plant.grid.Grid;
+import org.loopstand.plant.scenario.EventTypeRegistry;
+import org.loopstand.plant.scenario.RunScenario;
+import org.loopstand.plant.scenario.RunScenarioLoader;
+import org.loopstand.plant.site.SiteLoader;
+import org.loopstand.plant.study.RehearsalStudy;
+import org.loopstand.plant.study.StudyPlant;
+import org.loopstand.protocol.agent.Agent;
+import org.loopstand.protocol.bus.memory.DeliveryMode;
+import org.loopstand.protocol.bus.memory.InMemoryBroker;
+import org.loopstand.protocol.bus.memory.InMemoryBus;
+
+/**
+ * Every shipped rehearsal scenario with the plant on the in-memory bus and the real controller
+ * process (ControllerAgent, demo site's own controller settings) in lockstep on the study's virtual
+ * clock. The outcomes must match the "with our controller" column of docs/faults.md.
+ */
+class ShippedScenariosWithControllerTest {
+    static final Path CONFIG = Path.of("..", "config");
+    static final String CONTROLLER_ID = "controller-1";
+
+    /** One run: the study's result and what the controller decided last. */
+    record Run(RehearsalStudy.Result result, ControllerAgent controller) {
+    }
+
+    static Run run(String file) throws Exception {
+        Path sitePath = CONFIG.resolve("sites/demo-site.yaml");
+        Grid grid = SiteLoader.load(sitePath);
+        ControllerSiteConfig site = ControllerSiteReader.read(sitePath);
+        RunScenario rs = RunScenarioLoader.load(CONFIG.resolve("scenarios/" + file), EventTypeRegistry.physics(), grid);
+        ControllerAgent[] controller = new ControllerAgent[1];
+        RehearsalStudy.Result r = new RehearsalStudy(grid, rs, 1.0, c -> {
+            InMemoryBroker broker = new InMemoryBroker(c.clock(), DeliveryMode.DIRECT);
+            StudyPlant plant = StudyPlant.on(c, broker, StudyPlant.defaultOptions(c), false);
+            long now = c.clock().epochMillis();
+            InMemoryBus link = broker.connect(CONTROLLER_ID,
+                    ControllerAgent.offlineStatus(grid.siteId(), CONTROLLER_ID, now, now));
+            controller[0] = new ControllerAgent(site, link, c.clock(), null, CONTROLLER_ID, now, null, null);
+            List<Agent> agents = new ArrayList<>();
+            agents.add(plant);
+            agents.add(controller[0]);
+            return agents;
+        }, FaultObserver.NONE).run();
+        return new Run(r, controller[0]);
+    }
+
+    private static Map<String, Boolean> expect(Object... nameAndPass) {
+        Map<String, Boolean> m = new LinkedHashMap<>();
+        for (int i = 0; i < nameAndPass.length; i += 2) {
+            m.put((String) nameAndPass[i], (Boolean) nameAndPass[i + 1]);
+        }
+        return m;
+    }
+
+    static Stream<Arguments> withController() {
+        return Stream.of(
+                Arguments.of("rehearse-unit-trip.yaml", expect("frequency-back", true, "tie-back", true, "ace-recovered", true)),
+                Arguments.of("rehearse-meter-freeze.yaml", expect("no-pulse-on-frozen-meter", true, "controller-suspends", true,
+                        "frequency-back", true)),
+                Arguments.of("rehearse-tie-sign-flip.yaml", expect("controller-suspends", true, "tie-held", true)),
+                Arguments.of("rehearse-telemetry-loss.yaml", expect("frequency-back", true, "ace-recovered", true)),
+                Arguments.of("rehearse-broker-outage.yaml", expect("no-pulse-while-blind", true, "frequency-back", true)),
+                Arguments.of("rehearse-pulses-expired.yaml", expect("steam-1-refuses-expired", true, "steam-2-refuses-expired", false)),
+                Arguments.of("rehearse-unit-not-following.yaml", expect("frequency-back", true, "ace-recovered", true)),
+                Arguments.of("rehearse-noisy-day.yaml", expect("north-ace-recovered", true, "south-frequency-held", true)));
+    }
+
+    @ParameterizedTest
+    @MethodSource("withController")
+    void shouldComeOutAsDocumentedWithOurController(String file, Map<String, Boolean> expected) throws Exception {
+        String only = System.getenv("SCENARIO_ONLY");
+        org.junit.jupiter.api.Assumptions.assumeTrue(only == null || file.contains(only));
+        Run run = run(file);
+        RehearsalStudy.Result r = run.result();
+        StringBuilder all = new StringBuilder(file).append(" (").append(r.record().commands().size()).append(" commands):");
+        r.outcomes().forEach(o -> all.append("\n  ").append(o));
+        System.out.println(all);
+        if (System.getenv("SCENARIO_DEBUG") != null) {
+            r.record().statuses().stream().filter(st -> ((long) st.receivedS()) % 40 == 0)
+                    .forEach(st -> System.out.println("  status " + st.receivedS() + " " + st.status().state() + " " + st.status().reasons() + " " + st.status().areas()));
+            r.record().commands().stream().limit(400).forEach(cm -> System.out.println("  cmd " + cm.receivedS() + " " + cm.command().unit() + " " + cm.command().kind() + " " + cm.command().direction() + " " + cm.command().durationMs() + " " + cm.command().setpointMw() + " " + cm.outcome() + " " + cm.reason()));
+        }
+        assertThat(r.outcomes()).extracting(CheckOutcome::name).containsExactlyElementsOf(expected.keySet());
+        for (CheckOutcome o : r.outcomes()) {
+            assertThat(o.passed()).as(all.toString()).isEqualTo(expected.get(o.name()));
+        }
+    }
+}
