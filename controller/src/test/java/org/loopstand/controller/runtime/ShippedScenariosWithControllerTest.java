@@ -9,12 +9,14 @@ import java.util.List;
 import java.util.Map;
 import java.util.stream.Stream;
 
+import org.junit.jupiter.api.Test;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.Arguments;
 import org.junit.jupiter.params.provider.MethodSource;
 import org.loopstand.controller.config.ControllerSiteConfig;
 import org.loopstand.controller.config.ControllerSiteReader;
 import org.loopstand.plant.check.CheckOutcome;
+import org.loopstand.plant.check.RunRecord;
 import org.loopstand.plant.fault.FaultObserver;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.scenario.EventTypeRegistry;
@@ -27,6 +29,7 @@ import org.loopstand.protocol.agent.Agent;
 import org.loopstand.protocol.bus.memory.DeliveryMode;
 import org.loopstand.protocol.bus.memory.InMemoryBroker;
 import org.loopstand.protocol.bus.memory.InMemoryBus;
+import org.loopstand.protocol.message.ControllerState;
 
 /**
  * Every shipped rehearsal scenario with the plant on the in-memory bus and the real controller
@@ -41,7 +44,19 @@ class ShippedScenariosWithControllerTest {
     record Run(RehearsalStudy.Result result, ControllerAgent controller) {
     }
 
+    private static final Map<String, Run> RUNS = new java.util.concurrent.ConcurrentHashMap<>();
+
+    /** Each scenario runs once per test class (the checks below read the same run). */
     static Run run(String file) throws Exception {
+        Run cached = RUNS.get(file);
+        if (cached == null) {
+            cached = runOnce(file);
+            RUNS.put(file, cached);
+        }
+        return cached;
+    }
+
+    static Run runOnce(String file) throws Exception {
         Path sitePath = CONFIG.resolve("sites/demo-site.yaml");
         Grid grid = SiteLoader.load(sitePath);
         ControllerSiteConfig site = ControllerSiteReader.read(sitePath);
@@ -102,5 +117,57 @@ class ShippedScenariosWithControllerTest {
         for (CheckOutcome o : r.outcomes()) {
             assertThat(o.passed()).as(all.toString()).isEqualTo(expected.get(o.name()));
         }
+    }
+
+    /** The first suspended status at or after {@code afterS}, from the retained statuses the controller published. */
+    private static RunRecord.StatusRecord firstSuspended(RehearsalStudy.Result r, double afterS) {
+        return r.record().statuses().stream()
+                .filter(st -> st.receivedS() >= afterS && st.status().state() == ControllerState.SUSPENDED)
+                .findFirst().orElseThrow(() -> new AssertionError("no suspended status after " + afterS + " s"));
+    }
+
+    private static long commandsIssuedOutside(RehearsalStudy.Result r, String unitPrefix, double fromS, double toS) {
+        long start = r.record().runStartEpochMs();
+        return r.record().commands().stream().filter(c -> c.command().unit().startsWith(unitPrefix))
+                .map(c -> (c.command().issuedAt() - start) / 1000.0).filter(t -> t < fromS || t >= toS).count();
+    }
+
+    @Test
+    void shouldSuspendOnTheFrozenNorthMeterWithinSevenCyclesNamingTheTieFlow() throws Exception {
+        RehearsalStudy.Result r = run("rehearse-meter-freeze.yaml").result();
+        RunRecord.StatusRecord s = firstSuspended(r, 120);
+        // freeze at 120 s: 5 equal tie readings (2 s scans) make the value frozen, then the last good value is held
+        // for maxAge 10 s + hold 8 s: 8 + 18 = 26 s, seen at the next 4 s cycle → at most 28 s = 7 cycles
+        assertThat(s.receivedS() - 120).isBetween(0.0, 28.0);
+        assertThat(s.status().reasons()).containsExactly("tieFlowUnusable:north-basin:basin-ridge");
+        // still suspended while the meter stays frozen, regulating again after it thaws
+        assertThat(r.record().statuses()).filteredOn(st -> st.receivedS() >= s.receivedS() && st.receivedS() < 420)
+                .allSatisfy(st -> assertThat(st.status().state()).isEqualTo(ControllerState.SUSPENDED));
+        assertThat(r.record().statuses()).filteredOn(st -> st.receivedS() >= 440 && st.receivedS() < r.record().endS())
+                .isNotEmpty().allSatisfy(st -> assertThat(st.status().state()).isEqualTo(ControllerState.REGULATING));
+        // the no-command check is not vacuous: the north units got commands before and after the stale window [160, 420) s
+        assertThat(commandsIssuedOutside(r, "basin-", 160, 420)).isGreaterThan(10);
+        assertThat(r.outcome("no-pulse-on-frozen-meter").detail()).doesNotStartWith("0 of 0");
+    }
+
+    @Test
+    void shouldSuspendOnTheReversedTieWithinThreeCyclesNamingBothEnds() throws Exception {
+        RehearsalStudy.Result r = run("rehearse-tie-sign-flip.yaml").result();
+        RunRecord.StatusRecord s = firstSuspended(r, 60);
+        // flip at 60 s: the next north scan (≤ 2 s) disagrees with the south end by 2 × 100 MW > 50 MW;
+        // 3 cycles in a row of disagreement (4 s each) → suspended within 2 + 3 × 4 = 14 s
+        assertThat(s.receivedS() - 60).isBetween(0.0, 14.0);
+        assertThat(s.status().reasons()).containsExactlyInAnyOrder("tieFlowUnusable:north-basin:basin-ridge",
+                "tieFlowUnusable:south-ridge:basin-ridge");
+        // to the end of the run (the last status is the clean stop's "off")
+        assertThat(r.record().statuses()).filteredOn(st -> st.receivedS() >= s.receivedS() && st.receivedS() < r.record().endS())
+                .isNotEmpty().allSatisfy(st -> assertThat(st.status().state()).isEqualTo(ControllerState.SUSPENDED));
+    }
+
+    @Test
+    void shouldSendNoCommandToTheNorthWhileTheBrokerIsOutAndRegulateAgainAfter() throws Exception {
+        RehearsalStudy.Result r = run("rehearse-broker-outage.yaml").result();
+        assertThat(commandsIssuedOutside(r, "basin-", 212, 260)).isGreaterThan(10);
+        assertThat(r.outcome("no-pulse-while-blind").detail()).doesNotStartWith("0 of 0");
     }
 }
