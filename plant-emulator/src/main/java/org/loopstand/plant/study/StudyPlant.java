@@ -55,6 +55,7 @@ public final class StudyPlant implements Agent {
         });
         FaultHooks hooks = FaultHooks.wire(plant, c.faults(), c.record(), c.record(), c.clock(), options.seed(), live);
         recordStatuses(broker, plant.topics(), c);
+        c.plantControls().accept(plant.agent().plant());
         return new StudyPlant(plant, hooks);
     }
 
