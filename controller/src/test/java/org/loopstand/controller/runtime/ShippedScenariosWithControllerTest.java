@@ -40,8 +40,8 @@ class ShippedScenariosWithControllerTest {
     static final Path CONFIG = Path.of("..", "config");
     static final String CONTROLLER_ID = "controller-1";
 
-    /** One run: the study's result and what the controller decided last. */
-    record Run(RehearsalStudy.Result result, ControllerAgent controller) {
+    /** One run: the study's result, the controller, and every unit link state seen on the bus (s, unit, state). */
+    record Run(RehearsalStudy.Result result, ControllerAgent controller, List<String> linkStates) {
     }
 
     private static final Map<String, Run> RUNS = new java.util.concurrent.ConcurrentHashMap<>();
@@ -62,9 +62,18 @@ class ShippedScenariosWithControllerTest {
         ControllerSiteConfig site = ControllerSiteReader.read(sitePath);
         RunScenario rs = RunScenarioLoader.load(CONFIG.resolve("scenarios/" + file), EventTypeRegistry.physics(), grid);
         ControllerAgent[] controller = new ControllerAgent[1];
+        List<String> linkStates = new java.util.concurrent.CopyOnWriteArrayList<>();
         RehearsalStudy.Result r = new RehearsalStudy(grid, rs, 1.0, c -> {
             InMemoryBroker broker = new InMemoryBroker(c.clock(), DeliveryMode.DIRECT);
             StudyPlant plant = StudyPlant.on(c, broker, StudyPlant.defaultOptions(c), false);
+            org.loopstand.protocol.codec.MessageCodec codec = new org.loopstand.protocol.codec.MessageCodec();
+            broker.connect("link-watch").subscribe(plant.plant().topics().filterAll(org.loopstand.protocol.topic.TopicKind.UNIT_LINK),
+                    org.loopstand.protocol.bus.Qos.AT_LEAST_ONCE, m -> {
+                        var d = codec.decode(m.payload(), org.loopstand.protocol.message.LinkStatus.class);
+                        if (d instanceof org.loopstand.protocol.codec.Decoded.Ok<org.loopstand.protocol.message.LinkStatus> ok) {
+                            linkStates.add(Math.round(c.faults().nowS()) + " " + ok.value().clientId() + " " + ok.value().state());
+                        }
+                    });
             long now = c.clock().epochMillis();
             InMemoryBus link = broker.connect(CONTROLLER_ID,
                     ControllerAgent.offlineStatus(grid.siteId(), CONTROLLER_ID, now, now));
@@ -74,7 +83,7 @@ class ShippedScenariosWithControllerTest {
             agents.add(controller[0]);
             return agents;
         }, FaultObserver.NONE).run();
-        return new Run(r, controller[0]);
+        return new Run(r, controller[0], linkStates);
     }
 
     private static Map<String, Boolean> expect(Object... nameAndPass) {
@@ -166,7 +175,15 @@ class ShippedScenariosWithControllerTest {
 
     @Test
     void shouldSendNoCommandToTheNorthWhileTheBrokerIsOutAndRegulateAgainAfter() throws Exception {
-        RehearsalStudy.Result r = run("rehearse-broker-outage.yaml").result();
+        Run run = run("rehearse-broker-outage.yaml");
+        RehearsalStudy.Result r = run.result();
+        // the links were really cut: every unit's last will (offline) at 200 s, back online when the window ends at 260 s
+        assertThat(run.linkStates()).contains("200 demo-site-unit-basin-steam-1 OFFLINE", "260 demo-site-unit-basin-steam-1 ONLINE",
+                "200 demo-site-unit-ridge-steam-1 OFFLINE", "260 demo-site-unit-ridge-steam-1 ONLINE");
+        // the controller lost the meters: suspended for unusable frequency once the 10 s age and 8 s hold ran out
+        RunRecord.StatusRecord s = firstSuspended(r, 200);
+        assertThat(s.receivedS()).isBetween(218.0, 224.0);
+        assertThat(s.status().reasons()).contains("frequencyUnusable:north-basin", "frequencyUnusable:south-ridge");
         assertThat(commandsIssuedOutside(r, "basin-", 212, 260)).isGreaterThan(10);
         assertThat(r.outcome("no-pulse-while-blind").detail()).doesNotStartWith("0 of 0");
     }
