@@ -110,18 +110,11 @@ class ShippedScenariosWithControllerTest {
     @ParameterizedTest
     @MethodSource("withController")
     void shouldComeOutAsDocumentedWithOurController(String file, Map<String, Boolean> expected) throws Exception {
-        String only = System.getenv("SCENARIO_ONLY");
-        org.junit.jupiter.api.Assumptions.assumeTrue(only == null || file.contains(only));
         Run run = run(file);
         RehearsalStudy.Result r = run.result();
         StringBuilder all = new StringBuilder(file).append(" (").append(r.record().commands().size()).append(" commands):");
         r.outcomes().forEach(o -> all.append("\n  ").append(o));
         System.out.println(all);
-        if (System.getenv("SCENARIO_DEBUG") != null) {
-            r.record().statuses().stream().filter(st -> ((long) st.receivedS()) % 40 == 0)
-                    .forEach(st -> System.out.println("  status " + st.receivedS() + " " + st.status().state() + " " + st.status().reasons() + " " + st.status().areas()));
-            r.record().commands().stream().limit(400).forEach(cm -> System.out.println("  cmd " + cm.receivedS() + " " + cm.command().unit() + " " + cm.command().kind() + " " + cm.command().direction() + " " + cm.command().durationMs() + " " + cm.command().setpointMw() + " " + cm.outcome() + " " + cm.reason()));
-        }
         assertThat(r.outcomes()).extracting(CheckOutcome::name).containsExactlyElementsOf(expected.keySet());
         for (CheckOutcome o : r.outcomes()) {
             assertThat(o.passed()).as(all.toString()).isEqualTo(expected.get(o.name()));
