@@ -1,6 +1,7 @@
 package org.loopstand.controller.intake;
 
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.HashSet;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -56,9 +57,20 @@ import org.loopstand.protocol.topic.TopicTree;
  *   <li>schedules per area (the latest whose effectiveFrom has come); without one the site
  *       file's schedule is used if {@code scheduleFromSite}.</li>
  * </ul>
+ * Cross check of each tie metered at both ends: when both ends' values are usable and this end's
+ * flow and the other end's flow (sign flipped) differ by more than {@value #TIE_ENDS_TOLERANCE_MW} MW
+ * for {@value #TIE_ENDS_DISAGREE_CYCLES} evaluations in a row, the tie flow is unusable at both ends
+ * (reason {@code endsDisagree}): one meter is wrong (reversed, scaled, stuck) and we cannot tell which.
+ * The run of evaluations keeps a transient swing seen by two meters scanned at different instants
+ * from suspending control.
  * Not thread-safe except {@link #listener()} and the counters.
  */
 public final class IntakeRouter {
+    /** Largest difference between the two ends of a tie taken as agreement, MW (lossless ties, meter noise ≲ 1 MW). */
+    public static final double TIE_ENDS_TOLERANCE_MW = 50;
+    /** Evaluations (cycles) in a row of disagreement before the tie flow is unusable. */
+    public static final int TIE_ENDS_DISAGREE_CYCLES = 3;
+
     /** A message as handed over by a bus thread, stamped with controller time on arrival. */
     private record Arrival(InboundMessage message, long receivedAtMs) {
     }
@@ -80,6 +92,8 @@ public final class IntakeRouter {
     private final Map<String, SourceValidator> telemetryCheck = new LinkedHashMap<>();
     private final Map<String, List<Schedule>> schedules = new LinkedHashMap<>();
     private final Set<String> skewReported = new HashSet<>();
+    /** per tie: cycles in a row its two ends disagreed, and the cycle time last counted */
+    private final Map<String, long[]> tieDisagreement = new HashMap<>();
     private Consumer<ClockTick> clockListener = t -> { };
     private RouteProbe routeProbe;
     private long messagesRouted;
@@ -292,9 +306,29 @@ public final class IntakeRouter {
         }
         Map<String, ValidatedValue> ties = new TreeMap<>();
         for (SiteTie t : site.tiesOf(areaId)) {
-            ties.put(t.id(), tieFlow.get(areaId + "/" + t.id()).evaluate(nowMs));
+            ValidatedValue mine = tieFlow.get(areaId + "/" + t.id()).evaluate(nowMs);
+            ties.put(t.id(), endsDisagree(t, nowMs) ? withEndsDisagree(mine) : mine);
         }
         return new AreaCycleInputs(areaId, f.evaluate(nowMs), ties, schedule(areaId, nowMs), 0, 0);
+    }
+
+    /** Counts at most once per {@code nowMs} (both areas of a tie ask in the same cycle). */
+    private boolean endsDisagree(SiteTie t, long nowMs) {
+        long[] state = tieDisagreement.computeIfAbsent(t.id(), k -> new long[] {0, Long.MIN_VALUE});
+        if (state[1] != nowMs) {
+            state[1] = nowMs;
+            ValidatedValue from = tieFlow.get(t.fromArea() + "/" + t.id()).evaluate(nowMs);
+            ValidatedValue to = tieFlow.get(t.toArea() + "/" + t.id()).evaluate(nowMs);
+            boolean disagree = from.usable() && to.usable() && Math.abs(from.value() + to.value()) > TIE_ENDS_TOLERANCE_MW;
+            state[0] = disagree ? state[0] + 1 : 0;
+        }
+        return state[0] >= TIE_ENDS_DISAGREE_CYCLES;
+    }
+
+    private static ValidatedValue withEndsDisagree(ValidatedValue v) {
+        Set<ValidationReason> reasons = new HashSet<>(v.reasons());
+        reasons.add(ValidationReason.ENDS_DISAGREE);
+        return ValidatedValue.unusable(reasons, v.ageMs());
     }
 
     /** @return the schedule in force at {@code nowMs}, the site's when none was received, or null */

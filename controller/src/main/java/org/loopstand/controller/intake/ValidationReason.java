@@ -15,7 +15,9 @@ public enum ValidationReason {
     CLOCK_SKEW_BEHIND("clockSkewBehind"),
     HELD_LAST_GOOD("heldLastGood"),
     ALTERNATE_SOURCE("alternateSource"),
-    HOLD_EXPIRED("holdExpired");
+    HOLD_EXPIRED("holdExpired"),
+    /** the two ends of a tie report flows that contradict each other */
+    ENDS_DISAGREE("endsDisagree");
 
     private final String code;
 

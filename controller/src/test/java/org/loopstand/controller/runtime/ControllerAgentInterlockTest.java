@@ -83,10 +83,12 @@ class ControllerAgentInterlockTest {
         loop.tap.tieErrorMwByArea.put("area1", 5000.0); // |ACE| ≈ 5000 MW > 2000 MW limit
         loop.runTo(66);
         int atSuspension = commandsOnBus().size();
+        assertThat(lastStatus().reasons()).contains("aceBeyondSanityLimit:area1");
         loop.runTo(120);
         ControllerStatus s = lastStatus();
         assertThat(s.state()).isEqualTo(ControllerState.SUSPENDED);
-        assertThat(s.reasons()).contains("aceBeyondSanityLimit:area1");
+        // three cycles later the tie ends cross check names the tie itself: area 1's end disagrees with area 2's
+        assertThat(s.reasons()).contains("tieFlowUnusable:area1:tie12");
         assertThat(atSuspension - before).isLessThanOrEqualTo(2); // at most the cycles before the first bad scan
         assertThat(commandsOnBus()).hasSize(atSuspension);
     }

@@ -8,7 +8,6 @@ import java.util.stream.Collectors;
 import org.loopstand.plant.grid.GeneratingUnit;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.protocol.message.AckOutcome;
-import org.loopstand.protocol.message.CommandKind;
 import org.loopstand.protocol.message.RefusalReason;
 
 /** Checks on the commands the plant side received and what the units did with them. */
@@ -17,8 +16,9 @@ final class CommandChecks {
     }
 
     /**
-     * No pulse issued to a unit of the area while its meter data was stale or lost (a stale, loss or
-     * plant-connection fault acting on it), after a detection allowance of detectS.
+     * No pulse or setpoint issued to a unit of the area while its meter data was stale or lost (a stale,
+     * loss or plant-connection fault acting on it), after a detection allowance of detectS. Setpoints
+     * count as well: a controller that prefers setpoints moves units just as blindly with them.
      */
     static CheckOutcome noPulseWhileStale(CheckSpec spec, RunRecord run, Grid grid) {
         String area = spec.text("area");
@@ -32,7 +32,7 @@ final class CommandChecks {
             }
         }
         if (windows.isEmpty()) {
-            return new CheckOutcome(spec.name(), false, Double.NaN, "pulses", 0,
+            return new CheckOutcome(spec.name(), false, Double.NaN, "commands", 0,
                     "no stale or loss fault acted on the meters of " + area + " during the run: nothing to judge", false);
         }
         Set<String> units = grid.units().stream().filter(u -> u.area().equals(area)).map(GeneratingUnit::id)
@@ -41,7 +41,7 @@ final class CommandChecks {
         long bad = 0;
         int considered = 0;
         for (RunRecord.CommandRecord c : run.commands()) {
-            if (c.command().kind() != CommandKind.PULSE || !units.contains(c.command().unit()) || c.fate().equals("dropped")) {
+            if (!units.contains(c.command().unit()) || c.fate().equals("dropped")) {
                 continue;
             }
             considered++;
@@ -52,8 +52,8 @@ final class CommandChecks {
         }
         String when = windows.stream().map(w -> "[" + CheckOutcome.format(w[0]) + ", " + CheckOutcome.format(w[1]) + ") s")
                 .collect(Collectors.joining(", "));
-        return new CheckOutcome(spec.name(), bad == 0, bad, "pulses", 0, bad + " of " + considered
-                + " pulses to units of " + area + " were issued while its meter data was stale (" + when + ", after "
+        return new CheckOutcome(spec.name(), bad == 0, bad, "commands", 0, bad + " of " + considered
+                + " commands (pulses and setpoints) to units of " + area + " were issued while its meter data was stale (" + when + ", after "
                 + CheckOutcome.format(detectS) + " s to notice)", false);
     }
 

@@ -11,15 +11,23 @@ final class RestorationChecks {
     private RestorationChecks() {
     }
 
-    /** Frequency back within ±bandMhz of schedule (nominal) and staying there, within withinS of afterS. */
+    /**
+     * Frequency back within ±bandMhz of schedule and staying there, within withinS of afterS. The
+     * schedule is the nominal frequency, or the scheduled frequency of a scheduleChange in force.
+     */
     static CheckOutcome frequencyRestored(CheckSpec spec, RunRecord run, Grid grid) {
         Area area = grid.areas().get(grid.areaIndex(spec.text("area")));
         RunRecord.Series f = run.series("frequencyHz/" + area.id());
         double bandHz = spec.number("bandMhz") / 1000.0;
-        return staysBack(spec, f, i -> Math.abs(f.value(i) - area.nominalFrequencyHz()) > bandHz,
-                "frequency of " + area.id() + " within ±" + CheckOutcome.format(spec.number("bandMhz")) + " mHz of "
-                        + CheckOutcome.format(area.nominalFrequencyHz()) + " Hz",
-                i -> Math.abs(f.value(i) - area.nominalFrequencyHz()) * 1000, "mHz");
+        java.util.function.IntToDoubleFunction scheduled = i -> {
+            RunRecord.ScheduleRecord in = run.scheduleAt(area.id(), f.timeS(i));
+            return in == null ? area.nominalFrequencyHz() : in.scheduledFrequencyHz();
+        };
+        String target = run.schedules().stream().anyMatch(r -> r.area().equals(area.id())) ? "its schedule"
+                : CheckOutcome.format(area.nominalFrequencyHz()) + " Hz";
+        return staysBack(spec, f, i -> Math.abs(f.value(i) - scheduled.applyAsDouble(i)) > bandHz,
+                "frequency of " + area.id() + " within ±" + CheckOutcome.format(spec.number("bandMhz")) + " mHz of " + target,
+                i -> Math.abs(f.value(i) - scheduled.applyAsDouble(i)) * 1000, "mHz");
     }
 
     /** Tie flow back within ±bandMw of its schedule and staying there, within withinS of afterS. */

@@ -68,6 +68,10 @@ public final class RunRecord implements FaultObserver, org.loopstand.plant.fault
     public record StatusRecord(double receivedS, ControllerStatus status) {
     }
 
+    /** A schedule that came into force (scheduleChange event), s. */
+    public record ScheduleRecord(double atS, String area, double scheduledNetInterchangeMw, double scheduledFrequencyHz) {
+    }
+
     /** A scenario event as it fired. */
     public record EventRecord(double atS, String type, String description) {
     }
@@ -78,6 +82,7 @@ public final class RunRecord implements FaultObserver, org.loopstand.plant.fault
     private final List<CommandRecord> commands = new ArrayList<>();
     private final List<StatusRecord> statuses = new ArrayList<>();
     private final List<EventRecord> events = new ArrayList<>();
+    private final List<ScheduleRecord> schedules = new ArrayList<>();
     private final Map<String, Integer> publicationFates = new LinkedHashMap<>();
     private double endS;
     private RunRecordJournal.Mirror mirror;
@@ -153,6 +158,26 @@ public final class RunRecord implements FaultObserver, org.loopstand.plant.fault
 
     void add(FaultWindow w) {
         faults.put(w.id(), w);
+    }
+
+    /** A new schedule for an area from {@code atS} on (checks judge frequency and ACE against it). */
+    public void scheduleChanged(double atS, String area, double scheduledNetInterchangeMw, double scheduledFrequencyHz) {
+        schedules.add(new ScheduleRecord(atS, area, scheduledNetInterchangeMw, scheduledFrequencyHz));
+    }
+
+    /** @return the schedule of the area in force at {@code tS} (the latest change at or before it), or null for the site's */
+    public ScheduleRecord scheduleAt(String area, double tS) {
+        ScheduleRecord in = null;
+        for (ScheduleRecord r : schedules) {
+            if (r.area().equals(area) && r.atS() <= tS + 1e-9) {
+                in = r;
+            }
+        }
+        return in;
+    }
+
+    public List<ScheduleRecord> schedules() {
+        return List.copyOf(schedules);
     }
 
     public void controllerStatus(long receivedMs, ControllerStatus status) {

@@ -8,7 +8,8 @@ import org.loopstand.plant.grid.TieLine;
 /**
  * ACE computed from the physics truth of a run (not what any controller computed), in the area's own
  * convention: European {@code ACE = ΔP + K·Δf}, North-American {@code ACE = ΔNI − 10B·Δf}; the
- * schedule is the ties' scheduled flows and the nominal frequency.
+ * schedule is the ties' scheduled flows and the nominal frequency, or the area's schedule in force
+ * from a scheduleChange event ({@link RunRecord#scheduleAt}).
  */
 public final class TruthAce {
     private TruthAce() {
@@ -22,8 +23,9 @@ public final class TruthAce {
         double scheduledNi = scheduledNetInterchangeMw(grid, areaId);
         RunRecord.Series out = new RunRecord.Series();
         for (int i = 0; i < Math.min(f.size(), ni.size()); i++) {
-            double df = f.value(i) - area.nominalFrequencyHz();
-            double dp = ni.value(i) - scheduledNi;
+            RunRecord.ScheduleRecord in = run.scheduleAt(areaId, f.timeS(i));
+            double df = f.value(i) - (in == null ? area.nominalFrequencyHz() : in.scheduledFrequencyHz());
+            double dp = ni.value(i) - (in == null ? scheduledNi : in.scheduledNetInterchangeMw());
             out.add(f.timeS(i), area.aceConvention() == AceConvention.EUROPEAN ? dp + area.kMwPerHz() * df
                     : dp - 10 * area.biasMwPer01Hz() * df);
         }

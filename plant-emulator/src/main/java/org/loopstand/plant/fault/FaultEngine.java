@@ -24,7 +24,7 @@ public final class FaultEngine {
     private final long runStartEpochMs;
     private final FaultObserver observer;
     private final Map<String, Window> windows = new LinkedHashMap<>();
-    private final Map<String, LinkFaultControl> links = new HashMap<>();
+    private final Map<String, LinkFaultControl> links = new LinkedHashMap<>();
     private final List<FaultSpec> active = new ArrayList<>();
     private final java.util.Set<String> tripOrdered = new java.util.HashSet<>();
 
@@ -124,6 +124,9 @@ public final class FaultEngine {
                 end(w, "window ended");
                 fired++;
             }
+        }
+        for (LinkFaultControl link : new java.util.LinkedHashSet<>(links.values())) {
+            fired += link.poll();
         }
         return fired;
     }

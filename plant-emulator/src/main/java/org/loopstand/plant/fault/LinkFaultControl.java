@@ -1,7 +1,8 @@
 package org.loopstand.plant.fault;
 
 /**
- * What connection faults need from one bus connection. Implemented by the MQTT link adapter; the
+ * What connection faults need from one bus connection. Implemented for MQTT links and in-memory
+ * connections by {@code org.loopstand.plant.runtime.BusLinkFaults}; the
  * {@link FaultEngine} calls it on the agent thread when a connection fault starts and ends.
  */
 public interface LinkFaultControl {
@@ -16,4 +17,12 @@ public interface LinkFaultControl {
      * at once, +∞ refuses until called again.
      */
     void refuseReconnectForS(double refuseS);
+
+    /**
+     * Called by {@link FaultEngine#update()} on every duty cycle: lets the control end a refusal whose
+     * time has come (on the run's clock). @return work done (0 or 1)
+     */
+    default int poll() {
+        return 0;
+    }
 }

@@ -67,6 +67,7 @@ public final class FaultHooks {
             handler.subscribe(plant.plantBus(), plant.topics());
         }
         FaultHooks hooks = new FaultHooks(engine, meterStage, handler);
+        registerLinks(plant, engine, clock);
         long n = 1;
         for (UnitHost host : plant.hosts()) {
             String unit = host.unit().unitId();
@@ -83,6 +84,27 @@ public final class FaultHooks {
         }
         plant.agent().attachFaults(hooks);
         return hooks;
+    }
+
+    /**
+     * Lets connection faults cut the real connections: {@code plant} names the plant connection, a unit id
+     * the connection that unit's link uses (in the grouped modes a shared one: cutting it cuts its
+     * other units too). Buses of other kinds are not registered; the publication stage emulates them.
+     */
+    private static void registerLinks(PlantRunner plant, FaultEngine engine, Clock clock) {
+        Map<org.loopstand.protocol.bus.MessageBus, BusLinkFaults> byBus = new java.util.IdentityHashMap<>();
+        BusLinkFaults p = BusLinkFaults.forBus(plant.plantBus(), clock);
+        if (p != null) {
+            byBus.put(plant.plantBus(), p);
+            engine.registerLink(TargetCatalog.PLANT_CONNECTION, p);
+        }
+        for (UnitHost host : plant.hosts()) {
+            var bus = host.link().bus();
+            BusLinkFaults c = byBus.computeIfAbsent(bus, b -> BusLinkFaults.forBus(b, clock));
+            if (c != null) {
+                engine.registerLink(host.unit().unitId(), c);
+            }
+        }
     }
 
     public FaultEngine engine() {

@@ -44,6 +44,7 @@ public final class PlantAgent implements Agent, ScenarioContext {
     private int nextEvent;
     private long nextClockNanos;
     private long clockSeq;
+    private long scheduleSeq;
     private volatile long meterDropped;
     private volatile long meterSent;
     private FaultHooks faults;
@@ -57,6 +58,7 @@ public final class PlantAgent implements Agent, ScenarioContext {
         this.clockPeriodNanos = Math.max(1_000_000_000L, Math.round(1e9 * parts.rate()));
         this.nextClockNanos = startNanos;
         this.clockSeq = parts.clock().epochMillis();
+        this.scheduleSeq = parts.clock().epochMillis();
     }
 
     /** Owner thread, before start: meters publish through the fault stages, faults are updated each cycle. */
@@ -68,6 +70,33 @@ public final class PlantAgent implements Agent, ScenarioContext {
     public GridSimulator grid() {
         return p.sim();
     }
+
+    /** Scenario events reach the plant's units and the schedule topic through this. */
+    @Override
+    public org.loopstand.plant.scenario.PlantControls plant() {
+        return controls;
+    }
+
+    private final org.loopstand.plant.scenario.PlantControls controls = new org.loopstand.plant.scenario.PlantControls() {
+        @Override
+        public void publishSchedule(String area, double scheduledNetInterchangeMw, double scheduledFrequencyHz) {
+            long now = p.clock().epochMillis();
+            org.loopstand.protocol.message.Schedule s = new org.loopstand.protocol.message.Schedule(scheduleSeq++, now, area,
+                    scheduledNetInterchangeMw, scheduledFrequencyHz, now);
+            // retained: a controller that connects later still finds the schedule in force
+            p.plantBus().publish(new OutboundMessage(p.topics().areaSchedule(area), p.codec().encode(s), Qos.AT_LEAST_ONCE,
+                    true, 0));
+        }
+
+        @Override
+        public void setControlMode(String unit, org.loopstand.protocol.message.ControlMode mode, String why) {
+            for (UnitHost h : p.units()) {
+                if (h.unit().unitId().equals(unit)) {
+                    h.unit().setControlMode(mode, why);
+                }
+            }
+        }
+    };
 
     @Override
     public String roleName() {

@@ -19,7 +19,11 @@ public final class EventTypeRegistry {
 
     private final Map<String, EventParser> parsers = new LinkedHashMap<>();
 
-    /** @return a registry with loadStep, loadRamp, unitTrip and setLoadReference */
+    /**
+     * @return a registry with the physics events loadStep, loadRamp, unitTrip and setLoadReference, and
+     *         the plant events scheduleChange and modeChange ({@link PlantEvents}; without a plant on
+     *         the bus they only reach the run record)
+     */
     public static EventTypeRegistry physics() {
         EventTypeRegistry r = new EventTypeRegistry();
         r.register("loadStep", (at, k) -> new PhysicsEvents.LoadStep(at, k.requiredString("area"), k.requiredDouble("deltaMw")));
@@ -28,6 +32,8 @@ public final class EventTypeRegistry {
         r.register("unitTrip", (at, k) -> new PhysicsEvents.UnitTrip(at, k.requiredString("unit")));
         r.register("setLoadReference", (at, k) -> new PhysicsEvents.SetLoadReference(at, k.requiredString("unit"),
                 k.requiredDouble("mw")));
+        r.register("scheduleChange", PlantEvents::parseScheduleChange);
+        r.register("modeChange", PlantEvents::parseModeChange);
         return r;
     }
 

@@ -13,6 +13,7 @@ import org.loopstand.plant.fault.FaultSpec;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.physics.GridSimulator;
 import org.loopstand.plant.physics.StepSizeRule;
+import org.loopstand.plant.scenario.PlantControls;
 import org.loopstand.plant.scenario.RunScenario;
 import org.loopstand.plant.scenario.ScenarioContext;
 import org.loopstand.plant.scenario.ScenarioEvent;
@@ -30,9 +31,14 @@ public final class RehearsalStudy implements ScenarioContext {
     /** Scenario time of t = 0 in study runs, epoch ms (2026-01-01T00:00:00Z). */
     public static final long START_EPOCH_MS = 1_767_225_600_000L;
 
-    /** What participants are built from. */
+    /**
+     * What participants are built from.
+     *
+     * @param plantControls a participant that is the plant on the bus hands its controls here, so that
+     *                      plant events (scheduleChange, modeChange) reach it
+     */
     public record Context(Grid grid, GridSimulator sim, VirtualClock clock, FaultEngine faults, RunRecord record,
-                          RunScenario scenario) {
+                          RunScenario scenario, java.util.function.Consumer<PlantControls> plantControls) {
     }
 
     /** The checks' verdicts and the record they were read from. */
@@ -55,6 +61,7 @@ public final class RehearsalStudy implements ScenarioContext {
     private final FaultEngine faults;
     private final List<Agent> participants;
     private final double sampleIntervalS;
+    private PlantControls plant;
 
     /**
      * @param sampleIntervalS how often the truth is sampled into the record, s (a multiple of the step)
@@ -75,12 +82,23 @@ public final class RehearsalStudy implements ScenarioContext {
                 throw new IllegalArgumentException("fault " + f.id() + ": " + why);
             });
         }
-        this.participants = List.copyOf(participants.apply(new Context(grid, sim, clock, faults, record, scenario)));
+        this.participants = List.copyOf(participants.apply(new Context(grid, sim, clock, faults, record, scenario,
+                p -> this.plant = p)));
     }
 
     @Override
     public GridSimulator grid() {
         return sim;
+    }
+
+    @Override
+    public PlantControls plant() {
+        return plant;
+    }
+
+    @Override
+    public void scheduleChanged(String area, double scheduledNetInterchangeMw, double scheduledFrequencyHz) {
+        record.scheduleChanged(sim.timeS(), area, scheduledNetInterchangeMw, scheduledFrequencyHz);
     }
 
     public FaultEngine faults() {

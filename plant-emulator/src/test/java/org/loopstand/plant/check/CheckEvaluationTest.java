@@ -106,10 +106,13 @@ class CheckEvaluationTest {
         run.commandHandled(T0 + 160_000, pulse(3, "ridge-hydro-1", 160, 8000), AckOutcome.ACCEPTED, null, true);
         run.commandHandled(T0 + 199_000, pulse(4, "basin-gas-1", 199, 8000), AckOutcome.REJECTED, RefusalReason.AT_LIMIT, false);
         run.commandHandled(T0 + 201_000, pulse(5, "basin-gas-1", 201, 8000), AckOutcome.ACCEPTED, null, true);
+        // a setpoint moves the unit as blindly as a pulse: it counts too
+        run.commandHandled(T0 + 170_000, UnitCommand.setpoint(6, T0 + 170_000, "basin-steam-2", "agc-1", 1, T0 + 174_000, 600.0),
+                AckOutcome.ACCEPTED, null, true);
         CheckOutcome out = check("noPulseWhileStale", Map.of("area", "north-basin")).evaluate(run, grid);
         assertThat(out.passed()).isFalse();
-        assertThat(out.decidingFigure()).isEqualTo(2); // seq 2 and 4; seq 3 goes to the other area
-        assertThat(out.detail()).contains("2 of 4 pulses").contains("[112, 200) s");
+        assertThat(out.decidingFigure()).isEqualTo(3); // seq 2, 4 and the setpoint 6; seq 3 goes to the other area
+        assertThat(out.detail()).contains("3 of 5 commands").contains("[112, 200) s");
     }
 
     @Test

@@ -34,7 +34,7 @@ class ScenarioLoaderTest {
                 + "  - {atS: 2, type: breakerOpen, breaker: b1}\n";
         assertThatThrownBy(() -> ScenarioLoader.load("s.yaml", new StringReader(yaml), EventTypeRegistry.physics(), demo()))
                 .isInstanceOf(ConfigFileException.class)
-                .hasMessageContaining("s.yaml:5:14: unknown event type 'breakerOpen'; known types: [loadStep, loadRamp, unitTrip, setLoadReference]");
+                .hasMessageContaining("s.yaml:5:14: unknown event type 'breakerOpen'; known types: [loadStep, loadRamp, unitTrip, setLoadReference, scheduleChange, modeChange]");
     }
 
     @Test

@@ -68,6 +68,14 @@ public final class InMemoryBroker {
         return bus;
     }
 
+    /** Takes a dropped client back under its id ({@link InMemoryBus#reconnect()}). */
+    synchronized void reattach(InMemoryBus bus) {
+        if (clients.containsKey(bus.clientId())) {
+            throw new IllegalStateException("client id '" + bus.clientId() + "' is already connected");
+        }
+        clients.put(bus.clientId(), bus);
+    }
+
     public DeliveryMode mode() {
         return mode;
     }

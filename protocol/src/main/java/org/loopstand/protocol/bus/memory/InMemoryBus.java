@@ -35,6 +35,7 @@ public final class InMemoryBus implements MessageBus {
     private final List<ConnectionListener> connectionListeners = new CopyOnWriteArrayList<>();
     private volatile List<Subscription> subscriptions = List.of();
     private volatile boolean connected = true;
+    private volatile boolean closedForGood;
 
     InMemoryBus(InMemoryBroker broker, String clientId, OutboundMessage lastWill) {
         this.broker = broker;
@@ -141,10 +142,47 @@ public final class InMemoryBus implements MessageBus {
         return counters;
     }
 
-    /** Disconnects cleanly: the last will is discarded. */
+    /** Disconnects cleanly for good: the last will is discarded; {@link #reconnect()} is refused after. */
     @Override
     public void close() {
+        closedForGood = true;
         end(false, null);
+    }
+
+    /**
+     * Drops the connection as a rehearsal fault does, keeping the subscriptions for {@link #reconnect()}.
+     *
+     * @param publishWill true: as a cut connection (the broker publishes the last will); false: as a clean DISCONNECT
+     */
+    public void drop(boolean publishWill) {
+        end(publishWill, new IllegalStateException(clientId + (publishWill ? " cut" : " disconnected")));
+    }
+
+    /**
+     * Connects again after {@link #drop} or {@link #kill()}: subscribes everything again (retained messages
+     * are delivered anew, as after an MQTT reconnect with a clean start) and tells the connection
+     * listeners {@code onConnected(true)}. No effect while connected.
+     *
+     * @throws IllegalStateException after {@link #close()}, or when another client took the id meanwhile
+     */
+    public void reconnect() {
+        if (closedForGood) {
+            throw new IllegalStateException(clientId + ": in-memory bus is closed");
+        }
+        synchronized (this) {
+            if (connected) {
+                return;
+            }
+            broker.reattach(this);
+            connected = true;
+        }
+        for (Subscription s : subscriptions) {
+            broker.onSubscribed(this, s.filter(), s.qos());
+        }
+        counters.onReconnect();
+        for (ConnectionListener l : connectionListeners) {
+            l.onConnected(true);
+        }
     }
 
     /** Vanishes without a clean disconnect, as a crashed process would: the broker publishes the last will. */

@@ -75,6 +75,9 @@ public final class MqttLink implements MessageBus {
     private final AtomicBoolean started = new AtomicBoolean();
     private final AtomicBoolean closed = new AtomicBoolean();
     private volatile boolean ready;
+    /** while true the reconnect loop parks instead of connecting (a rehearsal's refused reconnect) */
+    private volatile boolean reconnectHeld;
+    private final AtomicBoolean parkedWhileHeld = new AtomicBoolean();
     private boolean everConnected;
     private int attempt;
 
@@ -159,6 +162,13 @@ public final class MqttLink implements MessageBus {
         if (closed.get() || ready) {
             return;
         }
+        if (reconnectHeld) {
+            parkedWhileHeld.set(true);
+            // released between the two reads: whoever takes the parked flag goes on connecting
+            if (reconnectHeld || !parkedWhileHeld.getAndSet(false)) {
+                return;
+            }
+        }
         try {
             IMqttToken token = client.connect(options);
             token.waitForCompletion(config.connectTimeoutMs());
@@ -195,12 +205,15 @@ public final class MqttLink implements MessageBus {
     }
 
     private void connectionLost(Throwable cause) {
-        if (closed.get()) {
-            return;
+        if (closed.get() || !markLost()) {
+            return; // already lost (e.g. a clean disconnect of ours, or lost while connecting: that attempt retries)
         }
-        setReady(false);
         LOG.warn("{}: connection to {} lost: {}", config.clientId(), config.serverUri(),
                 cause == null ? "broker disconnected" : cause.getMessage());
+        tellLostAndRetry(cause);
+    }
+
+    private void tellLostAndRetry(Throwable cause) {
         for (ConnectionListener l : connectionListeners) {
             try {
                 l.onDisconnected(cause);
@@ -210,6 +223,21 @@ public final class MqttLink implements MessageBus {
         }
         attempt = 0;
         schedule(this::connectAttempt, backoff.delayMs(0));
+    }
+
+    /** @return true if the link was ready and is now marked lost (exactly one caller wins) */
+    private boolean markLost() {
+        stateLock.lock();
+        try {
+            if (!ready) {
+                return false;
+            }
+            ready = false;
+            connectedChanged.signalAll();
+            return true;
+        } finally {
+            stateLock.unlock();
+        }
     }
 
     private void schedule(Runnable task, long delayMs) {
@@ -356,11 +384,17 @@ public final class MqttLink implements MessageBus {
         return sockets.lastSocket();
     }
 
+    /** Same as {@link #disconnectAbruptly()}; kept for the tests that use it. */
+    public void killForTest() {
+        disconnectAbruptly();
+    }
+
     /**
      * Cuts the TCP connection without an MQTT DISCONNECT, as a network failure or a killed process would:
-     * the broker publishes the last will, and this link reconnects by itself.
+     * the broker publishes the last will, and this link reconnects by itself (unless reconnecting is
+     * held, {@link #holdReconnect}). Returns at once; listeners hear of the loss when Paho notices it.
      */
-    public void killForTest() {
+    public void disconnectAbruptly() {
         Socket s = sockets.lastSocket();
         if (s != null) {
             try {
@@ -368,6 +402,42 @@ public final class MqttLink implements MessageBus {
             } catch (IOException e) {
                 LOG.debug("closing socket: {}", e.toString());
             }
+        }
+    }
+
+    /**
+     * Sends DISCONNECT (the broker discards the last will) and then behaves as after a lost connection:
+     * listeners are told, and the link reconnects by itself unless reconnecting is held. Runs on the
+     * link's reconnect thread; returns at once.
+     */
+    public void disconnectCleanly() {
+        try {
+            reconnectThread.execute(() -> {
+                if (closed.get() || !markLost()) {
+                    return;
+                }
+                try {
+                    client.disconnect(Math.min(1000, config.operationTimeoutMs())).waitForCompletion(config.operationTimeoutMs());
+                } catch (MqttException e) {
+                    LOG.debug("{}: clean disconnect failed: {}", config.clientId(), e.getMessage());
+                    forceDisconnect();
+                }
+                LOG.info("{}: disconnected on request", config.clientId());
+                tellLostAndRetry(null);
+            });
+        } catch (RejectedExecutionException e) {
+            // closing
+        }
+    }
+
+    /**
+     * Holds (true) or releases (false) the reconnect loop: while held, a lost link stays down; on release
+     * it connects again at once. Connected links are not affected.
+     */
+    public void holdReconnect(boolean hold) {
+        reconnectHeld = hold;
+        if (!hold && parkedWhileHeld.getAndSet(false)) {
+            schedule(this::connectAttempt, 0);
         }
     }
 
