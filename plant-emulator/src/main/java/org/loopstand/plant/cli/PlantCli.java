@@ -11,6 +11,9 @@ import picocli.CommandLine.Command;
         description = "Loopstand plant side: embedded broker, plant emulator, study mode.",
         subcommands = {BrokerCommand.class, StudyCommand.class, PlantCommand.class, UnitCommand.class})
 public final class PlantCli implements Runnable {
+    /** The project version, as shown by --version and written into journals and reports. */
+    public static final String VERSION = "0.1.0";
+
     @CommandLine.Spec
     private CommandLine.Model.CommandSpec spec;
 

@@ -12,6 +12,9 @@ import java.util.Set;
 import java.util.concurrent.Callable;
 import java.util.concurrent.CountDownLatch;
 import java.util.concurrent.TimeUnit;
+import java.util.concurrent.atomic.AtomicBoolean;
+
+import org.loopstand.plant.journal.PlantRunJournal;
 
 import org.loopstand.plant.broker.EmbeddedBroker;
 import org.loopstand.plant.grid.Area;
@@ -77,8 +80,17 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--late-warn-s", defaultValue = "1", description = "step lateness that is reported, s (default ${DEFAULT-VALUE})")
     double lateWarnS;
 
-    @Option(names = "--duration", description = "stop after this many wall seconds (default: run until Ctrl-C)")
+    @Option(names = "--duration", description = "stop after this many wall seconds (default: the scenario's durationS, or until Ctrl-C without a scenario)")
     Double durationS;
+
+    @Option(names = "--journal", paramLabel = "DIR", description = "run folder for plant.jsonl and plant.hlog (none if absent)")
+    Path journalDir;
+
+    @Option(names = "--truth-interval-s", defaultValue = "1", description = "scenario seconds between physics truth entries in the journal (default ${DEFAULT-VALUE})")
+    double truthIntervalS;
+
+    @Option(names = "--linger-s", defaultValue = "0", description = "after the scenario ends, keep the embedded broker up this many wall seconds (or until stopped) so the controller can stop cleanly")
+    double lingerS;
 
     @Mixin
     InterfaceMixin iface;
@@ -123,29 +135,91 @@ public final class PlantCommand implements Callable<Integer> {
         }
         Clock clock = rate == 1.0 ? WallClock.INSTANCE : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
         PlantRunner runner = new PlantRunner(sim, events, options, MqttLinks.to(uri, WallClock.INSTANCE), clock, PlantCommand::say);
-        int here = runner.hosts().size();
-        say(String.format(Locale.ROOT, "plant: site %s, broker %s%s, rate %s, %d unit interface(s) here (%s), %d elsewhere",
-                grid.siteId(), uri, embedded != null ? " (embedded)" : "", trim(rate), here,
-                options.grouping().cliName(), options.remoteUnits().size()));
+        if (journalDir != null) {
+            if (!(truthIntervalS > 0)) {
+                System.err.println("refused: --truth-interval-s must be positive, got " + truthIntervalS);
+                runner.close();
+                closeQuietly(embedded);
+                return 2;
+            }
+            Map<String, Object> header = new LinkedHashMap<>();
+            header.put("site", grid.siteId());
+            header.put("siteFile", site.getFileName().toString());
+            header.put("scenario", scenarioFile == null ? null : scenarioFile.getFileName().toString());
+            header.put("scenarioDurationS", scenario == null ? null : scenario.durationS());
+            header.put("rate", rate);
+            header.put("seed", seed);
+            header.put("scenarioSeed", scenario == null ? null : scenario.seed());
+            header.put("broker", uri);
+            header.put("embeddedBroker", embedded != null);
+            header.put("grouping", options.grouping().cliName());
+            header.put("stepS", sim.stepS());
+            header.put("loopstandVersion", PlantCli.VERSION);
+            header.put("javaVersion", System.getProperty("java.version"));
+            header.put("events", events.stream().map(e -> e.type() + "@" + trim(e.atS()) + "s").toList());
+            runner.journalTo(PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), header, clock, WallClock.INSTANCE),
+                    truthIntervalS);
+        }
+        if (scenario != null) {
+            runner.agent().endAt(scenario.durationS());
+        }
         CountDownLatch stopped = new CountDownLatch(1);
         EmbeddedBroker brokerToClose = embedded;
-        Runtime.getRuntime().addShutdownHook(new Thread(() -> {
-            runner.close();
-            if (brokerToClose != null) {
-                brokerToClose.close();
+        AtomicBoolean closed = new AtomicBoolean();
+        Runnable closeAll = () -> {
+            if (closed.compareAndSet(false, true)) {
+                runner.close();
+                closeQuietly(brokerToClose);
             }
+        };
+        Runtime.getRuntime().addShutdownHook(new Thread(() -> {
+            closeAll.run();
             stopped.countDown();
         }, "plant-shutdown"));
         runner.start();
-        if (durationS != null) {
-            if (!stopped.await(Math.round(durationS * 1000), TimeUnit.MILLISECONDS)) {
-                say("plant: " + trim(durationS) + " s done; lateness p99 " + runner.lateness().histogramUs().getValueAtPercentile(99) + " µs");
-                System.exit(0);
+        int here = runner.hosts().size();
+        say(String.format(Locale.ROOT, "plant: site %s, broker %s%s, rate %s, %d unit interface(s) here (%s), %d elsewhere%s",
+                grid.siteId(), uri, embedded != null ? " (embedded)" : "", trim(rate), here,
+                options.grouping().cliName(), options.remoteUnits().size(),
+                scenario == null ? "" : ", scenario " + trim(scenario.durationS()) + " s"));
+        long startNanos = WallClock.INSTANCE.monotonicNanos();
+        String why = null;
+        while (why == null) {
+            if (stopped.await(200, TimeUnit.MILLISECONDS)) {
+                return 0; // stopped from outside; the hook closed everything
             }
-        } else {
-            stopped.await();
+            if (runner.failure() != null) {
+                System.err.println("plant: the physics loop stopped on an error: " + runner.failure());
+                closeAll.run();
+                return 1;
+            }
+            double wallS = (WallClock.INSTANCE.monotonicNanos() - startNanos) / 1e9;
+            if (runner.agent().finished()) {
+                why = "scenario done";
+            } else if (durationS != null && wallS >= durationS) {
+                why = trim(durationS) + " s wall done";
+            }
         }
+        runner.close(); // stops the loop: the journal gets its end entry
+        say(String.format(Locale.ROOT, "plant: %s at %.1f s simulated; step lateness p99 %d µs, max %d µs%s", why,
+                runner.sim().timeS(), runner.lateness().histogramUs().getValueAtPercentile(99),
+                runner.lateness().histogramUs().getMaxValue(),
+                journalDir == null ? "" : "; journal " + journalDir.resolve("plant.jsonl")));
+        if (embedded != null && lingerS > 0) {
+            stopped.await(Math.round(lingerS * 1000), TimeUnit.MILLISECONDS);
+        }
+        closeAll.run();
         return 0;
+    }
+
+    private static void closeQuietly(EmbeddedBroker b) {
+        if (b != null) {
+            try {
+                b.close();
+            } catch (RuntimeException e) {
+                System.err.println("plant: embedded broker did not stop cleanly: " + e.getMessage());
+            }
+        }
     }
 
     PlantOptions options(Grid grid) {

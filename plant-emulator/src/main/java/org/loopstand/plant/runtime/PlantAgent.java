@@ -46,6 +46,14 @@ public final class PlantAgent implements Agent, ScenarioContext {
     private long clockSeq;
     private volatile long meterDropped;
     private volatile long meterSent;
+    private final long startEpochMs;
+    private final java.util.concurrent.ConcurrentLinkedQueue<java.util.Map<String, Object>> pendingEvents =
+            new java.util.concurrent.ConcurrentLinkedQueue<>();
+    private volatile org.loopstand.plant.journal.PlantRunJournal journal;
+    private double truthIntervalS = 1.0;
+    private double nextTruthS;
+    private double endAtS = Double.NaN;
+    private volatile boolean finished;
 
     public PlantAgent(Parts parts) {
         this.p = parts;
@@ -56,6 +64,44 @@ public final class PlantAgent implements Agent, ScenarioContext {
         this.clockPeriodNanos = Math.max(1_000_000_000L, Math.round(1e9 * parts.rate()));
         this.nextClockNanos = startNanos;
         this.clockSeq = parts.clock().epochMillis();
+        this.startEpochMs = parts.clock().epochMillis();
+    }
+
+    /**
+     * Journals the run from now on (call before the loop starts): physics truth every
+     * {@code truthIntervalS} of scenario time, meter messages, scenario and process events, step
+     * lateness. The agent closes the journal in {@link #onClose()}.
+     */
+    public void journalTo(org.loopstand.plant.journal.PlantRunJournal j, double truthIntervalS) {
+        if (!(truthIntervalS > 0)) {
+            throw new IllegalArgumentException("truthIntervalS must be positive, got " + truthIntervalS);
+        }
+        this.truthIntervalS = truthIntervalS;
+        this.nextTruthS = p.sim().timeS();
+        this.journal = j;
+    }
+
+    /** Ends the scenario at {@code endAtS} of simulated time: no step beyond it, then {@link #finished()}. */
+    public void endAt(double endAtS) {
+        if (!(endAtS > 0)) {
+            throw new IllegalArgumentException("endAtS must be positive, got " + endAtS);
+        }
+        this.endAtS = endAtS;
+    }
+
+    /** @return true once the scenario's end time was reached (the loop then only serves the bus) */
+    public boolean finished() {
+        return finished;
+    }
+
+    /** Any thread: queues a process event for the journal ({@code fields} holds {@code event}). */
+    public void noteEvent(java.util.Map<String, Object> fields) {
+        pendingEvents.add(fields);
+    }
+
+    /** @return scenario epoch ms of simulated time {@code timeS} (time 0 = the agent's start) */
+    public long epochMsAt(double timeS) {
+        return startEpochMs + Math.round(timeS * 1000);
     }
 
     @Override
@@ -73,14 +119,23 @@ public final class PlantAgent implements Agent, ScenarioContext {
         int work = p.orders() == null ? 0 : p.orders().work();
         long now = p.clock().monotonicNanos();
         int steps = 0;
-        while (steps < MAX_STEPS_PER_CYCLE) {
+        org.loopstand.plant.journal.PlantRunJournal j = journal;
+        while (steps < MAX_STEPS_PER_CYCLE && !finished) {
             long due = startNanos + (p.sim().stepCount() + 1) * stepNanos;
             if (now < due) {
+                break;
+            }
+            if (p.sim().timeS() >= endAtS - p.sim().stepS() * 1e-6) {
+                finished = true;
                 break;
             }
             fireEvents();
             p.sim().step();
             p.lateness().record(now - due);
+            if (j != null) {
+                j.record(org.loopstand.plant.journal.PlantRunJournal.STEP_LATENESS_US, Math.max(0, now - due) / 1_000);
+                writeTruthIfDue(j);
+            }
             for (UnitHost h : p.units()) {
                 work += h.work();
             }
@@ -98,13 +153,75 @@ public final class PlantAgent implements Agent, ScenarioContext {
         }
         work += scanMeters(now);
         work += publishClock(now);
+        if (j != null) {
+            for (java.util.Map<String, Object> e; (e = pendingEvents.poll()) != null; work++) {
+                j.event(p.clock().epochMillis(), e);
+            }
+            j.flushIfDue();
+        }
         return work;
+    }
+
+    private void writeTruthIfDue(org.loopstand.plant.journal.PlantRunJournal j) {
+        double t = p.sim().timeS();
+        if (t + p.sim().stepS() * 1e-6 < nextTruthS) {
+            return;
+        }
+        nextTruthS += truthIntervalS * (Math.floor((t - nextTruthS) / truthIntervalS + 1e-9) + 1);
+        java.util.Map<String, String> modes = new java.util.HashMap<>();
+        for (UnitHost h : p.units()) {
+            modes.put(h.unit().unitId(), h.unit().controlMode().wireName());
+        }
+        j.truth(epochMsAt(t), p.sim(), modes);
     }
 
     private void fireEvents() {
         double tol = p.sim().stepS() * 1e-6;
         while (nextEvent < events.size() && events.get(nextEvent).atS() <= p.sim().timeS() + tol) {
-            events.get(nextEvent++).apply(this);
+            ScenarioEvent e = events.get(nextEvent++);
+            e.apply(this);
+            org.loopstand.plant.journal.PlantRunJournal j = journal;
+            if (j != null) {
+                j.event(epochMsAt(p.sim().timeS()), eventFields(e));
+            }
+        }
+    }
+
+    private static final com.fasterxml.jackson.databind.ObjectMapper EVENT_MAPPER =
+            new com.fasterxml.jackson.databind.ObjectMapper();
+
+    /** {@code {"event": type, "atS": …, …the event's own fields}}; falls back to its text form. */
+    static java.util.Map<String, Object> eventFields(ScenarioEvent e) {
+        java.util.Map<String, Object> f = new java.util.LinkedHashMap<>();
+        f.put("event", e.type());
+        f.put("atS", e.atS());
+        try {
+            java.util.Map<?, ?> own = EVENT_MAPPER.convertValue(e, java.util.Map.class);
+            own.forEach((k, v) -> {
+                String name = String.valueOf(k);
+                if (!f.containsKey(name) && !"t".equals(name) && !"kind".equals(name)) {
+                    f.put(name, v);
+                }
+            });
+        } catch (IllegalArgumentException ex) {
+            f.put("detail", e.toString());
+        }
+        return f;
+    }
+
+    @Override
+    public void onClose() {
+        org.loopstand.plant.journal.PlantRunJournal j = journal;
+        if (j != null && !j.isClosed()) {
+            for (java.util.Map<String, Object> e; (e = pendingEvents.poll()) != null; ) {
+                j.event(p.clock().epochMillis(), e);
+            }
+            var h = p.lateness().histogramUs();
+            j.event(p.clock().epochMillis(), java.util.Map.of("event", "summary", "simulatedS", p.sim().timeS(),
+                    "steps", p.sim().stepCount(), "meterSent", meterSent, "meterDropped", meterDropped,
+                    "stepLatenessP99Us", h.getValueAtPercentile(99), "stepLatenessMaxUs", h.getMaxValue()));
+            j.close(Math.max(p.clock().epochMillis(), epochMsAt(p.sim().timeS())), finished ? org.loopstand.protocol.journal.EndReason.COMPLETED
+                    : org.loopstand.protocol.journal.EndReason.STOPPED);
         }
     }
 
@@ -114,13 +231,21 @@ public final class PlantAgent implements Agent, ScenarioContext {
             if (m.due(now)) {
                 AreaMeter reading = m.scan(p.sim(), now, p.clock().epochMillis());
                 n++;
+                String topic = p.topics().areaMeter(reading.area(), reading.meter());
+                byte[] payload = p.codec().encode(reading);
+                org.loopstand.plant.journal.PlantRunJournal j = journal;
                 if (!p.plantBus().isConnected()) {
                     meterDropped++; // never buffered: a late reading would pass for a fresh one
+                    if (j != null) {
+                        j.published(reading.sourceTime(), topic, "AreaMeter", reading.seq(), false, "notConnected", payload, null);
+                    }
                     continue;
                 }
                 meterSent++;
-                p.plantBus().publish(OutboundMessage.of(p.topics().areaMeter(reading.area(), reading.meter()),
-                        p.codec().encode(reading), Qos.AT_MOST_ONCE));
+                p.plantBus().publish(OutboundMessage.of(topic, payload, Qos.AT_MOST_ONCE));
+                if (j != null) {
+                    j.published(reading.sourceTime(), topic, "AreaMeter", reading.seq(), true, null, payload, null);
+                }
             }
         }
         return n;

@@ -85,7 +85,7 @@ public final class UnitPlantInterface {
     public void onCommand(UnitCommand c, long receivedNanos) {
         long nowMs = clock.epochMillis();
         if (!ensureMotion()) {
-            refuse(c.seq(), c.controllerId(), new Refusal(RefusalReason.UNIT_OFFLINE, "no field reading from the unit yet"));
+            refuse(c, c.seq(), c.controllerId(), new Refusal(RefusalReason.UNIT_OFFLINE, "no field reading from the unit yet"));
             return;
         }
         Refusal r = gate.check(c, nowMs, mode, field.status());
@@ -94,9 +94,10 @@ public final class UnitPlantInterface {
                     + (c.direction() == PulseDirection.RAISE ? "upper" : "lower") + " regulating limit");
         }
         if (r != null) {
-            refuse(c.seq(), c.controllerId(), r);
+            refuse(c, c.seq(), c.controllerId(), r);
             return;
         }
+        double targetBeforeMw = motion.targetMw();
         String detail;
         double sign;
         if (c.kind() == CommandKind.PULSE) {
@@ -115,12 +116,24 @@ public final class UnitPlantInterface {
         lastAcceptedSeq = c.seq();
         accepted++;
         latency.accepted(receivedNanos, field.outputMw(), sign);
+        journal.command(nowMs, fate(c, c.seq(), c.controllerId(), "accepted", null, detail, targetBeforeMw, motion.targetMw()));
         output.ack(new CommandAck(seq++, nowMs, settings.unitId(), c.seq(), c.controllerId(), AckOutcome.ACCEPTED, null, detail));
     }
 
     /** Handles a payload that did not decode as a command (never applied). */
     public void onMalformed(long commandSeq, String controllerId, String detail) {
-        refuse(commandSeq, controllerId, new Refusal(RefusalReason.MALFORMED, detail));
+        refuse(null, commandSeq, controllerId, new Refusal(RefusalReason.MALFORMED, detail));
+    }
+
+    private CommandFate fate(UnitCommand c, long commandSeq, String controllerId, String outcome, String reason,
+                             String detail, double beforeMw, double afterMw) {
+        if (c == null) {
+            return new CommandFate(settings.unitId(), commandSeq, controllerId, null, null, 0, null, 0, outcome, reason,
+                    detail, beforeMw, afterMw);
+        }
+        return new CommandFate(settings.unitId(), commandSeq, controllerId, c.kind() == null ? null : c.kind().wireName(),
+                c.direction() == null ? null : c.direction().wireName(), c.durationMs(), c.setpointMw(), c.validUntil(),
+                outcome, reason, detail, beforeMw, afterMw);
     }
 
     /** Handles a controller status: heartbeat for the watchdog, epoch for the gate. */
@@ -226,10 +239,12 @@ public final class UnitPlantInterface {
         return motion != null;
     }
 
-    private void refuse(long commandSeq, String controllerId, Refusal r) {
+    private void refuse(UnitCommand c, long commandSeq, String controllerId, Refusal r) {
         refusals.incrementAndGet(r.reason().ordinal());
         long nowMs = clock.epochMillis();
         journal.refused(nowMs, settings.unitId(), r.reason(), commandSeq, r.detail());
+        double targetMw = motion == null ? Double.NaN : motion.targetMw();
+        journal.command(nowMs, fate(c, commandSeq, controllerId, "rejected", r.reason().wireName(), r.detail(), targetMw, targetMw));
         output.ack(new CommandAck(seq++, nowMs, settings.unitId(), Math.max(0, commandSeq), controllerId,
                 AckOutcome.REJECTED, r.reason(), truncate(r.detail())));
     }
