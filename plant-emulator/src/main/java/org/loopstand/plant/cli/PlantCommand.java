@@ -156,6 +156,10 @@ public final class PlantCommand implements Callable<Integer> {
             header.put("stepS", sim.stepS());
             header.put("loopstandVersion", PlantCli.VERSION);
             header.put("javaVersion", System.getProperty("java.version"));
+            header.put("areas", areaHeader(grid));
+            Map<String, String> unitAreas = new LinkedHashMap<>();
+            grid.units().forEach(u -> unitAreas.put(u.id(), u.area()));
+            header.put("units", unitAreas);
             header.put("events", events.stream().map(e -> e.type() + "@" + trim(e.atS()) + "s").toList());
             runner.journalTo(PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), header, clock, WallClock.INSTANCE),
                     truthIntervalS);
@@ -210,6 +214,24 @@ public final class PlantCommand implements Callable<Integer> {
         }
         closeAll.run();
         return 0;
+    }
+
+    /** Per area what the report needs: nominal frequency, bias β (MW/Hz, positive), scheduled net interchange. */
+    static Map<String, Object> areaHeader(Grid grid) {
+        Map<String, Object> out = new LinkedHashMap<>();
+        for (Area a : grid.areas()) {
+            double beta = !Double.isNaN(a.kMwPerHz()) ? a.kMwPerHz() : -10.0 * a.biasMwPer01Hz();
+            double scheduled = 0;
+            for (var t : grid.ties()) {
+                scheduled += t.fromArea().equals(a.id()) ? t.scheduledFlowMw() : t.toArea().equals(a.id()) ? -t.scheduledFlowMw() : 0;
+            }
+            Map<String, Object> m = new LinkedHashMap<>();
+            m.put("nominalFrequencyHz", a.nominalFrequencyHz());
+            m.put("betaMwPerHz", Double.isFinite(beta) ? beta : null);
+            m.put("scheduledNetInterchangeMw", scheduled);
+            out.put(a.id(), m);
+        }
+        return out;
     }
 
     private static void closeQuietly(EmbeddedBroker b) {

@@ -1,0 +1,96 @@
+package org.loopstand.plant.rehearsal;
+
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.List;
+import java.util.concurrent.Callable;
+
+import org.loopstand.protocol.time.WallClock;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Parameters;
+
+/**
+ * {@code loopstand rehearse [SCENARIO]}: plant and controller as separate processes, progress, a run
+ * folder with both journals and the report.
+ */
+@Command(name = "rehearse", mixinStandardHelpOptions = true,
+        description = {"Run a full rehearsal: the plant (with the embedded broker) and the controller as separate"
+                + " processes, progress on the terminal, journals and report in runs/<timestamp>-<scenario>/.",
+                "CAUTION: the controller sends raise/lower commands; rehearse only against the emulator or a test broker."})
+public final class RehearsalCommand implements Callable<Integer> {
+    static final String DEFAULT_SCENARIO = "config/scenarios/unit-trip.yaml";
+    /** Default rate: the 600 s demo scenario in about two minutes. */
+    static final double DEFAULT_RATE = 5;
+
+    @Parameters(arity = "0..1", paramLabel = "SCENARIO", description = "scenario file (default " + DEFAULT_SCENARIO + ")")
+    Path scenario;
+
+    @Option(names = "--broker", description = "use this running MQTT 5 broker (e.g. tcp://127.0.0.1:1883) instead of the embedded one")
+    String broker;
+
+    @Option(names = "--rate", description = "scenario seconds per wall second (default: " + DEFAULT_RATE
+            + " for the default scenario, else the scenario's duration / 120 s, at least 1)")
+    Double rate;
+
+    @Option(names = "--runs-dir", defaultValue = "runs", description = "where run folders go (default ${DEFAULT-VALUE})")
+    Path runsDir;
+
+    @Option(names = "--site", description = "site file (default: config/sites/<the scenario's site>.yaml)")
+    Path site;
+
+    @Override
+    public Integer call() throws Exception {
+        Path home = Path.of(System.getenv().getOrDefault("LOOPSTAND_HOME", "."));
+        Path scenarioFile = scenario != null ? scenario : home.resolve(DEFAULT_SCENARIO);
+        if (!Files.isRegularFile(scenarioFile)) {
+            System.err.println("rehearse: scenario file " + scenarioFile + " does not exist");
+            return 2;
+        }
+        Path siteFile = site;
+        if (siteFile == null) {
+            String id = Rehearsal.topValue(scenarioFile, "site");
+            if (id == null) {
+                System.err.println("rehearse: scenario " + scenarioFile + " names no site (top-level 'site:'); give --site FILE");
+                return 2;
+            }
+            siteFile = home.resolve("config/sites/" + id + ".yaml");
+        }
+        double r;
+        if (rate != null) {
+            r = rate;
+        } else if (scenario == null) {
+            r = DEFAULT_RATE;
+        } else {
+            String d = Rehearsal.topValue(scenarioFile, "durationS");
+            r = d == null ? 1 : Math.max(1, Math.ceil(Double.parseDouble(d) / 120.0));
+        }
+        RehearsalSettings settings;
+        try {
+            settings = new RehearsalSettings(scenarioFile, siteFile, broker, r, runsDir,
+                    Path.of(System.getProperty("java.home"), "bin", "java").toString(),
+                    System.getenv("LOOPSTAND_PLANT_CP"), System.getenv("LOOPSTAND_CONTROLLER_CP"),
+                    RehearsalSettings.EMBEDDED_PORT, 90_000, List.of());
+        } catch (IllegalArgumentException e) {
+            System.err.println("rehearse: " + e.getMessage());
+            return 2;
+        }
+        Rehearsal rehearsal = new Rehearsal(settings, WallClock.INSTANCE, System.out, System.console() != null);
+        Thread hook = new Thread(() -> {
+            rehearsal.abort();
+            try {
+                rehearsal.awaitDone(120_000);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
+        }, "rehearsal-stop");
+        Runtime.getRuntime().addShutdownHook(hook);
+        Rehearsal.Outcome o = rehearsal.run();
+        try {
+            Runtime.getRuntime().removeShutdownHook(hook);
+        } catch (IllegalStateException e) {
+            // shutting down already (Ctrl-C): the hook is waiting for us and ends now
+        }
+        return o.exitCode();
+    }
+}

@@ -1,0 +1,87 @@
+package org.loopstand.report.run;
+
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.LinkedHashSet;
+import java.util.List;
+import java.util.Map;
+import java.util.Set;
+import java.util.TreeMap;
+
+import org.loopstand.protocol.journal.JournalEntry;
+import org.loopstand.report.model.Chart;
+import org.loopstand.report.model.TimeSeries;
+
+/** The step charts of a run: commands sent, controller state, data quality and faults active. */
+final class RunCharts {
+    private RunCharts() {
+    }
+
+    static void addCommandAndStateCharts(List<Chart> charts, List<JournalEntry> plant, List<JournalEntry> ctl,
+            List<JournalEntry> meters, List<RunReportBuilder.AreaInfo> areas, long start, long end) {
+        List<JournalEntry> sent = JournalSeries.ofKind(ctl, "sent");
+        Set<String> units = new LinkedHashSet<>();
+        sent.forEach(e -> units.add(e.text("unit")));
+        List<TimeSeries> moves = new ArrayList<>();
+        for (String u : units) {
+            moves.add(JournalSeries.series(sent, e -> u.equals(e.text("unit")), e -> e.number("deltaMw").isPresent()
+                    ? e.number("deltaMw").getAsDouble() : null, u + " commanded move", "MW"));
+        }
+        if (!moves.isEmpty()) {
+            charts.add(new Chart("Commands sent: move asked of each unit per cycle (+ = raise)", "MW", moves, false));
+        }
+        List<JournalEntry> decided = JournalSeries.ofKind(ctl, "decided");
+        if (!decided.isEmpty()) {
+            charts.add(new Chart("Controller state (1 = regulating, 0 = suspended)", "state", List.of(JournalSeries.series(
+                    decided, e -> true, e -> "regulating".equals(e.text("state")) ? 1.0 : 0.0, "controller regulating", "")),
+                    true));
+        }
+        List<TimeSeries> quality = new ArrayList<>();
+        for (RunReportBuilder.AreaInfo a : areas) {
+            quality.add(JournalSeries.series(meters, e -> a.id().equals(e.fields().path("message").path("area").asText()),
+                    e -> switch (e.fields().path("message").path("frequencyQuality").path("validity").asText()) {
+                        case "good" -> e.fields().path("sent").asBoolean(true) ? 2.0 : -1.0;
+                        case "questionable" -> 1.0;
+                        default -> 0.0;
+                    }, "meter " + a.id() + " quality", ""));
+        }
+        quality.add(faultsActive(plant, start, end));
+        charts.add(new Chart("Data quality (meter: 2 good, 1 questionable, 0 invalid, −1 not sent) and faults active",
+                "code / count", quality, true));
+    }
+
+    /** Number of fault orders in force: start adds, stop (or the order's durationS) removes. */
+    static TimeSeries faultsActive(List<JournalEntry> plant, long start, long end) {
+        TreeMap<Long, Integer> changes = new TreeMap<>();
+        Map<String, Long> startedAt = new HashMap<>();
+        for (JournalEntry e : JournalSeries.ofKind(plant, "fault")) {
+            String id = e.text("orderId");
+            if ("start".equals(e.text("action"))) {
+                startedAt.put(id, e.tMs());
+                changes.merge(e.tMs(), 1, Integer::sum);
+                if (e.number("durationS").isPresent()) {
+                    long stop = e.tMs() + Math.round(e.number("durationS").getAsDouble() * 1000);
+                    changes.merge(stop, -1, Integer::sum);
+                    startedAt.remove(id);
+                }
+            } else if ("stop".equals(e.text("action")) && startedAt.remove(id) != null) {
+                changes.merge(e.tMs(), -1, Integer::sum);
+            }
+        }
+        List<long[]> pts = new ArrayList<>();
+        pts.add(new long[] {start, 0});
+        int level = 0;
+        for (Map.Entry<Long, Integer> c : changes.entrySet()) {
+            level += c.getValue();
+            pts.add(new long[] {Math.max(start, c.getKey()), Math.max(0, level)});
+        }
+        pts.add(new long[] {Math.max(end, pts.get(pts.size() - 1)[0]), Math.max(0, level)});
+        long[] t = new long[pts.size()];
+        double[] v = new double[pts.size()];
+        for (int i = 0; i < t.length; i++) {
+            t[i] = pts.get(i)[0];
+            v[i] = pts.get(i)[1];
+        }
+        return new TimeSeries("faults active", "count", t, v);
+    }
+}
