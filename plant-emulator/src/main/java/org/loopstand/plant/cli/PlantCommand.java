@@ -24,6 +24,7 @@ import org.loopstand.plant.meter.MeterSettings;
 import org.loopstand.plant.physics.GridSimulator;
 import org.loopstand.plant.physics.StepSizeRule;
 import org.loopstand.plant.runtime.ConnectionGrouping;
+import org.loopstand.plant.runtime.HeldStartClock;
 import org.loopstand.plant.runtime.PlantOptions;
 import org.loopstand.plant.runtime.PlantRunner;
 import org.loopstand.plant.scenario.EventTypeRegistry;
@@ -89,6 +90,12 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--truth-interval-s", defaultValue = "1", description = "scenario seconds between physics truth entries in the journal (default ${DEFAULT-VALUE})")
     double truthIntervalS;
 
+    @Option(names = "--embedded-port", defaultValue = "1884", description = "port of the embedded broker on 127.0.0.1 (default ${DEFAULT-VALUE})")
+    int embeddedPort;
+
+    @Option(names = "--wait-go", description = "connect, print the ready line, then hold scenario time at 0 until a line 'go' arrives on stdin (the rehearsal starts the controller in between)")
+    boolean waitGo;
+
     @Option(names = "--linger-s", defaultValue = "0", description = "after the scenario ends, keep the embedded broker up this many wall seconds (or until stopped) so the controller can stop cleanly")
     double lingerS;
 
@@ -124,7 +131,7 @@ public final class PlantCommand implements Callable<Integer> {
         EmbeddedBroker embedded = null;
         String uri = broker;
         if (uri == null) {
-            embedded = new EmbeddedBroker();
+            embedded = new EmbeddedBroker("127.0.0.1", embeddedPort);
             try {
                 embedded.start(Duration.ofSeconds(30));
             } catch (IllegalStateException e) {
@@ -133,7 +140,9 @@ public final class PlantCommand implements Callable<Integer> {
             }
             uri = embedded.serverUri();
         }
-        Clock clock = rate == 1.0 ? WallClock.INSTANCE : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
+        HeldStartClock held = waitGo ? new HeldStartClock(WallClock.INSTANCE, rate) : null;
+        Clock clock = held != null ? held
+                : rate == 1.0 ? WallClock.INSTANCE : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
         PlantRunner runner = new PlantRunner(sim, events, options, MqttLinks.to(uri, WallClock.INSTANCE), clock, PlantCommand::say);
         if (journalDir != null) {
             if (!(truthIntervalS > 0)) {
@@ -186,6 +195,15 @@ public final class PlantCommand implements Callable<Integer> {
                 grid.siteId(), uri, embedded != null ? " (embedded)" : "", trim(rate), here,
                 options.grouping().cliName(), options.remoteUnits().size(),
                 scenario == null ? "" : ", scenario " + trim(scenario.durationS()) + " s"));
+        if (held != null) {
+            if (!awaitGo()) {
+                say("plant: stdin closed before 'go'; stopping");
+                closeAll.run();
+                return 1;
+            }
+            held.release();
+            say("plant: go, scenario time runs");
+        }
         long startNanos = WallClock.INSTANCE.monotonicNanos();
         String why = null;
         while (why == null) {
@@ -232,6 +250,18 @@ public final class PlantCommand implements Callable<Integer> {
             out.put(a.id(), m);
         }
         return out;
+    }
+
+    /** @return true when a line "go" arrived on stdin, false at its end */
+    private static boolean awaitGo() throws java.io.IOException {
+        java.io.BufferedReader in = new java.io.BufferedReader(new java.io.InputStreamReader(System.in,
+                java.nio.charset.StandardCharsets.UTF_8));
+        for (String line; (line = in.readLine()) != null; ) {
+            if ("go".equals(line.trim())) {
+                return true;
+            }
+        }
+        return false;
     }
 
     private static void closeQuietly(EmbeddedBroker b) {

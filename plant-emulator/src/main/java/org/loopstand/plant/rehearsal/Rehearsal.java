@@ -120,6 +120,7 @@ public final class Rehearsal {
             controller = ChildProcess.start("controller", controllerCommand(run), run.resolve("controller.log"),
                     l -> l.startsWith("control: " + CONTROLLER_ID + " on"), l -> { });
             controller.awaitReady(s.readyTimeoutMs());
+            plant.sendLine("go"); // scenario time starts now that both are up
             say("rehearsal: plant (pid " + plant.pid() + ") and controller (pid " + controller.pid() + ") running;"
                     + " Ctrl-C stops both and still writes the report");
             progressLink = progressLink(siteId, view);
@@ -227,10 +228,13 @@ public final class Rehearsal {
         List<String> c = new ArrayList<>(List.of(s.javaCommand(), "-cp", s.plantClassPath(),
                 "org.loopstand.plant.cli.PlantCli", "plant", "--site", s.siteFile().toString(),
                 "--scenario", s.scenarioFile().toString(), "--rate", trim(s.rate()), "--journal", run.toString(),
-                "--linger-s", "60"));
+                "--linger-s", "60", "--wait-go"));
         if (s.brokerUrl() != null) {
             c.add("--broker");
             c.add(s.brokerUrl());
+        } else {
+            c.add("--embedded-port");
+            c.add(Integer.toString(s.embeddedPort()));
         }
         c.addAll(s.extraPlantArgs());
         return c;

@@ -36,6 +36,9 @@ public final class RehearsalCommand implements Callable<Integer> {
     @Option(names = "--runs-dir", defaultValue = "runs", description = "where run folders go (default ${DEFAULT-VALUE})")
     Path runsDir;
 
+    @Option(names = "--port", defaultValue = "1884", description = "port of the embedded broker (default ${DEFAULT-VALUE})")
+    int port;
+
     @Option(names = "--site", description = "site file (default: config/sites/<the scenario's site>.yaml)")
     Path site;
 
@@ -70,10 +73,14 @@ public final class RehearsalCommand implements Callable<Integer> {
             settings = new RehearsalSettings(scenarioFile, siteFile, broker, r, runsDir,
                     Path.of(System.getProperty("java.home"), "bin", "java").toString(),
                     System.getenv("LOOPSTAND_PLANT_CP"), System.getenv("LOOPSTAND_CONTROLLER_CP"),
-                    RehearsalSettings.EMBEDDED_PORT, 90_000, List.of());
+                    port, 90_000, List.of());
         } catch (IllegalArgumentException e) {
             System.err.println("rehearse: " + e.getMessage());
             return 2;
+        }
+        // the progress line owns the terminal: the rehearsal's own bus link speaks only when something is wrong
+        if (org.slf4j.LoggerFactory.getLogger("org.loopstand.protocol.bus") instanceof ch.qos.logback.classic.Logger l) {
+            l.setLevel(ch.qos.logback.classic.Level.WARN);
         }
         Rehearsal rehearsal = new Rehearsal(settings, WallClock.INSTANCE, System.out, System.console() != null);
         Thread hook = new Thread(() -> {

@@ -89,7 +89,7 @@ public final class PlantAgent implements Agent, ScenarioContext {
         this.endAtS = endAtS;
     }
 
-    /** @return true once the scenario's end time was reached (the loop then only serves the bus) */
+    /** @return true once the scenario's end time was reached (the loop then publishes nothing more) */
     public boolean finished() {
         return finished;
     }
@@ -141,6 +141,13 @@ public final class PlantAgent implements Agent, ScenarioContext {
             }
             steps++;
             now = p.clock().monotonicNanos();
+        }
+        if (finished) {
+            // the scenario is over: physics, meters and units stand still; only the journal is kept flushed
+            if (j != null) {
+                j.flushIfDue();
+            }
+            return steps;
         }
         if (steps == 0) {
             for (UnitHost h : p.units()) {
@@ -252,12 +259,13 @@ public final class PlantAgent implements Agent, ScenarioContext {
     }
 
     private int publishClock(long now) {
-        if (p.rate() == 1.0 || now < nextClockNanos || !p.plantBus().isConnected()) {
+        boolean held = p.clock() instanceof HeldStartClock h && !h.released();
+        if ((p.rate() == 1.0 && !(p.clock() instanceof HeldStartClock)) || now < nextClockNanos || !p.plantBus().isConnected()) {
             return 0;
         }
         nextClockNanos += ((now - nextClockNanos) / clockPeriodNanos + 1) * clockPeriodNanos;
         ClockTick tick = new ClockTick(clockSeq++, p.clock().epochMillis(), Math.round(p.sim().timeS() * 1000),
-                p.rate(), true);
+                p.rate(), !held); // held: the controller's time stands still too
         p.plantBus().publish(new OutboundMessage(p.topics().clock(), p.codec().encode(tick), Qos.AT_MOST_ONCE, true, 0));
         return 1;
     }

@@ -2,10 +2,8 @@ package org.loopstand.report.run;
 
 import java.util.ArrayList;
 import java.util.HashMap;
-import java.util.LinkedHashSet;
 import java.util.List;
 import java.util.Map;
-import java.util.Set;
 import java.util.TreeMap;
 
 import org.loopstand.protocol.journal.JournalEntry;
@@ -20,15 +18,21 @@ final class RunCharts {
     static void addCommandAndStateCharts(List<Chart> charts, List<JournalEntry> plant, List<JournalEntry> ctl,
             List<JournalEntry> meters, List<RunReportBuilder.AreaInfo> areas, long start, long end) {
         List<JournalEntry> sent = JournalSeries.ofKind(ctl, "sent");
-        Set<String> units = new LinkedHashSet<>();
-        sent.forEach(e -> units.add(e.text("unit")));
+        List<JournalEntry> cycles = JournalSeries.ofKind(ctl, "decided");
+        Map<String, Map<Long, Double>> byUnit = new java.util.LinkedHashMap<>();
+        for (JournalEntry e : sent) {
+            if (e.text("unit") != null && e.number("deltaMw").isPresent()) {
+                byUnit.computeIfAbsent(e.text("unit"), k -> new HashMap<>()).merge(e.tMs(), e.number("deltaMw").getAsDouble(), Double::sum);
+            }
+        }
         List<TimeSeries> moves = new ArrayList<>();
-        for (String u : units) {
-            moves.add(JournalSeries.series(sent, e -> u.equals(e.text("unit")), e -> e.number("deltaMw").isPresent()
-                    ? e.number("deltaMw").getAsDouble() : null, u + " commanded move", "MW"));
+        for (Map.Entry<String, Map<Long, Double>> u : byUnit.entrySet()) {
+            // one value per control cycle: the move sent to the unit in that cycle, 0 when none
+            moves.add(JournalSeries.series(cycles, e -> true, e -> u.getValue().getOrDefault(e.tMs(), 0.0),
+                    u.getKey() + " commanded move", "MW"));
         }
         if (!moves.isEmpty()) {
-            charts.add(new Chart("Commands sent: move asked of each unit per cycle (+ = raise)", "MW", moves, false));
+            charts.add(new Chart("Commands sent: move asked of each unit per cycle (+ = raise, 0 = none)", "MW", moves, true));
         }
         List<JournalEntry> decided = JournalSeries.ofKind(ctl, "decided");
         if (!decided.isEmpty()) {
