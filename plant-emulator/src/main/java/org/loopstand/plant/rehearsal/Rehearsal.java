@@ -54,6 +54,8 @@ public final class Rehearsal {
     private final CountDownLatch done = new CountDownLatch(1);
     private volatile boolean aborted;
     private volatile boolean plantDone;
+    private volatile ChildProcess plantChild;
+    private volatile ChildProcess controllerChild;
 
     /**
      * @param wall     wall clock (names the run folder, paces progress)
@@ -75,6 +77,12 @@ public final class Rehearsal {
     /** Waits for {@link #run()} to finish, at most {@code timeoutMs}; for a shutdown hook. */
     public boolean awaitDone(long timeoutMs) throws InterruptedException {
         return done.await(timeoutMs, TimeUnit.MILLISECONDS);
+    }
+
+    /** @return the pid of the running "plant" or "controller" process, if started (tests, diagnostics) */
+    public java.util.OptionalLong pidOf(String process) {
+        ChildProcess c = "plant".equals(process) ? plantChild : "controller".equals(process) ? controllerChild : null;
+        return c == null ? java.util.OptionalLong.empty() : java.util.OptionalLong.of(c.pid());
     }
 
     public Outcome run() {
@@ -116,9 +124,11 @@ public final class Rehearsal {
                             plantDone = true;
                         }
                     });
+            plantChild = plant;
             plant.awaitReady(s.readyTimeoutMs());
             controller = ChildProcess.start("controller", controllerCommand(run), run.resolve("controller.log"),
                     l -> l.startsWith("control: " + CONTROLLER_ID + " on"), l -> { });
+            controllerChild = controller;
             controller.awaitReady(s.readyTimeoutMs());
             plant.sendLine("go"); // scenario time starts now that both are up
             say("rehearsal: plant (pid " + plant.pid() + ") and controller (pid " + controller.pid() + ") running;"
