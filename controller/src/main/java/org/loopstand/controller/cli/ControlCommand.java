@@ -15,9 +15,15 @@ import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.OutboundMessage;
 import org.loopstand.protocol.journal.HistogramLogs;
 import org.loopstand.protocol.journal.JournalWriter;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.security.AuthOptions;
+import org.loopstand.protocol.security.CommandSigner;
+import org.loopstand.protocol.security.LinkSecurity;
+import org.loopstand.protocol.security.SecuritySetupException;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.WallClock;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 
 /** {@code ./loopstand control}: the secondary controller as a process on the bus. */
@@ -48,6 +54,9 @@ public final class ControlCommand implements Callable<Integer> {
     @Option(names = "--live-plant", description = "allow a broker that is not on the loopback interface")
     boolean livePlant;
 
+    @Mixin
+    AuthOptions auth;
+
     @Override
     public Integer call() throws Exception {
         System.out.println(CAUTION);
@@ -63,6 +72,14 @@ public final class ControlCommand implements Callable<Integer> {
                     + " plant's procedures");
             return 2;
         }
+        LinkSecurity security;
+        try {
+            security = auth.resolve(broker, System.getenv());
+        } catch (SecuritySetupException e) {
+            System.err.println("control: " + e.getMessage());
+            return 2;
+        }
+        System.err.println(security.startMessage());
         ControllerSiteConfig config;
         try {
             config = ControllerSiteReader.read(site);
@@ -75,7 +92,13 @@ public final class ControlCommand implements Callable<Integer> {
         Clock clock = busClock != null ? busClock : wall;
         long epoch = wall.epochMillis();
         OutboundMessage will = ControllerAgent.offlineStatus(config.siteId(), controllerId, epoch, epoch);
-        MessageBus bus = BusConnector.connect(broker, controllerId, will);
+        MessageBus bus;
+        try {
+            bus = BusConnector.connect(broker, controllerId, will, security);
+        } catch (IllegalArgumentException e) {
+            System.err.println("control: " + e.getMessage());
+            return 2;
+        }
         JournalWriter journal = null;
         HistogramLogs hlog = null;
         if (journalDir != null) {
@@ -85,6 +108,7 @@ public final class ControlCommand implements Callable<Integer> {
             hlog = HistogramLogs.create(journalDir.resolve("controller.hlog"), wall, 60_000_000L, 3, 10_000);
         }
         ControllerAgent agent = new ControllerAgent(config, bus, clock, busClock, controllerId, epoch, journal, hlog);
+        security.keys().ifPresent(keys -> agent.signCommandsWith(new CommandSigner(keys, clock, new MessageCodec())));
         AgentRunner runner = new AgentRunner(agent, 1_000_000L);
         Runtime.getRuntime().addShutdownHook(new Thread(() -> {
             runner.close();

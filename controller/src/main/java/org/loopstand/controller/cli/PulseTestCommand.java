@@ -3,6 +3,7 @@ package org.loopstand.controller.cli;
 import java.io.BufferedReader;
 import java.io.InputStreamReader;
 import java.io.PrintStream;
+import java.io.Reader;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Path;
 import java.util.LinkedHashMap;
@@ -13,6 +14,7 @@ import java.util.concurrent.Callable;
 import org.loopstand.controller.pulsetest.PulseTestEvaluator;
 import org.loopstand.controller.pulsetest.PulseTestResult;
 import org.loopstand.controller.pulsetest.PulseTestRunFolder;
+import org.loopstand.controller.pulsetest.PlantClockFollower;
 import org.loopstand.controller.pulsetest.PulseTestRunner;
 import org.loopstand.controller.pulsetest.analysis.Judgement;
 import org.loopstand.controller.pulsetest.plan.PlanException;
@@ -25,10 +27,16 @@ import org.loopstand.controller.pulsetest.safety.SafetyGate;
 import org.loopstand.protocol.agent.AgentRunner;
 import org.loopstand.protocol.bus.mqtt.MqttLink;
 import org.loopstand.protocol.bus.mqtt.MqttLinkConfig;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.security.AuthOptions;
+import org.loopstand.protocol.security.CommandSigner;
+import org.loopstand.protocol.security.LinkSecurity;
+import org.loopstand.protocol.security.SecuritySetupException;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.WallClock;
 import org.loopstand.protocol.topic.TopicTree;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 
 /** {@code ./loopstand pulse-test}: the unit response test against a broker. */
@@ -57,6 +65,14 @@ public final class PulseTestCommand implements Callable<Integer> {
     Double maxDurationS;
     @Option(names = "--epoch", description = "controller epoch for the commands (default: now in seconds)")
     Long epoch;
+    @Mixin
+    AuthOptions auth;
+
+    @Option(names = "--follow-plant-clock", description = "emulator at --rate N: take the plant's time base from its clock topic (test broker only)")
+    boolean followPlantClock;
+
+    /** Console for the confirmation and the abort key; tests give their own. */
+    Reader consoleIn = new InputStreamReader(System.in, StandardCharsets.UTF_8);
 
     @Override
     public Integer call() throws Exception {
@@ -72,7 +88,7 @@ public final class PulseTestCommand implements Callable<Integer> {
             System.err.println("pulse-test: " + e.getMessage());
             return 2;
         }
-        BufferedReader console = new BufferedReader(new InputStreamReader(System.in, StandardCharsets.UTF_8));
+        BufferedReader console = new BufferedReader(consoleIn);
         Optional<String> refusal = SafetyGate.admit(broker, testBroker, livePlant, unit, console, o);
         if (refusal.isPresent()) {
             System.err.println("pulse-test: " + refusal.get());
@@ -80,17 +96,44 @@ public final class PulseTestCommand implements Callable<Integer> {
         }
         PlanLimits caps = SafetyGate.caps(plan.limits(), maxExcursionMw == null ? Double.NaN : maxExcursionMw,
                 maxDurationS == null ? Double.NaN : maxDurationS);
+        if (followPlantClock && !SafetyGate.isTestBroker(broker, testBroker)) {
+            System.err.println("pulse-test: --follow-plant-clock is for an emulated plant on a test broker only");
+            return 3;
+        }
         Clock clock = WallClock.INSTANCE;
         TopicTree topics = TopicTree.forSite(siteUnit.siteId());
-        MqttLinkConfig config = MqttLinkConfig.builder().serverUri(broker).clientId("pulse-test-" + unit).build();
+        LinkSecurity security;
+        MqttLinkConfig config;
+        try {
+            security = auth.resolve(broker, System.getenv());
+            if (security.signsCommands() && security.keys().orElseThrow().signingKey(unit, clock.epochMillis()).isEmpty()) {
+                throw new SecuritySetupException("the keys file has no key valid now for unit " + unit);
+            }
+            config = security.applyTo(MqttLinkConfig.builder().serverUri(broker).clientId("pulse-test-" + unit), null).build();
+        } catch (SecuritySetupException | IllegalArgumentException e) {
+            System.err.println("pulse-test: " + e.getMessage());
+            return 2;
+        }
+        System.err.println(security.startMessage());
         PulseTestRunner runner;
-        try (MqttLink link = new MqttLink(config, clock).start()) {
+        try (MqttLink link = new MqttLink(config, WallClock.INSTANCE).start()) {
             if (!link.awaitConnected(10_000)) {
                 System.err.println("pulse-test: cannot connect to " + broker);
                 return 4;
             }
+            if (followPlantClock) {
+                Optional<Clock> plantClock = PlantClockFollower.await(link, topics, WallClock.INSTANCE, 10_000);
+                if (plantClock.isEmpty()) {
+                    System.err.println("pulse-test: no tick on " + topics.clock() + " within 10 s (is the plant "
+                            + "running with --rate other than 1?)");
+                    return 4;
+                }
+                clock = plantClock.get();
+            }
             runner = new PulseTestRunner(link, clock, topics, unit, plan, fromTelemetry ? null : siteUnit.unit(), caps,
-                    epoch == null ? clock.epochMillis() / 1000 : epoch, new KeyAbortSwitch(System.in), 30);
+                    epoch == null ? clock.epochMillis() / 1000 : epoch, new KeyAbortSwitch(console), 30);
+            Clock signingClock = clock; // the plant's time base when following it: key validity and signed times agree
+            security.keys().ifPresent(keys -> runner.signCommandsWith(new CommandSigner(keys, signingClock, new MessageCodec())));
             o.printf(Locale.ROOT, "pulse-test: unit %s on %s, plan %s; caps %.1f MW, %.0f s. Type q and Enter to stop.%n",
                     unit, broker, plan.name(), caps.maxExcursionMw(), caps.maxDurationS());
             PulseTestRunner r = runner;
@@ -112,7 +155,12 @@ public final class PulseTestCommand implements Callable<Integer> {
         Path html = PulseTestRunFolder.write(dir, result, plan, siteUnit.siteId(), cfg);
         print(o, result);
         o.println("report: " + html);
-        return result.verdict() == PulseTestResult.Verdict.PASS ? 0 : 1;
+        // a programme refused before anything was sent (caps, range, unit state) is a safety refusal
+        return switch (result.verdict()) {
+            case PASS -> 0;
+            case REFUSED -> 3;
+            default -> 1;
+        };
     }
 
     static void print(PrintStream o, PulseTestResult r) {

@@ -81,6 +81,7 @@ public final class IntakeRouter {
     private final Map<String, List<Schedule>> schedules = new LinkedHashMap<>();
     private final Set<String> skewReported = new HashSet<>();
     private Consumer<ClockTick> clockListener = t -> { };
+    private RouteProbe routeProbe;
     private long messagesRouted;
 
     public IntakeRouter(ControllerSiteConfig site, Clock clock, MessageCodec codec, IntakeObserver observer) {
@@ -109,6 +110,24 @@ public final class IntakeRouter {
         this.clockListener = listener;
     }
 
+    /**
+     * Told of every message once it has been decoded, validated and stored (or rejected), on the
+     * draining thread. For measurements (the bus benchmark); null removes it.
+     */
+    @FunctionalInterface
+    public interface RouteProbe {
+        /**
+         * @param message     the message as the bus handed it over (its receivedNanos: bus arrival)
+         * @param routedNanos the clock's monotonic time after routing, ns
+         */
+        void routed(InboundMessage message, long routedNanos);
+    }
+
+    /** @param probe told after each message is routed, or null for none */
+    public void setRouteProbe(RouteProbe probe) {
+        this.routeProbe = probe;
+    }
+
     /** @return the topic filters to subscribe to, for this site */
     public List<String> subscriptions() {
         TopicTree tree = TopicTree.forSite(site.siteId());
@@ -132,6 +151,10 @@ public final class IntakeRouter {
         Arrival a;
         while ((a = queue.poll()) != null) {
             route(a.message().topic(), a.message().payload(), a.receivedAtMs());
+            RouteProbe probe = routeProbe;
+            if (probe != null) {
+                probe.routed(a.message(), clock.monotonicNanos());
+            }
             n++;
         }
         return n;

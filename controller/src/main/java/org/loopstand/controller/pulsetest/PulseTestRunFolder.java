@@ -133,9 +133,8 @@ public final class PulseTestRunFolder {
         List<MetricSection> sections = new ArrayList<>();
         for (StepResult s : r.steps()) {
             StepMeasurement m = s.evidence().measurement();
-            // The report has two metric groups; per-step response figures go under the first.
             sections.add(new MetricSection("Step " + (s.index() + 1) + ": " + s.evidence().window().label(),
-                    MetricSection.Group.FREQUENCY_QUALITY, List.of(
+                    MetricSection.Group.UNIT_RESPONSE, List.of(
                             Metric.of("requested change", m.requestedChangeMw(), 2, "MW", "declared pulse rate × pulse time"),
                             Metric.of("measured change", m.measuredChangeMw(), 2, "MW", "final mean − baseline mean"),
                             Metric.of("dead time", m.deadTimeS(), 1, "s", "10–90 % fit meets baseline, from first pulse"),

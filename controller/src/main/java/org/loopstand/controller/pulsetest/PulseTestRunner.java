@@ -29,6 +29,7 @@ import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.message.UnitStatus;
 import org.loopstand.protocol.message.UnitTelemetry;
 import org.loopstand.protocol.message.Validity;
+import org.loopstand.protocol.security.CommandSigner;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.topic.TopicTree;
 
@@ -75,6 +76,7 @@ public final class PulseTestRunner implements Agent {
     private long nextSeq;
     private UnitTelemetry latest;
     private long lastGoodMs = -1;
+    private CommandSigner signer;
 
     /**
      * @param siteDeclaration declared data from the site file, or null to take it from telemetry
@@ -97,6 +99,12 @@ public final class PulseTestRunner implements Agent {
         this.startedMs = clock.epochMillis();
         // Seq rises across runs (the unit refuses a seq it has seen from this controller id).
         this.nextSeq = startedMs;
+    }
+
+    /** Signs every pulse from now on (call before the run starts); without it pulses go out unsigned. */
+    public PulseTestRunner signCommandsWith(CommandSigner commandSigner) {
+        this.signer = commandSigner;
+        return this;
     }
 
     @Override
@@ -280,8 +288,9 @@ public final class PulseTestRunner implements Agent {
 
     private void send(TimedPulse p, int stepIndex, long now) {
         long seq = nextSeq++;
-        UnitCommand c = UnitCommand.pulse(seq, now, unitId, CONTROLLER_ID, epoch,
+        UnitCommand unsigned = UnitCommand.pulse(seq, now, unitId, CONTROLLER_ID, epoch,
                 now + plan.settings().commandValidityMs(), p.direction(), p.durationMs());
+        UnitCommand c = signer == null ? unsigned : signer.sign(unsigned);
         long expiryS = Math.max(1, (plan.settings().commandValidityMs() + 999) / 1000);
         sent.add(new SentPulse(seq, now, stepIndex, p.direction(), p.durationMs()));
         bus.publish(new OutboundMessage(topics.unitCommand(unitId), codec.encode(c), Qos.AT_LEAST_ONCE, false, expiryS))

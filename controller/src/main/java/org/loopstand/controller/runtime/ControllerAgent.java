@@ -37,6 +37,7 @@ import org.loopstand.protocol.message.CommandAck;
 import org.loopstand.protocol.message.ControllerState;
 import org.loopstand.protocol.message.ControllerStatus;
 import org.loopstand.protocol.message.UnitCommand;
+import org.loopstand.protocol.security.CommandSigner;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.topic.TopicTree;
 import org.slf4j.Logger;
@@ -72,6 +73,8 @@ public final class ControllerAgent implements Agent {
     private final ConcurrentLinkedQueue<String> publishFailures = new ConcurrentLinkedQueue<>();
     private final ConcurrentLinkedQueue<Map<String, Object>> journalEvents = new ConcurrentLinkedQueue<>();
     private volatile boolean linkUp;
+    private CommandSigner signer;
+    private long unsignable;
     private CycleScheduler scheduler;
     private CycleOutcome lastOutcome;
     private long commandSeq;
@@ -111,6 +114,20 @@ public final class ControllerAgent implements Agent {
         if (busClock != null) {
             intake.onClockTick(busClock::onTick);
         }
+    }
+
+    /**
+     * Signs every command from now on (HMAC with the target unit's current key). Without a signer
+     * commands go out unsigned, which only an insecure demo unit accepts. Call before {@link #onStart}.
+     */
+    public ControllerAgent signCommandsWith(CommandSigner commandSigner) {
+        this.signer = commandSigner;
+        return this;
+    }
+
+    /** @return commands not sent because no key was valid for their unit */
+    public long unsignableCommands() {
+        return unsignable;
     }
 
     /** @return the retained status to register as the bus connection's last will */
@@ -235,6 +252,16 @@ public final class ControllerAgent implements Agent {
                         c.direction() == PulseDirection.RAISE ? org.loopstand.protocol.message.PulseDirection.RAISE
                                 : org.loopstand.protocol.message.PulseDirection.LOWER, c.durationMs())
                 : UnitCommand.setpoint(seq, nowMs, c.unitId(), controllerId, epoch, c.validUntilMs(), c.setpointMw());
+        if (signer != null) {
+            try {
+                cmd = signer.sign(cmd);
+            } catch (IllegalStateException e) {
+                // no key for the unit: an unsigned command would only be refused, so none is sent
+                unsignable++;
+                publishFailures.add("command " + seq + " to " + c.unitId() + " not signed: " + e.getMessage());
+                return;
+            }
+        }
         long expiryS = Math.max(1, (c.validUntilMs() - nowMs + 999) / 1000);
         OutboundMessage m = new OutboundMessage(topics.unitCommand(c.unitId()), codec.encode(cmd), Qos.AT_LEAST_ONCE,
                 false, expiryS);

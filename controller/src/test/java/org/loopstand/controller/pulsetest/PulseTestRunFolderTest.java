@@ -28,6 +28,9 @@ class PulseTestRunFolderTest {
         String page = Files.readString(html);
         assertThat(page).contains("id=\"verdict\">FAIL").contains("control room and the grid operator")
                 .contains("staircase raise 1/1: gain").contains("Requested vs measured output unit-a");
+        // per-step figures under their own heading, not under the rehearsal's frequency quality
+        assertThat(page).contains("<section id=\"unit-response\">\n<h2>Unit response</h2>")
+                .contains("Step 2: staircase raise 1/1").doesNotContain("id=\"frequency-quality\"");
         assertThat(dir.getFileName().toString()).isEqualTo("20260101T000000-pulse-test-unit-a");
     }
 }

@@ -32,7 +32,7 @@ class PulseTestRunnerTest {
             assertThat(m.rampMwPerMin()).isCloseTo(12.0, within(0.36));       // ±3 %
             assertThat(m.gainMwPerPulseS()).isCloseTo(30.0 / 60, within(0.015)); // ±3 % of 0.5
             assertThat(m.deadTimeS()).isCloseTo(4.0, within(0.5));
-            assertThat(Math.abs(m.measuredChangeMw())).isCloseTo(6.0, within(0.1));
+            assertThat(Math.abs(m.measuredChangeMw())).isCloseTo(12.0, within(0.1));
         }
         assertThat(r.findings()).isEmpty();
         assertThat(r.verdict()).isEqualTo(PulseTestResult.Verdict.PASS);
@@ -94,7 +94,7 @@ class PulseTestRunnerTest {
         rig.runner(new PlanLimits(5, 900), org.loopstand.controller.pulsetest.safety.AbortSwitch.NEVER);
         PulseTestResult r = rig.run();
         assertThat(r.verdict()).isEqualTo(PulseTestResult.Verdict.REFUSED);
-        assertThat(r.record().stopReason()).contains("6.00 MW").contains("cap of 5.00 MW");
+        assertThat(r.record().stopReason()).contains("12.00 MW").contains("cap of 5.00 MW");
         assertThat(rig.unit.commandsReceived).isZero();
     }
 

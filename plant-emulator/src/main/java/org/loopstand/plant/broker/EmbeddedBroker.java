@@ -39,6 +39,7 @@ public final class EmbeddedBroker implements AutoCloseable {
     private int port;
     private Path home;
     private EmbeddedHiveMQ hivemq;
+    private BrokerAuthExtension auth;
 
     /**
      * @param bindAddress address to listen on, normally 127.0.0.1
@@ -50,6 +51,23 @@ public final class EmbeddedBroker implements AutoCloseable {
             throw new IllegalArgumentException("port must be in 0..65535 (0 = any free port), got " + port);
         }
         this.requestedPort = port;
+    }
+
+    /**
+     * Turns broker auth on for the next start: users and topic rules from the extension; without it
+     * the broker accepts anonymous clients (the loopback demo).
+     */
+    public synchronized EmbeddedBroker withAuth(BrokerAuthExtension extension) {
+        if (hivemq != null) {
+            throw new IllegalStateException("set auth before start()");
+        }
+        this.auth = Objects.requireNonNull(extension, "extension");
+        return this;
+    }
+
+    /** @return whether clients must authenticate */
+    public synchronized boolean authEnabled() {
+        return auth != null;
     }
 
     /** A broker on 127.0.0.1:1884. */
@@ -75,8 +93,12 @@ public final class EmbeddedBroker implements AutoCloseable {
             Path data = Files.createDirectories(home.resolve("data"));
             Path extensions = Files.createDirectories(home.resolve("extensions"));
             Files.writeString(config.resolve("config.xml"), configXml());
-            hivemq = EmbeddedHiveMQ.builder().withConfigurationFolder(config).withDataFolder(data)
-                    .withExtensionsFolder(extensions).withoutLoggingBootstrap().build();
+            var builder = EmbeddedHiveMQ.builder().withConfigurationFolder(config).withDataFolder(data)
+                    .withExtensionsFolder(extensions).withoutLoggingBootstrap();
+            if (auth != null) {
+                builder.withEmbeddedExtension(auth.embedded());
+            }
+            hivemq = builder.build();
             hivemq.start().get(timeout.toMillis(), TimeUnit.MILLISECONDS);
         } catch (IOException e) {
             cleanUp();
@@ -93,7 +115,7 @@ public final class EmbeddedBroker implements AutoCloseable {
             Thread.currentThread().interrupt();
             throw new IllegalStateException("interrupted while starting the embedded broker", e);
         }
-        LOG.info("embedded broker listening on {} (started in {} ms)", serverUri(),
+        LOG.info("embedded broker listening on {}{} (started in {} ms)", serverUri(), auth != null ? " with auth" : "",
                 (SystemTime.wallMonotonicNanos() - startNanos) / 1_000_000);
         return this;
     }

@@ -30,9 +30,21 @@ import org.loopstand.plant.runtime.PlantRunner;
 import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.Scenario;
 import org.loopstand.plant.scenario.ScenarioEvent;
-import org.loopstand.plant.scenario.ScenarioLoader;
+import org.loopstand.plant.scenario.RunScenario;
+import org.loopstand.plant.scenario.RunScenarioLoader;
+import org.loopstand.plant.check.RunRecord;
+import org.loopstand.plant.fault.FaultObserver;
+import org.loopstand.protocol.bus.Qos;
+import org.loopstand.protocol.message.ControllerStatus;
+import org.loopstand.plant.fault.FaultEngine;
+import org.loopstand.plant.fault.FaultLog;
+import org.loopstand.plant.runtime.FaultHooks;
 import org.loopstand.plant.site.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
+import org.loopstand.plant.runtime.UnitHost;
+import org.loopstand.protocol.security.AuthOptions;
+import org.loopstand.protocol.security.LinkSecurity;
+import org.loopstand.protocol.security.SecuritySetupException;
 import org.loopstand.protocol.time.AcceleratedClock;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.SystemTime;
@@ -48,7 +60,7 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--site", required = true, description = "site file (YAML)")
     Path site;
 
-    @Option(names = "--scenario", description = "scenario file (YAML): seed, step, events")
+    @Option(names = "--scenario", description = "scenario file (YAML): seed, step, events, faults (see docs/faults.md)")
     Path scenarioFile;
 
     @Option(names = "--broker", description = "broker URL, e.g. tcp://127.0.0.1:1883; default: start the embedded broker on 127.0.0.1:1884")
@@ -102,14 +114,19 @@ public final class PlantCommand implements Callable<Integer> {
     @Mixin
     InterfaceMixin iface;
 
+    @Mixin
+    AuthOptions auth;
+
     @Override
     public Integer call() throws Exception {
         Grid grid;
         Scenario scenario = null;
+        RunScenario rehearsal = null;
         try {
             grid = SiteLoader.load(site);
             if (scenarioFile != null) {
-                scenario = ScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
+                rehearsal = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
+                scenario = rehearsal.scenario();
             }
         } catch (ConfigFileException e) {
             System.err.println("refused:");
@@ -128,10 +145,26 @@ public final class PlantCommand implements Callable<Integer> {
                 : new GridSimulator(grid, stepS, scenario.seed(), scenario.startHourOfDay());
         List<ScenarioEvent> events = scenario == null ? List.of() : scenario.events();
 
+        LinkSecurity security;
         EmbeddedBroker embedded = null;
+        try {
+            security = auth.resolve(broker != null ? broker : "tcp://" + EmbeddedBroker.DEFAULT_BIND_ADDRESS + ":"
+                    + embeddedPort, System.getenv());
+            PlantSecurity.checkGrouping(security, options.grouping());
+            if (broker == null) {
+                embedded = new EmbeddedBroker(EmbeddedBroker.DEFAULT_BIND_ADDRESS, embeddedPort);
+                var brokerAuth = PlantSecurity.embeddedAuth(security, grid, options.interfaces().acceptedControllers());
+                if (brokerAuth != null) {
+                    embedded.withAuth(brokerAuth);
+                }
+            }
+        } catch (SecuritySetupException e) {
+            System.err.println("plant: " + e.getMessage());
+            return 2;
+        }
+        System.err.println(security.startMessage());
         String uri = broker;
         if (uri == null) {
-            embedded = new EmbeddedBroker("127.0.0.1", embeddedPort);
             try {
                 embedded.start(Duration.ofSeconds(30));
             } catch (IllegalStateException e) {
@@ -143,7 +176,10 @@ public final class PlantCommand implements Callable<Integer> {
         HeldStartClock held = waitGo ? new HeldStartClock(WallClock.INSTANCE, rate) : null;
         Clock clock = held != null ? held
                 : rate == 1.0 ? WallClock.INSTANCE : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
-        PlantRunner runner = new PlantRunner(sim, events, options, MqttLinks.to(uri, WallClock.INSTANCE), clock, PlantCommand::say);
+        PlantRunner runner = new PlantRunner(sim, events, options, MqttLinks.to(uri, WallClock.INSTANCE, security, grid.siteId()),
+                clock, PlantCommand::say);
+        PlantSecurity.requireSignedCommands(security, runner.hosts().stream().map(UnitHost::unit).toList(), clock);
+        PlantRunJournal runJournal = null;
         if (journalDir != null) {
             if (!(truthIntervalS > 0)) {
                 System.err.println("refused: --truth-interval-s must be positive, got " + truthIntervalS);
@@ -151,27 +187,32 @@ public final class PlantCommand implements Callable<Integer> {
                 closeQuietly(embedded);
                 return 2;
             }
-            Map<String, Object> header = new LinkedHashMap<>();
-            header.put("site", grid.siteId());
-            header.put("siteFile", site.getFileName().toString());
-            header.put("scenario", scenarioFile == null ? null : scenarioFile.getFileName().toString());
-            header.put("scenarioDurationS", scenario == null ? null : scenario.durationS());
-            header.put("rate", rate);
-            header.put("seed", seed);
-            header.put("scenarioSeed", scenario == null ? null : scenario.seed());
-            header.put("broker", uri);
-            header.put("embeddedBroker", embedded != null);
-            header.put("grouping", options.grouping().cliName());
-            header.put("stepS", sim.stepS());
-            header.put("loopstandVersion", PlantCli.VERSION);
-            header.put("javaVersion", System.getProperty("java.version"));
-            header.put("areas", areaHeader(grid));
-            Map<String, String> unitAreas = new LinkedHashMap<>();
-            grid.units().forEach(u -> unitAreas.put(u.id(), u.area()));
-            header.put("units", unitAreas);
-            header.put("events", events.stream().map(e -> e.type() + "@" + trim(e.atS()) + "s").toList());
-            runner.journalTo(PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), header, clock, WallClock.INSTANCE),
-                    truthIntervalS);
+            runJournal = PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), journalHeader(grid, scenario, events,
+                    uri, embedded != null, options, sim), clock, WallClock.INSTANCE);
+            runner.journalTo(runJournal, truthIntervalS);
+        }
+        RunRecord record = new RunRecord(runner.agent().epochMsAt(0));
+        List<FaultObserver> observers = new ArrayList<>(List.of(new FaultLog(), record));
+        if (runJournal != null) {
+            observers.add(runJournal);
+        }
+        FaultObserver observer = FaultObserver.all(observers);
+        FaultEngine faults = new FaultEngine(clock, clock.epochMillis(), observer);
+        if (rehearsal != null) {
+            for (var f : rehearsal.faults()) {
+                faults.schedule(f).ifPresent(why -> say("plant: fault " + f.id() + " not scheduled: " + why));
+            }
+        }
+        FaultHooks.wire(runner, faults, observer, record, clock, scenario == null ? 0 : scenario.seed(), true);
+        if (rehearsal != null) {
+            runner.agent().checkWith(record, rehearsal.checks(), PlantCommand::say);
+            // the controller's statuses, as the plant sees them, for the checks on the controller's decisions
+            runner.plantBus().subscribe(runner.topics().filterAll(org.loopstand.protocol.topic.TopicKind.CONTROLLER_STATUS),
+                    Qos.AT_LEAST_ONCE, m -> {
+                        long at = clock.epochMillis();
+                        new org.loopstand.protocol.codec.MessageCodec().decode(m.payload(), ControllerStatus.class).message()
+                                .ifPresent(st -> runner.agent().runOnLoop(() -> record.controllerStatus(at, st)));
+                    });
         }
         if (scenario != null) {
             runner.agent().endAt(scenario.durationS());
@@ -232,6 +273,30 @@ public final class PlantCommand implements Callable<Integer> {
         }
         closeAll.run();
         return 0;
+    }
+
+    private Map<String, Object> journalHeader(Grid grid, Scenario scenario, List<ScenarioEvent> events, String uri,
+                                              boolean embedded, PlantOptions options, GridSimulator sim) {
+        Map<String, Object> header = new LinkedHashMap<>();
+        header.put("site", grid.siteId());
+        header.put("siteFile", site.getFileName().toString());
+        header.put("scenario", scenarioFile == null ? null : scenarioFile.getFileName().toString());
+        header.put("scenarioDurationS", scenario == null ? null : scenario.durationS());
+        header.put("rate", rate);
+        header.put("seed", seed);
+        header.put("scenarioSeed", scenario == null ? null : scenario.seed());
+        header.put("broker", uri);
+        header.put("embeddedBroker", embedded);
+        header.put("grouping", options.grouping().cliName());
+        header.put("stepS", sim.stepS());
+        header.put("loopstandVersion", PlantCli.VERSION);
+        header.put("javaVersion", System.getProperty("java.version"));
+        header.put("areas", areaHeader(grid));
+        Map<String, String> unitAreas = new LinkedHashMap<>();
+        grid.units().forEach(u -> unitAreas.put(u.id(), u.area()));
+        header.put("units", unitAreas);
+        header.put("events", events.stream().map(e -> e.type() + "@" + trim(e.atS()) + "s").toList());
+        return header;
     }
 
     /** Per area what the report needs: nominal frequency, bias β (MW/Hz, positive), scheduled net interchange. */

@@ -9,6 +9,9 @@ import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.runtime.UnitProcess;
 import org.loopstand.plant.site.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
+import org.loopstand.protocol.security.AuthOptions;
+import org.loopstand.protocol.security.LinkSecurity;
+import org.loopstand.protocol.security.SecuritySetupException;
 import org.loopstand.protocol.time.AcceleratedClock;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.SystemTime;
@@ -36,6 +39,9 @@ public final class UnitCommand implements Callable<Integer> {
     @Mixin
     InterfaceMixin iface;
 
+    @Mixin
+    AuthOptions auth;
+
     @Override
     public Integer call() throws Exception {
         Grid grid;
@@ -50,11 +56,20 @@ public final class UnitCommand implements Callable<Integer> {
             System.err.println("refused: unit '" + unit + "' is not in site " + grid.siteId());
             return 2;
         }
+        LinkSecurity security;
+        try {
+            security = auth.resolve(broker, System.getenv());
+        } catch (SecuritySetupException e) {
+            System.err.println("unit: " + e.getMessage());
+            return 2;
+        }
+        System.err.println(security.startMessage());
         Clock clock = rate == 1.0 ? WallClock.INSTANCE : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
         UnitProcess process;
         try {
             process = new UnitProcess(grid.siteId(), grid.units().get(grid.unitIndex(unit)), iface.options(), iface.qos(),
-                    MqttLinks.to(broker, WallClock.INSTANCE), clock);
+                    MqttLinks.to(broker, WallClock.INSTANCE, security, grid.siteId()), clock);
+            PlantSecurity.requireSignedCommands(security, java.util.List.of(process.unitInterface()), clock);
         } catch (IllegalArgumentException e) {
             System.err.println("refused: " + e.getMessage());
             return 2;

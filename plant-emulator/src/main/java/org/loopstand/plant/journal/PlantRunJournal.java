@@ -33,7 +33,7 @@ import org.loopstand.protocol.time.Clock;
  * second. Every method is synchronized: the plant loop is the usual caller, but a shutdown hook may
  * close it.
  */
-public final class PlantRunJournal implements PlantJournal.Sink, AutoCloseable {
+public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.plant.fault.FaultObserver, AutoCloseable {
     /** Histogram tags, with their units. */
     public static final String STEP_LATENESS_US = "stepLatenessUs";
     public static final String COMMAND_TO_REFERENCE_US = "commandToReferenceUs";
@@ -42,10 +42,71 @@ public final class PlantRunJournal implements PlantJournal.Sink, AutoCloseable {
     private final JournalWriter journal;
     private final HistogramLogs histograms;
     private final ObjectMapper mapper = new ObjectMapper();
+    private final org.loopstand.plant.fault.FaultJournal faults;
 
     private PlantRunJournal(JournalWriter journal, HistogramLogs histograms) {
         this.journal = journal;
         this.histograms = histograms;
+        this.faults = new org.loopstand.plant.fault.FaultJournal(journal);
+    }
+
+    // ---- faults: written by the fault library's own journal format (kind fault, commandFault, published)
+
+    @Override
+    public synchronized void faultStarted(long tMs, org.loopstand.plant.fault.FaultSpec spec, String source) {
+        if (!journal.isClosed()) {
+            faults.faultStarted(tMs, spec, source);
+        }
+    }
+
+    @Override
+    public synchronized void faultStopped(long tMs, org.loopstand.plant.fault.FaultSpec spec, String source, String reason) {
+        if (!journal.isClosed()) {
+            faults.faultStopped(tMs, spec, source, reason);
+        }
+    }
+
+    @Override
+    public synchronized void faultRefused(long tMs, String orderId, String reason) {
+        if (!journal.isClosed()) {
+            faults.faultRefused(tMs, orderId, reason);
+        }
+    }
+
+    @Override
+    public synchronized void published(long tMs, org.loopstand.plant.fault.Publication p) {
+        if (!journal.isClosed()) {
+            faults.published(tMs, p);
+        }
+    }
+
+    @Override
+    public synchronized void commandPassed(long tMs, org.loopstand.protocol.message.UnitCommand command, String fate,
+                                           List<String> faultIds) {
+        if (!journal.isClosed()) {
+            faults.commandPassed(tMs, command, fate, faultIds);
+        }
+    }
+
+    /** A scenario check as decided at the end of the run: the report's pass/fail table reads these. */
+    public synchronized void check(long tMs, org.loopstand.plant.check.CheckOutcome o) {
+        if (journal.isClosed()) {
+            return;
+        }
+        Map<String, Object> f = new LinkedHashMap<>();
+        f.put("name", o.name());
+        f.put("passed", o.passed());
+        f.put("decidingFigure", Double.isNaN(o.decidingFigure()) ? "n/a" : fmt(o.decidingFigure()) + " " + o.unit());
+        f.put("limit", fmt(o.limit()) + " " + o.unit());
+        f.put("source", o.detail() + (o.controllerSide() ? " [controller side]" : ""));
+        f.put("figure", Double.isNaN(o.decidingFigure()) ? null : o.decidingFigure());
+        f.put("unit", o.unit());
+        journal.append(tMs, "check", f);
+    }
+
+    private static String fmt(double v) {
+        return Double.isNaN(v) ? "n/a" : v == Math.rint(v) && Math.abs(v) < 1e12 ? Long.toString((long) v)
+                : String.format(java.util.Locale.ROOT, "%.3f", v);
     }
 
     /**
@@ -179,12 +240,13 @@ public final class PlantRunJournal implements PlantJournal.Sink, AutoCloseable {
         }
     }
 
-    /** A fault order as received (start or stop). */
-    public synchronized void fault(long tMs, FaultOrder o) {
+    /** An operator order as received (returnToRemote, setControlMode, unitLinkDown), as an event. */
+    public synchronized void operatorOrder(long tMs, FaultOrder o) {
         if (journal.isClosed()) {
             return;
         }
         Map<String, Object> f = new LinkedHashMap<>();
+        f.put("event", "operatorOrder");
         f.put("action", o.action().name().toLowerCase(java.util.Locale.ROOT));
         f.put("orderId", o.orderId());
         f.put("faultType", o.faultType());
@@ -193,7 +255,7 @@ public final class PlantRunJournal implements PlantJournal.Sink, AutoCloseable {
         if (o.durationS() != null) {
             f.put("durationS", o.durationS());
         }
-        journal.append(tMs, JournalFormat.KIND_FAULT, f);
+        journal.append(tMs, JournalFormat.KIND_EVENT, f);
     }
 
     /** Records one value of a histogram quantity (tags above). */

@@ -45,7 +45,7 @@ public final class Rehearsal {
     }
 
     static final String CONTROLLER_ID = "controller-1";
-    private static final Pattern TOP_KEY = Pattern.compile("^(site|siteId|durationS):\\s*([^#\\s]+)");
+    private static final Pattern TOP_KEY = Pattern.compile("^(site|siteId|durationS|rateX):\\s*([^#\\s]+)");
 
     private final RehearsalSettings s;
     private final Clock wall;

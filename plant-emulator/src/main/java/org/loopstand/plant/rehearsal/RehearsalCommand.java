@@ -19,9 +19,9 @@ import picocli.CommandLine.Parameters;
                 + " processes, progress on the terminal, journals and report in runs/<timestamp>-<scenario>/.",
                 "CAUTION: the controller sends raise/lower commands; rehearse only against the emulator or a test broker."})
 public final class RehearsalCommand implements Callable<Integer> {
-    static final String DEFAULT_SCENARIO = "config/scenarios/unit-trip.yaml";
-    /** Default rate: the 600 s demo scenario in about two minutes. */
-    static final double DEFAULT_RATE = 5;
+    static final String DEFAULT_SCENARIO = "config/scenarios/rehearse-unit-trip.yaml";
+    /** Wall time a rehearsal aims at when the scenario names no rateX, s. */
+    static final double TARGET_WALL_S = 120;
 
     @Parameters(arity = "0..1", paramLabel = "SCENARIO", description = "scenario file (default " + DEFAULT_SCENARIO + ")")
     Path scenario;
@@ -29,8 +29,8 @@ public final class RehearsalCommand implements Callable<Integer> {
     @Option(names = "--broker", description = "use this running MQTT 5 broker (e.g. tcp://127.0.0.1:1883) instead of the embedded one")
     String broker;
 
-    @Option(names = "--rate", description = "scenario seconds per wall second (default: " + DEFAULT_RATE
-            + " for the default scenario, else the scenario's duration / 120 s, at least 1)")
+    @Option(names = "--rate", description = "scenario seconds per wall second (default: the scenario's rateX,"
+            + " else its duration / 120 s, at least 1)")
     Double rate;
 
     @Option(names = "--runs-dir", defaultValue = "runs", description = "where run folders go (default ${DEFAULT-VALUE})")
@@ -62,11 +62,11 @@ public final class RehearsalCommand implements Callable<Integer> {
         double r;
         if (rate != null) {
             r = rate;
-        } else if (scenario == null) {
-            r = DEFAULT_RATE;
+        } else if (Rehearsal.topValue(scenarioFile, "rateX") != null) {
+            r = Double.parseDouble(Rehearsal.topValue(scenarioFile, "rateX"));
         } else {
             String d = Rehearsal.topValue(scenarioFile, "durationS");
-            r = d == null ? 1 : Math.max(1, Math.ceil(Double.parseDouble(d) / 120.0));
+            r = d == null ? 1 : Math.max(1, Math.ceil(Double.parseDouble(d) / TARGET_WALL_S));
         }
         RehearsalSettings settings;
         try {

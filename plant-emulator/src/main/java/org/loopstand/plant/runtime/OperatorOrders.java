@@ -61,8 +61,8 @@ public final class OperatorOrders {
         for (byte[] p; (p = queue.poll()) != null; n++) {
             codec.decode(p, FaultOrder.class).message().ifPresent(o -> {
                 org.loopstand.plant.journal.PlantRunJournal j = journal;
-                if (j != null) {
-                    j.fault(journalClock.epochMillis(), o);
+                if (j != null && FaultHooks.OPERATOR_ORDER_TYPES.contains(o.faultType())) {
+                    j.operatorOrder(journalClock.epochMillis(), o);
                 }
                 apply(o);
             });

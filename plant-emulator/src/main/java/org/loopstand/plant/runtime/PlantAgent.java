@@ -54,6 +54,12 @@ public final class PlantAgent implements Agent, ScenarioContext {
     private double nextTruthS;
     private double endAtS = Double.NaN;
     private volatile boolean finished;
+    private final java.util.concurrent.ConcurrentLinkedQueue<Runnable> loopTasks = new java.util.concurrent.ConcurrentLinkedQueue<>();
+    private org.loopstand.plant.check.RunRecord record;
+    private List<org.loopstand.plant.check.CheckSpec> checks = List.of();
+    private java.util.function.Consumer<String> checkSink = s -> { };
+    private double nextSampleS;
+    private FaultHooks faults;
 
     public PlantAgent(Parts parts) {
         this.p = parts;
@@ -94,6 +100,24 @@ public final class PlantAgent implements Agent, ScenarioContext {
         return finished;
     }
 
+    /**
+     * Keeps a run record for the scenario's checks (call before the loop starts): truth sampled every
+     * scenario second, scenario events; when the scenario ends the checks are decided, journaled as
+     * {@code check} entries and each told to {@code sink} as one line.
+     */
+    public void checkWith(org.loopstand.plant.check.RunRecord r, List<org.loopstand.plant.check.CheckSpec> specs,
+                          java.util.function.Consumer<String> sink) {
+        this.record = r;
+        this.checks = List.copyOf(specs);
+        this.checkSink = sink;
+        this.nextSampleS = p.sim().timeS();
+    }
+
+    /** Any thread: runs {@code task} on the loop's thread at its next cycle (e.g. feeding the run record). */
+    public void runOnLoop(Runnable task) {
+        loopTasks.add(task);
+    }
+
     /** Any thread: queues a process event for the journal ({@code fields} holds {@code event}). */
     public void noteEvent(java.util.Map<String, Object> fields) {
         pendingEvents.add(fields);
@@ -102,6 +126,11 @@ public final class PlantAgent implements Agent, ScenarioContext {
     /** @return scenario epoch ms of simulated time {@code timeS} (time 0 = the agent's start) */
     public long epochMsAt(double timeS) {
         return startEpochMs + Math.round(timeS * 1000);
+    }
+
+    /** Owner thread, before start: meters publish through the fault stages, faults are updated each cycle. */
+    void attachFaults(FaultHooks hooks) {
+        this.faults = hooks;
     }
 
     @Override
@@ -117,6 +146,12 @@ public final class PlantAgent implements Agent, ScenarioContext {
     @Override
     public int doWork() {
         int work = p.orders() == null ? 0 : p.orders().work();
+        for (Runnable t; (t = loopTasks.poll()) != null; work++) {
+            t.run();
+        }
+        if (faults != null) {
+            work += faults.update(p.sim());
+        }
         long now = p.clock().monotonicNanos();
         int steps = 0;
         org.loopstand.plant.journal.PlantRunJournal j = journal;
@@ -135,6 +170,10 @@ public final class PlantAgent implements Agent, ScenarioContext {
             if (j != null) {
                 j.record(org.loopstand.plant.journal.PlantRunJournal.STEP_LATENESS_US, Math.max(0, now - due) / 1_000);
                 writeTruthIfDue(j);
+            }
+            if (record != null && p.sim().timeS() + p.sim().stepS() * 1e-6 >= nextSampleS) {
+                record.sampleTruth(p.sim().timeS(), p.sim());
+                nextSampleS += 1.0 * (Math.floor(p.sim().timeS() - nextSampleS + 1e-9) + 1);
             }
             for (UnitHost h : p.units()) {
                 work += h.work();
@@ -187,6 +226,9 @@ public final class PlantAgent implements Agent, ScenarioContext {
         while (nextEvent < events.size() && events.get(nextEvent).atS() <= p.sim().timeS() + tol) {
             ScenarioEvent e = events.get(nextEvent++);
             e.apply(this);
+            if (record != null) {
+                record.event(p.sim().timeS(), e.type(), e.toString());
+            }
             org.loopstand.plant.journal.PlantRunJournal j = journal;
             if (j != null) {
                 j.event(epochMsAt(p.sim().timeS()), eventFields(e));
@@ -216,9 +258,35 @@ public final class PlantAgent implements Agent, ScenarioContext {
         return f;
     }
 
+    /** Decides the scenario's checks over the run record (only when the scenario ran to its end). */
+    private void decideChecks(org.loopstand.plant.journal.PlantRunJournal j) {
+        if (record == null || checks.isEmpty()) {
+            return;
+        }
+        if (!finished) {
+            checkSink.accept("plant: scenario checks not decided: the run stopped at " + p.sim().timeS() + " s, before its end");
+            return;
+        }
+        record.end(p.sim().timeS());
+        for (org.loopstand.plant.check.CheckSpec c : checks) {
+            org.loopstand.plant.check.CheckOutcome o;
+            try {
+                o = c.evaluate(record, p.sim().grid());
+            } catch (RuntimeException e) {
+                o = new org.loopstand.plant.check.CheckOutcome(c.name(), false, Double.NaN, "", Double.NaN,
+                        "could not be decided: " + e.getMessage(), false);
+            }
+            checkSink.accept("plant: check " + o);
+            if (j != null) {
+                j.check(epochMsAt(p.sim().timeS()), o);
+            }
+        }
+    }
+
     @Override
     public void onClose() {
         org.loopstand.plant.journal.PlantRunJournal j = journal;
+        decideChecks(j);
         if (j != null && !j.isClosed()) {
             for (java.util.Map<String, Object> e; (e = pendingEvents.poll()) != null; ) {
                 j.event(p.clock().epochMillis(), e);
@@ -249,6 +317,13 @@ public final class PlantAgent implements Agent, ScenarioContext {
                     continue;
                 }
                 meterSent++;
+                if (faults != null) {
+                    faults.publishMeter(reading); // the fault stage decides what goes out
+                    if (j != null) {
+                        j.published(reading.sourceTime(), topic, "AreaMeter", reading.seq(), true, "throughFaultStage", payload, null);
+                    }
+                    continue;
+                }
                 p.plantBus().publish(OutboundMessage.of(topic, payload, Qos.AT_MOST_ONCE));
                 if (j != null) {
                     j.published(reading.sourceTime(), topic, "AreaMeter", reading.seq(), true, null, payload, null);

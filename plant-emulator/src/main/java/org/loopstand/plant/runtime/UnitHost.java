@@ -18,6 +18,7 @@ public final class UnitHost {
     private final UnitLink link;
     private final MessageCodec codec;
     private long overflowSeen;
+    private FaultHooks faults;
 
     public UnitHost(UnitPlantInterface unit, UnitLink link, MessageCodec codec) {
         this.unit = unit;
@@ -33,6 +34,11 @@ public final class UnitHost {
         return link;
     }
 
+    /** Owner thread, before start: inbound commands pass the command-path fault stage. */
+    void attachFaults(FaultHooks hooks) {
+        this.faults = hooks;
+    }
+
     /** @return work done (messages handled + telemetry published) */
     public int work() {
         int work = 0;
@@ -45,7 +51,9 @@ public final class UnitHost {
         for (int i = 0; i < MAX_COMMANDS_PER_CYCLE && (r = link.pollCommand()) != null; i++, work++) {
             Decoded<UnitCommand> d = codec.decode(r.payload(), UnitCommand.class);
             if (d instanceof Decoded.Ok<UnitCommand> ok) {
-                unit.onCommand(ok.value(), r.receivedNanos());
+                if (faults == null || !faults.interceptCommand(unit.unitId(), ok.value())) {
+                    unit.onCommand(ok.value(), r.receivedNanos());
+                }
             } else {
                 CommandPeek.Peeked p = CommandPeek.peek(r.payload());
                 unit.onMalformed(p.seq(), p.controllerId(), "payload refused by the codec: "

@@ -43,6 +43,7 @@ public final class UnitLink implements UnitOutput {
     private final LongAdder sendFailed = new LongAdder();
     private volatile boolean failed;
     private volatile org.loopstand.plant.journal.PlantRunJournal journal;
+    private org.loopstand.plant.fault.FaultyPublisher telemetryFaults;
     private final java.util.concurrent.atomic.AtomicBoolean announceDue = new java.util.concurrent.atomic.AtomicBoolean(true);
 
     public UnitLink(String unitId, MessageBus bus, TopicTree topics, MessageCodec codec, Clock clock,
@@ -105,7 +106,32 @@ public final class UnitLink implements UnitOutput {
 
     @Override
     public void telemetry(UnitTelemetry t) {
-        send(topics.unitTelemetry(unitId), t, telemetryQos, "UnitTelemetry", t.seq());
+        if (telemetryFaults == null) {
+            send(topics.unitTelemetry(unitId), t, telemetryQos, "UnitTelemetry", t.seq());
+        } else if (failed || !bus.isConnected()) {
+            dropped.increment();
+            journalTelemetry(t, false, failed ? "linkCut" : "notConnected");
+        } else {
+            telemetryFaults.publishTelemetry(t);
+            journalTelemetry(t, true, "throughFaultStage");
+        }
+    }
+
+    private void journalTelemetry(UnitTelemetry t, boolean sent, String why) {
+        org.loopstand.plant.journal.PlantRunJournal j = journal;
+        if (j != null) {
+            j.published(clock.epochMillis(), topics.unitTelemetry(unitId), "UnitTelemetry", t.seq(), sent, why,
+                    codec.encode(t), null);
+        }
+    }
+
+    /** Owner thread, before start: telemetry goes through this fault stage (same bus, same QoS). */
+    public void setTelemetryFaults(org.loopstand.plant.fault.FaultyPublisher stage) {
+        this.telemetryFaults = stage;
+    }
+
+    public Qos telemetryQos() {
+        return telemetryQos;
     }
 
     @Override

@@ -23,6 +23,7 @@ import org.loopstand.protocol.topic.TopicTree;
 public final class UnitProcess implements AutoCloseable {
     private final MessageBus bus;
     private final UnitAgent agent;
+    private final UnitPlantInterface unitInterface;
     private final PlantJournal journal = new PlantJournal();
     private AgentRunner runner;
 
@@ -36,6 +37,7 @@ public final class UnitProcess implements AutoCloseable {
         RemoteUnitField field = new RemoteUnitField(unit.id(), bus, topics, codec, clock).start();
         UnitLink link = new UnitLink(unit.id(), bus, topics, codec, clock, telemetryQos, 256);
         UnitPlantInterface ui = new UnitPlantInterface(UnitSettings.of(unit, options), field, clock, link, journal, seqStart);
+        this.unitInterface = ui;
         UnitHost host = new UnitHost(ui, link, codec);
         bus.subscribe(topics.unitCommand(unit.id()), Qos.AT_LEAST_ONCE, m -> link.offerCommand(m.payload(), clock.monotonicNanos()));
         PlantRunner.subscribeStatus(bus, List.of(link));
@@ -61,6 +63,11 @@ public final class UnitProcess implements AutoCloseable {
     public UnitProcess start() {
         runner = new AgentRunner(agent, 1_000_000L).start();
         return this;
+    }
+
+    /** @return the unit's plant interface (e.g. to set its command verifier before {@link #start()}) */
+    public UnitPlantInterface unitInterface() {
+        return unitInterface;
     }
 
     public UnitAgent agent() {

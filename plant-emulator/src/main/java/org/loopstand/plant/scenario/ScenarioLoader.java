@@ -30,6 +30,26 @@ public final class ScenarioLoader {
     }
 
     public static Scenario load(String fileName, Reader reader, EventTypeRegistry registry, Grid grid) throws IOException {
+        return load(fileName, reader, registry, grid, null);
+    }
+
+    /**
+     * Reads the top-level keys other modules own (faults, checks, …) in the same pass, so that their
+     * problems are reported together with the physics' and no key is left unknown.
+     */
+    public interface Sections {
+        /**
+         * @param top       the scenario's top mapping (read the section's keys from it)
+         * @param durationS the run's duration, s (NaN if it was refused)
+         * @param events    the events read so far, sorted or not
+         * @param problems  where to add {@code file:line:column: what} problems
+         */
+        void read(MappingReader top, double durationS, List<ScenarioEvent> events, Grid grid, List<String> problems);
+    }
+
+    /** As {@link #load(String, Reader, EventTypeRegistry, Grid)}, also reading {@code sections} (may be null). */
+    public static Scenario load(String fileName, Reader reader, EventTypeRegistry registry, Grid grid, Sections sections)
+            throws IOException {
         List<String> problems = new ArrayList<>();
         MappingReader top = new MappingReader(YamlNode.read(fileName, reader), "the scenario", problems);
         String site = top.requiredString("site");
@@ -57,6 +77,8 @@ public final class ScenarioLoader {
             double atS = e.requiredDouble("atS");
             if (!(atS >= 0) && !e.failed("atS")) {
                 problems.add(e.locationOf("atS") + ": atS must be 0 or more, got " + atS);
+            } else if (atS >= durationS) {
+                problems.add(e.locationOf("atS") + ": atS " + atS + " s is not before the run's end (durationS " + durationS + " s)");
             }
             String type = e.requiredString("type");
             if (type == null) {
@@ -75,6 +97,9 @@ public final class ScenarioLoader {
                 wrong.ifPresent(w -> problems.add(e.location() + ": " + type + " event: " + w));
                 events.add(event);
             }
+        }
+        if (sections != null) {
+            sections.read(top, durationS, events, grid, problems);
         }
         top.finish();
         if (!problems.isEmpty()) {

@@ -47,6 +47,14 @@ public final class CommandGate {
      * @return the refusal, or null when the command may go on to the limit check
      */
     public Refusal check(UnitCommand c, long nowEpochMs, ControlMode mode, UnitStatus status) {
+        return check(c, nowEpochMs, mode, status, false);
+    }
+
+    /**
+     * As {@link #check(UnitCommand, long, ControlMode, UnitStatus)}; with {@code acceptExpired} (a plant
+     * fault) a command past validUntil is let through.
+     */
+    public Refusal check(UnitCommand c, long nowEpochMs, ControlMode mode, UnitStatus status, boolean acceptExpired) {
         if (!c.unit().equals(settings.unitId())) {
             return new Refusal(RefusalReason.MALFORMED, "command is for unit " + c.unit() + ", this is " + settings.unitId());
         }
@@ -66,7 +74,7 @@ public final class CommandGate {
             return new Refusal(RefusalReason.OUT_OF_ORDER, "seq " + c.seq() + " is older than the last seq " + last);
         }
         lastSeqByController.put(c.controllerId(), c.seq());
-        if (nowEpochMs > c.validUntil()) {
+        if (nowEpochMs > c.validUntil() && !acceptExpired) {
             return new Refusal(RefusalReason.EXPIRED, "validUntil " + c.validUntil() + " passed "
                     + (nowEpochMs - c.validUntil()) + " ms ago");
         }

@@ -4,6 +4,8 @@ import java.util.EnumMap;
 import java.util.Map;
 import java.util.concurrent.atomic.AtomicLongArray;
 
+import org.loopstand.plant.fault.CommandOutcomeListener;
+import org.loopstand.plant.fault.PlantFaultFlags;
 import org.loopstand.plant.field.UnitField;
 import org.loopstand.protocol.message.AckOutcome;
 import org.loopstand.protocol.message.CommandAck;
@@ -19,6 +21,8 @@ import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.message.UnitStatus;
 import org.loopstand.protocol.message.UnitTelemetry;
 import org.loopstand.protocol.message.Validity;
+import org.loopstand.protocol.security.CommandVerifier;
+import org.loopstand.protocol.security.VerificationResult;
 import org.loopstand.protocol.time.Clock;
 
 /**
@@ -53,6 +57,10 @@ public final class UnitPlantInterface {
     private boolean watchdogArmed;
     private volatile long accepted;
     private long lastOverflowReportNanos = Long.MIN_VALUE;
+    private PlantFaultFlags faults = PlantFaultFlags.NONE;
+    private CommandOutcomeListener outcomes = CommandOutcomeListener.NONE;
+    private boolean localByFault;
+    private CommandVerifier verifier;
 
     /**
      * @param seqStart first seq this interface publishes with (use the start time in epoch ms so a
@@ -73,6 +81,20 @@ public final class UnitPlantInterface {
         this.nextTelemetryNanos = now;
     }
 
+    /**
+     * Moves the first telemetry scan {@code phaseNanos} (modulo the scan period) later, so that many
+     * units do not all publish in the same instant. Real field devices are not synchronized; a site of
+     * thousands of units started together would otherwise send every scan as one burst.
+     *
+     * @param phaseNanos ≥ 0, ns
+     */
+    public void staggerTelemetry(long phaseNanos) {
+        if (phaseNanos < 0) {
+            throw new IllegalArgumentException("phaseNanos must be ≥ 0, got " + phaseNanos);
+        }
+        nextTelemetryNanos = lastTickNanos + phaseNanos % telemetryPeriodNanos;
+    }
+
     public String unitId() {
         return settings.unitId();
     }
@@ -81,28 +103,70 @@ public final class UnitPlantInterface {
         return settings;
     }
 
+    /** Makes this unit misbehave as its plant faults say (read on every command and tick). */
+    public void setFaultFlags(PlantFaultFlags flags) {
+        this.faults = flags;
+    }
+
+    /** Tells {@code listener} what became of every command (for the checks' run record). */
+    public void setCommandListener(CommandOutcomeListener listener) {
+        this.outcomes = listener;
+    }
+
+    /**
+     * Requires every command to be signed and fresh: the verifier's checks (signature, key, expiry,
+     * replay) run before every other command rule, so a forged or replayed command never touches the
+     * gate's seq history or the load reference. Without a verifier (insecure demo) signatures are not
+     * looked at. Call before the first command; one verifier (one replay memory) per process.
+     */
+    public UnitPlantInterface verifyCommandsWith(CommandVerifier commandVerifier) {
+        this.verifier = commandVerifier;
+        return this;
+    }
+
+    /** @return whether commands must be signed (a verifier is set) */
+    public boolean verifiesCommands() {
+        return verifier != null;
+    }
+
     /** Handles a command as received; {@code receivedNanos} on this interface's clock. */
     public void onCommand(UnitCommand c, long receivedNanos) {
         long nowMs = clock.epochMillis();
+        if (verifier != null) {
+            VerificationResult v = verifier.verify(settings.unitId(), c);
+            if (!v.accepted()) {
+                refuse(c, c.seq(), c.controllerId(), new Refusal(v.reason(), v.detail()));
+                outcomes.handled(nowMs, c, AckOutcome.REJECTED, v.reason(), false);
+                return;
+            }
+        }
         if (!ensureMotion()) {
             refuse(c, c.seq(), c.controllerId(), new Refusal(RefusalReason.UNIT_OFFLINE, "no field reading from the unit yet"));
+            outcomes.handled(nowMs, c, AckOutcome.REJECTED, RefusalReason.UNIT_OFFLINE, false);
             return;
         }
-        Refusal r = gate.check(c, nowMs, mode, field.status());
+        Refusal r = gate.check(c, nowMs, mode, field.status(), faults.applyExpiredCommands());
         if (r == null && c.kind() == CommandKind.PULSE && motion.headroomMw(c.direction()) <= 0) {
             r = new Refusal(RefusalReason.AT_LIMIT, "load reference target " + motion.targetMw() + " MW is at the "
                     + (c.direction() == PulseDirection.RAISE ? "upper" : "lower") + " regulating limit");
         }
         if (r != null) {
             refuse(c, c.seq(), c.controllerId(), r);
+            outcomes.handled(nowMs, c, AckOutcome.REJECTED, r.reason(), false);
             return;
         }
         double targetBeforeMw = motion.targetMw();
         String detail;
         double sign;
+        boolean acted = true;
         if (c.kind() == CommandKind.PULSE) {
             double askedMw = settings.pulseRateMwPerMin() * c.durationMs() / 60_000.0;
-            double takenMw = motion.pulse(c.direction(), c.durationMs());
+            PulseDirection wired = faults.swapRaiseLower()
+                    ? (c.direction() == PulseDirection.RAISE ? PulseDirection.LOWER : PulseDirection.RAISE) : c.direction();
+            acted = !faults.ignorePulses();
+            // an ignored pulse is acked as if taken: the controller must find out from the output
+            double takenMw = acted ? motion.pulse(wired, c.durationMs())
+                    : (c.direction() == PulseDirection.RAISE ? askedMw : -askedMw);
             sign = Math.signum(takenMw);
             detail = Math.abs(takenMw) < askedMw - 1e-9
                     ? String.format(java.util.Locale.ROOT, "atLimit: moved %.3f MW of %.3f MW asked", Math.abs(takenMw), askedMw)
@@ -118,6 +182,7 @@ public final class UnitPlantInterface {
         latency.accepted(receivedNanos, field.outputMw(), sign);
         journal.command(nowMs, fate(c, c.seq(), c.controllerId(), "accepted", null, detail, targetBeforeMw, motion.targetMw()));
         output.ack(new CommandAck(seq++, nowMs, settings.unitId(), c.seq(), c.controllerId(), AckOutcome.ACCEPTED, null, detail));
+        outcomes.handled(nowMs, c, AckOutcome.ACCEPTED, null, acted);
     }
 
     /** Handles a payload that did not decode as a command (never applied). */
@@ -174,6 +239,8 @@ public final class UnitPlantInterface {
         long now = clock.monotonicNanos();
         long dt = Math.max(0, now - lastTickNanos);
         lastTickNanos = now;
+        followLocalFault();
+        dt = Math.round(dt / faults.slowFactor());
         if (ensureMotion()) {
             if (field.status() != UnitStatus.ONLINE) {
                 motion.reset(field.loadReferenceMw());
@@ -207,6 +274,19 @@ public final class UnitPlantInterface {
                 setpoint, ready ? field.status() : UnitStatus.OFFLINE, mode, settings.regulatingMinMw(),
                 settings.regulatingMaxMw(), settings.rampMwPerMin(), settings.pulseRateMwPerMin(),
                 settings.acceptsSetpoints(), lastAcceptedSeq);
+    }
+
+    /** A switch-to-local plant fault takes the unit out of remote; its end gives remote back. */
+    private void followLocalFault() {
+        if (faults.forcedLocal() && !localByFault && mode == ControlMode.REMOTE) {
+            localByFault = true;
+            setControlMode(ControlMode.LOCAL, "plant fault: switched to local at the plant");
+        } else if (!faults.forcedLocal() && localByFault) {
+            localByFault = false;
+            if (mode == ControlMode.LOCAL) {
+                setControlMode(ControlMode.REMOTE, "plant fault ended: back to remote");
+            }
+        }
     }
 
     private void checkWatchdog(long now) {

@@ -40,6 +40,16 @@ public final class BusCounters {
         dropped.increment();
     }
 
+    /** Adds another connection's counts to these (for a bus made of several connections). */
+    public void addAll(BusCounters other) {
+        received.add(other.received());
+        rejected.add(other.rejected());
+        sent.add(other.sent());
+        sendFailed.add(other.sendFailed());
+        reconnects.add(other.reconnects());
+        dropped.add(other.dropped());
+    }
+
     public long received() {
         return received.sum();
     }

@@ -88,7 +88,7 @@ public final class AuthPolicy {
                     + "are not sent in the clear");
         }
         if (!s.hasKeys()) {
-            problems.add("no command keys (set " + KeyRing.KEYS_FILE_ENV + " or --keys-file; or --insecure on loopback)");
+            problems.add("no command keys (set " + KeyRing.KEYS_FILE_ENV + " or --keys FILE; or --insecure on loopback)");
         }
         return new Decision(problems.isEmpty(), false, problems);
     }

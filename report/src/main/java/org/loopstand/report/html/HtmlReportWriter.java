@@ -84,8 +84,18 @@ public final class HtmlReportWriter {
         }
         cautions(h);
         checks(h, model);
-        metricGroup(h, model, MetricSection.Group.FREQUENCY_QUALITY, "frequency-quality", "Frequency quality");
-        metricGroup(h, model, MetricSection.Group.COMMUNICATION, "communication", "Communication");
+        // A unit response report (pulse test) shows only the groups it has figures for; a rehearsal
+        // report keeps its two groups, saying so when one is empty.
+        boolean unitReport = model.sections().stream().anyMatch(s -> s.group() == MetricSection.Group.UNIT_RESPONSE);
+        if (unitReport) {
+            metricGroup(h, model, MetricSection.Group.UNIT_RESPONSE, "unit-response", "Unit response");
+        }
+        if (!unitReport || hasGroup(model, MetricSection.Group.FREQUENCY_QUALITY)) {
+            metricGroup(h, model, MetricSection.Group.FREQUENCY_QUALITY, "frequency-quality", "Frequency quality");
+        }
+        if (!unitReport || hasGroup(model, MetricSection.Group.COMMUNICATION)) {
+            metricGroup(h, model, MetricSection.Group.COMMUNICATION, "communication", "Communication");
+        }
         charts(h, model);
         keyValues(h, "configuration", "Configuration", model.configuration());
         keyValues(h, "versions", "Versions", model.versions());
@@ -150,6 +160,10 @@ public final class HtmlReportWriter {
             h.append("</ul>\n");
         }
         h.append("</section>\n");
+    }
+
+    private static boolean hasGroup(ReportModel model, MetricSection.Group group) {
+        return model.sections().stream().anyMatch(s -> s.group() == group);
     }
 
     private static void metricGroup(StringBuilder h, ReportModel model, MetricSection.Group group, String id,

@@ -14,7 +14,9 @@ public record MetricSection(String title, Group group, List<Metric> metrics) {
     /** The report part a section is shown in. */
     public enum Group {
         FREQUENCY_QUALITY,
-        COMMUNICATION
+        COMMUNICATION,
+        /** A unit's measured response (pulse test), one section per step. */
+        UNIT_RESPONSE
     }
 
     public MetricSection {

@@ -59,7 +59,7 @@ final class RunCharts {
         TreeMap<Long, Integer> changes = new TreeMap<>();
         Map<String, Long> startedAt = new HashMap<>();
         for (JournalEntry e : JournalSeries.ofKind(plant, "fault")) {
-            String id = e.text("orderId");
+            String id = e.text("faultId") != null ? e.text("faultId") : e.text("orderId");
             if ("start".equals(e.text("action"))) {
                 startedAt.put(id, e.tMs());
                 changes.merge(e.tMs(), 1, Integer::sum);

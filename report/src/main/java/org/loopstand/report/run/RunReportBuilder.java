@@ -29,8 +29,9 @@ import org.loopstand.report.model.RunInfo;
 import org.loopstand.report.model.TimeSeries;
 
 /**
- * Fills a {@link ReportModel} from a run folder: charts, frequency-quality figures per area, scenario
- * checks (ACE recovery after each disturbance, plus any {@code check} entries a journal holds),
+ * Fills a {@link ReportModel} from a run folder: charts, frequency-quality figures per area (with the
+ * excursion and ACE recovery after each disturbance), the scenario checks (the {@code check} entries
+ * the plant journals when the scenario ends),
  * communication figures, histograms, configuration and versions. Which journal field feeds which
  * figure is listed in docs/report.md.
  */
@@ -124,8 +125,7 @@ public final class RunReportBuilder {
                     continue;
                 }
                 long until = i + 1 < disturbances.size() ? disturbances.get(i + 1).tMs() : Long.MAX_VALUE;
-                sections.add(excursionSection(a, d, clip(fTruth, d.tMs(), until)));
-                checks.add(recoveryCheck(a, d, aceA, end));
+                sections.add(excursionSection(a, d, clip(fTruth, d.tMs(), until), recoveryCheck(a, d, aceA, end)));
             }
         }
         checks.addAll(journalChecks(run));
@@ -230,8 +230,11 @@ public final class RunReportBuilder {
         return new MetricSection("Area " + a.id() + ": frequency quality", MetricSection.Group.FREQUENCY_QUALITY, m);
     }
 
-    private static MetricSection excursionSection(AreaInfo a, Disturbance d, TimeSeries f) {
+    private static MetricSection excursionSection(AreaInfo a, Disturbance d, TimeSeries f, CheckResult recovery) {
         List<Metric> m = new ArrayList<>();
+        m.add(new Metric("ACE recovery (controller ACE)", recovery.decidingFigure() + (recovery.passed() ? " (within 15 min)" : " (FAIL)"),
+                "", "back to min(0, ACE before) for a loss of supply, max(0, …) for a loss of load, within 900 s; "
+                + recovery.source()));
         Optional<FrequencyExcursion> x = FrequencyExcursion.of(f, d.tMs(), a.nominalHz(), SETTLING_BAND_HZ);
         if (x.isPresent()) {
             m.add(Metric.of("nadir", x.get().nadirHz(), 4, "Hz", "at " + relS(x.get().nadirTimeMs(), d) + " s after the event"));

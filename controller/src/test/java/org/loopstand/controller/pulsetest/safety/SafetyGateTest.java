@@ -71,4 +71,15 @@ class SafetyGateTest {
         assertThat(q.abortRequested()).isTrue();
         assertThat(q.abortRequested()).isTrue();
     }
+
+    @Test
+    void shouldSeeAQTypedRightAfterTheConfirmation() {
+        // The prompt's buffered reader takes in everything typed so far, the q after the unit id too;
+        // the abort switch on the same reader must still find it (one on System.in would not).
+        java.io.InputStream console = new java.io.ByteArrayInputStream("unit-a\nq\n".getBytes(StandardCharsets.UTF_8));
+        BufferedReader reader = new BufferedReader(new java.io.InputStreamReader(console, StandardCharsets.UTF_8));
+        assertThat(SafetyGate.admit("tcp://10.1.2.3:1883", false, true, "unit-a", reader, out)).isEmpty();
+        assertThat(new KeyAbortSwitch(console).abortRequested()).isFalse(); // the raw stream is drained
+        assertThat(new KeyAbortSwitch(reader).abortRequested()).isTrue();
+    }
 }

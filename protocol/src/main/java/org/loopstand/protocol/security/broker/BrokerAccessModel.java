@@ -20,8 +20,8 @@ import org.loopstand.protocol.topic.TopicTree;
  * <p>Identities: {@code <controllerId>} (e.g. {@code controller-1}) publishes commands and its own
  * status; {@code unit-<id>} publishes only its own telemetry, acks, link state and field reference
  * and reads only its own commands and field reading; {@code meter-<area>} publishes only its own
- * area's meters; {@code plant} (physics and scenario player) publishes clock, field readings and
- * schedules; {@code fault-tool} alone publishes fault orders.
+ * area's meters; {@code plant} (physics and scenario player) publishes clock, field readings,
+ * schedules and, since the rig's plant process emulates them, every area's meters; {@code fault-tool} alone publishes fault orders.
  */
 public final class BrokerAccessModel {
     /** Username of the physics / scenario process. */
@@ -158,6 +158,8 @@ public final class BrokerAccessModel {
                     new AclRule(Access.READWRITE, t.clock()),
                     new AclRule(Access.READWRITE, t.filterAll(TopicKind.AREA_SCHEDULE)),
                     new AclRule(Access.WRITE, t.filterAll(TopicKind.FIELD_READING)),
+                    // the rig's plant process emulates every area's meters on its own connection
+                    new AclRule(Access.WRITE, t.filterAll(TopicKind.AREA_METER)),
                     new AclRule(Access.READ, t.filterAll(TopicKind.FIELD_REFERENCE)),
                     new AclRule(Access.READ, t.faults()))));
             put(ids, new BrokerIdentity(FAULT_TOOL_USER, Role.FAULT_TOOL, List.of(

@@ -15,9 +15,9 @@ import org.eclipse.paho.mqttv5.common.MqttMessage;
 import org.eclipse.paho.mqttv5.common.packet.MqttProperties;
 
 /** A bare Paho v5 client for broker permission tests: records what arrives and the reason codes. */
-final class ProbeClient implements AutoCloseable {
+public final class ProbeClient implements AutoCloseable {
     /** A message received, topic and payload text. */
-    record Received(String topic, String payload) {
+    public record Received(String topic, String payload) {
     }
 
     private static final long WAIT_MS = 10_000;
@@ -32,7 +32,7 @@ final class ProbeClient implements AutoCloseable {
      * @return a connected client
      * @throws MqttException when the broker (or TLS) refuses the connection
      */
-    static ProbeClient connect(String uri, String username, String password, SocketFactory sockets)
+    public static ProbeClient connect(String uri, String username, String password, SocketFactory sockets)
             throws MqttException {
         MqttAsyncClient c = new MqttAsyncClient(uri, "probe-" + username + "-" + System.identityHashCode(new Object()),
                 new MemoryPersistence());
@@ -61,14 +61,14 @@ final class ProbeClient implements AutoCloseable {
     }
 
     /** @return the SUBACK reason code (≥ 0x80 = refused) */
-    int subscribe(String filter) throws MqttException {
+    public int subscribe(String filter) throws MqttException {
         IMqttToken t = client.subscribe(filter, 1);
         t.waitForCompletion(WAIT_MS);
         return t.getReasonCodes()[0];
     }
 
     /** @return the PUBACK reason code of a QoS 1 publish (≥ 0x80 = refused) */
-    int publishQos1(String topic, String payload) throws MqttException {
+    public int publishQos1(String topic, String payload) throws MqttException {
         MqttMessage m = new MqttMessage(payload.getBytes(StandardCharsets.UTF_8), 1, false, null);
         IMqttToken t = client.publish(topic, m);
         try {
@@ -80,11 +80,11 @@ final class ProbeClient implements AutoCloseable {
         return codes == null || codes.length == 0 ? 0 : codes[0];
     }
 
-    List<Received> received() {
+    public List<Received> received() {
         return received;
     }
 
-    boolean hasReceived(String payload) {
+    public boolean hasReceived(String payload) {
         return received.stream().anyMatch(r -> r.payload().equals(payload));
     }
 

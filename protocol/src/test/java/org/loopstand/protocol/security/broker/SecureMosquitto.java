@@ -18,8 +18,8 @@ import javax.net.ssl.SSLSocketFactory;
  * ACL and password file generated from a {@link BrokerAccessModel}, TLS with a throw-away CA, on a
  * free loopback port, in its own temp dir. Never touches the shared broker on 1883.
  */
-final class SecureMosquitto implements AutoCloseable {
-    static final Path MOSQUITTO = Path.of("/usr/sbin/mosquitto");
+public final class SecureMosquitto implements AutoCloseable {
+    public static final Path MOSQUITTO = Path.of("/usr/sbin/mosquitto");
 
     private final Process process;
     private final int port;
@@ -35,7 +35,7 @@ final class SecureMosquitto implements AutoCloseable {
     }
 
     /** Starts a broker for the model; every identity's password is {@link #passwordOf}. */
-    static SecureMosquitto start(BrokerAccessModel model, Path dir) throws Exception {
+    public static SecureMosquitto start(BrokerAccessModel model, Path dir) throws Exception {
         TestPki pki = TestPki.newCa("loopstand-test-ca");
         TestPki.Issued server = pki.issueServer("loopstand-test-broker");
         Path ca = dir.resolve("ca.crt");
@@ -80,11 +80,11 @@ final class SecureMosquitto implements AutoCloseable {
     }
 
     /** @return the deterministic test password of an identity (16+ characters) */
-    static String passwordOf(String username) {
+    public static String passwordOf(String username) {
         return "test-password-of-" + username;
     }
 
-    static Path shippedTemplate() {
+    public static Path shippedTemplate() {
         Path dir = Path.of("").toAbsolutePath();
         for (int i = 0; i < 4 && dir != null; i++, dir = dir.getParent()) {
             Path candidate = dir.resolve("config/broker/mosquitto-secure.conf");
@@ -95,20 +95,20 @@ final class SecureMosquitto implements AutoCloseable {
         throw new IllegalStateException("config/broker/mosquitto-secure.conf not found above " + Path.of("").toAbsolutePath());
     }
 
-    int port() {
+    public int port() {
         return port;
     }
 
-    String sslUri() {
+    public String sslUri() {
         return "ssl://127.0.0.1:" + port;
     }
 
-    TestPki pki() {
+    public TestPki pki() {
         return pki;
     }
 
     /** @return a socket factory trusting this broker's CA and presenting a client cert from it */
-    synchronized SSLSocketFactory trustedClientFactory(String cn) throws Exception {
+    public synchronized SSLSocketFactory trustedClientFactory(String cn) throws Exception {
         SSLSocketFactory f = factories.get(cn);
         if (f == null) {
             f = TestPki.socketFactory(pki.ca().certificate(), pki.issueClient(cn));
@@ -117,11 +117,11 @@ final class SecureMosquitto implements AutoCloseable {
         return f;
     }
 
-    String logText() throws IOException {
+    public String logText() throws IOException {
         return Files.exists(log) ? Files.readString(log, StandardCharsets.UTF_8) : "";
     }
 
-    Path logFile() {
+    public Path logFile() {
         return log;
     }
 

@@ -36,9 +36,9 @@ import org.bouncycastle.operator.jcajce.JcaContentSignerBuilder;
  * A throw-away certificate authority made at test run time (EC P-256), so no key is ever
  * committed. Server certificates name 127.0.0.1 and localhost.
  */
-final class TestPki {
+public final class TestPki {
     /** A certificate with its private key. */
-    record Issued(X509Certificate certificate, KeyPair keys) {
+    public record Issued(X509Certificate certificate, KeyPair keys) {
     }
 
     private static final AtomicLong SERIAL = new AtomicLong(1);
@@ -51,7 +51,7 @@ final class TestPki {
     }
 
     /** @return a new CA named {@code CN=<name>} */
-    static TestPki newCa(String name) throws Exception {
+    public static TestPki newCa(String name) throws Exception {
         KeyPair keys = ecKeys();
         X500Name subject = new X500Name("CN=" + name);
         X509v3CertificateBuilder b = builder(subject, subject, keys);
@@ -60,12 +60,12 @@ final class TestPki {
         return new TestPki(name, new Issued(sign(b, keys), keys));
     }
 
-    Issued ca() {
+    public Issued ca() {
         return ca;
     }
 
     /** @return a server certificate for 127.0.0.1 / localhost */
-    Issued issueServer(String cn) throws Exception {
+    public Issued issueServer(String cn) throws Exception {
         KeyPair keys = ecKeys();
         X509v3CertificateBuilder b = builder(new X500Name("CN=" + name), new X500Name("CN=" + cn), keys);
         b.addExtension(Extension.subjectAlternativeName, false, new GeneralNames(new GeneralName[] {
@@ -75,7 +75,7 @@ final class TestPki {
     }
 
     /** @return a client certificate for an identity */
-    Issued issueClient(String cn) throws Exception {
+    public Issued issueClient(String cn) throws Exception {
         KeyPair keys = ecKeys();
         X509v3CertificateBuilder b = builder(new X500Name("CN=" + name), new X500Name("CN=" + cn), keys);
         b.addExtension(Extension.basicConstraints, true, new BasicConstraints(false));
@@ -83,12 +83,12 @@ final class TestPki {
     }
 
     /** Writes a certificate as PEM. */
-    static void writeCertificate(X509Certificate cert, Path file) throws IOException {
+    public static void writeCertificate(X509Certificate cert, Path file) throws IOException {
         writePem(cert, file);
     }
 
     /** Writes a private key as unencrypted PKCS#8 PEM (test only, in a temp dir). */
-    static void writePrivateKey(KeyPair keys, Path file) throws IOException {
+    public static void writePrivateKey(KeyPair keys, Path file) throws IOException {
         writePem(new org.bouncycastle.openssl.jcajce.JcaPKCS8Generator(keys.getPrivate(), null).generate(), file);
     }
 
@@ -96,7 +96,7 @@ final class TestPki {
      * @param trusted CA the client trusts for the server, or null for none
      * @param client  the client's certificate and key, or null to present none
      */
-    static SSLSocketFactory socketFactory(X509Certificate trusted, Issued client) throws GeneralSecurityException,
+    public static SSLSocketFactory socketFactory(X509Certificate trusted, Issued client) throws GeneralSecurityException,
             IOException {
         KeyStore trust = KeyStore.getInstance("PKCS12");
         trust.load(null, null);
@@ -116,6 +116,28 @@ final class TestPki {
         SSLContext ctx = SSLContext.getInstance("TLSv1.2");
         ctx.init(kmf.getKeyManagers(), tmf.getTrustManagers(), null);
         return ctx.getSocketFactory();
+    }
+
+    /** Writes a PKCS#12 trust store holding the CA certificate (for --trust-store). */
+    public static void writeTrustStore(X509Certificate ca, Path file, char[] password) throws GeneralSecurityException,
+            IOException {
+        KeyStore ks = KeyStore.getInstance("PKCS12");
+        ks.load(null, null);
+        ks.setCertificateEntry("ca", ca);
+        try (var out = Files.newOutputStream(file)) {
+            ks.store(out, password);
+        }
+    }
+
+    /** Writes a PKCS#12 key store holding a client certificate and its key (for --key-store). */
+    public static void writeKeyStore(Issued client, Path file, char[] password) throws GeneralSecurityException,
+            IOException {
+        KeyStore ks = KeyStore.getInstance("PKCS12");
+        ks.load(null, null);
+        ks.setKeyEntry("client", client.keys().getPrivate(), password, new X509Certificate[] {client.certificate()});
+        try (var out = Files.newOutputStream(file)) {
+            ks.store(out, password);
+        }
     }
 
     private static void writePem(Object o, Path file) throws IOException {

@@ -1,0 +1,95 @@
+package org.loopstand.bench.cli;
+
+import java.nio.file.Path;
+import java.time.LocalDateTime;
+import java.time.format.DateTimeFormatter;
+import java.util.concurrent.Callable;
+import org.loopstand.bench.run.BenchResult;
+import org.loopstand.bench.run.BenchSettings;
+import org.loopstand.bench.run.BusBench;
+import org.loopstand.plant.runtime.ConnectionGrouping;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+
+/** {@code ./loopstand bench bus}: plant + controller + raw Paho loop at a chosen size, one JVM, one clock. */
+@Command(name = "bus", mixinStandardHelpOptions = true,
+        description = "Generate a site, run plant and controller over a broker beside a raw Paho loop, and write the figures.")
+public final class BusCommand implements Callable<Integer> {
+    @Option(names = "--units", required = true, description = "units in the generated site")
+    int units;
+
+    @Option(names = "--areas", defaultValue = "50", description = "areas (default ${DEFAULT-VALUE})")
+    int areas;
+
+    @Option(names = "--duration", defaultValue = "60", description = "measured wall seconds after the warm-up (default ${DEFAULT-VALUE})")
+    double durationS;
+
+    @Option(names = "--warmup", defaultValue = "20", description = "wall seconds before measuring (default ${DEFAULT-VALUE})")
+    double warmupS;
+
+    @Option(names = "--broker", defaultValue = "embedded", description = "embedded, mosquitto (started here on a free port) or a tcp:// URL (default ${DEFAULT-VALUE})")
+    String broker;
+
+    @Option(names = "--broker-config", defaultValue = "config/broker/mosquitto-bench.conf", description = "config for --broker mosquitto (default ${DEFAULT-VALUE})")
+    Path brokerConfig;
+
+    @Option(names = "--grouping", defaultValue = "pooled", description = "per-unit, per-plant or pooled (default ${DEFAULT-VALUE})")
+    String grouping;
+
+    @Option(names = "--pool-size", defaultValue = "8", description = "plant connections for pooled (default ${DEFAULT-VALUE})")
+    int poolSize;
+
+    @Option(names = "--intake-connections", defaultValue = "2", description = "controller connections sharing the intake (default ${DEFAULT-VALUE})")
+    int intakeConnections;
+
+    @Option(names = "--telemetry-ms", defaultValue = "1000", description = "unit telemetry period, ms (default ${DEFAULT-VALUE})")
+    long telemetryMs;
+
+    @Option(names = "--meter-ms", defaultValue = "2000", description = "area meter period, ms (default ${DEFAULT-VALUE})")
+    long meterMs;
+
+    @Option(names = "--cycle-s", defaultValue = "4", description = "controller cycle, s (default ${DEFAULT-VALUE})")
+    int cycleS;
+
+    @Option(names = "--sample-s", defaultValue = "30", description = "heap/CPU sample period, s (default ${DEFAULT-VALUE})")
+    double sampleS;
+
+    @Option(names = "--no-raw", description = "do not run the raw Paho loop")
+    boolean noRaw;
+
+    @Option(names = "--out", description = "run folder (default runs/bench-<time>)")
+    Path out;
+
+    @Override
+    public Integer call() throws Exception {
+        BenchSettings s;
+        try {
+            s = settings();
+        } catch (IllegalArgumentException e) {
+            System.err.println("bench: " + e.getMessage());
+            return 2;
+        }
+        BenchResult r = new BusBench(s, BusCommand::say).run();
+        r.write(s.outDir());
+        r.print(System.out);
+        say("bench: table, samples.csv, bench.hlog and controller.hlog in " + s.outDir());
+        return r.plantFailure() == null ? 0 : 1;
+    }
+
+    BenchSettings settings() {
+        ConnectionGrouping g;
+        try {
+            g = ConnectionGrouping.parse(grouping);
+        } catch (IllegalArgumentException e) {
+            throw new IllegalArgumentException("--grouping must be per-unit, per-plant or pooled, got " + grouping);
+        }
+        Path dir = out != null ? out : Path.of("runs", "bench-" + LocalDateTime.now().format(DateTimeFormatter.ofPattern("yyyyMMdd-HHmmss")));
+        return new BenchSettings(units, areas, durationS, warmupS, broker, brokerConfig, g, poolSize, intakeConnections,
+                telemetryMs, meterMs, cycleS, sampleS, !noRaw, dir);
+    }
+
+    private static void say(String line) {
+        System.out.println(line);
+        System.out.flush();
+    }
+}

@@ -1,0 +1,70 @@
+package org.loopstand.bench.probe;
+
+import java.util.concurrent.CompletableFuture;
+import java.util.concurrent.atomic.LongAdder;
+import org.loopstand.protocol.bus.BusCounters;
+import org.loopstand.protocol.bus.ConnectionListener;
+import org.loopstand.protocol.bus.MessageBus;
+import org.loopstand.protocol.bus.MessageListener;
+import org.loopstand.protocol.bus.OutboundMessage;
+import org.loopstand.protocol.bus.Qos;
+import org.loopstand.protocol.time.Clock;
+
+/**
+ * A plant connection with probes: stamps telemetry and meter publishes into {@link PublishStamps},
+ * counts acks published and commands received. Otherwise passes everything through.
+ */
+public final class StampingBus implements MessageBus {
+    private final MessageBus inner;
+    private final PublishStamps stamps;
+    private final Clock clock;
+    private final CommandTally tally;
+
+    public StampingBus(MessageBus inner, PublishStamps stamps, Clock clock, CommandTally tally) {
+        this.inner = inner;
+        this.stamps = stamps;
+        this.clock = clock;
+        this.tally = tally;
+    }
+
+    @Override
+    public CompletableFuture<Void> publish(OutboundMessage m) {
+        String t = m.topic();
+        if (t.endsWith("/telemetry") || t.contains("/meter/")) {
+            stamps.stamp(t, m.payload(), clock.monotonicNanos());
+        } else if (t.endsWith("/ack")) {
+            tally.acksPublished.increment();
+        }
+        return inner.publish(m);
+    }
+
+    @Override
+    public void subscribe(String topicFilter, Qos qos, MessageListener listener) {
+        if (topicFilter.endsWith("/command")) {
+            inner.subscribe(topicFilter, qos, msg -> {
+                tally.commandsArrived.increment();
+                listener.onMessage(msg);
+            });
+        } else {
+            inner.subscribe(topicFilter, qos, listener);
+        }
+    }
+
+    @Override public String clientId() { return inner.clientId(); }
+    @Override public void unsubscribe(String topicFilter) { inner.unsubscribe(topicFilter); }
+    @Override public boolean isConnected() { return inner.isConnected(); }
+    @Override public void addConnectionListener(ConnectionListener l) { inner.addConnectionListener(l); }
+    @Override public BusCounters counters() { return inner.counters(); }
+    @Override public void close() { inner.close(); }
+
+    /** Counts along the command path, from both ends. */
+    public static final class CommandTally {
+        public final LongAdder commandsPublished = new LongAdder();
+        public final LongAdder commandsPubacked = new LongAdder();
+        public final LongAdder commandsFailed = new LongAdder();
+        public final LongAdder commandsArrived = new LongAdder();
+        public final LongAdder acksPublished = new LongAdder();
+        public final LongAdder acksReceived = new LongAdder();
+        public final java.util.Map<String, LongAdder> failedByReason = new java.util.concurrent.ConcurrentHashMap<>();
+    }
+}

@@ -1,0 +1,44 @@
+package org.loopstand.bench.run;
+
+import java.nio.file.Path;
+import org.loopstand.plant.runtime.ConnectionGrouping;
+
+/**
+ * One bench run.
+ *
+ * @param units              units in the generated site, ≥ areas
+ * @param areas              areas, ≥ 1
+ * @param durationS          measured wall time after the warm-up, s, > 0
+ * @param warmupS            wall time before measuring starts, s, ≥ 0
+ * @param broker             {@code embedded}, {@code mosquitto} or a tcp:// URL
+ * @param brokerConfig       Mosquitto config the harness copies when it starts its own
+ * @param grouping           plant connection grouping
+ * @param poolSize           connections for the pooled grouping, ≥ 1
+ * @param intakeConnections  controller connections sharing the intake subscriptions, ≥ 1
+ * @param telemetryScanMs    unit telemetry period, ms
+ * @param meterScanMs        area meter period, ms
+ * @param cycleS             controller cycle, s
+ * @param sampleS            heap/CPU sample period, s, > 0
+ * @param raw                run the raw Paho loop beside the rig
+ * @param outDir             run folder (created)
+ */
+public record BenchSettings(int units, int areas, double durationS, double warmupS, String broker, Path brokerConfig,
+                            ConnectionGrouping grouping, int poolSize, int intakeConnections, long telemetryScanMs,
+                            long meterScanMs, int cycleS, double sampleS, boolean raw, Path outDir) {
+    public BenchSettings {
+        if (units < 1 || areas < 1 || units < areas) {
+            throw new IllegalArgumentException("need units ≥ areas ≥ 1, got units " + units + ", areas " + areas);
+        }
+        if (!(durationS > 0) || warmupS < 0 || !(sampleS > 0)) {
+            throw new IllegalArgumentException("duration and sample period must be > 0, warm-up ≥ 0");
+        }
+        if (poolSize < 1 || intakeConnections < 1) {
+            throw new IllegalArgumentException("pool size and intake connections must be ≥ 1");
+        }
+    }
+
+    /** @return total measured-value messages per second the plant sends (telemetry + meters) */
+    public double plantRatePerS() {
+        return units * 1000.0 / telemetryScanMs + areas * 1000.0 / meterScanMs;
+    }
+}

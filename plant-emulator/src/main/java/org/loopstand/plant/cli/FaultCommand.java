@@ -1,0 +1,209 @@
+package org.loopstand.plant.cli;
+
+import java.io.PrintStream;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.concurrent.Callable;
+import java.util.concurrent.TimeUnit;
+
+import org.loopstand.plant.fault.FaultLibrary;
+import org.loopstand.plant.fault.FaultType;
+import org.loopstand.plant.fault.ParameterSpec;
+import org.loopstand.protocol.bus.OutboundMessage;
+import org.loopstand.protocol.bus.Qos;
+import org.loopstand.protocol.bus.mqtt.MqttLink;
+import org.loopstand.protocol.bus.mqtt.MqttLinkConfig;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.message.FaultAction;
+import org.loopstand.protocol.message.FaultOrder;
+import org.loopstand.protocol.message.Ids;
+import org.loopstand.protocol.time.WallClock;
+import org.loopstand.protocol.topic.TopicTree;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.ParentCommand;
+
+/**
+ * {@code loopstand fault start|stop|list}: live fault orders published on the faults topic of a
+ * running rig, and the list of fault types with their parameters and units.
+ */
+@Command(name = "fault", mixinStandardHelpOptions = true,
+        description = "Start or stop a fault in a running rig (publishes a fault order), or list the fault types.",
+        subcommands = {FaultCommand.Start.class, FaultCommand.Stop.class, FaultCommand.ListTypes.class})
+public final class FaultCommand implements Runnable {
+    @Option(names = "--broker", defaultValue = "tcp://127.0.0.1:1884", description = "broker URI (default ${DEFAULT-VALUE})")
+    String broker;
+
+    @Option(names = "--site", defaultValue = "demo-site", description = "site id (default ${DEFAULT-VALUE})")
+    String site;
+
+    @Override
+    public void run() {
+        System.out.println("use: fault start | fault stop | fault list (see --help)");
+    }
+
+    /** {@code fault start}. */
+    @Command(name = "start", mixinStandardHelpOptions = true, description = "Start a fault now.")
+    static final class Start implements Callable<Integer> {
+        @ParentCommand
+        FaultCommand parent;
+
+        @Option(names = "--type", required = true, description = "fault type (see fault list)")
+        String type;
+
+        @Option(names = "--target", required = true, split = ",", description = "target id(s): area, unit or connection")
+        List<String> targets;
+
+        @Option(names = "--param", description = "parameter as name=value (repeatable), e.g. delayMs=5000")
+        List<String> params = new ArrayList<>();
+
+        @Option(names = "--duration-s", description = "how long, s (default: until stopped)")
+        Double durationS;
+
+        @Option(names = "--order", description = "order id (default: cli-<epoch ms>); give it to fault stop")
+        String orderId;
+
+        @Override
+        public Integer call() throws Exception {
+            FaultType t = FaultLibrary.standard().type(type).orElse(null);
+            if (t == null) {
+                System.err.println("refused: unknown fault type '" + type + "'; known types: " + FaultLibrary.standard().names());
+                return 2;
+            }
+            Map<String, Object> values = new LinkedHashMap<>();
+            for (String p : params) {
+                int eq = p.indexOf('=');
+                if (eq < 1) {
+                    System.err.println("refused: --param must be name=value, got '" + p + "'");
+                    return 2;
+                }
+                String name = p.substring(0, eq);
+                Object value = parseValue(p.substring(eq + 1));
+                ParameterSpec spec = t.parameter(name).orElse(null);
+                if (spec == null) {
+                    System.err.println("refused: fault type " + type + " has no parameter '" + name + "'; it takes "
+                            + t.parameters().stream().map(ParameterSpec::name).toList());
+                    return 2;
+                }
+                var wrong = spec.check(value instanceof Number n ? (Object) n.doubleValue() : value);
+                if (wrong.isPresent()) {
+                    System.err.println("refused: " + wrong.get());
+                    return 2;
+                }
+                values.put(name, value);
+            }
+            if (durationS != null && !(durationS > 0)) {
+                System.err.println("refused: --duration-s must be greater than 0, got " + durationS);
+                return 2;
+            }
+            long now = WallClock.INSTANCE.epochMillis();
+            String id = orderId != null ? orderId : "cli-" + now;
+            if (!Ids.isValid(id) || !targets.stream().allMatch(Ids::isValid)) {
+                System.err.println("refused: order id and targets must match " + Ids.PATTERN.pattern());
+                return 2;
+            }
+            FaultOrder order = new FaultOrder(now, now, id, FaultAction.START, type, targets, values, durationS);
+            if (!parent.tryPublish(order)) {
+                return 1;
+            }
+            System.out.println("sent fault order " + id + " (" + type + " on " + targets + ") to " + parent.broker);
+            return 0;
+        }
+    }
+
+    /** {@code fault stop}. */
+    @Command(name = "stop", mixinStandardHelpOptions = true, description = "Stop a fault started by order.")
+    static final class Stop implements Callable<Integer> {
+        @ParentCommand
+        FaultCommand parent;
+
+        @Option(names = "--order", required = true, description = "order id given to fault start")
+        String orderId;
+
+        @Override
+        public Integer call() throws Exception {
+            if (!Ids.isValid(orderId)) {
+                System.err.println("refused: order id must match " + Ids.PATTERN.pattern());
+                return 2;
+            }
+            long now = WallClock.INSTANCE.epochMillis();
+            if (!parent.tryPublish(new FaultOrder(now, now, orderId, FaultAction.STOP, "stop", List.of(), Map.of(), null))) {
+                return 1;
+            }
+            System.out.println("sent stop for fault order " + orderId + " to " + parent.broker);
+            return 0;
+        }
+    }
+
+    /** {@code fault list}. */
+    @Command(name = "list", mixinStandardHelpOptions = true, description = "List every fault type with its parameters and units.")
+    static final class ListTypes implements Callable<Integer> {
+        @Option(names = "--markdown", description = "print the fault and check tables of docs/faults.md")
+        boolean markdown;
+
+        @Override
+        public Integer call() {
+            if (markdown) {
+                System.out.print(org.loopstand.plant.fault.FaultDocs.faultTable());
+                System.out.println();
+                System.out.print(org.loopstand.plant.fault.FaultDocs.checkTable());
+            } else {
+                print(System.out);
+            }
+            return 0;
+        }
+    }
+
+    /** Prints the fault library: one block per type, one line per parameter. */
+    static void print(PrintStream out) {
+        for (FaultType t : FaultLibrary.standard().types()) {
+            out.printf(Locale.ROOT, "%s (%s; targets: %s)%n    %s%n", t.name(), t.category().name().toLowerCase(Locale.ROOT),
+                    t.targetKinds().stream().sorted().map(k -> k.wireName()).toList(), t.description());
+            for (ParameterSpec p : t.parameters()) {
+                out.printf(Locale.ROOT, "    --param %s=…  %s, default %s: %s%n", p.name(), p.rangeText(), p.defaultText(),
+                        p.description());
+            }
+        }
+    }
+
+    static Object parseValue(String text) {
+        try {
+            return Double.parseDouble(text);
+        } catch (NumberFormatException e) {
+            return text;
+        }
+    }
+
+    boolean tryPublish(FaultOrder order) {
+        try {
+            publish(order);
+            return true;
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            System.err.println("interrupted before the order was sent");
+            return false;
+        } catch (Exception e) {
+            System.err.println("failed: fault order " + order.orderId() + " not sent: " + e.getMessage());
+            return false;
+        }
+    }
+
+    void publish(FaultOrder order) throws Exception {
+        TopicTree topics = TopicTree.forSite(site);
+        byte[] payload = new MessageCodec().encode(order);
+        MqttLinkConfig config = MqttLinkConfig.builder().serverUri(broker).clientId("fault-cli-" + order.seq()).build();
+        MqttLink link = new MqttLink(config, WallClock.INSTANCE);
+        try {
+            link.start();
+            if (!link.awaitConnected(5000)) {
+                throw new IllegalStateException("cannot reach the broker at " + broker + " within 5 s");
+            }
+            link.publish(new OutboundMessage(topics.faults(), payload, Qos.AT_LEAST_ONCE, false, 0)).get(5, TimeUnit.SECONDS);
+        } finally {
+            link.close();
+        }
+    }
+}

@@ -1,0 +1,19 @@
+package org.loopstand.plant.fault;
+
+/**
+ * What connection faults need from one bus connection. Implemented by the MQTT link adapter; the
+ * {@link FaultEngine} calls it on the agent thread when a connection fault starts and ends.
+ */
+public interface LinkFaultControl {
+    /** Cuts the connection without an MQTT DISCONNECT, so the broker publishes the last will. */
+    void disconnectAbruptly();
+
+    /** Sends DISCONNECT and closes: no last will. */
+    void disconnectCleanly();
+
+    /**
+     * Refuses to reconnect for {@code refuseS} seconds from now (scenario time); 0 allows reconnecting
+     * at once, +∞ refuses until called again.
+     */
+    void refuseReconnectForS(double refuseS);
+}

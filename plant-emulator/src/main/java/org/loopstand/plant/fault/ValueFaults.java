@@ -1,0 +1,110 @@
+package org.loopstand.plant.fault;
+
+import java.util.ArrayList;
+import java.util.EnumSet;
+import java.util.List;
+import java.util.random.RandomGenerator;
+
+import org.loopstand.protocol.message.AreaMeter;
+import org.loopstand.protocol.message.Quality;
+import org.loopstand.protocol.message.QualityFlag;
+import org.loopstand.protocol.message.TieFlow;
+import org.loopstand.protocol.message.UnitTelemetry;
+import org.loopstand.protocol.message.Validity;
+
+/**
+ * Value faults as pure transforms of one outgoing record: the truth record is never changed, a new
+ * record is returned. Frequencies are transformed in Hz with mHz parameters; scale and sign flip act
+ * on a frequency's deviation from nominal (a frequency of −50 Hz would not be a meter fault but nonsense).
+ */
+public final class ValueFaults {
+    private ValueFaults() {
+    }
+
+    /**
+     * One value fault at one moment.
+     *
+     * @param spec         the fault
+     * @param activeForS   seconds since it started, for drift
+     * @param messageIndex messages of this stream it has acted on before this one (0 = first), for spike
+     */
+    public record Applied(FaultSpec spec, double activeForS, int messageIndex) {
+    }
+
+    /** @return the meter record as published with {@code faults} applied in order */
+    public static AreaMeter apply(AreaMeter m, List<Applied> faults, double nominalHz, RandomGenerator random) {
+        double f = m.frequencyHz();
+        Quality fq = m.frequencyQuality();
+        double ni = m.netInterchangeMw();
+        Quality nq = m.netInterchangeQuality();
+        List<TieFlow> ties = new ArrayList<>(m.ties());
+        for (Applied a : faults) {
+            String point = a.spec().point();
+            if (FaultLibrary.POINT_FREQUENCY.equals(point)) {
+                f = value(a, f, true, nominalHz, random);
+                fq = quality(a, fq);
+            } else if (FaultLibrary.POINT_NET_INTERCHANGE.equals(point)) {
+                ni = value(a, ni, false, nominalHz, random);
+                nq = quality(a, nq);
+            } else {
+                for (int i = 0; i < ties.size(); i++) {
+                    TieFlow t = ties.get(i);
+                    if (t.tie().equals(point)) {
+                        ties.set(i, new TieFlow(t.tie(), value(a, t.flowMw(), false, nominalHz, random), quality(a, t.quality())));
+                    }
+                }
+            }
+        }
+        return new AreaMeter(m.seq(), m.sourceTime(), m.area(), m.meter(), f, fq, ties, ni, nq);
+    }
+
+    /** @return the telemetry as published with {@code faults} applied to outputMw and its quality */
+    public static UnitTelemetry apply(UnitTelemetry t, List<Applied> faults, RandomGenerator random) {
+        double out = t.outputMw();
+        Quality q = t.outputQuality();
+        for (Applied a : faults) {
+            out = value(a, out, false, 0, random);
+            q = quality(a, q);
+        }
+        return new UnitTelemetry(t.seq(), t.sourceTime(), t.unit(), out, q, t.setpointMw(), t.status(), t.controlMode(),
+                t.regulatingMinMw(), t.regulatingMaxMw(), t.rampMwPerMin(), t.pulseRateMwPerMin(), t.acceptsSetpoints(),
+                t.lastCommandSeq());
+    }
+
+    /**
+     * @param hz        true for a frequency (Hz, mHz parameters), false for a MW point
+     * @param nominalHz the area's nominal frequency, for scale and sign flip of a frequency
+     */
+    static double value(Applied a, double v, boolean hz, double nominalHz, RandomGenerator random) {
+        FaultSpec s = a.spec();
+        return switch (s.type().name()) {
+            case "bias" -> hz ? v + s.number("offsetMhz") / 1000.0 : v + s.number("offsetMw");
+            case "drift" -> hz ? v + s.number("driftMhzPerMin") / 1000.0 * a.activeForS() / 60.0
+                    : v + s.number("driftMwPerMin") * a.activeForS() / 60.0;
+            case "scale" -> hz ? nominalHz + (v - nominalHz) * s.number("factor") : v * s.number("factor");
+            case "signFlip" -> hz ? nominalHz - (v - nominalHz) : -v;
+            case "noise" -> v + random.nextGaussian() * (hz ? s.number("sigmaMhz") / 1000.0 : s.number("sigmaMw"));
+            case "spike" -> a.messageIndex() < s.number("spikeMessages")
+                    ? v + (hz ? s.number("spikeMhz") / 1000.0 : s.number("spikeMw")) : v;
+            case "stuckAt" -> hz ? s.number("valueHz") : s.number("valueMw");
+            default -> v;
+        };
+    }
+
+    static Quality quality(Applied a, Quality q) {
+        if (!a.spec().type().name().equals("quality")) {
+            return q;
+        }
+        Validity validity = a.spec().text("validity").equals("questionable") ? Validity.QUESTIONABLE : Validity.INVALID;
+        EnumSet<QualityFlag> flags = q.flags().isEmpty() ? EnumSet.noneOf(QualityFlag.class) : EnumSet.copyOf(q.flags());
+        String flag = a.spec().text("flag");
+        if (!flag.equals("none")) {
+            for (QualityFlag qf : QualityFlag.values()) {
+                if (qf.wireName().equals(flag)) {
+                    flags.add(qf);
+                }
+            }
+        }
+        return new Quality(validity, flags);
+    }
+}
