@@ -13,7 +13,7 @@ import org.loopstand.report.model.Histogram;
 
 /** Latency and jitter histograms: from the run's {@code *.hlog} files and from the controller journal. */
 final class RunHistograms {
-    static final int BUCKETS = 24;
+    static final int BUCKETS = 12;
 
     private RunHistograms() {
     }
@@ -76,19 +76,21 @@ final class RunHistograms {
     }
 
     private static Histogram fromHdr(String title, String unit, org.HdrHistogram.Histogram h) {
-        double top = h.getValueAtPercentile(99.9);
+        double scale = "µs".equals(unit) && h.getValueAtPercentile(99.9) > 10_000 ? 1000.0 : 1.0; // show ms when large
+        String shown = scale == 1.0 ? unit : "ms";
+        double top = h.getValueAtPercentile(99.9) / scale;
         double width = niceWidth(Math.max(1, top) / BUCKETS);
         int n = (int) Math.max(1, Math.ceil(top / width + 1e-9)) + 1; // last bucket collects the rest
         double[] bounds = new double[n];
         long[] counts = new long[n];
         for (int i = 0; i < n; i++) {
-            bounds[i] = i == n - 1 ? Math.max(h.getMaxValue(), (i + 1) * width) : (i + 1) * width;
+            bounds[i] = i == n - 1 ? Math.max(h.getMaxValue() / scale, (i + 1) * width) : (i + 1) * width;
         }
         for (var v : h.recordedValues()) {
-            long x = v.getValueIteratedTo();
+            double x = v.getValueIteratedTo() / scale;
             counts[Math.min(n - 1, (int) Math.floor(x / width))] += v.getCountAtValueIteratedTo();
         }
-        return new Histogram(title, unit, bounds, counts);
+        return new Histogram(title + (scale == 1.0 ? "" : " (shown in ms; last bar: up to the maximum)"), shown, bounds, counts);
     }
 
     private static String unitOf(String tag) {
