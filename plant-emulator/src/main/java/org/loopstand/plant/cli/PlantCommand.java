@@ -12,6 +12,9 @@ import java.util.Set;
 import java.util.concurrent.Callable;
 import java.util.concurrent.CountDownLatch;
 import java.util.concurrent.TimeUnit;
+import java.util.concurrent.atomic.AtomicBoolean;
+
+import org.loopstand.plant.journal.PlantRunJournal;
 
 import org.loopstand.plant.broker.EmbeddedBroker;
 import org.loopstand.plant.grid.Area;
@@ -21,6 +24,7 @@ import org.loopstand.plant.meter.MeterSettings;
 import org.loopstand.plant.physics.GridSimulator;
 import org.loopstand.plant.physics.StepSizeRule;
 import org.loopstand.plant.runtime.ConnectionGrouping;
+import org.loopstand.plant.runtime.HeldStartClock;
 import org.loopstand.plant.runtime.PlantOptions;
 import org.loopstand.plant.runtime.PlantRunner;
 import org.loopstand.plant.scenario.EventTypeRegistry;
@@ -28,7 +32,10 @@ import org.loopstand.plant.scenario.Scenario;
 import org.loopstand.plant.scenario.ScenarioEvent;
 import org.loopstand.plant.scenario.RunScenario;
 import org.loopstand.plant.scenario.RunScenarioLoader;
-import org.loopstand.plant.fault.CommandOutcomeListener;
+import org.loopstand.plant.check.RunRecord;
+import org.loopstand.plant.fault.FaultObserver;
+import org.loopstand.protocol.bus.Qos;
+import org.loopstand.protocol.message.ControllerStatus;
 import org.loopstand.plant.fault.FaultEngine;
 import org.loopstand.plant.fault.FaultLog;
 import org.loopstand.plant.runtime.FaultHooks;
@@ -89,8 +96,20 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--late-warn-s", defaultValue = "1", description = "step lateness that is reported, s (default ${DEFAULT-VALUE})")
     double lateWarnS;
 
-    @Option(names = "--duration", description = "stop after this many wall seconds (default: run until Ctrl-C)")
+    @Option(names = "--duration", description = "stop after this many wall seconds (default: the scenario's durationS, or until Ctrl-C without a scenario)")
     Double durationS;
+
+    @Option(names = "--journal", paramLabel = "DIR", description = "run folder for plant.jsonl and plant.hlog (none if absent)")
+    Path journalDir;
+
+    @Option(names = "--truth-interval-s", defaultValue = "1", description = "scenario seconds between physics truth entries in the journal (default ${DEFAULT-VALUE})")
+    double truthIntervalS;
+
+    @Option(names = "--wait-go", description = "connect, print the ready line, then hold scenario time at 0 until a line 'go' arrives on stdin (the rehearsal starts the controller in between)")
+    boolean waitGo;
+
+    @Option(names = "--linger-s", defaultValue = "0", description = "after the scenario ends, keep the embedded broker up this many wall seconds (or until stopped) so the controller can stop cleanly")
+    double lingerS;
 
     @Mixin
     InterfaceMixin iface;
@@ -154,41 +173,170 @@ public final class PlantCommand implements Callable<Integer> {
             }
             uri = embedded.serverUri();
         }
-        Clock clock = rate == 1.0 ? WallClock.INSTANCE : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
+        HeldStartClock held = waitGo ? new HeldStartClock(WallClock.INSTANCE, rate) : null;
+        Clock clock = held != null ? held
+                : rate == 1.0 ? WallClock.INSTANCE : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
         PlantRunner runner = new PlantRunner(sim, events, options, MqttLinks.to(uri, WallClock.INSTANCE, security, grid.siteId()),
                 clock, PlantCommand::say);
         PlantSecurity.requireSignedCommands(security, runner.hosts().stream().map(UnitHost::unit).toList(), clock);
-        FaultEngine faults = new FaultEngine(clock, clock.epochMillis(), new FaultLog());
+        PlantRunJournal runJournal = null;
+        if (journalDir != null) {
+            if (!(truthIntervalS > 0)) {
+                System.err.println("refused: --truth-interval-s must be positive, got " + truthIntervalS);
+                runner.close();
+                closeQuietly(embedded);
+                return 2;
+            }
+            runJournal = PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), journalHeader(grid, scenario, events,
+                    uri, embedded != null, options, sim), clock, WallClock.INSTANCE);
+            runner.journalTo(runJournal, truthIntervalS);
+        }
+        RunRecord record = new RunRecord(runner.agent().epochMsAt(0));
+        List<FaultObserver> observers = new ArrayList<>(List.of(new FaultLog(), record));
+        if (runJournal != null) {
+            observers.add(runJournal);
+        }
+        FaultObserver observer = FaultObserver.all(observers);
+        FaultEngine faults = new FaultEngine(clock, clock.epochMillis(), observer);
         if (rehearsal != null) {
             for (var f : rehearsal.faults()) {
                 faults.schedule(f).ifPresent(why -> say("plant: fault " + f.id() + " not scheduled: " + why));
             }
         }
-        FaultHooks.wire(runner, faults, new FaultLog(), CommandOutcomeListener.NONE, clock,
-                scenario == null ? 0 : scenario.seed(), true);
-        int here = runner.hosts().size();
-        say(String.format(Locale.ROOT, "plant: site %s, broker %s%s, rate %s, %d unit interface(s) here (%s), %d elsewhere",
-                grid.siteId(), uri, embedded != null ? " (embedded)" : "", trim(rate), here,
-                options.grouping().cliName(), options.remoteUnits().size()));
+        FaultHooks.wire(runner, faults, observer, record, clock, scenario == null ? 0 : scenario.seed(), true);
+        if (rehearsal != null) {
+            runner.agent().checkWith(record, rehearsal.checks(), PlantCommand::say);
+            // the controller's statuses, as the plant sees them, for the checks on the controller's decisions
+            runner.plantBus().subscribe(runner.topics().filterAll(org.loopstand.protocol.topic.TopicKind.CONTROLLER_STATUS),
+                    Qos.AT_LEAST_ONCE, m -> {
+                        long at = clock.epochMillis();
+                        new org.loopstand.protocol.codec.MessageCodec().decode(m.payload(), ControllerStatus.class).message()
+                                .ifPresent(st -> runner.agent().runOnLoop(() -> record.controllerStatus(at, st)));
+                    });
+        }
+        if (scenario != null) {
+            runner.agent().endAt(scenario.durationS());
+        }
         CountDownLatch stopped = new CountDownLatch(1);
         EmbeddedBroker brokerToClose = embedded;
-        Runtime.getRuntime().addShutdownHook(new Thread(() -> {
-            runner.close();
-            if (brokerToClose != null) {
-                brokerToClose.close();
+        AtomicBoolean closed = new AtomicBoolean();
+        Runnable closeAll = () -> {
+            if (closed.compareAndSet(false, true)) {
+                runner.close();
+                closeQuietly(brokerToClose);
             }
+        };
+        Runtime.getRuntime().addShutdownHook(new Thread(() -> {
+            closeAll.run();
             stopped.countDown();
         }, "plant-shutdown"));
         runner.start();
-        if (durationS != null) {
-            if (!stopped.await(Math.round(durationS * 1000), TimeUnit.MILLISECONDS)) {
-                say("plant: " + trim(durationS) + " s done; lateness p99 " + runner.lateness().histogramUs().getValueAtPercentile(99) + " µs");
-                System.exit(0);
+        int here = runner.hosts().size();
+        say(String.format(Locale.ROOT, "plant: site %s, broker %s%s, rate %s, %d unit interface(s) here (%s), %d elsewhere%s",
+                grid.siteId(), uri, embedded != null ? " (embedded)" : "", trim(rate), here,
+                options.grouping().cliName(), options.remoteUnits().size(),
+                scenario == null ? "" : ", scenario " + trim(scenario.durationS()) + " s"));
+        if (held != null) {
+            if (!awaitGo()) {
+                say("plant: stdin closed before 'go'; stopping");
+                closeAll.run();
+                return 1;
             }
-        } else {
-            stopped.await();
+            held.release();
+            say("plant: go, scenario time runs");
         }
+        long startNanos = WallClock.INSTANCE.monotonicNanos();
+        String why = null;
+        while (why == null) {
+            if (stopped.await(200, TimeUnit.MILLISECONDS)) {
+                return 0; // stopped from outside; the hook closed everything
+            }
+            if (runner.failure() != null) {
+                System.err.println("plant: the physics loop stopped on an error: " + runner.failure());
+                closeAll.run();
+                return 1;
+            }
+            double wallS = (WallClock.INSTANCE.monotonicNanos() - startNanos) / 1e9;
+            if (runner.agent().finished()) {
+                why = "scenario done";
+            } else if (durationS != null && wallS >= durationS) {
+                why = trim(durationS) + " s wall done";
+            }
+        }
+        runner.close(); // stops the loop: the journal gets its end entry
+        say(String.format(Locale.ROOT, "plant: %s at %.1f s simulated; step lateness p99 %d µs, max %d µs%s", why,
+                runner.sim().timeS(), runner.lateness().histogramUs().getValueAtPercentile(99),
+                runner.lateness().histogramUs().getMaxValue(),
+                journalDir == null ? "" : "; journal " + journalDir.resolve("plant.jsonl")));
+        if (embedded != null && lingerS > 0) {
+            stopped.await(Math.round(lingerS * 1000), TimeUnit.MILLISECONDS);
+        }
+        closeAll.run();
         return 0;
+    }
+
+    private Map<String, Object> journalHeader(Grid grid, Scenario scenario, List<ScenarioEvent> events, String uri,
+                                              boolean embedded, PlantOptions options, GridSimulator sim) {
+        Map<String, Object> header = new LinkedHashMap<>();
+        header.put("site", grid.siteId());
+        header.put("siteFile", site.getFileName().toString());
+        header.put("scenario", scenarioFile == null ? null : scenarioFile.getFileName().toString());
+        header.put("scenarioDurationS", scenario == null ? null : scenario.durationS());
+        header.put("rate", rate);
+        header.put("seed", seed);
+        header.put("scenarioSeed", scenario == null ? null : scenario.seed());
+        header.put("broker", uri);
+        header.put("embeddedBroker", embedded);
+        header.put("grouping", options.grouping().cliName());
+        header.put("stepS", sim.stepS());
+        header.put("loopstandVersion", PlantCli.VERSION);
+        header.put("javaVersion", System.getProperty("java.version"));
+        header.put("areas", areaHeader(grid));
+        Map<String, String> unitAreas = new LinkedHashMap<>();
+        grid.units().forEach(u -> unitAreas.put(u.id(), u.area()));
+        header.put("units", unitAreas);
+        header.put("events", events.stream().map(e -> e.type() + "@" + trim(e.atS()) + "s").toList());
+        return header;
+    }
+
+    /** Per area what the report needs: nominal frequency, bias β (MW/Hz, positive), scheduled net interchange. */
+    static Map<String, Object> areaHeader(Grid grid) {
+        Map<String, Object> out = new LinkedHashMap<>();
+        for (Area a : grid.areas()) {
+            double beta = !Double.isNaN(a.kMwPerHz()) ? a.kMwPerHz() : -10.0 * a.biasMwPer01Hz();
+            double scheduled = 0;
+            for (var t : grid.ties()) {
+                scheduled += t.fromArea().equals(a.id()) ? t.scheduledFlowMw() : t.toArea().equals(a.id()) ? -t.scheduledFlowMw() : 0;
+            }
+            Map<String, Object> m = new LinkedHashMap<>();
+            m.put("nominalFrequencyHz", a.nominalFrequencyHz());
+            m.put("betaMwPerHz", Double.isFinite(beta) ? beta : null);
+            m.put("scheduledNetInterchangeMw", scheduled);
+            out.put(a.id(), m);
+        }
+        return out;
+    }
+
+    /** @return true when a line "go" arrived on stdin, false at its end */
+    private static boolean awaitGo() throws java.io.IOException {
+        java.io.BufferedReader in = new java.io.BufferedReader(new java.io.InputStreamReader(System.in,
+                java.nio.charset.StandardCharsets.UTF_8));
+        for (String line; (line = in.readLine()) != null; ) {
+            if ("go".equals(line.trim())) {
+                return true;
+            }
+        }
+        return false;
+    }
+
+    private static void closeQuietly(EmbeddedBroker b) {
+        if (b != null) {
+            try {
+                b.close();
+            } catch (RuntimeException e) {
+                System.err.println("plant: embedded broker did not stop cleanly: " + e.getMessage());
+            }
+        }
     }
 
     PlantOptions options(Grid grid) {

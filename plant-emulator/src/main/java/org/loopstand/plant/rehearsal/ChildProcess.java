@@ -98,6 +98,17 @@ final class ChildProcess implements AutoCloseable {
         }
     }
 
+    /** Writes one line to the child's stdin. */
+    void sendLine(String line) {
+        try {
+            var in = process.getOutputStream();
+            in.write((line + "\n").getBytes(StandardCharsets.UTF_8));
+            in.flush();
+        } catch (IOException e) {
+            throw new UncheckedIOException("could not write to the " + name + " process: " + e.getMessage(), e);
+        }
+    }
+
     String name() {
         return name;
     }

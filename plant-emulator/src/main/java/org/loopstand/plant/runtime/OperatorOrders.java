@@ -32,6 +32,8 @@ public final class OperatorOrders {
     private final Map<String, UnitHost> hosts = new LinkedHashMap<>();
     private final MessageCodec codec;
     private final ArrayBlockingQueue<byte[]> queue = new ArrayBlockingQueue<>(256);
+    private volatile org.loopstand.plant.journal.PlantRunJournal journal;
+    private org.loopstand.protocol.time.Clock journalClock;
 
     public OperatorOrders(List<UnitHost> units, MessageCodec codec) {
         units.forEach(h -> hosts.put(h.unit().unitId(), h));
@@ -47,11 +49,23 @@ public final class OperatorOrders {
         return this;
     }
 
+    /** Journals every order received from now on, stamped with {@code clock} (null: none). */
+    public void journalTo(org.loopstand.plant.journal.PlantRunJournal j, org.loopstand.protocol.time.Clock clock) {
+        this.journalClock = clock;
+        this.journal = j;
+    }
+
     /** Owner thread: applies queued orders; @return orders handled */
     public int work() {
         int n = 0;
         for (byte[] p; (p = queue.poll()) != null; n++) {
-            codec.decode(p, FaultOrder.class).message().ifPresent(this::apply);
+            codec.decode(p, FaultOrder.class).message().ifPresent(o -> {
+                org.loopstand.plant.journal.PlantRunJournal j = journal;
+                if (j != null && FaultHooks.OPERATOR_ORDER_TYPES.contains(o.faultType())) {
+                    j.operatorOrder(journalClock.epochMillis(), o);
+                }
+                apply(o);
+            });
         }
         return n;
     }

@@ -47,6 +47,19 @@ public final class PlantAgent implements Agent, ScenarioContext {
     private long scheduleSeq;
     private volatile long meterDropped;
     private volatile long meterSent;
+    private final long startEpochMs;
+    private final java.util.concurrent.ConcurrentLinkedQueue<java.util.Map<String, Object>> pendingEvents =
+            new java.util.concurrent.ConcurrentLinkedQueue<>();
+    private volatile org.loopstand.plant.journal.PlantRunJournal journal;
+    private double truthIntervalS = 1.0;
+    private double nextTruthS;
+    private double endAtS = Double.NaN;
+    private volatile boolean finished;
+    private final java.util.concurrent.ConcurrentLinkedQueue<Runnable> loopTasks = new java.util.concurrent.ConcurrentLinkedQueue<>();
+    private org.loopstand.plant.check.RunRecord record;
+    private List<org.loopstand.plant.check.CheckSpec> checks = List.of();
+    private java.util.function.Consumer<String> checkSink = s -> { };
+    private double nextSampleS;
     private FaultHooks faults;
 
     public PlantAgent(Parts parts) {
@@ -59,6 +72,62 @@ public final class PlantAgent implements Agent, ScenarioContext {
         this.nextClockNanos = startNanos;
         this.clockSeq = parts.clock().epochMillis();
         this.scheduleSeq = parts.clock().epochMillis();
+        this.startEpochMs = parts.clock().epochMillis();
+    }
+
+    /**
+     * Journals the run from now on (call before the loop starts): physics truth every
+     * {@code truthIntervalS} of scenario time, meter messages, scenario and process events, step
+     * lateness. The agent closes the journal in {@link #onClose()}.
+     */
+    public void journalTo(org.loopstand.plant.journal.PlantRunJournal j, double truthIntervalS) {
+        if (!(truthIntervalS > 0)) {
+            throw new IllegalArgumentException("truthIntervalS must be positive, got " + truthIntervalS);
+        }
+        this.truthIntervalS = truthIntervalS;
+        this.nextTruthS = p.sim().timeS();
+        this.journal = j;
+    }
+
+    /** Ends the scenario at {@code endAtS} of simulated time: no step beyond it, then {@link #finished()}. */
+    public void endAt(double endAtS) {
+        if (!(endAtS > 0)) {
+            throw new IllegalArgumentException("endAtS must be positive, got " + endAtS);
+        }
+        this.endAtS = endAtS;
+    }
+
+    /** @return true once the scenario's end time was reached (the loop then publishes nothing more) */
+    public boolean finished() {
+        return finished;
+    }
+
+    /**
+     * Keeps a run record for the scenario's checks (call before the loop starts): truth sampled every
+     * scenario second, scenario events; when the scenario ends the checks are decided, journaled as
+     * {@code check} entries and each told to {@code sink} as one line.
+     */
+    public void checkWith(org.loopstand.plant.check.RunRecord r, List<org.loopstand.plant.check.CheckSpec> specs,
+                          java.util.function.Consumer<String> sink) {
+        this.record = r;
+        this.checks = List.copyOf(specs);
+        this.checkSink = sink;
+        this.nextSampleS = p.sim().timeS();
+    }
+
+    /** Any thread: runs {@code task} on the loop's thread at its next cycle (e.g. feeding the run record). */
+    public void runOnLoop(Runnable task) {
+        loopTasks.add(task);
+    }
+
+    /** Any thread: queues a process event for the journal ({@code fields} holds {@code event}). */
+    public void noteEvent(java.util.Map<String, Object> fields) {
+        pendingEvents.add(fields);
+    }
+
+    /** @return scenario epoch ms of simulated time {@code timeS} (time 0 = the agent's start) */
+    public long epochMsAt(double timeS) {
+        return startEpochMs + Math.round(timeS * 1000);
     }
 
     /** Owner thread, before start: meters publish through the fault stages, faults are updated each cycle. */
@@ -106,24 +175,47 @@ public final class PlantAgent implements Agent, ScenarioContext {
     @Override
     public int doWork() {
         int work = p.orders() == null ? 0 : p.orders().work();
+        for (Runnable t; (t = loopTasks.poll()) != null; work++) {
+            t.run();
+        }
         if (faults != null) {
             work += faults.update(p.sim());
         }
         long now = p.clock().monotonicNanos();
         int steps = 0;
-        while (steps < MAX_STEPS_PER_CYCLE) {
+        org.loopstand.plant.journal.PlantRunJournal j = journal;
+        while (steps < MAX_STEPS_PER_CYCLE && !finished) {
             long due = startNanos + (p.sim().stepCount() + 1) * stepNanos;
             if (now < due) {
+                break;
+            }
+            if (p.sim().timeS() >= endAtS - p.sim().stepS() * 1e-6) {
+                finished = true;
                 break;
             }
             fireEvents();
             p.sim().step();
             p.lateness().record(now - due);
+            if (j != null) {
+                j.record(org.loopstand.plant.journal.PlantRunJournal.STEP_LATENESS_US, Math.max(0, now - due) / 1_000);
+                writeTruthIfDue(j);
+            }
+            if (record != null && p.sim().timeS() + p.sim().stepS() * 1e-6 >= nextSampleS) {
+                record.sampleTruth(p.sim().timeS(), p.sim());
+                nextSampleS += 1.0 * (Math.floor(p.sim().timeS() - nextSampleS + 1e-9) + 1);
+            }
             for (UnitHost h : p.units()) {
                 work += h.work();
             }
             steps++;
             now = p.clock().monotonicNanos();
+        }
+        if (finished) {
+            // the scenario is over: physics, meters and units stand still; only the journal is kept flushed
+            if (j != null) {
+                j.flushIfDue();
+            }
+            return steps;
         }
         if (steps == 0) {
             for (UnitHost h : p.units()) {
@@ -136,13 +228,104 @@ public final class PlantAgent implements Agent, ScenarioContext {
         }
         work += scanMeters(now);
         work += publishClock(now);
+        if (j != null) {
+            for (java.util.Map<String, Object> e; (e = pendingEvents.poll()) != null; work++) {
+                j.event(p.clock().epochMillis(), e);
+            }
+            j.flushIfDue();
+        }
         return work;
+    }
+
+    private void writeTruthIfDue(org.loopstand.plant.journal.PlantRunJournal j) {
+        double t = p.sim().timeS();
+        if (t + p.sim().stepS() * 1e-6 < nextTruthS) {
+            return;
+        }
+        nextTruthS += truthIntervalS * (Math.floor((t - nextTruthS) / truthIntervalS + 1e-9) + 1);
+        java.util.Map<String, String> modes = new java.util.HashMap<>();
+        for (UnitHost h : p.units()) {
+            modes.put(h.unit().unitId(), h.unit().controlMode().wireName());
+        }
+        j.truth(epochMsAt(t), p.sim(), modes);
     }
 
     private void fireEvents() {
         double tol = p.sim().stepS() * 1e-6;
         while (nextEvent < events.size() && events.get(nextEvent).atS() <= p.sim().timeS() + tol) {
-            events.get(nextEvent++).apply(this);
+            ScenarioEvent e = events.get(nextEvent++);
+            e.apply(this);
+            if (record != null) {
+                record.event(p.sim().timeS(), e.type(), e.toString());
+            }
+            org.loopstand.plant.journal.PlantRunJournal j = journal;
+            if (j != null) {
+                j.event(epochMsAt(p.sim().timeS()), eventFields(e));
+            }
+        }
+    }
+
+    private static final com.fasterxml.jackson.databind.ObjectMapper EVENT_MAPPER =
+            new com.fasterxml.jackson.databind.ObjectMapper();
+
+    /** {@code {"event": type, "atS": …, …the event's own fields}}; falls back to its text form. */
+    static java.util.Map<String, Object> eventFields(ScenarioEvent e) {
+        java.util.Map<String, Object> f = new java.util.LinkedHashMap<>();
+        f.put("event", e.type());
+        f.put("atS", e.atS());
+        try {
+            java.util.Map<?, ?> own = EVENT_MAPPER.convertValue(e, java.util.Map.class);
+            own.forEach((k, v) -> {
+                String name = String.valueOf(k);
+                if (!f.containsKey(name) && !"t".equals(name) && !"kind".equals(name)) {
+                    f.put(name, v);
+                }
+            });
+        } catch (IllegalArgumentException ex) {
+            f.put("detail", e.toString());
+        }
+        return f;
+    }
+
+    /** Decides the scenario's checks over the run record (only when the scenario ran to its end). */
+    private void decideChecks(org.loopstand.plant.journal.PlantRunJournal j) {
+        if (record == null || checks.isEmpty()) {
+            return;
+        }
+        if (!finished) {
+            checkSink.accept("plant: scenario checks not decided: the run stopped at " + p.sim().timeS() + " s, before its end");
+            return;
+        }
+        record.end(p.sim().timeS());
+        for (org.loopstand.plant.check.CheckSpec c : checks) {
+            org.loopstand.plant.check.CheckOutcome o;
+            try {
+                o = c.evaluate(record, p.sim().grid());
+            } catch (RuntimeException e) {
+                o = new org.loopstand.plant.check.CheckOutcome(c.name(), false, Double.NaN, "", Double.NaN,
+                        "could not be decided: " + e.getMessage(), false);
+            }
+            checkSink.accept("plant: check " + o);
+            if (j != null) {
+                j.check(epochMsAt(p.sim().timeS()), o);
+            }
+        }
+    }
+
+    @Override
+    public void onClose() {
+        org.loopstand.plant.journal.PlantRunJournal j = journal;
+        decideChecks(j);
+        if (j != null && !j.isClosed()) {
+            for (java.util.Map<String, Object> e; (e = pendingEvents.poll()) != null; ) {
+                j.event(p.clock().epochMillis(), e);
+            }
+            var h = p.lateness().histogramUs();
+            j.event(p.clock().epochMillis(), java.util.Map.of("event", "summary", "simulatedS", p.sim().timeS(),
+                    "steps", p.sim().stepCount(), "meterSent", meterSent, "meterDropped", meterDropped,
+                    "stepLatenessP99Us", h.getValueAtPercentile(99), "stepLatenessMaxUs", h.getMaxValue()));
+            j.close(Math.max(p.clock().epochMillis(), epochMsAt(p.sim().timeS())), finished ? org.loopstand.protocol.journal.EndReason.COMPLETED
+                    : org.loopstand.protocol.journal.EndReason.STOPPED);
         }
     }
 
@@ -152,29 +335,41 @@ public final class PlantAgent implements Agent, ScenarioContext {
             if (m.due(now)) {
                 AreaMeter reading = m.scan(p.sim(), now, p.clock().epochMillis());
                 n++;
+                String topic = p.topics().areaMeter(reading.area(), reading.meter());
+                byte[] payload = p.codec().encode(reading);
+                org.loopstand.plant.journal.PlantRunJournal j = journal;
                 if (!p.plantBus().isConnected()) {
                     meterDropped++; // never buffered: a late reading would pass for a fresh one
+                    if (j != null) {
+                        j.published(reading.sourceTime(), topic, "AreaMeter", reading.seq(), false, "notConnected", payload, null);
+                    }
                     continue;
                 }
                 meterSent++;
                 if (faults != null) {
-                    faults.publishMeter(reading);
+                    faults.publishMeter(reading); // the fault stage decides what goes out
+                    if (j != null) {
+                        j.published(reading.sourceTime(), topic, "AreaMeter", reading.seq(), true, "throughFaultStage", payload, null);
+                    }
                     continue;
                 }
-                p.plantBus().publish(OutboundMessage.of(p.topics().areaMeter(reading.area(), reading.meter()),
-                        p.codec().encode(reading), Qos.AT_MOST_ONCE));
+                p.plantBus().publish(OutboundMessage.of(topic, payload, Qos.AT_MOST_ONCE));
+                if (j != null) {
+                    j.published(reading.sourceTime(), topic, "AreaMeter", reading.seq(), true, null, payload, null);
+                }
             }
         }
         return n;
     }
 
     private int publishClock(long now) {
-        if (p.rate() == 1.0 || now < nextClockNanos || !p.plantBus().isConnected()) {
+        boolean held = p.clock() instanceof HeldStartClock h && !h.released();
+        if ((p.rate() == 1.0 && !(p.clock() instanceof HeldStartClock)) || now < nextClockNanos || !p.plantBus().isConnected()) {
             return 0;
         }
         nextClockNanos += ((now - nextClockNanos) / clockPeriodNanos + 1) * clockPeriodNanos;
         ClockTick tick = new ClockTick(clockSeq++, p.clock().epochMillis(), Math.round(p.sim().timeS() * 1000),
-                p.rate(), true);
+                p.rate(), !held); // held: the controller's time stands still too
         p.plantBus().publish(new OutboundMessage(p.topics().clock(), p.codec().encode(tick), Qos.AT_MOST_ONCE, true, 0));
         return 1;
     }

@@ -46,6 +46,8 @@ public final class PlantRunner implements AutoCloseable {
     private final PlantAgent agent;
     private final StepLateness lateness;
     private AgentRunner runner;
+    private OperatorOrders orders;
+    private org.loopstand.plant.journal.PlantRunJournal runJournal;
 
     /**
      * @param sim      the physics (owned by the runner's thread from now on)
@@ -84,8 +86,14 @@ public final class PlantRunner implements AutoCloseable {
                         sim.grid().units().stream().map(GeneratingUnit::id).filter(options.remoteUnits()::contains).toList(),
                         FieldGateway.DEFAULT_PERIOD_MS).start();
         List<UnitHost> hostList = List.copyOf(hosts.values());
-        OperatorOrders orders = new OperatorOrders(hostList, codec).subscribe(plantBus, topics);
-        this.lateness = new StepLateness(Math.round(options.lateWarnS() * 1e9), warnings);
+        this.orders = new OperatorOrders(hostList, codec).subscribe(plantBus, topics);
+        this.lateness = new StepLateness(Math.round(options.lateWarnS() * 1e9), msg -> {
+            warnings.accept(msg);
+            PlantAgent a = this.agentOrNull();
+            if (a != null) {
+                a.noteEvent(Map.of("event", "fallingBehind", "lagS", lateness().currentNanos() / 1e9));
+            }
+        });
         this.agent = new PlantAgent(new PlantAgent.Parts(sim, clock, plantBus, topics, codec, meters, hostList, field,
                 orders, events, options.rate(), lateness));
     }
@@ -132,6 +140,42 @@ public final class PlantRunner implements AutoCloseable {
     private MessageBus track(MessageBus bus) {
         buses.add(bus);
         return bus;
+    }
+
+    private PlantAgent agentOrNull() {
+        return agent;
+    }
+
+    /**
+     * Journals the run into {@code j} (call before {@link #start()}): the agent's truth, meters, events
+     * and lateness, every unit link's telemetry and acks, every plant-interface command fate and
+     * decision, every fault order, plant-link up/down. The agent closes it when the loop stops.
+     *
+     * @param truthIntervalS scenario seconds between truth entries, &gt; 0
+     */
+    public PlantRunner journalTo(org.loopstand.plant.journal.PlantRunJournal j, double truthIntervalS) {
+        this.runJournal = j;
+        agent.journalTo(j, truthIntervalS);
+        journal.attach(j);
+        orders.journalTo(j, clock);
+        for (UnitHost h : hosts.values()) {
+            h.link().journalTo(j);
+            h.unit().latency().listen((what, us) -> j.record("toReference".equals(what)
+                    ? org.loopstand.plant.journal.PlantRunJournal.COMMAND_TO_REFERENCE_US
+                    : org.loopstand.plant.journal.PlantRunJournal.COMMAND_TO_OUTPUT_US, us));
+        }
+        plantBus.addConnectionListener(new ConnectionListener() {
+            @Override
+            public void onConnected(boolean reconnect) {
+                agent.noteEvent(Map.of("event", "linkUp", "clientId", plantBus.clientId(), "reconnect", reconnect));
+            }
+
+            @Override
+            public void onDisconnected(Throwable cause) {
+                agent.noteEvent(Map.of("event", "linkDown", "clientId", plantBus.clientId(), "cause", String.valueOf(cause)));
+            }
+        });
+        return this;
     }
 
     /** Starts the loop on its own thread (parks 1 ms when idle). */
@@ -185,11 +229,13 @@ public final class PlantRunner implements AutoCloseable {
         return runner == null ? null : runner.failure();
     }
 
-    /** Stops the loop, then closes every connection (cleanly: no last will). */
+    /** Stops the loop (its journal gets its end entry), then closes every connection (cleanly: no last will). */
     @Override
     public void close() {
         if (runner != null) {
             runner.close();
+        } else if (runJournal != null) {
+            agent.onClose(); // never started: close the journal all the same
         }
         for (MessageBus b : buses) {
             try {

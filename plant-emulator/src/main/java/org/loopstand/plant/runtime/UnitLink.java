@@ -42,6 +42,7 @@ public final class UnitLink implements UnitOutput {
     private final LongAdder dropped = new LongAdder();
     private final LongAdder sendFailed = new LongAdder();
     private volatile boolean failed;
+    private volatile org.loopstand.plant.journal.PlantRunJournal journal;
     private org.loopstand.plant.fault.FaultyPublisher telemetryFaults;
     private final java.util.concurrent.atomic.AtomicBoolean announceDue = new java.util.concurrent.atomic.AtomicBoolean(true);
 
@@ -98,14 +99,29 @@ public final class UnitLink implements UnitOutput {
         return statuses.poll();
     }
 
+    /** Journals every telemetry and ack this link sends or drops from now on (null: none). */
+    public void journalTo(org.loopstand.plant.journal.PlantRunJournal j) {
+        this.journal = j;
+    }
+
     @Override
     public void telemetry(UnitTelemetry t) {
         if (telemetryFaults == null) {
-            send(topics.unitTelemetry(unitId), t, telemetryQos);
+            send(topics.unitTelemetry(unitId), t, telemetryQos, "UnitTelemetry", t.seq());
         } else if (failed || !bus.isConnected()) {
             dropped.increment();
+            journalTelemetry(t, false, failed ? "linkCut" : "notConnected");
         } else {
             telemetryFaults.publishTelemetry(t);
+            journalTelemetry(t, true, "throughFaultStage");
+        }
+    }
+
+    private void journalTelemetry(UnitTelemetry t, boolean sent, String why) {
+        org.loopstand.plant.journal.PlantRunJournal j = journal;
+        if (j != null) {
+            j.published(clock.epochMillis(), topics.unitTelemetry(unitId), "UnitTelemetry", t.seq(), sent, why,
+                    codec.encode(t), null);
         }
     }
 
@@ -120,10 +136,10 @@ public final class UnitLink implements UnitOutput {
 
     @Override
     public void ack(CommandAck a) {
-        send(topics.unitAck(unitId), a, Qos.AT_LEAST_ONCE);
+        send(topics.unitAck(unitId), a, Qos.AT_LEAST_ONCE, "CommandAck", a.seq());
     }
 
-    private void send(String topic, Object message, Qos qos) {
+    private void send(String topic, Object message, Qos qos, String type, long seq) {
         byte[] payload;
         try {
             payload = codec.encode(message);
@@ -133,7 +149,11 @@ public final class UnitLink implements UnitOutput {
             LOG.error("{}: not sent, the codec refused it: {}", unitId, e.getMessage());
             return;
         }
-        send(new OutboundMessage(topic, payload, qos, false, 0));
+        String why = send(new OutboundMessage(topic, payload, qos, false, 0));
+        org.loopstand.plant.journal.PlantRunJournal j = journal;
+        if (j != null) {
+            j.published(clock.epochMillis(), topic, type, seq, why == null, why, payload, null);
+        }
     }
 
     /** Publishes the retained link state of this unit (online unless the link is cut). */
@@ -193,16 +213,18 @@ public final class UnitLink implements UnitOutput {
                 });
     }
 
-    private void send(OutboundMessage m) {
+    /** @return null when handed to the bus, else why not */
+    private String send(OutboundMessage m) {
         if (failed || !bus.isConnected()) {
             dropped.increment(); // stale by the time the link is back: dropped, not replayed
-            return;
+            return failed ? "linkCut" : "notConnected";
         }
         bus.publish(m).whenComplete((ok, e) -> {
             if (e != null) {
                 sendFailed.increment();
             }
         });
+        return null;
     }
 
     /** @return commands or statuses lost because the intake queue was full */

@@ -20,6 +20,12 @@ public final class CommandLatency {
     private double sign;
     private boolean referencePending;
     private boolean outputPending;
+    private java.util.function.BiConsumer<String, Long> listener;
+
+    /** Also tells {@code l} each value as recorded: ("toReference"|"toOutput", µs). Null: none. */
+    public synchronized void listen(java.util.function.BiConsumer<String, Long> l) {
+        this.listener = l;
+    }
 
     /** Starts following an accepted command; {@code sign} +1 raise, −1 lower. */
     public synchronized void accepted(long receivedNanos, double outputMw, double sign) {
@@ -33,12 +39,20 @@ public final class CommandLatency {
     /** Called after each tick with what the unit did. */
     public synchronized void observe(long nowNanos, boolean referenceChanged, double outputMw) {
         if (referencePending && referenceChanged) {
-            toReferenceUs.recordValue(clamp((nowNanos - receivedNanos) / 1_000));
+            long us = clamp((nowNanos - receivedNanos) / 1_000);
+            toReferenceUs.recordValue(us);
             referencePending = false;
+            if (listener != null) {
+                listener.accept("toReference", us);
+            }
         }
         if (outputPending && sign * (outputMw - outputAtReceiptMw) >= VISIBLE_MW) {
-            toOutputUs.recordValue(clamp((nowNanos - receivedNanos) / 1_000));
+            long us = clamp((nowNanos - receivedNanos) / 1_000);
+            toOutputUs.recordValue(us);
             outputPending = false;
+            if (listener != null) {
+                listener.accept("toOutput", us);
+            }
         }
     }
 

@@ -27,7 +27,27 @@ public final class PlantJournal {
     public record Entry(long epochMs, String unit, String kind, RefusalReason reason, long commandSeq, String detail) {
     }
 
+    /** Where entries go besides memory and the log (the run journal); called under this journal's lock. */
+    public interface Sink {
+        void entry(Entry e);
+
+        void command(long epochMs, CommandFate fate);
+    }
+
     private final List<Entry> entries = new ArrayList<>();
+    private Sink sink;
+
+    /** Writes every later entry and command fate through to {@code sink} as well (null: none). */
+    public synchronized void attach(Sink s) {
+        this.sink = s;
+    }
+
+    /** Records what was done with a command (accepted or refused); only the sink keeps these. */
+    public synchronized void command(long epochMs, CommandFate fate) {
+        if (sink != null) {
+            sink.command(epochMs, fate);
+        }
+    }
 
     public void refused(long epochMs, String unit, RefusalReason reason, long commandSeq, String detail) {
         add(new Entry(epochMs, unit, "refused", reason, commandSeq, detail));
@@ -42,6 +62,9 @@ public final class PlantJournal {
             entries.remove(0);
         }
         entries.add(e);
+        if (sink != null) {
+            sink.entry(e);
+        }
         LOG.info("{} {} {}{} seq={} {}", e.epochMs(), e.unit(), e.kind(),
                 e.reason() == null ? "" : " " + e.reason().wireName(), e.commandSeq(), e.detail());
     }

@@ -135,13 +135,13 @@ public final class UnitPlantInterface {
         if (verifier != null) {
             VerificationResult v = verifier.verify(settings.unitId(), c);
             if (!v.accepted()) {
-                refuse(c.seq(), c.controllerId(), new Refusal(v.reason(), v.detail()));
+                refuse(c, c.seq(), c.controllerId(), new Refusal(v.reason(), v.detail()));
                 outcomes.handled(nowMs, c, AckOutcome.REJECTED, v.reason(), false);
                 return;
             }
         }
         if (!ensureMotion()) {
-            refuse(c.seq(), c.controllerId(), new Refusal(RefusalReason.UNIT_OFFLINE, "no field reading from the unit yet"));
+            refuse(c, c.seq(), c.controllerId(), new Refusal(RefusalReason.UNIT_OFFLINE, "no field reading from the unit yet"));
             outcomes.handled(nowMs, c, AckOutcome.REJECTED, RefusalReason.UNIT_OFFLINE, false);
             return;
         }
@@ -151,10 +151,11 @@ public final class UnitPlantInterface {
                     + (c.direction() == PulseDirection.RAISE ? "upper" : "lower") + " regulating limit");
         }
         if (r != null) {
-            refuse(c.seq(), c.controllerId(), r);
+            refuse(c, c.seq(), c.controllerId(), r);
             outcomes.handled(nowMs, c, AckOutcome.REJECTED, r.reason(), false);
             return;
         }
+        double targetBeforeMw = motion.targetMw();
         String detail;
         double sign;
         boolean acted = true;
@@ -179,13 +180,25 @@ public final class UnitPlantInterface {
         lastAcceptedSeq = c.seq();
         accepted++;
         latency.accepted(receivedNanos, field.outputMw(), sign);
+        journal.command(nowMs, fate(c, c.seq(), c.controllerId(), "accepted", null, detail, targetBeforeMw, motion.targetMw()));
         output.ack(new CommandAck(seq++, nowMs, settings.unitId(), c.seq(), c.controllerId(), AckOutcome.ACCEPTED, null, detail));
         outcomes.handled(nowMs, c, AckOutcome.ACCEPTED, null, acted);
     }
 
     /** Handles a payload that did not decode as a command (never applied). */
     public void onMalformed(long commandSeq, String controllerId, String detail) {
-        refuse(commandSeq, controllerId, new Refusal(RefusalReason.MALFORMED, detail));
+        refuse(null, commandSeq, controllerId, new Refusal(RefusalReason.MALFORMED, detail));
+    }
+
+    private CommandFate fate(UnitCommand c, long commandSeq, String controllerId, String outcome, String reason,
+                             String detail, double beforeMw, double afterMw) {
+        if (c == null) {
+            return new CommandFate(settings.unitId(), commandSeq, controllerId, null, null, 0, null, 0, outcome, reason,
+                    detail, beforeMw, afterMw);
+        }
+        return new CommandFate(settings.unitId(), commandSeq, controllerId, c.kind() == null ? null : c.kind().wireName(),
+                c.direction() == null ? null : c.direction().wireName(), c.durationMs(), c.setpointMw(), c.validUntil(),
+                outcome, reason, detail, beforeMw, afterMw);
     }
 
     /** Handles a controller status: heartbeat for the watchdog, epoch for the gate. */
@@ -306,10 +319,12 @@ public final class UnitPlantInterface {
         return motion != null;
     }
 
-    private void refuse(long commandSeq, String controllerId, Refusal r) {
+    private void refuse(UnitCommand c, long commandSeq, String controllerId, Refusal r) {
         refusals.incrementAndGet(r.reason().ordinal());
         long nowMs = clock.epochMillis();
         journal.refused(nowMs, settings.unitId(), r.reason(), commandSeq, r.detail());
+        double targetMw = motion == null ? Double.NaN : motion.targetMw();
+        journal.command(nowMs, fate(c, commandSeq, controllerId, "rejected", r.reason().wireName(), r.detail(), targetMw, targetMw));
         output.ack(new CommandAck(seq++, nowMs, settings.unitId(), Math.max(0, commandSeq), controllerId,
                 AckOutcome.REJECTED, r.reason(), truncate(r.detail())));
     }

@@ -1,0 +1,124 @@
+package org.loopstand.plant.rehearsal;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import java.io.ByteArrayOutputStream;
+import java.io.PrintStream;
+import java.net.InetAddress;
+import java.net.InetSocketAddress;
+import java.net.ServerSocket;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.util.List;
+import java.util.concurrent.CompletableFuture;
+import java.util.regex.Pattern;
+
+import org.awaitility.Awaitility;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.loopstand.protocol.journal.EndReason;
+import org.loopstand.protocol.journal.JournalReader;
+import org.loopstand.protocol.time.WallClock;
+
+/**
+ * The real rehearsal with the plant and the controller as child JVMs (this module's test class path
+ * holds both), on a 120 s scenario at rate 20 and a free loopback port for the embedded broker.
+ */
+class RehearsalProcessesTest {
+    static final Path SCENARIO = Path.of("src", "test", "resources", "rehearsal", "short-trip.yaml");
+    static final Path SITE = Path.of("..", "config", "sites", "demo-site.yaml");
+    static final Pattern EXTERNAL = Pattern.compile("(?i)(src|href)\\s*=\\s*[\"']?\\s*(https?:|//)|url\\(\\s*[\"']?\\s*(https?:|//)|@import");
+
+    @TempDir
+    Path runs;
+
+    final ByteArrayOutputStream output = new ByteArrayOutputStream();
+
+    Rehearsal rehearsal(int port) {
+        return rehearsal(port, 20);
+    }
+
+    Rehearsal rehearsal(int port, double rate) {
+        String cp = System.getProperty("java.class.path");
+        RehearsalSettings s = new RehearsalSettings(SCENARIO, SITE, null, rate, runs,
+                Path.of(System.getProperty("java.home"), "bin", "java").toString(), cp, cp, port, 60_000, List.of());
+        return new Rehearsal(s, WallClock.INSTANCE, new PrintStream(output, true, StandardCharsets.UTF_8), false);
+    }
+
+    static int freePort() throws Exception {
+        try (ServerSocket s = new ServerSocket(0, 1, InetAddress.getLoopbackAddress())) {
+            return s.getLocalPort();
+        }
+    }
+
+    String out() {
+        return output.toString(StandardCharsets.UTF_8);
+    }
+
+    @Test
+    void shouldRunBothProcessesToTheEndAndWriteBothJournalsAndAnOfflineReport() throws Exception {
+        Rehearsal.Outcome o = rehearsal(freePort()).run();
+        assertThat(o.exitCode()).as(out()).isZero();
+        JournalReader.Contents plant = JournalReader.readAll(o.runFolder().resolve("plant.jsonl"));
+        JournalReader.Contents controller = JournalReader.readAll(o.runFolder().resolve("controller.jsonl"));
+        assertThat(plant.summary().endReason()).contains(EndReason.COMPLETED);
+        assertThat(controller.summary().cutShort()).isFalse();
+        assertThat(plant.entries()).filteredOn(e -> e.kind().equals("truth")).hasSizeGreaterThanOrEqualTo(119);
+        assertThat(controller.entries()).anyMatch(e -> e.kind().equals("decided"));
+        assertThat(plant.entries()).anyMatch(e -> e.kind().equals("command") && "accepted".equals(e.text("outcome")));
+        assertThat(o.report()).exists();
+        String html = Files.readString(o.report());
+        assertThat(EXTERNAL.matcher(html).find()).isFalse();
+        assertThat(html).contains("id=\"verdict\"").doesNotContain("CUT SHORT</div>");
+        // the scenario's own check, decided by the plant at the end and shown in the pass/fail table
+        assertThat(plant.entries()).filteredOn(e -> e.kind().equals("check")).singleElement()
+                .satisfies(c -> assertThat(c.text("name")).isEqualTo("ace-recovered"));
+        assertThat(html).contains("ace-recovered").contains("Area south-ridge: after unitTrip at 30 s");
+        assertThat(out()).contains("report: " + o.report().toAbsolutePath());
+        assertThat(o.runFolder().resolve("plant.log")).exists();
+        assertThat(o.runFolder().resolve("controller.log")).exists();
+    }
+
+    @Test
+    void shouldSayClearlyThatTheControllerDiedAndMarkTheReportCutShort() throws Exception {
+        Rehearsal r = rehearsal(freePort(), 5); // 24 s of wall time: room to kill mid-run
+        CompletableFuture<Rehearsal.Outcome> run = CompletableFuture.supplyAsync(r::run);
+        Awaitility.await().atMost(Duration.ofSeconds(90)).until(() -> r.pidOf("controller").isPresent()
+                && controllerDecisions() >= 3);
+        ProcessHandle.of(r.pidOf("controller").getAsLong()).orElseThrow().destroyForcibly(); // SIGKILL
+        Rehearsal.Outcome o = run.get();
+        assertThat(o.exitCode()).isEqualTo(1);
+        assertThat(o.message()).contains("the controller process died").contains("exit code 137");
+        JournalReader.Contents controller = JournalReader.readAll(o.runFolder().resolve("controller.jsonl"));
+        assertThat(controller.summary().cutShort()).isTrue();
+        assertThat(controller.entries()).anyMatch(e -> e.kind().equals("decided"));
+        // the plant was stopped by the rehearsal (SIGTERM): its journal is complete
+        assertThat(JournalReader.readAll(o.runFolder().resolve("plant.jsonl")).summary().cutShort()).isFalse();
+        String html = Files.readString(o.report());
+        assertThat(html).contains("CUT SHORT").contains("The controller process died");
+    }
+
+    @Test
+    void shouldRefuseToStartWhenTheBrokerPortIsTaken() throws Exception {
+        try (ServerSocket taken = new ServerSocket()) {
+            taken.bind(new InetSocketAddress(InetAddress.getByName("127.0.0.1"), 0));
+            Rehearsal.Outcome o = rehearsal(taken.getLocalPort()).run();
+            assertThat(o.exitCode()).isEqualTo(2);
+            assertThat(o.message()).contains("port " + taken.getLocalPort()).contains("is taken").contains("--broker URL");
+            assertThat(o.report()).isNull();
+        }
+    }
+
+    private long controllerDecisions() throws Exception {
+        try (var dirs = Files.list(runs)) {
+            Path run = dirs.findFirst().orElse(null);
+            if (run == null || !Files.exists(run.resolve("controller.jsonl"))) {
+                return 0;
+            }
+            return JournalReader.readAll(run.resolve("controller.jsonl")).entries().stream()
+                    .filter(e -> e.kind().equals("decided")).count();
+        }
+    }
+}

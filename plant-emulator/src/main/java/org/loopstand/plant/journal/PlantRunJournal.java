@@ -1,0 +1,326 @@
+package org.loopstand.plant.journal;
+
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.file.Path;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import org.loopstand.plant.grid.Area;
+import org.loopstand.plant.grid.GeneratingUnit;
+import org.loopstand.plant.grid.Grid;
+import org.loopstand.plant.grid.TieLine;
+import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.plant.unit.CommandFate;
+import org.loopstand.plant.unit.PlantJournal;
+import org.loopstand.protocol.journal.EndReason;
+import org.loopstand.protocol.journal.HistogramLogs;
+import org.loopstand.protocol.journal.JournalFormat;
+import org.loopstand.protocol.journal.JournalWriter;
+import org.loopstand.protocol.message.FaultOrder;
+import org.loopstand.protocol.time.Clock;
+
+/**
+ * The plant process's run journal: {@code plant.jsonl} (fields agreed in the run journal contract:
+ * {@code truth}, {@code published}, {@code command}, {@code event}, {@code fault}) and {@code plant.hlog}
+ * (step lateness, command receipt → reference / output change, µs of scenario time).
+ *
+ * <p>Entry times are scenario epoch ms. Flushes are scheduled on a wall clock (at least every second
+ * when {@link #flushIfDue()} is called from the loop) so a killed process loses at most about a
+ * second. Every method is synchronized: the plant loop is the usual caller, but a shutdown hook may
+ * close it.
+ */
+public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.plant.fault.FaultObserver, AutoCloseable {
+    /** Histogram tags, with their units. */
+    public static final String STEP_LATENESS_US = "stepLatenessUs";
+    public static final String COMMAND_TO_REFERENCE_US = "commandToReferenceUs";
+    public static final String COMMAND_TO_OUTPUT_US = "commandToOutputUs";
+
+    private final JournalWriter journal;
+    private final HistogramLogs histograms;
+    private final ObjectMapper mapper = new ObjectMapper();
+    private final org.loopstand.plant.fault.FaultJournal faults;
+
+    private PlantRunJournal(JournalWriter journal, HistogramLogs histograms) {
+        this.journal = journal;
+        this.histograms = histograms;
+        this.faults = new org.loopstand.plant.fault.FaultJournal(journal);
+    }
+
+    // ---- faults: written by the fault library's own journal format (kind fault, commandFault, published)
+
+    @Override
+    public synchronized void faultStarted(long tMs, org.loopstand.plant.fault.FaultSpec spec, String source) {
+        if (!journal.isClosed()) {
+            faults.faultStarted(tMs, spec, source);
+        }
+    }
+
+    @Override
+    public synchronized void faultStopped(long tMs, org.loopstand.plant.fault.FaultSpec spec, String source, String reason) {
+        if (!journal.isClosed()) {
+            faults.faultStopped(tMs, spec, source, reason);
+        }
+    }
+
+    @Override
+    public synchronized void faultRefused(long tMs, String orderId, String reason) {
+        if (!journal.isClosed()) {
+            faults.faultRefused(tMs, orderId, reason);
+        }
+    }
+
+    @Override
+    public synchronized void published(long tMs, org.loopstand.plant.fault.Publication p) {
+        if (!journal.isClosed()) {
+            faults.published(tMs, p);
+        }
+    }
+
+    @Override
+    public synchronized void commandPassed(long tMs, org.loopstand.protocol.message.UnitCommand command, String fate,
+                                           List<String> faultIds) {
+        if (!journal.isClosed()) {
+            faults.commandPassed(tMs, command, fate, faultIds);
+        }
+    }
+
+    /** A scenario check as decided at the end of the run: the report's pass/fail table reads these. */
+    public synchronized void check(long tMs, org.loopstand.plant.check.CheckOutcome o) {
+        if (journal.isClosed()) {
+            return;
+        }
+        Map<String, Object> f = new LinkedHashMap<>();
+        f.put("name", o.name());
+        f.put("passed", o.passed());
+        f.put("decidingFigure", Double.isNaN(o.decidingFigure()) ? "n/a" : fmt(o.decidingFigure()) + " " + o.unit());
+        f.put("limit", fmt(o.limit()) + " " + o.unit());
+        f.put("source", o.detail() + (o.controllerSide() ? " [controller side]" : ""));
+        f.put("figure", Double.isNaN(o.decidingFigure()) ? null : o.decidingFigure());
+        f.put("unit", o.unit());
+        journal.append(tMs, "check", f);
+    }
+
+    private static String fmt(double v) {
+        return Double.isNaN(v) ? "n/a" : v == Math.rint(v) && Math.abs(v) < 1e12 ? Long.toString((long) v)
+                : String.format(java.util.Locale.ROOT, "%.3f", v);
+    }
+
+    /**
+     * Creates {@code plant.jsonl} and {@code plant.hlog} in {@code dir}.
+     *
+     * @param dir           the run folder (created if missing); the files must not exist yet
+     * @param startedAtMs   scenario time at start, epoch ms
+     * @param header        header extras: site, scenario, rate, seed, broker, grouping, versions
+     * @param scenarioClock stamps histogram intervals (every 10 s of scenario time)
+     * @param wallClock     schedules flushes
+     */
+    public static PlantRunJournal create(Path dir, long startedAtMs, Map<String, ?> header, Clock scenarioClock,
+                                         Clock wallClock) {
+        JournalWriter w = JournalWriter.create(dir.resolve("plant.jsonl"), "plant", startedAtMs, header, wallClock,
+                JournalWriter.DEFAULT_FLUSH_INTERVAL);
+        HistogramLogs h = HistogramLogs.create(dir.resolve("plant.hlog"), scenarioClock, 3_600_000_000L, 3, 10_000);
+        return new PlantRunJournal(w, h);
+    }
+
+    /** Writes the physics as it is: every area, tie and unit. */
+    public synchronized void truth(long tMs, GridSimulator sim, Map<String, String> controlModes) {
+        if (journal.isClosed()) {
+            return;
+        }
+        Grid g = sim.grid();
+        Map<String, Object> areas = new LinkedHashMap<>();
+        for (int i = 0; i < g.areas().size(); i++) {
+            Area a = g.areas().get(i);
+            areas.put(a.id(), Map.of("frequencyHz", round(sim.frequencyHz(i), 1e6), "loadMw", round(sim.loadMw(i), 1e3),
+                    "netInterchangeMw", round(sim.netInterchangeMw(i), 1e3)));
+        }
+        Map<String, Object> ties = new LinkedHashMap<>();
+        for (int i = 0; i < g.ties().size(); i++) {
+            TieLine t = g.ties().get(i);
+            ties.put(t.id(), Map.of("flowMw", round(sim.tieFlowMw(i), 1e3)));
+        }
+        Map<String, Object> units = new LinkedHashMap<>();
+        for (int i = 0; i < g.units().size(); i++) {
+            GeneratingUnit u = g.units().get(i);
+            Map<String, Object> m = new LinkedHashMap<>();
+            m.put("outputMw", round(sim.outputMw(i), 1e3));
+            m.put("loadReferenceMw", round(sim.loadReferenceMw(i), 1e3));
+            m.put("online", sim.isOnline(u.id()));
+            m.put("controlMode", controlModes.getOrDefault(u.id(), "elsewhere"));
+            units.put(u.id(), m);
+        }
+        Map<String, Object> f = new LinkedHashMap<>();
+        f.put("timeS", round(sim.timeS(), 1e3));
+        f.put("areas", areas);
+        f.put("ties", ties);
+        f.put("units", units);
+        journal.append(tMs, JournalFormat.KIND_TRUTH, f);
+    }
+
+    /**
+     * One meter or telemetry message the plant sent or tried to send.
+     *
+     * @param type    record name ({@code AreaMeter}, {@code UnitTelemetry}, {@code CommandAck})
+     * @param why     why it was not sent (e.g. {@code notConnected}), null when sent
+     * @param payload the encoded message
+     */
+    public synchronized void published(long tMs, String topic, String type, long seq, boolean sent, String why,
+                                       byte[] payload, List<String> faults) {
+        if (journal.isClosed()) {
+            return;
+        }
+        Map<String, Object> f = new LinkedHashMap<>();
+        f.put("topic", topic);
+        f.put("type", type);
+        f.put("seq", seq);
+        f.put("sent", sent);
+        if (why != null) {
+            f.put("why", why);
+        }
+        f.put("message", parse(payload));
+        if (faults != null && !faults.isEmpty()) {
+            f.put("faults", faults);
+        }
+        journal.append(tMs, "published", f);
+    }
+
+    @Override
+    public synchronized void command(long epochMs, CommandFate fate) {
+        if (journal.isClosed()) {
+            return;
+        }
+        Map<String, Object> f = new LinkedHashMap<>();
+        f.put("unit", fate.unit());
+        f.put("commandSeq", fate.commandSeq());
+        f.put("controllerId", fate.controllerId());
+        if (fate.kind() != null) {
+            f.put("commandKind", fate.kind());
+        }
+        if (fate.direction() != null) {
+            f.put("direction", fate.direction());
+            f.put("durationMs", fate.durationMs());
+        }
+        if (fate.setpointMw() != null) {
+            f.put("setpointMw", fate.setpointMw());
+        }
+        f.put("validUntil", fate.validUntil());
+        f.put("outcome", fate.outcome());
+        if (fate.reason() != null) {
+            f.put("reason", fate.reason());
+        }
+        if (fate.detail() != null) {
+            f.put("detail", fate.detail());
+        }
+        putFinite(f, "loadReferenceBeforeMw", fate.loadReferenceBeforeMw());
+        putFinite(f, "loadReferenceAfterMw", fate.loadReferenceAfterMw());
+        journal.append(epochMs, "command", f);
+    }
+
+    /** Plant interface decisions of their own (mode changes, watchdog, intake overflow) as events. */
+    @Override
+    public synchronized void entry(PlantJournal.Entry e) {
+        if (journal.isClosed() || "refused".equals(e.kind())) {
+            return; // refusals are journaled as command entries with their fate
+        }
+        Map<String, Object> f = new LinkedHashMap<>();
+        f.put("event", e.kind());
+        f.put("unit", e.unit());
+        f.put("detail", e.detail());
+        journal.append(e.epochMs(), JournalFormat.KIND_EVENT, f);
+    }
+
+    /** A scenario or process event: {@code fields} must hold {@code event}. */
+    public synchronized void event(long tMs, Map<String, ?> fields) {
+        if (!journal.isClosed()) {
+            journal.append(tMs, JournalFormat.KIND_EVENT, fields);
+        }
+    }
+
+    /** An operator order as received (returnToRemote, setControlMode, unitLinkDown), as an event. */
+    public synchronized void operatorOrder(long tMs, FaultOrder o) {
+        if (journal.isClosed()) {
+            return;
+        }
+        Map<String, Object> f = new LinkedHashMap<>();
+        f.put("event", "operatorOrder");
+        f.put("action", o.action().name().toLowerCase(java.util.Locale.ROOT));
+        f.put("orderId", o.orderId());
+        f.put("faultType", o.faultType());
+        f.put("targets", o.targets());
+        f.put("parameters", o.parameters());
+        if (o.durationS() != null) {
+            f.put("durationS", o.durationS());
+        }
+        journal.append(tMs, JournalFormat.KIND_EVENT, f);
+    }
+
+    /** Records one value of a histogram quantity (tags above). */
+    public synchronized void record(String tag, long value) {
+        if (!journal.isClosed()) {
+            histograms.record(tag, value);
+        }
+    }
+
+    /** Call from the loop: flushes the journal at least every second and writes due histogram intervals. */
+    public synchronized void flushIfDue() {
+        if (!journal.isClosed()) {
+            journal.flushIfDue();
+            histograms.writeIntervalIfDue();
+        }
+    }
+
+    /** Writes the end entry and closes both files; later calls do nothing. */
+    public synchronized void close(long tMs, EndReason reason) {
+        if (journal.isClosed()) {
+            return;
+        }
+        try {
+            histograms.close();
+        } finally {
+            journal.close(tMs, reason);
+        }
+    }
+
+    /** Closes with reason stopped at the time of the last entry; later calls do nothing. */
+    @Override
+    public synchronized void close() {
+        if (journal.isClosed()) {
+            return;
+        }
+        try {
+            histograms.close();
+        } finally {
+            journal.close();
+        }
+    }
+
+    public synchronized boolean isClosed() {
+        return journal.isClosed();
+    }
+
+    public Path file() {
+        return journal.file();
+    }
+
+    private JsonNode parse(byte[] payload) {
+        try {
+            return mapper.readTree(payload);
+        } catch (IOException e) {
+            throw new UncheckedIOException("plant journal: an encoded message did not parse back: " + e.getMessage(), e);
+        }
+    }
+
+    private static void putFinite(Map<String, Object> f, String name, double v) {
+        if (Double.isFinite(v)) {
+            f.put(name, v);
+        }
+    }
+
+    private static double round(double v, double scale) {
+        return Double.isFinite(v) ? Math.rint(v * scale) / scale : v;
+    }
+}

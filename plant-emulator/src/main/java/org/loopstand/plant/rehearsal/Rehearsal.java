@@ -1,0 +1,320 @@
+package org.loopstand.plant.rehearsal;
+
+import java.io.IOException;
+import java.io.PrintStream;
+import java.io.UncheckedIOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Instant;
+import java.time.ZoneId;
+import java.time.format.DateTimeFormatter;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.concurrent.CountDownLatch;
+import java.util.concurrent.TimeUnit;
+import java.util.concurrent.locks.LockSupport;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
+
+import org.loopstand.plant.cli.PlantCli;
+import org.loopstand.protocol.bus.MessageBus;
+import org.loopstand.protocol.bus.Qos;
+import org.loopstand.protocol.bus.mqtt.MqttLink;
+import org.loopstand.protocol.bus.mqtt.MqttLinkConfig;
+import org.loopstand.protocol.time.Clock;
+import org.loopstand.protocol.topic.TopicKind;
+import org.loopstand.protocol.topic.TopicTree;
+import org.loopstand.report.html.HtmlReportWriter;
+import org.loopstand.report.model.ReportModel;
+import org.loopstand.report.run.RunFolder;
+import org.loopstand.report.run.RunReportBuilder;
+
+/**
+ * One rehearsal: a run folder, the plant process (with the embedded broker unless an external one is
+ * given), the controller process, progress on the terminal, a clean stop at the scenario's end, on
+ * Ctrl-C ({@link #abort()}) or when a process dies, and the report. Children's output goes to
+ * {@code plant.log} / {@code controller.log} in the run folder.
+ */
+public final class Rehearsal {
+    /** What happened. */
+    public record Outcome(int exitCode, Path runFolder, Path report, String message) {
+    }
+
+    static final String CONTROLLER_ID = "controller-1";
+    private static final Pattern TOP_KEY = Pattern.compile("^(site|siteId|durationS|rateX):\\s*([^#\\s]+)");
+
+    private final RehearsalSettings s;
+    private final Clock wall;
+    private final PrintStream out;
+    private final boolean terminal;
+    private final CountDownLatch done = new CountDownLatch(1);
+    private volatile boolean aborted;
+    private volatile boolean plantDone;
+    private volatile ChildProcess plantChild;
+    private volatile ChildProcess controllerChild;
+
+    /**
+     * @param wall     wall clock (names the run folder, paces progress)
+     * @param out      where progress and messages go
+     * @param terminal true to redraw one progress line with \r; false for a plain line every ~10 s
+     */
+    public Rehearsal(RehearsalSettings settings, Clock wall, PrintStream out, boolean terminal) {
+        this.s = settings;
+        this.wall = wall;
+        this.out = out;
+        this.terminal = terminal;
+    }
+
+    /** Asks a running rehearsal to stop both processes and write its report (Ctrl-C). Any thread. */
+    public void abort() {
+        aborted = true;
+    }
+
+    /** Waits for {@link #run()} to finish, at most {@code timeoutMs}; for a shutdown hook. */
+    public boolean awaitDone(long timeoutMs) throws InterruptedException {
+        return done.await(timeoutMs, TimeUnit.MILLISECONDS);
+    }
+
+    /** @return the pid of the running "plant" or "controller" process, if started (tests, diagnostics) */
+    public java.util.OptionalLong pidOf(String process) {
+        ChildProcess c = "plant".equals(process) ? plantChild : "controller".equals(process) ? controllerChild : null;
+        return c == null ? java.util.OptionalLong.empty() : java.util.OptionalLong.of(c.pid());
+    }
+
+    public Outcome run() {
+        try {
+            return runOnce();
+        } finally {
+            done.countDown();
+        }
+    }
+
+    private Outcome runOnce() {
+        if (s.brokerUrl() == null && !PortProbe.isFree("127.0.0.1", s.embeddedPort())) {
+            return fail(2, null, "port " + s.embeddedPort() + " on 127.0.0.1 is taken, so the plant cannot start its"
+                    + " embedded broker there. Another broker or rehearsal is probably running: stop it (see `ss -ltnp"
+                    + " | grep " + s.embeddedPort() + "`), or rehearse against a running broker with --broker URL.");
+        }
+        String siteId = topValue(s.siteFile(), "siteId");
+        if (siteId == null) {
+            return fail(2, null, "site file " + s.siteFile() + " has no top-level siteId");
+        }
+        double durationS = parseOr(topValue(s.scenarioFile(), "durationS"), Double.NaN);
+        Path run = makeRunFolder();
+        say("rehearsal: scenario " + s.scenarioFile() + " on site " + siteId + " at rate " + trim(s.rate())
+                + (Double.isNaN(durationS) ? "" : String.format(Locale.ROOT, " (%.0f s of scenario, about %.0f s wall)",
+                        durationS, durationS / s.rate()))
+                + "; broker " + (s.brokerUrl() == null ? "embedded on " + s.effectiveBrokerUrl() : s.brokerUrl()));
+        say("rehearsal: run folder " + run);
+        ChildProcess plant = null;
+        ChildProcess controller = null;
+        MessageBus progressLink = null;
+        ProgressView view = new ProgressView(durationS);
+        List<String> notes = new ArrayList<>();
+        int exit = 0;
+        String message;
+        try {
+            plant = ChildProcess.start("plant", plantCommand(run), run.resolve("plant.log"),
+                    l -> l.startsWith("plant: site "), l -> {
+                        if (l.startsWith("plant: scenario done")) {
+                            plantDone = true;
+                        }
+                    });
+            plantChild = plant;
+            plant.awaitReady(s.readyTimeoutMs());
+            controller = ChildProcess.start("controller", controllerCommand(run), run.resolve("controller.log"),
+                    l -> l.startsWith("control: " + CONTROLLER_ID + " on"), l -> { });
+            controllerChild = controller;
+            controller.awaitReady(s.readyTimeoutMs());
+            plant.sendLine("go"); // scenario time starts now that both are up
+            say("rehearsal: plant (pid " + plant.pid() + ") and controller (pid " + controller.pid() + ") running;"
+                    + " Ctrl-C stops both and still writes the report");
+            progressLink = progressLink(siteId, view);
+            message = watch(plant, controller, view, notes);
+            exit = message == null ? 0 : aborted ? 130 : 1;
+        } catch (IllegalStateException | UncheckedIOException e) {
+            message = e.getMessage();
+            notes.add(message);
+            exit = 1;
+        } finally {
+            if (progressLink != null) {
+                progressLink.close();
+            }
+            if (controller != null) {
+                controller.stop(15_000); // SIGTERM: its shutdown hook closes its journal
+            }
+            if (plant != null) {
+                plant.stop(20_000);
+            }
+        }
+        if (terminal) {
+            out.println();
+        }
+        Path report = writeReport(run, notes);
+        if (message != null) {
+            say("rehearsal: " + (exit == 130 ? "stopped: " : "FAILED: ") + message);
+        } else {
+            say("rehearsal: completed");
+        }
+        if (report != null) {
+            say("report: " + report.toAbsolutePath());
+        }
+        return new Outcome(exit, run, report, message);
+    }
+
+    /** @return null when the scenario ran to its end, else why it did not */
+    private String watch(ChildProcess plant, ChildProcess controller, ProgressView view, List<String> notes) {
+        long lastPlainNanos = wall.monotonicNanos();
+        while (true) {
+            if (aborted) {
+                notes.add(String.format(Locale.ROOT, "Stopped by the operator (Ctrl-C) at scenario time %.0f s.", view.scenarioS()));
+                return "stopped by Ctrl-C at scenario time " + fmt(view.scenarioS()) + " s";
+            }
+            if (plantDone) {
+                return null;
+            }
+            for (ChildProcess c : List.of(controller, plant)) {
+                if (!c.isAlive()) {
+                    c.awaitExit(1_000);
+                    LockSupport.parkNanos(500_000_000L); // a Ctrl-C reaches the children too: let abort() land first
+                    if (aborted || (c == plant && plantDone)) {
+                        break;
+                    }
+                    String m = "the " + c.name() + " process died" + c.exitCode().map(x -> " (exit code " + x
+                            + (x == 137 ? ", killed" : "") + ")").orElse("") + " at scenario time " + fmt(view.scenarioS())
+                            + " s; its last output:\n" + c.tail();
+                    notes.add("The " + c.name() + " process died" + c.exitCode().map(x -> " with exit code " + x).orElse("")
+                            + " at scenario time " + fmt(view.scenarioS()) + " s; the run was cut short.");
+                    return m;
+                }
+            }
+            long now = wall.monotonicNanos();
+            if (terminal) {
+                out.print("\r" + view.line() + "\u001b[K");
+                out.flush();
+            } else if (now - lastPlainNanos >= 10_000_000_000L) {
+                lastPlainNanos = now;
+                say(view.line());
+            }
+            LockSupport.parkNanos(250_000_000L);
+        }
+    }
+
+    private Path writeReport(Path run, List<String> notes) {
+        try {
+            RunFolder folder = RunFolder.read(run);
+            Map<String, String> config = new LinkedHashMap<>();
+            config.put("scenario file", s.scenarioFile().toString());
+            config.put("site file", s.siteFile().toString());
+            config.put("rate", trim(s.rate()));
+            config.put("broker", s.brokerUrl() == null ? "embedded, " + s.effectiveBrokerUrl() : s.brokerUrl());
+            config.put("controller", CONTROLLER_ID + ", clock followed from the bus");
+            ReportModel model = RunReportBuilder.build(folder, config, notes, PlantCli.VERSION);
+            Path report = run.resolve("report.html");
+            HtmlReportWriter.write(model, report);
+            return report;
+        } catch (RuntimeException e) {
+            say("rehearsal: the report could not be written: " + e.getMessage());
+            return null;
+        }
+    }
+
+    private MessageBus progressLink(String siteId, ProgressView view) {
+        TopicTree topics = TopicTree.forSite(siteId);
+        MqttLink link = new MqttLink(MqttLinkConfig.builder().serverUri(s.effectiveBrokerUrl())
+                .clientId("rehearsal-progress-" + ProcessHandle.current().pid()).build(), wall).start();
+        for (String filter : List.of(topics.clock(), topics.filterAll(TopicKind.CONTROLLER_STATUS),
+                topics.filterAll(TopicKind.AREA_METER), topics.faults())) {
+            link.subscribe(filter, Qos.AT_MOST_ONCE, m -> view.onMessage(m.topic(), m.payload()));
+        }
+        return link;
+    }
+
+    List<String> plantCommand(Path run) {
+        List<String> c = new ArrayList<>(List.of(s.javaCommand(), "-cp", s.plantClassPath(),
+                "org.loopstand.plant.cli.PlantCli", "plant", "--site", s.siteFile().toString(),
+                "--scenario", s.scenarioFile().toString(), "--rate", trim(s.rate()), "--journal", run.toString(),
+                "--linger-s", "60", "--wait-go"));
+        if (s.brokerUrl() != null) {
+            c.add("--broker");
+            c.add(s.brokerUrl());
+        } else {
+            c.add("--broker-port");
+            c.add(Integer.toString(s.embeddedPort()));
+        }
+        c.addAll(s.extraPlantArgs());
+        return c;
+    }
+
+    List<String> controllerCommand(Path run) {
+        return List.of(s.javaCommand(), "-cp", s.controllerClassPath(), "org.loopstand.controller.cli.ControllerCli",
+                "control", "--site", s.siteFile().toString(), "--broker", s.effectiveBrokerUrl(), "--clock", "bus",
+                "--controller-id", CONTROLLER_ID, "--journal", run.toString());
+    }
+
+    private Path makeRunFolder() {
+        String stamp = DateTimeFormatter.ofPattern("yyyyMMdd-HHmmss", Locale.ROOT)
+                .format(Instant.ofEpochMilli(wall.epochMillis()).atZone(ZoneId.systemDefault()));
+        String base = stamp + "-" + s.scenarioName();
+        try {
+            Files.createDirectories(s.runsDir());
+            for (int i = 1; ; i++) {
+                Path p = s.runsDir().resolve(i == 1 ? base : base + "-" + i);
+                try {
+                    return Files.createDirectory(p);
+                } catch (java.nio.file.FileAlreadyExistsException e) {
+                    if (i > 100) {
+                        throw e;
+                    }
+                }
+            }
+        } catch (IOException e) {
+            throw new UncheckedIOException("cannot create a run folder in " + s.runsDir() + ": " + e.getMessage(), e);
+        }
+    }
+
+    private Outcome fail(int code, Path run, String message) {
+        say("rehearsal: FAILED: " + message);
+        return new Outcome(code, run, null, message);
+    }
+
+    /** @return the value of a top-level {@code key: value} line of a YAML file, or null */
+    static String topValue(Path file, String key) {
+        try {
+            for (String line : Files.readAllLines(file, StandardCharsets.UTF_8)) {
+                Matcher m = TOP_KEY.matcher(line);
+                if (m.find() && m.group(1).equals(key)) {
+                    return m.group(2).replaceAll("^[\"']|[\"']$", "");
+                }
+            }
+            return null;
+        } catch (IOException e) {
+            throw new UncheckedIOException("cannot read " + file + ": " + e.getMessage(), e);
+        }
+    }
+
+    private static double parseOr(String v, double fallback) {
+        try {
+            return v == null ? fallback : Double.parseDouble(v);
+        } catch (NumberFormatException e) {
+            return fallback;
+        }
+    }
+
+    private void say(String line) {
+        out.println(line);
+        out.flush();
+    }
+
+    private static String fmt(double s) {
+        return Double.isNaN(s) ? "?" : String.format(Locale.ROOT, "%.0f", s);
+    }
+
+    static String trim(double v) {
+        return v == Math.rint(v) ? Long.toString((long) v) : Double.toString(v);
+    }
+}

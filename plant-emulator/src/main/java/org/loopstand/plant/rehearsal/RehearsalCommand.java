@@ -1,0 +1,103 @@
+package org.loopstand.plant.rehearsal;
+
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.List;
+import java.util.concurrent.Callable;
+
+import org.loopstand.protocol.time.WallClock;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Parameters;
+
+/**
+ * {@code loopstand rehearse [SCENARIO]}: plant and controller as separate processes, progress, a run
+ * folder with both journals and the report.
+ */
+@Command(name = "rehearse", mixinStandardHelpOptions = true,
+        description = {"Run a full rehearsal: the plant (with the embedded broker) and the controller as separate"
+                + " processes, progress on the terminal, journals and report in runs/<timestamp>-<scenario>/.",
+                "CAUTION: the controller sends raise/lower commands; rehearse only against the emulator or a test broker."})
+public final class RehearsalCommand implements Callable<Integer> {
+    static final String DEFAULT_SCENARIO = "config/scenarios/rehearse-unit-trip.yaml";
+    /** Wall time a rehearsal aims at when the scenario names no rateX, s. */
+    static final double TARGET_WALL_S = 120;
+
+    @Parameters(arity = "0..1", paramLabel = "SCENARIO", description = "scenario file (default " + DEFAULT_SCENARIO + ")")
+    Path scenario;
+
+    @Option(names = "--broker", description = "use this running MQTT 5 broker (e.g. tcp://127.0.0.1:1883) instead of the embedded one")
+    String broker;
+
+    @Option(names = "--rate", description = "scenario seconds per wall second (default: the scenario's rateX,"
+            + " else its duration / 120 s, at least 1)")
+    Double rate;
+
+    @Option(names = "--runs-dir", defaultValue = "runs", description = "where run folders go (default ${DEFAULT-VALUE})")
+    Path runsDir;
+
+    @Option(names = "--port", defaultValue = "1884", description = "port of the embedded broker (default ${DEFAULT-VALUE})")
+    int port;
+
+    @Option(names = "--site", description = "site file (default: config/sites/<the scenario's site>.yaml)")
+    Path site;
+
+    @Override
+    public Integer call() throws Exception {
+        Path home = Path.of(System.getenv().getOrDefault("LOOPSTAND_HOME", "."));
+        Path scenarioFile = scenario != null ? scenario : home.resolve(DEFAULT_SCENARIO);
+        if (!Files.isRegularFile(scenarioFile)) {
+            System.err.println("rehearse: scenario file " + scenarioFile + " does not exist");
+            return 2;
+        }
+        Path siteFile = site;
+        if (siteFile == null) {
+            String id = Rehearsal.topValue(scenarioFile, "site");
+            if (id == null) {
+                System.err.println("rehearse: scenario " + scenarioFile + " names no site (top-level 'site:'); give --site FILE");
+                return 2;
+            }
+            siteFile = home.resolve("config/sites/" + id + ".yaml");
+        }
+        double r;
+        if (rate != null) {
+            r = rate;
+        } else if (Rehearsal.topValue(scenarioFile, "rateX") != null) {
+            r = Double.parseDouble(Rehearsal.topValue(scenarioFile, "rateX"));
+        } else {
+            String d = Rehearsal.topValue(scenarioFile, "durationS");
+            r = d == null ? 1 : Math.max(1, Math.ceil(Double.parseDouble(d) / TARGET_WALL_S));
+        }
+        RehearsalSettings settings;
+        try {
+            settings = new RehearsalSettings(scenarioFile, siteFile, broker, r, runsDir,
+                    Path.of(System.getProperty("java.home"), "bin", "java").toString(),
+                    System.getenv("LOOPSTAND_PLANT_CP"), System.getenv("LOOPSTAND_CONTROLLER_CP"),
+                    port, 90_000, List.of());
+        } catch (IllegalArgumentException e) {
+            System.err.println("rehearse: " + e.getMessage());
+            return 2;
+        }
+        // the progress line owns the terminal: the rehearsal's own bus link speaks only when something is wrong
+        if (org.slf4j.LoggerFactory.getLogger("org.loopstand.protocol.bus") instanceof ch.qos.logback.classic.Logger l) {
+            l.setLevel(ch.qos.logback.classic.Level.WARN);
+        }
+        Rehearsal rehearsal = new Rehearsal(settings, WallClock.INSTANCE, System.out, System.console() != null);
+        Thread hook = new Thread(() -> {
+            rehearsal.abort();
+            try {
+                rehearsal.awaitDone(120_000);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
+        }, "rehearsal-stop");
+        Runtime.getRuntime().addShutdownHook(hook);
+        Rehearsal.Outcome o = rehearsal.run();
+        try {
+            Runtime.getRuntime().removeShutdownHook(hook);
+        } catch (IllegalStateException e) {
+            // shutting down already (Ctrl-C): the hook is waiting for us and ends now
+        }
+        return o.exitCode();
+    }
+}

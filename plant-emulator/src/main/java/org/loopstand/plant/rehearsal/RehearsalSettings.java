@@ -1,0 +1,58 @@
+package org.loopstand.plant.rehearsal;
+
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.List;
+import java.util.Objects;
+
+/**
+ * How one rehearsal runs.
+ *
+ * @param scenarioFile  the scenario (YAML)
+ * @param siteFile      the site (YAML)
+ * @param brokerUrl     an external broker, or null to let the plant start the embedded one
+ * @param rate          scenario seconds per wall second, (0, 1000]
+ * @param runsDir       where run folders are made
+ * @param javaCommand   the java launcher for the children
+ * @param plantClassPath      class path of the plant process
+ * @param controllerClassPath class path of the controller process
+ * @param embeddedPort  the embedded broker's port (checked free before start)
+ * @param readyTimeoutMs how long a child may take to say it is ready, ms
+ * @param extraPlantArgs extra arguments for the plant process (tests), may be empty
+ */
+public record RehearsalSettings(Path scenarioFile, Path siteFile, String brokerUrl, double rate, Path runsDir,
+                                String javaCommand, String plantClassPath, String controllerClassPath, int embeddedPort,
+                                long readyTimeoutMs, List<String> extraPlantArgs) {
+    public static final int EMBEDDED_PORT = 1884;
+
+    public RehearsalSettings {
+        Objects.requireNonNull(scenarioFile, "scenarioFile");
+        Objects.requireNonNull(siteFile, "siteFile");
+        Objects.requireNonNull(runsDir, "runsDir");
+        extraPlantArgs = List.copyOf(extraPlantArgs);
+        if (!Files.isRegularFile(scenarioFile)) {
+            throw new IllegalArgumentException("scenario file " + scenarioFile + " does not exist");
+        }
+        if (!Files.isRegularFile(siteFile)) {
+            throw new IllegalArgumentException("site file " + siteFile + " does not exist (give it with --site FILE)");
+        }
+        if (!(rate > 0) || rate > 1000) {
+            throw new IllegalArgumentException("rate must be in (0, 1000], got " + rate);
+        }
+        if (plantClassPath == null || plantClassPath.isBlank() || controllerClassPath == null || controllerClassPath.isBlank()) {
+            throw new IllegalArgumentException("the class paths of the plant and controller processes are not known;"
+                    + " run the rehearsal through ./loopstand (it sets LOOPSTAND_PLANT_CP and LOOPSTAND_CONTROLLER_CP)");
+        }
+    }
+
+    /** @return the URL both processes use */
+    public String effectiveBrokerUrl() {
+        return brokerUrl != null ? brokerUrl : "tcp://127.0.0.1:" + embeddedPort;
+    }
+
+    /** @return the scenario's name (file name without .yaml) */
+    public String scenarioName() {
+        String n = scenarioFile.getFileName().toString();
+        return n.replaceFirst("\\.ya?ml$", "");
+    }
+}

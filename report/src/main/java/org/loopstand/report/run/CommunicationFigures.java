@@ -1,0 +1,138 @@
+package org.loopstand.report.run;
+
+import java.util.ArrayList;
+import java.util.HashSet;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Set;
+import java.util.TreeMap;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import org.loopstand.protocol.journal.JournalEntry;
+import org.loopstand.report.metrics.CommunicationStats;
+import org.loopstand.report.model.Metric;
+import org.loopstand.report.model.MetricSection;
+
+/**
+ * Communication figures of a run from both journals: message rates, commands and acks lost between
+ * the processes (by seq), messages the plant could not send, command latency, refusals and
+ * suspensions by reason.
+ */
+final class CommunicationFigures {
+    private CommunicationFigures() {
+    }
+
+    static List<MetricSection> sections(List<JournalEntry> plant, List<JournalEntry> ctl, ObjectNode ph, double durationS) {
+        List<MetricSection> out = new ArrayList<>();
+        double d = Math.max(durationS, 1e-3);
+        double rate = ph == null ? 1 : ph.path("rate").asDouble(1);
+
+        Map<String, Long> publishedByType = new TreeMap<>();
+        Map<String, Long> notSentByWhy = new TreeMap<>();
+        long acksSentByPlant = 0;
+        for (JournalEntry e : plant) {
+            if (!e.kind().equals("published")) {
+                continue;
+            }
+            if (e.fields().path("sent").asBoolean(false)) {
+                publishedByType.merge(e.text("type"), 1L, Long::sum);
+                if ("CommandAck".equals(e.text("type"))) {
+                    acksSentByPlant++;
+                }
+            } else {
+                notSentByWhy.merge(e.text("type") + " " + e.fields().path("why").asText("?"), 1L, Long::sum);
+            }
+        }
+        List<JournalEntry> sent = JournalSeries.ofKind(ctl, "sent");
+        long acksReceived = ctl.stream().filter(e -> e.fields().has("ack")).count();
+        List<Metric> rates = new ArrayList<>();
+        publishedByType.forEach((type, n) -> rates.add(Metric.of(type + " published by the plant", n / d, 2, "1/s",
+                n + " messages; plant published entries with sent = true")));
+        rates.add(Metric.of("commands sent by the controller", sent.size() / d, 3, "1/s", sent.size() + " commands; controller sent entries"));
+        rates.add(Metric.of("acks received by the controller", acksReceived / d, 3, "1/s", acksReceived + " acks"));
+        rates.add(new Metric("rates per", "scenario second", "", String.format(Locale.ROOT, "run of %.0f s at rate %s", durationS,
+                RunReportBuilder.trim(rate))));
+        out.add(new MetricSection("Message rates", MetricSection.Group.COMMUNICATION, rates));
+
+        List<Metric> loss = new ArrayList<>();
+        Set<Long> sentSeqs = new HashSet<>();
+        sent.forEach(e -> e.number("seq").ifPresent(s -> sentSeqs.add((long) s)));
+        Set<Long> arrived = new HashSet<>();
+        List<String> refusals = new ArrayList<>();
+        for (JournalEntry e : JournalSeries.ofKind(plant, "command")) {
+            e.number("commandSeq").ifPresent(s -> arrived.add((long) s));
+            if ("rejected".equals(e.text("outcome"))) {
+                refusals.add(e.text("reason"));
+            }
+        }
+        long lostCommands = sentSeqs.stream().filter(s -> !arrived.contains(s)).count();
+        loss.add(Metric.of("commands lost controller → plant", lostCommands, 0, "", String.format(Locale.ROOT,
+                "%d sent, %d of them arrived at a plant interface (%.2f %% lost); seq of controller sent vs plant command entries",
+                sentSeqs.size(), sentSeqs.size() - lostCommands, sentSeqs.isEmpty() ? 0.0 : 100.0 * lostCommands / sentSeqs.size())));
+        loss.add(Metric.of("acks lost plant → controller", Math.max(0, acksSentByPlant - acksReceived), 0, "",
+                acksSentByPlant + " acks published by the plant, " + acksReceived + " received by the controller"));
+        if (notSentByWhy.isEmpty()) {
+            loss.add(new Metric("plant messages not sent", "0", "", "meter, telemetry and acks dropped at the source (link down)"));
+        }
+        notSentByWhy.forEach((k, n) -> loss.add(Metric.of("not sent: " + k, n, 0, "", "dropped at the source, never sent late")));
+        loss.add(new Metric("meter / telemetry loss on the way", "–", "",
+                "not measurable yet: the controller does not journal each message it receives"));
+        out.add(new MetricSection("Loss", MetricSection.Group.COMMUNICATION, loss));
+
+        List<String> suspensions = new ArrayList<>();
+        String previous = "regulating";
+        long suspendedCycles = 0;
+        for (JournalEntry e : JournalSeries.ofKind(ctl, "decided")) {
+            String state = e.text("state");
+            if (!"regulating".equals(state)) {
+                suspendedCycles++;
+                if ("regulating".equals(previous)) {
+                    JsonNode r = e.fields().path("reasons");
+                    if (r.isArray() && r.size() > 0) {
+                        r.forEach(x -> suspensions.add(x.asText()));
+                    } else {
+                        suspensions.add("unknown");
+                    }
+                }
+            }
+            previous = state;
+        }
+        List<String> intakeRefusals = new ArrayList<>();
+        ctl.stream().filter(e -> e.kind().equals("refused") && e.fields().has("topic"))
+                .forEach(e -> intakeRefusals.add(e.text("reason")));
+        double[] latency = RunHistograms.commandLatencyMs(ctl);
+        CommunicationStats cs = CommunicationStats.of(List.of(), new double[0], latency, refusals, suspensions, d);
+        List<Metric> lat = new ArrayList<>();
+        CommunicationStats.Spread s = cs.commandLatencyMs();
+        lat.add(Metric.of("command latency p50", s.p50(), 0, "ms", wallNote(s.p50(), rate) + "; controller sent → ack received, "
+                + s.count() + " commands, nearest rank"));
+        lat.add(Metric.of("command latency p90", s.p90(), 0, "ms", wallNote(s.p90(), rate)));
+        lat.add(Metric.of("command latency p99", s.p99(), 0, "ms", wallNote(s.p99(), rate)));
+        lat.add(Metric.of("command latency max", s.max(), 0, "ms", wallNote(s.max(), rate)));
+        lat.add(new Metric("age of data at use", "–", "ms", "not journaled by the controller yet"));
+        out.add(new MetricSection("Latency (scenario ms)", MetricSection.Group.COMMUNICATION, lat));
+
+        List<Metric> reasons = new ArrayList<>();
+        cs.refusalsByReason().forEach((r, n) -> reasons.add(Metric.of("command refused at the plant: " + r, n, 0, "",
+                "plant command entries, outcome rejected")));
+        if (cs.refusalsByReason().isEmpty()) {
+            reasons.add(new Metric("commands refused at the plant", "0", "", "plant command entries"));
+        }
+        Map<String, Long> intake = new LinkedHashMap<>(JournalSeries.count(intakeRefusals));
+        intake.forEach((r, n) -> reasons.add(Metric.of("input refused by the controller: " + r, n, 0, "",
+                "controller refused entries (intake)")));
+        cs.suspensionsByReason().forEach((r, n) -> reasons.add(Metric.of("suspension: " + r, n, 0, "",
+                "times control went from regulating to suspended with this reason")));
+        reasons.add(Metric.of("cycles not regulating", suspendedCycles, 0, "", "controller decided entries with state ≠ regulating"));
+        out.add(new MetricSection("Refusals and suspensions", MetricSection.Group.COMMUNICATION, reasons));
+        return out;
+    }
+
+    private static String wallNote(double scenarioMs, double rate) {
+        return Double.isNaN(scenarioMs) ? "" : String.format(Locale.ROOT, "≈ %.0f ms wall at rate %s", scenarioMs / rate,
+                RunReportBuilder.trim(rate));
+    }
+}

@@ -1,0 +1,100 @@
+package org.loopstand.report.run;
+
+import static org.assertj.core.api.Assertions.assertThat;
+import static org.assertj.core.api.Assertions.within;
+
+import java.nio.file.Path;
+import java.util.List;
+import java.util.Map;
+
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.loopstand.protocol.journal.EndReason;
+import org.loopstand.protocol.journal.JournalWriter;
+import org.loopstand.protocol.time.VirtualClock;
+import org.loopstand.report.model.Chart;
+import org.loopstand.report.model.Metric;
+import org.loopstand.report.model.MetricSection;
+import org.loopstand.report.model.ReportModel;
+
+/** A small hand-made run folder: every figure below is worked out by hand from the entries written. */
+class RunReportBuilderTest {
+    static final long T0 = 1_767_225_600_000L; // 2026-01-01T00:00:00Z, a clock-minute boundary
+
+    @TempDir
+    Path run;
+
+    final VirtualClock wall = new VirtualClock(T0);
+
+    void writeRun(boolean closePlant) {
+        JournalWriter plant = JournalWriter.create(run.resolve("plant.jsonl"), "plant", T0, Map.of("site", "s1",
+                "scenario", "trip.yaml", "rate", 10.0,
+                "areas", Map.of("a", Map.of("nominalFrequencyHz", 50.0, "betaMwPerHz", 500.0, "scheduledNetInterchangeMw", 0.0)),
+                "units", Map.of("u1", "a")), wall, JournalWriter.DEFAULT_FLUSH_INTERVAL);
+        JournalWriter ctl = JournalWriter.create(run.resolve("controller.jsonl"), "controller", T0, Map.of("controllerId", "c1"),
+                wall, JournalWriter.DEFAULT_FLUSH_INTERVAL);
+        for (int s = 0; s <= 120; s++) {
+            double f = s < 60 ? 50.0 : s < 90 ? 49.9 : 50.0; // 100 mHz low for 30 s after the trip at 60 s
+            plant.append(T0 + s * 1000L, "truth", Map.of("timeS", (double) s,
+                    "areas", Map.of("a", Map.of("frequencyHz", f, "loadMw", 1000.0, "netInterchangeMw", s < 60 ? 0.0 : -10.0)),
+                    "ties", Map.of(), "units", Map.of("u1", Map.of("outputMw", 100.0, "loadReferenceMw", 100.0))));
+        }
+        plant.append(T0 + 60_000, "event", Map.of("event", "unitTrip", "unit", "u1", "atS", 60.0));
+        plant.append(T0 + 121_000, "check", Map.of("name", "ace-recovered", "passed", true, "decidingFigure", "40 s",
+                "limit", "900 s", "source", "from the scenario"));
+        for (int k = 0; k <= 30; k++) {
+            long t = T0 + k * 4_000L;
+            double ace = t < T0 + 60_000 ? 0.0 : t < T0 + 100_000 ? -60.0 : 0.0; // ACE −60 MW from 60 s to 100 s
+            ctl.append(t, "decided", Map.of("cycle", k, "state", "regulating", "reasons", List.of(),
+                    "areas", List.of(Map.of("area", "a", "aceMw", ace, "filteredAceMw", ace, "band", "regulating"))));
+        }
+        ctl.append(T0 + 64_000, "sent", Map.of("unit", "u1", "seq", 1, "commandKind", "pulse", "deltaMw", 2.0));
+        ctl.append(T0 + 64_250, "received", Map.of("ack", "u1", "commandSeq", 1, "outcome", "accepted"));
+        plant.append(T0 + 64_100, "command", Map.of("unit", "u1", "commandSeq", 1, "outcome", "accepted"));
+        ctl.close(T0 + 122_000, EndReason.STOPPED);
+        if (closePlant) {
+            plant.close(T0 + 121_000, EndReason.COMPLETED);
+        } else {
+            plant.flush(); // the plant was killed: no end entry
+        }
+    }
+
+    static Metric metric(ReportModel m, String section, String name) {
+        return m.sections().stream().filter(s -> s.title().equals(section)).flatMap(s -> s.metrics().stream())
+                .filter(x -> x.name().equals(name)).findFirst().orElseThrow(() -> new AssertionError("no " + section + " / " + name));
+    }
+
+    @Test
+    void shouldFillChartsFiguresChecksAndCommunicationFromTheJournals() {
+        writeRun(true);
+        ReportModel m = RunReportBuilder.build(RunFolder.read(run), Map.of("rate", "10"), List.of(), "test");
+        assertThat(m.verdict()).isEqualTo(ReportModel.Verdict.PASS);
+        assertThat(m.checks()).singleElement().satisfies(c -> assertThat(c.decidingFigure()).isEqualTo("40 s"));
+        assertThat(m.charts()).extracting(Chart::title).contains("Frequency", "Unit output and load reference",
+                "Controller state (1 = regulating, 0 = suspended)");
+        // 31 cycles: 10 of them (60, 64, …, 96 s) at −60 MW → mean −600/31 = −19.35 MW
+        assertThat(Double.parseDouble(metric(m, "Area a: frequency quality", "mean ACE").value())).isCloseTo(-19.35, within(0.01));
+        // nadir 49.9 Hz, first seen at the trip (60 s); back in ±20 mHz at 90 s → settling 30 s
+        assertThat(metric(m, "Area a: after unitTrip at 60 s", "nadir").value()).isEqualTo("49.9000");
+        assertThat(metric(m, "Area a: after unitTrip at 60 s", "settling time").value()).isEqualTo("30");
+        // ACE back to 0 first at the 100 s cycle: 40 s after the trip
+        assertThat(metric(m, "Area a: after unitTrip at 60 s", "ACE recovery (controller ACE)").value()).startsWith("40 s");
+        // NIa −10 MW from 60 s (trapezoid 59→60 s adds −5 MW·s) to 120 s: −(5 + 600) MW·s = −0.168 MWh
+        assertThat(Double.parseDouble(metric(m, "Area a: frequency quality", "inadvertent energy (net)").value()))
+                .isCloseTo(-605 / 3600.0, within(0.001));
+        assertThat(metric(m, "Latency (scenario ms)", "command latency p50").value()).isEqualTo("250");
+        assertThat(metric(m, "Loss", "commands lost controller → plant").value()).isEqualTo("0");
+        assertThat(m.sections()).extracting(MetricSection::group).contains(MetricSection.Group.COMMUNICATION);
+        assertThat(m.notes()).anyMatch(n -> n.contains("configured assumption"));
+        assertThat(m.configuration()).containsEntry("rate", "10").containsKey("ε1 for CPS1/BAAL");
+    }
+
+    @Test
+    void shouldMarkTheRunCutShortWhenAJournalHasNoEnd() {
+        writeRun(false);
+        ReportModel m = RunReportBuilder.build(RunFolder.read(run), Map.of(), List.of("The plant process died."), "test");
+        assertThat(m.verdict()).isEqualTo(ReportModel.Verdict.CUT_SHORT);
+        assertThat(m.run().cutShortDetail()).contains("plant.jsonl");
+        assertThat(m.notes()).contains("The plant process died.");
+    }
+}
