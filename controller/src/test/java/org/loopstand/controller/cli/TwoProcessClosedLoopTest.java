@@ -114,8 +114,11 @@ class TwoProcessClosedLoopTest {
         // the controller's copy of the site asks for pulses only (most demo units also take setpoints)
         Path controllerSite = dir.resolve("demo-site-pulses.yaml");
         String siteText = Files.readString(SITE);
-        assertThat(siteText).doesNotContain("\ncontroller:");
-        Files.writeString(controllerSite, siteText + "\ncontroller:\n  pulses: {preferSetpoints: false}\n");
+        String pulsesOnly = "  pulses: {preferSetpoints: false}\n";
+        assertThat(siteText).doesNotContain("\n  pulses:");
+        Files.writeString(controllerSite, siteText.contains("\ncontroller:\n")
+                ? siteText.replace("\ncontroller:\n", "\ncontroller:\n" + pulsesOnly)
+                : siteText + "\ncontroller:\n" + pulsesOnly);
         Process controller = launch(dir, "controller", "org.loopstand.controller.cli.ControllerCli", "control",
                 "--site", controllerSite.toString(), "--broker", uri, "--clock", "bus", "--journal", journalDir.toString());
         observer = new MqttLink(MqttLinkConfig.builder().serverUri(uri).clientId("two-process-observer")
