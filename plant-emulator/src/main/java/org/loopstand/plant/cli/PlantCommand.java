@@ -192,7 +192,7 @@ public final class PlantCommand implements Callable<Integer> {
             runner.journalTo(runJournal, truthIntervalS);
         }
         RunRecord record = new RunRecord(runner.agent().epochMsAt(0));
-        List<FaultObserver> observers = new ArrayList<>(List.of(new FaultLog(), record));
+        List<FaultObserver> observers = new ArrayList<>(List.of(new FaultLog(), record, new FaultAnnouncer(PlantCommand::say)));
         if (runJournal != null) {
             observers.add(runJournal);
         }

@@ -6,20 +6,20 @@ import java.util.Set;
 import java.util.TreeMap;
 import java.util.TreeSet;
 
+import org.loopstand.plant.cli.FaultAnnouncer;
 import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.AreaAce;
 import org.loopstand.protocol.message.AreaMeter;
 import org.loopstand.protocol.message.ClockTick;
 import org.loopstand.protocol.message.ControllerStatus;
-import org.loopstand.protocol.message.FaultAction;
-import org.loopstand.protocol.message.FaultOrder;
 import org.loopstand.protocol.topic.ParsedTopic;
 import org.loopstand.protocol.topic.TopicTree;
 
 /**
  * The latest of what the rehearsal shows on the terminal: scenario time and rate from the clock,
  * frequency per area from the meters, ACE and state from the controller status, active faults from
- * the fault orders. Fed from bus threads, read by the progress printer: every method is synchronized.
+ * the plant's own fault lines (scenario faults and live fault orders alike, as applied). Fed from bus and
+ * output threads, read by the progress printer: every method is synchronized.
  */
 final class ProgressView {
     private final MessageCodec codec = new MessageCodec();
@@ -45,7 +45,6 @@ final class ProgressView {
             case AREA_METER -> codec.decode(payload, AreaMeter.class).message()
                     .ifPresent(m -> frequencyHz.put(m.area(), m.frequencyHz()));
             case CONTROLLER_STATUS -> codec.decode(payload, ControllerStatus.class).message().ifPresent(this::onStatus);
-            case FAULTS -> codec.decode(payload, FaultOrder.class).message().ifPresent(this::onFault);
             default -> {
             }
         }
@@ -64,12 +63,18 @@ final class ProgressView {
         }
     }
 
-    private void onFault(FaultOrder o) {
-        if (o.action() == FaultAction.START) {
-            faults.add(o.faultType() + ":" + o.orderId());
-        } else {
-            faults.remove(o.faultType() + ":" + o.orderId());
+    /** Follows the plant's own announcement of faults starting and ending ({@link FaultAnnouncer}). */
+    synchronized void onPlantLine(String line) {
+        if (line.startsWith(FaultAnnouncer.STARTED)) {
+            faults.add(firstWord(line.substring(FaultAnnouncer.STARTED.length())));
+        } else if (line.startsWith(FaultAnnouncer.STOPPED)) {
+            faults.remove(firstWord(line.substring(FaultAnnouncer.STOPPED.length())));
         }
+    }
+
+    private static String firstWord(String s) {
+        int sp = s.indexOf(' ');
+        return sp < 0 ? s : s.substring(0, sp);
     }
 
     /** @return one line: time, rate, per area frequency and ACE, controller state, faults */

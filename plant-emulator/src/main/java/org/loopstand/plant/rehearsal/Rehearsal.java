@@ -123,6 +123,7 @@ public final class Rehearsal {
                         if (l.startsWith("plant: scenario done")) {
                             plantDone = true;
                         }
+                        view.onPlantLine(l);
                     });
             plantChild = plant;
             plant.awaitReady(s.readyTimeoutMs());
