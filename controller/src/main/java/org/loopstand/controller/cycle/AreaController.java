@@ -120,22 +120,30 @@ final class AreaController {
     }
 
     /**
-     * Anti-wind-up against the ramp: when units could not take their share this cycle because of
-     * their ramp rate and the PI level runs ahead of where they can get in the direction it pushes,
-     * the PI tracks the reachable level. Otherwise a slow unit lets the integrator run far ahead after
-     * a large disturbance and the area overshoots for minutes once the error changes sign (seen in
-     * the closed loop on the demo site with a 14 MW/min steam unit).
+     * Anti-wind-up against the ramp (conditional integration): when units' moves in the direction
+     * the PI pushes were cut by their ramp and the level runs ahead of what the allocation reached
+     * by more than those units' ramp step of one cycle, this cycle's integration is taken back. The
+     * integrator keeps everything it had accumulated before; it only stops growing while the units
+     * truly cannot keep up. The one-step margin keeps integrating through a unit whose telemetry lags
+     * one cycle behind our commands (it looks ramp-cut by the move it has not shown yet) and through
+     * moves below the minimum pulse. Without the anti-wind-up a slow unit lets the integrator run far
+     * ahead after a large disturbance and the area overshoots for minutes once the error changes sign
+     * (seen on the demo site with a 14 MW/min steam unit). Tracking the reached level instead
+     * (I = reached − kp·e) threw away the accumulated error and the P part every cycle a unit was
+     * ramp-cut: the PI became proportional-only and ACE stayed at −15…−30 MW.
      */
     private void holdIntegratorAtRampLimit(RegulationResult reg, Allocation alloc) {
-        boolean rampLimited = false;
-        double reachableMw = 0;
+        double push = Math.signum(-reg.filteredAceMw());
+        double rampStepMw = 0;
+        double reachedMw = 0;
         for (UnitAllocation a : alloc.units()) {
-            rampLimited |= a.limitedBy() == LimitedBy.RAMP;
-            reachableMw += a.targetMw() - a.basePointMw();
+            if (a.limitedBy() == LimitedBy.RAMP && a.deltaMw() * push > 0) {
+                rampStepMw += Math.abs(a.deltaMw());
+            }
+            reachedMw += a.targetMw() - a.basePointMw();
         }
-        double push = -reg.filteredAceMw();
-        if (rampLimited && (reg.levelMw() - reachableMw) * push > 0) {
-            regulator.trackLevel(reachableMw, reg.filteredAceMw());
+        if (rampStepMw > 0 && (reg.levelMw() - reachedMw) * push > rampStepMw) {
+            regulator.withholdIntegration();
         }
     }
 

@@ -74,6 +74,14 @@ public final class AreaRegulator {
         levelMw = currentLevelMw;
     }
 
+    /**
+     * The units could not follow this cycle's level because of their ramp: keep the integrator
+     * where it was before this cycle (conditional integration), without giving up what it holds.
+     */
+    public void withholdIntegration() {
+        pi.withholdLastIntegration();
+    }
+
     /** Base points moved by {@code deltaMw} in total: shift the level so the unit targets stay put. */
     public void onBasePointsMoved(double deltaMw) {
         pi.shiftIntegrator(-deltaMw);

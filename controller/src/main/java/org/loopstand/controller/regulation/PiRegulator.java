@@ -18,6 +18,7 @@ public final class PiRegulator {
     private final double integralTimeS;
     private final double cycleS;
     private double integratorMw;
+    private double integratorBeforeStepMw;
     private boolean frozen;
     private boolean saturated;
 
@@ -57,6 +58,7 @@ public final class PiRegulator {
             throw new IllegalArgumentException("lowMw (" + lowMw + ") must be <= highMw (" + highMw + ")");
         }
         double e = -aceMw;
+        integratorBeforeStepMw = integratorMw;
         if (!frozen) {
             double candidate = integratorMw + cycleS / integralTimeS * e;
             double unclamped = kp * e + candidate;
@@ -95,6 +97,7 @@ public final class PiRegulator {
     /** Integrator to zero. */
     public void reset() {
         integratorMw = 0;
+        integratorBeforeStepMw = 0;
         saturated = false;
     }
 
@@ -106,11 +109,22 @@ public final class PiRegulator {
      */
     public void track(double currentLevelMw, double aceMw) {
         integratorMw = currentLevelMw - kp * (-aceMw);
+        integratorBeforeStepMw = integratorMw;
+    }
+
+    /**
+     * Take back the integration of the last {@link #step}: the integrator keeps what it had
+     * accumulated before it, nothing of that is lost. Used when the units could not follow this
+     * cycle's level because of their ramp (conditional integration against the ramp).
+     */
+    public void withholdLastIntegration() {
+        integratorMw = integratorBeforeStepMw;
     }
 
     /** Move the integrator by {@code deltaMw}, e.g. when tertiary re-dispatch moves base points. */
     public void shiftIntegrator(double deltaMw) {
         integratorMw += deltaMw;
+        integratorBeforeStepMw += deltaMw;
     }
 
     public double integratorMw() {
