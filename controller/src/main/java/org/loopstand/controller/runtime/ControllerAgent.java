@@ -70,6 +70,7 @@ public final class ControllerAgent implements Agent {
     private final MessageCodec codec = new MessageCodec();
     private final IntakeRouter intake;
     private final ControlCycle cycle;
+    private final InputUseJournal inputUse;
     private final ConcurrentLinkedQueue<String> publishFailures = new ConcurrentLinkedQueue<>();
     private final ConcurrentLinkedQueue<Map<String, Object>> journalEvents = new ConcurrentLinkedQueue<>();
     private volatile boolean linkUp;
@@ -111,6 +112,7 @@ public final class ControllerAgent implements Agent {
         this.topics = TopicTree.forSite(site.siteId());
         this.cycle = new ControlCycle(site.toCycleSettings());
         this.intake = new IntakeRouter(site, clock, codec, new Observer());
+        this.inputUse = new InputUseJournal(site, intake);
         if (busClock != null) {
             intake.onClockTick(busClock::onTick);
         }
@@ -154,7 +156,7 @@ public final class ControllerAgent implements Agent {
             }
         });
         for (String filter : intake.subscriptions()) {
-            bus.subscribe(filter, Qos.AT_LEAST_ONCE, intake.listener());
+            bus.subscribe(filter, Qos.AT_LEAST_ONCE, inputUse.counting(intake.listener()));
         }
         linkUp = bus.isConnected();
         if (linkUp) {
@@ -198,7 +200,8 @@ public final class ControllerAgent implements Agent {
         for (SiteArea a : site.areas()) {
             areas.add(intake.areaInputs(a.id(), nowMs));
         }
-        CycleOutcome o = cycle.step(new CycleInputs(tick.cycleNumber(), nowMs, link, areas, intake.unitStates(nowMs)));
+        List<org.loopstand.controller.allocation.UnitState> units = intake.unitStates(nowMs);
+        CycleOutcome o = cycle.step(new CycleInputs(tick.cycleNumber(), nowMs, link, areas, units));
         lastOutcome = o;
         cyclesRun++;
         if (histograms != null) {
@@ -224,6 +227,8 @@ public final class ControllerAgent implements Agent {
             f.put("jitterUs", tick.jitterNanos() / 1000);
             f.put("missedBefore", tick.missedBefore());
             f.put("linkUp", link);
+            f.put("used", inputUse.used(areas, units, nowMs));
+            f.put("intake", inputUse.counters());
             journal.append(nowMs, JournalFormat.KIND_DECIDED, f);
         }
     }
@@ -345,6 +350,7 @@ public final class ControllerAgent implements Agent {
     private final class Observer implements IntakeObserver {
         @Override
         public void onRejected(String topic, String reason, String detail) {
+            inputUse.onRejected(topic);
             if (journal != null) {
                 journal.append(clock.epochMillis(), JournalFormat.KIND_REFUSED,
                         Map.of("topic", topic, "reason", reason, "detail", detail));

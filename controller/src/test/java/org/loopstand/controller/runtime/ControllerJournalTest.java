@@ -12,7 +12,17 @@ import org.loopstand.protocol.journal.JournalEntry;
 import org.loopstand.protocol.journal.JournalFormat;
 import org.loopstand.protocol.journal.JournalReader;
 import org.loopstand.protocol.journal.JournalWriter;
+import org.loopstand.protocol.bus.Qos;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.message.AreaMeter;
 import org.loopstand.protocol.message.UnitCommand;
+import org.loopstand.protocol.message.UnitTelemetry;
+import org.loopstand.protocol.topic.TopicTree;
+import com.fasterxml.jackson.databind.JsonNode;
+import java.util.ArrayList;
+import java.util.Map;
+import java.util.TreeMap;
+import java.util.TreeSet;
 
 /**
  * The controller's journal read back: every command sent is a {@code sent} entry (the command's kind
@@ -55,5 +65,98 @@ class ControllerJournalTest {
         assertThat(received).isEqualTo(loop.accepted().size()).isEqualTo(commands.size());
         long decided = j.entries().stream().filter(e -> e.kind().equals(JournalFormat.KIND_DECIDED)).count();
         assertThat(decided).isEqualTo(loop.agent.cyclesRun()).isGreaterThanOrEqualTo(29);
+    }
+
+    /**
+     * Each decided entry says how old the data it used was and how much the intake has received and
+     * missed so far. Area 2's meter is silenced from 40 s to 52 s (the tap drops its messages, the
+     * area's frequency ages while held). At 60 s a copy of area 2's last reading is injected with its
+     * seq 6 ahead (h + 6): a gap of 5 missing, then the meter's own h+1 … h+5 arrive out of order and
+     * its h+6 is a duplicate. Everything arrives at once on the in-memory broker; message counts are
+     * taken independently by a second subscriber.
+     */
+    @Test
+    void shouldJournalTheAgeOfWhatEachCycleUsedAndTheIntakeCounters(@TempDir Path dir) {
+        Path file = dir.resolve("controller.jsonl");
+        StudyLoop loop = new StudyLoop(new GridSimulator(ClosedLoopStudyTest.twoAreaGrid()),
+                ClosedLoopStudyTest.twoAreaController("tieLineBias"), List.of(),
+                JournalWriter.create(file, "controller", StudyLoop.START_MS, new org.loopstand.protocol.time.VirtualClock(0)));
+        MessageCodec codec = new MessageCodec();
+        TopicTree topics = TopicTree.forSite("two-area-textbook");
+        Map<String, TreeSet<Long>> meterSeqs = new TreeMap<>();
+        AreaMeter[] lastArea2 = {null};
+        long[] meterCount = {0};
+        long[] telemetryCount = {0};
+        loop.broker.connect("witness").subscribe(topics.filterEverything(), Qos.AT_LEAST_ONCE, m -> {
+            if (m.topic().contains("/meter/")) {
+                AreaMeter a = codec.decode(m.payload(), AreaMeter.class).message().orElseThrow();
+                meterSeqs.computeIfAbsent(a.area() + "/" + a.meter(), k -> new TreeSet<>()).add(a.seq());
+                meterCount[0]++;
+                if (a.area().equals("area2")) {
+                    lastArea2[0] = a;
+                }
+            } else if (m.topic().endsWith("/telemetry")) {
+                codec.decode(m.payload(), UnitTelemetry.class).message().orElseThrow();
+                telemetryCount[0]++;
+            }
+        });
+        loop.runTo(40);
+        loop.tap.silentAreas.add("area2");
+        loop.runTo(52);
+        loop.tap.silentAreas.clear();
+        loop.runTo(60);
+        AreaMeter h = lastArea2[0];
+        AreaMeter ahead = new AreaMeter(h.seq() + 6, h.sourceTime() + 1, h.area(), h.meter(), h.frequencyHz(),
+                h.frequencyQuality(), h.ties(), h.netInterchangeMw(), h.netInterchangeQuality());
+        loop.broker.connect("injector").publish(org.loopstand.protocol.bus.OutboundMessage.of(
+                topics.areaMeter("area2", h.meter()), codec.encode(ahead), Qos.AT_MOST_ONCE));
+        loop.runTo(80);
+        loop.agent.onClose();
+
+        List<JournalEntry> decided = JournalReader.readAll(file).entries().stream()
+                .filter(e -> e.kind().equals(JournalFormat.KIND_DECIDED)).toList();
+        assertThat(decided).hasSizeGreaterThanOrEqualTo(19);
+        List<Long> area2FrequencyAges = new ArrayList<>();
+        for (JournalEntry e : decided) {
+            JsonNode used = e.fields().path("used");
+            double elapsedS = (e.tMs() - StudyLoop.START_MS) / 1000.0;
+            JsonNode a1 = used.path("areas").path("area1");
+            JsonNode a2 = used.path("areas").path("area2");
+            if (elapsedS >= 8) { // meters scan every 2 s (plant default): a cycle finds data at most one scan old
+                assertThat(a1.path("frequencyAgeMs").asLong()).isBetween(0L, 2000L);
+                assertThat(a1.path("tieFlowAgeMs").path("tie12").asLong()).isEqualTo(a1.path("frequencyAgeMs").asLong());
+                assertThat(used.path("units").path("count").asInt()).isEqualTo(2);
+                long max = used.path("units").path("telemetryAgeMaxMs").asLong();
+                long median = used.path("units").path("telemetryAgeMedianMs").asLong();
+                assertThat(median).isBetween(0L, max); // nearest-rank median of two = the lower one
+                assertThat(max).isLessThanOrEqualTo(2000L);
+            }
+            if (!a2.path("frequencyAgeMs").isNull() && !a2.path("frequencyAgeMs").isMissingNode()) {
+                area2FrequencyAges.add(a2.path("frequencyAgeMs").asLong());
+                if (elapsedS > 44 && elapsedS <= 52) {
+                    // silent since 40 s: the last reading was taken at or before 40 s (held last good)
+                    assertThat(a2.path("frequencyAgeMs").asLong()).isGreaterThanOrEqualTo((long) ((elapsedS - 40) * 1000));
+                }
+            }
+        }
+        assertThat(area2FrequencyAges).anyMatch(age -> age >= 10_000);
+
+        JsonNode intake = decided.get(decided.size() - 1).fields().path("intake");
+        long expectedMeters = meterCount[0];
+        // seqs the witness never saw: the silence only (the injection's h+1 … h+5 arrived later)
+        long silenceMissing = meterSeqs.values().stream().mapToLong(s -> s.last() - s.first() + 1 - s.size()).sum();
+        assertThat(silenceMissing).isBetween(5L, 6L); // 12 s of silence at one scan per 2 s
+        // the last decided entry is the 80 s cycle; readings after it are not in its counters
+        JsonNode meters = intake.path("areaMeter");
+        assertThat(meters.path("received").asLong()).isBetween(expectedMeters - 2, expectedMeters);
+        assertThat(meters.path("seqMissing").asLong()).isEqualTo(silenceMissing + 5);
+        assertThat(meters.path("seqGaps").asLong()).isEqualTo(2);
+        assertThat(meters.path("duplicates").asLong()).isEqualTo(1);
+        assertThat(meters.path("outOfOrder").asLong()).isEqualTo(5);
+        assertThat(meters.path("rejected").asLong()).isZero();
+        JsonNode tel = intake.path("unitTelemetry");
+        assertThat(tel.path("received").asLong()).isBetween(telemetryCount[0] - 2, telemetryCount[0]);
+        assertThat(tel.path("seqMissing").asLong()).isZero();
+        assertThat(intake.path("queueFull").asLong()).isZero();
     }
 }

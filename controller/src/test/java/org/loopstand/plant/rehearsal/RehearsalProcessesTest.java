@@ -101,6 +101,46 @@ class RehearsalProcessesTest {
     }
 
     @Test
+    void shouldSayClearlyThatThePlantDiedAndKeepItsJournalUpToTheLastCompleteLine() throws Exception {
+        Rehearsal r = rehearsal(freePort(), 5); // 24 s of wall time: room to kill mid-run
+        CompletableFuture<Rehearsal.Outcome> run = CompletableFuture.supplyAsync(r::run);
+        Awaitility.await().atMost(Duration.ofSeconds(90)).until(() -> r.pidOf("plant").isPresent()
+                && controllerDecisions() >= 3 && entriesSoFar("plant.jsonl", "truth") >= 10);
+        // SIGKILL: no shutdown hook, no end entry, the embedded broker goes with it
+        ProcessHandle.of(r.pidOf("plant").getAsLong()).orElseThrow().destroyForcibly();
+        Rehearsal.Outcome o = run.get();
+        assertThat(o.exitCode()).as(out()).isEqualTo(1);
+        assertThat(o.message()).contains("the plant process died").contains("exit code 137");
+
+        Path plantFile = o.runFolder().resolve("plant.jsonl");
+        JournalReader.Contents plant = JournalReader.readAll(plantFile);
+        assertThat(plant.summary().cutShort()).isTrue();
+        assertThat(plant.summary().damagedLines()).isEmpty();
+        assertThat(plant.entries()).filteredOn(e -> e.kind().equals("truth")).hasSizeGreaterThanOrEqualTo(10);
+        // every complete line is read: the header plus one entry per newline; a torn last line starts
+        // right after the last newline and is ignored
+        byte[] bytes = Files.readAllBytes(plantFile);
+        long newlines = 0;
+        int lastNewline = -1;
+        for (int i = 0; i < bytes.length; i++) {
+            if (bytes[i] == '\n') {
+                newlines++;
+                lastNewline = i;
+            }
+        }
+        assertThat(plant.summary().entriesAccepted()).isEqualTo(newlines - 1);
+        boolean torn = lastNewline != bytes.length - 1;
+        assertThat(plant.summary().tornTail()).isEqualTo(torn);
+        if (torn) {
+            assertThat(plant.summary().tornTailOffsetBytes()).isEqualTo(lastNewline + 1);
+        }
+        // the controller was stopped by the rehearsal (SIGTERM): its journal is complete
+        assertThat(JournalReader.readAll(o.runFolder().resolve("controller.jsonl")).summary().cutShort()).isFalse();
+        String html = Files.readString(o.report());
+        assertThat(html).contains("CUT SHORT").contains("The plant process died");
+    }
+
+    @Test
     void shouldRefuseToStartWhenTheBrokerPortIsTaken() throws Exception {
         try (ServerSocket taken = new ServerSocket()) {
             taken.bind(new InetSocketAddress(InetAddress.getByName("127.0.0.1"), 0));
@@ -112,13 +152,18 @@ class RehearsalProcessesTest {
     }
 
     private long controllerDecisions() throws Exception {
+        return entriesSoFar("controller.jsonl", "decided");
+    }
+
+    /** @return entries of one kind in a journal of the (only) run folder so far, 0 before it exists */
+    private long entriesSoFar(String journal, String kind) throws Exception {
         try (var dirs = Files.list(runs)) {
             Path run = dirs.findFirst().orElse(null);
-            if (run == null || !Files.exists(run.resolve("controller.jsonl"))) {
+            if (run == null || !Files.exists(run.resolve(journal))) {
                 return 0;
             }
-            return JournalReader.readAll(run.resolve("controller.jsonl")).entries().stream()
-                    .filter(e -> e.kind().equals("decided")).count();
+            return JournalReader.readAll(run.resolve(journal)).entries().stream()
+                    .filter(e -> e.kind().equals(kind)).count();
         }
     }
 }

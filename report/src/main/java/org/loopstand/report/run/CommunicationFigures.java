@@ -78,8 +78,7 @@ final class CommunicationFigures {
             loss.add(new Metric("plant messages not sent", "0", "", "meter, telemetry and acks dropped at the source (link down)"));
         }
         notSentByWhy.forEach((k, n) -> loss.add(Metric.of("not sent: " + k, n, 0, "", "dropped at the source, never sent late")));
-        loss.add(new Metric("meter / telemetry loss on the way", "–", "",
-                "not measurable yet: the controller does not journal each message it receives"));
+        loss.addAll(DataUseFigures.loss(plant, JournalSeries.ofKind(ctl, "decided")));
         out.add(new MetricSection("Loss", MetricSection.Group.COMMUNICATION, loss));
 
         List<String> suspensions = new ArrayList<>();
@@ -112,7 +111,7 @@ final class CommunicationFigures {
         lat.add(Metric.of("command latency p90", s.p90(), 0, "ms", wallNote(s.p90(), rate)));
         lat.add(Metric.of("command latency p99", s.p99(), 0, "ms", wallNote(s.p99(), rate)));
         lat.add(Metric.of("command latency max", s.max(), 0, "ms", wallNote(s.max(), rate)));
-        lat.add(new Metric("age of data at use", "–", "ms", "not journaled by the controller yet"));
+        lat.addAll(DataUseFigures.ageAtUse(plant, JournalSeries.ofKind(ctl, "decided")));
         out.add(new MetricSection("Latency (scenario ms)", MetricSection.Group.COMMUNICATION, lat));
 
         List<Metric> reasons = new ArrayList<>();

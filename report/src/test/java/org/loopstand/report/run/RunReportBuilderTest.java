@@ -97,4 +97,96 @@ class RunReportBuilderTest {
         assertThat(m.run().cutShortDetail()).contains("plant.jsonl");
         assertThat(m.notes()).contains("The plant process died.");
     }
+
+    private static Map<String, Object> areaUse(Long frequencyAgeMs, Map<String, Long> tieAges) {
+        Map<String, Object> m = new java.util.LinkedHashMap<>();
+        m.put("frequencyAgeMs", frequencyAgeMs);
+        m.put("tieFlowAgeMs", new java.util.LinkedHashMap<>(tieAges));
+        return m;
+    }
+
+    private static Map<String, Object> unitUse(int count, Long medianMs, Long maxMs) {
+        Map<String, Object> m = new java.util.LinkedHashMap<>();
+        m.put("count", count);
+        m.put("telemetryAgeMaxMs", maxMs);
+        m.put("telemetryAgeMedianMs", medianMs);
+        return m;
+    }
+
+    private static Map<String, Object> counters(long received, long missing, long gaps, long duplicates) {
+        return Map.of("received", received, "rejected", 0L, "seqGaps", gaps, "seqMissing", missing,
+                "duplicates", duplicates, "outOfOrder", 0L);
+    }
+
+    /**
+     * Age at use and loss on a hand-made run. Plant: AreaMeter on one topic every 2 s from 0 to 20 s
+     * (11 sent) and one not sent at 22 s; UnitTelemetry every 1 s from 0 to 10 s (11 sent).
+     * Controller: three cycles whose used ages and intake counters are written below.
+     */
+    @Test
+    void shouldComputeAgeOfDataAtUseAndLossPerKindFromTheControllersDecidedEntries() {
+        JournalWriter plant = JournalWriter.create(run.resolve("plant.jsonl"), "plant", T0, Map.of("rate", 1.0,
+                "areas", Map.of("a", Map.of("nominalFrequencyHz", 50.0, "betaMwPerHz", 500.0, "scheduledNetInterchangeMw", 0.0))),
+                wall, JournalWriter.DEFAULT_FLUSH_INTERVAL);
+        plant.append(T0, "truth", Map.of("timeS", 0.0, "areas", Map.of("a", Map.of("frequencyHz", 50.0, "loadMw", 1000.0,
+                "netInterchangeMw", 0.0)), "ties", Map.of(), "units", Map.of()));
+        JournalWriter ctl = JournalWriter.create(run.resolve("controller.jsonl"), "controller", T0, Map.of(), wall,
+                JournalWriter.DEFAULT_FLUSH_INTERVAL);
+        for (int s = 0; s <= 22; s++) {
+            if (s % 2 == 0) {
+                plant.append(T0 + s * 1000L, "published", Map.of("topic", "s1/area/a/meter/m1", "type", "AreaMeter",
+                        "seq", s / 2 + 1, "sent", s <= 20));
+            }
+            if (s <= 10) {
+                plant.append(T0 + s * 1000L, "published", Map.of("topic", "s1/unit/u1/telemetry", "type", "UnitTelemetry",
+                        "seq", s + 1, "sent", true));
+            }
+        }
+        java.util.LinkedHashMap<String, Long> t2Missing = new java.util.LinkedHashMap<>();
+        t2Missing.put("t1", 1900L);
+        t2Missing.put("t2", null);
+        List<Map<String, Object>> used = List.of(
+                Map.of("areas", Map.of("a", areaUse(100L, Map.of("t1", 100L, "t2", 300L)), "b", areaUse(700L, Map.of())),
+                        "units", unitUse(2, 200L, 900L)),
+                Map.of("areas", Map.of("a", areaUse(1900L, t2Missing)), "units", unitUse(2, 400L, 500L)),
+                Map.of("areas", Map.of("a", areaUse(null, Map.of("t1", 50L, "t2", 2500L))), "units", unitUse(0, null, null)));
+        List<Map<String, Object>> intake = List.of(
+                Map.of("areaMeter", counters(2, 0, 0, 0), "unitTelemetry", counters(4, 0, 0, 0), "queueFull", 0L),
+                Map.of("areaMeter", counters(5, 1, 1, 0), "unitTelemetry", counters(8, 0, 0, 0), "queueFull", 0L),
+                Map.of("areaMeter", counters(10, 1, 1, 2), "unitTelemetry", counters(11, 0, 0, 0), "queueFull", 0L));
+        for (int k = 0; k < 3; k++) {
+            ctl.append(T0 + (k + 1) * 4_000L, "decided", Map.of("cycle", k + 1, "state", "regulating", "reasons", List.of(),
+                    "areas", List.of(), "used", used.get(k), "intake", intake.get(k)));
+        }
+        ctl.close(T0 + 23_000, EndReason.STOPPED);
+        plant.close(T0 + 23_000, EndReason.COMPLETED);
+
+        ReportModel m = RunReportBuilder.build(RunFolder.read(run), Map.of(), List.of(), "test");
+        String lat = "Latency (scenario ms)";
+        // frequency ages 100, 700, 1900 (the null of cycle 3 was not used): p50 = rank ⌈1.5⌉ = 2 → 700,
+        // p99 = rank ⌈2.97⌉ = 3 → 1900
+        assertThat(metric(m, lat, "frequency age at use p50").value()).isEqualTo("700");
+        assertThat(metric(m, lat, "frequency age at use p99").value()).isEqualTo("1900");
+        assertThat(metric(m, lat, "frequency age at use max").value()).isEqualTo("1900");
+        // meters every 2 s on one topic: scan period 2000 ms (the unsent one at 22 s does not count)
+        assertThat(metric(m, lat, "frequency age at use p50").note()).startsWith("scan period 2000 ms").contains("3 values");
+        // tie ages 50, 100, 300, 1900, 2500: p50 = rank 3 → 300, p99 = rank ⌈4.95⌉ = 5 → 2500
+        assertThat(metric(m, lat, "tie flow age at use p50").value()).isEqualTo("300");
+        assertThat(metric(m, lat, "tie flow age at use p99").value()).isEqualTo("2500");
+        // unit medians 200, 400 → p50 rank 1 → 200, max 400; unit oldest 900, 500 → p50 500, max 900
+        assertThat(metric(m, lat, "unit telemetry (median per cycle) age at use p50").value()).isEqualTo("200");
+        assertThat(metric(m, lat, "unit telemetry (median per cycle) age at use max").value()).isEqualTo("400");
+        assertThat(metric(m, lat, "unit telemetry (oldest per cycle) age at use p50").value()).isEqualTo("500");
+        assertThat(metric(m, lat, "unit telemetry (oldest per cycle) age at use max").value()).isEqualTo("900");
+        assertThat(metric(m, lat, "unit telemetry (oldest per cycle) age at use p50").note()).startsWith("scan period 1000 ms");
+        // loss from the last counters: 1 missing / (10 received + 1) = 9.09 %; 11 sent, 10 received = 90.91 %
+        assertThat(metric(m, "Loss", "AreaMeter loss on the way").value()).isEqualTo("9.09");
+        assertThat(metric(m, "Loss", "AreaMeter loss on the way").note()).contains("2 duplicates");
+        assertThat(metric(m, "Loss", "AreaMeter sent by the plant").value()).isEqualTo("11");
+        assertThat(metric(m, "Loss", "AreaMeter received by the controller").value()).isEqualTo("10");
+        assertThat(metric(m, "Loss", "AreaMeter received by the controller").note()).startsWith("90.91 %");
+        assertThat(metric(m, "Loss", "UnitTelemetry loss on the way").value()).isEqualTo("0.00");
+        assertThat(metric(m, "Loss", "UnitTelemetry received by the controller").note()).startsWith("100.00 %");
+        assertThat(metric(m, "Loss", "not sent: AreaMeter ?").value()).isEqualTo("1");
+    }
 }
