@@ -57,6 +57,9 @@ public final class BusCommand implements Callable<Integer> {
     @Option(names = "--no-raw", description = "do not run the raw Paho loop")
     boolean noRaw;
 
+    @Option(names = "--no-wake", description = "controller runner idles 1 ms without being woken by its intake (comparison)")
+    boolean noWake;
+
     @Option(names = "--out", description = "run folder (default runs/bench-<time>)")
     Path out;
 
@@ -85,7 +88,7 @@ public final class BusCommand implements Callable<Integer> {
         }
         Path dir = out != null ? out : Path.of("runs", "bench-" + LocalDateTime.now().format(DateTimeFormatter.ofPattern("yyyyMMdd-HHmmss")));
         return new BenchSettings(units, areas, durationS, warmupS, broker, brokerConfig, g, poolSize, intakeConnections,
-                telemetryMs, meterMs, cycleS, sampleS, !noRaw, dir);
+                telemetryMs, meterMs, cycleS, sampleS, !noRaw, !noWake, dir);
     }
 
     private static void say(String line) {

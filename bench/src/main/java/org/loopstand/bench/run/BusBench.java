@@ -113,6 +113,9 @@ public final class BusBench {
             agent.intake().setRouteProbe(stamps::routed);
             ProbedController probed = new ProbedController(agent, ctlSite.areas(), clock);
             AgentRunner ctlRunner = new AgentRunner(probed, 1_000_000L);
+            if (s.wakeOnInput()) {
+                agent.wakeOnInput(ctlRunner::wake);
+            }
             ctlRunner.start(); // subscribes before the links connect: the first connect subscribes all
             for (MqttLink l : ctlLinks) {
                 l.start();
