@@ -60,6 +60,9 @@ public final class BusCommand implements Callable<Integer> {
     @Option(names = "--no-wake", description = "controller runner idles 1 ms without being woken by its intake (comparison)")
     boolean noWake;
 
+    @Option(names = "--unit-scan-ms", defaultValue = "100", description = "plant unit interface scan period, ms; 0 = after every physics step (default ${DEFAULT-VALUE})")
+    long unitScanMs;
+
     @Option(names = "--out", description = "run folder (default runs/bench-<time>)")
     Path out;
 
@@ -88,7 +91,7 @@ public final class BusCommand implements Callable<Integer> {
         }
         Path dir = out != null ? out : Path.of("runs", "bench-" + LocalDateTime.now().format(DateTimeFormatter.ofPattern("yyyyMMdd-HHmmss")));
         return new BenchSettings(units, areas, durationS, warmupS, broker, brokerConfig, g, poolSize, intakeConnections,
-                telemetryMs, meterMs, cycleS, sampleS, !noRaw, !noWake, dir);
+                telemetryMs, meterMs, cycleS, sampleS, !noRaw, !noWake, unitScanMs, dir);
     }
 
     private static void say(String line) {

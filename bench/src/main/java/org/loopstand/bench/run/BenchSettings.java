@@ -22,12 +22,13 @@ import org.loopstand.plant.runtime.ConnectionGrouping;
  * @param raw                run the raw Paho loop beside the rig
  * @param wakeOnInput        the intake wakes the controller's runner on every queued message
  *                           (false: the runner's 1 ms idle park alone, for comparison)
+ * @param unitScanMs         plant unit interface scan period, ms (0: every physics step)
  * @param outDir             run folder (created)
  */
 public record BenchSettings(int units, int areas, double durationS, double warmupS, String broker, Path brokerConfig,
                             ConnectionGrouping grouping, int poolSize, int intakeConnections, long telemetryScanMs,
                             long meterScanMs, int cycleS, double sampleS, boolean raw, boolean wakeOnInput,
-                            Path outDir) {
+                            long unitScanMs, Path outDir) {
     public BenchSettings {
         if (units < 1 || areas < 1 || units < areas) {
             throw new IllegalArgumentException("need units ≥ areas ≥ 1, got units " + units + ", areas " + areas);

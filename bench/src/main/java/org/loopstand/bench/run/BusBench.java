@@ -86,7 +86,7 @@ public final class BusBench {
             PlantOptions po = new PlantOptions(1.0, java.util.Set.of(), s.grouping(), s.poolSize(), meters, iface,
                     Qos.AT_MOST_ONCE, 256, 1, 1.0);
             GridSimulator sim = new GridSimulator(grid);
-            PlantRunner plant = new PlantRunner(sim, List.of(), po, links, clock, say::accept);
+            PlantRunner plant = new PlantRunner(sim, List.of(), po, links, clock, say::accept).unitScanMs(s.unitScanMs());
             List<UnitHost> hosts = plant.hosts();
             long periodNanos = s.telemetryScanMs() * 1_000_000L;
             for (int i = 0; i < hosts.size(); i++) {
