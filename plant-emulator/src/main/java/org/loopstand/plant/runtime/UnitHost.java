@@ -25,26 +25,33 @@ public final class UnitHost {
      * One decode of a controller status for every unit that got the same payload: a connection
      * fans one status message out to all its units as the same array, and decoding a status with
      * every area's ACE once per unit was the plant loop's largest cost at 10,000 units. Keyed by
-     * array identity (payloads are never changed after receipt); safe across threads.
+     * array identity (payloads are never changed after receipt), one entry per connection's copy;
+     * safe across threads.
      */
     static final class StatusDecoding {
-        private record Last(byte[] payload, Decoded<ControllerStatus> decoded) {
-        }
-
+        /** One entry per connection is enough; a few spare for a status that follows quickly. */
+        private static final int ENTRIES = 64;
         private final MessageCodec codec;
-        private volatile Last last = new Last(null, null);
+        private final byte[][] payloads = new byte[ENTRIES][];
+        @SuppressWarnings("unchecked")
+        private final Decoded<ControllerStatus>[] decoded = new Decoded[ENTRIES];
+        private int next;
 
         StatusDecoding(MessageCodec codec) {
             this.codec = codec;
         }
 
-        Decoded<ControllerStatus> decode(byte[] payload) {
-            Last l = last;
-            if (l.payload() != payload) {
-                l = new Last(payload, codec.decode(payload, ControllerStatus.class));
-                last = l;
+        synchronized Decoded<ControllerStatus> decode(byte[] payload) {
+            for (int i = 0; i < ENTRIES; i++) {
+                if (payloads[i] == payload) {
+                    return decoded[i];
+                }
             }
-            return l.decoded();
+            Decoded<ControllerStatus> d = codec.decode(payload, ControllerStatus.class);
+            payloads[next] = payload;
+            decoded[next] = d;
+            next = (next + 1) % ENTRIES;
+            return d;
         }
     }
 
