@@ -57,6 +57,15 @@ public final class BusCommand implements Callable<Integer> {
     @Option(names = "--no-raw", description = "do not run the raw Paho loop")
     boolean noRaw;
 
+    @Option(names = "--no-wake", description = "controller runner idles 1 ms without being woken by its intake (comparison)")
+    boolean noWake;
+
+    @Option(names = "--unit-scan-ms", defaultValue = "100", description = "plant unit interface scan period, ms; 0 = after every physics step (default ${DEFAULT-VALUE})")
+    long unitScanMs;
+
+    @Option(names = "--load-step-mw", defaultValue = "100", description = "load step in the first area at 5 s and every 60 s, alternating sign, MW; 0 = none (default ${DEFAULT-VALUE})")
+    double loadStepMw;
+
     @Option(names = "--out", description = "run folder (default runs/bench-<time>)")
     Path out;
 
@@ -85,7 +94,7 @@ public final class BusCommand implements Callable<Integer> {
         }
         Path dir = out != null ? out : Path.of("runs", "bench-" + LocalDateTime.now().format(DateTimeFormatter.ofPattern("yyyyMMdd-HHmmss")));
         return new BenchSettings(units, areas, durationS, warmupS, broker, brokerConfig, g, poolSize, intakeConnections,
-                telemetryMs, meterMs, cycleS, sampleS, !noRaw, dir);
+                telemetryMs, meterMs, cycleS, sampleS, !noRaw, !noWake, unitScanMs, loadStepMw, dir);
     }
 
     private static void say(String line) {

@@ -45,10 +45,11 @@ public record BenchResult(BenchSettings settings, String broker, int plantConnec
         BenchSettings s = settings;
         out.printf(Locale.ROOT, "### %d units, %d areas, %s%n%n", s.units(), s.areas(), broker);
         out.printf(Locale.ROOT, "grouping %s%s (%d plant connections), %d controller intake connection(s) ($share/ctl),"
-                        + " telemetry %d ms (%d B, QoS 0), meters %d ms, cycle %d s, measured %.0f s after %.0f s warm-up%n%n",
+                        + " telemetry %d ms (%d B, QoS 0), meters %d ms, cycle %d s, measured %.0f s after %.0f s warm-up;"
+                        + " unit scan %d ms, controller woken by its intake: %s%n%n",
                 s.grouping().cliName(), s.grouping().name().equals("POOLED") ? " " + s.poolSize() : "", plantConnections,
                 s.intakeConnections(), s.telemetryScanMs(), telemetryBytes, s.meterScanMs(), s.cycleS(), measuredS,
-                s.warmupS());
+                s.warmupS(), s.unitScanMs(), s.wakeOnInput() ? "yes" : "no");
         out.println("| quantity | p50 | p99 | p99.9 | max | count |");
         out.println("|---|---|---|---|---|---|");
         out.println("| rig: publish → decoded + validated at the controller, µs | " + pct(rigUs, "µs") + " |");

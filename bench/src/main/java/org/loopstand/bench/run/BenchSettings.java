@@ -20,11 +20,16 @@ import org.loopstand.plant.runtime.ConnectionGrouping;
  * @param cycleS             controller cycle, s
  * @param sampleS            heap/CPU sample period, s, > 0
  * @param raw                run the raw Paho loop beside the rig
+ * @param wakeOnInput        the intake wakes the controller's runner on every queued message
+ *                           (false: the runner's 1 ms idle park alone, for comparison)
+ * @param unitScanMs         plant unit interface scan period, ms (0: every physics step)
+ * @param loadStepMw         load step in the first area at 5 s and every 60 s, alternating sign, MW (0: none)
  * @param outDir             run folder (created)
  */
 public record BenchSettings(int units, int areas, double durationS, double warmupS, String broker, Path brokerConfig,
                             ConnectionGrouping grouping, int poolSize, int intakeConnections, long telemetryScanMs,
-                            long meterScanMs, int cycleS, double sampleS, boolean raw, Path outDir) {
+                            long meterScanMs, int cycleS, double sampleS, boolean raw, boolean wakeOnInput,
+                            long unitScanMs, double loadStepMw, Path outDir) {
     public BenchSettings {
         if (units < 1 || areas < 1 || units < areas) {
             throw new IllegalArgumentException("need units ≥ areas ≥ 1, got units " + units + ", areas " + areas);

@@ -86,7 +86,8 @@ public final class BusBench {
             PlantOptions po = new PlantOptions(1.0, java.util.Set.of(), s.grouping(), s.poolSize(), meters, iface,
                     Qos.AT_MOST_ONCE, 256, 1, 1.0);
             GridSimulator sim = new GridSimulator(grid);
-            PlantRunner plant = new PlantRunner(sim, List.of(), po, links, clock, say::accept);
+            PlantRunner plant = new PlantRunner(sim, loadSteps(grid, s), po, links, clock, say::accept)
+                    .unitScanMs(s.unitScanMs());
             List<UnitHost> hosts = plant.hosts();
             long periodNanos = s.telemetryScanMs() * 1_000_000L;
             for (int i = 0; i < hosts.size(); i++) {
@@ -113,6 +114,9 @@ public final class BusBench {
             agent.intake().setRouteProbe(stamps::routed);
             ProbedController probed = new ProbedController(agent, ctlSite.areas(), clock);
             AgentRunner ctlRunner = new AgentRunner(probed, 1_000_000L);
+            if (s.wakeOnInput()) {
+                agent.wakeOnInput(ctlRunner::wake);
+            }
             ctlRunner.start(); // subscribes before the links connect: the first connect subscribes all
             for (MqttLink l : ctlLinks) {
                 l.start();
@@ -161,10 +165,12 @@ public final class BusBench {
                             "bench: t=%.0f s heap after GC %.0f MB, used %.0f MB, JVM CPU %.0f %%, broker CPU %.0f %%, cycles %d",
                             sm.tS(), sm.heapAfterGcBytes() / 1e6, sm.heapUsedBytes() / 1e6, sm.jvmCpuPct(),
                             sm.brokerCpuPct(), agent.cyclesRun()));
+                    say.accept("bench: " + probed.lastDecision);
                     nextSample += Math.round(s.sampleS() * 1e9);
                 }
             }
             double measuredS = (clock.monotonicNanos() - t0) / 1e9;
+            say.accept("bench: last decision " + probed.lastDecision);
             if (sampler.samples().isEmpty()) {
                 sampler.sample();
             }
@@ -202,6 +208,24 @@ public final class BusBench {
                     agent.intake().rejectedByReason(), sampler.samples(), lateness,
                     plantFailure == null ? null : plantFailure.toString());
         }
+    }
+
+    /**
+     * Load steps in the first area so that the controller has something to regulate (the generated
+     * site starts balanced and would sit in the quiet band, sending nothing): ± the given MW at
+     * 5 s of scenario time and then every 60 s with alternating sign, for the whole run.
+     */
+    private static List<org.loopstand.plant.scenario.ScenarioEvent> loadSteps(Grid grid, BenchSettings s) {
+        List<org.loopstand.plant.scenario.ScenarioEvent> out = new ArrayList<>();
+        if (s.loadStepMw() == 0) {
+            return out;
+        }
+        String area = grid.areas().get(0).id();
+        double sign = 1;
+        for (double t = 5; t < s.warmupS() + s.durationS() + 60; t += 60, sign = -sign) {
+            out.add(new org.loopstand.plant.scenario.PhysicsEvents.LoadStep(t, area, sign * s.loadStepMw()));
+        }
+        return out;
     }
 
     /** Counters read at the start and end of the measured window. */

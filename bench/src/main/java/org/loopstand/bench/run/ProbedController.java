@@ -21,6 +21,8 @@ final class ProbedController implements Agent {
     final Recorder meterAgeMs = new Recorder(3);
     final Recorder cycleWorkUs = new Recorder(3);
     private long cyclesSeen;
+    /** The latest cycle's decision in one line (state, reasons, commands, notes), for the run log. */
+    volatile String lastDecision = "no cycle yet";
 
     ProbedController(ControllerAgent inner, Iterable<SiteArea> areas, Clock clock) {
         this.inner = inner;
@@ -42,6 +44,8 @@ final class ProbedController implements Agent {
             cyclesSeen = inner.cyclesRun();
             CycleOutcome o = inner.lastOutcome();
             long now = o.nowMs();
+            lastDecision = "cycle " + o.cycleNumber() + " " + o.state() + " reasons " + head(o.reasons())
+                    + " commands " + o.commands().size() + " notes " + head(o.notes());
             for (UnitState s : inner.intake().unitStates(now)) {
                 unitAgeMs.recordValue(Math.max(0, now - s.telemetryTimeMs()));
             }
@@ -53,6 +57,10 @@ final class ProbedController implements Agent {
             }
         }
         return w;
+    }
+
+    private static String head(java.util.List<String> items) {
+        return items.size() <= 6 ? items.toString() : items.subList(0, 6) + " … (" + items.size() + ")";
     }
 
     @Override

@@ -63,7 +63,7 @@ class BusCommandTest {
     @Test
     void shouldRunTenUnitsOnTheEmbeddedBroker() throws Exception {
         BenchSettings s = new BenchSettings(10, 2, 6, 2, "embedded", Path.of("config/broker/mosquitto-bench.conf"),
-                ConnectionGrouping.POOLED, 2, 2, 1000, 2000, 1, 3, true, dir.resolve("run"));
+                ConnectionGrouping.POOLED, 2, 2, 1000, 2000, 1, 3, true, true, 100, 0, dir.resolve("run"));
         BenchResult r = new BusBench(s, line -> { }).run();
         r.write(s.outDir());
         assertThat(r.plantFailure()).isNull();

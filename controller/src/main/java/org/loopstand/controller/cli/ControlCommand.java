@@ -110,6 +110,7 @@ public final class ControlCommand implements Callable<Integer> {
         ControllerAgent agent = new ControllerAgent(config, bus, clock, busClock, controllerId, epoch, journal, hlog);
         security.keys().ifPresent(keys -> agent.signCommandsWith(new CommandSigner(keys, clock, new MessageCodec())));
         AgentRunner runner = new AgentRunner(agent, 1_000_000L);
+        agent.wakeOnInput(runner::wake);
         Runtime.getRuntime().addShutdownHook(new Thread(() -> {
             runner.close();
             bus.close();

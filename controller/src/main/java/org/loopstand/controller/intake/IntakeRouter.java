@@ -42,9 +42,13 @@ import org.loopstand.protocol.topic.TopicKind;
 import org.loopstand.protocol.topic.TopicTree;
 
 /**
- * The controller's intake: bus listener threads only stamp and enqueue messages into a bounded
- * queue ({@link #listener()}); the cycle thread calls {@link #drain()} and then reads validated
- * inputs. Decoding never throws: rejections are counted per reason and reported to the observer.
+ * The controller's intake: bus listener threads stamp, parse the topic and decode + check the
+ * payload (codec validation: stateless, thread-safe), then enqueue the decoded record into a bounded
+ * queue ({@link #listener()}) and wake the cycle thread ({@link #onArrival}); the cycle thread calls
+ * {@link #drain()}, which runs the stateful source checks (sequence, skew, range, frozen) and stores
+ * the result, and then reads validated inputs. With several bus connections the decoding runs on
+ * their delivery threads in parallel. Decoding never throws: rejections are counted per reason and
+ * reported to the observer on the cycle thread.
  *
  * <p>Inputs, each with its own {@link ValidatedInput}:
  * <ul>
@@ -71,8 +75,13 @@ public final class IntakeRouter {
     /** Evaluations (cycles) in a row of disagreement before the tie flow is unusable. */
     public static final int TIE_ENDS_DISAGREE_CYCLES = 3;
 
-    /** A message as handed over by a bus thread, stamped with controller time on arrival. */
-    private record Arrival(InboundMessage message, long receivedAtMs) {
+    /**
+     * A message as handed over by a bus thread: stamped with controller time on arrival, topic
+     * parsed and payload decoded there. Either {@code value} is the decoded record or
+     * {@code rejectReason}/{@code rejectDetail} say why there is none.
+     */
+    private record Arrival(InboundMessage message, String topic, ParsedTopic parsed, Object value,
+                           String rejectReason, String rejectDetail, long receivedAtMs) {
     }
 
     private final ControllerSiteConfig site;
@@ -95,6 +104,7 @@ public final class IntakeRouter {
     /** per tie: cycles in a row its two ends disagreed, and the cycle time last counted */
     private final Map<String, long[]> tieDisagreement = new HashMap<>();
     private Consumer<ClockTick> clockListener = t -> { };
+    private volatile Runnable arrivalSignal = () -> { };
     private RouteProbe routeProbe;
     private long messagesRouted;
 
@@ -149,10 +159,23 @@ public final class IntakeRouter {
                 tree.filterAll(TopicKind.UNIT_ACK), tree.filterAll(TopicKind.AREA_SCHEDULE), tree.clock());
     }
 
-    /** @return the bus listener: stamps and enqueues only, never blocks; a full queue counts {@code queueFull} */
+    /**
+     * @param signal run on the bus thread after each message is queued (e.g. the agent runner's
+     *               {@code wake}); must be cheap and never block
+     */
+    public void onArrival(Runnable signal) {
+        this.arrivalSignal = signal == null ? () -> { } : signal;
+    }
+
+    /**
+     * @return the bus listener: stamps, decodes and enqueues, never blocks; a full queue counts
+     *         {@code queueFull}. Safe to call from several bus threads at once
+     */
     public MessageListener listener() {
         return m -> {
-            if (!queue.offer(new Arrival(m, clock.epochMillis()))) {
+            if (queue.offer(prepare(m, m.topic(), m.payload(), clock.epochMillis()))) {
+                arrivalSignal.run();
+            } else {
                 queueOverflow.increment();
                 count(rejectedByReason, "queueFull");
             }
@@ -164,7 +187,7 @@ public final class IntakeRouter {
         int n = 0;
         Arrival a;
         while ((a = queue.poll()) != null) {
-            route(a.message().topic(), a.message().payload(), a.receivedAtMs());
+            apply(a);
             RouteProbe probe = routeProbe;
             if (probe != null) {
                 probe.routed(a.message(), clock.monotonicNanos());
@@ -174,30 +197,60 @@ public final class IntakeRouter {
         return n;
     }
 
-    /** Routes one message at once (used by {@link #drain()}; tests may call it directly). */
+    /** Routes one message at once (used by tests; the bus path is {@link #listener()} + {@link #drain()}). */
     public void route(String topic, byte[] payload, long receivedAtMs) {
-        messagesRouted++;
-        ParsedTopic p = TopicTree.parse(topic).orElse(null);
-        if (p == null || !p.site().equals(site.siteId())) {
-            reject(topic, "unknownTopic", "not a topic of site " + site.siteId());
-            return;
-        }
-        switch (p.kind()) {
-            case AREA_METER -> decode(topic, payload, AreaMeter.class, m -> onMeter(topic, p, m, receivedAtMs));
-            case UNIT_TELEMETRY -> decode(topic, payload, UnitTelemetry.class, m -> onTelemetry(topic, p, m, receivedAtMs));
-            case UNIT_ACK -> decode(topic, payload, CommandAck.class, m -> onAck(m, receivedAtMs));
-            case AREA_SCHEDULE -> decode(topic, payload, Schedule.class, m -> onSchedule(topic, p, m));
-            case CLOCK -> decode(topic, payload, ClockTick.class, clockListener);
-            default -> reject(topic, "unknownTopic", "the controller does not read " + p.kind() + " topics");
-        }
+        apply(prepare(null, topic, payload, receivedAtMs));
     }
 
-    private <T> void decode(String topic, byte[] payload, Class<T> type, Consumer<T> sink) {
-        Decoded<T> d = codec.decode(payload, type);
-        if (d instanceof Decoded.Ok<T> ok) {
-            sink.accept(ok.value());
+    /** Parses and decodes; touches no state, so any thread may call it. */
+    private Arrival prepare(InboundMessage m, String topic, byte[] payload, long receivedAtMs) {
+        ParsedTopic p = TopicTree.parse(topic).orElse(null);
+        if (p == null || !p.site().equals(site.siteId())) {
+            return new Arrival(m, topic, null, null, "unknownTopic", "not a topic of site " + site.siteId(), receivedAtMs);
+        }
+        Class<?> type = switch (p.kind()) {
+            case AREA_METER -> AreaMeter.class;
+            case UNIT_TELEMETRY -> UnitTelemetry.class;
+            case UNIT_ACK -> CommandAck.class;
+            case AREA_SCHEDULE -> Schedule.class;
+            case CLOCK -> ClockTick.class;
+            default -> null;
+        };
+        if (type == null) {
+            return new Arrival(m, topic, p, null, "unknownTopic", "the controller does not read " + p.kind() + " topics",
+                    receivedAtMs);
+        }
+        Decoded<?> d = codec.decode(payload, type);
+        if (d instanceof Decoded.Ok<?> ok) {
+            return new Arrival(m, topic, p, ok.value(), null, null, receivedAtMs);
+        }
+        var e = d.rejection().orElseThrow();
+        return new Arrival(m, topic, p, null, e.kind().name(), e.toString(), receivedAtMs);
+    }
+
+    /** Stores a decoded message (stateful checks); cycle thread only. */
+    private void apply(Arrival a) {
+        messagesRouted++;
+        if (a.value() == null) {
+            reject(a.topic(), a.rejectReason(), a.rejectDetail());
+            return;
+        }
+        String topic = a.topic();
+        ParsedTopic p = a.parsed();
+        long receivedAtMs = a.receivedAtMs();
+        Object v = a.value();
+        if (v instanceof AreaMeter m) {
+            onMeter(topic, p, m, receivedAtMs);
+        } else if (v instanceof UnitTelemetry t) {
+            onTelemetry(topic, p, t, receivedAtMs);
+        } else if (v instanceof CommandAck ack) {
+            onAck(ack, receivedAtMs);
+        } else if (v instanceof Schedule sc) {
+            onSchedule(topic, p, sc);
+        } else if (v instanceof ClockTick tick) {
+            clockListener.accept(tick);
         } else {
-            d.rejection().ifPresent(e -> reject(topic, e.kind().name(), e.toString()));
+            reject(topic, "unknownTopic", "no route for " + v.getClass().getSimpleName());
         }
     }
 

@@ -127,6 +127,16 @@ public final class ControllerAgent implements Agent {
         return this;
     }
 
+    /**
+     * @param wake run on a bus thread whenever an input was queued, typically the runner's
+     *             {@link org.loopstand.protocol.agent.AgentRunner#wake}, so the intake is drained at
+     *             once instead of after the runner's idle park
+     */
+    public ControllerAgent wakeOnInput(Runnable wake) {
+        intake.onArrival(wake);
+        return this;
+    }
+
     /** @return commands not sent because no key was valid for their unit */
     public long unsignableCommands() {
         return unsignable;

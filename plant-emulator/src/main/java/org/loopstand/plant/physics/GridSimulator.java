@@ -267,6 +267,16 @@ public final class GridSimulator {
         return dynamics.online[grid.unitIndex(unitId)];
     }
 
+    /** @param unit unit index in the grid (no name look-up: for per-step callers) */
+    public boolean isTripped(int unit) {
+        return dynamics.tripped[unit];
+    }
+
+    /** @param unit unit index in the grid (no name look-up: for per-step callers) */
+    public boolean isOnline(int unit) {
+        return dynamics.online[unit];
+    }
+
     // ---- for checks and other solvers
 
     /** @return the right-hand side, for comparing with other integrators */

@@ -61,6 +61,8 @@ public final class PlantAgent implements Agent, ScenarioContext {
     private java.util.function.Consumer<String> checkSink = s -> { };
     private double nextSampleS;
     private FaultHooks faults;
+    /** Steps between two passes over one unit interface (1 = every unit after every step). */
+    private int unitSlices = 1;
 
     public PlantAgent(Parts parts) {
         this.p = parts;
@@ -128,6 +130,24 @@ public final class PlantAgent implements Agent, ScenarioContext {
     /** @return scenario epoch ms of simulated time {@code timeS} (time 0 = the agent's start) */
     public long epochMsAt(double timeS) {
         return startEpochMs + Math.round(timeS * 1000);
+    }
+
+    /**
+     * Owner thread, before start: runs each unit plant interface every {@code unitScanMs} instead of
+     * after every physics step. The units are dealt into {@code unitScanMs / step} slices and one
+     * slice runs after each step, so the cost is spread evenly and every interface still runs once
+     * per scan period. A unit's load reference then moves in scan-sized increments (its total motion
+     * is unchanged: each tick advances by the time since its previous tick), commands and statuses
+     * wait in their queues up to one scan period, and telemetry scans land on the unit's next pass
+     * (up to one scan period late). 0 or a value ≤ the step: every unit after every step (default).
+     *
+     * @param unitScanMs unit interface scan period, ms, 0 – 1000
+     */
+    public void setUnitScanMs(long unitScanMs) {
+        if (unitScanMs < 0 || unitScanMs > 1000) {
+            throw new IllegalArgumentException("unitScanMs must be in [0, 1000], got " + unitScanMs);
+        }
+        this.unitSlices = (int) Math.max(1, unitScanMs * 1_000_000L / stepNanos);
     }
 
     /** Owner thread, before start: meters publish through the fault stages, faults are updated each cycle. */
@@ -204,9 +224,7 @@ public final class PlantAgent implements Agent, ScenarioContext {
                 record.sampleTruth(p.sim().timeS(), p.sim());
                 nextSampleS += 1.0 * (Math.floor(p.sim().timeS() - nextSampleS + 1e-9) + 1);
             }
-            for (UnitHost h : p.units()) {
-                work += h.work();
-            }
+            work += workUnits((int) (p.sim().stepCount() % unitSlices));
             steps++;
             now = p.clock().monotonicNanos();
         }
@@ -217,10 +235,8 @@ public final class PlantAgent implements Agent, ScenarioContext {
             }
             return steps;
         }
-        if (steps == 0) {
-            for (UnitHost h : p.units()) {
-                work += h.work();
-            }
+        if (steps == 0 && unitSlices == 1) {
+            work += workUnits(0);
         }
         work += steps;
         if (p.field() != null) {
@@ -248,6 +264,16 @@ public final class PlantAgent implements Agent, ScenarioContext {
             modes.put(h.unit().unitId(), h.unit().controlMode().wireName());
         }
         j.truth(epochMsAt(t), p.sim(), modes);
+    }
+
+    /** Runs the unit interfaces of one slice: unit i belongs to slice i mod unitSlices. */
+    private int workUnits(int slice) {
+        int work = 0;
+        List<UnitHost> units = p.units();
+        for (int i = slice; i < units.size(); i += unitSlices) {
+            work += units.get(i).work();
+        }
+        return work;
     }
 
     private void fireEvents() {

@@ -39,6 +39,7 @@ public final class PlantRunner implements AutoCloseable {
     private final Clock clock;
     private final TopicTree topics;
     private final MessageCodec codec = new MessageCodec();
+    private final UnitHost.StatusDecoding statusDecoding = new UnitHost.StatusDecoding(codec);
     private final PlantJournal journal = new PlantJournal();
     private final List<MessageBus> buses = new ArrayList<>();
     private final Map<String, UnitHost> hosts = new LinkedHashMap<>();
@@ -108,7 +109,9 @@ public final class PlantRunner implements AutoCloseable {
                     options.commandQueueCapacity());
             UnitSettings s = UnitSettings.of(sim.grid().units().get(sim.grid().unitIndex(unitId)), options.interfaces());
             UnitPlantInterface ui = new UnitPlantInterface(s, new DirectUnitField(sim, unitId), clock, link, journal, seqStart);
-            hosts.put(unitId, new UnitHost(ui, link, codec));
+            UnitHost host = new UnitHost(ui, link, codec);
+            host.shareStatusDecoding(statusDecoding);
+            hosts.put(unitId, host);
             groupLinks.add(link);
             bus.subscribe(topics.unitCommand(unitId), Qos.AT_LEAST_ONCE,
                     m -> link.offerCommand(m.payload(), clock.monotonicNanos()));
@@ -175,6 +178,12 @@ public final class PlantRunner implements AutoCloseable {
                 agent.noteEvent(Map.of("event", "linkDown", "clientId", plantBus.clientId(), "cause", String.valueOf(cause)));
             }
         });
+        return this;
+    }
+
+    /** Before {@link #start}: unit interface scan period, see {@link PlantAgent#setUnitScanMs}. */
+    public PlantRunner unitScanMs(long unitScanMs) {
+        agent.setUnitScanMs(unitScanMs);
         return this;
     }
 

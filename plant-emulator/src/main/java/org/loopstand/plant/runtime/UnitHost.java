@@ -19,6 +19,41 @@ public final class UnitHost {
     private final MessageCodec codec;
     private long overflowSeen;
     private FaultHooks faults;
+    private StatusDecoding statusDecoding;
+
+    /**
+     * One decode of a controller status for every unit that got the same payload: a connection
+     * fans one status message out to all its units as the same array, and decoding a status with
+     * every area's ACE once per unit was the plant loop's largest cost at 10,000 units. Keyed by
+     * array identity (payloads are never changed after receipt), one entry per connection's copy;
+     * safe across threads.
+     */
+    static final class StatusDecoding {
+        /** One entry per connection is enough; a few spare for a status that follows quickly. */
+        private static final int ENTRIES = 64;
+        private final MessageCodec codec;
+        private final byte[][] payloads = new byte[ENTRIES][];
+        @SuppressWarnings("unchecked")
+        private final Decoded<ControllerStatus>[] decoded = new Decoded[ENTRIES];
+        private int next;
+
+        StatusDecoding(MessageCodec codec) {
+            this.codec = codec;
+        }
+
+        synchronized Decoded<ControllerStatus> decode(byte[] payload) {
+            for (int i = 0; i < ENTRIES; i++) {
+                if (payloads[i] == payload) {
+                    return decoded[i];
+                }
+            }
+            Decoded<ControllerStatus> d = codec.decode(payload, ControllerStatus.class);
+            payloads[next] = payload;
+            decoded[next] = d;
+            next = (next + 1) % ENTRIES;
+            return d;
+        }
+    }
 
     public UnitHost(UnitPlantInterface unit, UnitLink link, MessageCodec codec) {
         this.unit = unit;
@@ -34,6 +69,11 @@ public final class UnitHost {
         return link;
     }
 
+    /** Owner thread, before start: decode controller statuses through a cache shared with other hosts. */
+    void shareStatusDecoding(StatusDecoding decoding) {
+        this.statusDecoding = decoding;
+    }
+
     /** Owner thread, before start: inbound commands pass the command-path fault stage. */
     void attachFaults(FaultHooks hooks) {
         this.faults = hooks;
@@ -44,7 +84,8 @@ public final class UnitHost {
         int work = 0;
         link.announceIfDue();
         for (byte[] s; (s = link.pollStatus()) != null; work++) {
-            Decoded<ControllerStatus> d = codec.decode(s, ControllerStatus.class);
+            Decoded<ControllerStatus> d = statusDecoding != null ? statusDecoding.decode(s)
+                    : codec.decode(s, ControllerStatus.class);
             d.message().ifPresent(unit::onControllerStatus);
         }
         UnitLink.Received r;

@@ -108,6 +108,24 @@ class PlantAgentTest {
     }
 
     @Test
+    void shouldKeepPulseMotionAndScanRatesWhenUnitsRunOnACoarserScan() throws Exception {
+        try (PlantRunner p = plant(ConnectionGrouping.POOLED, Set.of()).unitScanMs(100)) {
+            run(p, 240);
+            double before = p.sim().loadReferenceMw("basin-steam-1");
+            long now = clock.epochMillis();
+            int telemetryBefore = on(topics.unitTelemetry("ridge-hydro-1")).size();
+            send(UnitCommand.pulse(1, now, "basin-steam-1", "controller-1", 0, now + 8_000, PulseDirection.RAISE, 4_000));
+            run(p, 20);
+            // same total as after every step: 18 MW/min × 4 s = 1.2 MW, only in 100 ms increments
+            assertThat(p.sim().loadReferenceMw("basin-steam-1") - before).isCloseTo(1.2, within(1e-9));
+            assertThat(decoded(topics.unitAck("basin-steam-1"), CommandAck.class)).singleElement()
+                    .satisfies(a -> assertThat(a.outcome()).isEqualTo(AckOutcome.ACCEPTED));
+            // a 500 ms telemetry scan still publishes twice a second (each on the unit's next pass)
+            assertThat(on(topics.unitTelemetry("ridge-hydro-1")).size() - telemetryBefore).isBetween(39, 41);
+        }
+    }
+
+    @Test
     void shouldMoveTheTurbinesReferenceByPulseRateTimesDuration() throws Exception {
         try (PlantRunner p = plant(ConnectionGrouping.POOLED, Set.of())) {
             run(p, 240); // the demo site starts off balance: let the governors settle first

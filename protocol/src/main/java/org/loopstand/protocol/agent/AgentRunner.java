@@ -8,9 +8,11 @@ import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
 /**
- * Drives an {@link Agent} on a dedicated thread: calls {@code doWork()} in a loop and parks for
- * {@code idleNanos} of wall time when no work was done. The agent decides from its own clock what is
- * due; the runner only keeps it turning.
+ * Drives an {@link Agent} on a dedicated thread: calls {@code doWork()} in a loop and parks for at
+ * most {@code idleNanos} of wall time when no work was done. The agent decides from its own clock
+ * what is due; the runner only keeps it turning. A producer that hands the agent work from another
+ * thread calls {@link #wake()}, which ends the park at once, so queued work does not wait out the
+ * idle period (the agent itself still never sleeps).
  */
 public final class AgentRunner implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(AgentRunner.class);
@@ -20,7 +22,11 @@ public final class AgentRunner implements AutoCloseable {
     private final AtomicBoolean running = new AtomicBoolean();
     private final CountDownLatch closed = new CountDownLatch(1);
     private volatile Throwable failure;
-    private Thread thread;
+    private volatile Thread thread;
+    /** Set by the runner just before it parks, cleared after. */
+    private volatile boolean parked;
+    /** Set by {@link #wake()}; cleared by the runner before each {@code doWork()}. */
+    private volatile boolean wakePending;
 
     /**
      * @param agent     the agent to drive
@@ -49,8 +55,15 @@ public final class AgentRunner implements AutoCloseable {
         try {
             agent.onStart();
             while (running.get()) {
+                wakePending = false;
                 if (agent.doWork() == 0) {
-                    LockSupport.parkNanos(idleNanos);
+                    // Dekker-style hand-shake on two volatiles: a wake() after doWork() either
+                    // sees parked and unparks, or the runner sees wakePending and does not park.
+                    parked = true;
+                    if (!wakePending) {
+                        LockSupport.parkNanos(idleNanos);
+                    }
+                    parked = false;
                 }
             }
         } catch (Throwable t) {
@@ -64,6 +77,20 @@ public final class AgentRunner implements AutoCloseable {
             }
             running.set(false);
             closed.countDown();
+        }
+    }
+
+    /**
+     * Ends the runner's idle park now (or makes the next one return at once). Safe from any thread,
+     * before start and after close; cheap while the agent is busy (no unpark then).
+     */
+    public void wake() {
+        wakePending = true;
+        if (parked) {
+            Thread t = thread;
+            if (t != null) {
+                LockSupport.unpark(t);
+            }
         }
     }
 
