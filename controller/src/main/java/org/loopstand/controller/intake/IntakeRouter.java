@@ -24,7 +24,6 @@ import org.loopstand.controller.cycle.AreaCycleInputs;
 import org.loopstand.controller.cycle.AreaSchedule;
 import org.loopstand.protocol.bus.InboundMessage;
 import org.loopstand.protocol.bus.MessageListener;
-import org.loopstand.protocol.codec.Decoded;
 import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.AckOutcome;
 import org.loopstand.protocol.message.AreaMeter;
@@ -75,21 +74,13 @@ public final class IntakeRouter {
     /** Evaluations (cycles) in a row of disagreement before the tie flow is unusable. */
     public static final int TIE_ENDS_DISAGREE_CYCLES = 3;
 
-    /**
-     * A message as handed over by a bus thread: stamped with controller time on arrival, topic
-     * parsed and payload decoded there. Either {@code value} is the decoded record or
-     * {@code rejectReason}/{@code rejectDetail} say why there is none.
-     */
-    private record Arrival(InboundMessage message, String topic, ParsedTopic parsed, Object value,
-                           String rejectReason, String rejectDetail, long receivedAtMs) {
-    }
-
     private final ControllerSiteConfig site;
     private final ControllerSettings settings;
     private final Clock clock;
     private final MessageCodec codec;
     private final IntakeObserver observer;
-    private final BlockingQueue<Arrival> queue;
+    private final BlockingQueue<IntakeDecoder.Arrival> queue;
+    private final IntakeDecoder decoder;
     private final LongAdder queueOverflow = new LongAdder();
     private final Map<String, AtomicLong> rejectedByReason = new ConcurrentHashMap<>();
     private final Map<String, AtomicLong> acksByOutcome = new ConcurrentHashMap<>();
@@ -115,6 +106,7 @@ public final class IntakeRouter {
         this.codec = codec;
         this.observer = observer == null ? new IntakeObserver() { } : observer;
         this.queue = new ArrayBlockingQueue<>(settings.intakeQueueCapacity());
+        this.decoder = new IntakeDecoder(site.siteId(), codec);
         long skew = settings.clockSkewLimitMs();
         for (SiteArea a : site.areas()) {
             frequency.put(a.id(), new ValidatedInput(settings.frequency().toSettings("frequency:" + a.id(), skew)));
@@ -173,7 +165,7 @@ public final class IntakeRouter {
      */
     public MessageListener listener() {
         return m -> {
-            if (queue.offer(prepare(m, m.topic(), m.payload(), clock.epochMillis()))) {
+            if (queue.offer(decoder.decode(m, m.topic(), m.payload(), clock.epochMillis()))) {
                 arrivalSignal.run();
             } else {
                 queueOverflow.increment();
@@ -185,7 +177,7 @@ public final class IntakeRouter {
     /** Routes every queued message. @return how many were taken from the queue */
     public int drain() {
         int n = 0;
-        Arrival a;
+        IntakeDecoder.Arrival a;
         while ((a = queue.poll()) != null) {
             apply(a);
             RouteProbe probe = routeProbe;
@@ -199,37 +191,11 @@ public final class IntakeRouter {
 
     /** Routes one message at once (used by tests; the bus path is {@link #listener()} + {@link #drain()}). */
     public void route(String topic, byte[] payload, long receivedAtMs) {
-        apply(prepare(null, topic, payload, receivedAtMs));
-    }
-
-    /** Parses and decodes; touches no state, so any thread may call it. */
-    private Arrival prepare(InboundMessage m, String topic, byte[] payload, long receivedAtMs) {
-        ParsedTopic p = TopicTree.parse(topic).orElse(null);
-        if (p == null || !p.site().equals(site.siteId())) {
-            return new Arrival(m, topic, null, null, "unknownTopic", "not a topic of site " + site.siteId(), receivedAtMs);
-        }
-        Class<?> type = switch (p.kind()) {
-            case AREA_METER -> AreaMeter.class;
-            case UNIT_TELEMETRY -> UnitTelemetry.class;
-            case UNIT_ACK -> CommandAck.class;
-            case AREA_SCHEDULE -> Schedule.class;
-            case CLOCK -> ClockTick.class;
-            default -> null;
-        };
-        if (type == null) {
-            return new Arrival(m, topic, p, null, "unknownTopic", "the controller does not read " + p.kind() + " topics",
-                    receivedAtMs);
-        }
-        Decoded<?> d = codec.decode(payload, type);
-        if (d instanceof Decoded.Ok<?> ok) {
-            return new Arrival(m, topic, p, ok.value(), null, null, receivedAtMs);
-        }
-        var e = d.rejection().orElseThrow();
-        return new Arrival(m, topic, p, null, e.kind().name(), e.toString(), receivedAtMs);
+        apply(decoder.decode(null, topic, payload, receivedAtMs));
     }
 
     /** Stores a decoded message (stateful checks); cycle thread only. */
-    private void apply(Arrival a) {
+    private void apply(IntakeDecoder.Arrival a) {
         messagesRouted++;
         if (a.value() == null) {
             reject(a.topic(), a.rejectReason(), a.rejectDetail());
