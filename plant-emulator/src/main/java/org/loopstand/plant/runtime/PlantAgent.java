@@ -1,11 +1,21 @@
 package org.loopstand.plant.runtime;
 
 import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
 import java.util.List;
+import java.util.Map;
+import java.util.concurrent.ConcurrentLinkedQueue;
+import java.util.function.Consumer;
 
+import org.loopstand.plant.check.CheckOutcome;
+import org.loopstand.plant.check.CheckSpec;
+import org.loopstand.plant.check.RunRecord;
 import org.loopstand.plant.field.FieldGateway;
+import org.loopstand.plant.journal.PlantRunJournal;
 import org.loopstand.plant.meter.AreaMeterPublisher;
 import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.plant.scenario.PlantControls;
 import org.loopstand.plant.scenario.ScenarioContext;
 import org.loopstand.plant.scenario.ScenarioEvent;
 import org.loopstand.protocol.agent.Agent;
@@ -13,8 +23,11 @@ import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.OutboundMessage;
 import org.loopstand.protocol.bus.Qos;
 import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.journal.EndReason;
 import org.loopstand.protocol.message.AreaMeter;
 import org.loopstand.protocol.message.ClockTick;
+import org.loopstand.protocol.message.ControlMode;
+import org.loopstand.protocol.message.Schedule;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.topic.TopicTree;
 
@@ -48,17 +61,17 @@ public final class PlantAgent implements Agent, ScenarioContext {
     private volatile long meterDropped;
     private volatile long meterSent;
     private final long startEpochMs;
-    private final java.util.concurrent.ConcurrentLinkedQueue<java.util.Map<String, Object>> pendingEvents =
-            new java.util.concurrent.ConcurrentLinkedQueue<>();
-    private volatile org.loopstand.plant.journal.PlantRunJournal journal;
+    private final ConcurrentLinkedQueue<Map<String, Object>> pendingEvents =
+            new ConcurrentLinkedQueue<>();
+    private volatile PlantRunJournal journal;
     private double truthIntervalS = 1.0;
     private double nextTruthS;
     private double endAtS = Double.NaN;
     private volatile boolean finished;
-    private final java.util.concurrent.ConcurrentLinkedQueue<Runnable> loopTasks = new java.util.concurrent.ConcurrentLinkedQueue<>();
-    private org.loopstand.plant.check.RunRecord record;
-    private List<org.loopstand.plant.check.CheckSpec> checks = List.of();
-    private java.util.function.Consumer<String> checkSink = s -> { };
+    private final ConcurrentLinkedQueue<Runnable> loopTasks = new ConcurrentLinkedQueue<>();
+    private RunRecord record;
+    private List<CheckSpec> checks = List.of();
+    private Consumer<String> checkSink = s -> { };
     private double nextSampleS;
     private FaultHooks faults;
     /** Steps between two passes over one unit interface (1 = every unit after every step). */
@@ -82,7 +95,7 @@ public final class PlantAgent implements Agent, ScenarioContext {
      * {@code truthIntervalS} of scenario time, meter messages, scenario and process events, step
      * lateness. The agent closes the journal in {@link #onClose()}.
      */
-    public void journalTo(org.loopstand.plant.journal.PlantRunJournal j, double truthIntervalS) {
+    public void journalTo(PlantRunJournal j, double truthIntervalS) {
         if (!(truthIntervalS > 0)) {
             throw new IllegalArgumentException("truthIntervalS must be positive, got " + truthIntervalS);
         }
@@ -109,8 +122,8 @@ public final class PlantAgent implements Agent, ScenarioContext {
      * scenario second, scenario events; when the scenario ends the checks are decided, journaled as
      * {@code check} entries and each told to {@code sink} as one line.
      */
-    public void checkWith(org.loopstand.plant.check.RunRecord r, List<org.loopstand.plant.check.CheckSpec> specs,
-                          java.util.function.Consumer<String> sink) {
+    public void checkWith(RunRecord r, List<CheckSpec> specs,
+                          Consumer<String> sink) {
         this.record = r;
         this.checks = List.copyOf(specs);
         this.checkSink = sink;
@@ -123,7 +136,7 @@ public final class PlantAgent implements Agent, ScenarioContext {
     }
 
     /** Any thread: queues a process event for the journal ({@code fields} holds {@code event}). */
-    public void noteEvent(java.util.Map<String, Object> fields) {
+    public void noteEvent(Map<String, Object> fields) {
         pendingEvents.add(fields);
     }
 
@@ -162,15 +175,15 @@ public final class PlantAgent implements Agent, ScenarioContext {
 
     /** Scenario events reach the plant's units and the schedule topic through this. */
     @Override
-    public org.loopstand.plant.scenario.PlantControls plant() {
+    public PlantControls plant() {
         return controls;
     }
 
-    private final org.loopstand.plant.scenario.PlantControls controls = new org.loopstand.plant.scenario.PlantControls() {
+    private final PlantControls controls = new PlantControls() {
         @Override
         public void publishSchedule(String area, double scheduledNetInterchangeMw, double scheduledFrequencyHz) {
             long now = p.clock().epochMillis();
-            org.loopstand.protocol.message.Schedule s = new org.loopstand.protocol.message.Schedule(scheduleSeq++, now, area,
+            Schedule s = new Schedule(scheduleSeq++, now, area,
                     scheduledNetInterchangeMw, scheduledFrequencyHz, now);
             // retained: a controller that connects later still finds the schedule in force
             p.plantBus().publish(new OutboundMessage(p.topics().areaSchedule(area), p.codec().encode(s), Qos.AT_LEAST_ONCE,
@@ -178,7 +191,7 @@ public final class PlantAgent implements Agent, ScenarioContext {
         }
 
         @Override
-        public void setControlMode(String unit, org.loopstand.protocol.message.ControlMode mode, String why) {
+        public void setControlMode(String unit, ControlMode mode, String why) {
             for (UnitHost h : p.units()) {
                 if (h.unit().unitId().equals(unit)) {
                     h.unit().setControlMode(mode, why);
@@ -203,7 +216,7 @@ public final class PlantAgent implements Agent, ScenarioContext {
         }
         long now = p.clock().monotonicNanos();
         int steps = 0;
-        org.loopstand.plant.journal.PlantRunJournal j = journal;
+        PlantRunJournal j = journal;
         while (steps < MAX_STEPS_PER_CYCLE && !finished) {
             long due = startNanos + (p.sim().stepCount() + 1) * stepNanos;
             if (now < due) {
@@ -217,7 +230,7 @@ public final class PlantAgent implements Agent, ScenarioContext {
             p.sim().step();
             p.lateness().record(now - due);
             if (j != null) {
-                j.record(org.loopstand.plant.journal.PlantRunJournal.STEP_LATENESS_US, Math.max(0, now - due) / 1_000);
+                j.record(PlantRunJournal.STEP_LATENESS_US, Math.max(0, now - due) / 1_000);
                 writeTruthIfDue(j);
             }
             if (record != null && p.sim().timeS() + p.sim().stepS() * 1e-6 >= nextSampleS) {
@@ -245,7 +258,7 @@ public final class PlantAgent implements Agent, ScenarioContext {
         work += scanMeters(now);
         work += publishClock(now);
         if (j != null) {
-            for (java.util.Map<String, Object> e; (e = pendingEvents.poll()) != null; work++) {
+            for (Map<String, Object> e; (e = pendingEvents.poll()) != null; work++) {
                 j.event(p.clock().epochMillis(), e);
             }
             j.flushIfDue();
@@ -253,13 +266,13 @@ public final class PlantAgent implements Agent, ScenarioContext {
         return work;
     }
 
-    private void writeTruthIfDue(org.loopstand.plant.journal.PlantRunJournal j) {
+    private void writeTruthIfDue(PlantRunJournal j) {
         double t = p.sim().timeS();
         if (t + p.sim().stepS() * 1e-6 < nextTruthS) {
             return;
         }
         nextTruthS += truthIntervalS * (Math.floor((t - nextTruthS) / truthIntervalS + 1e-9) + 1);
-        java.util.Map<String, String> modes = new java.util.HashMap<>();
+        Map<String, String> modes = new HashMap<>();
         for (UnitHost h : p.units()) {
             modes.put(h.unit().unitId(), h.unit().controlMode().wireName());
         }
@@ -284,7 +297,7 @@ public final class PlantAgent implements Agent, ScenarioContext {
             if (record != null) {
                 record.event(p.sim().timeS(), e.type(), e.toString());
             }
-            org.loopstand.plant.journal.PlantRunJournal j = journal;
+            PlantRunJournal j = journal;
             if (j != null) {
                 j.event(epochMsAt(p.sim().timeS()), eventFields(e));
             }
@@ -295,12 +308,12 @@ public final class PlantAgent implements Agent, ScenarioContext {
             new com.fasterxml.jackson.databind.ObjectMapper();
 
     /** {@code {"event": type, "atS": …, …the event's own fields}}; falls back to its text form. */
-    static java.util.Map<String, Object> eventFields(ScenarioEvent e) {
-        java.util.Map<String, Object> f = new java.util.LinkedHashMap<>();
+    static Map<String, Object> eventFields(ScenarioEvent e) {
+        Map<String, Object> f = new LinkedHashMap<>();
         f.put("event", e.type());
         f.put("atS", e.atS());
         try {
-            java.util.Map<?, ?> own = EVENT_MAPPER.convertValue(e, java.util.Map.class);
+            Map<?, ?> own = EVENT_MAPPER.convertValue(e, Map.class);
             own.forEach((k, v) -> {
                 String name = String.valueOf(k);
                 if (!f.containsKey(name) && !"t".equals(name) && !"kind".equals(name)) {
@@ -314,7 +327,7 @@ public final class PlantAgent implements Agent, ScenarioContext {
     }
 
     /** Decides the scenario's checks over the run record (only when the scenario ran to its end). */
-    private void decideChecks(org.loopstand.plant.journal.PlantRunJournal j) {
+    private void decideChecks(PlantRunJournal j) {
         if (record == null || checks.isEmpty()) {
             return;
         }
@@ -323,12 +336,12 @@ public final class PlantAgent implements Agent, ScenarioContext {
             return;
         }
         record.end(p.sim().timeS());
-        for (org.loopstand.plant.check.CheckSpec c : checks) {
-            org.loopstand.plant.check.CheckOutcome o;
+        for (CheckSpec c : checks) {
+            CheckOutcome o;
             try {
                 o = c.evaluate(record, p.sim().grid());
             } catch (RuntimeException e) {
-                o = new org.loopstand.plant.check.CheckOutcome(c.name(), false, Double.NaN, "", Double.NaN,
+                o = new CheckOutcome(c.name(), false, Double.NaN, "", Double.NaN,
                         "could not be decided: " + e.getMessage(), false);
             }
             checkSink.accept("plant: check " + o);
@@ -340,18 +353,18 @@ public final class PlantAgent implements Agent, ScenarioContext {
 
     @Override
     public void onClose() {
-        org.loopstand.plant.journal.PlantRunJournal j = journal;
+        PlantRunJournal j = journal;
         decideChecks(j);
         if (j != null && !j.isClosed()) {
-            for (java.util.Map<String, Object> e; (e = pendingEvents.poll()) != null; ) {
+            for (Map<String, Object> e; (e = pendingEvents.poll()) != null; ) {
                 j.event(p.clock().epochMillis(), e);
             }
             var h = p.lateness().histogramUs();
-            j.event(p.clock().epochMillis(), java.util.Map.of("event", "summary", "simulatedS", p.sim().timeS(),
+            j.event(p.clock().epochMillis(), Map.of("event", "summary", "simulatedS", p.sim().timeS(),
                     "steps", p.sim().stepCount(), "meterSent", meterSent, "meterDropped", meterDropped,
                     "stepLatenessP99Us", h.getValueAtPercentile(99), "stepLatenessMaxUs", h.getMaxValue()));
-            j.close(Math.max(p.clock().epochMillis(), epochMsAt(p.sim().timeS())), finished ? org.loopstand.protocol.journal.EndReason.COMPLETED
-                    : org.loopstand.protocol.journal.EndReason.STOPPED);
+            j.close(Math.max(p.clock().epochMillis(), epochMsAt(p.sim().timeS())), finished ? EndReason.COMPLETED
+                    : EndReason.STOPPED);
         }
     }
 
@@ -363,7 +376,7 @@ public final class PlantAgent implements Agent, ScenarioContext {
                 n++;
                 String topic = p.topics().areaMeter(reading.area(), reading.meter());
                 byte[] payload = p.codec().encode(reading);
-                org.loopstand.plant.journal.PlantRunJournal j = journal;
+                PlantRunJournal j = journal;
                 if (!p.plantBus().isConnected()) {
                     meterDropped++; // never buffered: a late reading would pass for a fresh one
                     if (j != null) {
