@@ -3,21 +3,19 @@ package org.loopstand.bench.probe;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.CompletionException;
 import java.util.concurrent.atomic.LongAdder;
-import org.loopstand.protocol.bus.BusCounters;
 import org.loopstand.protocol.bus.BusException;
-import org.loopstand.protocol.bus.ConnectionListener;
+import org.loopstand.protocol.bus.ForwardingBus;
 import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.MessageListener;
 import org.loopstand.protocol.bus.OutboundMessage;
 import org.loopstand.protocol.bus.Qos;
 
 /** The controller's bus with probes: counts commands published, PUBACKed or failed (by reason), acks received. */
-public final class CommandCountingBus implements MessageBus {
-    private final MessageBus inner;
+public final class CommandCountingBus extends ForwardingBus {
     private final StampingBus.CommandTally tally;
 
     public CommandCountingBus(MessageBus inner, StampingBus.CommandTally tally) {
-        this.inner = inner;
+        super(inner);
         this.tally = tally;
     }
 
@@ -52,10 +50,4 @@ public final class CommandCountingBus implements MessageBus {
         }
     }
 
-    @Override public String clientId() { return inner.clientId(); }
-    @Override public void unsubscribe(String topicFilter) { inner.unsubscribe(topicFilter); }
-    @Override public boolean isConnected() { return inner.isConnected(); }
-    @Override public void addConnectionListener(ConnectionListener l) { inner.addConnectionListener(l); }
-    @Override public BusCounters counters() { return inner.counters(); }
-    @Override public void close() { inner.close(); }
 }

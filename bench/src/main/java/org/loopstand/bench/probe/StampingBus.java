@@ -2,8 +2,7 @@ package org.loopstand.bench.probe;
 
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.atomic.LongAdder;
-import org.loopstand.protocol.bus.BusCounters;
-import org.loopstand.protocol.bus.ConnectionListener;
+import org.loopstand.protocol.bus.ForwardingBus;
 import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.MessageListener;
 import org.loopstand.protocol.bus.OutboundMessage;
@@ -14,14 +13,13 @@ import org.loopstand.protocol.time.Clock;
  * A plant connection with probes: stamps telemetry and meter publishes into {@link PublishStamps},
  * counts acks published and commands received. Otherwise passes everything through.
  */
-public final class StampingBus implements MessageBus {
-    private final MessageBus inner;
+public final class StampingBus extends ForwardingBus {
     private final PublishStamps stamps;
     private final Clock clock;
     private final CommandTally tally;
 
     public StampingBus(MessageBus inner, PublishStamps stamps, Clock clock, CommandTally tally) {
-        this.inner = inner;
+        super(inner);
         this.stamps = stamps;
         this.clock = clock;
         this.tally = tally;
@@ -50,12 +48,6 @@ public final class StampingBus implements MessageBus {
         }
     }
 
-    @Override public String clientId() { return inner.clientId(); }
-    @Override public void unsubscribe(String topicFilter) { inner.unsubscribe(topicFilter); }
-    @Override public boolean isConnected() { return inner.isConnected(); }
-    @Override public void addConnectionListener(ConnectionListener l) { inner.addConnectionListener(l); }
-    @Override public BusCounters counters() { return inner.counters(); }
-    @Override public void close() { inner.close(); }
 
     /** Counts along the command path, from both ends. */
     public static final class CommandTally {

@@ -7,12 +7,9 @@ import java.util.Map;
 import java.util.Optional;
 import java.util.Set;
 import java.util.concurrent.CompletableFuture;
-import org.loopstand.protocol.bus.BusCounters;
-import org.loopstand.protocol.bus.ConnectionListener;
+import org.loopstand.protocol.bus.ForwardingBus;
 import org.loopstand.protocol.bus.MessageBus;
-import org.loopstand.protocol.bus.MessageListener;
 import org.loopstand.protocol.bus.OutboundMessage;
-import org.loopstand.protocol.bus.Qos;
 import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.AreaMeter;
 import org.loopstand.protocol.message.TieFlow;
@@ -25,8 +22,7 @@ import org.loopstand.protocol.topic.TopicTree;
  * adds a data error to the tie flows a chosen area's meter reports. Everything else passes through.
  * Only for the single thread of a study loop.
  */
-final class MeterTap implements MessageBus {
-    private final MessageBus inner;
+final class MeterTap extends ForwardingBus {
     private final MessageCodec codec = new MessageCodec();
     /** areas whose meters stop publishing */
     final Set<String> silentAreas = new HashSet<>();
@@ -34,7 +30,7 @@ final class MeterTap implements MessageBus {
     final Map<String, Double> tieErrorMwByArea = new HashMap<>();
 
     MeterTap(MessageBus inner) {
-        this.inner = inner;
+        super(inner);
     }
 
     @Override
@@ -58,11 +54,4 @@ final class MeterTap implements MessageBus {
         return inner.publish(new OutboundMessage(m.topic(), codec.encode(bad), m.qos(), m.retained(), m.expirySeconds()));
     }
 
-    @Override public String clientId() { return inner.clientId(); }
-    @Override public void subscribe(String f, Qos qos, MessageListener l) { inner.subscribe(f, qos, l); }
-    @Override public void unsubscribe(String f) { inner.unsubscribe(f); }
-    @Override public boolean isConnected() { return inner.isConnected(); }
-    @Override public void addConnectionListener(ConnectionListener l) { inner.addConnectionListener(l); }
-    @Override public BusCounters counters() { return inner.counters(); }
-    @Override public void close() { inner.close(); }
 }
