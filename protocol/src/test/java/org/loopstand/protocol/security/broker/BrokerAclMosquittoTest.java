@@ -7,14 +7,12 @@ import static org.awaitility.Awaitility.await;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.concurrent.atomic.AtomicInteger;
-import java.util.stream.Stream;
 import org.eclipse.paho.mqttv5.common.MqttException;
 import org.junit.jupiter.api.AfterAll;
 import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.junit.jupiter.params.ParameterizedTest;
-import org.junit.jupiter.params.provider.Arguments;
 import org.junit.jupiter.params.provider.MethodSource;
 import org.loopstand.protocol.topic.TopicTree;
 
@@ -50,22 +48,8 @@ class BrokerAclMosquittoTest {
                 broker.trustedClientFactory(username));
     }
 
-    static Stream<Arguments> forbiddenPublishes() {
-        // publisher, topic it must not write, an identity that would read it, one that may write it
-        return Stream.of(
-                Arguments.of("unit-G1", T.unitCommand("G2"), "unit-G2", "controller-1"),
-                Arguments.of("unit-G1", T.unitCommand("G1"), "unit-G1", "controller-1"),
-                Arguments.of("unit-G1", T.unitTelemetry("G2"), "controller-1", "unit-G2"),
-                Arguments.of("unit-G1", T.unitAck("G2"), "controller-1", "unit-G2"),
-                Arguments.of("meter-A1", T.areaMeter("A2", "M2"), "controller-1", "meter-A2"),
-                Arguments.of("unit-G1", T.controllerStatus("controller-1"), "unit-G2", "controller-1"),
-                Arguments.of("controller-1", T.faults(), "plant", "fault-tool"),
-                Arguments.of("unit-G1", T.faults(), "plant", "fault-tool"),
-                Arguments.of("meter-A1", T.unitCommand("G1"), "unit-G1", "controller-1"));
-    }
-
     @ParameterizedTest(name = "{0} may not publish {1}")
-    @MethodSource("forbiddenPublishes")
+    @MethodSource("org.loopstand.protocol.security.broker.ForbiddenPublishes#cases")
     void shouldDropAPublishOutsideTheIdentitysPermissions(String publisher, String topic, String reader,
             String allowedWriter) throws Exception {
         try (ProbeClient observer = as(reader); ProbeClient intruder = as(publisher); ProbeClient owner = as(allowedWriter)) {
