@@ -113,6 +113,10 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--linger-s", defaultValue = "0", description = "after the scenario ends, keep the embedded broker up this many wall seconds (or until stopped) so the controller can stop cleanly")
     double lingerS;
 
+    @Option(names = "--wire-profile", paramLabel = "FILE", description = "speak another topic and payload layout to the"
+            + " controller (YAML; docs/controller-contract.md, \"Wire profiles\"); the journal keeps the rig's own form")
+    Path wireProfile;
+
     @Mixin
     InterfaceMixin iface;
 
@@ -134,6 +138,16 @@ public final class PlantCommand implements Callable<Integer> {
             System.err.println("refused:");
             System.err.println(e.getMessage());
             return 2;
+        }
+        org.loopstand.plant.profile.WireProfile profile = null;
+        if (wireProfile != null) {
+            try {
+                profile = org.loopstand.plant.profile.WireProfileLoader.load(wireProfile, grid.siteId());
+            } catch (ConfigFileException e) {
+                System.err.println("refused:");
+                System.err.println(e.getMessage());
+                return 2;
+            }
         }
         PlantOptions options;
         try {
@@ -178,8 +192,13 @@ public final class PlantCommand implements Callable<Integer> {
         HeldStartClock held = waitGo ? new HeldStartClock(WallClock.INSTANCE, rate) : null;
         Clock clock = held != null ? held
                 : rate == 1.0 ? WallClock.INSTANCE : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
-        PlantRunner runner = new PlantRunner(sim, events, options, MqttLinks.to(uri, WallClock.INSTANCE, security, grid.siteId()),
-                clock, PlantCommand::say);
+        var links = MqttLinks.to(uri, WallClock.INSTANCE, security, grid.siteId());
+        if (profile != null) {
+            links = org.loopstand.plant.profile.ProfiledLinks.of(links, profile,
+                    (topic, why) -> System.err.println("plant: wire profile: " + topic + ": " + why));
+            say("plant: wire profile " + profile.name() + " from " + wireProfile + " on the controller's side of the bus");
+        }
+        PlantRunner runner = new PlantRunner(sim, events, options, links, clock, PlantCommand::say);
         PlantSecurity.requireSignedCommands(security, runner.hosts().stream().map(UnitHost::unit).toList(), clock);
         PlantRunJournal runJournal = null;
         if (journalDir != null) {

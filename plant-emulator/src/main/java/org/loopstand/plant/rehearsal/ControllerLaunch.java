@@ -47,6 +47,9 @@ final class ControllerLaunch {
         env.put("LOOPSTAND_CONTROLLER_ID", s.controller().controllerId());
         env.put("LOOPSTAND_RATE", Rehearsal.trim(s.rate()));
         env.put("LOOPSTAND_RUN_DIR", run.toAbsolutePath().normalize().toString());
+        if (s.wireProfile() != null) {
+            env.put("LOOPSTAND_WIRE_PROFILE", s.wireProfile().toAbsolutePath().normalize().toString());
+        }
         // the launcher runs the built-in controller from these instead of building (see ./loopstand)
         if (s.controllerClassPath() != null) {
             env.put("LOOPSTAND_CONTROLLER_CP", s.controllerClassPath());

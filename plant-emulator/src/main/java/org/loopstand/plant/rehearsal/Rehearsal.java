@@ -21,6 +21,8 @@ import java.util.regex.Matcher;
 import java.util.regex.Pattern;
 
 import org.loopstand.plant.cli.PlantCli;
+import org.loopstand.plant.profile.ProfiledBus;
+import org.loopstand.plant.profile.WireProfileLoader;
 import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.Qos;
 import org.loopstand.protocol.bus.mqtt.MqttLink;
@@ -170,6 +172,11 @@ public final class Rehearsal {
         }
         if (model != null) {
             VerdictLines.of(model).forEach(this::say);
+            if (exit == 0 && (model.verdict() == ReportModel.Verdict.FAIL || model.verdict() == ReportModel.Verdict.CUT_SHORT)) {
+                exit = 1; // scripts can tell a failed rehearsal by its exit code alone
+            }
+        } else if (exit == 0) {
+            exit = 1;
         }
         if (report != null) {
             say("report: " + report.toAbsolutePath());
@@ -194,6 +201,11 @@ public final class Rehearsal {
                     LockSupport.parkNanos(500_000_000L); // a Ctrl-C reaches the children too: let abort() land first
                     if (aborted || (c == plant && plantDone)) {
                         break;
+                    }
+                    if (c == controller && c.exitCode().orElse(-1) == 0 && (plantDone || view.runEnded())) {
+                        // the controller stopped by itself on the plant's end-of-run signal, as the contract asks
+                        WallWait.millis(30_000, () -> !plantDone && plant.isAlive());
+                        return null;
                     }
                     String m = "the " + c.name() + " process died" + c.exitCode().map(x -> " (exit code " + x
                             + (x == 137 ? ", killed" : "") + ")").orElse("") + " at scenario time " + fmt(view.scenarioS())
@@ -247,9 +259,18 @@ public final class Rehearsal {
 
     private MessageBus progressLink(String siteId, ProgressView view, ControllerLaunch launch) {
         TopicTree topics = TopicTree.forSite(siteId);
-        MqttLink link = new MqttLink(MqttLinkConfig.builder().serverUri(s.effectiveBrokerUrl())
+        MessageBus link = new MqttLink(MqttLinkConfig.builder().serverUri(s.effectiveBrokerUrl())
                 .clientId("rehearsal-progress-" + ProcessHandle.current().pid()).build(), wall).start();
-        for (String filter : List.of(topics.clock(), topics.filterAll(TopicKind.CONTROLLER_STATUS),
+        if (s.wireProfile() != null) {
+            // the rehearsal watches the bus as the controller sees it, read back into the rig's layout
+            try {
+                link = new ProfiledBus(link, WireProfileLoader.load(s.wireProfile(), siteId), (t, why) -> { });
+            } catch (java.io.IOException e) {
+                link.close();
+                throw new UncheckedIOException("cannot read the wire profile " + s.wireProfile() + ": " + e.getMessage(), e);
+            }
+        }
+        for (String filter : List.of(topics.clock(), topics.run(), topics.filterAll(TopicKind.CONTROLLER_STATUS),
                 topics.filterAll(TopicKind.AREA_METER), topics.faults())) {
             link.subscribe(filter, Qos.AT_MOST_ONCE, m -> {
                 view.onMessage(m.topic(), m.payload());
@@ -266,6 +287,10 @@ public final class Rehearsal {
                 "org.loopstand.plant.cli.PlantCli", "plant", "--site", s.siteFile().toString(),
                 "--scenario", s.scenarioFile().toString(), "--rate", trim(s.rate()), "--journal", run.toString(),
                 "--linger-s", "60", "--wait-go", "--accept-controller", s.controller().controllerId()));
+        if (s.wireProfile() != null) {
+            c.add("--wire-profile");
+            c.add(s.wireProfile().toAbsolutePath().toString());
+        }
         if (s.brokerUrl() != null) {
             c.add("--broker");
             c.add(s.brokerUrl());

@@ -18,6 +18,8 @@ import picocli.CommandLine.Parameters;
         description = {"Run a full rehearsal: the plant (with the embedded broker) and the controller under test (the"
                 + " built-in one, a command of yours, or one you start yourself) as separate processes, progress on the"
                 + " terminal, journals, verdict and report in runs/<timestamp>-<scenario>/.",
+                "Exit code: 0 when the run completed and its verdict is PASS (or the scenario has no checks), 1 on a FAIL"
+                        + " or CUT SHORT verdict or when a process failed, 2 on bad options, 130 when stopped by Ctrl-C.",
                 "CAUTION: the controller sends raise/lower commands; rehearse only against the emulator or a test broker."})
 public final class RehearsalCommand implements Callable<Integer> {
     static final String DEFAULT_SCENARIO = "config/scenarios/rehearse-unit-trip.yaml";
@@ -56,6 +58,10 @@ public final class RehearsalCommand implements Callable<Integer> {
     @Option(names = "--controller-id", paramLabel = "ID", description = "with --controller-command: the id the plant accepts"
             + " commands from (default " + ControllerUnderTest.DEFAULT_ID + ")")
     String controllerId;
+
+    @Option(names = "--wire-profile", paramLabel = "FILE", description = "the plant speaks this topic and payload layout to"
+            + " the controller (YAML; docs/controller-contract.md, \"Wire profiles\"); LOOPSTAND_WIRE_PROFILE tells the controller")
+    Path wireProfile;
 
     @Option(names = "--controller-wait-s", paramLabel = "S", description = "how long to wait for the controller's first"
             + " status, wall s (default 90; 300 for --external-controller)")
@@ -115,9 +121,17 @@ public final class RehearsalCommand implements Callable<Integer> {
             settings = new RehearsalSettings(scenarioFile, siteFile, broker, r, runsDir,
                     Path.of(System.getProperty("java.home"), "bin", "java").toString(),
                     System.getenv("LOOPSTAND_PLANT_CP"), System.getenv("LOOPSTAND_CONTROLLER_CP"),
-                    port, 90_000, List.of(), home, controller, Math.round(waitS * 1000));
+                    port, 90_000, List.of(), home, controller, Math.round(waitS * 1000), wireProfile);
+            if (wireProfile != null) {
+                // refused here, before anything starts, with every problem at its line
+                org.loopstand.plant.profile.WireProfileLoader.load(wireProfile, Rehearsal.topValue(siteFile, "siteId"));
+            }
         } catch (IllegalArgumentException e) {
             System.err.println("rehearse: " + e.getMessage());
+            return 2;
+        } catch (org.loopstand.plant.site.ConfigFileException e) {
+            System.err.println("rehearse: the wire profile is refused:");
+            System.err.println(e.getMessage());
             return 2;
         }
         // the progress line owns the terminal: the rehearsal's own bus link speaks only when something is wrong

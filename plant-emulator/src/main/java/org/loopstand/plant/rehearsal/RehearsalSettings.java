@@ -22,19 +22,28 @@ import java.util.Objects;
  * @param projectRoot   where a controller command runs (the launcher's folder)
  * @param controller    the controller under test
  * @param controllerWaitMs how long to wait for the controller's first status, ms, &gt; 0
+ * @param wireProfile   a wire profile the plant speaks to the controller (docs/controller-contract.md), or null
  */
 public record RehearsalSettings(Path scenarioFile, Path siteFile, String brokerUrl, double rate, Path runsDir,
                                 String javaCommand, String plantClassPath, String controllerClassPath, int embeddedPort,
                                 long readyTimeoutMs, List<String> extraPlantArgs, Path projectRoot,
-                                ControllerUnderTest controller, long controllerWaitMs) {
+                                ControllerUnderTest controller, long controllerWaitMs, Path wireProfile) {
     public static final int EMBEDDED_PORT = 1884;
+
+    /** Without a wire profile. */
+    public RehearsalSettings(Path scenarioFile, Path siteFile, String brokerUrl, double rate, Path runsDir, String javaCommand,
+                             String plantClassPath, String controllerClassPath, int embeddedPort, long readyTimeoutMs,
+                             List<String> extraPlantArgs, Path projectRoot, ControllerUnderTest controller, long controllerWaitMs) {
+        this(scenarioFile, siteFile, brokerUrl, rate, runsDir, javaCommand, plantClassPath, controllerClassPath, embeddedPort,
+                readyTimeoutMs, extraPlantArgs, projectRoot, controller, controllerWaitMs, null);
+    }
 
     /** The built-in controller, run from {@code projectRoot}, waited for as long as a child's ready line. */
     public RehearsalSettings(Path scenarioFile, Path siteFile, String brokerUrl, double rate, Path runsDir, String javaCommand,
                              String plantClassPath, String controllerClassPath, int embeddedPort, long readyTimeoutMs,
                              List<String> extraPlantArgs, Path projectRoot) {
         this(scenarioFile, siteFile, brokerUrl, rate, runsDir, javaCommand, plantClassPath, controllerClassPath, embeddedPort,
-                readyTimeoutMs, extraPlantArgs, projectRoot, ControllerUnderTest.builtInController(), readyTimeoutMs);
+                readyTimeoutMs, extraPlantArgs, projectRoot, ControllerUnderTest.builtInController(), readyTimeoutMs, null);
     }
 
     public RehearsalSettings {
@@ -52,6 +61,9 @@ public record RehearsalSettings(Path scenarioFile, Path siteFile, String brokerU
         }
         if (!Files.isRegularFile(siteFile)) {
             throw new IllegalArgumentException("site file " + siteFile + " does not exist (give it with --site FILE)");
+        }
+        if (wireProfile != null && !Files.isRegularFile(wireProfile)) {
+            throw new IllegalArgumentException("wire profile " + wireProfile + " does not exist");
         }
         if (!(rate > 0) || rate > 1000) {
             throw new IllegalArgumentException("rate must be in (0, 1000], got " + rate);

@@ -67,7 +67,7 @@ public enum TopicKind {
     }
 
     /** @return the levels below the site root, ids as placeholders like "{unit}" */
-    List<String> levelTemplate() {
+    public List<String> levelTemplate() {
         return levels;
     }
 

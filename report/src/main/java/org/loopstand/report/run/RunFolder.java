@@ -27,8 +27,9 @@ import org.loopstand.report.model.TimeSeries;
  * @param skipped  one line per file that was not read, with why
  */
 public record RunFolder(Path folder, Map<String, JournalReader.Contents> journals, List<String> skipped) {
-    /** Files and suffixes the rig writes into a run folder besides its journals. */
-    private static final List<String> OWNED_SUFFIXES = List.of(".hlog", ".log", ".html", ".csv");
+    /** Files the rig writes into a run folder besides its journals, by name and by suffix. */
+    private static final List<String> OWNED_NAMES = List.of("plant.log", "controller.log", "report.html");
+    private static final List<String> OWNED_SUFFIXES = List.of(".hlog", ".csv");
 
     public RunFolder {
         journals = Collections.unmodifiableMap(new LinkedHashMap<>(journals));
@@ -52,7 +53,7 @@ public record RunFolder(Path folder, Map<String, JournalReader.Contents> journal
                     continue; // e.g. the csv export folder
                 }
                 if (!name.endsWith(".jsonl")) {
-                    if (OWNED_SUFFIXES.stream().noneMatch(name::endsWith)) {
+                    if (!OWNED_NAMES.contains(name) && OWNED_SUFFIXES.stream().noneMatch(name::endsWith)) {
                         skipped.add(name + ": not a file the rig writes");
                     }
                     continue;
