@@ -208,8 +208,8 @@ public final class PlantCommand implements Callable<Integer> {
                 closeQuietly(embedded);
                 return 2;
             }
-            runJournal = PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), journalHeader(grid, scenario, events,
-                    uri, embedded != null, options, sim), clock, WallClock.INSTANCE);
+            runJournal = PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), PlantJournalHeader.of(grid, site, scenarioFile, scenario, events, rate, seed,
+                    uri, embedded != null, options, sim, meterScanMs), clock, WallClock.INSTANCE);
             runner.journalTo(runJournal, truthIntervalS);
         }
         RunRecord record = new RunRecord(runner.agent().epochMsAt(0));
@@ -316,46 +316,6 @@ public final class PlantCommand implements Callable<Integer> {
         }
         closeAll.run();
         return 0;
-    }
-
-    private Map<String, Object> journalHeader(Grid grid, Scenario scenario, List<ScenarioEvent> events, String uri,
-                                              boolean embedded, PlantOptions options, GridSimulator sim) {
-        Map<String, Object> header = new LinkedHashMap<>();
-        header.put("site", grid.siteId());
-        header.put("siteFile", site.getFileName().toString());
-        header.put("scenario", scenarioFile == null ? null : scenarioFile.getFileName().toString());
-        header.put("scenarioDurationS", scenario == null ? null : scenario.durationS());
-        header.put("rate", rate);
-        header.put("seed", seed);
-        header.put("scenarioSeed", scenario == null ? null : scenario.seed());
-        header.put("broker", uri);
-        header.put("embeddedBroker", embedded);
-        header.put("grouping", options.grouping().cliName());
-        header.put("stepS", sim.stepS());
-        header.put("meterScanMs", meterScanMs);
-        header.put("loopstandVersion", PlantCli.VERSION);
-        header.put("javaVersion", System.getProperty("java.version"));
-        header.put("areas", areaHeader(grid));
-        Map<String, String> unitAreas = new LinkedHashMap<>();
-        grid.units().forEach(u -> unitAreas.put(u.id(), u.area()));
-        header.put("units", unitAreas);
-        header.put("events", events.stream().map(e -> e.type() + "@" + trim(e.atS()) + "s").toList());
-        return header;
-    }
-
-    /** Per area what the report needs: nominal frequency, bias β (MW/Hz, positive), scheduled net interchange. */
-    static Map<String, Object> areaHeader(Grid grid) {
-        Map<String, Object> out = new LinkedHashMap<>();
-        for (Area a : grid.areas()) {
-            double beta = !Double.isNaN(a.kMwPerHz()) ? a.kMwPerHz() : -10.0 * a.biasMwPer01Hz();
-            double scheduled = grid.scheduledNetInterchangeMw(a.id());
-            Map<String, Object> m = new LinkedHashMap<>();
-            m.put("nominalFrequencyHz", a.nominalFrequencyHz());
-            m.put("betaMwPerHz", Double.isFinite(beta) ? beta : null);
-            m.put("scheduledNetInterchangeMw", scheduled);
-            out.put(a.id(), m);
-        }
-        return out;
     }
 
     /** @return true when a line "go" arrived on stdin, false at its end */
