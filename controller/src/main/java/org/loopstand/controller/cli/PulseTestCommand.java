@@ -59,9 +59,9 @@ public final class PulseTestCommand implements Callable<Integer> {
     boolean livePlant;
     @Option(names = "--declared-from-telemetry", description = "judge against the unit's telemetry figures, not the site file's")
     boolean fromTelemetry;
-    @Option(names = "--max-excursion-mw", description = "tighter excursion cap than the plan's, MW")
+    @Option(names = "--max-excursion-mw", description = "tighter excursion cap than the plan's, MW, in (0, plan cap]")
     Double maxExcursionMw;
-    @Option(names = "--max-duration-s", description = "tighter duration cap than the plan's, s")
+    @Option(names = "--max-duration-s", description = "tighter duration cap than the plan's, s, in (0, plan cap]")
     Double maxDurationS;
     @Option(names = "--epoch", description = "controller epoch for the commands (default: now in seconds)")
     Long epoch;
@@ -88,14 +88,19 @@ public final class PulseTestCommand implements Callable<Integer> {
             System.err.println("pulse-test: " + e.getMessage());
             return 2;
         }
+        PlanLimits caps;
+        try {
+            caps = SafetyGate.caps(plan.limits(), maxExcursionMw, maxDurationS);
+        } catch (IllegalArgumentException e) {
+            System.err.println("pulse-test: " + e.getMessage());
+            return 2;
+        }
         BufferedReader console = new BufferedReader(consoleIn);
         Optional<String> refusal = SafetyGate.admit(broker, testBroker, livePlant, unit, console, o);
         if (refusal.isPresent()) {
             System.err.println("pulse-test: " + refusal.get());
             return 3;
         }
-        PlanLimits caps = SafetyGate.caps(plan.limits(), maxExcursionMw == null ? Double.NaN : maxExcursionMw,
-                maxDurationS == null ? Double.NaN : maxDurationS);
         if (followPlantClock && !SafetyGate.isTestBroker(broker, testBroker)) {
             System.err.println("pulse-test: --follow-plant-clock is for an emulated plant on a test broker only");
             return 3;
