@@ -120,7 +120,9 @@ public final class PulseTestRunFolder {
         List<CheckResult> checks = new ArrayList<>();
         for (Judgement j : r.rows()) {
             checks.add(new CheckResult(j.step() + ": " + j.figure(), j.passed(), j.decidingFigure(), j.limit(),
-                    j.passed() ? "plan " + plan.name() : "plan " + plan.name() + "; finding: unit " + j.finding().text()));
+                    j.passed() ? "plan " + plan.name() : !j.measured() ? "plan " + plan.name() + "; not measured: no "
+                            + "finding is made from it, and it cannot pass"
+                            : "plan " + plan.name() + "; finding: unit " + j.finding().text()));
         }
         List<String> notes = new ArrayList<>(SafetyGate.CAUTIONS);
         if (!rec.stopReason().isEmpty()) {

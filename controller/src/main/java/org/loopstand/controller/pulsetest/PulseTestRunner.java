@@ -9,7 +9,10 @@ import java.util.Map;
 import java.util.Optional;
 import java.util.concurrent.ConcurrentLinkedQueue;
 import org.loopstand.controller.pulsetest.plan.PlanException;
+import org.loopstand.controller.pulsetest.governor.GovernorResponse;
+import org.loopstand.controller.pulsetest.governor.GovernorSpec;
 import org.loopstand.controller.pulsetest.plan.PlanLimits;
+import org.loopstand.controller.pulsetest.plan.PlanSettings;
 import org.loopstand.controller.pulsetest.plan.TestPlan;
 import org.loopstand.controller.pulsetest.programme.ProgrammeStep;
 import org.loopstand.controller.pulsetest.programme.PulseProgramme;
@@ -23,7 +26,9 @@ import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.OutboundMessage;
 import org.loopstand.protocol.bus.Qos;
 import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.message.AreaMeter;
 import org.loopstand.protocol.message.CommandAck;
+import org.loopstand.protocol.message.PulseDirection;
 import org.loopstand.protocol.message.ControlMode;
 import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.message.UnitStatus;
@@ -60,6 +65,7 @@ public final class PulseTestRunner implements Agent {
     private final ConcurrentLinkedQueue<Object[]> inbox = new ConcurrentLinkedQueue<>();
 
     private final List<TelemetryPoint> telemetry = new ArrayList<>();
+    private final List<FrequencyPoint> frequency = new ArrayList<>();
     private final List<SentPulse> sent = new ArrayList<>();
     private final Map<Long, CommandAck> acks = new HashMap<>();
     private final List<String> notes = new ArrayList<>();
@@ -68,10 +74,14 @@ public final class PulseTestRunner implements Agent {
     private String stopReason = "";
     private UnitDeclaration declaration;
     private PulseProgramme programme;
-    private List<TimedPulse> schedule = List.of();
-    private List<Integer> scheduleStep = List.of();
-    private int nextPulse;
+    private StepSequencer sequencer;
     private long programmeStartMs = -1;
+    private long steadyCheckFromMs = -1;
+    private GovernorSpec governor;
+    private GovernorResponse governorResponse;
+    private double requestedMw = Double.NaN;
+    private volatile String externalAbort;
+    private volatile PulseTestProgress progress;
     private long stoppedMs = -1;
     private long nextSeq;
     private UnitTelemetry latest;
@@ -101,6 +111,17 @@ public final class PulseTestRunner implements Agent {
         this.nextSeq = startedMs;
     }
 
+    /**
+     * Removes the unit's expected governor answer to its area's measured frequency from every reading
+     * (the grid's answer, not the unit's); also has the start wait for a steady frequency. Call before
+     * {@link #onStart()}; without it the output is judged as measured and frequency is not checked.
+     */
+    public PulseTestRunner removeGovernorAnswer(GovernorSpec spec) {
+        this.governor = spec;
+        this.governorResponse = spec == null ? null : new GovernorResponse(spec);
+        return this;
+    }
+
     /** Signs every pulse from now on (call before the run starts); without it pulses go out unsigned. */
     public PulseTestRunner signCommandsWith(CommandSigner commandSigner) {
         this.signer = commandSigner;
@@ -111,6 +132,9 @@ public final class PulseTestRunner implements Agent {
     public void onStart() {
         bus.subscribe(topics.unitTelemetry(unitId), Qos.AT_MOST_ONCE, m -> receive(m, UnitTelemetry.class));
         bus.subscribe(topics.unitAck(unitId), Qos.AT_LEAST_ONCE, m -> receive(m, CommandAck.class));
+        if (governor != null) {
+            bus.subscribe(topics.filterAreaMeters(governor.area()), Qos.AT_MOST_ONCE, m -> receive(m, AreaMeter.class));
+        }
     }
 
     private void receive(InboundMessage m, Class<?> type) {
@@ -125,31 +149,92 @@ public final class PulseTestRunner implements Agent {
         }
         int work = drain();
         long now = clock.epochMillis();
+        work += step(now);
+        publishProgress(now);
+        return work;
+    }
+
+    private int step(long now) {
+        if (externalAbort != null) {
+            stop(RunState.ABORTED, externalAbort, now);
+            return 1;
+        }
         if (state == RunState.AWAITING_TELEMETRY) {
             if (latest != null && lastGoodMs >= 0) {
-                begin(now);
-                return work + 1;
+                prepare(now);
+                return 1;
             }
             if (now - startedMs > startTimeoutMs) {
                 stop(RunState.ABORTED, "no good telemetry from unit " + unitId + " within "
                         + startTimeoutMs / 1000.0 + " s", now);
             }
-            return work;
+            return 0;
         }
         Optional<String> why = abortReason(now);
         if (why.isPresent()) {
-            stop(RunState.ABORTED, why.get(), now);
-            return work + 1;
+            stop(state == RunState.AWAITING_STEADY ? RunState.REFUSED : RunState.ABORTED, why.get(), now);
+            return 1;
         }
-        while (nextPulse < schedule.size() && programmeStartMs + schedule.get(nextPulse).atOffsetMs() <= now) {
-            send(schedule.get(nextPulse), scheduleStep.get(nextPulse), now);
-            nextPulse++;
+        if (state == RunState.AWAITING_STEADY) {
+            return awaitSteady(now);
+        }
+        int work = 0;
+        TimedPulse due;
+        while ((due = sequencer.nextDue(now)) != null) {
+            send(due, sequencer.current().index(), now);
             work++;
         }
-        if (now >= programmeStartMs + programme.durationMs()) {
+        ProgrammeStep current = sequencer.current();
+        if (now >= sequencer.nominalEndMs() && sequencer.endStepIfDue(now, settled(current, now))) {
+            work++;
+        }
+        if (sequencer.finished()) {
             stop(RunState.FINISHED, "", now);
         }
         return work;
+    }
+
+    /** Expands the programme at the first reading (refusing early), then waits for a steady unit. */
+    private void prepare(long now) {
+        if (expand(now)) {
+            state = RunState.AWAITING_STEADY;
+            steadyCheckFromMs = now;
+        }
+    }
+
+    private int awaitSteady(long now) {
+        PlanSettings s = plan.settings();
+        Steadiness st = Steadiness.over(telemetry, frequency, now, steadyCheckFromMs, s.steadyForS(),
+                s.steadyOutputBandMw(), s.noiseThresholdMw(), governor == null ? Double.NaN : governor.nominalHz(),
+                s.steadyFrequencyBandHz());
+        if (st.steady()) {
+            notes.add("steady before the first step: " + st.describe());
+            if (expand(now)) { // from the output now: the unit may have drifted while the test waited
+                sequencer = new StepSequencer(programme, now, s.settleTimeoutS());
+                programmeStartMs = now;
+                requestedMw = programme.startMw();
+                state = RunState.RUNNING;
+            }
+            return 1;
+        }
+        if (now - steadyCheckFromMs > Math.round(s.steadyTimeoutS() * 1000)) {
+            stop(RunState.REFUSED, String.format(Locale.ROOT, "refusing to start: the unit was not steady within "
+                    + "%.0f s: %s", s.steadyTimeoutS(), st.describe()), now);
+            return 1;
+        }
+        return 0;
+    }
+
+    /** @return the unit's own output has stayed within the step's settling band for settledForS */
+    private boolean settled(ProgrammeStep step, long now) {
+        if (step == null) {
+            return true;
+        }
+        double band = Math.max(plan.settings().settleBandMinMw(),
+                plan.settings().settleBandPct() / 100.0 * Math.abs(step.requestedChangeMw()));
+        return Steadiness.over(telemetry, frequency, now, sequencer.nominalEndMs() - Math.round(
+                plan.settings().settledForS() * 1000), plan.settings().settledForS(), band,
+                plan.settings().noiseThresholdMw(), Double.NaN, 1).steady();
     }
 
     private int drain() {
@@ -159,7 +244,11 @@ public final class PulseTestRunner implements Agent {
             n++;
             InboundMessage m = (InboundMessage) item[0];
             long at = (Long) item[2];
-            if (item[1] == UnitTelemetry.class) {
+            if (item[1] == AreaMeter.class) {
+                codec.decode(m.payload(), AreaMeter.class).message()
+                        .filter(f -> f.frequencyQuality().validity() == Validity.GOOD)
+                        .ifPresent(f -> onFrequency(f.frequencyHz(), at));
+            } else if (item[1] == UnitTelemetry.class) {
                 codec.decode(m.payload(), UnitTelemetry.class).message().filter(t -> t.unit().equals(unitId))
                         .ifPresent(t -> onTelemetry(t, at));
             } else {
@@ -171,60 +260,61 @@ public final class PulseTestRunner implements Agent {
         return n;
     }
 
+    private void onFrequency(double hz, long at) {
+        if (governorResponse != null && Double.isFinite(hz)) {
+            frequency.add(new FrequencyPoint(at, hz));
+            governorResponse.frequency(at, hz);
+        }
+    }
+
     private void onTelemetry(UnitTelemetry t, long at) {
         boolean good = t.outputQuality().validity() == Validity.GOOD;
-        telemetry.add(new TelemetryPoint(at, t.outputMw(), t.setpointMw(), good));
+        double governorMw = governorResponse == null ? Double.NaN : governorResponse.answerMwAt(at);
+        telemetry.add(new TelemetryPoint(at, t.outputMw(), t.setpointMw(), good, governorMw));
         latest = t;
         if (good) {
             lastGoodMs = at;
         }
     }
 
-    private void begin(long now) {
+    /** @return true when the programme expanded within the caps; else the run is refused */
+    private boolean expand(long now) {
         UnitTelemetry t = latest;
         if (t.status() != UnitStatus.ONLINE || t.controlMode() != ControlMode.REMOTE) {
             stop(RunState.REFUSED, "unit " + unitId + " is " + t.status().name().toLowerCase(Locale.ROOT) + " in "
                     + t.controlMode().name().toLowerCase(Locale.ROOT) + " mode; the test needs online and remote", now);
-            return;
+            return false;
         }
-        try {
-            UnitDeclaration fromTelemetry = new UnitDeclaration(unitId, t.regulatingMinMw(), t.regulatingMaxMw(),
-                    t.rampMwPerMin(), t.pulseRateMwPerMin(), "unit telemetry");
-            declaration = siteDeclaration != null ? siteDeclaration : fromTelemetry;
-            if (siteDeclaration != null) {
-                compare(siteDeclaration, fromTelemetry);
+        if (declaration == null) {
+            try {
+                UnitDeclaration fromTelemetry = new UnitDeclaration(unitId, t.regulatingMinMw(), t.regulatingMaxMw(),
+                        t.rampMwPerMin(), t.pulseRateMwPerMin(), "unit telemetry");
+                declaration = siteDeclaration != null ? siteDeclaration : fromTelemetry;
+                if (siteDeclaration != null) {
+                    compare(siteDeclaration, fromTelemetry);
+                }
+            } catch (IllegalArgumentException e) {
+                if (siteDeclaration == null) {
+                    stop(RunState.REFUSED, "the unit's telemetry does not declare usable figures: " + e.getMessage(), now);
+                    return false;
+                }
+                declaration = siteDeclaration;
+                notes.add("the unit's telemetry declares unusable figures (" + e.getMessage()
+                        + "); the site file's are used");
             }
-        } catch (IllegalArgumentException e) {
-            if (siteDeclaration == null) {
-                stop(RunState.REFUSED, "the unit's telemetry does not declare usable figures: " + e.getMessage(), now);
-                return;
-            }
-            declaration = siteDeclaration;
-            notes.add("the unit's telemetry declares unusable figures (" + e.getMessage() + "); the site file's are used");
         }
         try {
             programme = PulseProgramme.expand(plan, declaration, t.outputMw());
         } catch (PlanException e) {
             stop(RunState.REFUSED, "refusing to start: " + String.join("; ", e.problems()), now);
-            return;
+            return false;
         }
         Optional<String> capRefusal = SafetyGate.checkCaps(programme, caps);
         if (capRefusal.isPresent()) {
             stop(RunState.REFUSED, capRefusal.get(), now);
-            return;
+            return false;
         }
-        List<TimedPulse> pulses = new ArrayList<>();
-        List<Integer> stepOf = new ArrayList<>();
-        for (ProgrammeStep s : programme.steps()) {
-            for (TimedPulse p : s.pulses()) {
-                pulses.add(p);
-                stepOf.add(s.index());
-            }
-        }
-        schedule = pulses;
-        scheduleStep = stepOf;
-        programmeStartMs = now;
-        state = RunState.RUNNING;
+        return true;
     }
 
     private void compare(UnitDeclaration site, UnitDeclaration tel) {
@@ -255,6 +345,9 @@ public final class PulseTestRunner implements Agent {
         if (latest.status() != UnitStatus.ONLINE || latest.controlMode() != ControlMode.REMOTE) {
             return Optional.of("unit left online/remote: now " + latest.status().name().toLowerCase(Locale.ROOT) + ", "
                     + latest.controlMode().name().toLowerCase(Locale.ROOT));
+        }
+        if (programme == null) {
+            return Optional.empty();
         }
         double excursion = Math.abs(latest.outputMw() - programme.startMw());
         if (latest.outputQuality().validity() == Validity.GOOD && excursion > caps.maxExcursionMw()) {
@@ -293,6 +386,8 @@ public final class PulseTestRunner implements Agent {
         UnitCommand c = signer == null ? unsigned : signer.sign(unsigned);
         long expiryS = Math.max(1, (plan.settings().commandValidityMs() + 999) / 1000);
         sent.add(new SentPulse(seq, now, stepIndex, p.direction(), p.durationMs()));
+        requestedMw += (p.direction() == PulseDirection.RAISE ? 1 : -1) * declaration.pulseRateMwPerMin()
+                * p.durationMs() / 60_000.0;
         bus.publish(new OutboundMessage(topics.unitCommand(unitId), codec.encode(c), Qos.AT_LEAST_ONCE, false, expiryS))
                 .exceptionally(e -> {
                     synchronized (notes) {
@@ -318,22 +413,48 @@ public final class PulseTestRunner implements Agent {
         return state;
     }
 
-    /** Stops the run from outside (e.g. a shutdown hook); nothing further is sent. */
+    /**
+     * Stops the run from another thread (e.g. a shutdown hook): the agent thread stops at its next
+     * cycle and sends nothing further; {@link #record()} also honours it when the agent no longer runs.
+     */
     public void abortNow(String reason) {
-        if (!isDone()) {
-            stop(RunState.ABORTED, reason, clock.epochMillis());
-        }
+        externalAbort = reason;
+    }
+
+    /** @return the latest progress snapshot (any thread), or null before the first cycle */
+    public PulseTestProgress progress() {
+        return progress;
+    }
+
+    private void publishProgress(long now) {
+        TelemetryPoint last = telemetry.isEmpty() ? null : telemetry.get(telemetry.size() - 1);
+        ProgrammeStep current = sequencer == null ? null : sequencer.current();
+        String what = switch (state) {
+            case AWAITING_TELEMETRY -> "waiting for telemetry";
+            case AWAITING_STEADY -> "waiting for a steady unit";
+            case RUNNING -> current == null ? "finishing"
+                    : current.label() + (now >= sequencer.nominalEndMs() ? " (waiting to settle)" : "");
+            default -> state.name().toLowerCase(Locale.ROOT);
+        };
+        progress = new PulseTestProgress(state, what, sequencer == null ? 0 : Math.min(sequencer.stepNumber(),
+                programme.steps().size()), programme == null ? 0 : programme.steps().size(), (now - startedMs) / 1000.0,
+                last == null ? Double.NaN : last.outputMw(), last == null ? Double.NaN : last.ownMw(),
+                last == null ? Double.NaN : last.setpointMw(), requestedMw);
     }
 
     /** @return what the run recorded so far (final once {@link #isDone()}) */
     public PulseTestRecord record() {
         drain();
+        if (!isDone() && externalAbort != null) {
+            stop(RunState.ABORTED, externalAbort, clock.epochMillis());
+        }
         List<String> n;
         synchronized (notes) {
             n = List.copyOf(notes);
         }
-        return new PulseTestRecord(unitId, state, stopReason, declaration, programme, startedMs, programmeStartMs,
-                stoppedMs < 0 ? clock.epochMillis() : stoppedMs, telemetry, sent, acks, n);
+        return new PulseTestRecord(unitId, state, stopReason, declaration, programme,
+                startedMs, programmeStartMs, stoppedMs < 0 ? clock.epochMillis() : stoppedMs, telemetry, frequency,
+                sequencer == null ? List.of() : sequencer.timings(), governor, sent, acks, n);
     }
 
     @Override

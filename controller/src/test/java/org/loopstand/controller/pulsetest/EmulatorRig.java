@@ -91,9 +91,9 @@ final class EmulatorRig implements AutoCloseable {
 
     /** Runs the plan to its end (bounded by its duration cap) and judges it. */
     PulseTestResult run() {
-        var declared = SiteUnitReader.read(SITE, unitId).unit();
-        runner = new PulseTestRunner(broker.connect("pulse-test"), clock, topics, unitId, plan, declared,
-                plan.limits(), 1, AbortSwitch.NEVER, 30);
+        var site = SiteUnitReader.read(SITE, unitId);
+        runner = new PulseTestRunner(broker.connect("pulse-test"), clock, topics, unitId, plan, site.unit(),
+                plan.limits(), 1, AbortSwitch.NEVER, 30).removeGovernorAnswer(site.governor());
         runner.onStart();
         long bound = Math.round(plan.limits().maxDurationS() * 1000 / TICK_MS) + 1000;
         for (long i = 0; i < bound && !runner.isDone(); i++) {
