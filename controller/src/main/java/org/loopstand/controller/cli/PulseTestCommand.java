@@ -11,6 +11,8 @@ import java.util.Locale;
 import java.util.Map;
 import java.util.Optional;
 import java.util.concurrent.Callable;
+import java.util.concurrent.CountDownLatch;
+import java.util.concurrent.TimeUnit;
 import org.loopstand.controller.pulsetest.PulseTestEvaluator;
 import org.loopstand.controller.pulsetest.PulseTestResult;
 import org.loopstand.controller.pulsetest.PulseTestRunFolder;
@@ -71,6 +73,9 @@ public final class PulseTestCommand implements Callable<Integer> {
     @Option(names = "--follow-plant-clock", description = "emulator at --rate N: take the plant's time base from its clock topic (test broker only)")
     boolean followPlantClock;
 
+    /** How long a signal waits for the run folder to be written before the process ends, s. */
+    static final long SHUTDOWN_WRITE_WAIT_S = 20;
+
     /** Console for the confirmation and the abort key; tests give their own. */
     Reader consoleIn = new InputStreamReader(System.in, StandardCharsets.UTF_8);
 
@@ -121,6 +126,7 @@ public final class PulseTestCommand implements Callable<Integer> {
         }
         System.err.println(security.startMessage());
         PulseTestRunner runner;
+        Path html;
         try (MqttLink link = new MqttLink(config, WallClock.INSTANCE).start()) {
             if (!link.awaitConnected(10_000)) {
                 System.err.println("pulse-test: cannot connect to " + broker);
@@ -142,23 +148,38 @@ public final class PulseTestCommand implements Callable<Integer> {
             security.keys().ifPresent(keys -> runner.signCommandsWith(new CommandSigner(keys, signingClock, new MessageCodec())));
             o.printf(Locale.ROOT, "pulse-test: unit %s on %s, plan %s; caps %.1f MW, %.0f s. Type q and Enter to stop.%n",
                     unit, broker, plan.name(), caps.maxExcursionMw(), caps.maxDurationS());
+            // A signal (Ctrl-C, SIGTERM) stops the programme and lets this thread write the run folder
+            // before the process ends: the hook waits for it (bounded), since the JVM halts when hooks end.
+            CountDownLatch written = new CountDownLatch(1);
             PulseTestRunner r = runner;
-            Thread hook = new Thread(() -> r.abortNow("interrupted (signal)"));
+            Thread hook = new Thread(() -> {
+                r.abortNow("stopped by a signal to the pulse-test process");
+                try {
+                    written.await(SHUTDOWN_WRITE_WAIT_S, TimeUnit.SECONDS);
+                } catch (InterruptedException e) {
+                    Thread.currentThread().interrupt();
+                }
+            }, "pulse-test-shutdown");
             Runtime.getRuntime().addShutdownHook(hook);
-            try (AgentRunner agent = new AgentRunner(runner, 10_000_000L).start()) {
-                while (!runner.isDone() && agent.isRunning()) {
-                    Thread.sleep(200); // CLI thread only waits; the agent does the work
+            try {
+                try (AgentRunner agent = new AgentRunner(runner, 10_000_000L).start()) {
+                    ProgressPrinter progress = new ProgressPrinter(o);
+                    while (!runner.isDone() && agent.isRunning()) {
+                        Thread.sleep(200); // CLI thread only waits and prints; the agent does the work
+                        progress.show(runner.progress());
+                    }
+                }
+                html = writeRunFolder(runner, plan, siteUnit, o);
+            } finally {
+                written.countDown();
+                try {
+                    Runtime.getRuntime().removeShutdownHook(hook);
+                } catch (IllegalStateException shuttingDown) {
+                    // the signal's hook is running: it returns as soon as the folder is written
                 }
             }
-            Runtime.getRuntime().removeShutdownHook(hook);
         }
-        PulseTestResult result = PulseTestEvaluator.evaluate(runner.record(), plan);
-        Path dir = out.resolve(PulseTestRunFolder.runId(result.record().startedMs(), unit));
-        Map<String, String> cfg = new LinkedHashMap<>();
-        cfg.put("broker", broker);
-        cfg.put("site file", site.toString());
-        cfg.put("plan file", planFile.toString());
-        Path html = PulseTestRunFolder.write(dir, result, plan, siteUnit.siteId(), cfg);
+        PulseTestResult result = lastResult;
         print(o, result);
         o.println("report: " + html);
         // a programme refused before anything was sent (caps, range, unit state) is a safety refusal
@@ -169,6 +190,21 @@ public final class PulseTestCommand implements Callable<Integer> {
         };
     }
 
+    private PulseTestResult lastResult;
+
+    /** Evaluates what the runner recorded (also a run cut short) and writes its run folder. */
+    private Path writeRunFolder(PulseTestRunner runner, TestPlan plan, SiteUnitReader.SiteUnit siteUnit, PrintStream o) {
+        PulseTestResult result = PulseTestEvaluator.evaluate(runner.record(), plan);
+        Path dir = out.resolve(PulseTestRunFolder.runId(result.record().startedMs(), unit));
+        Map<String, String> cfg = new LinkedHashMap<>();
+        cfg.put("broker", broker);
+        cfg.put("site file", site.toString());
+        cfg.put("plan file", planFile.toString());
+        Path written = PulseTestRunFolder.write(dir, result, plan, siteUnit.siteId(), cfg);
+        lastResult = result;
+        return written;
+    }
+
     static void print(PrintStream o, PulseTestResult r) {
         o.printf(Locale.ROOT, "%-34s %-26s %-5s %-34s %s%n", "step", "figure", "", "measured (own output)", "limit");
         for (Judgement j : r.rows()) {
@@ -176,6 +212,11 @@ public final class PulseTestCommand implements Callable<Integer> {
                     j.decidingFigure(), j.limit());
         }
         r.findings().forEach(f -> o.println("finding: unit " + f.text()));
+        long notMeasured = r.rows().stream().filter(j -> !j.measured()).count();
+        if (notMeasured > 0) {
+            o.println(notMeasured + " row(s) not measured: they cannot pass and make no finding");
+        }
+        PulseTestRunFolder.whereLeft(r.record()).ifPresent(w -> o.println("unit: " + w));
         if (!r.record().stopReason().isEmpty()) {
             o.println(r.record().state().name().toLowerCase(Locale.ROOT) + ": " + r.record().stopReason());
         }
