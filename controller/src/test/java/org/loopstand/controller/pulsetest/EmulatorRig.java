@@ -72,8 +72,7 @@ final class EmulatorRig implements AutoCloseable {
      * frequency then moves only with the tested unit's own pulses.
      */
     static Grid quietDemoSite() throws java.io.IOException {
-        String text = java.nio.file.Files.readString(SITE).replaceAll("noiseSigmaMw: [0-9.]+", "noiseSigmaMw: 0");
-        return SiteLoader.load(SITE.toString(), new java.io.StringReader(text));
+        return SiteLoader.load(SITE).withoutLoadNoise(); // what `./loopstand plant --quiet-loads` runs
     }
 
     UnitPlantInterface unit() {
