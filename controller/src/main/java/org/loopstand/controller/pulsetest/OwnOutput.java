@@ -3,7 +3,7 @@ package org.loopstand.controller.pulsetest;
 import java.util.ArrayList;
 import java.util.List;
 import org.loopstand.controller.pulsetest.analysis.OutputSample;
-import org.loopstand.controller.pulsetest.governor.GovernorResponse;
+import org.loopstand.controller.pulsetest.governor.GovernorAnswerTracker;
 import org.loopstand.controller.pulsetest.governor.GovernorSpec;
 
 /**
@@ -30,7 +30,7 @@ final class OwnOutput {
             good.forEach(t -> out.add(new OutputSample(t.tMs(), t.ownMw())));
             return out;
         }
-        GovernorResponse answer = new GovernorResponse(spec);
+        GovernorAnswerTracker answer = new GovernorAnswerTracker(spec);
         long at = f.get(0).tMs();
         answer.frequency(at, f.get(0).frequencyHz());
         int next = 1;

@@ -1,5 +1,8 @@
 package org.loopstand.controller.pulsetest;
 
+import java.util.Locale;
+import org.loopstand.controller.pulsetest.programme.ProgrammeStep;
+
 /**
  * Where a running test stands, for the terminal (immutable snapshot).
  *
@@ -15,4 +18,22 @@ package org.loopstand.controller.pulsetest;
  */
 public record PulseTestProgress(RunState state, String step, int stepNumber, int stepCount, double elapsedS,
         double outputMw, double ownMw, double referenceMw, double requestedMw) {
+
+    /**
+     * @param current      step under way, or null
+     * @param waitingSettle the step's window is over and it waits for the unit to settle
+     * @param last         last telemetry reading, or null
+     */
+    static PulseTestProgress of(RunState state, ProgrammeStep current, boolean waitingSettle, int stepNumber,
+            int stepCount, double elapsedS, TelemetryPoint last, double requestedMw) {
+        String what = switch (state) {
+            case AWAITING_TELEMETRY -> "waiting for telemetry";
+            case AWAITING_STEADY -> "waiting for a steady unit";
+            case RUNNING -> current == null ? "finishing" : current.label() + (waitingSettle ? " (waiting to settle)" : "");
+            default -> state.name().toLowerCase(Locale.ROOT);
+        };
+        return new PulseTestProgress(state, what, Math.min(stepNumber, stepCount), stepCount, elapsedS,
+                last == null ? Double.NaN : last.outputMw(), last == null ? Double.NaN : last.ownMw(),
+                last == null ? Double.NaN : last.setpointMw(), requestedMw);
+    }
 }

@@ -1,7 +1,6 @@
 package org.loopstand.controller.pulsetest;
 
 import java.util.ArrayList;
-import java.util.Arrays;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Locale;
@@ -9,11 +8,12 @@ import java.util.Map;
 import java.util.Optional;
 import java.util.concurrent.ConcurrentLinkedQueue;
 import org.loopstand.controller.pulsetest.plan.PlanException;
-import org.loopstand.controller.pulsetest.governor.GovernorResponse;
+import org.loopstand.controller.pulsetest.governor.GovernorAnswerTracker;
 import org.loopstand.controller.pulsetest.governor.GovernorSpec;
 import org.loopstand.controller.pulsetest.plan.PlanLimits;
 import org.loopstand.controller.pulsetest.plan.PlanSettings;
 import org.loopstand.controller.pulsetest.plan.TestPlan;
+import org.loopstand.controller.pulsetest.programme.DeclaredFigures;
 import org.loopstand.controller.pulsetest.programme.ProgrammeStep;
 import org.loopstand.controller.pulsetest.programme.PulseProgramme;
 import org.loopstand.controller.pulsetest.programme.TimedPulse;
@@ -78,7 +78,7 @@ public final class PulseTestRunner implements Agent {
     private long programmeStartMs = -1;
     private long steadyCheckFromMs = -1;
     private GovernorSpec governor;
-    private GovernorResponse governorResponse;
+    private GovernorAnswerTracker governorTracker;
     private double requestedMw = Double.NaN;
     private volatile String externalAbort;
     private volatile PulseTestProgress progress;
@@ -118,7 +118,7 @@ public final class PulseTestRunner implements Agent {
      */
     public PulseTestRunner removeGovernorAnswer(GovernorSpec spec) {
         this.governor = spec;
-        this.governorResponse = spec == null ? null : new GovernorResponse(spec);
+        this.governorTracker = spec == null ? null : new GovernorAnswerTracker(spec);
         return this;
     }
 
@@ -225,16 +225,8 @@ public final class PulseTestRunner implements Agent {
         return 0;
     }
 
-    /** @return the unit's own output has stayed within the step's settling band for settledForS */
     private boolean settled(ProgrammeStep step, long now) {
-        if (step == null) {
-            return true;
-        }
-        double band = Math.max(plan.settings().settleBandMinMw(),
-                plan.settings().settleBandPct() / 100.0 * Math.abs(step.requestedChangeMw()));
-        return Steadiness.over(telemetry, frequency, now, sequencer.nominalEndMs() - Math.round(
-                plan.settings().settledForS() * 1000), plan.settings().settledForS(), band,
-                plan.settings().noiseThresholdMw(), Double.NaN, 1).steady();
+        return step == null || StepSequencer.settled(telemetry, step, now, sequencer.nominalEndMs(), plan.settings());
     }
 
     private int drain() {
@@ -261,15 +253,15 @@ public final class PulseTestRunner implements Agent {
     }
 
     private void onFrequency(double hz, long at) {
-        if (governorResponse != null && Double.isFinite(hz)) {
+        if (governorTracker != null && Double.isFinite(hz)) {
             frequency.add(new FrequencyPoint(at, hz));
-            governorResponse.frequency(at, hz);
+            governorTracker.frequency(at, hz);
         }
     }
 
     private void onTelemetry(UnitTelemetry t, long at) {
         boolean good = t.outputQuality().validity() == Validity.GOOD;
-        double governorMw = governorResponse == null ? Double.NaN : governorResponse.answerMwAt(at);
+        double governorMw = governorTracker == null ? Double.NaN : governorTracker.answerMwAt(at);
         telemetry.add(new TelemetryPoint(at, t.outputMw(), t.setpointMw(), good, governorMw));
         latest = t;
         if (good) {
@@ -287,20 +279,10 @@ public final class PulseTestRunner implements Agent {
         }
         if (declaration == null) {
             try {
-                UnitDeclaration fromTelemetry = new UnitDeclaration(unitId, t.regulatingMinMw(), t.regulatingMaxMw(),
-                        t.rampMwPerMin(), t.pulseRateMwPerMin(), "unit telemetry");
-                declaration = siteDeclaration != null ? siteDeclaration : fromTelemetry;
-                if (siteDeclaration != null) {
-                    compare(siteDeclaration, fromTelemetry);
-                }
+                declaration = DeclaredFigures.resolve(unitId, siteDeclaration, t, notes);
             } catch (IllegalArgumentException e) {
-                if (siteDeclaration == null) {
-                    stop(RunState.REFUSED, "the unit's telemetry does not declare usable figures: " + e.getMessage(), now);
-                    return false;
-                }
-                declaration = siteDeclaration;
-                notes.add("the unit's telemetry declares unusable figures (" + e.getMessage()
-                        + "); the site file's are used");
+                stop(RunState.REFUSED, e.getMessage(), now);
+                return false;
             }
         }
         try {
@@ -315,18 +297,6 @@ public final class PulseTestRunner implements Agent {
             return false;
         }
         return true;
-    }
-
-    private void compare(UnitDeclaration site, UnitDeclaration tel) {
-        double[][] pairs = {{site.rampMwPerMin(), tel.rampMwPerMin()}, {site.pulseRateMwPerMin(), tel.pulseRateMwPerMin()},
-                {site.regulatingMinMw(), tel.regulatingMinMw()}, {site.regulatingMaxMw(), tel.regulatingMaxMw()}};
-        String[] names = {"rampMwPerMin", "pulseRateMwPerMin", "regulatingMinMw", "regulatingMaxMw"};
-        for (int i = 0; i < pairs.length; i++) {
-            if (Math.abs(pairs[i][0] - pairs[i][1]) > 1e-6 * Math.max(1, Math.abs(pairs[i][0]))) {
-                notes.add(String.format(Locale.ROOT, "%s: site file declares %.3f, unit telemetry %.3f; the site "
-                        + "file's figure is judged against", names[i], pairs[i][0], pairs[i][1]));
-            }
-        }
     }
 
     private Optional<String> abortReason(long now) {
@@ -362,21 +332,7 @@ public final class PulseTestRunner implements Agent {
 
     /** Median interval of the last good telemetry scans; 1 s until three intervals are known. */
     long scanPeriodMs() {
-        List<Long> times = new ArrayList<>();
-        for (int i = telemetry.size() - 1; i >= 0 && times.size() < 21; i--) {
-            if (telemetry.get(i).good()) {
-                times.add(telemetry.get(i).tMs());
-            }
-        }
-        if (times.size() < 4) {
-            return DEFAULT_SCAN_MS;
-        }
-        long[] d = new long[times.size() - 1];
-        for (int i = 0; i + 1 < times.size(); i++) {
-            d[i] = times.get(i) - times.get(i + 1);
-        }
-        Arrays.sort(d);
-        return Math.max(1, d[d.length / 2]);
+        return ScanPeriod.medianMs(telemetry, DEFAULT_SCAN_MS);
     }
 
     private void send(TimedPulse p, int stepIndex, long now) {
@@ -427,19 +383,10 @@ public final class PulseTestRunner implements Agent {
     }
 
     private void publishProgress(long now) {
-        TelemetryPoint last = telemetry.isEmpty() ? null : telemetry.get(telemetry.size() - 1);
-        ProgrammeStep current = sequencer == null ? null : sequencer.current();
-        String what = switch (state) {
-            case AWAITING_TELEMETRY -> "waiting for telemetry";
-            case AWAITING_STEADY -> "waiting for a steady unit";
-            case RUNNING -> current == null ? "finishing"
-                    : current.label() + (now >= sequencer.nominalEndMs() ? " (waiting to settle)" : "");
-            default -> state.name().toLowerCase(Locale.ROOT);
-        };
-        progress = new PulseTestProgress(state, what, sequencer == null ? 0 : Math.min(sequencer.stepNumber(),
-                programme.steps().size()), programme == null ? 0 : programme.steps().size(), (now - startedMs) / 1000.0,
-                last == null ? Double.NaN : last.outputMw(), last == null ? Double.NaN : last.ownMw(),
-                last == null ? Double.NaN : last.setpointMw(), requestedMw);
+        progress = PulseTestProgress.of(state, sequencer == null ? null : sequencer.current(),
+                sequencer != null && now >= sequencer.nominalEndMs(), sequencer == null ? 0 : sequencer.stepNumber(),
+                programme == null ? 0 : programme.steps().size(), (now - startedMs) / 1000.0,
+                telemetry.isEmpty() ? null : telemetry.get(telemetry.size() - 1), requestedMw);
     }
 
     /** @return what the run recorded so far (final once {@link #isDone()}) */

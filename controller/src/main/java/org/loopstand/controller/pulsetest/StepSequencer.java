@@ -2,6 +2,7 @@ package org.loopstand.controller.pulsetest;
 
 import java.util.ArrayList;
 import java.util.List;
+import org.loopstand.controller.pulsetest.plan.PlanSettings;
 import org.loopstand.controller.pulsetest.programme.ProgrammeStep;
 import org.loopstand.controller.pulsetest.programme.PulseProgramme;
 import org.loopstand.controller.pulsetest.programme.TimedPulse;
@@ -81,6 +82,17 @@ final class StepSequencer {
         // keep any planned gap between steps (none in an expanded programme: steps are back to back)
         stepStartMs = next == null ? nowMs : nowMs + Math.max(0, next.startOffsetMs() - s.endOffsetMs());
         return true;
+    }
+
+    /**
+     * @return the unit's own output has stayed within the step's settling band, without drifting more than
+     *         the noise threshold, for {@code settledForS} up to now
+     */
+    static boolean settled(List<TelemetryPoint> telemetry, ProgrammeStep step, long nowMs, long nominalEndMs,
+            PlanSettings s) {
+        double band = Math.max(s.settleBandMinMw(), s.settleBandPct() / 100.0 * Math.abs(step.requestedChangeMw()));
+        return Steadiness.over(telemetry, List.of(), nowMs, nominalEndMs - Math.round(s.settledForS() * 1000),
+                s.settledForS(), band, s.noiseThresholdMw(), Double.NaN, 1).steady();
     }
 
     /** @return true once every step ran */

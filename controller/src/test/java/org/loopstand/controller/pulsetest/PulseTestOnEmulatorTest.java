@@ -179,4 +179,20 @@ class PulseTestOnEmulatorTest {
                 .containsExactlyInAnyOrder(Finding.RAMP_TOO_SLOW, Finding.SLOW_SETTLING);
         assertThat(withFault(SWAPPED, false).findings()).containsExactly(Finding.OPPOSITE_DIRECTION);
     }
+
+    @Test
+    void shouldRefuseToStartWhileTheFrequencyIsFarFromNominalAndSayWhy() throws Exception {
+        // At hour 0 the demo site is 594 MW long and the frequency settles about 0.37 Hz high (see EmulatorRig):
+        // the unit's governor holds it far from its reference, so nothing it did would be its own answer.
+        try (EmulatorRig rig = new EmulatorRig("basin-steam-1", "quick.yaml", 0.0, 2_000, true)) {
+            PulseTestResult r = rig.settle(120).run();
+            assertThat(r.verdict()).isEqualTo(PulseTestResult.Verdict.REFUSED);
+            assertThat(r.record().pulses()).isEmpty();
+            assertThat(r.record().stopReason()).startsWith("refusing to start: the unit was not steady within 120 s")
+                    .contains("from nominal (band ±50.0 mHz)");
+            double offsetHz = r.record().frequency().stream().mapToDouble(f -> Math.abs(f.frequencyHz() - 50)).max()
+                    .orElseThrow();
+            assertThat(offsetHz).isGreaterThan(0.05);
+        }
+    }
 }

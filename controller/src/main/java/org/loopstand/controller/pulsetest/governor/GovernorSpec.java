@@ -3,6 +3,7 @@ package org.loopstand.controller.pulsetest.governor;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Objects;
+import org.loopstand.controller.following.GovernorResponse;
 
 /**
  * What the tested unit's own governor does with frequency, from the site file: the part of its output
@@ -48,8 +49,6 @@ public record GovernorSpec(String area, double nominalHz, double gainMwPerHz, do
 
     /** @return the governor's steady answer to a frequency, MW (negative above nominal) */
     public double staticAnswerMw(double frequencyHz) {
-        double dev = frequencyHz - nominalHz;
-        double beyond = dev > deadBandHz ? dev - deadBandHz : dev < -deadBandHz ? dev + deadBandHz : 0.0;
-        return -gainMwPerHz * beyond;
+        return new GovernorResponse(gainMwPerHz, deadBandHz).shareMw(frequencyHz - nominalHz);
     }
 }

@@ -5,6 +5,7 @@ import com.fasterxml.jackson.databind.ObjectMapper;
 import com.fasterxml.jackson.dataformat.yaml.YAMLFactory;
 import java.io.IOException;
 import java.nio.file.Path;
+import org.loopstand.controller.following.GovernorResponse;
 import org.loopstand.controller.pulsetest.governor.GovernorSpec;
 
 /**
@@ -72,7 +73,7 @@ public final class SiteUnitReader {
         if (!(droopPct > 0) || !(ratingMw > 0) || Double.isNaN(nominalHz)) {
             return null;
         }
-        double gainMwPerHz = ratingMw / (droopPct / 100.0) / nominalHz;
+        double gainMwPerHz = GovernorResponse.mwPerHz(ratingMw, droopPct, nominalHz);
         double governorS = number(u, "governorTimeConstantS", 0, file);
         String turbine = u.path("turbine").asText("");
         double fastShare = 1;

@@ -4,14 +4,14 @@ package org.loopstand.controller.pulsetest.governor;
  * The tested unit's expected governor answer over time, fed with measured frequencies (held between
  * readings). Not thread-safe; times must not go backwards (an earlier time is treated as no time).
  */
-public final class GovernorResponse {
+public final class GovernorAnswerTracker {
     private final GovernorSpec spec;
     private double inputMw = Double.NaN;
     private double fastMw;
     private double slowMw;
     private long atMs;
 
-    public GovernorResponse(GovernorSpec spec) {
+    public GovernorAnswerTracker(GovernorSpec spec) {
         this.spec = spec;
     }
 
