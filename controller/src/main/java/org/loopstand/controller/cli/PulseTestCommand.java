@@ -126,7 +126,7 @@ public final class PulseTestCommand implements Callable<Integer> {
         }
         System.err.println(security.startMessage());
         PulseTestRunner runner;
-        Path html;
+        Written written;
         try (MqttLink link = new MqttLink(config, WallClock.INSTANCE).start()) {
             if (!link.awaitConnected(10_000)) {
                 System.err.println("pulse-test: cannot connect to " + broker);
@@ -150,12 +150,12 @@ public final class PulseTestCommand implements Callable<Integer> {
                     unit, broker, plan.name(), caps.maxExcursionMw(), caps.maxDurationS());
             // A signal (Ctrl-C, SIGTERM) stops the programme and lets this thread write the run folder
             // before the process ends: the hook waits for it (bounded), since the JVM halts when hooks end.
-            CountDownLatch written = new CountDownLatch(1);
+            CountDownLatch folderWritten = new CountDownLatch(1);
             PulseTestRunner r = runner;
             Thread hook = new Thread(() -> {
                 r.abortNow("stopped by a signal to the pulse-test process");
                 try {
-                    written.await(SHUTDOWN_WRITE_WAIT_S, TimeUnit.SECONDS);
+                    folderWritten.await(SHUTDOWN_WRITE_WAIT_S, TimeUnit.SECONDS);
                 } catch (InterruptedException e) {
                     Thread.currentThread().interrupt();
                 }
@@ -169,9 +169,9 @@ public final class PulseTestCommand implements Callable<Integer> {
                         progress.show(runner.progress());
                     }
                 }
-                html = writeRunFolder(runner, plan, siteUnit, o);
+                written = writeRunFolder(runner, plan, siteUnit);
             } finally {
-                written.countDown();
+                folderWritten.countDown();
                 try {
                     Runtime.getRuntime().removeShutdownHook(hook);
                 } catch (IllegalStateException shuttingDown) {
@@ -179,9 +179,9 @@ public final class PulseTestCommand implements Callable<Integer> {
                 }
             }
         }
-        PulseTestResult result = lastResult;
+        PulseTestResult result = written.result();
         print(o, result);
-        o.println("report: " + html);
+        o.println("report: " + written.html());
         // a programme refused before anything was sent (caps, range, unit state) is a safety refusal
         return switch (result.verdict()) {
             case PASS -> 0;
@@ -190,19 +190,18 @@ public final class PulseTestCommand implements Callable<Integer> {
         };
     }
 
-    private PulseTestResult lastResult;
+    private record Written(PulseTestResult result, Path html) {
+    }
 
     /** Evaluates what the runner recorded (also a run cut short) and writes its run folder. */
-    private Path writeRunFolder(PulseTestRunner runner, TestPlan plan, SiteUnitReader.SiteUnit siteUnit, PrintStream o) {
+    private Written writeRunFolder(PulseTestRunner runner, TestPlan plan, SiteUnitReader.SiteUnit siteUnit) {
         PulseTestResult result = PulseTestEvaluator.evaluate(runner.record(), plan);
         Path dir = out.resolve(PulseTestRunFolder.runId(result.record().startedMs(), unit));
         Map<String, String> cfg = new LinkedHashMap<>();
         cfg.put("broker", broker);
         cfg.put("site file", site.toString());
         cfg.put("plan file", planFile.toString());
-        Path written = PulseTestRunFolder.write(dir, result, plan, siteUnit.siteId(), cfg);
-        lastResult = result;
-        return written;
+        return new Written(result, PulseTestRunFolder.write(dir, result, plan, siteUnit.siteId(), cfg));
     }
 
     static void print(PrintStream o, PulseTestResult r) {

@@ -42,9 +42,15 @@ import org.loopstand.protocol.topic.TopicTree;
  * Sends a plan's pulse programme to one unit over the bus and records the answer. An {@link Agent}:
  * driven by an AgentRunner in production, by hand after advancing a virtual clock in tests.
  *
- * <p>Stops at once, sending nothing further, when the abort switch is pressed, when good telemetry is
- * silent for more than {@code telemetryLossScans} scan periods, when the bus drops, when the unit leaves
- * online/remote, when its output leaves the excursion cap, or when the duration cap is reached.
+ * <p>Order: first telemetry (the programme is expanded and checked against the caps), a steady unit
+ * (own output and frequency within the plan's bands for {@code steadyForS}, else refused after
+ * {@code steadyTimeoutS}), then the steps, each ending only when the unit has settled (see
+ * {@link StepSequencer}).
+ *
+ * <p>Stops at once, sending nothing further, when the abort switch is pressed, when {@link #abortNow} is
+ * called (a signal), when good telemetry is silent for more than {@code telemetryLossScans} scan periods,
+ * when the bus drops, when the unit leaves online/remote, when its output leaves the excursion cap, or when
+ * the duration cap is reached.
  */
 public final class PulseTestRunner implements Agent {
     /** Controller id the test's commands carry. */
