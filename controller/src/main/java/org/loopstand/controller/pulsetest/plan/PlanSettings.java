@@ -26,7 +26,10 @@ public record PlanSettings(double leadInS, double noiseThresholdMw, double avera
         double settleBandMinMw, long maxPulseMs, long pulseGapMs, double waitFactor, double extraWaitS,
         long commandValidityMs, int telemetryLossScans, double settledForS, double settleTimeoutS,
         double steadyForS, double steadyOutputBandMw, double steadyFrequencyBandHz, double steadyTimeoutS) {
-    /** Defaults used for every key a plan leaves out. */
+    /**
+     * Defaults used for every key a plan leaves out. The settle and steadiness figures are common practice,
+     * no source: 20 s without drift, ±0.5 MW and ±50 mHz for 30 s, and two minutes of patience.
+     */
     public static final PlanSettings DEFAULTS = new PlanSettings(20, 0.3, 5, 5, 0.5, 10_000, 500, 1.5, 20, 3_000, 5,
             20, 120, 30, 0.5, 0.05, 120);
 }
