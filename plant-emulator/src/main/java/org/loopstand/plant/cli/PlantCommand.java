@@ -71,6 +71,8 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--broker-port", defaultValue = "1884", description = "port of the embedded broker on 127.0.0.1, 0 = any free port (default ${DEFAULT-VALUE}); not used with --broker")
     int brokerPort;
 
+    @Option(names = "--quiet-loads", description = "switch the loads' random noise off: a quiet test bed for `pulse-test` (docs/pulse-test.md)")
+    boolean quietLoads;
     @Option(names = "--rate", defaultValue = "1", description = "scenario seconds per wall second (default ${DEFAULT-VALUE})")
     double rate;
 
@@ -130,6 +132,9 @@ public final class PlantCommand implements Callable<Integer> {
         RunScenario rehearsal = null;
         try {
             grid = SiteLoader.load(site);
+            if (quietLoads) {
+                grid = grid.withoutLoadNoise();
+            }
             if (scenarioFile != null) {
                 rehearsal = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
                 scenario = rehearsal.scenario();
