@@ -36,8 +36,8 @@ import org.eclipse.paho.mqttv5.common.packet.MqttProperties;
 public final class MinimalController implements MqttCallback {
     static final long CYCLE_MS = 4_000;
     static final long STALE_MS = 6_000;
-    static final double DEAD_BAND_MW = 2;
-    static final double GAIN_PER_CYCLE = 0.5;
+    static final double DEAD_BAND_MW = 5;
+    static final double GAIN_PER_CYCLE = 0.25;
     /** A pulse at most as long as a cycle, less a little, so pulses of one unit never overlap. */
     static final long MAX_PULSE_MS = 3_800;
 
