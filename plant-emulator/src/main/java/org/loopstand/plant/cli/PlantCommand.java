@@ -15,6 +15,7 @@ import java.util.concurrent.TimeUnit;
 import java.util.concurrent.atomic.AtomicBoolean;
 
 import org.loopstand.plant.journal.PlantRunJournal;
+import org.loopstand.plant.live.LiveView;
 
 import org.loopstand.plant.broker.EmbeddedBroker;
 import org.loopstand.plant.grid.Area;
@@ -111,6 +112,22 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--linger-s", defaultValue = "0", description = "after the scenario ends, keep the embedded broker up this many wall seconds (or until stopped) so the controller can stop cleanly")
     double lingerS;
 
+    @Option(names = "--live-port", paramLabel = "PORT", description = "serve the live view (page, live charts, fault"
+            + " controls, /metrics) on this port, 0 = any free port; the address is printed as 'live view: URL' (default: no live view)")
+    Integer livePort;
+
+    @Option(names = "--live-bind", defaultValue = "127.0.0.1", description = "address of the live view (default ${DEFAULT-VALUE});"
+            + " off loopback only with --live-token-file")
+    String liveBind;
+
+    @Option(names = "--live-token-file", paramLabel = "FILE", description = "first line = token (≥ 16 characters) every"
+            + " live view request must carry; required off loopback")
+    Path liveTokenFile;
+
+    @Option(names = "--test-broker", description = "declare the --broker a test broker: the live view then offers fault"
+            + " controls (on the embedded broker it always does)")
+    boolean testBroker;
+
     @Mixin
     InterfaceMixin iface;
 
@@ -196,6 +213,7 @@ public final class PlantCommand implements Callable<Integer> {
         if (runJournal != null) {
             observers.add(runJournal);
         }
+        observers.add(runner.counters()); // the metrics page counts what the fault stage kept off the wire
         FaultObserver observer = FaultObserver.all(observers);
         FaultEngine faults = new FaultEngine(clock, clock.epochMillis(), observer);
         if (rehearsal != null) {
@@ -203,9 +221,30 @@ public final class PlantCommand implements Callable<Integer> {
                 faults.schedule(f).ifPresent(why -> say("plant: fault " + f.id() + " not scheduled: " + why));
             }
         }
-        FaultHooks.wire(runner, faults, observer, record, clock, scenario == null ? 0 : scenario.seed(), true);
+        FaultHooks hooks = FaultHooks.wire(runner, faults, observer, record, clock, scenario == null ? 0 : scenario.seed(), true);
+        LiveView live = null;
+        if (livePort != null) {
+            try {
+                live = LiveView.start(new LiveView.Settings(liveBind, livePort, liveTokenFile, embedded != null || testBroker),
+                        runner, hooks, clock, WallClock.INSTANCE,
+                        rehearsal == null ? List.of() : rehearsal.checks().stream().map(c -> c.name()).toList(),
+                        journalDir == null ? null : journalDir.resolve("report.html"));
+            } catch (IllegalArgumentException | java.io.IOException e) {
+                System.err.println("refused: live view: " + e.getMessage());
+                runner.close();
+                closeQuietly(embedded);
+                return 2;
+            }
+            say("live view: " + live.address());
+        }
+        LiveView liveView = live;
         if (rehearsal != null) {
-            runner.agent().checkWith(record, rehearsal.checks(), PlantCommand::say);
+            runner.agent().checkWith(record, rehearsal.checks(), line -> {
+                say(line);
+                if (liveView != null) {
+                    liveView.checkDecided(line);
+                }
+            });
             // the controller's statuses, as the plant sees them, for the checks on the controller's decisions
             runner.plantBus().subscribe(runner.topics().filterAll(org.loopstand.protocol.topic.TopicKind.CONTROLLER_STATUS),
                     Qos.AT_LEAST_ONCE, m -> {
@@ -223,6 +262,9 @@ public final class PlantCommand implements Callable<Integer> {
         Runnable closeAll = () -> {
             if (closed.compareAndSet(false, true)) {
                 runner.close();
+                if (liveView != null) {
+                    liveView.close();
+                }
                 closeQuietly(brokerToClose);
             }
         };

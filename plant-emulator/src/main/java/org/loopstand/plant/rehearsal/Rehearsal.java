@@ -122,6 +122,8 @@ public final class Rehearsal {
                     l -> l.startsWith("plant: site "), l -> {
                         if (l.startsWith("plant: scenario done")) {
                             plantDone = true;
+                        } else if (l.startsWith("live view: ")) {
+                            say(l); // the plant serves the live view; its address belongs on the terminal
                         }
                         view.onPlantLine(l);
                     });
@@ -148,7 +150,7 @@ public final class Rehearsal {
             if (controller != null) {
                 controller.stop(15_000); // SIGTERM: its shutdown hook closes its journal
             }
-            if (plant != null) {
+            if (plant != null && !(plantDone && liveView())) {
                 plant.stop(20_000);
             }
         }
@@ -156,6 +158,9 @@ public final class Rehearsal {
             out.println();
         }
         Path report = writeReport(run, notes);
+        if (plant != null && plantDone && liveView()) {
+            holdLiveView(plant); // the plant's page links the report now; let the watchers follow it
+        }
         if (message != null) {
             say("rehearsal: " + (exit == 130 ? "stopped: " : "FAILED: ") + message);
         } else {
@@ -165,6 +170,22 @@ public final class Rehearsal {
             say("report: " + report.toAbsolutePath());
         }
         return new Outcome(exit, run, report, message);
+    }
+
+    /** Wall time the plant's live view stays up after the report is written, ms. */
+    static final long LIVE_HOLD_MS = 15_000;
+
+    private boolean liveView() {
+        return s.extraPlantArgs().contains("--live-port");
+    }
+
+    private void holdLiveView(ChildProcess plant) {
+        say("rehearsal: the live view links the report; it stays up " + LIVE_HOLD_MS / 1000 + " s (Ctrl-C ends it now)");
+        long end = wall.monotonicNanos() + LIVE_HOLD_MS * 1_000_000L;
+        while (!aborted && plant.isAlive() && wall.monotonicNanos() < end) {
+            LockSupport.parkNanos(200_000_000L);
+        }
+        plant.stop(20_000);
     }
 
     /** @return null when the scenario ran to its end, else why it did not */
