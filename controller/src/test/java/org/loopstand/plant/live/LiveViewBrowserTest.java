@@ -34,7 +34,6 @@ import org.openqa.selenium.WebElement;
 import org.openqa.selenium.chrome.ChromeDriver;
 import org.openqa.selenium.chrome.ChromeDriverService;
 import org.openqa.selenium.chrome.ChromeOptions;
-import org.openqa.selenium.support.ui.Select;
 
 /**
  * The live view in real headless Chromium (Debian's chromium and chromedriver) on a running
@@ -60,7 +59,7 @@ class LiveViewBrowserTest {
     void shouldShowTheRunLiveAndStartAndStopAFaultFromThePage() throws Exception {
         requireChromium();
         String cp = System.getProperty("java.class.path");
-        RehearsalSettings s = new RehearsalSettings(SCENARIO, SITE, null, 6, runs,
+        RehearsalSettings s = new RehearsalSettings(SCENARIO, SITE, null, 3, runs,
                 Path.of(System.getProperty("java.home"), "bin", "java").toString(), cp, cp, freePort(), 60_000,
                 List.of("--live-port", "0"));
         Rehearsal rehearsal = new Rehearsal(s, WallClock.INSTANCE, new PrintStream(output, true, StandardCharsets.UTF_8), false);
@@ -84,17 +83,18 @@ class LiveViewBrowserTest {
 
             // a fault from the page: same words as the CLI for a bad parameter, then a good one
             startFault(b, "drop", "north-basin", "dropProbability=2", "page-bad");
-            Awaitility.await().atMost(Duration.ofSeconds(10)).until(() -> answer(b).startsWith("refused:"));
-            assertThat(answer(b)).isEqualTo("refused: dropProbability must be in [0, 1] (), got 2.0");
+            Awaitility.await().atMost(Duration.ofSeconds(10)).until(() -> answer(b), a -> a.startsWith("refused:"));
+            assertThat(answer(b)).isEqualTo(cliRefusal("start", "--type", "drop", "--target", "north-basin",
+                    "--param", "dropProbability=2", "--order", "page-bad"));
             startFault(b, "drop", "north-basin", "dropProbability=0.5", "page-1");
-            Awaitility.await().atMost(Duration.ofSeconds(10)).until(() -> answer(b).startsWith("started"));
+            Awaitility.await().atMost(Duration.ofSeconds(10)).until(() -> answer(b), a -> a.startsWith("started"));
             assertThat(answer(b)).isEqualTo("started fault order page-1 (drop on [north-basin])");
             Awaitility.await().atMost(Duration.ofSeconds(10))
                     .until(() -> b.findElement(By.id("faults-table")).getText().contains("page-1"));
-            screenshot(b, "live-1400x900.png");
             b.findElement(By.id("fault-stop-order")).sendKeys("page-1");
             b.findElement(By.id("fault-stop")).click();
-            Awaitility.await().atMost(Duration.ofSeconds(10)).until(() -> answer(b).startsWith("stopped"));
+            Awaitility.await().atMost(Duration.ofSeconds(10)).until(() -> answer(b), a -> a.startsWith("stopped"));
+            screenshot(b, "live-1400x900.png");
 
             b.manage().window().setSize(new Dimension(420, 900));
             screenshot(b, "live-narrow-420x900.png");
@@ -129,7 +129,8 @@ class LiveViewBrowserTest {
     }
 
     private static void startFault(WebDriver b, String type, String targets, String params, String orderId) {
-        new Select(b.findElement(By.id("fault-type"))).selectByValue(type);
+        WebElement select = b.findElement(By.id("fault-type"));
+        select.findElement(By.cssSelector("option[value='" + type + "']")).click();
         for (String id : List.of("fault-targets", "fault-params", "fault-order", "fault-name")) {
             b.findElement(By.id(id)).clear();
         }
@@ -139,6 +140,20 @@ class LiveViewBrowserTest {
         b.findElement(By.id("fault-name")).sendKeys("browser-test");
         ((org.openqa.selenium.JavascriptExecutor) b).executeScript("document.getElementById('fault-answer').textContent = ''");
         b.findElement(By.id("fault-start")).click();
+    }
+
+    /** What {@code loopstand fault} prints for the same order (it refuses before reaching any broker). */
+    static String cliRefusal(String... args) {
+        PrintStream err = System.err;
+        ByteArrayOutputStream captured = new ByteArrayOutputStream();
+        try {
+            System.setErr(new PrintStream(captured, true, StandardCharsets.UTF_8));
+            int code = new picocli.CommandLine(new org.loopstand.plant.cli.FaultCommand()).execute(args);
+            assertThat(code).isEqualTo(2);
+        } finally {
+            System.setErr(err);
+        }
+        return captured.toString(StandardCharsets.UTF_8).strip();
     }
 
     private static String answer(WebDriver b) {
@@ -161,6 +176,7 @@ class LiveViewBrowserTest {
 
     private static void screenshot(WebDriver b, String name) throws Exception {
         Files.createDirectories(ARTIFACTS);
+        ((org.openqa.selenium.JavascriptExecutor) b).executeScript("window.scrollTo(0, 0)");
         byte[] png = ((org.openqa.selenium.TakesScreenshot) b).getScreenshotAs(OutputType.BYTES);
         Files.write(ARTIFACTS.resolve(name), png);
     }

@@ -79,6 +79,10 @@ public final class LiveFaultDesk {
             return new Answer(false, r.refusal());
         }
         FaultOrder o = r.order();
+        if (agent.finished()) {
+            count(action, "refused");
+            return new Answer(false, "refused: the scenario is over; faults can no longer be started or stopped");
+        }
         event.put("orderId", o.orderId());
         event.put("faultType", o.faultType());
         event.put("targets", o.targets());

@@ -73,7 +73,7 @@
     $("run-state").className = "state-" + s.state;
     text($("scenario-time"), fmt(s.timeS, 1));
     text($("rate"), fmt(s.rate, 0));
-    text($("lateness"), String(s.lateness.p99Us));
+    text($("lateness"), fmt(s.lateness.p99Us / 1000, 1));
     const c = s.controller;
     text($("controller"), c ? c.id + ": " + c.state + (c.reasons.length ? " (" + c.reasons.join("; ") + ")" : "")
       + ", cycle " + c.cycle + ", heard " + fmt(c.ageS, 1) + " s ago" : "no status heard yet");
