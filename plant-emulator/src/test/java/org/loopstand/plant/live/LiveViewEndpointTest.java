@@ -37,6 +37,7 @@ import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.journal.JournalEntry;
 import org.loopstand.protocol.journal.JournalReader;
 import org.loopstand.protocol.message.PulseDirection;
+import org.loopstand.protocol.metrics.PrometheusPage;
 import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.time.WallClock;
 import org.loopstand.protocol.topic.TopicTree;

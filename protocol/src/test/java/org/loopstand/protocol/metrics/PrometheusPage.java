@@ -1,4 +1,4 @@
-package org.loopstand.plant.live;
+package org.loopstand.protocol.metrics;
 
 import java.util.ArrayList;
 import java.util.HashMap;
@@ -14,8 +14,8 @@ import java.util.regex.Pattern;
  * {@code name{label="value",…} number}. Any other line, a sample before its TYPE, a bad label or a
  * bad number is an error.
  */
-final class PrometheusPage {
-    record Sample(String name, Map<String, String> labels, double value) {
+public final class PrometheusPage {
+    public record Sample(String name, Map<String, String> labels, double value) {
     }
 
     private static final Pattern SAMPLE = Pattern.compile("^([a-zA-Z_:][a-zA-Z0-9_:]*)(?:\\{(.*)\\})? (\\S+)$");
@@ -23,10 +23,10 @@ final class PrometheusPage {
     private static final Pattern TYPE = Pattern.compile("^# TYPE ([a-zA-Z_:][a-zA-Z0-9_:]*) (counter|gauge|summary|histogram|untyped)$");
     private static final Pattern HELP = Pattern.compile("^# HELP ([a-zA-Z_:][a-zA-Z0-9_:]*) .*$");
 
-    final Map<String, String> types = new HashMap<>();
-    final List<Sample> samples = new ArrayList<>();
+    public final Map<String, String> types = new HashMap<>();
+    public final List<Sample> samples = new ArrayList<>();
 
-    static PrometheusPage parse(String text) {
+    public static PrometheusPage parse(String text) {
         PrometheusPage p = new PrometheusPage();
         int n = 0;
         for (String line : text.split("\n", -1)) {
@@ -78,7 +78,7 @@ final class PrometheusPage {
     }
 
     /** @return the value of the sample with exactly these labels, or 0 when absent (a counter never counted) */
-    double value(String name, String... labelPairs) {
+    public double value(String name, String... labelPairs) {
         Map<String, String> want = new LinkedHashMap<>();
         for (int i = 0; i < labelPairs.length; i += 2) {
             want.put(labelPairs[i], labelPairs[i + 1]);
@@ -87,7 +87,7 @@ final class PrometheusPage {
                 .findFirst().orElse(0);
     }
 
-    List<Sample> samples(String name) {
+    public List<Sample> samples(String name) {
         return samples.stream().filter(s -> s.name().equals(name)).toList();
     }
 }
