@@ -71,6 +71,11 @@ final class LiveEventStream {
         out.flush();
     }
 
+    /** @return pages with their event stream open now */
+    int openStreams() {
+        return open.get();
+    }
+
     void close() {
         closed = true;
     }

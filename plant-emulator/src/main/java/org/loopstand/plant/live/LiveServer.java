@@ -31,7 +31,7 @@ import org.loopstand.report.html.ReportAssets;
  * a page, a few JSON answers and one event stream need nothing more). Routes: {@code /} the page,
  * {@code /assets/*} its script, style and uPlot (served from the webjar, nothing from the internet),
  * {@code /events} server-sent events (the history, then each snapshot, then the report's address),
- * {@code /api/faults} the fault library, {@code POST /api/faults/start|stop} the fault controls (only
+ * {@code /api/faults} the fault library, {@code /api/pages} how many pages are open, {@code POST /api/faults/start|stop} the fault controls (only
  * when enabled), {@code /metrics} the Prometheus page, {@code /report.html} the run's report once
  * written. With a token every request must carry it ({@code Authorization: Bearer T} or
  * {@code ?token=T}), else 401.
@@ -128,6 +128,8 @@ public final class LiveServer implements AutoCloseable {
             events.serve(ex);
         } else if ("/metrics".equals(path)) {
             metrics.handle(ex);
+        } else if ("/api/pages".equals(path)) {
+            send(ex, 200, "application/json", "{\"open\":" + events.openStreams() + "}");
         } else if ("/api/faults".equals(path)) {
             send(ex, 200, "application/json", LiveJson.write(library()));
         } else if ("/report.html".equals(path) && report != null && Files.isRegularFile(report)) {

@@ -56,6 +56,7 @@ public final class Rehearsal {
     private volatile boolean plantDone;
     private volatile ChildProcess plantChild;
     private volatile ChildProcess controllerChild;
+    private volatile String liveUrl;
 
     /**
      * @param wall     wall clock (names the run folder, paces progress)
@@ -123,6 +124,7 @@ public final class Rehearsal {
                         if (l.startsWith("plant: scenario done")) {
                             plantDone = true;
                         } else if (l.startsWith("live view: ")) {
+                            liveUrl = l.substring("live view: ".length()).trim();
                             say(l); // the plant serves the live view; its address belongs on the terminal
                         }
                         view.onPlantLine(l);
@@ -172,19 +174,12 @@ public final class Rehearsal {
         return new Outcome(exit, run, report, message);
     }
 
-    /** Wall time the plant's live view stays up after the report is written, ms. */
-    static final long LIVE_HOLD_MS = 15_000;
-
     private boolean liveView() {
-        return s.extraPlantArgs().contains("--live-port");
+        return liveUrl != null;
     }
 
     private void holdLiveView(ChildProcess plant) {
-        say("rehearsal: the live view links the report; it stays up " + LIVE_HOLD_MS / 1000 + " s (Ctrl-C ends it now)");
-        long end = wall.monotonicNanos() + LIVE_HOLD_MS * 1_000_000L;
-        while (!aborted && plant.isAlive() && wall.monotonicNanos() < end) {
-            LockSupport.parkNanos(200_000_000L);
-        }
+        LiveViewHold.whilePagesOpen(liveUrl, wall, () -> aborted || !plant.isAlive(), this::say);
         plant.stop(20_000);
     }
 

@@ -42,9 +42,12 @@ public final class RehearsalCommand implements Callable<Integer> {
     @Option(names = "--site", description = "site file (default: config/sites/<the scenario's site>.yaml)")
     Path site;
 
-    @Option(names = "--live-port", paramLabel = "PORT", description = "the plant serves the live view (charts, fault"
-            + " controls, /metrics) on 127.0.0.1:PORT, 0 = any free port; its address is printed (default: none)")
-    Integer livePort;
+    @Option(names = "--live-port", paramLabel = "PORT", defaultValue = "0", description = "the plant serves the live view"
+            + " (charts, fault controls, /metrics) on 127.0.0.1:PORT, 0 = any free port (default); its address is printed")
+    int livePort;
+
+    @Option(names = "--no-live-view", description = "no live view (no port opened)")
+    boolean noLiveView;
 
     @Override
     public Integer call() throws Exception {
@@ -77,7 +80,7 @@ public final class RehearsalCommand implements Callable<Integer> {
             settings = new RehearsalSettings(scenarioFile, siteFile, broker, r, runsDir,
                     Path.of(System.getProperty("java.home"), "bin", "java").toString(),
                     System.getenv("LOOPSTAND_PLANT_CP"), System.getenv("LOOPSTAND_CONTROLLER_CP"),
-                    port, 90_000, livePort == null ? List.of() : List.of("--live-port", Integer.toString(livePort)));
+                    port, 90_000, noLiveView ? List.of() : List.of("--live-port", Integer.toString(livePort)));
         } catch (IllegalArgumentException e) {
             System.err.println("rehearse: " + e.getMessage());
             return 2;
