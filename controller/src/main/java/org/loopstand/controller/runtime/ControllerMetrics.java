@@ -65,18 +65,12 @@ public final class ControllerMetrics implements Supplier<String> {
             duration = cycleDurationUs.copy();
             jitter = jitterUs.copy();
         }
-        summary(page, "loopstand_controller_cycle_duration_seconds", "time one control cycle took, s", duration);
-        summary(page, "loopstand_controller_cycle_jitter_seconds", "how far a cycle started from its due time, s", jitter);
+        page.summaryOfMicros("loopstand_controller_cycle_duration_seconds", "time one control cycle's decision took, s",
+                duration);
+        page.summaryOfMicros("loopstand_controller_cycle_jitter_seconds", "how far a cycle started from its due time, s",
+                jitter);
         JvmFigures.writeTo(page);
         return page.text();
-    }
-
-    private static void summary(PrometheusText page, String name, String help, Histogram h) {
-        page.summary(name, help);
-        for (double q : new double[] {0.5, 0.99, 1.0}) {
-            page.sample(h.getValueAtPercentile(q * 100) / 1e6, "quantile", Double.toString(q));
-        }
-        page.sample("_sum", h.getMean() * h.getTotalCount() / 1e6).sample("_count", h.getTotalCount());
     }
 
     private static Map<String, Long> copy(Map<String, LongAdder> m) {

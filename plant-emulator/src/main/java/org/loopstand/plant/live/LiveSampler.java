@@ -40,6 +40,7 @@ public final class LiveSampler implements Consumer<PlantAgent> {
     private final long periodNanos;
     private final List<String> checks = new CopyOnWriteArrayList<>();
     private long nextNanos;
+    private boolean finishedSampled;
     private long seq;
 
     /**
@@ -67,9 +68,11 @@ public final class LiveSampler implements Consumer<PlantAgent> {
     @Override
     public void accept(PlantAgent agent) {
         long now = wall.monotonicNanos();
-        if (now < nextNanos) {
+        boolean justFinished = agent.finished() && !finishedSampled;
+        if (now < nextNanos && !justFinished) {
             return;
         }
+        finishedSampled = agent.finished(); // the run's end is sampled at once, not up to a period later
         nextNanos = now + periodNanos;
         feed.offer(sample(agent));
     }

@@ -3,7 +3,6 @@ package org.loopstand.plant.live;
 
 import java.util.function.Supplier;
 
-import org.HdrHistogram.Histogram;
 import org.loopstand.plant.runtime.PlantCounters;
 import org.loopstand.plant.runtime.StepLateness;
 import org.loopstand.protocol.metrics.JvmFigures;
@@ -43,12 +42,8 @@ public final class PlantMetricsPage implements Supplier<String> {
         counters.commandsByKindAndOutcome().forEach((k, n) -> page.sample(n, labels("kind", "outcome", k)));
         page.counter("loopstand_plant_command_refusals_total", "commands refused, by reason");
         counters.refusalsByReason().forEach((reason, n) -> page.sample(n, "reason", reason));
-        Histogram h = lateness.histogramUs();
-        page.summary("loopstand_plant_step_lateness_seconds", "how late physics steps ran against the clock, s");
-        for (double q : new double[] {0.5, 0.99, 1.0}) {
-            page.sample(h.getValueAtPercentile(q * 100) / 1e6, "quantile", Double.toString(q));
-        }
-        page.sample("_sum", h.getMean() * h.getTotalCount() / 1e6).sample("_count", h.getTotalCount());
+        page.summaryOfMicros("loopstand_plant_step_lateness_seconds", "how late physics steps ran against the clock, s",
+                lateness.histogramUs());
         LiveSnapshot s = feed.latest();
         page.gauge("loopstand_plant_scenario_time_seconds", "scenario time, s").sample(s == null ? 0 : s.timeS());
         page.gauge("loopstand_plant_rate_ratio", "scenario seconds per wall second").sample(s == null ? Double.NaN : s.rate());

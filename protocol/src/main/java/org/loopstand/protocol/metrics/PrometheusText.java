@@ -83,6 +83,18 @@ public final class PrometheusText {
         return sample("", value, labelPairs);
     }
 
+    /**
+     * A whole summary family in seconds from a histogram of microseconds: quantiles 0.5, 0.99 and 1
+     * (the maximum), then {@code _sum} and {@code _count}.
+     */
+    public PrometheusText summaryOfMicros(String name, String help, org.HdrHistogram.Histogram us) {
+        summary(name, help);
+        for (double q : new double[] {0.5, 0.99, 1.0}) {
+            sample(us.getValueAtPercentile(q * 100) / 1e6, "quantile", Double.toString(q));
+        }
+        return sample("_sum", us.getMean() * us.getTotalCount() / 1e6).sample("_count", us.getTotalCount());
+    }
+
     public String text() {
         return out.toString();
     }
