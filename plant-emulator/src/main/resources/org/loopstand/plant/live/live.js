@@ -19,7 +19,7 @@
     const series = [{ label: "scenario s" }];
     names.forEach((n, i) => series.push({
       label: n, stroke: COLOURS[(dashedFrom ? i % dashedFrom : i) % COLOURS.length], width: 1.5,
-      dash: dashedFrom && i >= dashedFrom ? [6, 4] : undefined, spanGaps: true }));
+      dash: dashedFrom && i >= dashedFrom ? [6, 4] : undefined, spanGaps: true, points: { show: false } }));
     const data = series.map(() => []);
     const width = Math.max(240, el.clientWidth || 600);
     const plot = new uPlot({ width: width, height: 180, series: series, scales: { x: { time: false } },
