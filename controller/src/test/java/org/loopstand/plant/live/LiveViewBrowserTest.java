@@ -61,7 +61,7 @@ class LiveViewBrowserTest {
         String cp = System.getProperty("java.class.path");
         RehearsalSettings s = new RehearsalSettings(SCENARIO, SITE, null, 3, runs,
                 Path.of(System.getProperty("java.home"), "bin", "java").toString(), cp, cp, freePort(), 60_000,
-                List.of("--live-port", "0"));
+                List.of("--live-port", "0"), Path.of(".."));
         Rehearsal rehearsal = new Rehearsal(s, WallClock.INSTANCE, new PrintStream(output, true, StandardCharsets.UTF_8), false);
         CompletableFuture<Rehearsal.Outcome> outcome = CompletableFuture.supplyAsync(rehearsal::run);
         WebDriver browser = null;

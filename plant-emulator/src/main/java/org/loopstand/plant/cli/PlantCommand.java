@@ -28,6 +28,8 @@ import org.loopstand.plant.runtime.ConnectionGrouping;
 import org.loopstand.plant.runtime.HeldStartClock;
 import org.loopstand.plant.runtime.PlantOptions;
 import org.loopstand.plant.runtime.PlantRunner;
+import org.loopstand.plant.runtime.RunAnnouncer;
+import org.loopstand.protocol.message.RunPhase;
 import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.Scenario;
 import org.loopstand.plant.scenario.ScenarioEvent;
@@ -245,12 +247,23 @@ public final class PlantCommand implements Callable<Integer> {
                     liveView.checkDecided(line);
                 }
             });
-            // the controller's statuses, as the plant sees them, for the checks on the controller's decisions
+        }
+        if (rehearsal != null || runJournal != null) {
+            // the controller's statuses as the plant sees them: the checks on its decisions, its heartbeat and own ACE
+            PlantRunJournal statusJournal = runJournal;
+            boolean checking = rehearsal != null;
+            var statusCodec = new org.loopstand.protocol.codec.MessageCodec();
             runner.plantBus().subscribe(runner.topics().filterAll(org.loopstand.protocol.topic.TopicKind.CONTROLLER_STATUS),
                     Qos.AT_LEAST_ONCE, m -> {
                         long at = clock.epochMillis();
-                        new org.loopstand.protocol.codec.MessageCodec().decode(m.payload(), ControllerStatus.class).message()
-                                .ifPresent(st -> runner.agent().runOnLoop(() -> record.controllerStatus(at, st)));
+                        statusCodec.decode(m.payload(), ControllerStatus.class).message().ifPresent(st -> {
+                            if (statusJournal != null) {
+                                statusJournal.controllerStatus(at, st);
+                            }
+                            if (checking) {
+                                runner.agent().runOnLoop(() -> record.controllerStatus(at, st));
+                            }
+                        });
                     });
         }
         if (scenario != null) {
@@ -273,6 +286,14 @@ public final class PlantCommand implements Callable<Integer> {
             stopped.countDown();
         }, "plant-shutdown"));
         runner.start();
+        RunAnnouncer run = new RunAnnouncer(runner.plantBus(), runner.topics(), new org.loopstand.protocol.codec.MessageCodec(),
+                clock, RunAnnouncer.newRunId(WallClock.INSTANCE.epochMillis(), ProcessHandle.current().pid()),
+                scenario == null ? Double.NaN : scenario.durationS(), rate);
+        if (runner.plantBus() instanceof org.loopstand.protocol.bus.mqtt.MqttLink l && !l.awaitConnected(30_000)) {
+            System.err.println("plant: not connected to " + uri + " after 30 s; going on, the link keeps retrying");
+        }
+        RunAnnouncer.publishSiteSchedules(grid, runner.agent().plant());
+        run.announce(held != null ? RunPhase.WAITING : RunPhase.RUNNING, 0, null);
         int here = runner.hosts().size();
         say(String.format(Locale.ROOT, "plant: site %s, broker %s%s, rate %s, %d unit interface(s) here (%s), %d elsewhere%s",
                 grid.siteId(), uri, embedded != null ? " (embedded)" : "", trim(rate), here,
@@ -285,6 +306,7 @@ public final class PlantCommand implements Callable<Integer> {
                 return 1;
             }
             held.release();
+            run.announce(RunPhase.RUNNING, 0, null);
             say("plant: go, scenario time runs");
         }
         long startNanos = WallClock.INSTANCE.monotonicNanos();
@@ -305,6 +327,8 @@ public final class PlantCommand implements Callable<Integer> {
                 why = trim(durationS) + " s wall done";
             }
         }
+        run.announce(RunPhase.ENDED, Math.round(runner.sim().timeS() * 1000),
+                runner.agent().finished() ? "completed" : "stopped");
         runner.close(); // stops the loop: the journal gets its end entry
         say(String.format(Locale.ROOT, "plant: %s at %.1f s simulated; step lateness p99 %d µs, max %d µs%s", why,
                 runner.sim().timeS(), runner.lateness().histogramUs().getValueAtPercentile(99),
@@ -331,6 +355,7 @@ public final class PlantCommand implements Callable<Integer> {
         header.put("embeddedBroker", embedded);
         header.put("grouping", options.grouping().cliName());
         header.put("stepS", sim.stepS());
+        header.put("meterScanMs", meterScanMs);
         header.put("loopstandVersion", PlantCli.VERSION);
         header.put("javaVersion", System.getProperty("java.version"));
         header.put("areas", areaHeader(grid));
@@ -346,10 +371,7 @@ public final class PlantCommand implements Callable<Integer> {
         Map<String, Object> out = new LinkedHashMap<>();
         for (Area a : grid.areas()) {
             double beta = !Double.isNaN(a.kMwPerHz()) ? a.kMwPerHz() : -10.0 * a.biasMwPer01Hz();
-            double scheduled = 0;
-            for (var t : grid.ties()) {
-                scheduled += t.fromArea().equals(a.id()) ? t.scheduledFlowMw() : t.toArea().equals(a.id()) ? -t.scheduledFlowMw() : 0;
-            }
+            double scheduled = grid.scheduledNetInterchangeMw(a.id());
             Map<String, Object> m = new LinkedHashMap<>();
             m.put("nominalFrequencyHz", a.nominalFrequencyHz());
             m.put("betaMwPerHz", Double.isFinite(beta) ? beta : null);

@@ -86,4 +86,16 @@ public final class Grid {
         }
         return i;
     }
+
+    /**
+     * @param areaId an area of this grid
+     * @return the area's scheduled net interchange from its ties' scheduled flows, MW, + = export
+     */
+    public double scheduledNetInterchangeMw(String areaId) {
+        double mw = 0;
+        for (TieLine t : ties) {
+            mw += t.fromArea().equals(areaId) ? t.scheduledFlowMw() : t.toArea().equals(areaId) ? -t.scheduledFlowMw() : 0;
+        }
+        return mw;
+    }
 }

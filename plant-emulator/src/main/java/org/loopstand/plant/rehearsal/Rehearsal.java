@@ -44,7 +44,6 @@ public final class Rehearsal {
     public record Outcome(int exitCode, Path runFolder, Path report, String message) {
     }
 
-    static final String CONTROLLER_ID = "controller-1";
     private static final Pattern TOP_KEY = Pattern.compile("^(site|siteId|durationS|rateX):\\s*([^#\\s]+)");
 
     private final RehearsalSettings s;
@@ -131,14 +130,21 @@ public final class Rehearsal {
                     });
             plantChild = plant;
             plant.awaitReady(s.readyTimeoutMs());
-            controller = ChildProcess.start("controller", controllerCommand(run), run.resolve("controller.log"),
-                    l -> l.startsWith("control: " + CONTROLLER_ID + " on"), l -> { });
-            controllerChild = controller;
-            controller.awaitReady(s.readyTimeoutMs());
+            ControllerLaunch launch = new ControllerLaunch(s.controller());
+            progressLink = progressLink(siteId, view, launch);
+            say("rehearsal: controller under test: " + s.controller().describe());
+            if (s.controller().external()) {
+                ControllerLaunch.instructions(s, siteId, run).forEach(this::say);
+            } else {
+                controller = launch.start(s, siteId, run);
+                controllerChild = controller;
+            }
+            launch.awaitFirstStatus(s.controllerWaitMs(), controller,
+                    TopicTree.forSite(siteId).controllerStatus(s.controller().controllerId()), () -> aborted);
             plant.sendLine("go"); // scenario time starts now that both are up
-            say("rehearsal: plant (pid " + plant.pid() + ") and controller (pid " + controller.pid() + ") running;"
-                    + " Ctrl-C stops both and still writes the report");
-            progressLink = progressLink(siteId, view);
+            say("rehearsal: plant (pid " + plant.pid() + ")" + (controller == null ? " and the external controller"
+                    : " and controller (pid " + controller.pid() + ")") + " running; Ctrl-C stops "
+                    + (controller == null ? "the plant" : "both") + " and still writes the report");
             message = watch(plant, controller, view, notes);
             exit = message == null ? 0 : aborted ? 130 : 1;
         } catch (IllegalStateException | UncheckedIOException e) {
@@ -159,17 +165,21 @@ public final class Rehearsal {
         if (terminal) {
             out.println();
         }
-        Path report = writeReport(run, notes);
-        if (plant != null && plantDone && liveView()) {
-            holdLiveView(plant); // the plant's page links the report now; let the watchers follow it
-        }
+        ReportModel model = reportModel(run, notes);
+        Path report = writeReport(model, run);
         if (message != null) {
             say("rehearsal: " + (exit == 130 ? "stopped: " : "FAILED: ") + message);
         } else {
             say("rehearsal: completed");
         }
+        if (model != null) {
+            VerdictLines.of(model).forEach(this::say);
+        }
         if (report != null) {
             say("report: " + report.toAbsolutePath());
+        }
+        if (plant != null && plantDone && liveView()) {
+            holdLiveView(plant); // the plant's page links the report now; let the watchers follow it
         }
         return new Outcome(exit, run, report, message);
     }
@@ -194,7 +204,7 @@ public final class Rehearsal {
             if (plantDone) {
                 return null;
             }
-            for (ChildProcess c : List.of(controller, plant)) {
+            for (ChildProcess c : controller == null ? List.of(plant) : List.of(controller, plant)) {
                 if (!c.isAlive()) {
                     c.awaitExit(1_000);
                     LockSupport.parkNanos(500_000_000L); // a Ctrl-C reaches the children too: let abort() land first
@@ -221,7 +231,7 @@ public final class Rehearsal {
         }
     }
 
-    private Path writeReport(Path run, List<String> notes) {
+    private ReportModel reportModel(Path run, List<String> notes) {
         try {
             RunFolder folder = RunFolder.read(run);
             Map<String, String> config = new LinkedHashMap<>();
@@ -229,8 +239,19 @@ public final class Rehearsal {
             config.put("site file", s.siteFile().toString());
             config.put("rate", trim(s.rate()));
             config.put("broker", s.brokerUrl() == null ? "embedded, " + s.effectiveBrokerUrl() : s.brokerUrl());
-            config.put("controller", CONTROLLER_ID + ", clock followed from the bus");
-            ReportModel model = RunReportBuilder.build(folder, config, notes, PlantCli.VERSION);
+            config.put("controller under test", s.controller().describe());
+            return RunReportBuilder.build(folder, config, notes, PlantCli.VERSION);
+        } catch (RuntimeException e) {
+            say("rehearsal: the report could not be made: " + e.getMessage());
+            return null;
+        }
+    }
+
+    private Path writeReport(ReportModel model, Path run) {
+        if (model == null) {
+            return null;
+        }
+        try {
             Path report = run.resolve("report.html");
             HtmlReportWriter.write(model, report);
             return report;
@@ -240,13 +261,18 @@ public final class Rehearsal {
         }
     }
 
-    private MessageBus progressLink(String siteId, ProgressView view) {
+    private MessageBus progressLink(String siteId, ProgressView view, ControllerLaunch launch) {
         TopicTree topics = TopicTree.forSite(siteId);
         MqttLink link = new MqttLink(MqttLinkConfig.builder().serverUri(s.effectiveBrokerUrl())
                 .clientId("rehearsal-progress-" + ProcessHandle.current().pid()).build(), wall).start();
         for (String filter : List.of(topics.clock(), topics.filterAll(TopicKind.CONTROLLER_STATUS),
                 topics.filterAll(TopicKind.AREA_METER), topics.faults())) {
-            link.subscribe(filter, Qos.AT_MOST_ONCE, m -> view.onMessage(m.topic(), m.payload()));
+            link.subscribe(filter, Qos.AT_MOST_ONCE, m -> {
+                view.onMessage(m.topic(), m.payload());
+                if (filter.equals(topics.filterAll(TopicKind.CONTROLLER_STATUS))) {
+                    launch.onStatus(m.payload(), m.retained());
+                }
+            });
         }
         return link;
     }
@@ -255,7 +281,7 @@ public final class Rehearsal {
         List<String> c = new ArrayList<>(List.of(s.javaCommand(), "-cp", s.plantClassPath(),
                 "org.loopstand.plant.cli.PlantCli", "plant", "--site", s.siteFile().toString(),
                 "--scenario", s.scenarioFile().toString(), "--rate", trim(s.rate()), "--journal", run.toString(),
-                "--linger-s", "60", "--wait-go"));
+                "--linger-s", "60", "--wait-go", "--accept-controller", s.controller().controllerId()));
         if (s.brokerUrl() != null) {
             c.add("--broker");
             c.add(s.brokerUrl());
@@ -265,12 +291,6 @@ public final class Rehearsal {
         }
         c.addAll(s.extraPlantArgs());
         return c;
-    }
-
-    List<String> controllerCommand(Path run) {
-        return List.of(s.javaCommand(), "-cp", s.controllerClassPath(), "org.loopstand.controller.cli.ControllerCli",
-                "control", "--site", s.siteFile().toString(), "--broker", s.effectiveBrokerUrl(), "--clock", "bus",
-                "--controller-id", CONTROLLER_ID, "--journal", run.toString());
     }
 
     private Path makeRunFolder() {

@@ -19,17 +19,34 @@ import java.util.Objects;
  * @param embeddedPort  the embedded broker's port (checked free before start)
  * @param readyTimeoutMs how long a child may take to say it is ready, ms
  * @param extraPlantArgs extra arguments for the plant process (tests), may be empty
+ * @param projectRoot   where a controller command runs (the launcher's folder)
+ * @param controller    the controller under test
+ * @param controllerWaitMs how long to wait for the controller's first status, ms, &gt; 0
  */
 public record RehearsalSettings(Path scenarioFile, Path siteFile, String brokerUrl, double rate, Path runsDir,
                                 String javaCommand, String plantClassPath, String controllerClassPath, int embeddedPort,
-                                long readyTimeoutMs, List<String> extraPlantArgs) {
+                                long readyTimeoutMs, List<String> extraPlantArgs, Path projectRoot,
+                                ControllerUnderTest controller, long controllerWaitMs) {
     public static final int EMBEDDED_PORT = 1884;
+
+    /** The built-in controller, run from {@code projectRoot}, waited for as long as a child's ready line. */
+    public RehearsalSettings(Path scenarioFile, Path siteFile, String brokerUrl, double rate, Path runsDir, String javaCommand,
+                             String plantClassPath, String controllerClassPath, int embeddedPort, long readyTimeoutMs,
+                             List<String> extraPlantArgs, Path projectRoot) {
+        this(scenarioFile, siteFile, brokerUrl, rate, runsDir, javaCommand, plantClassPath, controllerClassPath, embeddedPort,
+                readyTimeoutMs, extraPlantArgs, projectRoot, ControllerUnderTest.builtInController(), readyTimeoutMs);
+    }
 
     public RehearsalSettings {
         Objects.requireNonNull(scenarioFile, "scenarioFile");
         Objects.requireNonNull(siteFile, "siteFile");
         Objects.requireNonNull(runsDir, "runsDir");
         extraPlantArgs = List.copyOf(extraPlantArgs);
+        Objects.requireNonNull(projectRoot, "projectRoot");
+        Objects.requireNonNull(controller, "controller");
+        if (controllerWaitMs <= 0) {
+            throw new IllegalArgumentException("the wait for the controller must be positive, got " + controllerWaitMs + " ms");
+        }
         if (!Files.isRegularFile(scenarioFile)) {
             throw new IllegalArgumentException("scenario file " + scenarioFile + " does not exist");
         }
@@ -39,7 +56,8 @@ public record RehearsalSettings(Path scenarioFile, Path siteFile, String brokerU
         if (!(rate > 0) || rate > 1000) {
             throw new IllegalArgumentException("rate must be in (0, 1000], got " + rate);
         }
-        if (plantClassPath == null || plantClassPath.isBlank() || controllerClassPath == null || controllerClassPath.isBlank()) {
+        if (plantClassPath == null || plantClassPath.isBlank()
+                || (controller.builtIn() && (controllerClassPath == null || controllerClassPath.isBlank()))) {
             throw new IllegalArgumentException("the class paths of the plant and controller processes are not known;"
                     + " run the rehearsal through ./loopstand (it sets LOOPSTAND_PLANT_CP and LOOPSTAND_CONTROLLER_CP)");
         }

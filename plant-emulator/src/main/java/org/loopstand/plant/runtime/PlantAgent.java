@@ -35,7 +35,7 @@ import org.loopstand.protocol.topic.TopicTree;
  * The plant's one loop: steps the physics up to the clock's now (at most {@value #MAX_STEPS_PER_CYCLE}
  * steps per cycle, then the rest next cycle), lets every in-process unit interface handle its queued
  * commands and tick after each step, runs due meter scans, serves the field topics of units that run
- * elsewhere, applies operator orders and, when the rate is not 1, publishes the scenario clock. All
+ * elsewhere, applies operator orders and publishes the scenario clock once a wall second. All
  * bus input reaches it through bounded queues, so nothing on a bus thread can hold it up.
  *
  * <p>Simulated time 0 is the clock's reading when the agent is built.
@@ -433,7 +433,8 @@ public final class PlantAgent implements Agent, ScenarioContext {
 
     private int publishClock(long now) {
         boolean held = p.clock() instanceof HeldStartClock h && !h.released();
-        if ((p.rate() == 1.0 && !(p.clock() instanceof HeldStartClock)) || now < nextClockNanos || !p.plantBus().isConnected()) {
+        // published at every rate, 1 included: controllers take scenario time from it (docs/controller-contract.md)
+        if (now < nextClockNanos || !p.plantBus().isConnected()) {
             return 0;
         }
         nextClockNanos += ((now - nextClockNanos) / clockPeriodNanos + 1) * clockPeriodNanos;

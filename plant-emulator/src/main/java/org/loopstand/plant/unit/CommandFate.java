@@ -16,8 +16,11 @@ package org.loopstand.plant.unit;
  * @param detail                sentence for people (ack detail), may be null
  * @param loadReferenceBeforeMw load reference target before the command, MW (NaN before the first field reading)
  * @param loadReferenceAfterMw  load reference target after it, MW (= before when refused)
+ * @param issuedAt              the command's issue time at the controller, epoch ms (scenario time); 0 when malformed
+ * @param epoch                 the controller epoch the command carried; −1 when malformed
  */
 public record CommandFate(String unit, long commandSeq, String controllerId, String kind, String direction,
                           long durationMs, Double setpointMw, long validUntil, String outcome, String reason,
-                          String detail, double loadReferenceBeforeMw, double loadReferenceAfterMw) {
+                          String detail, double loadReferenceBeforeMw, double loadReferenceAfterMw, long issuedAt,
+                          long epoch) {
 }

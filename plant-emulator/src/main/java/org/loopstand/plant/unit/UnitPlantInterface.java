@@ -194,11 +194,11 @@ public final class UnitPlantInterface {
                              String detail, double beforeMw, double afterMw) {
         if (c == null) {
             return new CommandFate(settings.unitId(), commandSeq, controllerId, null, null, 0, null, 0, outcome, reason,
-                    detail, beforeMw, afterMw);
+                    detail, beforeMw, afterMw, 0, -1);
         }
         return new CommandFate(settings.unitId(), commandSeq, controllerId, c.kind() == null ? null : c.kind().wireName(),
                 c.direction() == null ? null : c.direction().wireName(), c.durationMs(), c.setpointMw(), c.validUntil(),
-                outcome, reason, detail, beforeMw, afterMw);
+                outcome, reason, detail, beforeMw, afterMw, c.issuedAt(), c.epoch());
     }
 
     /** Handles a controller status: heartbeat for the watchdog, epoch for the gate. */
