@@ -114,21 +114,8 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--linger-s", defaultValue = "0", description = "after the scenario ends, keep the embedded broker up this many wall seconds (or until stopped) so the controller can stop cleanly")
     double lingerS;
 
-    @Option(names = "--live-port", paramLabel = "PORT", description = "serve the live view (page, live charts, fault"
-            + " controls, /metrics) on this port, 0 = any free port; the address is printed as 'live view: URL' (default: no live view)")
-    Integer livePort;
-
-    @Option(names = "--live-bind", defaultValue = "127.0.0.1", description = "address of the live view (default ${DEFAULT-VALUE});"
-            + " off loopback only with --live-token-file")
-    String liveBind;
-
-    @Option(names = "--live-token-file", paramLabel = "FILE", description = "first line = token (≥ 16 characters) every"
-            + " live view request must carry; required off loopback")
-    Path liveTokenFile;
-
-    @Option(names = "--test-broker", description = "declare the --broker a test broker: the live view then offers fault"
-            + " controls (on the embedded broker it always does)")
-    boolean testBroker;
+    @Mixin
+    LiveMixin live;
 
     @Mixin
     InterfaceMixin iface;
@@ -224,22 +211,20 @@ public final class PlantCommand implements Callable<Integer> {
             }
         }
         FaultHooks hooks = FaultHooks.wire(runner, faults, observer, record, clock, scenario == null ? 0 : scenario.seed(), true);
-        LiveView live = null;
-        if (livePort != null) {
-            try {
-                live = LiveView.start(new LiveView.Settings(liveBind, livePort, liveTokenFile, embedded != null || testBroker),
-                        runner, hooks, clock, WallClock.INSTANCE,
-                        rehearsal == null ? List.of() : rehearsal.checks().stream().map(c -> c.name()).toList(),
-                        journalDir == null ? null : journalDir.resolve("report.html"));
-            } catch (IllegalArgumentException | java.io.IOException e) {
-                System.err.println("refused: live view: " + e.getMessage());
-                runner.close();
-                closeQuietly(embedded);
-                return 2;
-            }
-            say("live view: " + live.address());
+        LiveView liveView;
+        try {
+            liveView = live.startIfAsked(runner, hooks, clock, embedded != null,
+                    rehearsal == null ? List.of() : rehearsal.checks().stream().map(c -> c.name()).toList(),
+                    journalDir == null ? null : journalDir.resolve("report.html"));
+        } catch (IllegalArgumentException | java.io.IOException e) {
+            System.err.println("refused: live view: " + e.getMessage());
+            runner.close();
+            closeQuietly(embedded);
+            return 2;
         }
-        LiveView liveView = live;
+        if (liveView != null) {
+            say("live view: " + liveView.address());
+        }
         if (rehearsal != null) {
             runner.agent().checkWith(record, rehearsal.checks(), line -> {
                 say(line);

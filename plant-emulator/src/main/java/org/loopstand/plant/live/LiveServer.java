@@ -42,6 +42,12 @@ public final class LiveServer implements AutoCloseable {
             + " on the embedded broker or a broker declared a test broker; never point this rig at a live plant."
             + " Local grid codes, site procedures and licensed practice take precedence.";
     static final int MAX_STREAMS = 8;
+    /**
+     * Header every fault action must carry. A page from elsewhere open in the same browser could send
+     * a plain form POST to this loopback port; it cannot add a header of its own without the browser
+     * asking this server first (a CORS preflight), which this server never approves.
+     */
+    public static final String ACTION_HEADER = "X-Loopstand-Live";
 
     private final HttpServer server;
     private final ExecutorService pool;
@@ -163,6 +169,11 @@ public final class LiveServer implements AutoCloseable {
         if (desk == null) {
             send(ex, 403, "text/plain; charset=utf-8", "refused: fault controls are off for this run (not on the embedded"
                     + " broker or a declared test broker)");
+            return;
+        }
+        if (ex.getRequestHeaders().getFirst(ACTION_HEADER) == null) {
+            send(ex, 403, "text/plain; charset=utf-8", "refused: a fault action must come from the live view's own page"
+                    + " (header " + ACTION_HEADER + " missing)");
             return;
         }
         Map<String, String> form = form(ex);

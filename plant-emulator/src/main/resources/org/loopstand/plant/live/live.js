@@ -158,7 +158,7 @@
     const answer = $("fault-answer");
     const body = new URLSearchParams(new FormData(form));
     if (action === "stop") { body.set("name", $("fault-name").value); }
-    fetch("/api/faults/" + action + q, { method: "POST", body: body })
+    fetch("/api/faults/" + action + q, { method: "POST", body: body, headers: { "X-Loopstand-Live": "1" } })
       .then((r) => r.text().then((t) => { answer.textContent = t; answer.className = "answer" + (r.ok ? "" : " refused"); }))
       .catch((err) => { answer.textContent = "not sent: " + err; answer.className = "answer refused"; });
   }

@@ -101,6 +101,14 @@ class LiveViewEndpointTest {
                 link.close();
             }
 
+            // a form posted by some other page in the same browser: no header of ours, refused
+            HttpResponse<String> foreign = http.send(HttpRequest.newBuilder(URI.create(page + "api/faults/start"))
+                    .header("Content-Type", "application/x-www-form-urlencoded")
+                    .POST(HttpRequest.BodyPublishers.ofString("type=blackout&targets=north-basin")).build(),
+                    HttpResponse.BodyHandlers.ofString());
+            assertThat(foreign.statusCode()).isEqualTo(403);
+            assertThat(foreign.body()).startsWith("refused: a fault action must come from the live view's own page");
+
             // a malformed fault from the page: the CLI's refusal, word for word; then a good one
             HttpResponse<String> bad = post(page + "api/faults/start", "type=drop&targets=north-basin&params=dropProbability%3D2&name=tester");
             assertThat(bad.statusCode()).isEqualTo(400);
@@ -214,6 +222,7 @@ class LiveViewEndpointTest {
 
     private HttpResponse<String> post(String url, String form) throws Exception {
         return http.send(HttpRequest.newBuilder(URI.create(url)).header("Content-Type", "application/x-www-form-urlencoded")
+                .header(LiveServer.ACTION_HEADER, "1")
                 .POST(HttpRequest.BodyPublishers.ofString(form)).build(), HttpResponse.BodyHandlers.ofString());
     }
 
