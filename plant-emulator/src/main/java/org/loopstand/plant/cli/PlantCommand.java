@@ -15,6 +15,7 @@ import java.util.concurrent.TimeUnit;
 import java.util.concurrent.atomic.AtomicBoolean;
 
 import org.loopstand.plant.journal.PlantRunJournal;
+import org.loopstand.plant.live.LiveView;
 
 import org.loopstand.plant.broker.EmbeddedBroker;
 import org.loopstand.plant.grid.Area;
@@ -120,6 +121,9 @@ public final class PlantCommand implements Callable<Integer> {
     Path wireProfile;
 
     @Mixin
+    LiveMixin live;
+
+    @Mixin
     InterfaceMixin iface;
 
     @Mixin
@@ -222,6 +226,7 @@ public final class PlantCommand implements Callable<Integer> {
         if (runJournal != null) {
             observers.add(runJournal);
         }
+        observers.add(runner.counters()); // the metrics page counts what the fault stage kept off the wire
         FaultObserver observer = FaultObserver.all(observers);
         FaultEngine faults = new FaultEngine(clock, clock.epochMillis(), observer);
         if (rehearsal != null) {
@@ -229,9 +234,28 @@ public final class PlantCommand implements Callable<Integer> {
                 faults.schedule(f).ifPresent(why -> say("plant: fault " + f.id() + " not scheduled: " + why));
             }
         }
-        FaultHooks.wire(runner, faults, observer, record, clock, scenario == null ? 0 : scenario.seed(), true);
+        FaultHooks hooks = FaultHooks.wire(runner, faults, observer, record, clock, scenario == null ? 0 : scenario.seed(), true);
+        LiveView liveView;
+        try {
+            liveView = live.startIfAsked(runner, hooks, clock, embedded != null,
+                    rehearsal == null ? List.of() : rehearsal.checks().stream().map(c -> c.name()).toList(),
+                    journalDir == null ? null : journalDir.resolve("report.html"));
+        } catch (IllegalArgumentException | java.io.IOException e) {
+            System.err.println("refused: live view: " + e.getMessage());
+            runner.close();
+            closeQuietly(embedded);
+            return 2;
+        }
+        if (liveView != null) {
+            say("live view: " + liveView.address());
+        }
         if (rehearsal != null) {
-            runner.agent().checkWith(record, rehearsal.checks(), PlantCommand::say);
+            runner.agent().checkWith(record, rehearsal.checks(), line -> {
+                say(line);
+                if (liveView != null) {
+                    liveView.checkDecided(line);
+                }
+            });
         }
         if (rehearsal != null || runJournal != null) {
             // the controller's statuses as the plant sees them: the checks on its decisions, its heartbeat and own ACE
@@ -260,6 +284,9 @@ public final class PlantCommand implements Callable<Integer> {
         Runnable closeAll = () -> {
             if (closed.compareAndSet(false, true)) {
                 runner.close();
+                if (liveView != null) {
+                    liveView.close();
+                }
                 closeQuietly(brokerToClose);
             }
         };

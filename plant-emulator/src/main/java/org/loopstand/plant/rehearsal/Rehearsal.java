@@ -57,6 +57,7 @@ public final class Rehearsal {
     private volatile boolean plantDone;
     private volatile ChildProcess plantChild;
     private volatile ChildProcess controllerChild;
+    private volatile String liveUrl;
 
     /**
      * @param wall     wall clock (names the run folder, paces progress)
@@ -123,6 +124,9 @@ public final class Rehearsal {
                     l -> l.startsWith("plant: site "), l -> {
                         if (l.startsWith("plant: scenario done")) {
                             plantDone = true;
+                        } else if (l.startsWith("live view: ")) {
+                            liveUrl = l.substring("live view: ".length()).trim();
+                            say(l); // the plant serves the live view; its address belongs on the terminal
                         }
                         view.onPlantLine(l);
                     });
@@ -156,7 +160,7 @@ public final class Rehearsal {
             if (controller != null) {
                 controller.stop(15_000); // SIGTERM: its shutdown hook closes its journal
             }
-            if (plant != null) {
+            if (plant != null && !(plantDone && liveView())) {
                 plant.stop(20_000);
             }
         }
@@ -181,7 +185,19 @@ public final class Rehearsal {
         if (report != null) {
             say("report: " + report.toAbsolutePath());
         }
+        if (plant != null && plantDone && liveView()) {
+            holdLiveView(plant); // the plant's page links the report now; let the watchers follow it
+        }
         return new Outcome(exit, run, report, message);
+    }
+
+    private boolean liveView() {
+        return liveUrl != null;
+    }
+
+    private void holdLiveView(ChildProcess plant) {
+        LiveViewHold.whilePagesOpen(liveUrl, wall, () -> aborted || !plant.isAlive(), this::say);
+        plant.stop(20_000);
     }
 
     /** @return null when the scenario ran to its end, else why it did not */

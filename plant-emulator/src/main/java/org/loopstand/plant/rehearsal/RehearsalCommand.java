@@ -45,6 +45,13 @@ public final class RehearsalCommand implements Callable<Integer> {
     @Option(names = "--site", description = "site file (default: config/sites/<the scenario's site>.yaml)")
     Path site;
 
+    @Option(names = "--live-port", paramLabel = "PORT", defaultValue = "0", description = "the plant serves the live view"
+            + " (charts, fault controls, /metrics) on 127.0.0.1:PORT, 0 = any free port (default); its address is printed")
+    int livePort;
+
+    @Option(names = "--no-live-view", description = "no live view (no port opened)")
+    boolean noLiveView;
+
     @Option(names = "--controller-command", paramLabel = "CMD", description = "rehearse this controller: a command line the"
             + " rig starts through the shell in the project root, with LOOPSTAND_BROKER_URL, LOOPSTAND_SITE_ID,"
             + " LOOPSTAND_SITE_FILE, LOOPSTAND_TOPIC_ROOT, LOOPSTAND_CONTROLLER_ID, LOOPSTAND_RATE and LOOPSTAND_RUN_DIR set"
@@ -121,7 +128,8 @@ public final class RehearsalCommand implements Callable<Integer> {
             settings = new RehearsalSettings(scenarioFile, siteFile, broker, r, runsDir,
                     Path.of(System.getProperty("java.home"), "bin", "java").toString(),
                     System.getenv("LOOPSTAND_PLANT_CP"), System.getenv("LOOPSTAND_CONTROLLER_CP"),
-                    port, 90_000, List.of(), home, controller, Math.round(waitS * 1000), wireProfile);
+                    port, 90_000, noLiveView ? List.of() : List.of("--live-port", Integer.toString(livePort)), home, controller,
+                    Math.round(waitS * 1000), wireProfile);
             if (wireProfile != null) {
                 // refused here, before anything starts, with every problem at its line
                 org.loopstand.plant.profile.WireProfileLoader.load(wireProfile, Rehearsal.topValue(siteFile, "siteId"));

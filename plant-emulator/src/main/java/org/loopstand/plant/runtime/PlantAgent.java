@@ -76,6 +76,8 @@ public final class PlantAgent implements Agent, ScenarioContext {
     private FaultHooks faults;
     /** Steps between two passes over one unit interface (1 = every unit after every step). */
     private int unitSlices = 1;
+    private PlantCounters counters;
+    private Consumer<PlantAgent> sampler;
 
     public PlantAgent(Parts parts) {
         this.p = parts;
@@ -163,6 +165,24 @@ public final class PlantAgent implements Agent, ScenarioContext {
         this.unitSlices = (int) Math.max(1, unitScanMs * 1_000_000L / stepNanos);
     }
 
+    /** Before start: every meter message sent or dropped is counted into {@code c} as the journal records it. */
+    public void countInto(PlantCounters c) {
+        this.counters = c;
+    }
+
+    /**
+     * Before start: {@code sampler} runs on the loop's thread after every cycle (it decides itself
+     * whether to take a sample; it must be cheap).
+     */
+    public void sampleWith(Consumer<PlantAgent> sampler) {
+        this.sampler = sampler;
+    }
+
+    /** Loop thread only (a sampler): the fault engine's state, or null when no faults are wired. */
+    public org.loopstand.plant.fault.FaultEngine faultEngineOnLoop() {
+        return faults == null ? null : faults.engine();
+    }
+
     /** Owner thread, before start: meters publish through the fault stages, faults are updated each cycle. */
     void attachFaults(FaultHooks hooks) {
         this.faults = hooks;
@@ -246,6 +266,9 @@ public final class PlantAgent implements Agent, ScenarioContext {
             if (j != null) {
                 j.flushIfDue();
             }
+            if (sampler != null) {
+                sampler.accept(this);
+            }
             return steps;
         }
         if (steps == 0 && unitSlices == 1) {
@@ -262,6 +285,9 @@ public final class PlantAgent implements Agent, ScenarioContext {
                 j.event(p.clock().epochMillis(), e);
             }
             j.flushIfDue();
+        }
+        if (sampler != null) {
+            sampler.accept(this);
         }
         return work;
     }
@@ -377,7 +403,11 @@ public final class PlantAgent implements Agent, ScenarioContext {
                 String topic = p.topics().areaMeter(reading.area(), reading.meter());
                 byte[] payload = p.codec().encode(reading);
                 PlantRunJournal j = journal;
-                if (!p.plantBus().isConnected()) {
+                boolean connected = p.plantBus().isConnected();
+                if (counters != null) {
+                    counters.published("AreaMeter", connected, "notConnected");
+                }
+                if (!connected) {
                     meterDropped++; // never buffered: a late reading would pass for a fresh one
                     if (j != null) {
                         j.published(reading.sourceTime(), topic, "AreaMeter", reading.seq(), false, "notConnected", payload, null);
