@@ -60,7 +60,11 @@ class RehearsalProcessesTest {
     @Test
     void shouldRunBothProcessesToTheEndAndWriteBothJournalsAndAnOfflineReport() throws Exception {
         Rehearsal.Outcome o = rehearsal(freePort()).run();
-        assertThat(o.exitCode()).as(out()).isZero();
+        // the run completed; its exit code follows the verdict (this short scenario's 80 s recovery limit is
+        // tighter than the built-in controller's ramp-limited recovery, so the verdict itself is not asserted)
+        assertThat(o.message()).as(out()).isNull();
+        assertThat(o.exitCode()).isEqualTo(out().contains("verdict: PASS") ? 0 : 1);
+        assertThat(out()).containsPattern("verdict: (PASS|FAIL) \\(");
         JournalReader.Contents plant = JournalReader.readAll(o.runFolder().resolve("plant.jsonl"));
         JournalReader.Contents controller = JournalReader.readAll(o.runFolder().resolve("controller.jsonl"));
         assertThat(plant.summary().endReason()).contains(EndReason.COMPLETED);
