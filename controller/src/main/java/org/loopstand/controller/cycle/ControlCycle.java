@@ -12,9 +12,7 @@ import org.loopstand.controller.allocation.RegulationAllocator;
 import org.loopstand.controller.allocation.UnitAllocation;
 import org.loopstand.controller.allocation.UnitState;
 import org.loopstand.controller.following.FollowingCheck;
-import org.loopstand.controller.following.FrequencyHistory;
-import org.loopstand.controller.following.GovernorResponse;
-import org.loopstand.controller.following.UnitFollowingMonitor;
+import org.loopstand.controller.following.FollowingDecision;
 import org.loopstand.controller.intake.ValidatedValue;
 import org.loopstand.controller.pulse.PlannedCommand;
 import org.loopstand.controller.pulse.PulseOutcome;
@@ -41,10 +39,9 @@ public final class ControlCycle {
     private final ControlCycleSettings settings;
     private final Map<String, AreaController> areas = new LinkedHashMap<>();
     private final RegulationInterlock interlock;
-    private final UnitFollowingMonitor following;
+    private final FollowingStage following;
     private final PulsePlanner pulses;
     private final Map<String, LastCommand> lastCommands = new HashMap<>();
-    private final Map<String, FrequencyHistory> frequencyHistory = new HashMap<>();
 
     private record LastCommand(long endMs, double setpointMw) {
     }
@@ -53,10 +50,9 @@ public final class ControlCycle {
         this.settings = settings;
         for (AreaSetup a : settings.areas()) {
             areas.put(a.ace().areaId(), new AreaController(a));
-            frequencyHistory.put(a.ace().areaId(), new FrequencyHistory(settings.following().governorSettleMs()));
         }
         this.interlock = new RegulationInterlock(settings.interlock());
-        this.following = new UnitFollowingMonitor(settings.following());
+        this.following = new FollowingStage(settings);
         this.pulses = new PulsePlanner(settings.pulses());
     }
 
@@ -82,7 +78,9 @@ public final class ControlCycle {
             AceResult ace = ace(area, a, check);
             UsableValue.from(a.frequencyHz()).ifPresent(f -> {
                 if (a.schedule() != null) {
-                    freqDevByArea.put(area.areaId(), f.value() - a.schedule().frequencyScheduledHz());
+                    double df = f.value() - a.schedule().frequencyScheduledHz();
+                    freqDevByArea.put(area.areaId(), df);
+                    following.recordFrequency(area.areaId(), in.nowMs() - f.ageMs(), df);
                 }
             });
             if (ace != null) {
@@ -91,18 +89,10 @@ public final class ControlCycle {
             }
         }
         InterlockDecision decision = interlock.evaluate(check);
-        freqDevByArea.forEach((area, df) -> frequencyHistory.get(area).add(in.nowMs(), df));
 
         List<UnitState> units = effectiveUnits(in.units());
-        List<FollowingCheck> checks = new ArrayList<>();
-        for (UnitState u : units) {
-            Double dfHz = freqDevByArea.get(u.areaId());
-            // judged only with a good frequency, so the governor share can be taken out
-            if (u.telemetryGood() && u.online() && dfHz != null) {
-                checks.add(following.check(u.unitId(), in.nowMs(), responseMw(u, dfHz), u.rampMwPerMin(),
-                        governorUncertaintyMw(u)));
-            }
-        }
+        List<FollowingDecision> decisions = new ArrayList<>();
+        List<FollowingCheck> checks = following.check(units, freqDevByArea.keySet(), in.nowMs(), decisions);
         Set<String> flagged = following.flaggedUnits();
 
         List<AreaCycleResult> results = new ArrayList<>();
@@ -113,7 +103,7 @@ public final class ControlCycle {
                 results.add(new AreaCycleResult(area.areaId(), aceByArea.get(area.areaId()), null, null));
             }
             return new CycleOutcome(in.cycleNumber(), in.nowMs(), decision.state(), decision.reasons(), results,
-                    List.of(), checks, notes);
+                    List.of(), checks, notes, decisions, flagged);
         }
         Map<String, UnitState> byId = new HashMap<>();
         // grouped once: a scan of every unit per area was 50 × 10,000 comparisons per cycle
@@ -132,6 +122,12 @@ public final class ControlCycle {
             }
             AreaCycleResult r = area.regulate(ace, eligible, excluded, in.nowMs(), notes);
             results.add(r);
+            double filteredAceMw = r.regulation() != null ? r.regulation().filteredAceMw() : Double.NaN;
+            for (PlannedCommand c : following.probes(unitsByArea.getOrDefault(area.areaId(), List.of()),
+                    filteredAceMw, in.nowMs(), pulses, decisions)) {
+                commands.add(c);
+                remember(byId.get(c.unitId()), c, in.nowMs());
+            }
             if (r.allocation() == null) {
                 continue;
             }
@@ -141,16 +137,13 @@ public final class ControlCycle {
                 if (p.sends()) {
                     PlannedCommand c = p.command();
                     commands.add(c);
-                    Double dfHz = freqDevByArea.get(u.areaId());
-                    following.onCommand(u.unitId(), c.deltaMw(), in.nowMs(), responseMw(u, dfHz == null ? 0 : dfHz),
-                            governorUncertaintyMw(u));
-                    lastCommands.put(u.unitId(), new LastCommand(in.nowMs() + c.durationMs(),
-                            u.setpointMw() + c.deltaMw()));
+                    following.onCommand(u, c, in.nowMs());
+                    remember(u, c, in.nowMs());
                 }
             }
         }
         return new CycleOutcome(in.cycleNumber(), in.nowMs(), decision.state(), List.of(), results, commands, checks,
-                notes);
+                notes, decisions, following.flaggedUnits());
     }
 
     private static AceResult ace(AreaController area, AreaCycleInputs a, InterlockCheck check) {
@@ -171,26 +164,8 @@ public final class ControlCycle {
         return area.computeAce(f.get(), ties, a.schedule(), a.timeErrorS(), a.inadvertentAccumMwh());
     }
 
-    /** Output with the steady-state governor share (−K·Δf beyond the dead band) removed, MW. */
-    private double responseMw(UnitState u, double dfHz) {
-        return u.outputMw() - governor(u).shareMw(dfHz);
-    }
-
-    /**
-     * How far the governor share may be from its steady-state value because the turbine lags: the
-     * spread of the share over the deviations of the settling window, MW.
-     */
-    private double governorUncertaintyMw(UnitState u) {
-        FrequencyHistory h = frequencyHistory.get(u.areaId());
-        if (h == null) {
-            return 0.0;
-        }
-        double[] range = h.range();
-        return governor(u).spanMw(range[0], range[1]);
-    }
-
-    private GovernorResponse governor(UnitState u) {
-        return settings.governors().getOrDefault(u.unitId(), GovernorResponse.NONE);
+    private void remember(UnitState u, PlannedCommand c, long nowMs) {
+        lastCommands.put(u.unitId(), new LastCommand(nowMs + c.durationMs(), u.setpointMw() + c.deltaMw()));
     }
 
     /** While a unit's telemetry predates the end of our last command to it, use the commanded setpoint. */
@@ -207,7 +182,7 @@ public final class ControlCycle {
         return out;
     }
 
-    /** Operator reset of a unit flagged as not following. */
+    /** Operator reset of a unit flagged as not following: it returns to the allocation at once. */
     public void resetFollowing(String unitId) {
         following.reset(unitId);
     }

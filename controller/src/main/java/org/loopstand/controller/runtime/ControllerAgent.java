@@ -15,6 +15,7 @@ import org.loopstand.controller.cycle.CycleInputs;
 import org.loopstand.controller.cycle.CycleOutcome;
 import org.loopstand.controller.cycle.CycleScheduler;
 import org.loopstand.controller.cycle.CycleTick;
+import org.loopstand.controller.following.FollowingDecision;
 import org.loopstand.controller.intake.IntakeObserver;
 import org.loopstand.controller.intake.IntakeRouter;
 import org.loopstand.controller.pulse.CommandKind;
@@ -36,6 +37,7 @@ import org.loopstand.protocol.message.AreaAce;
 import org.loopstand.protocol.message.CommandAck;
 import org.loopstand.protocol.message.ControllerState;
 import org.loopstand.protocol.message.ControllerStatus;
+import org.loopstand.protocol.message.ExcludedUnit;
 import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.security.CommandSigner;
 import org.loopstand.protocol.time.Clock;
@@ -73,6 +75,8 @@ public final class ControllerAgent implements Agent {
     private final InputUseJournal inputUse;
     private final ConcurrentLinkedQueue<String> publishFailures = new ConcurrentLinkedQueue<>();
     private final ConcurrentLinkedQueue<Map<String, Object>> journalEvents = new ConcurrentLinkedQueue<>();
+    /** units out of the allocation, with the figures of their exclusion, for the status */
+    private final Map<String, ExcludedUnit> excluded = new java.util.TreeMap<>();
     private volatile boolean linkUp;
     private CommandSigner signer;
     private long unsignable;
@@ -218,6 +222,7 @@ public final class ControllerAgent implements Agent {
             histograms.record(JITTER_TAG, tick.jitterNanos() / 1000);
         }
         List<AreaAce> aces = areaAces(o);
+        trackExclusions(o, nowMs);
         if (link) {
             for (PlannedCommand c : o.commands()) {
                 send(c, nowMs);
@@ -234,6 +239,7 @@ public final class ControllerAgent implements Agent {
             f.put("areas", aces);
             f.put("commands", o.commands().size());
             f.put("notes", o.notes());
+            f.put("excludedUnits", List.copyOf(o.excludedUnits()));
             f.put("jitterUs", tick.jitterNanos() / 1000);
             f.put("missedBefore", tick.missedBefore());
             f.put("linkUp", link);
@@ -241,6 +247,24 @@ public final class ControllerAgent implements Agent {
             f.put("intake", inputUse.counters());
             journal.append(nowMs, JournalFormat.KIND_DECIDED, f);
         }
+    }
+
+    /**
+     * Journals every exclusion, probe and re-admission of the cycle (event with unit, area, reason
+     * and figures) and keeps the list the status shows.
+     */
+    private void trackExclusions(CycleOutcome o, long nowMs) {
+        for (FollowingDecision d : o.decisions()) {
+            LOG.info("{} {} ({}): {}", d.event(), d.unitId(), d.areaId(), d.reason());
+            if (journal != null) {
+                journal.append(nowMs, JournalFormat.KIND_EVENT, d.journalFields());
+            }
+            if (d.event().equals(FollowingDecision.EXCLUDED)) {
+                excluded.put(d.unitId(), new ExcludedUnit(d.unitId(), d.areaId(), d.reason(),
+                        clampMw(d.shortfallMw())));
+            }
+        }
+        excluded.keySet().retainAll(o.excludedUnits());
     }
 
     private static List<AreaAce> areaAces(CycleOutcome o) {
@@ -306,7 +330,7 @@ public final class ControllerAgent implements Agent {
     private void publishStatus(ControllerState state, List<String> reasons, long cycleNumber, List<AreaAce> aces) {
         long nowMs = Math.max(1, clock.epochMillis());
         ControllerStatus s = new ControllerStatus(++statusSeq, nowMs, controllerId, epoch, state, reasons,
-                Math.max(0, cycleNumber), aces);
+                Math.max(0, cycleNumber), aces, List.copyOf(excluded.values()));
         bus.publish(new OutboundMessage(topics.controllerStatus(controllerId), codec.encode(s), Qos.AT_LEAST_ONCE,
                 true, 0)).whenComplete((v, e) -> {
                     if (e != null) {
