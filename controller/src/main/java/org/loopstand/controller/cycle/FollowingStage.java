@@ -140,7 +140,8 @@ final class FollowingStage {
             if (p.sends()) {
                 PlannedCommand c = p.command();
                 out.add(c);
-                monitor.startProbe(u.unitId(), c.deltaMw(), nowMs, responseMw(u), governorUncertaintyMw(u));
+                monitor.startProbe(u.unitId(), c.deltaMw(), nowMs, responseMw(u), governorUncertaintyMw(u),
+                        u.rampMwPerMin());
                 awaitFrequencyAt(u, responseMw(u));
                 decisions.add(FollowingDecision.probeSent(u.unitId(), u.areaId(), responseMw(u), c.deltaMw()));
             }

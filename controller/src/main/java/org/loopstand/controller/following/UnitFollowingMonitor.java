@@ -38,8 +38,9 @@ import java.util.TreeSet;
  * <p>Re-admission: {@code probeIntervalMs} of scenario time after a flag the unit is due a probe
  * ({@link #probeDue}); the caller sends a small move and calls {@link #startProbe}, which starts a
  * fresh track. When the unit completes the probe within {@code toleranceMw} it returns
- * ({@code returnedNow}); when it misses {@code missedCyclesToFlag} checks in a row the probe failed
- * ({@code probeFailedNow}) and the next is due one interval later. Not thread-safe.
+ * ({@code returnedNow}); when it misses {@code missedCyclesToFlag} checks in a row, or has not
+ * completed it by its deadline, the probe failed ({@code probeFailedNow}) and the next is due one
+ * interval later. Not thread-safe.
  */
 public final class UnitFollowingMonitor {
     private final FollowingSettings settings;
@@ -132,6 +133,8 @@ public final class UnitFollowingMonitor {
                     t.flagged = false;
                     returnedNow = true;
                 }
+            } else if (t.flagged && shortfall > settings.toleranceMw()) {
+                t.followed = 0; // back only on its own merit: a pass thanks to the governor allowance is no proof
             } else if (t.flagged && ++t.followed >= settings.followedCyclesToReturn()) {
                 t.flagged = false;
                 t.followed = 0;
@@ -141,15 +144,20 @@ public final class UnitFollowingMonitor {
             t.followed = 0;
             if (++t.missed >= settings.missedCyclesToFlag()) {
                 if (t.probing) {
-                    t.probing = false;
                     probeFailedNow = true;
-                    t.nextProbeMs = nowMs + settings.probeIntervalMs();
                 } else if (!t.flagged) {
                     t.flagged = true;
                     flaggedNow = true;
                     t.nextProbeMs = nowMs + settings.probeIntervalMs();
                 }
             }
+        }
+        if (t.probing && !returnedNow && judgedAtMs > t.probeDeadlineMs) {
+            probeFailedNow = true; // a probe is judged strictly: made within the tolerance, in time
+        }
+        if (probeFailedNow) {
+            t.probing = false;
+            t.nextProbeMs = nowMs + settings.probeIntervalMs();
         }
         // idle again only when the unit demonstrably got there: a pass thanks to the governor
         // allowance keeps the track (and its baseline) until the unit is within the tolerance itself
@@ -168,13 +176,16 @@ public final class UnitFollowingMonitor {
 
     /**
      * A re-admission probe of {@code deltaMw} was sent to a flagged unit: a fresh track starts from
-     * the present output; the unit stays flagged (out of the allocation) until it completes the probe.
+     * the present output; the unit stays flagged (out of the allocation) until it completes the probe
+     * within {@code toleranceMw}. It must do so within {@code 2·deadTimeMs + |Δ|/ramp} of the
+     * reading's time, or after {@code missedCyclesToFlag} misses in a row, else the probe failed.
      *
      * @param measuredOutputMw      output with the governor share removed, MW
      * @param governorUncertaintyMw how far that share may be off now, MW, ≥ 0
+     * @param rampMwPerMin          the unit's ramp, MW/min, ≥ 0 (0: the dead times alone)
      */
     public void startProbe(String unitId, double deltaMw, long issuedAtMs, double measuredOutputMw,
-                           double governorUncertaintyMw) {
+                           double governorUncertaintyMw, double rampMwPerMin) {
         Track t = tracks.get(unitId);
         if (t == null || !t.flagged) {
             throw new IllegalStateException("unit " + unitId + " is not flagged: no probe");
@@ -183,6 +194,8 @@ public final class UnitFollowingMonitor {
         t.missed = 0;
         t.followed = 0;
         t.probing = true;
+        double moveMs = rampMwPerMin > 0 ? Math.abs(deltaMw) / rampMwPerMin * 60_000.0 : 0;
+        t.probeDeadlineMs = issuedAtMs + 2 * settings.deadTimeMs() + (long) Math.ceil(moveMs);
         onCommand(unitId, deltaMw, issuedAtMs, measuredOutputMw, governorUncertaintyMw);
     }
 
@@ -236,6 +249,7 @@ public final class UnitFollowingMonitor {
         boolean flagged;
         boolean probing;
         long nextProbeMs;
+        long probeDeadlineMs;
         long lastJudgedMs = Long.MIN_VALUE;
         /** the largest governor uncertainty passed since the baseline, MW */
         double largestUncertaintyMw;

@@ -19,16 +19,18 @@ import org.loopstand.controller.regulation.RegulationSettings;
 import org.loopstand.controller.safety.InterlockSettings;
 
 /**
- * The following check in the closed loop with a quasi-static one-area plant: one unit of 200 MW/Hz
- * governor response, load damping 800 MW/Hz (β = 1000 MW/Hz, bias 1000 MW/Hz), a 100 MW load step.
- * Frequency deviation Δf = −(ΔP_load − ΔP_setpoint) / β (steady state of the swing equation with
- * primary response, Kundur ch. 11, from memory); the unit's output is setpoint − K·Δf.
+ * The following check in the closed loop with a quasi-static two-area plant: area A (one unit of
+ * 200 MW/Hz governor response, load damping 800 MW/Hz, β_A = 1000 MW/Hz, bias 1000 MW/Hz) tied to an
+ * area B of β_B = 1000 MW/Hz without secondary control; a 100 MW load step in A. Steady state of the
+ * two-area model with primary response (Saadat ch. 12, from memory): Δf = −(ΔP_load − ΔP_setpoint) /
+ * (β_A + β_B), tie flow out of A = β_B·Δf; the unit's output is setpoint − K·Δf.
  */
 class ControlCycleFollowingTest {
     private static final long T0 = 1_700_000_000_000L;
     private static final long CYCLE_MS = 4000;
     private static final double K_UNIT_MW_PER_HZ = 200;
     private static final double BETA_MW_PER_HZ = 1000;
+    private static final double BETA_OTHER_MW_PER_HZ = 1000;
     private static final double STEP_MW = 100;
 
     private static ControlCycle cycle() {
@@ -47,7 +49,11 @@ class ControlCycleFollowingTest {
         double loadMw;
 
         double dfHz() {
-            return -(loadMw - (setpointMw - 300)) / BETA_MW_PER_HZ;
+            return -(loadMw - (setpointMw - 300)) / (BETA_MW_PER_HZ + BETA_OTHER_MW_PER_HZ);
+        }
+
+        double tieMw() {
+            return BETA_OTHER_MW_PER_HZ * dfHz();
         }
 
         UnitState unit(long readingMs) {
@@ -64,8 +70,8 @@ class ControlCycleFollowingTest {
         }
     }
 
-    private static AreaCycleInputs area(double fHz, long ageMs) {
-        return new AreaCycleInputs("A", ValidatedValue.good(fHz, ageMs), Map.of("t1", ValidatedValue.good(0, 500)),
+    private static AreaCycleInputs area(double fHz, long ageMs, double tieMw) {
+        return new AreaCycleInputs("A", ValidatedValue.good(fHz, ageMs), Map.of("t1", ValidatedValue.good(tieMw, 500)),
                 new AreaSchedule(0, 50), 0, 0);
     }
 
@@ -82,9 +88,11 @@ class ControlCycleFollowingTest {
             if (k == 3) {
                 plant.loadMw = STEP_MW;
             }
-            // the meter scanned 3 s before the step cycle: its reading still shows 50 Hz while the
-            // unit's output (read at the cycle) already carries its governor response
-            AreaCycleInputs a = k == 3 ? area(lastFrequencyHz, 3000) : area(50 + plant.dfHz(), 500);
+            // the frequency meter scanned 3 s before the step cycle: its reading still shows 50 Hz
+            // while the tie flow and the unit's output (read at the cycle) already show the step,
+            // the output with its governor response; ACE = tie = −50 MW asks for a raise
+            AreaCycleInputs a = k == 3 ? area(lastFrequencyHz, 3000, plant.tieMw())
+                    : area(50 + plant.dfHz(), 500, plant.tieMw());
             lastFrequencyHz = 50 + plant.dfHz();
             o = c.step(new CycleInputs(k, now, true, List.of(a), List.of(plant.unit(now))));
             plant.apply(o.commands());
@@ -95,9 +103,9 @@ class ControlCycleFollowingTest {
         assertThat(notes).doesNotContain("noEligibleUnits:A");
         assertThat(o.excludedUnits()).isEmpty();
         // secondary control took the whole step: the setpoint rose by 100 MW and frequency is back
-        // (to within the 5 MW quiet band: |ACE| = β·|Δf| ≤ 5 MW)
+        // (to within the 5 MW quiet band: |ACE| = (β_A + β_B)·|Δf| ≤ 5 MW)
         assertThat(plant.setpointMw).isCloseTo(400, within(5.0));
-        assertThat(plant.dfHz()).isCloseTo(0, within(0.005));
+        assertThat(plant.dfHz()).isCloseTo(0, within(0.0025));
     }
 
     @Test
@@ -115,7 +123,7 @@ class ControlCycleFollowingTest {
             if (k == 40) {
                 plant.obeys = true; // repaired
             }
-            CycleOutcome o = c.step(new CycleInputs(k, now, true, List.of(area(50 + plant.dfHz(), 500)),
+            CycleOutcome o = c.step(new CycleInputs(k, now, true, List.of(area(50 + plant.dfHz(), 500, plant.tieMw())),
                     List.of(plant.unit(now))));
             plant.apply(o.commands());
             decisions.addAll(o.decisions());
@@ -144,6 +152,6 @@ class ControlCycleFollowingTest {
         assertThat(last.reason()).isEqualTo("probeFollowed");
         assertThat(excludedAt100).isEmpty();
         // back in the allocation, the unit took the step: frequency restored
-        assertThat(plant.dfHz()).isCloseTo(0, within(0.005)); // the 5 MW quiet band: β·|Δf| ≤ 5 MW
+        assertThat(plant.dfHz()).isCloseTo(0, within(0.0025)); // the 5 MW quiet band: (β_A + β_B)·|Δf| ≤ 5 MW
     }
 }
