@@ -34,6 +34,8 @@ final class AreaController {
     private final Map<String, Double> basePointsMw = new LinkedHashMap<>();
     private final Map<String, Double> staticFactors = new HashMap<>();
     private Set<String> lastEligible = Set.of();
+    /** a command to one of the area's units did not land since the last cycle */
+    private boolean moveNotExecuted;
 
     AreaController(AreaSetup setup) {
         this.setup = setup;
@@ -60,6 +62,15 @@ final class AreaController {
         }
         return ace.compute(new AceInputs(ni, schedule.netInterchangeScheduledMw(), frequencyHz.value(),
                 schedule.frequencyScheduledHz(), timeErrorS, inadvertentAccumMwh));
+    }
+
+    /**
+     * A command to a unit of this area was refused, failed or was never sent: the next cycle's
+     * integration is withheld, so the integrator does not run on a move that did not happen (while
+     * every command fails, it stays where it was instead of winding up).
+     */
+    void onMoveNotExecuted() {
+        moveNotExecuted = true;
     }
 
     void suspend() {
@@ -102,6 +113,10 @@ final class AreaController {
         lastEligible = ids;
         double[] range = RegulationAllocator.reachableRangeMw(eligible, basePointsMw);
         RegulationResult reg = regulator.step(aceResult.aceMw(), range[0], range[1]);
+        if (moveNotExecuted) {
+            regulator.withholdIntegration();
+            moveNotExecuted = false;
+        }
         Allocation alloc = null;
         // in the quiet band only base point moves go out (the regulation level is held)
         if (reg.band() == AceBand.REGULATING || (reg.band() == AceBand.QUIET && baseMovedMw > 0)) {

@@ -42,6 +42,11 @@ public final class ControlCycle {
     private final FollowingStage following;
     private final PulsePlanner pulses;
     private final Map<String, LastCommand> lastCommands = new HashMap<>();
+    /** commands that did not land since the last cycle, as notes {@code commandNotExecuted:{unit}:{reason}} */
+    private final List<String> notExecuted = new ArrayList<>();
+    /** set once a unit refused a command as from a superseded epoch; suspends for good */
+    private String supersededEpochReason;
+    private final Map<String, String> unitAreas = new HashMap<>();
 
     private record LastCommand(long endMs, double setpointMw) {
     }
@@ -58,7 +63,12 @@ public final class ControlCycle {
 
     public CycleOutcome step(CycleInputs in) {
         List<String> notes = new ArrayList<>();
+        notes.addAll(notExecuted);
+        notExecuted.clear();
         InterlockCheck check = new InterlockCheck().busLink(in.busLinkUp());
+        if (supersededEpochReason != null) {
+            check.other(supersededEpochReason);
+        }
         Map<String, AceResult> aceByArea = new LinkedHashMap<>();
         Map<String, Double> freqDevByArea = new HashMap<>();
         Map<String, AreaCycleInputs> inputsByArea = new HashMap<>();
@@ -110,6 +120,7 @@ public final class ControlCycle {
         Map<String, List<UnitState>> unitsByArea = new HashMap<>();
         for (UnitState u : units) {
             byId.put(u.unitId(), u);
+            unitAreas.put(u.unitId(), u.areaId());
             unitsByArea.computeIfAbsent(u.areaId(), k -> new ArrayList<>()).add(u);
         }
         for (AreaController area : areas.values()) {
@@ -180,6 +191,33 @@ public final class ControlCycle {
             }
         }
         return out;
+    }
+
+    /**
+     * A command of an earlier cycle did not land: refused by the unit, failed to publish,
+     * back-pressured or not signable. It does not count as a move: the unit's reported setpoint is
+     * used again at once, the following check forgets the move and the area's next integration is
+     * withheld. A refusal as from a stale epoch (another controller instance has taken over)
+     * suspends this controller for good with reason {@code staleEpoch:{unit}}.
+     *
+     * @param unitId     unit the command was for
+     * @param deltaMw    the move the command carried, MW
+     * @param reasonCode stable code, e.g. {@code wrongEpoch}, {@code atLimit}, {@code publishFailed},
+     *                   {@code unsignable}
+     */
+    public void commandNotExecuted(String unitId, double deltaMw, String reasonCode) {
+        lastCommands.remove(unitId);
+        following.withdraw(unitId, deltaMw);
+        String areaId = unitAreas.get(unitId);
+        if (areaId != null && areas.containsKey(areaId)) {
+            areas.get(areaId).onMoveNotExecuted();
+        }
+        if (notExecuted.size() < 1000) {
+            notExecuted.add("commandNotExecuted:" + unitId + ":" + reasonCode);
+        }
+        if ("wrongEpoch".equals(reasonCode) && supersededEpochReason == null) {
+            supersededEpochReason = "staleEpoch:" + unitId;
+        }
     }
 
     /** Operator reset of a unit flagged as not following: it returns to the allocation at once. */

@@ -149,6 +149,11 @@ final class FollowingStage {
         return out;
     }
 
+    /** A command counted as sent did not land: the unit is not judged on its move. */
+    void withdraw(String unitId, double deltaMw) {
+        monitor.withdraw(unitId, deltaMw);
+    }
+
     void reset(String unitId) {
         pending.remove(unitId);
         monitor.reset(unitId);

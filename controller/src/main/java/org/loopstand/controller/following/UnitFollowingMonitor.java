@@ -216,6 +216,17 @@ public final class UnitFollowingMonitor {
         }
     }
 
+    /**
+     * A command counted by {@link #onCommand} did not reach the unit or was refused: its move is
+     * taken back from the target, so the unit is not judged on a move it never got.
+     */
+    public void withdraw(String unitId, double deltaMw) {
+        Track t = tracks.get(unitId);
+        if (t != null && t.commanded && Double.isFinite(deltaMw)) {
+            t.targetMw -= deltaMw;
+        }
+    }
+
     /** Operator reset: the unit returns to the allocation and its history is forgotten. */
     public void reset(String unitId) {
         tracks.remove(unitId);

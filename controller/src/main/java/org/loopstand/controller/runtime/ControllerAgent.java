@@ -75,6 +75,15 @@ public final class ControllerAgent implements Agent {
     private final InputUseJournal inputUse;
     private final ConcurrentLinkedQueue<String> publishFailures = new ConcurrentLinkedQueue<>();
     private final ConcurrentLinkedQueue<Map<String, Object>> journalEvents = new ConcurrentLinkedQueue<>();
+    /** commands sent and not yet acknowledged, by seq (bounded: the oldest are dropped) */
+    private final Map<Long, PlannedCommand> unacknowledged = new LinkedHashMap<>(16, 0.75f, false) {
+        @Override
+        protected boolean removeEldestEntry(Map.Entry<Long, PlannedCommand> eldest) {
+            return size() > 4096;
+        }
+    };
+    /** seqs of commands whose publish failed (bus threads), handed to the cycle on the agent thread */
+    private final ConcurrentLinkedQueue<Long> failedPublishes = new ConcurrentLinkedQueue<>();
     /** units out of the allocation, with the figures of their exclusion, for the status */
     private final Map<String, ExcludedUnit> excluded = new java.util.TreeMap<>();
     private volatile boolean linkUp;
@@ -298,15 +307,18 @@ public final class ControllerAgent implements Agent {
                 // no key for the unit: an unsigned command would only be refused, so none is sent
                 unsignable++;
                 publishFailures.add("command " + seq + " to " + c.unitId() + " not signed: " + e.getMessage());
+                cycle.commandNotExecuted(c.unitId(), c.deltaMw(), "unsignable");
                 return;
             }
         }
         long expiryS = Math.max(1, (c.validUntilMs() - nowMs + 999) / 1000);
         OutboundMessage m = new OutboundMessage(topics.unitCommand(c.unitId()), codec.encode(cmd), Qos.AT_LEAST_ONCE,
                 false, expiryS);
+        unacknowledged.put(seq, c);
         bus.publish(m).whenComplete((v, e) -> {
             if (e != null) {
                 publishFailures.add("command " + seq + " to " + c.unitId() + ": " + e);
+                failedPublishes.add(seq);
             }
         });
         commandsSent++;
@@ -341,6 +353,13 @@ public final class ControllerAgent implements Agent {
     }
 
     private void drainEvents() {
+        Long failedSeq;
+        while ((failedSeq = failedPublishes.poll()) != null) {
+            PlannedCommand c = unacknowledged.remove(failedSeq);
+            if (c != null) {
+                cycle.commandNotExecuted(c.unitId(), c.deltaMw(), "publishFailed");
+            }
+        }
         String failure;
         while ((failure = publishFailures.poll()) != null) {
             LOG.warn("publish failed: {}", failure);
@@ -393,6 +412,15 @@ public final class ControllerAgent implements Agent {
 
         @Override
         public void onAck(CommandAck ack, long receivedAtMs) {
+            PlannedCommand c = controllerId.equals(ack.controllerId()) ? unacknowledged.remove(ack.commandSeq()) : null;
+            if (c != null && !c.unitId().equals(ack.unit())) {
+                unacknowledged.put(ack.commandSeq(), c); // not an answer to our command
+                c = null;
+            }
+            if (c != null && ack.outcome() != AckOutcome.ACCEPTED) {
+                cycle.commandNotExecuted(c.unitId(), c.deltaMw(),
+                        ack.reason() == null ? "refused" : ack.reason().wireName());
+            }
             if (journal != null) {
                 Map<String, Object> f = new LinkedHashMap<>();
                 f.put("ack", ack.unit());
