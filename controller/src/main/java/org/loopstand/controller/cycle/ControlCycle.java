@@ -47,6 +47,11 @@ public final class ControlCycle {
     /** set once a unit refused a command as from a superseded epoch; suspends for good */
     private String supersededEpochReason;
     private final Map<String, String> unitAreas = new HashMap<>();
+    private long lastCycleMs;
+    /** commands in a row that did not land, per unit (reset by an accepted one) */
+    private final Map<String, Integer> failedInRow = new HashMap<>();
+    /** exclusions decided between cycles, reported with the next cycle */
+    private final List<FollowingDecision> pendingDecisions = new ArrayList<>();
 
     private record LastCommand(long endMs, double setpointMw) {
     }
@@ -62,6 +67,7 @@ public final class ControlCycle {
     }
 
     public CycleOutcome step(CycleInputs in) {
+        lastCycleMs = in.nowMs();
         List<String> notes = new ArrayList<>();
         notes.addAll(notExecuted);
         notExecuted.clear();
@@ -101,7 +107,8 @@ public final class ControlCycle {
         InterlockDecision decision = interlock.evaluate(check);
 
         List<UnitState> units = effectiveUnits(in.units());
-        List<FollowingDecision> decisions = new ArrayList<>();
+        List<FollowingDecision> decisions = new ArrayList<>(pendingDecisions);
+        pendingDecisions.clear();
         List<FollowingCheck> checks = following.check(units, freqDevByArea.keySet(), in.nowMs(), decisions);
         Set<String> flagged = following.flaggedUnits();
 
@@ -198,7 +205,10 @@ public final class ControlCycle {
      * back-pressured or not signable. It does not count as a move: the unit's reported setpoint is
      * used again at once, the following check forgets the move and the area's next integration is
      * withheld. A refusal as from a stale epoch (another controller instance has taken over)
-     * suspends this controller for good with reason {@code staleEpoch:{unit}}.
+     * suspends this controller for good with reason {@code staleEpoch:{unit}}. After
+     * {@code missedCyclesToFlag} commands in a row to a unit that did not land, the unit leaves the
+     * allocation ({@code unitExcluded}, reason {@code commandsNotExecuted:{reason}}) until a probe
+     * brings it back: its command path cannot be counted on.
      *
      * @param unitId     unit the command was for
      * @param deltaMw    the move the command carried, MW
@@ -218,6 +228,18 @@ public final class ControlCycle {
         if ("wrongEpoch".equals(reasonCode) && supersededEpochReason == null) {
             supersededEpochReason = "staleEpoch:" + unitId;
         }
+        int inRow = failedInRow.merge(unitId, 1, Integer::sum);
+        if (inRow >= settings.following().missedCyclesToFlag() && areaId != null) {
+            FollowingDecision d = following.excludeForFailedCommands(unitId, areaId, lastCycleMs, inRow, reasonCode);
+            if (d != null) {
+                pendingDecisions.add(d);
+            }
+        }
+    }
+
+    /** A command to the unit was accepted: its run of commands that did not land ends. */
+    public void commandAccepted(String unitId) {
+        failedInRow.remove(unitId);
     }
 
     /** Operator reset of a unit flagged as not following: it returns to the allocation at once. */

@@ -154,6 +154,22 @@ final class FollowingStage {
         monitor.withdraw(unitId, deltaMw);
     }
 
+    /**
+     * The unit's commands keep failing to land ({@code missedCyclesToFlag} in a row): it leaves the
+     * allocation like a unit that does not follow, with reason {@code commandsNotExecuted:{last
+     * reason}}, and comes back through a probe.
+     *
+     * @return the exclusion, or null when the unit was excluded already
+     */
+    FollowingDecision excludeForFailedCommands(String unitId, String areaId, long nowMs, int failedInRow,
+                                               String lastReason) {
+        if (!monitor.flag(unitId, nowMs, Double.NaN)) {
+            return null;
+        }
+        return new FollowingDecision(unitId, areaId, FollowingDecision.EXCLUDED, "commandsNotExecuted:" + lastReason,
+                Double.NaN, Double.NaN, Double.NaN, Double.NaN, failedInRow, 0);
+    }
+
     void reset(String unitId) {
         pending.remove(unitId);
         monitor.reset(unitId);

@@ -227,6 +227,23 @@ public final class UnitFollowingMonitor {
         }
     }
 
+    /**
+     * Flags the unit for a reason found outside the check (e.g. its commands keep failing to land);
+     * the first probe is due {@code probeIntervalMs} later.
+     *
+     * @return true when the unit was not flagged before
+     */
+    public boolean flag(String unitId, long nowMs, double outputMw) {
+        Track t = tracks.computeIfAbsent(unitId, k -> new Track(outputMw, nowMs));
+        if (t.flagged) {
+            return false;
+        }
+        t.flagged = true;
+        t.probing = false;
+        t.nextProbeMs = nowMs + settings.probeIntervalMs();
+        return true;
+    }
+
     /** Operator reset: the unit returns to the allocation and its history is forgotten. */
     public void reset(String unitId) {
         tracks.remove(unitId);

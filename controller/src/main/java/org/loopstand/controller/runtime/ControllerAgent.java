@@ -269,8 +269,9 @@ public final class ControllerAgent implements Agent {
                 journal.append(nowMs, JournalFormat.KIND_EVENT, d.journalFields());
             }
             if (d.event().equals(FollowingDecision.EXCLUDED)) {
-                excluded.put(d.unitId(), new ExcludedUnit(d.unitId(), d.areaId(), d.reason(),
-                        clampMw(d.shortfallMw())));
+                // an exclusion for commands that did not land has no shortfall: 0
+                double shortfallMw = Double.isFinite(d.shortfallMw()) ? clampMw(d.shortfallMw()) : 0.0;
+                excluded.put(d.unitId(), new ExcludedUnit(d.unitId(), d.areaId(), d.reason(), shortfallMw));
             }
         }
         excluded.keySet().retainAll(o.excludedUnits());
@@ -416,6 +417,9 @@ public final class ControllerAgent implements Agent {
             if (c != null && !c.unitId().equals(ack.unit())) {
                 unacknowledged.put(ack.commandSeq(), c); // not an answer to our command
                 c = null;
+            }
+            if (c != null && ack.outcome() == AckOutcome.ACCEPTED) {
+                cycle.commandAccepted(c.unitId());
             }
             if (c != null && ack.outcome() != AckOutcome.ACCEPTED) {
                 cycle.commandNotExecuted(c.unitId(), c.deltaMw(),

@@ -219,7 +219,7 @@ public final class MessageValidator {
     private static void excludedUnit(String path, ExcludedUnit u) {
         id(at(path, "unit"), u.unit());
         id(at(path, "area"), u.area());
-        id(at(path, "reason"), u.reason());
+        text(at(path, "reason"), u.reason(), MAX_TEXT_CHARS);
         mw(at(path, "shortfallMw"), u.shortfallMw());
     }
 

@@ -7,7 +7,8 @@ import java.util.Objects;
  *
  * @param unit        unit id
  * @param area        area id the unit regulates for
- * @param reason      reason code (id pattern), e.g. {@code notFollowing}
+ * @param reason      reason code (1 to 256 characters), e.g. {@code notFollowing},
+ *                    {@code commandsNotExecuted:expired}
  * @param shortfallMw how far the unit fell short of the move asked of it at the exclusion, MW,
  *                    in [-1000000, 1000000]
  */
