@@ -37,7 +37,6 @@ import org.loopstand.protocol.message.AreaAce;
 import org.loopstand.protocol.message.CommandAck;
 import org.loopstand.protocol.message.ControllerState;
 import org.loopstand.protocol.message.ControllerStatus;
-import org.loopstand.protocol.message.ExcludedUnit;
 import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.security.CommandSigner;
 import org.loopstand.protocol.time.Clock;
@@ -72,20 +71,11 @@ public final class ControllerAgent implements Agent {
     private final MessageCodec codec = new MessageCodec();
     private final IntakeRouter intake;
     private final ControlCycle cycle;
+    private final CommandOutcomes outcomes;
     private final InputUseJournal inputUse;
     private final ConcurrentLinkedQueue<String> publishFailures = new ConcurrentLinkedQueue<>();
     private final ConcurrentLinkedQueue<Map<String, Object>> journalEvents = new ConcurrentLinkedQueue<>();
-    /** commands sent and not yet acknowledged, by seq (bounded: the oldest are dropped) */
-    private final Map<Long, PlannedCommand> unacknowledged = new LinkedHashMap<>(16, 0.75f, false) {
-        @Override
-        protected boolean removeEldestEntry(Map.Entry<Long, PlannedCommand> eldest) {
-            return size() > 4096;
-        }
-    };
-    /** seqs of commands whose publish failed (bus threads), handed to the cycle on the agent thread */
-    private final ConcurrentLinkedQueue<Long> failedPublishes = new ConcurrentLinkedQueue<>();
-    /** units out of the allocation, with the figures of their exclusion, for the status */
-    private final Map<String, ExcludedUnit> excluded = new java.util.TreeMap<>();
+    private final ExclusionList excluded = new ExclusionList();
     private volatile boolean linkUp;
     private CommandSigner signer;
     private long unsignable;
@@ -124,6 +114,7 @@ public final class ControllerAgent implements Agent {
         this.histograms = histograms;
         this.topics = TopicTree.forSite(site.siteId());
         this.cycle = new ControlCycle(site.toCycleSettings());
+        this.outcomes = new CommandOutcomes(cycle, controllerId);
         this.intake = new IntakeRouter(site, clock, codec, new Observer());
         this.inputUse = new InputUseJournal(site, intake);
         if (busClock != null) {
@@ -268,13 +259,8 @@ public final class ControllerAgent implements Agent {
             if (journal != null) {
                 journal.append(nowMs, JournalFormat.KIND_EVENT, d.journalFields());
             }
-            if (d.event().equals(FollowingDecision.EXCLUDED)) {
-                // an exclusion for commands that did not land has no shortfall: 0
-                double shortfallMw = Double.isFinite(d.shortfallMw()) ? clampMw(d.shortfallMw()) : 0.0;
-                excluded.put(d.unitId(), new ExcludedUnit(d.unitId(), d.areaId(), d.reason(), shortfallMw));
-            }
         }
-        excluded.keySet().retainAll(o.excludedUnits());
+        excluded.update(o);
     }
 
     private static List<AreaAce> areaAces(CycleOutcome o) {
@@ -308,18 +294,18 @@ public final class ControllerAgent implements Agent {
                 // no key for the unit: an unsigned command would only be refused, so none is sent
                 unsignable++;
                 publishFailures.add("command " + seq + " to " + c.unitId() + " not signed: " + e.getMessage());
-                cycle.commandNotExecuted(c.unitId(), c.deltaMw(), "unsignable");
+                outcomes.unsignable(c);
                 return;
             }
         }
         long expiryS = Math.max(1, (c.validUntilMs() - nowMs + 999) / 1000);
         OutboundMessage m = new OutboundMessage(topics.unitCommand(c.unitId()), codec.encode(cmd), Qos.AT_LEAST_ONCE,
                 false, expiryS);
-        unacknowledged.put(seq, c);
+        outcomes.sent(seq, c);
         bus.publish(m).whenComplete((v, e) -> {
             if (e != null) {
                 publishFailures.add("command " + seq + " to " + c.unitId() + ": " + e);
-                failedPublishes.add(seq);
+                outcomes.publishFailed(seq);
             }
         });
         commandsSent++;
@@ -343,7 +329,7 @@ public final class ControllerAgent implements Agent {
     private void publishStatus(ControllerState state, List<String> reasons, long cycleNumber, List<AreaAce> aces) {
         long nowMs = Math.max(1, clock.epochMillis());
         ControllerStatus s = new ControllerStatus(++statusSeq, nowMs, controllerId, epoch, state, reasons,
-                Math.max(0, cycleNumber), aces, List.copyOf(excluded.values()));
+                Math.max(0, cycleNumber), aces, excluded.units());
         bus.publish(new OutboundMessage(topics.controllerStatus(controllerId), codec.encode(s), Qos.AT_LEAST_ONCE,
                 true, 0)).whenComplete((v, e) -> {
                     if (e != null) {
@@ -354,13 +340,7 @@ public final class ControllerAgent implements Agent {
     }
 
     private void drainEvents() {
-        Long failedSeq;
-        while ((failedSeq = failedPublishes.poll()) != null) {
-            PlannedCommand c = unacknowledged.remove(failedSeq);
-            if (c != null) {
-                cycle.commandNotExecuted(c.unitId(), c.deltaMw(), "publishFailed");
-            }
-        }
+        outcomes.drain();
         String failure;
         while ((failure = publishFailures.poll()) != null) {
             LOG.warn("publish failed: {}", failure);
@@ -413,18 +393,7 @@ public final class ControllerAgent implements Agent {
 
         @Override
         public void onAck(CommandAck ack, long receivedAtMs) {
-            PlannedCommand c = controllerId.equals(ack.controllerId()) ? unacknowledged.remove(ack.commandSeq()) : null;
-            if (c != null && !c.unitId().equals(ack.unit())) {
-                unacknowledged.put(ack.commandSeq(), c); // not an answer to our command
-                c = null;
-            }
-            if (c != null && ack.outcome() == AckOutcome.ACCEPTED) {
-                cycle.commandAccepted(c.unitId());
-            }
-            if (c != null && ack.outcome() != AckOutcome.ACCEPTED) {
-                cycle.commandNotExecuted(c.unitId(), c.deltaMw(),
-                        ack.reason() == null ? "refused" : ack.reason().wireName());
-            }
+            outcomes.onAck(ack);
             if (journal != null) {
                 Map<String, Object> f = new LinkedHashMap<>();
                 f.put("ack", ack.unit());
