@@ -15,6 +15,7 @@ import org.loopstand.controller.allocation.TertiaryRedispatch;
 import org.loopstand.controller.allocation.LimitedBy;
 import org.loopstand.controller.allocation.UnitAllocation;
 import org.loopstand.controller.allocation.UnitState;
+import org.loopstand.controller.dispatch.DispatchResult;
 import org.loopstand.controller.dispatch.InfeasibleDispatchException;
 import org.loopstand.controller.regulation.AceBand;
 import org.loopstand.controller.regulation.AreaRegulator;
@@ -165,14 +166,15 @@ final class AreaController {
     /** @return Σ|base point move| this cycle, MW */
     private double tertiary(List<UnitState> eligible, long nowMs, List<String> notes) {
         if (redispatch.due(nowMs)) {
-            double demand = 0;
-            for (UnitState u : eligible) {
-                demand += u.setpointMw();
-            }
             try {
-                redispatch.redispatch(nowMs, demand);
+                DispatchResult d = redispatch.redispatch(nowMs, eligible);
+                if (d != null) {
+                    notes.add(String.format(java.util.Locale.ROOT, "redispatch:%s:lambda=%.4f:demandMw=%.1f:basePointsMw=%s",
+                            areaId(), d.lambdaDollarPerMwh(), d.demandMw(), rounded(d.outputMw())));
+                }
             } catch (InfeasibleDispatchException e) {
-                notes.add("redispatchInfeasible:" + areaId());
+                notes.add(String.format(java.util.Locale.ROOT, "redispatchInfeasible:%s:demandMw=%.1f:rangeMw=%.1f..%.1f",
+                        areaId(), e.demandMw(), e.minTotalMw(), e.maxTotalMw()));
             }
         }
         Map<String, Double> moved = redispatch.stepBasePoints(basePointsMw, eligible, setup.regulation().cycleS());
@@ -188,6 +190,12 @@ final class AreaController {
             regulator.onBasePointsMoved(total);
         }
         return absTotal;
+    }
+
+    private static Map<String, Double> rounded(Map<String, Double> mw) {
+        Map<String, Double> out = new java.util.TreeMap<>();
+        mw.forEach((k, v) -> out.put(k, Math.round(v * 10) / 10.0));
+        return out;
     }
 
     private Map<String, Double> factors() {

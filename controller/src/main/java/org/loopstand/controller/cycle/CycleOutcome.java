@@ -18,7 +18,8 @@ import org.loopstand.controller.safety.InterlockState;
  * @param areas       per-area ACE, regulation and allocation
  * @param commands    commands to send now (empty while suspended)
  * @param following   unit-following checks of this cycle
- * @param notes       other things worth reporting, e.g. {@code redispatchInfeasible:areaA}
+ * @param notes       other things worth reporting, e.g. {@code redispatch:areaA:lambda=…},
+ *                    {@code redispatchInfeasible:areaA:…}, {@code commandNotExecuted:U1:expired}
  * @param decisions   unit exclusions, re-admission probes and re-admissions of this cycle
  * @param excludedUnits units flagged as not following after this cycle, sorted
  */
