@@ -66,6 +66,45 @@ public final class TertiaryRedispatch {
     }
 
     /**
+     * Solve the dispatch over the {@code eligible} units that have a cost curve, for the generation
+     * they are asked for now (Σ of their setpoints), each within both its cost curve's limits and
+     * its live regulating limits. Units out of the allocation take no part: their minimum would
+     * otherwise make a feasible demand look infeasible and their share would be given to nobody.
+     *
+     * @return the dispatch (its demand is the eligible units' Σ setpoint), or null when no eligible
+     *         unit has a cost curve (nothing to dispatch; targets stay as they were)
+     * @throws org.loopstand.controller.dispatch.InfeasibleDispatchException when the demand is
+     *         outside the eligible units' limits (targets stay as they were)
+     */
+    public DispatchResult redispatch(long nowMs, List<UnitState> eligible) {
+        Map<String, QuadraticCostUnit> byId = new HashMap<>();
+        costs.forEach(c -> byId.put(c.unitId(), c));
+        List<QuadraticCostUnit> live = new java.util.ArrayList<>();
+        double demandMw = 0;
+        for (UnitState u : eligible) {
+            QuadraticCostUnit c = byId.get(u.unitId());
+            if (c == null) {
+                continue;
+            }
+            double min = Math.max(c.minMw(), u.regulatingMinMw());
+            double max = Math.min(c.maxMw(), u.regulatingMaxMw());
+            if (min > max) {
+                continue;
+            }
+            live.add(new QuadraticCostUnit(c.unitId(), c.aDollarPerH(), c.bDollarPerMwh(), c.cDollarPerMw2h(), min, max));
+            demandMw += u.setpointMw();
+        }
+        lastRunMs = nowMs;
+        if (live.isEmpty()) {
+            return null;
+        }
+        DispatchResult r = EconomicDispatch.solve(live, demandMw);
+        targetsMw = new HashMap<>(r.outputMw());
+        factors = ParticipationFactors.of(live, r);
+        return r;
+    }
+
+    /**
      * Move each base point toward its target by at most {@code rampShare·ramp·cycleS/60}.
      *
      * @return the new base points (units without a target keep theirs)

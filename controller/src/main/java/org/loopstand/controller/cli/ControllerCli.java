@@ -8,8 +8,8 @@ import picocli.CommandLine.Command;
  * test. The {@code ./loopstand} script routes subcommands here.
  */
 @Command(name = "loopstand", mixinStandardHelpOptions = true, version = "loopstand 0.1.0",
-        description = "Loopstand control side: secondary controller and unit response test.",
-        subcommands = {ControlCommand.class, PulseTestCommand.class})
+        description = "Loopstand control side: secondary controller, unit response test, economic dispatch.",
+        subcommands = {ControlCommand.class, PulseTestCommand.class, DispatchCommand.class})
 public final class ControllerCli implements Runnable {
     @CommandLine.Spec
     private CommandLine.Model.CommandSpec spec;

@@ -41,14 +41,26 @@ public record ControllerSettings(long cycleMs, AceMode aceMode, RegulationSettin
                 defaultFrequencyRule(f0Hz), defaultTieRule(), 10_000, 2_000, 20_000, true);
     }
 
-    /** Frequency: 10 s age, f0 ± 5 Hz, 5 Hz/s, frozen off, hold last good 8 s. */
+    /** Identical frequency readings in a row that make a frequency frozen by default. */
+    public static final int DEFAULT_FREQUENCY_FROZEN_COUNT = 12;
+    /** Identical tie flow readings in a row that make a tie flow frozen by default. */
+    public static final int DEFAULT_TIE_FROZEN_COUNT = 8;
+
+    /**
+     * Frequency: 10 s age, f0 ± 5 Hz, 5 Hz/s, frozen after 12 identical readings (exact repeats),
+     * hold last good 8 s. Twelve: a live meter with 1 mHz noise at 1 mHz resolution puts a reading
+     * in its most likely bin with a chance of about 0.38, so twelve equal readings in a row come
+     * about once in 10⁵ readings (two to three days at a 2 s scan, and then only a short
+     * suspension), while a frozen meter is caught 22 s after it froze.
+     */
     static InputRule defaultFrequencyRule(double f0Hz) {
-        return new InputRule(10_000, f0Hz - 5, f0Hz + 5, 5.0, 0, 0.0, FallbackPolicy.HOLD_LAST_GOOD, 8_000);
+        return new InputRule(10_000, f0Hz - 5, f0Hz + 5, 5.0, DEFAULT_FREQUENCY_FROZEN_COUNT, 0.0,
+                FallbackPolicy.HOLD_LAST_GOOD, 8_000);
     }
 
-    /** Tie flow: 10 s age, ±20000 MW, rate off, frozen off, hold last good 8 s. */
+    /** Tie flow: 10 s age, ±20000 MW, rate off, frozen after 8 identical readings, hold last good 8 s. */
     static InputRule defaultTieRule() {
-        return new InputRule(10_000, -20_000, 20_000, Double.POSITIVE_INFINITY, 0, 0.0,
+        return new InputRule(10_000, -20_000, 20_000, Double.POSITIVE_INFINITY, DEFAULT_TIE_FROZEN_COUNT, 0.0,
                 FallbackPolicy.HOLD_LAST_GOOD, 8_000);
     }
 }

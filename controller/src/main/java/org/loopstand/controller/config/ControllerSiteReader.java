@@ -190,7 +190,8 @@ public final class ControllerSiteReader {
         FollowingSettings following = build(f, () -> new FollowingSettings(f.lng("deadTimeMs", df.deadTimeMs()),
                 f.dbl("toleranceMw", df.toleranceMw()), (int) f.lng("missedCyclesToFlag", df.missedCyclesToFlag()),
                 (int) f.lng("followedCyclesToReturn", df.followedCyclesToReturn()),
-                f.lng("governorSettleMs", df.governorSettleMs())), df);
+                f.lng("governorSettleMs", df.governorSettleMs()), f.lng("probeIntervalMs", df.probeIntervalMs()),
+                f.dbl("probeMw", df.probeMw())), df);
         long settleMs = c.lng("commandSettleMs", d.commandSettleMs());
         if (settleMs < 0) {
             c.fail("commandSettleMs", "must be >= 0 ms, got " + settleMs);

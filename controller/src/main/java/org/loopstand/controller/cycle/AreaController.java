@@ -15,6 +15,7 @@ import org.loopstand.controller.allocation.TertiaryRedispatch;
 import org.loopstand.controller.allocation.LimitedBy;
 import org.loopstand.controller.allocation.UnitAllocation;
 import org.loopstand.controller.allocation.UnitState;
+import org.loopstand.controller.dispatch.DispatchResult;
 import org.loopstand.controller.dispatch.InfeasibleDispatchException;
 import org.loopstand.controller.regulation.AceBand;
 import org.loopstand.controller.regulation.AreaRegulator;
@@ -34,6 +35,8 @@ final class AreaController {
     private final Map<String, Double> basePointsMw = new LinkedHashMap<>();
     private final Map<String, Double> staticFactors = new HashMap<>();
     private Set<String> lastEligible = Set.of();
+    /** a command to one of the area's units did not land since the last cycle */
+    private boolean moveNotExecuted;
 
     AreaController(AreaSetup setup) {
         this.setup = setup;
@@ -60,6 +63,15 @@ final class AreaController {
         }
         return ace.compute(new AceInputs(ni, schedule.netInterchangeScheduledMw(), frequencyHz.value(),
                 schedule.frequencyScheduledHz(), timeErrorS, inadvertentAccumMwh));
+    }
+
+    /**
+     * A command to a unit of this area was refused, failed or was never sent: the next cycle's
+     * integration is withheld, so the integrator does not run on a move that did not happen (while
+     * every command fails, it stays where it was instead of winding up).
+     */
+    void onMoveNotExecuted() {
+        moveNotExecuted = true;
     }
 
     void suspend() {
@@ -102,6 +114,10 @@ final class AreaController {
         lastEligible = ids;
         double[] range = RegulationAllocator.reachableRangeMw(eligible, basePointsMw);
         RegulationResult reg = regulator.step(aceResult.aceMw(), range[0], range[1]);
+        if (moveNotExecuted) {
+            regulator.withholdIntegration();
+            moveNotExecuted = false;
+        }
         Allocation alloc = null;
         // in the quiet band only base point moves go out (the regulation level is held)
         if (reg.band() == AceBand.REGULATING || (reg.band() == AceBand.QUIET && baseMovedMw > 0)) {
@@ -150,14 +166,15 @@ final class AreaController {
     /** @return Σ|base point move| this cycle, MW */
     private double tertiary(List<UnitState> eligible, long nowMs, List<String> notes) {
         if (redispatch.due(nowMs)) {
-            double demand = 0;
-            for (UnitState u : eligible) {
-                demand += u.setpointMw();
-            }
             try {
-                redispatch.redispatch(nowMs, demand);
+                DispatchResult d = redispatch.redispatch(nowMs, eligible);
+                if (d != null) {
+                    notes.add(String.format(java.util.Locale.ROOT, "redispatch:%s:lambda=%.4f:demandMw=%.1f:basePointsMw=%s",
+                            areaId(), d.lambdaDollarPerMwh(), d.demandMw(), rounded(d.outputMw())));
+                }
             } catch (InfeasibleDispatchException e) {
-                notes.add("redispatchInfeasible:" + areaId());
+                notes.add(String.format(java.util.Locale.ROOT, "redispatchInfeasible:%s:demandMw=%.1f:rangeMw=%.1f..%.1f",
+                        areaId(), e.demandMw(), e.minTotalMw(), e.maxTotalMw()));
             }
         }
         Map<String, Double> moved = redispatch.stepBasePoints(basePointsMw, eligible, setup.regulation().cycleS());
@@ -173,6 +190,12 @@ final class AreaController {
             regulator.onBasePointsMoved(total);
         }
         return absTotal;
+    }
+
+    private static Map<String, Double> rounded(Map<String, Double> mw) {
+        Map<String, Double> out = new java.util.TreeMap<>();
+        mw.forEach((k, v) -> out.put(k, Math.round(v * 10) / 10.0));
+        return out;
     }
 
     private Map<String, Double> factors() {

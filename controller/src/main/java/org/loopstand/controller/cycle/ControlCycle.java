@@ -12,9 +12,7 @@ import org.loopstand.controller.allocation.RegulationAllocator;
 import org.loopstand.controller.allocation.UnitAllocation;
 import org.loopstand.controller.allocation.UnitState;
 import org.loopstand.controller.following.FollowingCheck;
-import org.loopstand.controller.following.FrequencyHistory;
-import org.loopstand.controller.following.GovernorResponse;
-import org.loopstand.controller.following.UnitFollowingMonitor;
+import org.loopstand.controller.following.FollowingDecision;
 import org.loopstand.controller.intake.ValidatedValue;
 import org.loopstand.controller.pulse.PlannedCommand;
 import org.loopstand.controller.pulse.PulseOutcome;
@@ -41,10 +39,19 @@ public final class ControlCycle {
     private final ControlCycleSettings settings;
     private final Map<String, AreaController> areas = new LinkedHashMap<>();
     private final RegulationInterlock interlock;
-    private final UnitFollowingMonitor following;
+    private final FollowingStage following;
     private final PulsePlanner pulses;
     private final Map<String, LastCommand> lastCommands = new HashMap<>();
-    private final Map<String, FrequencyHistory> frequencyHistory = new HashMap<>();
+    /** commands that did not land since the last cycle, as notes {@code commandNotExecuted:{unit}:{reason}} */
+    private final List<String> notExecuted = new ArrayList<>();
+    /** set once a unit refused a command as from a superseded epoch; suspends for good */
+    private String supersededEpochReason;
+    private final Map<String, String> unitAreas = new HashMap<>();
+    private long lastCycleMs;
+    /** commands in a row that did not land, per unit (reset by an accepted one) */
+    private final Map<String, Integer> failedInRow = new HashMap<>();
+    /** exclusions decided between cycles, reported with the next cycle */
+    private final List<FollowingDecision> pendingDecisions = new ArrayList<>();
 
     private record LastCommand(long endMs, double setpointMw) {
     }
@@ -53,16 +60,21 @@ public final class ControlCycle {
         this.settings = settings;
         for (AreaSetup a : settings.areas()) {
             areas.put(a.ace().areaId(), new AreaController(a));
-            frequencyHistory.put(a.ace().areaId(), new FrequencyHistory(settings.following().governorSettleMs()));
         }
         this.interlock = new RegulationInterlock(settings.interlock());
-        this.following = new UnitFollowingMonitor(settings.following());
+        this.following = new FollowingStage(settings);
         this.pulses = new PulsePlanner(settings.pulses());
     }
 
     public CycleOutcome step(CycleInputs in) {
+        lastCycleMs = in.nowMs();
         List<String> notes = new ArrayList<>();
+        notes.addAll(notExecuted);
+        notExecuted.clear();
         InterlockCheck check = new InterlockCheck().busLink(in.busLinkUp());
+        if (supersededEpochReason != null) {
+            check.other(supersededEpochReason);
+        }
         Map<String, AceResult> aceByArea = new LinkedHashMap<>();
         Map<String, Double> freqDevByArea = new HashMap<>();
         Map<String, AreaCycleInputs> inputsByArea = new HashMap<>();
@@ -82,7 +94,9 @@ public final class ControlCycle {
             AceResult ace = ace(area, a, check);
             UsableValue.from(a.frequencyHz()).ifPresent(f -> {
                 if (a.schedule() != null) {
-                    freqDevByArea.put(area.areaId(), f.value() - a.schedule().frequencyScheduledHz());
+                    double df = f.value() - a.schedule().frequencyScheduledHz();
+                    freqDevByArea.put(area.areaId(), df);
+                    following.recordFrequency(area.areaId(), in.nowMs() - f.ageMs(), df);
                 }
             });
             if (ace != null) {
@@ -91,18 +105,11 @@ public final class ControlCycle {
             }
         }
         InterlockDecision decision = interlock.evaluate(check);
-        freqDevByArea.forEach((area, df) -> frequencyHistory.get(area).add(in.nowMs(), df));
 
         List<UnitState> units = effectiveUnits(in.units());
-        List<FollowingCheck> checks = new ArrayList<>();
-        for (UnitState u : units) {
-            Double dfHz = freqDevByArea.get(u.areaId());
-            // judged only with a good frequency, so the governor share can be taken out
-            if (u.telemetryGood() && u.online() && dfHz != null) {
-                checks.add(following.check(u.unitId(), in.nowMs(), responseMw(u, dfHz), u.rampMwPerMin(),
-                        governorUncertaintyMw(u)));
-            }
-        }
+        List<FollowingDecision> decisions = new ArrayList<>(pendingDecisions);
+        pendingDecisions.clear();
+        List<FollowingCheck> checks = following.check(units, freqDevByArea.keySet(), in.nowMs(), decisions);
         Set<String> flagged = following.flaggedUnits();
 
         List<AreaCycleResult> results = new ArrayList<>();
@@ -113,13 +120,14 @@ public final class ControlCycle {
                 results.add(new AreaCycleResult(area.areaId(), aceByArea.get(area.areaId()), null, null));
             }
             return new CycleOutcome(in.cycleNumber(), in.nowMs(), decision.state(), decision.reasons(), results,
-                    List.of(), checks, notes);
+                    List.of(), checks, notes, decisions, flagged);
         }
         Map<String, UnitState> byId = new HashMap<>();
         // grouped once: a scan of every unit per area was 50 × 10,000 comparisons per cycle
         Map<String, List<UnitState>> unitsByArea = new HashMap<>();
         for (UnitState u : units) {
             byId.put(u.unitId(), u);
+            unitAreas.put(u.unitId(), u.areaId());
             unitsByArea.computeIfAbsent(u.areaId(), k -> new ArrayList<>()).add(u);
         }
         for (AreaController area : areas.values()) {
@@ -132,6 +140,12 @@ public final class ControlCycle {
             }
             AreaCycleResult r = area.regulate(ace, eligible, excluded, in.nowMs(), notes);
             results.add(r);
+            double filteredAceMw = r.regulation() != null ? r.regulation().filteredAceMw() : Double.NaN;
+            for (PlannedCommand c : following.probes(unitsByArea.getOrDefault(area.areaId(), List.of()),
+                    filteredAceMw, in.nowMs(), pulses, decisions)) {
+                commands.add(c);
+                remember(byId.get(c.unitId()), c, in.nowMs());
+            }
             if (r.allocation() == null) {
                 continue;
             }
@@ -141,16 +155,13 @@ public final class ControlCycle {
                 if (p.sends()) {
                     PlannedCommand c = p.command();
                     commands.add(c);
-                    Double dfHz = freqDevByArea.get(u.areaId());
-                    following.onCommand(u.unitId(), c.deltaMw(), in.nowMs(), responseMw(u, dfHz == null ? 0 : dfHz),
-                            governorUncertaintyMw(u));
-                    lastCommands.put(u.unitId(), new LastCommand(in.nowMs() + c.durationMs(),
-                            u.setpointMw() + c.deltaMw()));
+                    following.onCommand(u, c, in.nowMs());
+                    remember(u, c, in.nowMs());
                 }
             }
         }
         return new CycleOutcome(in.cycleNumber(), in.nowMs(), decision.state(), List.of(), results, commands, checks,
-                notes);
+                notes, decisions, following.flaggedUnits());
     }
 
     private static AceResult ace(AreaController area, AreaCycleInputs a, InterlockCheck check) {
@@ -171,26 +182,8 @@ public final class ControlCycle {
         return area.computeAce(f.get(), ties, a.schedule(), a.timeErrorS(), a.inadvertentAccumMwh());
     }
 
-    /** Output with the steady-state governor share (−K·Δf beyond the dead band) removed, MW. */
-    private double responseMw(UnitState u, double dfHz) {
-        return u.outputMw() - governor(u).shareMw(dfHz);
-    }
-
-    /**
-     * How far the governor share may be from its steady-state value because the turbine lags: the
-     * spread of the share over the deviations of the settling window, MW.
-     */
-    private double governorUncertaintyMw(UnitState u) {
-        FrequencyHistory h = frequencyHistory.get(u.areaId());
-        if (h == null) {
-            return 0.0;
-        }
-        double[] range = h.range();
-        return governor(u).spanMw(range[0], range[1]);
-    }
-
-    private GovernorResponse governor(UnitState u) {
-        return settings.governors().getOrDefault(u.unitId(), GovernorResponse.NONE);
+    private void remember(UnitState u, PlannedCommand c, long nowMs) {
+        lastCommands.put(u.unitId(), new LastCommand(nowMs + c.durationMs(), u.setpointMw() + c.deltaMw()));
     }
 
     /** While a unit's telemetry predates the end of our last command to it, use the commanded setpoint. */
@@ -207,7 +200,49 @@ public final class ControlCycle {
         return out;
     }
 
-    /** Operator reset of a unit flagged as not following. */
+    /**
+     * A command of an earlier cycle did not land: refused by the unit, failed to publish,
+     * back-pressured or not signable. It does not count as a move: the unit's reported setpoint is
+     * used again at once, the following check forgets the move and the area's next integration is
+     * withheld. A refusal as from a stale epoch (another controller instance has taken over)
+     * suspends this controller for good with reason {@code staleEpoch:{unit}}. After
+     * {@code missedCyclesToFlag} commands in a row to a unit that did not land, the unit leaves the
+     * allocation ({@code unitExcluded}, reason {@code commandsNotExecuted:{reason}}) until a probe
+     * brings it back: its command path cannot be counted on.
+     *
+     * @param unitId     unit the command was for
+     * @param deltaMw    the move the command carried, MW
+     * @param reasonCode stable code, e.g. {@code wrongEpoch}, {@code atLimit}, {@code publishFailed},
+     *                   {@code unsignable}
+     */
+    public void commandNotExecuted(String unitId, double deltaMw, String reasonCode) {
+        lastCommands.remove(unitId);
+        following.withdraw(unitId, deltaMw);
+        String areaId = unitAreas.get(unitId);
+        if (areaId != null && areas.containsKey(areaId)) {
+            areas.get(areaId).onMoveNotExecuted();
+        }
+        if (notExecuted.size() < 1000) {
+            notExecuted.add("commandNotExecuted:" + unitId + ":" + reasonCode);
+        }
+        if ("wrongEpoch".equals(reasonCode) && supersededEpochReason == null) {
+            supersededEpochReason = "staleEpoch:" + unitId;
+        }
+        int inRow = failedInRow.merge(unitId, 1, Integer::sum);
+        if (inRow >= settings.following().missedCyclesToFlag() && areaId != null) {
+            FollowingDecision d = following.excludeForFailedCommands(unitId, areaId, lastCycleMs, inRow, reasonCode);
+            if (d != null) {
+                pendingDecisions.add(d);
+            }
+        }
+    }
+
+    /** A command to the unit was accepted: its run of commands that did not land ends. */
+    public void commandAccepted(String unitId) {
+        failedInRow.remove(unitId);
+    }
+
+    /** Operator reset of a unit flagged as not following: it returns to the allocation at once. */
     public void resetFollowing(String unitId) {
         following.reset(unitId);
     }

@@ -1,7 +1,10 @@
 package org.loopstand.controller.cycle;
 
 import java.util.List;
+import java.util.Set;
+import java.util.TreeSet;
 import org.loopstand.controller.following.FollowingCheck;
+import org.loopstand.controller.following.FollowingDecision;
 import org.loopstand.controller.pulse.PlannedCommand;
 import org.loopstand.controller.safety.InterlockState;
 
@@ -15,16 +18,29 @@ import org.loopstand.controller.safety.InterlockState;
  * @param areas       per-area ACE, regulation and allocation
  * @param commands    commands to send now (empty while suspended)
  * @param following   unit-following checks of this cycle
- * @param notes       other things worth reporting, e.g. {@code redispatchInfeasible:areaA}
+ * @param notes       other things worth reporting, e.g. {@code redispatch:areaA:lambda=…},
+ *                    {@code redispatchInfeasible:areaA:…}, {@code commandNotExecuted:U1:expired}
+ * @param decisions   unit exclusions, re-admission probes and re-admissions of this cycle
+ * @param excludedUnits units flagged as not following after this cycle, sorted
  */
 public record CycleOutcome(long cycleNumber, long nowMs, InterlockState state, List<String> reasons,
                            List<AreaCycleResult> areas, List<PlannedCommand> commands,
-                           List<FollowingCheck> following, List<String> notes) {
+                           List<FollowingCheck> following, List<String> notes, List<FollowingDecision> decisions,
+                           Set<String> excludedUnits) {
     public CycleOutcome {
         reasons = List.copyOf(reasons);
         areas = List.copyOf(areas);
         commands = List.copyOf(commands);
         following = List.copyOf(following);
         notes = List.copyOf(notes);
+        decisions = List.copyOf(decisions);
+        excludedUnits = java.util.Collections.unmodifiableSet(new TreeSet<>(excludedUnits));
+    }
+
+    /** Without following decisions. */
+    public CycleOutcome(long cycleNumber, long nowMs, InterlockState state, List<String> reasons,
+                        List<AreaCycleResult> areas, List<PlannedCommand> commands,
+                        List<FollowingCheck> following, List<String> notes) {
+        this(cycleNumber, nowMs, state, reasons, areas, commands, following, notes, List.of(), Set.of());
     }
 }

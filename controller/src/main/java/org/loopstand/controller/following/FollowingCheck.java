@@ -14,8 +14,17 @@ package org.loopstand.controller.following;
  * @param flaggedNow    flagged on this check
  * @param returnedNow   returned to the allocation on this check
  * @param allowanceMw   governor allowance added to the tolerance on this check, MW (≥ 0)
+ * @param probing       this check judged a re-admission probe of the flagged unit
+ * @param probeFailedNow the probe under way was not followed ({@code missedCyclesToFlag} misses)
  */
 public record FollowingCheck(String unitId, boolean evaluated, double expectedMw, double measuredMw, double shortfallMw,
                              boolean following, int missedCycles, boolean flagged, boolean flaggedNow,
-                             boolean returnedNow, double allowanceMw) {
+                             boolean returnedNow, double allowanceMw, boolean probing, boolean probeFailedNow) {
+    /** A check outside any probe. */
+    public FollowingCheck(String unitId, boolean evaluated, double expectedMw, double measuredMw, double shortfallMw,
+                          boolean following, int missedCycles, boolean flagged, boolean flaggedNow,
+                          boolean returnedNow, double allowanceMw) {
+        this(unitId, evaluated, expectedMw, measuredMw, shortfallMw, following, missedCycles, flagged, flaggedNow,
+                returnedNow, allowanceMw, false, false);
+    }
 }

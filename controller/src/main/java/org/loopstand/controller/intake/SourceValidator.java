@@ -76,6 +76,8 @@ public final class SourceValidator {
         }
         if (Double.isFinite(v) && frozen.accept(v, sample.sourceTimeMs())) {
             r.add(ValidationReason.FROZEN);
+            // the samples of the run were the frozen value too: none of them may be held as good
+            lastGood = null;
         }
         latest = sample;
         latestReasons = r;

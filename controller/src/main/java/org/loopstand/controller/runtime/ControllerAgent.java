@@ -15,6 +15,7 @@ import org.loopstand.controller.cycle.CycleInputs;
 import org.loopstand.controller.cycle.CycleOutcome;
 import org.loopstand.controller.cycle.CycleScheduler;
 import org.loopstand.controller.cycle.CycleTick;
+import org.loopstand.controller.following.FollowingDecision;
 import org.loopstand.controller.intake.IntakeObserver;
 import org.loopstand.controller.intake.IntakeRouter;
 import org.loopstand.controller.pulse.CommandKind;
@@ -71,9 +72,11 @@ public final class ControllerAgent implements Agent {
     private final MessageCodec codec = new MessageCodec();
     private final IntakeRouter intake;
     private final ControlCycle cycle;
+    private final CommandOutcomes outcomes;
     private final InputUseJournal inputUse;
     private final ConcurrentLinkedQueue<String> publishFailures = new ConcurrentLinkedQueue<>();
     private final ConcurrentLinkedQueue<Map<String, Object>> journalEvents = new ConcurrentLinkedQueue<>();
+    private final ExclusionList excluded = new ExclusionList();
     private volatile boolean linkUp;
     private CommandSigner signer;
     private long unsignable;
@@ -113,6 +116,7 @@ public final class ControllerAgent implements Agent {
         metrics.attach(this);
         this.topics = TopicTree.forSite(site.siteId());
         this.cycle = new ControlCycle(site.toCycleSettings());
+        this.outcomes = new CommandOutcomes(cycle, controllerId);
         this.intake = new IntakeRouter(site, clock, codec, new Observer());
         this.inputUse = new InputUseJournal(site, intake);
         if (busClock != null) {
@@ -223,6 +227,7 @@ public final class ControllerAgent implements Agent {
             histograms.record(JITTER_TAG, tick.jitterNanos() / 1000);
         }
         List<AreaAce> aces = areaAces(o);
+        trackExclusions(o, nowMs);
         if (link) {
             for (PlannedCommand c : o.commands()) {
                 send(c, nowMs);
@@ -239,6 +244,7 @@ public final class ControllerAgent implements Agent {
             f.put("areas", aces);
             f.put("commands", o.commands().size());
             f.put("notes", o.notes());
+            f.put("excludedUnits", List.copyOf(o.excludedUnits()));
             f.put("jitterUs", tick.jitterNanos() / 1000);
             f.put("missedBefore", tick.missedBefore());
             f.put("linkUp", link);
@@ -246,6 +252,20 @@ public final class ControllerAgent implements Agent {
             f.put("intake", inputUse.counters());
             journal.append(nowMs, JournalFormat.KIND_DECIDED, f);
         }
+    }
+
+    /**
+     * Journals every exclusion, probe and re-admission of the cycle (event with unit, area, reason
+     * and figures) and keeps the list the status shows.
+     */
+    private void trackExclusions(CycleOutcome o, long nowMs) {
+        for (FollowingDecision d : o.decisions()) {
+            LOG.info("{} {} ({}): {}", d.event(), d.unitId(), d.areaId(), d.reason());
+            if (journal != null) {
+                journal.append(nowMs, JournalFormat.KIND_EVENT, d.journalFields());
+            }
+        }
+        excluded.update(o);
     }
 
     private static List<AreaAce> areaAces(CycleOutcome o) {
@@ -279,15 +299,18 @@ public final class ControllerAgent implements Agent {
                 // no key for the unit: an unsigned command would only be refused, so none is sent
                 unsignable++;
                 publishFailures.add("command " + seq + " to " + c.unitId() + " not signed: " + e.getMessage());
+                outcomes.unsignable(c);
                 return;
             }
         }
         long expiryS = Math.max(1, (c.validUntilMs() - nowMs + 999) / 1000);
         OutboundMessage m = new OutboundMessage(topics.unitCommand(c.unitId()), codec.encode(cmd), Qos.AT_LEAST_ONCE,
                 false, expiryS);
+        outcomes.sent(seq, c);
         bus.publish(m).whenComplete((v, e) -> {
             if (e != null) {
                 publishFailures.add("command " + seq + " to " + c.unitId() + ": " + e);
+                outcomes.publishFailed(seq);
             }
         });
         commandsSent++;
@@ -312,7 +335,7 @@ public final class ControllerAgent implements Agent {
     private void publishStatus(ControllerState state, List<String> reasons, long cycleNumber, List<AreaAce> aces) {
         long nowMs = Math.max(1, clock.epochMillis());
         ControllerStatus s = new ControllerStatus(++statusSeq, nowMs, controllerId, epoch, state, reasons,
-                Math.max(0, cycleNumber), aces);
+                Math.max(0, cycleNumber), aces, excluded.units());
         bus.publish(new OutboundMessage(topics.controllerStatus(controllerId), codec.encode(s), Qos.AT_LEAST_ONCE,
                 true, 0)).whenComplete((v, e) -> {
                     if (e != null) {
@@ -323,6 +346,7 @@ public final class ControllerAgent implements Agent {
     }
 
     private void drainEvents() {
+        outcomes.drain();
         String failure;
         while ((failure = publishFailures.poll()) != null) {
             LOG.warn("publish failed: {}", failure);
@@ -375,6 +399,7 @@ public final class ControllerAgent implements Agent {
 
         @Override
         public void onAck(CommandAck ack, long receivedAtMs) {
+            outcomes.onAck(ack);
             if (journal != null) {
                 Map<String, Object> f = new LinkedHashMap<>();
                 f.put("ack", ack.unit());

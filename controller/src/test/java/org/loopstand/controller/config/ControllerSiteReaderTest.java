@@ -38,6 +38,26 @@ class ControllerSiteReaderTest {
     }
 
     @Test
+    void shouldReadTheReadmissionProbeOfTheFollowingCheckAndRefuseABadOne() {
+        String site = """
+                siteId: s
+                areas:
+                  - {id: a1, nominalFrequencyHz: 50, aceConvention: european, kMwPerHz: 1000}
+                units:
+                  - {id: u1, area: a1}
+                controller:
+                  following: {probeIntervalMs: %s, probeMw: 7.5}
+                """;
+        ControllerSiteConfig c = ControllerSiteReader.read("ok.yaml", site.formatted("90000"));
+        assertThat(c.settings().following().probeIntervalMs()).isEqualTo(90_000);
+        assertThat(c.settings().following().probeMw()).isEqualTo(7.5);
+        assertThatThrownBy(() -> ControllerSiteReader.read("bad.yaml", site.formatted("10")))
+                .isInstanceOf(ControllerConfigException.class)
+                .satisfies(e -> assertThat(((ControllerConfigException) e).problems())
+                        .anySatisfy(p -> assertThat(p).contains("probeIntervalMs")));
+    }
+
+    @Test
     void shouldNameEveryProblemWithFileAndLine() {
         assertThatThrownBy(() -> ControllerSiteReader.read("bad.yaml", """
                 siteId: s

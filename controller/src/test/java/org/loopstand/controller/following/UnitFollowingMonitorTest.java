@@ -93,4 +93,100 @@ class UnitFollowingMonitorTest {
         assertThat(c.shortfallMw()).isCloseTo(20, within(1e-9));
         assertThat(c.flagged()).isTrue();
     }
+
+    @Test
+    void shouldKeepTheLargestGovernorAllowanceOfTheMoveAfterTheWindowHasPassedTheDisturbance() {
+        UnitFollowingMonitor m = new UnitFollowingMonitor(settings);
+        // baseline 10 MW high (taken while the governor share was in it), allowance 0 at the baseline
+        m.onCommand("U1", 4, T0, 110, 0);
+        FollowingCheck c = null;
+        for (int k = 1; k <= 10; k++) {
+            // 12 MW of governor spread while the excursion is in the window, then none
+            double uncertainty = k <= 3 ? 12 : 0;
+            c = m.check("U1", T0 + k * CYCLE, 104, 60, uncertainty);
+        }
+        // 10 MW short of 114 MW, within 1 + 12 MW: the share seen during the move is still allowed for
+        assertThat(c.shortfallMw()).isCloseTo(10, within(1e-9));
+        assertThat(c.allowanceMw()).isCloseTo(12, within(1e-9));
+        assertThat(m.flagged("U1")).isFalse();
+    }
+
+    @Test
+    void shouldJudgeEachReadingOnceAndAtItsOwnTime() {
+        UnitFollowingMonitor m = new UnitFollowingMonitor(settings);
+        m.onCommand("U1", 10, T0, 100);
+        // the same reading (taken at T0 + 4 s) seen by five cycles: judged once, against what the unit
+        // could have done by then (expected at T0 + 4 s − 4 s dead time = 100 MW)
+        for (int k = 1; k <= 5; k++) {
+            FollowingCheck c = m.check("U1", T0 + k * CYCLE, T0 + CYCLE, 100, 60, 0);
+            assertThat(c.evaluated()).isEqualTo(k == 1);
+            assertThat(c.following()).isTrue();
+        }
+        assertThat(m.flagged("U1")).isFalse();
+    }
+
+    @Test
+    void shouldCorrectABaselineWhenTheFrequencyValidAtItsReadingArrives() {
+        UnitFollowingMonitor m = new UnitFollowingMonitor(settings);
+        m.onCommand("U1", 10, T0, 120);
+        m.rebase("U1", -20); // the governor share of 20 MW in the baseline becomes known
+        for (int k = 1; k <= 6; k++) {
+            double measured = 100 + Math.min(10, Math.max(0, (k * CYCLE - 4000) / 1000.0));
+            assertThat(m.check("U1", T0 + k * CYCLE, measured, 60).following()).as("check %d", k).isTrue();
+        }
+        assertThat(m.idle("U1")).isTrue();
+    }
+
+    @Test
+    void shouldReadmitAFlaggedUnitOnlyWhenItCompletesAProbeInTime() {
+        UnitFollowingMonitor m = new UnitFollowingMonitor(settings);
+        m.onCommand("U1", 10, T0, 100);
+        long t = T0;
+        for (int k = 1; k <= 4; k++) {
+            t = T0 + k * CYCLE;
+            m.check("U1", t, 100, 60);
+        }
+        assertThat(m.flagged("U1")).isTrue();
+        assertThat(m.probeDue("U1", t)).isFalse();
+        long due = t + FollowingSettings.DEFAULT_PROBE_INTERVAL_MS;
+        assertThat(m.probeDue("U1", due)).isTrue();
+        // first probe: the unit does not move; deadline 2 · 4 s + 5 MW at 60 MW/min = 13 s
+        m.startProbe("U1", 5, due, 100, 0, 60);
+        FollowingCheck failed = null;
+        for (int k = 1; k <= 4 && failed == null; k++) {
+            FollowingCheck c = m.check("U1", due + k * CYCLE, 100, 60);
+            assertThat(c.probing()).isTrue();
+            failed = c.probeFailedNow() ? c : null;
+        }
+        assertThat(failed).isNotNull();
+        assertThat(failed.flagged()).isTrue();
+        long next = due + 4 * CYCLE + FollowingSettings.DEFAULT_PROBE_INTERVAL_MS;
+        assertThat(m.probeDue("U1", next - 1)).isFalse();
+        assertThat(m.probeDue("U1", next)).isTrue();
+        // second probe: the unit makes it after its dead time
+        m.startProbe("U1", 5, next, 100, 0, 60);
+        FollowingCheck back = null;
+        for (int k = 1; k <= 4 && back == null; k++) {
+            FollowingCheck c = m.check("U1", next + k * CYCLE, k == 1 ? 100 : 105, 60);
+            back = c.returnedNow() ? c : null;
+        }
+        assertThat(back).isNotNull();
+        assertThat(back.probing()).isTrue();
+        assertThat(m.flagged("U1")).isFalse();
+    }
+
+    @Test
+    void shouldNotReturnAFlaggedUnitThatPassesOnlyThanksToTheGovernorAllowance() {
+        UnitFollowingMonitor m = new UnitFollowingMonitor(settings);
+        m.onCommand("U1", 10, T0, 100, 0);
+        for (int k = 1; k <= 4; k++) {
+            m.check("U1", T0 + k * CYCLE, 100, 60, 0);
+        }
+        assertThat(m.flagged("U1")).isTrue();
+        // a frequency excursion gives 20 MW of allowance: the idle unit passes but is not back
+        for (int k = 5; k <= 10; k++) {
+            assertThat(m.check("U1", T0 + k * CYCLE, 100, 60, 20).following()).isTrue();
+        }
+        assertThat(m.flagged("U1")).isTrue();
+    }
 }

@@ -59,8 +59,14 @@ class ShippedScenariosWithControllerTest {
     static Run runOnce(String file) throws Exception {
         Path sitePath = CONFIG.resolve("sites/demo-site.yaml");
         Grid grid = SiteLoader.load(sitePath);
-        ControllerSiteConfig site = ControllerSiteReader.read(sitePath);
         RunScenario rs = RunScenarioLoader.load(CONFIG.resolve("scenarios/" + file), EventTypeRegistry.physics(), grid);
+        return runOnce(sitePath, rs);
+    }
+
+    /** One lockstep run of {@code rs} on the site file {@code sitePath} with our controller. */
+    static Run runOnce(Path sitePath, RunScenario rs) throws Exception {
+        Grid grid = SiteLoader.load(sitePath);
+        ControllerSiteConfig site = ControllerSiteReader.read(sitePath);
         ControllerAgent[] controller = new ControllerAgent[1];
         List<String> linkStates = new java.util.concurrent.CopyOnWriteArrayList<>();
         RehearsalStudy.Result r = new RehearsalStudy(grid, rs, 1.0, c -> {
@@ -99,6 +105,8 @@ class ShippedScenariosWithControllerTest {
                 Arguments.of("rehearse-unit-trip.yaml", expect("frequency-back", true, "tie-back", true, "ace-recovered", true)),
                 Arguments.of("rehearse-meter-freeze.yaml", expect("no-pulse-on-frozen-meter", true, "controller-suspends", true,
                         "frequency-back", true)),
+                Arguments.of("rehearse-frequency-hold.yaml", expect("no-pulse-on-held-frequency", true,
+                        "controller-suspends", true, "frequency-back", true)),
                 Arguments.of("rehearse-tie-sign-flip.yaml", expect("controller-suspends", true, "tie-held", true)),
                 Arguments.of("rehearse-telemetry-loss.yaml", expect("frequency-back", true, "ace-recovered", true)),
                 Arguments.of("rehearse-broker-outage.yaml", expect("no-pulse-while-blind", true, "frequency-back", true)),
@@ -150,6 +158,27 @@ class ShippedScenariosWithControllerTest {
         // the no-command check is not vacuous: the north units got commands before and after the stale window [160, 420) s
         assertThat(commandsIssuedOutside(r, "basin-", 160, 420)).isGreaterThan(10);
         assertThat(r.outcome("no-pulse-on-frozen-meter").detail()).doesNotStartWith("0 of 0");
+    }
+
+    @Test
+    void shouldSuspendOnTheNorthFrequencyHoldingItsLastValueByDefaultDetection() throws Exception {
+        RehearsalStudy.Result r = run("rehearse-frequency-hold.yaml").result();
+        RunRecord.StatusRecord s = firstSuspended(r, 140);
+        // the demo site leaves frequency freeze detection at its default: 12 equal readings (2 s scans)
+        // = 22 s after the hold began, seen at the next 4 s cycle → within 26 s; a frozen run is not held
+        assertThat(s.receivedS() - 140).isBetween(0.0, 26.0);
+        assertThat(s.status().reasons()).containsExactly("frequencyUnusable:north-basin");
+        assertThat(r.record().statuses()).filteredOn(st -> st.receivedS() >= s.receivedS() && st.receivedS() < 420)
+                .allSatisfy(st -> assertThat(st.status().state()).isEqualTo(ControllerState.SUSPENDED));
+        // no command to the north after the detection, while the held frequency would give a false ACE
+        long start = r.record().runStartEpochMs();
+        assertThat(r.record().commands()).filteredOn(c -> c.command().unit().startsWith("basin-"))
+                .filteredOn(c -> (c.command().issuedAt() - start) / 1000.0 >= s.receivedS()
+                        && (c.command().issuedAt() - start) / 1000.0 < 420)
+                .isEmpty();
+        assertThat(commandsIssuedOutside(r, "basin-", 140, 420)).isGreaterThan(10);
+        assertThat(r.outcome("no-pulse-on-held-frequency").passed()).isTrue();
+        assertThat(r.outcome("frequency-back").passed()).isTrue();
     }
 
     @Test

@@ -60,7 +60,8 @@ public final class CheckLibrary {
                 RestorationChecks::aceRecovered));
         t.add(new CheckType("noPulseWhileStale", List.of(choice("area", null, List.of(), "area whose meter was stale"),
                 number("detectS", "s", 0, 3600, 12.0, "allowance to notice stale data (three 4 s cycles)")), false, false,
-                "no pulse or setpoint issued to the area's units while its meter data was stale or lost, after detectS",
+                "no pulse or setpoint issued to the area's units while its meter data was stale, lost or faulty (value "
+                        + "faults such as holdLast, stuckAt, bias), after detectS",
                 CommandChecks::noPulseWhileStale));
         t.add(new CheckType("expiredCommandsRefused", List.of(choice("unit", null, List.of(), "unit id"),
                 number("minExpired", "commands", 0, 1_000_000, 1.0, "fewest expired commands that must arrive for a verdict")),

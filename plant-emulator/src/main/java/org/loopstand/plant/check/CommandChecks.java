@@ -16,16 +16,18 @@ final class CommandChecks {
     }
 
     /**
-     * No pulse or setpoint issued to a unit of the area while its meter data was stale or lost (a stale,
-     * loss or plant-connection fault acting on it), after a detection allowance of detectS. Setpoints
-     * count as well: a controller that prefers setpoints moves units just as blindly with them.
+     * No pulse or setpoint issued to a unit of the area while its meter data was stale, lost or wrong
+     * (a stale, loss, value or plant-connection fault acting on it: a frozen or falsified value is as
+     * unusable as a missing one), after a detection allowance of detectS. Setpoints count as well: a
+     * controller that prefers setpoints moves units just as blindly with them.
      */
     static CheckOutcome noPulseWhileStale(CheckSpec spec, RunRecord run, Grid grid) {
         String area = spec.text("area");
         double detectS = spec.number("detectS");
         List<double[]> windows = new ArrayList<>();
         for (RunRecord.FaultWindow w : run.faults()) {
-            boolean meterFault = (w.category().equals("STALE") || w.category().equals("LOSS")) && w.targets().contains(area);
+            boolean meterFault = (w.category().equals("STALE") || w.category().equals("LOSS")
+                    || w.category().equals("VALUE")) && w.targets().contains(area);
             boolean linkFault = w.category().equals("CONNECTION") && w.targets().contains("plant");
             if (meterFault || linkFault) {
                 windows.add(new double[] {w.startS() + detectS, Math.min(w.endS(), run.endS())});
@@ -33,7 +35,8 @@ final class CommandChecks {
         }
         if (windows.isEmpty()) {
             return new CheckOutcome(spec.name(), false, Double.NaN, "commands", 0,
-                    "no stale or loss fault acted on the meters of " + area + " during the run: nothing to judge", false);
+                    "no stale, loss or value fault acted on the meters of " + area + " during the run: nothing to judge",
+                    false);
         }
         Set<String> units = grid.units().stream().filter(u -> u.area().equals(area)).map(GeneratingUnit::id)
                 .collect(Collectors.toSet());
@@ -53,7 +56,8 @@ final class CommandChecks {
         String when = windows.stream().map(w -> "[" + CheckOutcome.format(w[0]) + ", " + CheckOutcome.format(w[1]) + ") s")
                 .collect(Collectors.joining(", "));
         return new CheckOutcome(spec.name(), bad == 0, bad, "commands", 0, bad + " of " + considered
-                + " commands (pulses and setpoints) to units of " + area + " were issued while its meter data was stale (" + when + ", after "
+                + " commands (pulses and setpoints) to units of " + area + " were issued while its meter data was stale or faulty ("
+                + when + ", after "
                 + CheckOutcome.format(detectS) + " s to notice)", false);
     }
 

@@ -111,6 +111,9 @@ public final class FaultLibrary {
                 METER, POINT,
                 number("valueMw", "MW", -1_000_000, 1_000_000, Double.NaN, "value of a MW point (required for MW points)"),
                 number("valueHz", "Hz", 40, 70, Double.NaN, "value of a frequency (required for frequency)")));
+        t.add(typeWith("holdLast", FaultCategory.VALUE, STREAMS, "override",
+                "one point keeps the value it had when the fault started; seq, sourceTime, quality and the "
+                        + "other points stay live", METER, POINT));
         t.add(typeWith("quality", FaultCategory.VALUE, STREAMS, "quality", "the value's quality is replaced",
                 METER, POINT,
                 choice("validity", "invalid", List.of("questionable", "invalid"), "validity published"),

@@ -149,6 +149,8 @@ public final class FaultyPublisher implements Agent {
                         k -> Records.sourceTime(st.lastTruth != null ? st.lastTruth : truth)));
                 case "clockOffset" -> clockShiftMs += Math.round(f.number("offsetMs"));
                 case "clockDrift" -> clockShiftMs += Math.round(f.number("driftMsPerS") * activeS);
+                case "holdLast" -> values.add(new ValueFaults.Applied(f, activeS, st.count(f.id()),
+                        st.frozen.computeIfAbsent(f.id(), k -> st.lastTruth != null ? st.lastTruth : truth)));
                 default -> {
                     if (f.type().category() == FaultCategory.VALUE) {
                         values.add(new ValueFaults.Applied(f, activeS, st.count(f.id())));

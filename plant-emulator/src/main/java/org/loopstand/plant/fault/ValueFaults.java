@@ -27,8 +27,14 @@ public final class ValueFaults {
      * @param spec         the fault
      * @param activeForS   seconds since it started, for drift
      * @param messageIndex messages of this stream it has acted on before this one (0 = first), for spike
+     * @param heldRecord   for holdLast: the truth record of this stream when the fault started
+     *                     (its point's value is published instead); null otherwise
      */
-    public record Applied(FaultSpec spec, double activeForS, int messageIndex) {
+    public record Applied(FaultSpec spec, double activeForS, int messageIndex, Object heldRecord) {
+        /** A fault that holds no record. */
+        public Applied(FaultSpec spec, double activeForS, int messageIndex) {
+            this(spec, activeForS, messageIndex, null);
+        }
     }
 
     /** @return the meter record as published with {@code faults} applied in order */
@@ -40,17 +46,20 @@ public final class ValueFaults {
         List<TieFlow> ties = new ArrayList<>(m.ties());
         for (Applied a : faults) {
             String point = a.spec().point();
+            AreaMeter held = a.heldRecord() instanceof AreaMeter h ? h : null;
             if (FaultLibrary.POINT_FREQUENCY.equals(point)) {
-                f = value(a, f, true, nominalHz, random);
+                f = held != null ? held.frequencyHz() : value(a, f, true, nominalHz, random);
                 fq = quality(a, fq);
             } else if (FaultLibrary.POINT_NET_INTERCHANGE.equals(point)) {
-                ni = value(a, ni, false, nominalHz, random);
+                ni = held != null ? held.netInterchangeMw() : value(a, ni, false, nominalHz, random);
                 nq = quality(a, nq);
             } else {
                 for (int i = 0; i < ties.size(); i++) {
                     TieFlow t = ties.get(i);
                     if (t.tie().equals(point)) {
-                        ties.set(i, new TieFlow(t.tie(), value(a, t.flowMw(), false, nominalHz, random), quality(a, t.quality())));
+                        double v = held != null ? heldTie(held, point, t.flowMw())
+                                : value(a, t.flowMw(), false, nominalHz, random);
+                        ties.set(i, new TieFlow(t.tie(), v, quality(a, t.quality())));
                     }
                 }
             }
@@ -58,12 +67,21 @@ public final class ValueFaults {
         return new AreaMeter(m.seq(), m.sourceTime(), m.area(), m.meter(), f, fq, ties, ni, nq);
     }
 
+    private static double heldTie(AreaMeter held, String tie, double live) {
+        for (TieFlow t : held.ties()) {
+            if (t.tie().equals(tie)) {
+                return t.flowMw();
+            }
+        }
+        return live;
+    }
+
     /** @return the telemetry as published with {@code faults} applied to outputMw and its quality */
     public static UnitTelemetry apply(UnitTelemetry t, List<Applied> faults, RandomGenerator random) {
         double out = t.outputMw();
         Quality q = t.outputQuality();
         for (Applied a : faults) {
-            out = value(a, out, false, 0, random);
+            out = a.heldRecord() instanceof UnitTelemetry held ? held.outputMw() : value(a, out, false, 0, random);
             q = quality(a, q);
         }
         return new UnitTelemetry(t.seq(), t.sourceTime(), t.unit(), out, q, t.setpointMw(), t.status(), t.controlMode(),

@@ -187,14 +187,15 @@ public final class RunScenarioLoader {
             }
             if (type.equals("noPulseWhileStale") && faults.stream().noneMatch(f -> staleOn(f, spec.text("area")))) {
                 problems.add(where(r, "area") + ": check " + name + ": no stale or loss fault of this scenario acts on the meters of "
-                        + spec.text("area"));
+                        + spec.text("area") + " (nor a value fault)");
             }
             checks.add(spec);
         }
 
         private static boolean staleOn(FaultSpec f, String area) {
             FaultCategory c = f.type().category();
-            return ((c == FaultCategory.STALE || c == FaultCategory.LOSS) && f.targets().stream().anyMatch(t -> t.id().equals(area)))
+            return ((c == FaultCategory.STALE || c == FaultCategory.LOSS || c == FaultCategory.VALUE)
+                    && f.targets().stream().anyMatch(t -> t.id().equals(area)))
                     || (c == FaultCategory.CONNECTION && f.targets().stream().anyMatch(t -> t.id().equals(TargetCatalog.PLANT_CONNECTION)));
         }
 

@@ -116,6 +116,24 @@ class CheckEvaluationTest {
     }
 
     @Test
+    void shouldCountCommandsIssuedWhileOnePointOfTheMeterHeldItsLastValue() {
+        FaultSpec hold = FaultSpec.builder(FaultLibrary.standard(), catalog).id("hl").type("holdLast")
+                .target("north-basin").window(100, 200).build();
+        RunRecord run = new RunRecord(T0);
+        run.faultStarted(T0 + 100_000, hold, "scenario");
+        run.faultStopped(T0 + 200_000, hold, "scenario", "window ended");
+        run.end(300);
+        run.commandHandled(T0 + 110_000, pulse(1, "basin-steam-1", 110, 8000), AckOutcome.ACCEPTED, null, true);
+        run.commandHandled(T0 + 150_000, pulse(2, "basin-steam-1", 150, 8000), AckOutcome.ACCEPTED, null, true);
+        // detectS 30 (a frozen value takes longer to notice than a silent meter): judged [130, 200) s
+        CheckOutcome out = check("noPulseWhileStale", Map.of("area", "north-basin", "detectS", 30.0))
+                .evaluate(run, grid);
+        assertThat(out.passed()).isFalse();
+        assertThat(out.decidingFigure()).isEqualTo(1);
+        assertThat(out.detail()).contains("1 of 2 commands").contains("[130, 200) s");
+    }
+
+    @Test
     void shouldFindEveryExpiredCommandThatWasNotRefusedAsExpired() {
         RunRecord run = new RunRecord(T0);
         run.commandHandled(T0 + 20_000, pulse(1, "basin-steam-2", 10, 8000), AckOutcome.REJECTED, RefusalReason.EXPIRED, false);

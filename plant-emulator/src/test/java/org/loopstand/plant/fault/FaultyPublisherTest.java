@@ -246,6 +246,23 @@ class FaultyPublisherTest {
     }
 
     @Test
+    void shouldHoldOnePointAtItsLastValueWhileTheOthersAndTheTimestampsStayLive() {
+        FaultRig rig = runWith("holdLast", "north-basin", Map.of());
+        List<AreaMeter> sent = rig.sentMeters();
+        // the fault acts from scan 5 on: the frequency of scan 4 (the last truth before it) is kept
+        double heldHz = rig.truthMeters.get(4).frequencyHz();
+        assertThat(sent.subList(5, 15)).allSatisfy(m -> {
+            assertThat(m.frequencyHz()).isEqualTo(heldHz);
+            assertThat(m.frequencyQuality().validity()).isEqualTo(Validity.GOOD);
+        });
+        assertThat(sent.subList(5, 15)).extracting(AreaMeter::sourceTime).doesNotHaveDuplicates();
+        assertThat(rig.truthMeters.subList(5, 15)).extracting(AreaMeter::frequencyHz).anyMatch(f -> f != heldHz);
+        for (int i = 5; i < 15; i++) {
+            assertThat(sent.get(i).ties().get(0).flowMw()).isEqualTo(rig.truthMeters.get(i).ties().get(0).flowMw());
+        }
+    }
+
+    @Test
     void shouldMarkTheQualityInvalidWithAFlag() {
         FaultRig rig = runWith("quality", "north-basin", Map.of("point", "basin-ridge", "validity", "invalid", "flag", "failure"));
         AreaMeter m = rig.sentMeters().get(6);

@@ -17,7 +17,7 @@ import org.junit.jupiter.params.provider.ValueSource;
 class ShippedSitesStabilityTest {
 
     @ParameterizedTest
-    @ValueSource(strings = {"demo-site.yaml", "three-area.yaml"})
+    @ValueSource(strings = {"demo-site.yaml", "three-area.yaml", "three-area-50.yaml"})
     void shouldHaveOnlyDampedModes(String file) throws Exception {
         GridSimulator sim = new GridSimulator(SiteLoader.load(Path.of("..", "config", "sites", file)));
         for (Complex mode : ModalAnalysis.eigenvalues(sim)) {

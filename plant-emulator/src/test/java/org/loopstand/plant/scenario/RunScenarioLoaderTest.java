@@ -36,7 +36,7 @@ class RunScenarioLoaderTest {
         try (Stream<Path> s = Files.list(CONFIG.resolve("scenarios"))) {
             files = s.filter(p -> p.getFileName().toString().startsWith("rehearse-")).sorted().toList();
         }
-        assertThat(files).hasSize(8);
+        assertThat(files).hasSize(9); // eight, and rehearse-frequency-hold.yaml
         for (Path f : files) {
             RunScenario r = RunScenarioLoader.load(f, EventTypeRegistry.physics(), demo());
             assertThat(r.checks()).as(f.toString()).isNotEmpty();

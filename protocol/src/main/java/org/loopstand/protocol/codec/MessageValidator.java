@@ -28,6 +28,7 @@ import org.loopstand.protocol.message.ClockTick;
 import org.loopstand.protocol.message.CommandAck;
 import org.loopstand.protocol.message.CommandKind;
 import org.loopstand.protocol.message.ControllerStatus;
+import org.loopstand.protocol.message.ExcludedUnit;
 import org.loopstand.protocol.message.FaultOrder;
 import org.loopstand.protocol.message.FieldReading;
 import org.loopstand.protocol.message.FieldReference;
@@ -222,6 +223,17 @@ public final class MessageValidator {
         atLeast("cycle", m.cycle(), 0);
         list("areas", m.areas(), MessageValidator::areaAce);
         unique("areas", m.areas(), AreaAce::area, "area");
+        if (m.excludedUnits() != null) {
+            list("excludedUnits", m.excludedUnits(), MessageValidator::excludedUnit);
+            unique("excludedUnits", m.excludedUnits(), ExcludedUnit::unit, "unit");
+        }
+    }
+
+    private static void excludedUnit(String path, ExcludedUnit u) {
+        id(at(path, "unit"), u.unit());
+        id(at(path, "area"), u.area());
+        text(at(path, "reason"), u.reason(), MAX_TEXT_CHARS);
+        mw(at(path, "shortfallMw"), u.shortfallMw());
     }
 
     private static void areaAce(String path, AreaAce ace) {

@@ -14,12 +14,21 @@ import java.util.Objects;
  * @param reasons      why it is not regulating (free text, each 1 to 256 characters), may be empty
  * @param cycle        control cycle count, ≥ 0
  * @param areas        ACE of each area (area ids unique)
+ * @param excludedUnits units taken out of the allocation and why (unit ids unique); optional, absent
+ *                     when none is excluded
  */
 public record ControllerStatus(long seq, long sourceTime, String controllerId, long epoch, ControllerState state,
-        List<String> reasons, long cycle, List<AreaAce> areas) {
+        List<String> reasons, long cycle, List<AreaAce> areas, @OptionalField List<ExcludedUnit> excludedUnits) {
     public ControllerStatus {
         Objects.requireNonNull(controllerId, "controllerId");
         reasons = List.copyOf(reasons);
         areas = List.copyOf(areas);
+        excludedUnits = excludedUnits == null || excludedUnits.isEmpty() ? null : List.copyOf(excludedUnits);
+    }
+
+    /** A status that excludes no unit. */
+    public ControllerStatus(long seq, long sourceTime, String controllerId, long epoch, ControllerState state,
+                            List<String> reasons, long cycle, List<AreaAce> areas) {
+        this(seq, sourceTime, controllerId, epoch, state, reasons, cycle, areas, null);
     }
 }
