@@ -247,6 +247,10 @@ public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.p
         Map<String, Object> areas = new LinkedHashMap<>();
         s.areas().forEach(a -> areas.put(a.area(), Map.of("aceMw", a.aceMw(), "filteredAceMw", a.filteredAceMw(), "band", a.band())));
         f.put("areas", areas);
+        if (s.excludedUnits() != null) {
+            f.put("excludedUnits", s.excludedUnits().stream().map(x -> Map.of("unit", x.unit(), "area", x.area() == null ? "" : x.area(),
+                    "reason", x.reason() == null ? "" : x.reason(), "shortfallMw", x.shortfallMw())).toList());
+        }
         journal.append(arrivedMs, "controllerStatus", f);
     }
 

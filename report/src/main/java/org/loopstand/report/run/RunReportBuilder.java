@@ -182,6 +182,7 @@ public final class RunReportBuilder {
             ph.path("units").fields().forEachRemaining(en -> unitAreas.put(en.getKey(), en.getValue().asText()));
         }
         sections.add(CommandPathFigures.section(plant, unitAreas, views, (end - start) / 1000.0, meterScanS(ph)));
+        sections.add(ControllerDecisions.section(plant, start));
         RunCharts.addCommandAndStateCharts(charts, plant, ctl, meters, areas, start, end);
         sections.addAll(CommunicationFigures.sections(plant, ctl, ph, (end - start) / 1000.0));
 

@@ -110,9 +110,16 @@ class PlantSideFiguresTest {
         plant.append(T0 + 47_500, "command", command("u1", 4, "accepted", null, 201, 202, T0 + 47_350, T0 + 51_350));
         // the controller's statuses as the plant received them: every 4 s, one 12 s gap at 24 → 36 s
         for (long t : new long[] {0, 4, 8, 12, 16, 20, 24, 36, 40, 44, 48, 52}) {
-            plant.append(T0 + t * 1000 + 50, "controllerStatus", Map.of("controllerId", "theirs-1", "seq", t, "sourceTime",
+            Map<String, Object> st = new LinkedHashMap<>(Map.of("controllerId", "theirs-1", "seq", t, "sourceTime",
                     T0 + t * 1000, "epoch", 7, "state", t < 36 ? "regulating" : "suspended", "cycle", t / 4,
                     "areas", Map.of("a", Map.of("aceMw", -(ace(t)), "filteredAceMw", 0.0, "band", "regulating"))));
+            if (t >= 36) {
+                st.put("reasons", List.of("frequencyUnusable:a"));
+            }
+            if (t == 40 || t == 44) {
+                st.put("excludedUnits", List.of(Map.of("unit", "u2", "area", "a", "reason", "notFollowing", "shortfallMw", 3.5)));
+            }
+            plant.append(T0 + t * 1000 + 50, "controllerStatus", st);
         }
         plant.append(T0 + 60_000, "check", Map.of("name", "c1", "passed", true, "decidingFigure", "1", "limit", "2", "source", ""));
         plant.close(T0 + 60_000, EndReason.COMPLETED);
@@ -192,6 +199,20 @@ class PlantSideFiguresTest {
                 .doesNotContain("acks lost plant → controller", "acks received by the controller");
         assertThat(Double.parseDouble(metric(m, "Area a: frequency quality, from the meters as published", "CPS1").value()))
                 .isFinite();
+    }
+
+    @Test
+    void shouldListTheControllersDecisionsWithTheirReasonsFromItsStatuses() {
+        writeRun();
+        ReportModel m = RunReportBuilder.build(RunFolder.read(run), Map.of(), List.of(), "test");
+        List<Metric> rows = m.sections().stream().filter(s -> s.title().startsWith("Controller decisions as the plant saw them"))
+                .findFirst().orElseThrow().metrics();
+        // arrival times are 50 ms after each status: rounded to whole seconds of the run
+        assertThat(rows).extracting(x -> x.name() + " " + x.value() + " | " + x.note()).containsExactly(
+                "0 s theirs-1 regulating | ",
+                "36 s theirs-1 suspended | reasons frequencyUnusable:a",
+                "40 s u2 excluded | reason notFollowing, shortfall 3.50 MW, area a",
+                "48 s u2 re-admitted | after notFollowing");
     }
 
     @Test
