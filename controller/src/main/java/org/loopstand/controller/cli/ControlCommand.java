@@ -20,6 +20,7 @@ import org.loopstand.protocol.security.AuthOptions;
 import org.loopstand.protocol.security.CommandSigner;
 import org.loopstand.protocol.security.LinkSecurity;
 import org.loopstand.protocol.security.SecuritySetupException;
+import org.loopstand.protocol.security.StatusSeal;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.WallClock;
 import picocli.CommandLine.Command;
@@ -90,8 +91,14 @@ public final class ControlCommand implements Callable<Integer> {
         Clock wall = WallClock.INSTANCE;
         BusClock busClock = "bus".equals(clockMode) ? new BusClock(wall) : null;
         Clock clock = busClock != null ? busClock : wall;
-        long epoch = wall.epochMillis();
-        OutboundMessage will = ControllerAgent.offlineStatus(config.siteId(), controllerId, epoch, epoch);
+        long epoch = wall.epochMillis(); // epoch ms, see CommandTimeRules
+        StatusSeal seal = security.keys().map(k -> new StatusSeal(k, new MessageCodec())).orElse(null);
+        if (seal != null && !seal.hasKeyFor(controllerId)) {
+            System.err.println("control: the keys file has no status key for " + controllerId + " (a line "
+                    + controllerId + ".<keyId> = <base64>); statuses go out unsigned");
+            seal = null;
+        }
+        OutboundMessage will = ControllerAgent.offlineStatus(config.siteId(), controllerId, epoch, epoch, seal);
         MessageBus bus;
         try {
             bus = BusConnector.connect(broker, controllerId, will, security);
@@ -109,6 +116,9 @@ public final class ControlCommand implements Callable<Integer> {
         }
         ControllerAgent agent = new ControllerAgent(config, bus, clock, busClock, controllerId, epoch, journal, hlog);
         security.keys().ifPresent(keys -> agent.signCommandsWith(new CommandSigner(keys, clock, new MessageCodec())));
+        if (seal != null) {
+            agent.signStatusWith(seal);
+        }
         AgentRunner runner = new AgentRunner(agent, 1_000_000L);
         agent.wakeOnInput(runner::wake);
         Runtime.getRuntime().addShutdownHook(new Thread(() -> {

@@ -38,6 +38,7 @@ import org.loopstand.protocol.message.ControllerState;
 import org.loopstand.protocol.message.ControllerStatus;
 import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.security.CommandSigner;
+import org.loopstand.protocol.security.StatusSeal;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.topic.TopicTree;
 import org.slf4j.Logger;
@@ -75,6 +76,7 @@ public final class ControllerAgent implements Agent {
     private final ConcurrentLinkedQueue<Map<String, Object>> journalEvents = new ConcurrentLinkedQueue<>();
     private volatile boolean linkUp;
     private CommandSigner signer;
+    private StatusSeal statusSeal;
     private long unsignable;
     private CycleScheduler scheduler;
     private CycleOutcome lastOutcome;
@@ -128,6 +130,15 @@ public final class ControllerAgent implements Agent {
     }
 
     /**
+     * Signs every status from now on with the controller's status key (keys configured), so units
+     * that hold that key take no unsigned or forged status. Call before {@link #onStart}.
+     */
+    public ControllerAgent signStatusWith(StatusSeal seal) {
+        this.statusSeal = seal;
+        return this;
+    }
+
+    /**
      * @param wake run on a bus thread whenever an input was queued, typically the runner's
      *             {@link org.loopstand.protocol.agent.AgentRunner#wake}, so the intake is drained at
      *             once instead of after the runner's idle park
@@ -144,8 +155,17 @@ public final class ControllerAgent implements Agent {
 
     /** @return the retained status to register as the bus connection's last will */
     public static OutboundMessage offlineStatus(String siteId, String controllerId, long epoch, long nowMs) {
+        return offlineStatus(siteId, controllerId, epoch, nowMs, null);
+    }
+
+    /** As {@link #offlineStatus(String, String, long, long)}, signed with {@code seal} when given. */
+    public static OutboundMessage offlineStatus(String siteId, String controllerId, long epoch, long nowMs,
+                                                StatusSeal seal) {
         ControllerStatus s = new ControllerStatus(0, Math.max(1, nowMs), controllerId, epoch, ControllerState.OFFLINE,
                 List.of("connectionLost"), 0, List.of());
+        if (seal != null) {
+            s = seal.sign(s, Math.max(1, nowMs));
+        }
         return new OutboundMessage(TopicTree.forSite(siteId).controllerStatus(controllerId),
                 new MessageCodec().encode(s), Qos.AT_LEAST_ONCE, true, 0);
     }
@@ -305,8 +325,9 @@ public final class ControllerAgent implements Agent {
 
     private void publishStatus(ControllerState state, List<String> reasons, long cycleNumber, List<AreaAce> aces) {
         long nowMs = Math.max(1, clock.epochMillis());
-        ControllerStatus s = new ControllerStatus(++statusSeq, nowMs, controllerId, epoch, state, reasons,
+        ControllerStatus unsigned = new ControllerStatus(++statusSeq, nowMs, controllerId, epoch, state, reasons,
                 Math.max(0, cycleNumber), aces);
+        ControllerStatus s = statusSeal == null ? unsigned : statusSeal.sign(unsigned, nowMs);
         bus.publish(new OutboundMessage(topics.controllerStatus(controllerId), codec.encode(s), Qos.AT_LEAST_ONCE,
                 true, 0)).whenComplete((v, e) -> {
                     if (e != null) {

@@ -209,6 +209,12 @@ public final class MessageValidator {
         atLeast("cycle", m.cycle(), 0);
         list("areas", m.areas(), MessageValidator::areaAce);
         unique("areas", m.areas(), AreaAce::area, "area");
+        if (m.keyId() != null) {
+            id("keyId", m.keyId());
+        }
+        if (m.signature() != null) {
+            base64("signature", m.signature());
+        }
     }
 
     private static void areaAce(String path, AreaAce ace) {

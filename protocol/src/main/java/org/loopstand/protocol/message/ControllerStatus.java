@@ -14,12 +14,27 @@ import java.util.Objects;
  * @param reasons      why it is not regulating (free text, each 1 to 256 characters), may be empty
  * @param cycle        control cycle count, ≥ 0
  * @param areas        ACE of each area (area ids unique)
+ * @param keyId        id of the controller's status key, optional (set when keys are configured)
+ * @param signature    base64 HMAC over the canonical bytes, optional
  */
 public record ControllerStatus(long seq, long sourceTime, String controllerId, long epoch, ControllerState state,
-        List<String> reasons, long cycle, List<AreaAce> areas) {
+        List<String> reasons, long cycle, List<AreaAce> areas, @OptionalField String keyId,
+        @OptionalField String signature) {
     public ControllerStatus {
         Objects.requireNonNull(controllerId, "controllerId");
         reasons = List.copyOf(reasons);
         areas = List.copyOf(areas);
+    }
+
+    /** An unsigned status. */
+    public ControllerStatus(long seq, long sourceTime, String controllerId, long epoch, ControllerState state,
+            List<String> reasons, long cycle, List<AreaAce> areas) {
+        this(seq, sourceTime, controllerId, epoch, state, reasons, cycle, areas, null, null);
+    }
+
+    /** @return this status with key id and signature set (both may be null to clear them) */
+    public ControllerStatus withSignature(String newKeyId, String newSignature) {
+        return new ControllerStatus(seq, sourceTime, controllerId, epoch, state, reasons, cycle, areas, newKeyId,
+                newSignature);
     }
 }
