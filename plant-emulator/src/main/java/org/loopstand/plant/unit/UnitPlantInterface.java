@@ -50,7 +50,9 @@ public final class UnitPlantInterface {
     private final long telemetryPeriodNanos;
     private LoadReferenceMotion motion;
     private ControlMode mode = ControlMode.REMOTE;
+    /** telemetry and acks each count their own seq, so the controller can reckon loss per kind */
     private long seq;
+    private long ackSeq;
     private long lastAcceptedSeq;
     private long lastTickNanos;
     private long nextTelemetryNanos;
@@ -65,8 +67,9 @@ public final class UnitPlantInterface {
     private final StatusCheck statusCheck;
 
     /**
-     * @param seqStart first seq this interface publishes with (use the start time in epoch ms so a
-     *                 restarted interface keeps counting upward)
+     * @param seqStart first seq of each message kind this interface publishes (telemetry and acks
+     *                 count separately; use the start time in epoch ms so a restarted interface keeps
+     *                 counting upward)
      */
     public UnitPlantInterface(UnitSettings settings, UnitField field, Clock clock, UnitOutput output,
                               PlantJournal journal, long seqStart) {
@@ -79,6 +82,7 @@ public final class UnitPlantInterface {
         this.statusCheck = new StatusCheck(settings, gate.tenure(), journal);
         this.telemetryPeriodNanos = settings.telemetryScanMs() * 1_000_000L;
         this.seq = seqStart;
+        this.ackSeq = seqStart;
         long now = clock.monotonicNanos();
         this.lastTickNanos = now;
         this.nextTelemetryNanos = now;
@@ -184,7 +188,7 @@ public final class UnitPlantInterface {
         accepted++;
         latency.accepted(receivedNanos, field.outputMw(), sign);
         journal.command(nowMs, CommandFate.of(settings.unitId(), c, c.seq(), c.controllerId(), "accepted", null, detail, targetBeforeMw, motion.targetMw()));
-        output.ack(new CommandAck(seq++, nowMs, settings.unitId(), c.seq(), c.controllerId(), AckOutcome.ACCEPTED, null, detail));
+        output.ack(new CommandAck(ackSeq++, nowMs, settings.unitId(), c.seq(), c.controllerId(), AckOutcome.ACCEPTED, null, detail));
         outcomes.handled(nowMs, c, AckOutcome.ACCEPTED, null, acted);
     }
 
@@ -349,7 +353,7 @@ public final class UnitPlantInterface {
         journal.refused(nowMs, settings.unitId(), r.reason(), commandSeq, r.detail());
         double targetMw = motion == null ? Double.NaN : motion.targetMw();
         journal.command(nowMs, CommandFate.of(settings.unitId(), c, commandSeq, controllerId, "rejected", r.reason().wireName(), r.detail(), targetMw, targetMw));
-        output.ack(new CommandAck(seq++, nowMs, settings.unitId(), Math.max(0, commandSeq), controllerId,
+        output.ack(new CommandAck(ackSeq++, nowMs, settings.unitId(), Math.max(0, commandSeq), controllerId,
                 AckOutcome.REJECTED, r.reason(), truncate(r.detail())));
     }
 
