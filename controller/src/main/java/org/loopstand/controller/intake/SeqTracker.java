@@ -13,8 +13,9 @@ package org.loopstand.controller.intake;
  * from their start time in epoch ms); one that continues the series from before the jump
  * <em>revokes</em> it (one bad message, counted as such) and tracking goes on from there.</li>
  * <li>A <b>restart</b> to a lower number: after {@value #RESTART_RUN} messages in a row that are
- * behind the highest but in order among themselves, the tracker follows them (counted as a
- * restart); the first {@value #RESTART_RUN} − 1 of them are dropped as out of order.</li>
+ * more than {@value #MAX_GAP} behind the highest and in order among themselves, the tracker follows
+ * them (counted as a restart); the first {@value #RESTART_RUN} − 1 of them are dropped as out of
+ * order. Messages less far behind are late deliveries: always out of order.</li>
  * </ul>
  * Not thread-safe.
  */
@@ -39,8 +40,17 @@ public final class SeqTracker {
     private long jumps;
     private long revokedJumps;
     private long restarts;
+    private long taken;
 
     public Outcome accept(long seq) {
+        Outcome o = judge(seq);
+        if (o != Outcome.DUPLICATE && o != Outcome.OUT_OF_ORDER) {
+            taken++;
+        }
+        return o;
+    }
+
+    private Outcome judge(long seq) {
         if (highest < 0) {
             highest = seq;
             return Outcome.FIRST;
@@ -59,7 +69,7 @@ public final class SeqTracker {
             behindRun = 0;
             return Outcome.DUPLICATE;
         }
-        if (seq < highest) {
+        if (seq < highest - MAX_GAP) {
             behindRun = behindRun > 0 && seq > behindLast ? behindRun + 1 : 1;
             behindLast = seq;
             if (behindRun >= RESTART_RUN) {
@@ -68,6 +78,11 @@ public final class SeqTracker {
                 highest = seq;
                 return Outcome.RESTART;
             }
+            outOfOrder++;
+            return Outcome.OUT_OF_ORDER;
+        }
+        if (seq < highest) {
+            behindRun = 0; // close behind: late delivery, not a restart
             outOfOrder++;
             return Outcome.OUT_OF_ORDER;
         }
@@ -101,6 +116,8 @@ public final class SeqTracker {
     }
 
     public long highestSeq() { return highest; }
+    /** @return messages taken in sequence (first, in order, after a gap, a jump or a restart) */
+    public long takenCount() { return taken; }
     public long gapCount() { return gaps; }
     public long missingCount() { return missing; }
     public long duplicateCount() { return duplicates; }

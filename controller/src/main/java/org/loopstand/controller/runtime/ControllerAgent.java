@@ -81,6 +81,7 @@ public final class ControllerAgent implements Agent {
     private CycleScheduler scheduler;
     private CycleOutcome lastOutcome;
     private long commandSeq;
+    private final SentCommands sentCommands;
     private long statusSeq;
     private long commandsSent;
     private long statusesSent;
@@ -115,6 +116,7 @@ public final class ControllerAgent implements Agent {
         this.cycle = new ControlCycle(site.toCycleSettings());
         this.intake = new IntakeRouter(site, clock, codec, new Observer());
         this.inputUse = new InputUseJournal(site, intake);
+        this.sentCommands = new SentCommands(controllerId, journal);
         if (busClock != null) {
             intake.onClockTick(busClock::onTick);
         }
@@ -300,6 +302,7 @@ public final class ControllerAgent implements Agent {
         long expiryS = Math.max(1, (c.validUntilMs() - nowMs + 999) / 1000);
         OutboundMessage m = new OutboundMessage(topics.unitCommand(c.unitId()), codec.encode(cmd), Qos.AT_LEAST_ONCE,
                 false, expiryS);
+        sentCommands.sent(seq, c.unitId());
         bus.publish(m).whenComplete((v, e) -> {
             if (e != null) {
                 publishFailures.add("command " + seq + " to " + c.unitId() + ": " + e);
@@ -390,6 +393,9 @@ public final class ControllerAgent implements Agent {
 
         @Override
         public void onAck(CommandAck ack, long receivedAtMs) {
+            if (!sentCommands.match(ack, receivedAtMs)) {
+                return;
+            }
             if (journal != null) {
                 Map<String, Object> f = new LinkedHashMap<>();
                 f.put("ack", ack.unit());
@@ -414,6 +420,11 @@ public final class ControllerAgent implements Agent {
     }
 
     // ---- for tests and the CLI
+
+    /** @return acks that answered a command this controller sent */
+    public long acksMatched() { return sentCommands.matchedCount(); }
+    /** @return acks that answered no command this controller sent (counted apart, never as received) */
+    public long acksUnknown() { return sentCommands.unknownCount(); }
 
     public CycleOutcome lastOutcome() { return lastOutcome; }
     public IntakeRouter intake() { return intake; }

@@ -37,7 +37,7 @@ class SeqTrackerTest {
     @Test
     void shouldFollowAPublisherThatRestartedFromALowerNumber() {
         SeqTracker s = new SeqTracker();
-        for (long seq = 500; seq < 510; seq++) {
+        for (long seq = 5_000; seq < 5_010; seq++) {
             s.accept(seq);
         }
         assertThat(s.accept(0)).isEqualTo(SeqTracker.Outcome.OUT_OF_ORDER);
@@ -48,14 +48,24 @@ class SeqTrackerTest {
     }
 
     @Test
+    void shouldTakeLateDeliveriesCloseBehindForOutOfOrderNotForARestart() {
+        SeqTracker s = new SeqTracker();
+        s.accept(100);
+        for (long seq = 95; seq < 100; seq++) {
+            assertThat(s.accept(seq)).isEqualTo(SeqTracker.Outcome.OUT_OF_ORDER);
+        }
+        assertThat(s.restartCount()).isZero();
+    }
+
+    @Test
     void shouldNotTakeScatteredOldMessagesForARestart() {
         SeqTracker s = new SeqTracker();
-        for (long seq = 500; seq < 510; seq++) {
+        for (long seq = 5_000; seq < 5_010; seq++) {
             s.accept(seq);
         }
         assertThat(s.accept(7)).isEqualTo(SeqTracker.Outcome.OUT_OF_ORDER);
         assertThat(s.accept(3)).isEqualTo(SeqTracker.Outcome.OUT_OF_ORDER);
-        assertThat(s.accept(510)).isEqualTo(SeqTracker.Outcome.IN_ORDER);
+        assertThat(s.accept(5_010)).isEqualTo(SeqTracker.Outcome.IN_ORDER);
         assertThat(s.accept(5)).isEqualTo(SeqTracker.Outcome.OUT_OF_ORDER);
         assertThat(s.restartCount()).isZero();
     }

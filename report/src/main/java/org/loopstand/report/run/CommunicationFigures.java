@@ -52,7 +52,11 @@ final class CommunicationFigures {
         publishedByType.forEach((type, n) -> rates.add(Metric.of(type + " published by the plant", n / d, 2, "1/s",
                 n + " messages; plant published entries with sent = true")));
         rates.add(Metric.of("commands sent by the controller", sent.size() / d, 3, "1/s", sent.size() + " commands; controller sent entries"));
-        rates.add(Metric.of("acks received by the controller", acksReceived / d, 3, "1/s", acksReceived + " acks"));
+        rates.add(Metric.of("acks received by the controller", acksReceived / d, 3, "1/s", acksReceived
+                + " acks answering a command it sent"));
+        long acksUnknown = ctl.stream().filter(e -> e.fields().has("unknownAck")).count();
+        rates.add(Metric.of("acks answering no command the controller sent", acksUnknown, 0, "",
+                "another controller's, forged or repeated acks; counted apart, never as received"));
         rates.add(new Metric("rates per", "scenario second", "", String.format(Locale.ROOT, "run of %.0f s at rate %s", durationS,
                 RunReportBuilder.trim(rate))));
         out.add(new MetricSection("Message rates", MetricSection.Group.COMMUNICATION, rates));
@@ -82,7 +86,7 @@ final class CommunicationFigures {
         out.add(new MetricSection("Loss", MetricSection.Group.COMMUNICATION, loss));
 
         List<String> suspensions = new ArrayList<>();
-        String previous = "regulating";
+        String previous = null; // start-up cycles before the first regulating one are no fall from regulating
         long suspendedCycles = 0;
         for (JournalEntry e : JournalSeries.ofKind(ctl, "decided")) {
             String state = e.text("state");
