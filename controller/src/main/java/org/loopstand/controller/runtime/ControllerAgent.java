@@ -242,7 +242,12 @@ public final class ControllerAgent implements Agent {
         List<AreaAce> aces = areaAces(o);
         if (link) {
             for (PlannedCommand c : o.commands()) {
-                send(c, nowMs);
+                try {
+                    send(c, nowMs);
+                } catch (RuntimeException e) {
+                    // one command that cannot go out must not take the rest of the cycle's with it
+                    publishFailures.add("command to " + c.unitId() + " not sent: " + e);
+                }
             }
             ControllerState state = o.state() == InterlockState.REGULATING ? ControllerState.REGULATING
                     : ControllerState.SUSPENDED;
@@ -359,16 +364,22 @@ public final class ControllerAgent implements Agent {
 
     @Override
     public void onClose() {
-        drainEvents();
+        // OFF goes out first: stopping on an error (a journal that cannot be written) must not leave a
+        // retained "regulating" for the units to find out about only by their watchdog
         if (linkUp && bus.isConnected()) {
             publishStatus(ControllerState.OFF, List.of("stopped"), lastOutcome == null ? 0 : lastOutcome.cycleNumber(),
                     List.of());
         }
-        if (journal != null && !journal.isClosed()) {
-            journal.append(clock.epochMillis(), JournalFormat.KIND_EVENT, Map.of("event", "summary",
-                    "cycles", cyclesRun, "commandsSent", commandsSent, "rejected", intake.rejectedByReason(),
-                    "acks", intake.acksByOutcome(), "cyclesMissed", scheduler == null ? 0 : scheduler.cyclesMissed()));
-            journal.close(clock.epochMillis(), EndReason.STOPPED);
+        try {
+            drainEvents();
+            if (journal != null && !journal.isClosed()) {
+                journal.append(clock.epochMillis(), JournalFormat.KIND_EVENT, Map.of("event", "summary",
+                        "cycles", cyclesRun, "commandsSent", commandsSent, "rejected", intake.rejectedByReason(),
+                        "acks", intake.acksByOutcome(), "cyclesMissed", scheduler == null ? 0 : scheduler.cyclesMissed()));
+                journal.close(clock.epochMillis(), EndReason.STOPPED);
+            }
+        } catch (RuntimeException e) {
+            LOG.error("controller journal could not be closed: {}", e.toString());
         }
         if (histograms != null) {
             histograms.close();
