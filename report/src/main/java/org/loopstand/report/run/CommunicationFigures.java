@@ -57,6 +57,15 @@ final class CommunicationFigures {
         long acksUnknown = ctl.stream().filter(e -> e.fields().has("unknownAck")).count();
         rates.add(Metric.of("acks answering no command the controller sent", acksUnknown, 0, "",
                 "another controller's, forged or repeated acks; counted apart, never as received"));
+        Map<String, Long> takenByController = new TreeMap<>();
+        JournalSeries.ofKind(plant, "command").stream().filter(e -> "accepted".equals(e.text("outcome")))
+                .forEach(e -> takenByController.merge(String.valueOf(e.text("controllerId")), 1L, Long::sum));
+        takenByController.forEach((id, n) -> rates.add(Metric.of("commands taken by the units from " + id, n, 0, "",
+                "plant command entries, outcome accepted, by sending controller id")));
+        if (ph != null && "insecure".equals(ph.path("security").asText())) {
+            rates.add(new Metric("security", "INSECURE", "", "no broker auth, commands unsigned (plant journal header):"
+                    + " any controller id above besides the rehearsed one is a third party"));
+        }
         rates.add(new Metric("rates per", "scenario second", "", String.format(Locale.ROOT, "run of %.0f s at rate %s", durationS,
                 RunReportBuilder.trim(rate))));
         out.add(new MetricSection("Message rates", MetricSection.Group.COMMUNICATION, rates));

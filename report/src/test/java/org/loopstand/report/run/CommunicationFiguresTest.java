@@ -57,4 +57,18 @@ class CommunicationFiguresTest {
         assertThat(m.get("acks received by the controller").note()).startsWith("1 acks");
         assertThat(m.get("acks answering no command the controller sent").value()).isEqualTo("3");
     }
+
+    @Test
+    void shouldMarkAnInsecureRunAndCountCommandsTakenPerController() {
+        List<JournalEntry> plant = new ArrayList<>();
+        for (String id : List.of("controller-1", "controller-1", "intruder")) {
+            plant.add(new JournalEntry(1_000, "command", JSON.valueToTree(Map.of("unit", "u1", "commandSeq", plant.size(),
+                    "controllerId", id, "outcome", "accepted")), plant.size() + 1));
+        }
+        ObjectNode header = JSON.createObjectNode().put("security", "insecure");
+        Map<String, Metric> m = byName(CommunicationFigures.sections(plant, ctl, header, 10));
+        assertThat(m.get("security").value()).isEqualTo("INSECURE");
+        assertThat(m.get("commands taken by the units from intruder").value()).isEqualTo("1");
+        assertThat(m.get("commands taken by the units from controller-1").value()).isEqualTo("2");
+    }
 }
