@@ -8,6 +8,7 @@ import java.util.concurrent.locks.LockSupport;
 import org.loopstand.controller.config.ControllerConfigException;
 import org.loopstand.controller.config.ControllerSiteConfig;
 import org.loopstand.controller.config.ControllerSiteReader;
+import org.loopstand.controller.pulsetest.safety.SafetyGate;
 import org.loopstand.controller.runtime.BusClock;
 import org.loopstand.controller.runtime.ControllerAgent;
 import org.loopstand.protocol.agent.AgentRunner;
@@ -58,6 +59,9 @@ public final class ControlCommand implements Callable<Integer> {
     @Mixin
     AuthOptions auth;
 
+    /** Console for the live-plant confirmation; tests give their own. */
+    java.io.Reader consoleIn = new java.io.InputStreamReader(System.in, java.nio.charset.StandardCharsets.UTF_8);
+
     @Override
     public Integer call() throws Exception {
         System.out.println(CAUTION);
@@ -73,6 +77,23 @@ public final class ControlCommand implements Callable<Integer> {
                     + " plant's procedures");
             return 2;
         }
+        ControllerSiteConfig config;
+        try {
+            config = ControllerSiteReader.read(site);
+        } catch (ControllerConfigException e) {
+            System.err.println("control: the site file cannot be used:\n" + e.getMessage());
+            return 2;
+        }
+        if (!loopback) {
+            // the same typed confirmation as pulse-test: the site id, since every unit of it may move
+            java.util.Optional<String> refusal = SafetyGate.admit(broker, false, true, config.siteId(),
+                    "The controller will send raise/lower commands to every unit of site " + config.siteId() + ".",
+                    "site", new java.io.BufferedReader(consoleIn), System.out);
+            if (refusal.isPresent()) {
+                System.err.println("control: " + refusal.get());
+                return 3;
+            }
+        }
         LinkSecurity security;
         try {
             security = auth.resolve(broker, System.getenv());
@@ -81,13 +102,6 @@ public final class ControlCommand implements Callable<Integer> {
             return 2;
         }
         System.err.println(security.startMessage());
-        ControllerSiteConfig config;
-        try {
-            config = ControllerSiteReader.read(site);
-        } catch (ControllerConfigException e) {
-            System.err.println("control: the site file cannot be used:\n" + e.getMessage());
-            return 2;
-        }
         Clock wall = WallClock.INSTANCE;
         BusClock busClock = "bus".equals(clockMode) ? new BusClock(wall) : null;
         Clock clock = busClock != null ? busClock : wall;
