@@ -24,9 +24,17 @@ import org.loopstand.protocol.security.VerificationResult;
  * an epoch from the future) leaves the epoch and the seq history as they were, so it cannot fence
  * the unit. Seqs are kept per controller id: within the current epoch, once a command has passed
  * the seq check its seq is used up, whether or not a later rule refuses it, so a replay is always
- * a duplicate.
+ * a duplicate; a refused command more than {@value #MAX_SEQ_STEP} ahead of the last seq does not
+ * move it.
  */
 public final class CommandGate {
+    /**
+     * Largest seq step a command refused later (expired, lifetime, issue time) may still use up; a
+     * refused command further ahead leaves the seq history alone, so one stale message with seq + 10^9
+     * cannot make every later real command "out of order".
+     */
+    static final long MAX_SEQ_STEP = 1_000;
+
     private final UnitSettings settings;
     private final ControllerTenure tenure;
     private final Map<String, Long> lastSeqByController = new HashMap<>();
@@ -88,7 +96,7 @@ public final class CommandGate {
         if (last != null && c.seq() < last) {
             return new Refusal(RefusalReason.OUT_OF_ORDER, "seq " + c.seq() + " is older than the last seq " + last);
         }
-        if (sameEpoch) {
+        if (sameEpoch && (last == null || c.seq() - last <= MAX_SEQ_STEP)) {
             lastSeqByController.put(c.controllerId(), c.seq()); // used up: a replay is a duplicate
         }
         VerificationResult timing = CommandTimeRules.check(c, nowEpochMs);
@@ -102,7 +110,7 @@ public final class CommandGate {
         if (tenure.adopt(c.controllerId(), c.epoch(), nowNanos)) {
             lastSeqByController.remove(c.controllerId());
         }
-        lastSeqByController.put(c.controllerId(), c.seq());
+        lastSeqByController.put(c.controllerId(), c.seq()); // a command that passed every message check
         if (status != UnitStatus.ONLINE) {
             return new Refusal(RefusalReason.UNIT_OFFLINE, "unit is " + status.wireName());
         }

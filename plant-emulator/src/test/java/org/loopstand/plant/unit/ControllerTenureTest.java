@@ -76,6 +76,18 @@ class ControllerTenureTest {
     }
 
     @Test
+    void shouldNotLetAnExpiredCommandWithAHugeSeqJumpBlindTheUnit() {
+        UnitPlantInterface u = unit();
+        assertThat(send(u, pulse(CTRL, epoch))).isEqualTo(AckOutcome.ACCEPTED);
+        long now = clock.epochMillis();
+        UnitCommand jumped = UnitCommand.pulse(seq + 1_000_000_000L, now - 5_000, UNIT, CTRL, epoch, now - 1_000,
+                PulseDirection.RAISE, 1_000);
+        assertThat(send(u, jumped)).isEqualTo(AckOutcome.REJECTED);
+        assertThat(out.lastAck().reason()).isEqualTo(RefusalReason.EXPIRED);
+        assertThat(send(u, pulse(CTRL, epoch))).isEqualTo(AckOutcome.ACCEPTED);
+    }
+
+    @Test
     void shouldRefuseAStatusWhoseControllerIdIsNotTheOneOfItsTopic() {
         UnitPlantInterface u = unit();
         u.onControllerStatus(status(CTRL, epoch + 5_000, ControllerState.REGULATING), "intruder");
