@@ -24,8 +24,8 @@ import org.loopstand.protocol.security.VerificationResult;
  * an epoch from the future) leaves the epoch and the seq history as they were, so it cannot fence
  * the unit. Seqs are kept per controller id: within the current epoch, once a command has passed
  * the seq check its seq is used up, whether or not a later rule refuses it, so a replay is always
- * a duplicate; a refused command more than {@value #MAX_SEQ_STEP} ahead of the last seq does not
- * move it.
+ * a duplicate; a refused command more than {@value #MAX_SEQ_STEP} ahead of the last seq, or the
+ * first of a history, does not move it.
  */
 public final class CommandGate {
     /**
@@ -96,7 +96,7 @@ public final class CommandGate {
         if (last != null && c.seq() < last) {
             return new Refusal(RefusalReason.OUT_OF_ORDER, "seq " + c.seq() + " is older than the last seq " + last);
         }
-        if (sameEpoch && (last == null || c.seq() - last <= MAX_SEQ_STEP)) {
+        if (sameEpoch && last != null && c.seq() - last <= MAX_SEQ_STEP) {
             lastSeqByController.put(c.controllerId(), c.seq()); // used up: a replay is a duplicate
         }
         VerificationResult timing = CommandTimeRules.check(c, nowEpochMs);

@@ -88,6 +88,16 @@ class ControllerTenureTest {
     }
 
     @Test
+    void shouldNotLetAnExpiredCommandStartTheSeqHistoryOfAFreshEpoch() {
+        UnitPlantInterface u = unit();
+        u.onControllerStatus(status(CTRL, epoch, ControllerState.REGULATING)); // adopted, no command yet
+        long now = clock.epochMillis();
+        assertThat(send(u, UnitCommand.pulse(1_000_000_000L, now - 5_000, UNIT, CTRL, epoch, now - 1_000,
+                PulseDirection.RAISE, 1_000))).isEqualTo(AckOutcome.REJECTED);
+        assertThat(send(u, pulse(CTRL, epoch))).isEqualTo(AckOutcome.ACCEPTED);
+    }
+
+    @Test
     void shouldRefuseAStatusWhoseControllerIdIsNotTheOneOfItsTopic() {
         UnitPlantInterface u = unit();
         u.onControllerStatus(status(CTRL, epoch + 5_000, ControllerState.REGULATING), "intruder");
