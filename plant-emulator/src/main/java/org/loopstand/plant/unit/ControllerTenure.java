@@ -18,11 +18,13 @@ import org.loopstand.protocol.security.CommandTimeRules;
  * lower, so one message can never fence an id for longer than the watchdog.
  *
  * <p><b>Active and standby</b>: the unit follows one controller at a time, the first accepted
- * controller heard with a valid status or command. While it is alive (heard within the watchdog
- * period and not offline) another accepted controller is a standby: its statuses are not taken
- * as heartbeats and its commands are refused ({@code wrongController}, "standby"). When the active
- * one reports offline or falls silent for the watchdog period, the next controller heard takes over.
- * Owner thread only.
+ * controller heard with a valid status. While it is alive (heard within the watchdog period and not
+ * offline) another accepted controller that announces itself with statuses is a standby: its
+ * statuses are not taken as heartbeats and its commands are refused ({@code wrongController},
+ * "standby"). When the active one reports offline or falls silent for the watchdog period, the next
+ * controller heard takes over. An accepted sender that never publishes a status (an operator desk,
+ * the unit response test) is no controller of the unit: its commands are taken on their own checks
+ * and never make it the active one. Owner thread only.
  */
 final class ControllerTenure {
     private record Held(long epoch, long heardNanos) {
@@ -33,6 +35,7 @@ final class ControllerTenure {
 
     private final long watchdogNanos;
     private final Map<String, Held> byController = new HashMap<>();
+    private final java.util.Set<String> announced = new java.util.HashSet<>();
     private String active;
     private long activeHeardNanos;
 
@@ -66,7 +69,7 @@ final class ControllerTenure {
         if (!CommandTimeRules.epochWithinBound(epoch, nowMs)) {
             return new Refusal(RefusalReason.NOT_YET_VALID, CommandTimeRules.epochDetail(epoch, nowMs));
         }
-        if (alive(nowNanos) && !active.equals(controllerId)) {
+        if (alive(nowNanos) && !active.equals(controllerId) && announced.contains(controllerId)) {
             return new Refusal(RefusalReason.WRONG_CONTROLLER, "standby: controller " + active
                     + " holds this unit (heard " + (nowNanos - activeHeardNanos) / 1_000_000 + " ms ago)");
         }
@@ -79,8 +82,19 @@ final class ControllerTenure {
     }
 
     /**
+     * Notes a controller that announces itself with statuses (authentic ones: called after the
+     * topic, acceptance and signature checks): only such a one can be active or standby.
+     */
+    void announce(String controllerId) {
+        if (announced.size() >= MAX_IDS) {
+            announced.clear();
+        }
+        announced.add(controllerId);
+    }
+
+    /**
      * Adopts the epoch of a message that passed every check and makes its controller the active
-     * one when none is alive.
+     * one when none is alive and it announces itself with statuses.
      *
      * @return true when this is a new epoch for that id (its seq history starts afresh)
      */
@@ -91,7 +105,7 @@ final class ControllerTenure {
             byController.clear();
         }
         byController.put(controllerId, new Held(Math.max(epoch, held), nowNanos));
-        if (!alive(nowNanos) || active.equals(controllerId)) {
+        if (announced.contains(controllerId) && (!alive(nowNanos) || active.equals(controllerId))) {
             active = controllerId;
             activeHeardNanos = nowNanos;
         }

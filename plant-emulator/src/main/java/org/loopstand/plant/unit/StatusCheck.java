@@ -91,6 +91,7 @@ final class StatusCheck {
                 return new StatusRefusal(v.reason().wireName(), v.detail());
             }
         }
+        tenure.announce(s.controllerId());
         Refusal r = tenure.check(s.controllerId(), s.epoch(), nowMs, nowNanos);
         if (r == null) {
             return null;

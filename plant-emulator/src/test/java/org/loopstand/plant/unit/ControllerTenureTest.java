@@ -168,6 +168,15 @@ class ControllerTenureTest {
     }
 
     @Test
+    void shouldTakeCommandsFromAnAcceptedDeskThatPublishesNoStatusWithoutMakingItActive() {
+        UnitPlantInterface u = unit();
+        u.onControllerStatus(status(CTRL, epoch, ControllerState.REGULATING));
+        assertThat(send(u, pulse(STANDBY, epoch))).isEqualTo(AckOutcome.ACCEPTED); // a desk: no status of its own
+        assertThat(u.activeController()).isEqualTo(CTRL);
+        assertThat(send(u, pulse(CTRL, epoch))).isEqualTo(AckOutcome.ACCEPTED);
+    }
+
+    @Test
     void shouldLetTheStandbyTakeOverWhenTheActiveOneFallsSilentForTheWatchdogPeriod() {
         UnitPlantInterface u = unit();
         u.onControllerStatus(status(CTRL, epoch, ControllerState.REGULATING));
