@@ -16,6 +16,7 @@ import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.OutboundMessage;
 import org.loopstand.protocol.journal.HistogramLogs;
 import org.loopstand.protocol.journal.JournalWriter;
+import org.loopstand.protocol.metrics.MetricsEndpoint;
 import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.security.AuthOptions;
 import org.loopstand.protocol.security.CommandSigner;
@@ -55,6 +56,10 @@ public final class ControlCommand implements Callable<Integer> {
 
     @Option(names = "--live-plant", description = "allow a broker that is not on the loopback interface")
     boolean livePlant;
+
+    @Option(names = "--metrics-port", paramLabel = "PORT", description = "serve /metrics (Prometheus text) on"
+            + " 127.0.0.1:PORT, 0 = any free port; printed as 'metrics: URL' (default: none)")
+    Integer metricsPort;
 
     @Mixin
     AuthOptions auth;
@@ -139,6 +144,17 @@ public final class ControlCommand implements Callable<Integer> {
             runner.close();
             bus.close();
         }));
+        MetricsEndpoint metrics = null;
+        if (metricsPort != null) {
+            try {
+                metrics = new MetricsEndpoint(agent.metrics()).start("127.0.0.1", metricsPort);
+            } catch (java.io.IOException | IllegalArgumentException e) {
+                System.err.println("control: --metrics-port " + metricsPort + ": cannot listen: " + e.getMessage());
+                bus.close();
+                return 2;
+            }
+            System.out.println("metrics: http://127.0.0.1:" + metrics.port() + "/metrics");
+        }
         runner.start();
         System.out.println("control: " + controllerId + " on " + broker + ", site " + config.siteId() + ", cycle "
                 + config.settings().cycleMs() + " ms, clock " + clockMode);
@@ -151,6 +167,9 @@ public final class ControlCommand implements Callable<Integer> {
         }
         runner.close();
         bus.close();
+        if (metrics != null) {
+            metrics.close();
+        }
         if (runner.failure() != null) {
             System.err.println("control: stopped on an error: " + runner.failure());
             return 1;

@@ -11,6 +11,8 @@ import java.util.Locale;
 import java.util.Map;
 import java.util.Optional;
 import java.util.concurrent.Callable;
+import java.util.concurrent.CountDownLatch;
+import java.util.concurrent.TimeUnit;
 import org.loopstand.controller.pulsetest.PulseTestEvaluator;
 import org.loopstand.controller.pulsetest.PulseTestResult;
 import org.loopstand.controller.pulsetest.PulseTestRunFolder;
@@ -60,9 +62,9 @@ public final class PulseTestCommand implements Callable<Integer> {
     boolean livePlant;
     @Option(names = "--declared-from-telemetry", description = "judge against the unit's telemetry figures, not the site file's")
     boolean fromTelemetry;
-    @Option(names = "--max-excursion-mw", description = "tighter excursion cap than the plan's, MW")
+    @Option(names = "--max-excursion-mw", description = "tighter excursion cap than the plan's, MW, in (0, plan cap]")
     Double maxExcursionMw;
-    @Option(names = "--max-duration-s", description = "tighter duration cap than the plan's, s")
+    @Option(names = "--max-duration-s", description = "tighter duration cap than the plan's, s, in (0, plan cap]")
     Double maxDurationS;
     @Option(names = "--epoch", description = "controller epoch for the commands, epoch ms (default: now in epoch ms)")
     Long epoch;
@@ -71,6 +73,9 @@ public final class PulseTestCommand implements Callable<Integer> {
 
     @Option(names = "--follow-plant-clock", description = "emulator at --rate N: take the plant's time base from its clock topic (test broker only)")
     boolean followPlantClock;
+
+    /** How long a signal waits for the run folder to be written before the process ends, s. */
+    static final long SHUTDOWN_WRITE_WAIT_S = 20;
 
     /** Console for the confirmation and the abort key; tests give their own. */
     Reader consoleIn = new InputStreamReader(System.in, StandardCharsets.UTF_8);
@@ -89,14 +94,19 @@ public final class PulseTestCommand implements Callable<Integer> {
             System.err.println("pulse-test: " + e.getMessage());
             return 2;
         }
+        PlanLimits caps;
+        try {
+            caps = SafetyGate.caps(plan.limits(), maxExcursionMw, maxDurationS);
+        } catch (IllegalArgumentException e) {
+            System.err.println("pulse-test: " + e.getMessage());
+            return 2;
+        }
         BufferedReader console = new BufferedReader(consoleIn);
         Optional<String> refusal = SafetyGate.admit(broker, testBroker, livePlant, unit, console, o);
         if (refusal.isPresent()) {
             System.err.println("pulse-test: " + refusal.get());
             return 3;
         }
-        PlanLimits caps = SafetyGate.caps(plan.limits(), maxExcursionMw == null ? Double.NaN : maxExcursionMw,
-                maxDurationS == null ? Double.NaN : maxDurationS);
         if (followPlantClock && !SafetyGate.isTestBroker(broker, testBroker)) {
             System.err.println("pulse-test: --follow-plant-clock is for an emulated plant on a test broker only");
             return 3;
@@ -122,6 +132,7 @@ public final class PulseTestCommand implements Callable<Integer> {
         }
         System.err.println(security.startMessage());
         PulseTestRunner runner;
+        Written written;
         try (MqttLink link = new MqttLink(config, WallClock.INSTANCE).start()) {
             if (!link.awaitConnected(10_000)) {
                 System.err.println("pulse-test: cannot connect to " + broker);
@@ -137,30 +148,46 @@ public final class PulseTestCommand implements Callable<Integer> {
                 clock = plantClock.get();
             }
             runner = new PulseTestRunner(link, clock, topics, unit, plan, fromTelemetry ? null : siteUnit.unit(), caps,
-                    epoch == null ? clock.epochMillis() : epoch, new KeyAbortSwitch(console), 30);
+                    epoch == null ? clock.epochMillis() : epoch, new KeyAbortSwitch(console), 30)
+                    .removeGovernorAnswer(siteUnit.governor());
             Clock signingClock = clock; // the plant's time base when following it: key validity and signed times agree
             security.keys().ifPresent(keys -> runner.signCommandsWith(new CommandSigner(keys, signingClock, new MessageCodec())));
             o.printf(Locale.ROOT, "pulse-test: unit %s on %s, plan %s; caps %.1f MW, %.0f s. Type q and Enter to stop.%n",
                     unit, broker, plan.name(), caps.maxExcursionMw(), caps.maxDurationS());
+            // A signal (Ctrl-C, SIGTERM) stops the programme and lets this thread write the run folder
+            // before the process ends: the hook waits for it (bounded), since the JVM halts when hooks end.
+            CountDownLatch folderWritten = new CountDownLatch(1);
             PulseTestRunner r = runner;
-            Thread hook = new Thread(() -> r.abortNow("interrupted (signal)"));
+            Thread hook = new Thread(() -> {
+                r.abortNow("stopped by a signal to the pulse-test process");
+                try {
+                    folderWritten.await(SHUTDOWN_WRITE_WAIT_S, TimeUnit.SECONDS);
+                } catch (InterruptedException e) {
+                    Thread.currentThread().interrupt();
+                }
+            }, "pulse-test-shutdown");
             Runtime.getRuntime().addShutdownHook(hook);
-            try (AgentRunner agent = new AgentRunner(runner, 10_000_000L).start()) {
-                while (!runner.isDone() && agent.isRunning()) {
-                    Thread.sleep(200); // CLI thread only waits; the agent does the work
+            try {
+                try (AgentRunner agent = new AgentRunner(runner, 10_000_000L).start()) {
+                    ProgressPrinter progress = new ProgressPrinter(o);
+                    while (!runner.isDone() && agent.isRunning()) {
+                        Thread.sleep(200); // CLI thread only waits and prints; the agent does the work
+                        progress.show(runner.progress());
+                    }
+                }
+                written = writeRunFolder(runner, plan, siteUnit);
+            } finally {
+                folderWritten.countDown();
+                try {
+                    Runtime.getRuntime().removeShutdownHook(hook);
+                } catch (IllegalStateException shuttingDown) {
+                    // the signal's hook is running: it returns as soon as the folder is written
                 }
             }
-            Runtime.getRuntime().removeShutdownHook(hook);
         }
-        PulseTestResult result = PulseTestEvaluator.evaluate(runner.record(), plan);
-        Path dir = out.resolve(PulseTestRunFolder.runId(result.record().startedMs(), unit));
-        Map<String, String> cfg = new LinkedHashMap<>();
-        cfg.put("broker", broker);
-        cfg.put("site file", site.toString());
-        cfg.put("plan file", planFile.toString());
-        Path html = PulseTestRunFolder.write(dir, result, plan, siteUnit.siteId(), cfg);
+        PulseTestResult result = written.result();
         print(o, result);
-        o.println("report: " + html);
+        o.println("report: " + written.html());
         // a programme refused before anything was sent (caps, range, unit state) is a safety refusal
         return switch (result.verdict()) {
             case PASS -> 0;
@@ -169,13 +196,32 @@ public final class PulseTestCommand implements Callable<Integer> {
         };
     }
 
+    private record Written(PulseTestResult result, Path html) {
+    }
+
+    /** Evaluates what the runner recorded (also a run cut short) and writes its run folder. */
+    private Written writeRunFolder(PulseTestRunner runner, TestPlan plan, SiteUnitReader.SiteUnit siteUnit) {
+        PulseTestResult result = PulseTestEvaluator.evaluate(runner.record(), plan);
+        Path dir = out.resolve(PulseTestRunFolder.runId(result.record().startedMs(), unit));
+        Map<String, String> cfg = new LinkedHashMap<>();
+        cfg.put("broker", broker);
+        cfg.put("site file", site.toString());
+        cfg.put("plan file", planFile.toString());
+        return new Written(result, PulseTestRunFolder.write(dir, result, plan, siteUnit.siteId(), cfg));
+    }
+
     static void print(PrintStream o, PulseTestResult r) {
-        o.printf(Locale.ROOT, "%-34s %-26s %-5s %-34s %s%n", "step", "figure", "", "measured", "limit");
+        o.printf(Locale.ROOT, "%-34s %-26s %-5s %-34s %s%n", "step", "figure", "", "measured (own output)", "limit");
         for (Judgement j : r.rows()) {
-            o.printf(Locale.ROOT, "%-34s %-26s %-5s %-34s %s%n", j.step(), j.figure(), j.passed() ? "PASS" : "FAIL",
+            o.printf(Locale.ROOT, "%-34s %-26s %-5s %-34s %s%n", j.step(), j.figure(), j.outcome(),
                     j.decidingFigure(), j.limit());
         }
         r.findings().forEach(f -> o.println("finding: unit " + f.text()));
+        long notMeasured = r.rows().stream().filter(j -> !j.measured()).count();
+        if (notMeasured > 0) {
+            o.println(notMeasured + " row(s) not measured: they cannot pass and make no finding");
+        }
+        PulseTestRunFolder.whereLeft(r.record()).ifPresent(w -> o.println("unit: " + w));
         if (!r.record().stopReason().isEmpty()) {
             o.println(r.record().state().name().toLowerCase(Locale.ROOT) + ": " + r.record().stopReason());
         }

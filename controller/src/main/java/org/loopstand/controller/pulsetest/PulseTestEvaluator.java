@@ -22,31 +22,29 @@ public final class PulseTestEvaluator {
     }
 
     public static PulseTestResult evaluate(PulseTestRecord record, TestPlan plan) {
-        if (record.programme() == null || record.programmeStartMs() < 0) {
+        if (record.programme() == null || record.programmeStartMs() < 0 || record.declaration() == null) {
             return new PulseTestResult(record, List.of(), List.of(), List.of(), PulseTestResult.Verdict.REFUSED);
         }
         PlanSettings s = plan.settings();
         StepResponseAnalyzer analyzer = new StepResponseAnalyzer(s.noiseThresholdMw(), s.averagingS(),
                 s.settleBandPct(), s.settleBandMinMw());
-        List<OutputSample> samples = record.telemetry().stream().filter(TelemetryPoint::good)
+        List<OutputSample> own = OwnOutput.of(record);
+        List<OutputSample> raw = record.telemetry().stream().filter(TelemetryPoint::good)
                 .map(t -> new OutputSample(t.tMs(), t.outputMw())).toList();
         List<StepResult> steps = new ArrayList<>();
-        for (ProgrammeStep p : record.programme().steps()) {
-            long end = record.programmeStartMs() + p.endOffsetMs();
-            if (end > record.stoppedMs()) {
-                break; // not completed: an aborted run is judged on its finished steps only
-            }
+        // only the steps that ran to their end (an aborted run is judged on its finished steps only)
+        for (StepTiming timing : record.timings()) {
+            ProgrammeStep p = record.programme().steps().get(timing.index());
             List<SentPulse> mine = record.pulses().stream().filter(x -> x.stepIndex() == p.index()).toList();
-            long start = mine.isEmpty() ? record.programmeStartMs() + p.startOffsetMs() : mine.get(0).sentMs();
+            long start = mine.isEmpty() ? timing.startMs() : mine.get(0).sentMs();
             long reverse = -1;
             if (p.reverseAtOffsetMs() >= 0) {
                 reverse = mine.stream().filter(x -> x.direction() != p.direction()).mapToLong(SentPulse::sentMs)
                         .findFirst().orElse(-1);
             }
             double pulseS = mine.stream().mapToLong(SentPulse::durationMs).sum() / 1000.0;
-            StepWindow w = new StepWindow(p.label(), p.kind(), p.direction(), start, reverse, end,
+            StepWindow w = new StepWindow(p.label(), p.kind(), p.direction(), start, reverse, timing.endMs(),
                     p.requestedChangeMw(), pulseS);
-            StepMeasurement m = analyzer.analyze(w, samples);
             List<Refusal> refusals = new ArrayList<>();
             int unanswered = 0;
             for (SentPulse x : mine) {
@@ -57,8 +55,9 @@ public final class PulseTestEvaluator {
                     refusals.add(new Refusal(x.seq(), a.reason(), a.detail() == null ? "" : a.detail()));
                 }
             }
-            steps.add(new StepResult(p.index(), new StepEvidence(w, m, p.expectedRampMwPerMin(),
-                    p.expectedMoveMs() / 1000.0, refusals, unanswered)));
+            steps.add(new StepResult(p.index(), new StepEvidence(w, analyzer.analyze(w, own), analyzer.analyze(w, raw),
+                    p.expectedRampMwPerMin(), p.expectedMoveMs() / 1000.0, refusals, unanswered, timing.settleWaitS(),
+                    timing.settled())));
         }
         ResponseJudge judge = new ResponseJudge(plan.tolerances(), record.declaration().gainMwPerPulseS(),
                 s.noiseThresholdMw());

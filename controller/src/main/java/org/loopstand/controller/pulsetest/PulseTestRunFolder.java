@@ -16,6 +16,7 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
+import java.util.Optional;
 import org.loopstand.controller.pulsetest.analysis.Finding;
 import org.loopstand.controller.pulsetest.analysis.Judgement;
 import org.loopstand.controller.pulsetest.analysis.StepMeasurement;
@@ -58,11 +59,59 @@ public final class PulseTestRunFolder {
             Files.createDirectories(dir);
             Files.writeString(dir.resolve("result.json"), JSON.writeValueAsString(json(result, plan)));
             Files.writeString(dir.resolve("telemetry.csv"), csv(result.record()));
+            StringBuilder f = new StringBuilder("tMs,frequencyHz\r\n");
+            result.record().frequency().forEach(p -> f.append(p.tMs()).append(',').append(p.frequencyHz()).append("\r\n"));
+            Files.writeString(dir.resolve("frequency.csv"), f);
             return HtmlReportWriter.write(model(dir.getFileName().toString(), result, plan, site, configuration),
                     dir.resolve("report.html"));
         } catch (IOException e) {
             throw new UncheckedIOException("cannot write the run folder " + dir + ": " + e.getMessage(), e);
         }
+    }
+
+    /**
+     * How far the run moved the unit and where it left it, from the readings: for every run that sent
+     * pulses, and first of all for one cut short.
+     *
+     * @return e.g. "started at 700.00 MW, moved up to 12.10 MW from there, left at 711.80 MW (+11.80 MW) with
+     *         its load reference at 712.00 MW"; empty when nothing was sent or nothing was read
+     */
+    public static Optional<String> whereLeft(PulseTestRecord rec) {
+        Moved m = moved(rec);
+        if (m == null) {
+            return Optional.empty();
+        }
+        return Optional.of(String.format(Locale.ROOT, "started at %.2f MW, moved up to %.2f MW from there, "
+                + "left at %.2f MW (%+.2f MW) with its load reference at %.2f MW; the %d pulse(s) sent ask for "
+                + "%+.2f MW in all", m.startMw, m.maxExcursionMw, m.lastMw, m.lastMw - m.startMw, m.referenceMw,
+                rec.pulses().size(), m.requestedMw));
+    }
+
+    private record Moved(double startMw, double maxExcursionMw, double lastMw, double referenceMw, double requestedMw) {
+    }
+
+    private static Moved moved(PulseTestRecord rec) {
+        if (rec.pulses().isEmpty() || rec.programme() == null || rec.declaration() == null) {
+            return null;
+        }
+        double start = rec.programme().startMw();
+        double max = 0;
+        TelemetryPoint last = null;
+        for (TelemetryPoint t : rec.telemetry()) {
+            if (t.good() && t.tMs() >= rec.programmeStartMs()) {
+                max = Math.max(max, Math.abs(t.outputMw() - start));
+                last = t;
+            }
+        }
+        if (last == null) {
+            return null;
+        }
+        double requested = 0;
+        for (SentPulse p : rec.pulses()) {
+            requested += (p.direction() == PulseDirection.RAISE ? 1 : -1) * rec.declaration().pulseRateMwPerMin()
+                    * p.durationMs() / 60_000.0;
+        }
+        return new Moved(start, max, last.outputMw(), last.setpointMw(), requested);
     }
 
     static ObjectNode json(PulseTestResult r, TestPlan plan) {
@@ -80,6 +129,21 @@ public final class PulseTestRunFolder {
             root.set("declared", JSON.valueToTree(rec.declaration()));
         }
         root.put("pulsesSent", rec.pulses().size());
+        Moved m = moved(rec);
+        if (m != null) {
+            ObjectNode left = root.putObject("unitMoved");
+            left.put("startMw", m.startMw());
+            left.put("maxExcursionMw", m.maxExcursionMw());
+            left.put("leftAtMw", m.lastMw());
+            left.put("changeFromStartMw", m.lastMw() - m.startMw());
+            left.put("loadReferenceMw", m.referenceMw());
+            left.put("requestedByPulsesSentMw", m.requestedMw());
+        }
+        if (rec.governor() != null) {
+            root.set("governorRemoved", JSON.valueToTree(rec.governor()));
+        }
+        ArrayNode timings = root.putArray("stepTimings");
+        rec.timings().forEach(t -> timings.add(JSON.valueToTree(t)));
         ArrayNode findings = root.putArray("findings");
         for (Finding f : r.findings()) {
             findings.add(f.text());
@@ -93,6 +157,9 @@ public final class PulseTestRunFolder {
             n.put("expectedRampMwPerMin", s.evidence().expectedRampMwPerMin());
             n.put("expectedMoveS", s.evidence().expectedMoveS());
             n.set("measured", JSON.valueToTree(s.evidence().measurement()));
+            n.set("measuredWithGovernorAnswer", JSON.valueToTree(s.evidence().asMeasured()));
+            n.put("settleWaitS", s.evidence().settleWaitS());
+            n.put("settled", s.evidence().settled());
             n.set("refusals", JSON.valueToTree(s.evidence().refusals()));
             n.put("unanswered", s.evidence().unanswered());
         }
@@ -102,10 +169,11 @@ public final class PulseTestRunFolder {
     }
 
     private static String csv(PulseTestRecord rec) {
-        StringBuilder b = new StringBuilder("tMs,outputMw,setpointMw,good\r\n");
+        StringBuilder b = new StringBuilder("tMs,outputMw,setpointMw,good,governorAnswerMw\r\n");
         for (TelemetryPoint t : rec.telemetry()) {
             b.append(t.tMs()).append(',').append(t.outputMw()).append(',').append(t.setpointMw()).append(',')
-                    .append(t.good()).append("\r\n");
+                    .append(t.good()).append(',').append(Double.isNaN(t.governorMw()) ? "" : t.governorMw())
+                    .append("\r\n");
         }
         return b.toString();
     }
@@ -114,17 +182,26 @@ public final class PulseTestRunFolder {
             Map<String, String> configuration) {
         PulseTestRecord rec = r.record();
         boolean cut = r.verdict() == PulseTestResult.Verdict.ABORTED || r.verdict() == PulseTestResult.Verdict.REFUSED;
+        Optional<String> left = whereLeft(rec);
         RunInfo run = new RunInfo(runId, site, "pulse test " + plan.name() + " on unit " + rec.unit(), rec.startedMs(),
                 Math.max(rec.startedMs(), rec.stoppedMs()), cut,
-                cut ? r.verdict().name().toLowerCase(Locale.ROOT) + ": " + rec.stopReason() : "");
+                cut ? r.verdict().name().toLowerCase(Locale.ROOT) + ": " + rec.stopReason()
+                        + left.map(w -> ". Unit " + rec.unit() + " " + w).orElse("") : "");
         List<CheckResult> checks = new ArrayList<>();
         for (Judgement j : r.rows()) {
             checks.add(new CheckResult(j.step() + ": " + j.figure(), j.passed(), j.decidingFigure(), j.limit(),
-                    j.passed() ? "plan " + plan.name() : "plan " + plan.name() + "; finding: unit " + j.finding().text()));
+                    j.passed() ? "plan " + plan.name() : !j.measured() ? "plan " + plan.name() + "; not measured: no "
+                            + "finding is made from it, and it cannot pass"
+                            : "plan " + plan.name() + "; finding: unit " + j.finding().text()));
         }
         List<String> notes = new ArrayList<>(SafetyGate.CAUTIONS);
+        if (left.isPresent()) {
+            notes.add(0, "Unit " + rec.unit() + ": " + left.get() + ".");
+        }
         if (!rec.stopReason().isEmpty()) {
-            notes.add(0, "Run " + rec.state().name().toLowerCase(Locale.ROOT) + ": " + rec.stopReason());
+            notes.add(0, "Run " + rec.state().name().toLowerCase(Locale.ROOT) + ": " + rec.stopReason()
+                    + (r.verdict() == PulseTestResult.Verdict.ABORTED ? ". Judged: the " + r.steps().size()
+                            + " step(s) that ran to their end; nothing was sent after the stop" : ""));
         }
         for (Finding f : r.findings()) {
             notes.add("Finding: unit " + f.text());
@@ -133,15 +210,23 @@ public final class PulseTestRunFolder {
         List<MetricSection> sections = new ArrayList<>();
         for (StepResult s : r.steps()) {
             StepMeasurement m = s.evidence().measurement();
+            StepMeasurement raw = s.evidence().asMeasured();
+            String ownNote = rec.governor() == null ? "" : " (own output: governor's answer removed)";
             sections.add(new MetricSection("Step " + (s.index() + 1) + ": " + s.evidence().window().label(),
                     MetricSection.Group.UNIT_RESPONSE, List.of(
+                            Metric.of("measured change as measured", raw.measuredChangeMw(), 2, "MW",
+                                    "output as read, governor's answer to frequency included"),
+                            Metric.of("gain as measured", raw.gainMwPerPulseS(), 3, "MW/pulse-s", "output as read"),
+                            Metric.of("ramp rate as measured", raw.rampMwPerMin(), 2, "MW/min", "output as read"),
+                            Metric.of("wait for the unit to settle", s.evidence().settleWaitS(), 1, "s",
+                                    s.evidence().settled() ? "beyond the planned window" : "timed out: not settled"),
                             Metric.of("requested change", m.requestedChangeMw(), 2, "MW", "declared pulse rate × pulse time"),
-                            Metric.of("measured change", m.measuredChangeMw(), 2, "MW", "final mean − baseline mean"),
+                            Metric.of("measured change", m.measuredChangeMw(), 2, "MW", "final mean − baseline mean" + ownNote),
                             Metric.of("dead time", m.deadTimeS(), 1, "s", "10–90 % fit meets baseline, from first pulse"),
                             Metric.of("ramp rate", m.rampMwPerMin(), 2, "MW/min", "least squares over 10–90 % of the move"),
                             Metric.of("expected ramp", s.evidence().expectedRampMwPerMin(), 2, "MW/min",
                                     "slower of declared ramp and pulse train rate"),
-                            Metric.of("gain", m.gainMwPerPulseS(), 3, "MW/pulse-s", "measured change / pulse-seconds"),
+                            Metric.of("gain", m.gainMwPerPulseS(), 3, "MW/pulse-s", "measured change / pulse-seconds" + ownNote),
                             Metric.of("overshoot", m.overshootPct(), 1, "%", "beyond the final value"),
                             Metric.of("settling time", m.settlingTimeS(), 1, "s", "from first pulse into the band"),
                             Metric.of("final error", m.finalErrorMw(), 2, "MW", "final − (baseline + requested)"),

@@ -1,7 +1,6 @@
 package org.loopstand.controller.pulsetest;
 
 import java.util.ArrayList;
-import java.util.Arrays;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Locale;
@@ -9,8 +8,12 @@ import java.util.Map;
 import java.util.Optional;
 import java.util.concurrent.ConcurrentLinkedQueue;
 import org.loopstand.controller.pulsetest.plan.PlanException;
+import org.loopstand.controller.pulsetest.governor.GovernorAnswerTracker;
+import org.loopstand.controller.pulsetest.governor.GovernorSpec;
 import org.loopstand.controller.pulsetest.plan.PlanLimits;
+import org.loopstand.controller.pulsetest.plan.PlanSettings;
 import org.loopstand.controller.pulsetest.plan.TestPlan;
+import org.loopstand.controller.pulsetest.programme.DeclaredFigures;
 import org.loopstand.controller.pulsetest.programme.ProgrammeStep;
 import org.loopstand.controller.pulsetest.programme.PulseProgramme;
 import org.loopstand.controller.pulsetest.programme.TimedPulse;
@@ -23,7 +26,9 @@ import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.OutboundMessage;
 import org.loopstand.protocol.bus.Qos;
 import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.message.AreaMeter;
 import org.loopstand.protocol.message.CommandAck;
+import org.loopstand.protocol.message.PulseDirection;
 import org.loopstand.protocol.message.ControlMode;
 import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.message.UnitStatus;
@@ -37,9 +42,15 @@ import org.loopstand.protocol.topic.TopicTree;
  * Sends a plan's pulse programme to one unit over the bus and records the answer. An {@link Agent}:
  * driven by an AgentRunner in production, by hand after advancing a virtual clock in tests.
  *
- * <p>Stops at once, sending nothing further, when the abort switch is pressed, when good telemetry is
- * silent for more than {@code telemetryLossScans} scan periods, when the bus drops, when the unit leaves
- * online/remote, when its output leaves the excursion cap, or when the duration cap is reached.
+ * <p>Order: first telemetry (the programme is expanded and checked against the caps), a steady unit
+ * (own output and frequency within the plan's bands for {@code steadyForS}, else refused after
+ * {@code steadyTimeoutS}), then the steps, each ending only when the unit has settled (see
+ * {@link StepSequencer}).
+ *
+ * <p>Stops at once, sending nothing further, when the abort switch is pressed, when {@link #abortNow} is
+ * called (a signal), when good telemetry is silent for more than {@code telemetryLossScans} scan periods,
+ * when the bus drops, when the unit leaves online/remote, when its output leaves the excursion cap, or when
+ * the duration cap is reached.
  */
 public final class PulseTestRunner implements Agent {
     /** Controller id the test's commands carry. */
@@ -60,6 +71,7 @@ public final class PulseTestRunner implements Agent {
     private final ConcurrentLinkedQueue<Object[]> inbox = new ConcurrentLinkedQueue<>();
 
     private final List<TelemetryPoint> telemetry = new ArrayList<>();
+    private final List<FrequencyPoint> frequency = new ArrayList<>();
     private final List<SentPulse> sent = new ArrayList<>();
     private final Map<Long, CommandAck> acks = new HashMap<>();
     private final List<String> notes = new ArrayList<>();
@@ -68,10 +80,14 @@ public final class PulseTestRunner implements Agent {
     private String stopReason = "";
     private UnitDeclaration declaration;
     private PulseProgramme programme;
-    private List<TimedPulse> schedule = List.of();
-    private List<Integer> scheduleStep = List.of();
-    private int nextPulse;
+    private StepSequencer sequencer;
     private long programmeStartMs = -1;
+    private long steadyCheckFromMs = -1;
+    private GovernorSpec governor;
+    private GovernorAnswerTracker governorTracker;
+    private double requestedMw = Double.NaN;
+    private volatile String externalAbort;
+    private volatile PulseTestProgress progress;
     private long stoppedMs = -1;
     private long nextSeq;
     private UnitTelemetry latest;
@@ -101,6 +117,17 @@ public final class PulseTestRunner implements Agent {
         this.nextSeq = startedMs;
     }
 
+    /**
+     * Removes the unit's expected governor answer to its area's measured frequency from every reading
+     * (the grid's answer, not the unit's); also has the start wait for a steady frequency. Call before
+     * {@link #onStart()}; without it the output is judged as measured and frequency is not checked.
+     */
+    public PulseTestRunner removeGovernorAnswer(GovernorSpec spec) {
+        this.governor = spec;
+        this.governorTracker = spec == null ? null : new GovernorAnswerTracker(spec);
+        return this;
+    }
+
     /** Signs every pulse from now on (call before the run starts); without it pulses go out unsigned. */
     public PulseTestRunner signCommandsWith(CommandSigner commandSigner) {
         this.signer = commandSigner;
@@ -111,6 +138,9 @@ public final class PulseTestRunner implements Agent {
     public void onStart() {
         bus.subscribe(topics.unitTelemetry(unitId), Qos.AT_MOST_ONCE, m -> receive(m, UnitTelemetry.class));
         bus.subscribe(topics.unitAck(unitId), Qos.AT_LEAST_ONCE, m -> receive(m, CommandAck.class));
+        if (governor != null) {
+            bus.subscribe(topics.filterAreaMeters(governor.area()), Qos.AT_MOST_ONCE, m -> receive(m, AreaMeter.class));
+        }
     }
 
     private void receive(InboundMessage m, Class<?> type) {
@@ -125,31 +155,84 @@ public final class PulseTestRunner implements Agent {
         }
         int work = drain();
         long now = clock.epochMillis();
+        work += step(now);
+        publishProgress(now);
+        return work;
+    }
+
+    private int step(long now) {
+        if (externalAbort != null) {
+            stop(RunState.ABORTED, externalAbort, now);
+            return 1;
+        }
         if (state == RunState.AWAITING_TELEMETRY) {
             if (latest != null && lastGoodMs >= 0) {
-                begin(now);
-                return work + 1;
+                prepare(now);
+                return 1;
             }
             if (now - startedMs > startTimeoutMs) {
                 stop(RunState.ABORTED, "no good telemetry from unit " + unitId + " within "
                         + startTimeoutMs / 1000.0 + " s", now);
             }
-            return work;
+            return 0;
         }
         Optional<String> why = abortReason(now);
         if (why.isPresent()) {
-            stop(RunState.ABORTED, why.get(), now);
-            return work + 1;
+            stop(state == RunState.AWAITING_STEADY ? RunState.REFUSED : RunState.ABORTED, why.get(), now);
+            return 1;
         }
-        while (nextPulse < schedule.size() && programmeStartMs + schedule.get(nextPulse).atOffsetMs() <= now) {
-            send(schedule.get(nextPulse), scheduleStep.get(nextPulse), now);
-            nextPulse++;
+        if (state == RunState.AWAITING_STEADY) {
+            return awaitSteady(now);
+        }
+        int work = 0;
+        TimedPulse due;
+        while ((due = sequencer.nextDue(now)) != null) {
+            send(due, sequencer.current().index(), now);
             work++;
         }
-        if (now >= programmeStartMs + programme.durationMs()) {
+        ProgrammeStep current = sequencer.current();
+        if (now >= sequencer.nominalEndMs() && sequencer.endStepIfDue(now, settled(current, now))) {
+            work++;
+        }
+        if (sequencer.finished()) {
             stop(RunState.FINISHED, "", now);
         }
         return work;
+    }
+
+    /** Expands the programme at the first reading (refusing early), then waits for a steady unit. */
+    private void prepare(long now) {
+        if (expand(now)) {
+            state = RunState.AWAITING_STEADY;
+            steadyCheckFromMs = now;
+        }
+    }
+
+    private int awaitSteady(long now) {
+        PlanSettings s = plan.settings();
+        Steadiness st = Steadiness.over(telemetry, frequency, now, steadyCheckFromMs, s.steadyForS(),
+                s.steadyOutputBandMw(), s.noiseThresholdMw(), governor == null ? Double.NaN : governor.nominalHz(),
+                s.steadyFrequencyBandHz());
+        if (st.steady()) {
+            notes.add("steady before the first step: " + st.describe());
+            if (expand(now)) { // from the output now: the unit may have drifted while the test waited
+                sequencer = new StepSequencer(programme, now, s.settleTimeoutS());
+                programmeStartMs = now;
+                requestedMw = programme.startMw();
+                state = RunState.RUNNING;
+            }
+            return 1;
+        }
+        if (now - steadyCheckFromMs > Math.round(s.steadyTimeoutS() * 1000)) {
+            stop(RunState.REFUSED, String.format(Locale.ROOT, "refusing to start: the unit was not steady within "
+                    + "%.0f s: %s", s.steadyTimeoutS(), st.describe()), now);
+            return 1;
+        }
+        return 0;
+    }
+
+    private boolean settled(ProgrammeStep step, long now) {
+        return step == null || StepSequencer.settled(telemetry, step, now, sequencer.nominalEndMs(), plan.settings());
     }
 
     private int drain() {
@@ -159,7 +242,11 @@ public final class PulseTestRunner implements Agent {
             n++;
             InboundMessage m = (InboundMessage) item[0];
             long at = (Long) item[2];
-            if (item[1] == UnitTelemetry.class) {
+            if (item[1] == AreaMeter.class) {
+                codec.decode(m.payload(), AreaMeter.class).message()
+                        .filter(f -> f.frequencyQuality().validity() == Validity.GOOD)
+                        .ifPresent(f -> onFrequency(f.frequencyHz(), at));
+            } else if (item[1] == UnitTelemetry.class) {
                 codec.decode(m.payload(), UnitTelemetry.class).message().filter(t -> t.unit().equals(unitId))
                         .ifPresent(t -> onTelemetry(t, at));
             } else {
@@ -171,72 +258,51 @@ public final class PulseTestRunner implements Agent {
         return n;
     }
 
+    private void onFrequency(double hz, long at) {
+        if (governorTracker != null && Double.isFinite(hz)) {
+            frequency.add(new FrequencyPoint(at, hz));
+            governorTracker.frequency(at, hz);
+        }
+    }
+
     private void onTelemetry(UnitTelemetry t, long at) {
         boolean good = t.outputQuality().validity() == Validity.GOOD;
-        telemetry.add(new TelemetryPoint(at, t.outputMw(), t.setpointMw(), good));
+        double governorMw = governorTracker == null ? Double.NaN : governorTracker.answerMwAt(at);
+        telemetry.add(new TelemetryPoint(at, t.outputMw(), t.setpointMw(), good, governorMw));
         latest = t;
         if (good) {
             lastGoodMs = at;
         }
     }
 
-    private void begin(long now) {
+    /** @return true when the programme expanded within the caps; else the run is refused */
+    private boolean expand(long now) {
         UnitTelemetry t = latest;
         if (t.status() != UnitStatus.ONLINE || t.controlMode() != ControlMode.REMOTE) {
             stop(RunState.REFUSED, "unit " + unitId + " is " + t.status().name().toLowerCase(Locale.ROOT) + " in "
                     + t.controlMode().name().toLowerCase(Locale.ROOT) + " mode; the test needs online and remote", now);
-            return;
+            return false;
         }
-        try {
-            UnitDeclaration fromTelemetry = new UnitDeclaration(unitId, t.regulatingMinMw(), t.regulatingMaxMw(),
-                    t.rampMwPerMin(), t.pulseRateMwPerMin(), "unit telemetry");
-            declaration = siteDeclaration != null ? siteDeclaration : fromTelemetry;
-            if (siteDeclaration != null) {
-                compare(siteDeclaration, fromTelemetry);
+        if (declaration == null) {
+            try {
+                declaration = DeclaredFigures.resolve(unitId, siteDeclaration, t, notes);
+            } catch (IllegalArgumentException e) {
+                stop(RunState.REFUSED, e.getMessage(), now);
+                return false;
             }
-        } catch (IllegalArgumentException e) {
-            if (siteDeclaration == null) {
-                stop(RunState.REFUSED, "the unit's telemetry does not declare usable figures: " + e.getMessage(), now);
-                return;
-            }
-            declaration = siteDeclaration;
-            notes.add("the unit's telemetry declares unusable figures (" + e.getMessage() + "); the site file's are used");
         }
         try {
             programme = PulseProgramme.expand(plan, declaration, t.outputMw());
         } catch (PlanException e) {
             stop(RunState.REFUSED, "refusing to start: " + String.join("; ", e.problems()), now);
-            return;
+            return false;
         }
         Optional<String> capRefusal = SafetyGate.checkCaps(programme, caps);
         if (capRefusal.isPresent()) {
             stop(RunState.REFUSED, capRefusal.get(), now);
-            return;
+            return false;
         }
-        List<TimedPulse> pulses = new ArrayList<>();
-        List<Integer> stepOf = new ArrayList<>();
-        for (ProgrammeStep s : programme.steps()) {
-            for (TimedPulse p : s.pulses()) {
-                pulses.add(p);
-                stepOf.add(s.index());
-            }
-        }
-        schedule = pulses;
-        scheduleStep = stepOf;
-        programmeStartMs = now;
-        state = RunState.RUNNING;
-    }
-
-    private void compare(UnitDeclaration site, UnitDeclaration tel) {
-        double[][] pairs = {{site.rampMwPerMin(), tel.rampMwPerMin()}, {site.pulseRateMwPerMin(), tel.pulseRateMwPerMin()},
-                {site.regulatingMinMw(), tel.regulatingMinMw()}, {site.regulatingMaxMw(), tel.regulatingMaxMw()}};
-        String[] names = {"rampMwPerMin", "pulseRateMwPerMin", "regulatingMinMw", "regulatingMaxMw"};
-        for (int i = 0; i < pairs.length; i++) {
-            if (Math.abs(pairs[i][0] - pairs[i][1]) > 1e-6 * Math.max(1, Math.abs(pairs[i][0]))) {
-                notes.add(String.format(Locale.ROOT, "%s: site file declares %.3f, unit telemetry %.3f; the site "
-                        + "file's figure is judged against", names[i], pairs[i][0], pairs[i][1]));
-            }
-        }
+        return true;
     }
 
     private Optional<String> abortReason(long now) {
@@ -256,6 +322,9 @@ public final class PulseTestRunner implements Agent {
             return Optional.of("unit left online/remote: now " + latest.status().name().toLowerCase(Locale.ROOT) + ", "
                     + latest.controlMode().name().toLowerCase(Locale.ROOT));
         }
+        if (programme == null) {
+            return Optional.empty();
+        }
         double excursion = Math.abs(latest.outputMw() - programme.startMw());
         if (latest.outputQuality().validity() == Validity.GOOD && excursion > caps.maxExcursionMw()) {
             return Optional.of(String.format(Locale.ROOT, "output %.2f MW is %.2f MW from the start, beyond the "
@@ -269,21 +338,7 @@ public final class PulseTestRunner implements Agent {
 
     /** Median interval of the last good telemetry scans; 1 s until three intervals are known. */
     long scanPeriodMs() {
-        List<Long> times = new ArrayList<>();
-        for (int i = telemetry.size() - 1; i >= 0 && times.size() < 21; i--) {
-            if (telemetry.get(i).good()) {
-                times.add(telemetry.get(i).tMs());
-            }
-        }
-        if (times.size() < 4) {
-            return DEFAULT_SCAN_MS;
-        }
-        long[] d = new long[times.size() - 1];
-        for (int i = 0; i + 1 < times.size(); i++) {
-            d[i] = times.get(i) - times.get(i + 1);
-        }
-        Arrays.sort(d);
-        return Math.max(1, d[d.length / 2]);
+        return ScanPeriod.medianMs(telemetry, DEFAULT_SCAN_MS);
     }
 
     private void send(TimedPulse p, int stepIndex, long now) {
@@ -293,6 +348,8 @@ public final class PulseTestRunner implements Agent {
         UnitCommand c = signer == null ? unsigned : signer.sign(unsigned);
         long expiryS = Math.max(1, (plan.settings().commandValidityMs() + 999) / 1000);
         sent.add(new SentPulse(seq, now, stepIndex, p.direction(), p.durationMs()));
+        requestedMw += (p.direction() == PulseDirection.RAISE ? 1 : -1) * declaration.pulseRateMwPerMin()
+                * p.durationMs() / 60_000.0;
         bus.publish(new OutboundMessage(topics.unitCommand(unitId), codec.encode(c), Qos.AT_LEAST_ONCE, false, expiryS))
                 .exceptionally(e -> {
                     synchronized (notes) {
@@ -318,22 +375,39 @@ public final class PulseTestRunner implements Agent {
         return state;
     }
 
-    /** Stops the run from outside (e.g. a shutdown hook); nothing further is sent. */
+    /**
+     * Stops the run from another thread (e.g. a shutdown hook): the agent thread stops at its next
+     * cycle and sends nothing further; {@link #record()} also honours it when the agent no longer runs.
+     */
     public void abortNow(String reason) {
-        if (!isDone()) {
-            stop(RunState.ABORTED, reason, clock.epochMillis());
-        }
+        externalAbort = reason;
+    }
+
+    /** @return the latest progress snapshot (any thread), or null before the first cycle */
+    public PulseTestProgress progress() {
+        return progress;
+    }
+
+    private void publishProgress(long now) {
+        progress = PulseTestProgress.of(state, sequencer == null ? null : sequencer.current(),
+                sequencer != null && now >= sequencer.nominalEndMs(), sequencer == null ? 0 : sequencer.stepNumber(),
+                programme == null ? 0 : programme.steps().size(), (now - startedMs) / 1000.0,
+                telemetry.isEmpty() ? null : telemetry.get(telemetry.size() - 1), requestedMw);
     }
 
     /** @return what the run recorded so far (final once {@link #isDone()}) */
     public PulseTestRecord record() {
         drain();
+        if (!isDone() && externalAbort != null) {
+            stop(RunState.ABORTED, externalAbort, clock.epochMillis());
+        }
         List<String> n;
         synchronized (notes) {
             n = List.copyOf(notes);
         }
-        return new PulseTestRecord(unitId, state, stopReason, declaration, programme, startedMs, programmeStartMs,
-                stoppedMs < 0 ? clock.epochMillis() : stoppedMs, telemetry, sent, acks, n);
+        return new PulseTestRecord(unitId, state, stopReason, declaration, programme,
+                startedMs, programmeStartMs, stoppedMs < 0 ? clock.epochMillis() : stoppedMs, telemetry, frequency,
+                sequencer == null ? List.of() : sequencer.timings(), governor, sent, acks, n);
     }
 
     @Override

@@ -4,6 +4,8 @@ package org.loopstand.controller.pulsetest;
 public enum RunState {
     /** Waiting for the unit's first good telemetry. */
     AWAITING_TELEMETRY,
+    /** Programme expanded within the caps; waiting until output and frequency are steady. */
+    AWAITING_STEADY,
     /** Sending the programme. */
     RUNNING,
     /** The whole programme ran. */

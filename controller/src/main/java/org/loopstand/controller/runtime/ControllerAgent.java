@@ -67,6 +67,7 @@ public final class ControllerAgent implements Agent {
     private final long epoch;
     private final JournalWriter journal;
     private final HistogramLogs histograms;
+    private final ControllerMetrics metrics = new ControllerMetrics();
     private final TopicTree topics;
     private final MessageCodec codec = new MessageCodec();
     private final IntakeRouter intake;
@@ -112,6 +113,7 @@ public final class ControllerAgent implements Agent {
         this.epoch = epoch;
         this.journal = journal;
         this.histograms = histograms;
+        metrics.attach(this);
         this.topics = TopicTree.forSite(site.siteId());
         this.cycle = new ControlCycle(site.toCycleSettings());
         this.intake = new IntakeRouter(site, clock, codec, new Observer());
@@ -226,6 +228,7 @@ public final class ControllerAgent implements Agent {
     }
 
     private void runCycle(CycleTick tick) {
+        long startNanos = clock.monotonicNanos();
         long nowMs = clock.epochMillis();
         boolean link = linkUp && bus.isConnected();
         List<AreaCycleInputs> areas = new ArrayList<>();
@@ -236,6 +239,8 @@ public final class ControllerAgent implements Agent {
         CycleOutcome o = cycle.step(new CycleInputs(tick.cycleNumber(), nowMs, link, areas, units));
         lastOutcome = o;
         cyclesRun++;
+        metrics.cycle(o.state().name().toLowerCase(java.util.Locale.ROOT), clock.monotonicNanos() - startNanos,
+                tick.jitterNanos());
         if (histograms != null) {
             histograms.record(JITTER_TAG, tick.jitterNanos() / 1000);
         }
@@ -314,6 +319,7 @@ public final class ControllerAgent implements Agent {
             }
         });
         commandsSent++;
+        metrics.commandSent(c.kind().name().toLowerCase(java.util.Locale.ROOT));
         if (journal != null) {
             Map<String, Object> f = new LinkedHashMap<>();
             f.put("unit", c.unitId());
@@ -441,6 +447,8 @@ public final class ControllerAgent implements Agent {
     public IntakeRouter intake() { return intake; }
     public ControlCycle cycle() { return cycle; }
     public long commandsSent() { return commandsSent; }
+    /** @return the counters behind {@code control --metrics-port} (readable from any thread) */
+    public ControllerMetrics metrics() { return metrics; }
     public long statusesSent() { return statusesSent; }
     public long cyclesRun() { return cyclesRun; }
     public boolean linkUp() { return linkUp; }

@@ -72,8 +72,7 @@ final class EmulatorRig implements AutoCloseable {
      * frequency then moves only with the tested unit's own pulses.
      */
     static Grid quietDemoSite() throws java.io.IOException {
-        String text = java.nio.file.Files.readString(SITE).replaceAll("noiseSigmaMw: [0-9.]+", "noiseSigmaMw: 0");
-        return SiteLoader.load(SITE.toString(), new java.io.StringReader(text));
+        return SiteLoader.load(SITE).withoutLoadNoise(); // what `./loopstand plant --quiet-loads` runs
     }
 
     UnitPlantInterface unit() {
@@ -91,9 +90,9 @@ final class EmulatorRig implements AutoCloseable {
 
     /** Runs the plan to its end (bounded by its duration cap) and judges it. */
     PulseTestResult run() {
-        var declared = SiteUnitReader.read(SITE, unitId).unit();
-        runner = new PulseTestRunner(broker.connect("pulse-test"), clock, topics, unitId, plan, declared,
-                plan.limits(), 1, AbortSwitch.NEVER, 30);
+        var site = SiteUnitReader.read(SITE, unitId);
+        runner = new PulseTestRunner(broker.connect("pulse-test"), clock, topics, unitId, plan, site.unit(),
+                plan.limits(), 1, AbortSwitch.NEVER, 30).removeGovernorAnswer(site.governor());
         runner.onStart();
         long bound = Math.round(plan.limits().maxDurationS() * 1000 / TICK_MS) + 1000;
         for (long i = 0; i < bound && !runner.isDone(); i++) {

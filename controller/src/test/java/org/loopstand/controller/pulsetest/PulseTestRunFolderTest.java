@@ -31,6 +31,9 @@ class PulseTestRunFolderTest {
         // per-step figures under their own heading, not under the rehearsal's frequency quality
         assertThat(page).contains("<section id=\"unit-response\">\n<h2>Unit response</h2>")
                 .contains("Step 2: staircase raise 1/1").doesNotContain("id=\"frequency-quality\"");
+        // the report's own title and headings, not a rehearsal's
+        assertThat(page).contains("<h1>Loopstand unit response test</h1>").contains("<h2>Unit response test results</h2>")
+                .doesNotContain("rehearsal report").doesNotContain("Scenario checks");
         assertThat(dir.getFileName().toString()).isEqualTo("20260101T000000-pulse-test-unit-a");
     }
 }

@@ -144,7 +144,9 @@ class PulseTestRunnerTest {
         assertThat(r.verdict()).isEqualTo(PulseTestResult.Verdict.ABORTED);
         assertThat(r.record().stopReason()).contains("telemetry lost");
         // 5 scans of 1 s: stopped between 5 and 6 s after the last reading.
-        assertThat(r.record().stoppedMs() - lostAt[0]).isBetween(5000L, 6100L);
+        long lastReadingMs = r.record().telemetry().stream().filter(TelemetryPoint::good)
+                .mapToLong(TelemetryPoint::tMs).filter(t -> t <= lostAt[0]).max().orElseThrow();
+        assertThat(r.record().stoppedMs() - lastReadingMs).isBetween(5000L, 6100L);
         long stop = r.record().stoppedMs();
         assertThat(r.record().pulses()).allMatch(p -> p.sentMs() <= stop);
         int before = rig.unit.commandsReceived;

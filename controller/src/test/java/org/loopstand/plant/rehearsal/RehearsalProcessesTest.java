@@ -43,7 +43,7 @@ class RehearsalProcessesTest {
     Rehearsal rehearsal(int port, double rate) {
         String cp = System.getProperty("java.class.path");
         RehearsalSettings s = new RehearsalSettings(SCENARIO, SITE, null, rate, runs,
-                Path.of(System.getProperty("java.home"), "bin", "java").toString(), cp, cp, port, 60_000, List.of());
+                Path.of(System.getProperty("java.home"), "bin", "java").toString(), cp, cp, port, 60_000, List.of(), Path.of(".."));
         return new Rehearsal(s, WallClock.INSTANCE, new PrintStream(output, true, StandardCharsets.UTF_8), false);
     }
 
@@ -87,7 +87,10 @@ class RehearsalProcessesTest {
         CompletableFuture<Rehearsal.Outcome> run = CompletableFuture.supplyAsync(r::run);
         Awaitility.await().atMost(Duration.ofSeconds(90)).until(() -> r.pidOf("controller").isPresent()
                 && controllerDecisions() >= 3);
-        ProcessHandle.of(r.pidOf("controller").getAsLong()).orElseThrow().destroyForcibly(); // SIGKILL
+        // SIGKILL the controller: the shell the rig started it through and every process under it
+        ProcessHandle shell = ProcessHandle.of(r.pidOf("controller").getAsLong()).orElseThrow();
+        shell.descendants().forEach(ProcessHandle::destroyForcibly);
+        shell.destroyForcibly();
         Rehearsal.Outcome o = run.get();
         assertThat(o.exitCode()).isEqualTo(1);
         assertThat(o.message()).contains("the controller process died").contains("exit code 137");

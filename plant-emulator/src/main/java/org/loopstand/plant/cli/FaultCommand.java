@@ -10,6 +10,7 @@ import java.util.concurrent.Callable;
 import java.util.concurrent.TimeUnit;
 
 import org.loopstand.plant.fault.FaultLibrary;
+import org.loopstand.plant.fault.FaultOrderCheck;
 import org.loopstand.plant.fault.FaultType;
 import org.loopstand.plant.fault.ParameterSpec;
 import org.loopstand.protocol.bus.OutboundMessage;
@@ -79,48 +80,18 @@ public final class FaultCommand implements Runnable {
 
         @Override
         public Integer call() throws Exception {
-            FaultType t = FaultLibrary.standard().type(type).orElse(null);
-            if (t == null) {
-                System.err.println("refused: unknown fault type '" + type + "'; known types: " + FaultLibrary.standard().names());
-                return 2;
-            }
-            Map<String, Object> values = new LinkedHashMap<>();
-            for (String p : params) {
-                int eq = p.indexOf('=');
-                if (eq < 1) {
-                    System.err.println("refused: --param must be name=value, got '" + p + "'");
-                    return 2;
-                }
-                String name = p.substring(0, eq);
-                Object value = parseValue(p.substring(eq + 1));
-                ParameterSpec spec = t.parameter(name).orElse(null);
-                if (spec == null) {
-                    System.err.println("refused: fault type " + type + " has no parameter '" + name + "'; it takes "
-                            + t.parameters().stream().map(ParameterSpec::name).toList());
-                    return 2;
-                }
-                var wrong = spec.check(value instanceof Number n ? (Object) n.doubleValue() : value);
-                if (wrong.isPresent()) {
-                    System.err.println("refused: " + wrong.get());
-                    return 2;
-                }
-                values.put(name, value);
-            }
-            if (durationS != null && !(durationS > 0)) {
-                System.err.println("refused: --duration-s must be greater than 0, got " + durationS);
-                return 2;
-            }
             long now = WallClock.INSTANCE.epochMillis();
-            String id = orderId != null ? orderId : "cli-" + now;
-            if (!Ids.isValid(id) || !targets.stream().allMatch(Ids::isValid)) {
-                System.err.println("refused: order id and targets must match " + Ids.PATTERN.pattern());
+            FaultOrderCheck.Result checked = new FaultOrderCheck(FaultLibrary.standard())
+                    .start(type, targets, params, durationS, orderId != null ? orderId : "cli-" + now, now);
+            if (checked.refused()) {
+                System.err.println(checked.refusal());
                 return 2;
             }
-            FaultOrder order = new FaultOrder(now, now, id, FaultAction.START, type, targets, values, durationS);
+            FaultOrder order = checked.order();
             if (!parent.tryPublish(order)) {
                 return 1;
             }
-            System.out.println("sent fault order " + id + " (" + type + " on " + targets + ") to " + parent.broker);
+            System.out.println("sent fault order " + order.orderId() + " (" + type + " on " + targets + ") to " + parent.broker);
             return 0;
         }
     }
@@ -136,12 +107,13 @@ public final class FaultCommand implements Runnable {
 
         @Override
         public Integer call() throws Exception {
-            if (!Ids.isValid(orderId)) {
-                System.err.println("refused: order id must match " + Ids.PATTERN.pattern());
+            FaultOrderCheck.Result checked = new FaultOrderCheck(FaultLibrary.standard())
+                    .stop(orderId, WallClock.INSTANCE.epochMillis());
+            if (checked.refused()) {
+                System.err.println(checked.refusal());
                 return 2;
             }
-            long now = WallClock.INSTANCE.epochMillis();
-            if (!parent.tryPublish(new FaultOrder(now, now, orderId, FaultAction.STOP, "stop", List.of(), Map.of(), null))) {
+            if (!parent.tryPublish(checked.order())) {
                 return 1;
             }
             System.out.println("sent stop for fault order " + orderId + " to " + parent.broker);
@@ -177,14 +149,6 @@ public final class FaultCommand implements Runnable {
                 out.printf(Locale.ROOT, "    --param %s=…  %s, default %s: %s%n", p.name(), p.rangeText(), p.defaultText(),
                         p.description());
             }
-        }
-    }
-
-    static Object parseValue(String text) {
-        try {
-            return Double.parseDouble(text);
-        } catch (NumberFormatException e) {
-            return text;
         }
     }
 

@@ -15,6 +15,7 @@ import java.util.concurrent.TimeUnit;
 import java.util.concurrent.atomic.AtomicBoolean;
 
 import org.loopstand.plant.journal.PlantRunJournal;
+import org.loopstand.plant.live.LiveView;
 
 import org.loopstand.plant.broker.EmbeddedBroker;
 import org.loopstand.plant.grid.Area;
@@ -27,6 +28,8 @@ import org.loopstand.plant.runtime.ConnectionGrouping;
 import org.loopstand.plant.runtime.HeldStartClock;
 import org.loopstand.plant.runtime.PlantOptions;
 import org.loopstand.plant.runtime.PlantRunner;
+import org.loopstand.plant.runtime.RunAnnouncer;
+import org.loopstand.protocol.message.RunPhase;
 import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.Scenario;
 import org.loopstand.plant.scenario.ScenarioEvent;
@@ -69,6 +72,8 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--broker-port", defaultValue = "1884", description = "port of the embedded broker on 127.0.0.1, 0 = any free port (default ${DEFAULT-VALUE}); not used with --broker")
     int brokerPort;
 
+    @Option(names = "--quiet-loads", description = "switch the loads' random noise off: a quiet test bed for `pulse-test` (docs/pulse-test.md)")
+    boolean quietLoads;
     @Option(names = "--rate", defaultValue = "1", description = "scenario seconds per wall second (default ${DEFAULT-VALUE})")
     double rate;
 
@@ -111,6 +116,13 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--linger-s", defaultValue = "0", description = "after the scenario ends, keep the embedded broker up this many wall seconds (or until stopped) so the controller can stop cleanly")
     double lingerS;
 
+    @Option(names = "--wire-profile", paramLabel = "FILE", description = "speak another topic and payload layout to the"
+            + " controller (YAML; docs/controller-contract.md, \"Wire profiles\"); the journal keeps the rig's own form")
+    Path wireProfile;
+
+    @Mixin
+    LiveMixin live;
+
     @Mixin
     InterfaceMixin iface;
 
@@ -124,6 +136,9 @@ public final class PlantCommand implements Callable<Integer> {
         RunScenario rehearsal = null;
         try {
             grid = SiteLoader.load(site);
+            if (quietLoads) {
+                grid = grid.withoutLoadNoise();
+            }
             if (scenarioFile != null) {
                 rehearsal = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
                 scenario = rehearsal.scenario();
@@ -132,6 +147,16 @@ public final class PlantCommand implements Callable<Integer> {
             System.err.println("refused:");
             System.err.println(e.getMessage());
             return 2;
+        }
+        org.loopstand.plant.profile.WireProfile profile = null;
+        if (wireProfile != null) {
+            try {
+                profile = org.loopstand.plant.profile.WireProfileLoader.load(wireProfile, grid.siteId());
+            } catch (ConfigFileException e) {
+                System.err.println("refused:");
+                System.err.println(e.getMessage());
+                return 2;
+            }
         }
         PlantOptions options;
         try {
@@ -176,8 +201,13 @@ public final class PlantCommand implements Callable<Integer> {
         HeldStartClock held = waitGo ? new HeldStartClock(WallClock.INSTANCE, rate) : null;
         Clock clock = held != null ? held
                 : rate == 1.0 ? WallClock.INSTANCE : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
-        PlantRunner runner = new PlantRunner(sim, events, options, MqttLinks.to(uri, WallClock.INSTANCE, security, grid.siteId()),
-                clock, PlantCommand::say);
+        var links = MqttLinks.to(uri, WallClock.INSTANCE, security, grid.siteId());
+        if (profile != null) {
+            links = org.loopstand.plant.profile.ProfiledLinks.of(links, profile,
+                    (topic, why) -> System.err.println("plant: wire profile: " + topic + ": " + why));
+            say("plant: wire profile " + profile.name() + " from " + wireProfile + " on the controller's side of the bus");
+        }
+        PlantRunner runner = new PlantRunner(sim, events, options, links, clock, PlantCommand::say);
         PlantSecurity.requireSignedCommands(security, runner.hosts().stream().map(UnitHost::unit).toList(), clock);
         PlantRunJournal runJournal = null;
         if (journalDir != null) {
@@ -187,7 +217,8 @@ public final class PlantCommand implements Callable<Integer> {
                 closeQuietly(embedded);
                 return 2;
             }
-            Map<String, Object> header = journalHeader(grid, scenario, events, uri, embedded != null, options, sim);
+            Map<String, Object> header = PlantJournalHeader.of(grid, site, scenarioFile, scenario, events, rate, seed,
+                    uri, embedded != null, options, sim, meterScanMs);
             header.put("security", security.insecure() ? "insecure" : "secured"); // the report marks insecure runs
             header.put("acceptedControllers", new java.util.TreeSet<>(options.interfaces().acceptedControllers()));
             runJournal = PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), header, clock, WallClock.INSTANCE);
@@ -198,6 +229,7 @@ public final class PlantCommand implements Callable<Integer> {
         if (runJournal != null) {
             observers.add(runJournal);
         }
+        observers.add(runner.counters()); // the metrics page counts what the fault stage kept off the wire
         FaultObserver observer = FaultObserver.all(observers);
         FaultEngine faults = new FaultEngine(clock, clock.epochMillis(), observer);
         if (rehearsal != null) {
@@ -205,15 +237,45 @@ public final class PlantCommand implements Callable<Integer> {
                 faults.schedule(f).ifPresent(why -> say("plant: fault " + f.id() + " not scheduled: " + why));
             }
         }
-        FaultHooks.wire(runner, faults, observer, record, clock, scenario == null ? 0 : scenario.seed(), true);
+        FaultHooks hooks = FaultHooks.wire(runner, faults, observer, record, clock, scenario == null ? 0 : scenario.seed(), true);
+        LiveView liveView;
+        try {
+            liveView = live.startIfAsked(runner, hooks, clock, embedded != null,
+                    rehearsal == null ? List.of() : rehearsal.checks().stream().map(c -> c.name()).toList(),
+                    journalDir == null ? null : journalDir.resolve("report.html"));
+        } catch (IllegalArgumentException | java.io.IOException e) {
+            System.err.println("refused: live view: " + e.getMessage());
+            runner.close();
+            closeQuietly(embedded);
+            return 2;
+        }
+        if (liveView != null) {
+            say("live view: " + liveView.address());
+        }
         if (rehearsal != null) {
-            runner.agent().checkWith(record, rehearsal.checks(), PlantCommand::say);
-            // the controller's statuses, as the plant sees them, for the checks on the controller's decisions
+            runner.agent().checkWith(record, rehearsal.checks(), line -> {
+                say(line);
+                if (liveView != null) {
+                    liveView.checkDecided(line);
+                }
+            });
+        }
+        if (rehearsal != null || runJournal != null) {
+            // the controller's statuses as the plant sees them: the checks on its decisions, its heartbeat and own ACE
+            PlantRunJournal statusJournal = runJournal;
+            boolean checking = rehearsal != null;
+            var statusCodec = new org.loopstand.protocol.codec.MessageCodec();
             runner.plantBus().subscribe(runner.topics().filterAll(org.loopstand.protocol.topic.TopicKind.CONTROLLER_STATUS),
                     Qos.AT_LEAST_ONCE, m -> {
                         long at = clock.epochMillis();
-                        new org.loopstand.protocol.codec.MessageCodec().decode(m.payload(), ControllerStatus.class).message()
-                                .ifPresent(st -> runner.agent().runOnLoop(() -> record.controllerStatus(at, st)));
+                        statusCodec.decode(m.payload(), ControllerStatus.class).message().ifPresent(st -> {
+                            if (statusJournal != null) {
+                                statusJournal.controllerStatus(at, st);
+                            }
+                            if (checking) {
+                                runner.agent().runOnLoop(() -> record.controllerStatus(at, st));
+                            }
+                        });
                     });
         }
         if (scenario != null) {
@@ -225,6 +287,9 @@ public final class PlantCommand implements Callable<Integer> {
         Runnable closeAll = () -> {
             if (closed.compareAndSet(false, true)) {
                 runner.close();
+                if (liveView != null) {
+                    liveView.close();
+                }
                 closeQuietly(brokerToClose);
             }
         };
@@ -233,6 +298,14 @@ public final class PlantCommand implements Callable<Integer> {
             stopped.countDown();
         }, "plant-shutdown"));
         runner.start();
+        RunAnnouncer run = new RunAnnouncer(runner.plantBus(), runner.topics(), new org.loopstand.protocol.codec.MessageCodec(),
+                clock, RunAnnouncer.newRunId(WallClock.INSTANCE.epochMillis(), ProcessHandle.current().pid()),
+                scenario == null ? Double.NaN : scenario.durationS(), rate);
+        if (runner.plantBus() instanceof org.loopstand.protocol.bus.mqtt.MqttLink l && !l.awaitConnected(30_000)) {
+            System.err.println("plant: not connected to " + uri + " after 30 s; going on, the link keeps retrying");
+        }
+        RunAnnouncer.publishSiteSchedules(grid, runner.agent().plant());
+        run.announce(held != null ? RunPhase.WAITING : RunPhase.RUNNING, 0, null);
         int here = runner.hosts().size();
         say(String.format(Locale.ROOT, "plant: site %s, broker %s%s, rate %s, %d unit interface(s) here (%s), %d elsewhere%s",
                 grid.siteId(), uri, embedded != null ? " (embedded)" : "", trim(rate), here,
@@ -245,6 +318,7 @@ public final class PlantCommand implements Callable<Integer> {
                 return 1;
             }
             held.release();
+            run.announce(RunPhase.RUNNING, 0, null);
             say("plant: go, scenario time runs");
         }
         long startNanos = WallClock.INSTANCE.monotonicNanos();
@@ -265,6 +339,8 @@ public final class PlantCommand implements Callable<Integer> {
                 why = trim(durationS) + " s wall done";
             }
         }
+        run.announce(RunPhase.ENDED, Math.round(runner.sim().timeS() * 1000),
+                runner.agent().finished() ? "completed" : "stopped");
         runner.close(); // stops the loop: the journal gets its end entry
         say(String.format(Locale.ROOT, "plant: %s at %.1f s simulated; step lateness p99 %d µs, max %d µs%s", why,
                 runner.sim().timeS(), runner.lateness().histogramUs().getValueAtPercentile(99),
@@ -279,48 +355,6 @@ public final class PlantCommand implements Callable<Integer> {
         }
         closeAll.run();
         return 0;
-    }
-
-    private Map<String, Object> journalHeader(Grid grid, Scenario scenario, List<ScenarioEvent> events, String uri,
-                                              boolean embedded, PlantOptions options, GridSimulator sim) {
-        Map<String, Object> header = new LinkedHashMap<>();
-        header.put("site", grid.siteId());
-        header.put("siteFile", site.getFileName().toString());
-        header.put("scenario", scenarioFile == null ? null : scenarioFile.getFileName().toString());
-        header.put("scenarioDurationS", scenario == null ? null : scenario.durationS());
-        header.put("rate", rate);
-        header.put("seed", seed);
-        header.put("scenarioSeed", scenario == null ? null : scenario.seed());
-        header.put("broker", uri);
-        header.put("embeddedBroker", embedded);
-        header.put("grouping", options.grouping().cliName());
-        header.put("stepS", sim.stepS());
-        header.put("loopstandVersion", PlantCli.VERSION);
-        header.put("javaVersion", System.getProperty("java.version"));
-        header.put("areas", areaHeader(grid));
-        Map<String, String> unitAreas = new LinkedHashMap<>();
-        grid.units().forEach(u -> unitAreas.put(u.id(), u.area()));
-        header.put("units", unitAreas);
-        header.put("events", events.stream().map(e -> e.type() + "@" + trim(e.atS()) + "s").toList());
-        return header;
-    }
-
-    /** Per area what the report needs: nominal frequency, bias β (MW/Hz, positive), scheduled net interchange. */
-    static Map<String, Object> areaHeader(Grid grid) {
-        Map<String, Object> out = new LinkedHashMap<>();
-        for (Area a : grid.areas()) {
-            double beta = !Double.isNaN(a.kMwPerHz()) ? a.kMwPerHz() : -10.0 * a.biasMwPer01Hz();
-            double scheduled = 0;
-            for (var t : grid.ties()) {
-                scheduled += t.fromArea().equals(a.id()) ? t.scheduledFlowMw() : t.toArea().equals(a.id()) ? -t.scheduledFlowMw() : 0;
-            }
-            Map<String, Object> m = new LinkedHashMap<>();
-            m.put("nominalFrequencyHz", a.nominalFrequencyHz());
-            m.put("betaMwPerHz", Double.isFinite(beta) ? beta : null);
-            m.put("scheduledNetInterchangeMw", scheduled);
-            out.put(a.id(), m);
-        }
-        return out;
     }
 
     /** @return true when a line "go" arrived on stdin, false at its end */

@@ -30,6 +30,15 @@ public final class Grid {
         this.unitIndex = index(this.units, GeneratingUnit::id);
     }
 
+    /**
+     * The same grid with every load's random noise switched off (a quiet test bed, e.g. for a unit
+     * response test: the frequency then moves only with what is tested); everything else unchanged.
+     */
+    public Grid withoutLoadNoise() {
+        return new Grid(siteId, areas, ties, units, loads.stream().map(l -> new LoadModel(l.id(), l.area(), l.baseMw(),
+                l.dailyShapePu(), 0.0, l.noiseTauS(), l.frequencySensitivityPctPerPct())).toList());
+    }
+
     private static <T> Map<String, Integer> index(List<T> items, Function<T, String> id) {
         Map<String, Integer> map = new LinkedHashMap<>();
         for (int i = 0; i < items.size(); i++) {
@@ -85,5 +94,17 @@ public final class Grid {
             throw new IllegalArgumentException("unknown " + kind + " '" + id + "' (known: " + map.keySet() + ")");
         }
         return i;
+    }
+
+    /**
+     * @param areaId an area of this grid
+     * @return the area's scheduled net interchange from its ties' scheduled flows, MW, + = export
+     */
+    public double scheduledNetInterchangeMw(String areaId) {
+        double mw = 0;
+        for (TieLine t : ties) {
+            mw += t.fromArea().equals(areaId) ? t.scheduledFlowMw() : t.toArea().equals(areaId) ? -t.scheduledFlowMw() : 0;
+        }
+        return mw;
     }
 }

@@ -208,6 +208,10 @@ public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.p
             f.put("setpointMw", fate.setpointMw());
         }
         f.put("validUntil", fate.validUntil());
+        if (fate.issuedAt() > 0) {
+            f.put("issuedAt", fate.issuedAt());
+            f.put("epoch", fate.epoch());
+        }
         f.put("outcome", fate.outcome());
         if (fate.reason() != null) {
             f.put("reason", fate.reason());
@@ -218,6 +222,32 @@ public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.p
         putFinite(f, "loadReferenceBeforeMw", fate.loadReferenceBeforeMw());
         putFinite(f, "loadReferenceAfterMw", fate.loadReferenceAfterMw());
         journal.append(epochMs, "command", f);
+    }
+
+    /**
+     * A controller status as the plant received it (the heartbeat the units watch, and the controller's
+     * own ACE): the report draws heartbeat gaps, state changes and the controller's ACE from these.
+     *
+     * @param arrivedMs scenario epoch ms when the plant received it
+     */
+    public synchronized void controllerStatus(long arrivedMs, org.loopstand.protocol.message.ControllerStatus s) {
+        if (journal.isClosed()) {
+            return;
+        }
+        Map<String, Object> f = new LinkedHashMap<>();
+        f.put("controllerId", s.controllerId());
+        f.put("seq", s.seq());
+        f.put("sourceTime", s.sourceTime());
+        f.put("epoch", s.epoch());
+        f.put("state", s.state().wireName());
+        if (!s.reasons().isEmpty()) {
+            f.put("reasons", s.reasons());
+        }
+        f.put("cycle", s.cycle());
+        Map<String, Object> areas = new LinkedHashMap<>();
+        s.areas().forEach(a -> areas.put(a.area(), Map.of("aceMw", a.aceMw(), "filteredAceMw", a.filteredAceMw(), "band", a.band())));
+        f.put("areas", areas);
+        journal.append(arrivedMs, "controllerStatus", f);
     }
 
     /** Plant interface decisions of their own (mode changes, watchdog, intake overflow) as events. */

@@ -16,6 +16,8 @@ import java.util.concurrent.TimeUnit;
 import java.util.function.Consumer;
 import java.util.function.Predicate;
 
+import org.loopstand.protocol.time.SystemTime;
+
 /**
  * One rehearsal process (plant or controller) started as its own JVM. Its stdout and stderr go to a
  * log file in the run folder; each stdout line is also offered to a listener so the rehearsal can
@@ -27,6 +29,8 @@ final class ChildProcess implements AutoCloseable {
     private final Process process;
     private final CompletableFuture<String> ready = new CompletableFuture<>();
     private final List<String> lastLines = new ArrayList<>();
+    /** True when the child leads its own process group (started through setsid): stop signals the group. */
+    private volatile boolean ownGroup;
 
     private ChildProcess(String name, Process process) {
         this.name = name;
@@ -42,7 +46,13 @@ final class ChildProcess implements AutoCloseable {
      */
     static ChildProcess start(String name, List<String> command, Path logFile, Predicate<String> readyLine,
                               Consumer<String> lineSink) {
-        ProcessBuilder pb = new ProcessBuilder(command).redirectErrorStream(true);
+        return start(name, new ProcessBuilder(command), logFile, readyLine, lineSink);
+    }
+
+    /** Same, from a prepared builder (working directory, environment); output is merged into the log. */
+    static ChildProcess start(String name, ProcessBuilder pb, Path logFile, Predicate<String> readyLine,
+                              Consumer<String> lineSink) {
+        pb.redirectErrorStream(true);
         Process p;
         try {
             p = pb.start();
@@ -98,6 +108,12 @@ final class ChildProcess implements AutoCloseable {
         }
     }
 
+    /** Marks the child as the leader of its own process group (pid = group id); returns this. */
+    ChildProcess ownGroup() {
+        this.ownGroup = true;
+        return this;
+    }
+
     /** Writes one line to the child's stdin. */
     void sendLine(String line) {
         try {
@@ -142,15 +158,58 @@ final class ChildProcess implements AutoCloseable {
         }
     }
 
-    /** SIGTERM, then SIGKILL after {@code graceMs}. */
+    /**
+     * SIGTERM to the child and everything it started (its process group when it has one of its own, so
+     * processes left behind by a dead shell are reached too), then SIGKILL after {@code graceMs}.
+     */
     void stop(long graceMs) {
-        if (!process.isAlive()) {
-            return;
+        List<ProcessHandle> tree = new ArrayList<>(process.descendants().toList());
+        if (ownGroup) {
+            signalGroup("TERM");
         }
-        process.destroy();
-        if (!awaitExit(graceMs)) {
+        tree.forEach(ProcessHandle::destroy);
+        if (process.isAlive()) {
+            process.destroy();
+        }
+        long deadline = SystemTime.wallMonotonicNanos() + graceMs * 1_000_000L;
+        for (ProcessHandle h : tree) {
+            try {
+                h.onExit().get(Math.max(1, (deadline - SystemTime.wallMonotonicNanos()) / 1_000_000L), TimeUnit.MILLISECONDS);
+            } catch (Exception e) {
+                h.destroyForcibly();
+            }
+        }
+        if (!awaitExit(Math.max(1, (deadline - SystemTime.wallMonotonicNanos()) / 1_000_000L))) {
             process.destroyForcibly();
             awaitExit(2_000);
+        }
+        if (ownGroup && groupAlive()) {
+            WallWait.millis(Math.max(0, (deadline - SystemTime.wallMonotonicNanos()) / 1_000_000L), this::groupAlive);
+            signalGroup("KILL");
+        }
+    }
+
+    private void signalGroup(String signal) {
+        try {
+            new ProcessBuilder("kill", "-" + signal, "--", "-" + process.pid()).redirectErrorStream(true)
+                    .redirectOutput(ProcessBuilder.Redirect.DISCARD).start().waitFor(5, TimeUnit.SECONDS);
+        } catch (IOException e) {
+            // no kill command: the descendants were signalled one by one above
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+        }
+    }
+
+    /** @return true while any process of the child's group is alive (its pid is the group id) */
+    private boolean groupAlive() {
+        try {
+            return new ProcessBuilder("kill", "-0", "--", "-" + process.pid()).redirectErrorStream(true)
+                    .redirectOutput(ProcessBuilder.Redirect.DISCARD).start().waitFor() == 0;
+        } catch (IOException e) {
+            return false;
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            return false;
         }
     }
 

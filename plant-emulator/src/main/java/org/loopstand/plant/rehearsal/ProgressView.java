@@ -30,6 +30,7 @@ final class ProgressView {
     private final Map<String, Double> aceMw = new TreeMap<>();
     private String state = "-";
     private final Set<String> faults = new TreeSet<>();
+    private boolean runEnded;
 
     ProgressView(double durationS) {
         this.durationS = durationS;
@@ -45,6 +46,8 @@ final class ProgressView {
             case AREA_METER -> codec.decode(payload, AreaMeter.class).message()
                     .ifPresent(m -> frequencyHz.put(m.area(), m.frequencyHz()));
             case CONTROLLER_STATUS -> codec.decode(payload, ControllerStatus.class).message().ifPresent(this::onStatus);
+            case RUN -> codec.decode(payload, org.loopstand.protocol.message.RunState.class).message()
+                    .ifPresent(r -> runEnded |= r.phase() == org.loopstand.protocol.message.RunPhase.ENDED);
             default -> {
             }
         }
@@ -93,6 +96,11 @@ final class ProgressView {
         b.append("  ctl=").append(state);
         b.append("  faults=").append(faults.isEmpty() ? "none" : String.join(",", faults));
         return b.toString();
+    }
+
+    /** @return true once the plant announced the end of the run on its run topic */
+    synchronized boolean runEnded() {
+        return runEnded;
     }
 
     synchronized double scenarioS() {

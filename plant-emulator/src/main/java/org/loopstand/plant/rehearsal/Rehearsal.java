@@ -21,6 +21,8 @@ import java.util.regex.Matcher;
 import java.util.regex.Pattern;
 
 import org.loopstand.plant.cli.PlantCli;
+import org.loopstand.plant.profile.ProfiledBus;
+import org.loopstand.plant.profile.WireProfileLoader;
 import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.Qos;
 import org.loopstand.protocol.bus.mqtt.MqttLink;
@@ -44,7 +46,6 @@ public final class Rehearsal {
     public record Outcome(int exitCode, Path runFolder, Path report, String message) {
     }
 
-    static final String CONTROLLER_ID = "controller-1";
     private static final Pattern TOP_KEY = Pattern.compile("^(site|siteId|durationS|rateX):\\s*([^#\\s]+)");
 
     private final RehearsalSettings s;
@@ -56,6 +57,7 @@ public final class Rehearsal {
     private volatile boolean plantDone;
     private volatile ChildProcess plantChild;
     private volatile ChildProcess controllerChild;
+    private volatile String liveUrl;
 
     /**
      * @param wall     wall clock (names the run folder, paces progress)
@@ -122,19 +124,29 @@ public final class Rehearsal {
                     l -> l.startsWith("plant: site "), l -> {
                         if (l.startsWith("plant: scenario done")) {
                             plantDone = true;
+                        } else if (l.startsWith("live view: ")) {
+                            liveUrl = l.substring("live view: ".length()).trim();
+                            say(l); // the plant serves the live view; its address belongs on the terminal
                         }
                         view.onPlantLine(l);
                     });
             plantChild = plant;
             plant.awaitReady(s.readyTimeoutMs());
-            controller = ChildProcess.start("controller", controllerCommand(run), run.resolve("controller.log"),
-                    l -> l.startsWith("control: " + CONTROLLER_ID + " on"), l -> { });
-            controllerChild = controller;
-            controller.awaitReady(s.readyTimeoutMs());
+            ControllerLaunch launch = new ControllerLaunch(s.controller());
+            progressLink = progressLink(siteId, view, launch);
+            say("rehearsal: controller under test: " + s.controller().describe());
+            if (s.controller().external()) {
+                ControllerLaunch.instructions(s, siteId, run).forEach(this::say);
+            } else {
+                controller = launch.start(s, siteId, run);
+                controllerChild = controller;
+            }
+            launch.awaitFirstStatus(s.controllerWaitMs(), controller,
+                    TopicTree.forSite(siteId).controllerStatus(s.controller().controllerId()), () -> aborted);
             plant.sendLine("go"); // scenario time starts now that both are up
-            say("rehearsal: plant (pid " + plant.pid() + ") and controller (pid " + controller.pid() + ") running;"
-                    + " Ctrl-C stops both and still writes the report");
-            progressLink = progressLink(siteId, view);
+            say("rehearsal: plant (pid " + plant.pid() + ")" + (controller == null ? " and the external controller"
+                    : " and controller (pid " + controller.pid() + ")") + " running; Ctrl-C stops "
+                    + (controller == null ? "the plant" : "both") + " and still writes the report");
             message = watch(plant, controller, view, notes);
             exit = message == null ? 0 : aborted ? 130 : 1;
         } catch (IllegalStateException | UncheckedIOException e) {
@@ -148,23 +160,44 @@ public final class Rehearsal {
             if (controller != null) {
                 controller.stop(15_000); // SIGTERM: its shutdown hook closes its journal
             }
-            if (plant != null) {
+            if (plant != null && !(plantDone && liveView())) {
                 plant.stop(20_000);
             }
         }
         if (terminal) {
             out.println();
         }
-        Path report = writeReport(run, notes);
+        ReportModel model = reportModel(run, notes);
+        Path report = writeReport(model, run);
         if (message != null) {
             say("rehearsal: " + (exit == 130 ? "stopped: " : "FAILED: ") + message);
         } else {
             say("rehearsal: completed");
         }
+        if (model != null) {
+            VerdictLines.of(model).forEach(this::say);
+            if (exit == 0 && (model.verdict() == ReportModel.Verdict.FAIL || model.verdict() == ReportModel.Verdict.CUT_SHORT)) {
+                exit = 1; // scripts can tell a failed rehearsal by its exit code alone
+            }
+        } else if (exit == 0) {
+            exit = 1;
+        }
         if (report != null) {
             say("report: " + report.toAbsolutePath());
         }
+        if (plant != null && plantDone && liveView()) {
+            holdLiveView(plant); // the plant's page links the report now; let the watchers follow it
+        }
         return new Outcome(exit, run, report, message);
+    }
+
+    private boolean liveView() {
+        return liveUrl != null;
+    }
+
+    private void holdLiveView(ChildProcess plant) {
+        LiveViewHold.whilePagesOpen(liveUrl, wall, () -> aborted || !plant.isAlive(), this::say);
+        plant.stop(20_000);
     }
 
     /** @return null when the scenario ran to its end, else why it did not */
@@ -178,12 +211,17 @@ public final class Rehearsal {
             if (plantDone) {
                 return null;
             }
-            for (ChildProcess c : List.of(controller, plant)) {
+            for (ChildProcess c : controller == null ? List.of(plant) : List.of(controller, plant)) {
                 if (!c.isAlive()) {
                     c.awaitExit(1_000);
                     LockSupport.parkNanos(500_000_000L); // a Ctrl-C reaches the children too: let abort() land first
                     if (aborted || (c == plant && plantDone)) {
                         break;
+                    }
+                    if (c == controller && c.exitCode().orElse(-1) == 0 && (plantDone || view.runEnded())) {
+                        // the controller stopped by itself on the plant's end-of-run signal, as the contract asks
+                        WallWait.millis(30_000, () -> !plantDone && plant.isAlive());
+                        return null;
                     }
                     String m = "the " + c.name() + " process died" + c.exitCode().map(x -> " (exit code " + x
                             + (x == 137 ? ", killed" : "") + ")").orElse("") + " at scenario time " + fmt(view.scenarioS())
@@ -205,7 +243,7 @@ public final class Rehearsal {
         }
     }
 
-    private Path writeReport(Path run, List<String> notes) {
+    private ReportModel reportModel(Path run, List<String> notes) {
         try {
             RunFolder folder = RunFolder.read(run);
             Map<String, String> config = new LinkedHashMap<>();
@@ -213,8 +251,19 @@ public final class Rehearsal {
             config.put("site file", s.siteFile().toString());
             config.put("rate", trim(s.rate()));
             config.put("broker", s.brokerUrl() == null ? "embedded, " + s.effectiveBrokerUrl() : s.brokerUrl());
-            config.put("controller", CONTROLLER_ID + ", clock followed from the bus");
-            ReportModel model = RunReportBuilder.build(folder, config, notes, PlantCli.VERSION);
+            config.put("controller under test", s.controller().describe());
+            return RunReportBuilder.build(folder, config, notes, PlantCli.VERSION);
+        } catch (RuntimeException e) {
+            say("rehearsal: the report could not be made: " + e.getMessage());
+            return null;
+        }
+    }
+
+    private Path writeReport(ReportModel model, Path run) {
+        if (model == null) {
+            return null;
+        }
+        try {
             Path report = run.resolve("report.html");
             HtmlReportWriter.write(model, report);
             return report;
@@ -224,13 +273,27 @@ public final class Rehearsal {
         }
     }
 
-    private MessageBus progressLink(String siteId, ProgressView view) {
+    private MessageBus progressLink(String siteId, ProgressView view, ControllerLaunch launch) {
         TopicTree topics = TopicTree.forSite(siteId);
-        MqttLink link = new MqttLink(MqttLinkConfig.builder().serverUri(s.effectiveBrokerUrl())
+        MessageBus link = new MqttLink(MqttLinkConfig.builder().serverUri(s.effectiveBrokerUrl())
                 .clientId("rehearsal-progress-" + ProcessHandle.current().pid()).build(), wall).start();
-        for (String filter : List.of(topics.clock(), topics.filterAll(TopicKind.CONTROLLER_STATUS),
+        if (s.wireProfile() != null) {
+            // the rehearsal watches the bus as the controller sees it, read back into the rig's layout
+            try {
+                link = new ProfiledBus(link, WireProfileLoader.load(s.wireProfile(), siteId), (t, why) -> { });
+            } catch (java.io.IOException e) {
+                link.close();
+                throw new UncheckedIOException("cannot read the wire profile " + s.wireProfile() + ": " + e.getMessage(), e);
+            }
+        }
+        for (String filter : List.of(topics.clock(), topics.run(), topics.filterAll(TopicKind.CONTROLLER_STATUS),
                 topics.filterAll(TopicKind.AREA_METER), topics.faults())) {
-            link.subscribe(filter, Qos.AT_MOST_ONCE, m -> view.onMessage(m.topic(), m.payload()));
+            link.subscribe(filter, Qos.AT_MOST_ONCE, m -> {
+                view.onMessage(m.topic(), m.payload());
+                if (filter.equals(topics.filterAll(TopicKind.CONTROLLER_STATUS))) {
+                    launch.onStatus(m.payload(), m.retained());
+                }
+            });
         }
         return link;
     }
@@ -239,7 +302,11 @@ public final class Rehearsal {
         List<String> c = new ArrayList<>(List.of(s.javaCommand(), "-cp", s.plantClassPath(),
                 "org.loopstand.plant.cli.PlantCli", "plant", "--site", s.siteFile().toString(),
                 "--scenario", s.scenarioFile().toString(), "--rate", trim(s.rate()), "--journal", run.toString(),
-                "--linger-s", "60", "--wait-go"));
+                "--linger-s", "60", "--wait-go", "--accept-controller", s.controller().controllerId()));
+        if (s.wireProfile() != null) {
+            c.add("--wire-profile");
+            c.add(s.wireProfile().toAbsolutePath().toString());
+        }
         if (s.brokerUrl() != null) {
             c.add("--broker");
             c.add(s.brokerUrl());
@@ -249,12 +316,6 @@ public final class Rehearsal {
         }
         c.addAll(s.extraPlantArgs());
         return c;
-    }
-
-    List<String> controllerCommand(Path run) {
-        return List.of(s.javaCommand(), "-cp", s.controllerClassPath(), "org.loopstand.controller.cli.ControllerCli",
-                "control", "--site", s.siteFile().toString(), "--broker", s.effectiveBrokerUrl(), "--clock", "bus",
-                "--controller-id", CONTROLLER_ID, "--journal", run.toString());
     }
 
     private Path makeRunFolder() {

@@ -15,8 +15,11 @@ import picocli.CommandLine.Parameters;
  * folder with both journals and the report.
  */
 @Command(name = "rehearse", mixinStandardHelpOptions = true,
-        description = {"Run a full rehearsal: the plant (with the embedded broker) and the controller as separate"
-                + " processes, progress on the terminal, journals and report in runs/<timestamp>-<scenario>/.",
+        description = {"Run a full rehearsal: the plant (with the embedded broker) and the controller under test (the"
+                + " built-in one, a command of yours, or one you start yourself) as separate processes, progress on the"
+                + " terminal, journals, verdict and report in runs/<timestamp>-<scenario>/.",
+                "Exit code: 0 when the run completed and its verdict is PASS (or the scenario has no checks), 1 on a FAIL"
+                        + " or CUT SHORT verdict or when a process failed, 2 on bad options, 130 when stopped by Ctrl-C.",
                 "CAUTION: the controller sends raise/lower commands; rehearse only against the emulator or a test broker."})
 public final class RehearsalCommand implements Callable<Integer> {
     static final String DEFAULT_SCENARIO = "config/scenarios/rehearse-unit-trip.yaml";
@@ -41,6 +44,53 @@ public final class RehearsalCommand implements Callable<Integer> {
 
     @Option(names = "--site", description = "site file (default: config/sites/<the scenario's site>.yaml)")
     Path site;
+
+    @Option(names = "--live-port", paramLabel = "PORT", defaultValue = "0", description = "the plant serves the live view"
+            + " (charts, fault controls, /metrics) on 127.0.0.1:PORT, 0 = any free port (default); its address is printed")
+    int livePort;
+
+    @Option(names = "--no-live-view", description = "no live view (no port opened)")
+    boolean noLiveView;
+
+    @Option(names = "--controller-command", paramLabel = "CMD", description = "rehearse this controller: a command line the"
+            + " rig starts through the shell in the project root, with LOOPSTAND_BROKER_URL, LOOPSTAND_SITE_ID,"
+            + " LOOPSTAND_SITE_FILE, LOOPSTAND_TOPIC_ROOT, LOOPSTAND_CONTROLLER_ID, LOOPSTAND_RATE and LOOPSTAND_RUN_DIR set"
+            + " (docs/controller-contract.md); its output goes to controller.log in the run folder")
+    String controllerCommand;
+
+    @Option(names = "--external-controller", paramLabel = "ID", description = "rehearse a controller that you start yourself"
+            + " under this id: the rig starts the plant, prints what to connect to and waits for its first status")
+    String externalController;
+
+    @Option(names = "--controller-id", paramLabel = "ID", description = "with --controller-command: the id the plant accepts"
+            + " commands from (default " + ControllerUnderTest.DEFAULT_ID + ")")
+    String controllerId;
+
+    @Option(names = "--wire-profile", paramLabel = "FILE", description = "the plant speaks this topic and payload layout to"
+            + " the controller (YAML; docs/controller-contract.md, \"Wire profiles\"); LOOPSTAND_WIRE_PROFILE tells the controller")
+    Path wireProfile;
+
+    @Option(names = "--controller-wait-s", paramLabel = "S", description = "how long to wait for the controller's first"
+            + " status, wall s (default 90; 300 for --external-controller)")
+    Double controllerWaitS;
+
+    /** @return the controller the options name; refuses contradicting options */
+    ControllerUnderTest controller() {
+        if (controllerCommand != null && externalController != null) {
+            throw new IllegalArgumentException("give either --controller-command or --external-controller, not both");
+        }
+        if (controllerId != null && controllerCommand == null) {
+            throw new IllegalArgumentException("--controller-id goes with --controller-command"
+                    + " (an external controller's id is the value of --external-controller)");
+        }
+        if (externalController != null) {
+            return ControllerUnderTest.external(externalController);
+        }
+        if (controllerCommand != null) {
+            return ControllerUnderTest.command(controllerId != null ? controllerId : ControllerUnderTest.DEFAULT_ID, controllerCommand);
+        }
+        return ControllerUnderTest.builtInController();
+    }
 
     @Override
     public Integer call() throws Exception {
@@ -70,12 +120,26 @@ public final class RehearsalCommand implements Callable<Integer> {
         }
         RehearsalSettings settings;
         try {
+            ControllerUnderTest controller = controller();
+            double waitS = controllerWaitS != null ? controllerWaitS : controller.external() ? 300 : 90;
+            if (!(waitS > 0) || waitS > 86_400) {
+                throw new IllegalArgumentException("--controller-wait-s must be in (0, 86400] s, got " + controllerWaitS);
+            }
             settings = new RehearsalSettings(scenarioFile, siteFile, broker, r, runsDir,
                     Path.of(System.getProperty("java.home"), "bin", "java").toString(),
                     System.getenv("LOOPSTAND_PLANT_CP"), System.getenv("LOOPSTAND_CONTROLLER_CP"),
-                    port, 90_000, List.of());
+                    port, 90_000, noLiveView ? List.of() : List.of("--live-port", Integer.toString(livePort)), home, controller,
+                    Math.round(waitS * 1000), wireProfile);
+            if (wireProfile != null) {
+                // refused here, before anything starts, with every problem at its line
+                org.loopstand.plant.profile.WireProfileLoader.load(wireProfile, Rehearsal.topValue(siteFile, "siteId"));
+            }
         } catch (IllegalArgumentException e) {
             System.err.println("rehearse: " + e.getMessage());
+            return 2;
+        } catch (org.loopstand.plant.site.ConfigFileException e) {
+            System.err.println("rehearse: the wire profile is refused:");
+            System.err.println(e.getMessage());
             return 2;
         }
         // the progress line owns the terminal: the rehearsal's own bus link speaks only when something is wrong

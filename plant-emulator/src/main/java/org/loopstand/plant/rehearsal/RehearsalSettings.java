@@ -19,27 +19,57 @@ import java.util.Objects;
  * @param embeddedPort  the embedded broker's port (checked free before start)
  * @param readyTimeoutMs how long a child may take to say it is ready, ms
  * @param extraPlantArgs extra arguments for the plant process (tests), may be empty
+ * @param projectRoot   where a controller command runs (the launcher's folder)
+ * @param controller    the controller under test
+ * @param controllerWaitMs how long to wait for the controller's first status, ms, &gt; 0
+ * @param wireProfile   a wire profile the plant speaks to the controller (docs/controller-contract.md), or null
  */
 public record RehearsalSettings(Path scenarioFile, Path siteFile, String brokerUrl, double rate, Path runsDir,
                                 String javaCommand, String plantClassPath, String controllerClassPath, int embeddedPort,
-                                long readyTimeoutMs, List<String> extraPlantArgs) {
+                                long readyTimeoutMs, List<String> extraPlantArgs, Path projectRoot,
+                                ControllerUnderTest controller, long controllerWaitMs, Path wireProfile) {
     public static final int EMBEDDED_PORT = 1884;
+
+    /** Without a wire profile. */
+    public RehearsalSettings(Path scenarioFile, Path siteFile, String brokerUrl, double rate, Path runsDir, String javaCommand,
+                             String plantClassPath, String controllerClassPath, int embeddedPort, long readyTimeoutMs,
+                             List<String> extraPlantArgs, Path projectRoot, ControllerUnderTest controller, long controllerWaitMs) {
+        this(scenarioFile, siteFile, brokerUrl, rate, runsDir, javaCommand, plantClassPath, controllerClassPath, embeddedPort,
+                readyTimeoutMs, extraPlantArgs, projectRoot, controller, controllerWaitMs, null);
+    }
+
+    /** The built-in controller, run from {@code projectRoot}, waited for as long as a child's ready line. */
+    public RehearsalSettings(Path scenarioFile, Path siteFile, String brokerUrl, double rate, Path runsDir, String javaCommand,
+                             String plantClassPath, String controllerClassPath, int embeddedPort, long readyTimeoutMs,
+                             List<String> extraPlantArgs, Path projectRoot) {
+        this(scenarioFile, siteFile, brokerUrl, rate, runsDir, javaCommand, plantClassPath, controllerClassPath, embeddedPort,
+                readyTimeoutMs, extraPlantArgs, projectRoot, ControllerUnderTest.builtInController(), readyTimeoutMs, null);
+    }
 
     public RehearsalSettings {
         Objects.requireNonNull(scenarioFile, "scenarioFile");
         Objects.requireNonNull(siteFile, "siteFile");
         Objects.requireNonNull(runsDir, "runsDir");
         extraPlantArgs = List.copyOf(extraPlantArgs);
+        Objects.requireNonNull(projectRoot, "projectRoot");
+        Objects.requireNonNull(controller, "controller");
+        if (controllerWaitMs <= 0) {
+            throw new IllegalArgumentException("the wait for the controller must be positive, got " + controllerWaitMs + " ms");
+        }
         if (!Files.isRegularFile(scenarioFile)) {
             throw new IllegalArgumentException("scenario file " + scenarioFile + " does not exist");
         }
         if (!Files.isRegularFile(siteFile)) {
             throw new IllegalArgumentException("site file " + siteFile + " does not exist (give it with --site FILE)");
         }
+        if (wireProfile != null && !Files.isRegularFile(wireProfile)) {
+            throw new IllegalArgumentException("wire profile " + wireProfile + " does not exist");
+        }
         if (!(rate > 0) || rate > 1000) {
             throw new IllegalArgumentException("rate must be in (0, 1000], got " + rate);
         }
-        if (plantClassPath == null || plantClassPath.isBlank() || controllerClassPath == null || controllerClassPath.isBlank()) {
+        if (plantClassPath == null || plantClassPath.isBlank()
+                || (controller.builtIn() && (controllerClassPath == null || controllerClassPath.isBlank()))) {
             throw new IllegalArgumentException("the class paths of the plant and controller processes are not known;"
                     + " run the rehearsal through ./loopstand (it sets LOOPSTAND_PLANT_CP and LOOPSTAND_CONTROLLER_CP)");
         }

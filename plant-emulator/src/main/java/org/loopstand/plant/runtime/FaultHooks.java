@@ -111,6 +111,19 @@ public final class FaultHooks {
         return engine;
     }
 
+    /**
+     * Plant thread: applies a live order handed over directly (the live view), exactly as one that
+     * came on the faults topic; works while the plant's own connection is cut.
+     *
+     * @return why it was refused, if it was (already told to the observer)
+     */
+    public java.util.Optional<String> applyOrder(org.loopstand.protocol.message.FaultOrder order) {
+        if (orders == null) {
+            return java.util.Optional.of("order " + order.orderId() + " refused: this plant takes no live fault orders");
+        }
+        return orders.handle(order);
+    }
+
     /** Plant thread: live orders, fault transitions, held messages and commands due, plant trips. @return work done */
     int update(GridSimulator sim) {
         int work = orders == null ? 0 : orders.doWork();

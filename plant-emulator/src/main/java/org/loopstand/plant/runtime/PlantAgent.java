@@ -35,7 +35,7 @@ import org.loopstand.protocol.topic.TopicTree;
  * The plant's one loop: steps the physics up to the clock's now (at most {@value #MAX_STEPS_PER_CYCLE}
  * steps per cycle, then the rest next cycle), lets every in-process unit interface handle its queued
  * commands and tick after each step, runs due meter scans, serves the field topics of units that run
- * elsewhere, applies operator orders and, when the rate is not 1, publishes the scenario clock. All
+ * elsewhere, applies operator orders and publishes the scenario clock once a wall second. All
  * bus input reaches it through bounded queues, so nothing on a bus thread can hold it up.
  *
  * <p>Simulated time 0 is the clock's reading when the agent is built.
@@ -76,6 +76,8 @@ public final class PlantAgent implements Agent, ScenarioContext {
     private FaultHooks faults;
     /** Steps between two passes over one unit interface (1 = every unit after every step). */
     private int unitSlices = 1;
+    private PlantCounters counters;
+    private Consumer<PlantAgent> sampler;
 
     public PlantAgent(Parts parts) {
         this.p = parts;
@@ -163,6 +165,24 @@ public final class PlantAgent implements Agent, ScenarioContext {
         this.unitSlices = (int) Math.max(1, unitScanMs * 1_000_000L / stepNanos);
     }
 
+    /** Before start: every meter message sent or dropped is counted into {@code c} as the journal records it. */
+    public void countInto(PlantCounters c) {
+        this.counters = c;
+    }
+
+    /**
+     * Before start: {@code sampler} runs on the loop's thread after every cycle (it decides itself
+     * whether to take a sample; it must be cheap).
+     */
+    public void sampleWith(Consumer<PlantAgent> sampler) {
+        this.sampler = sampler;
+    }
+
+    /** Loop thread only (a sampler): the fault engine's state, or null when no faults are wired. */
+    public org.loopstand.plant.fault.FaultEngine faultEngineOnLoop() {
+        return faults == null ? null : faults.engine();
+    }
+
     /** Owner thread, before start: meters publish through the fault stages, faults are updated each cycle. */
     void attachFaults(FaultHooks hooks) {
         this.faults = hooks;
@@ -246,6 +266,9 @@ public final class PlantAgent implements Agent, ScenarioContext {
             if (j != null) {
                 j.flushIfDue();
             }
+            if (sampler != null) {
+                sampler.accept(this);
+            }
             return steps;
         }
         if (steps == 0 && unitSlices == 1) {
@@ -262,6 +285,9 @@ public final class PlantAgent implements Agent, ScenarioContext {
                 j.event(p.clock().epochMillis(), e);
             }
             j.flushIfDue();
+        }
+        if (sampler != null) {
+            sampler.accept(this);
         }
         return work;
     }
@@ -377,7 +403,11 @@ public final class PlantAgent implements Agent, ScenarioContext {
                 String topic = p.topics().areaMeter(reading.area(), reading.meter());
                 byte[] payload = p.codec().encode(reading);
                 PlantRunJournal j = journal;
-                if (!p.plantBus().isConnected()) {
+                boolean connected = p.plantBus().isConnected();
+                if (counters != null) {
+                    counters.published("AreaMeter", connected, "notConnected");
+                }
+                if (!connected) {
                     meterDropped++; // never buffered: a late reading would pass for a fresh one
                     if (j != null) {
                         j.published(reading.sourceTime(), topic, "AreaMeter", reading.seq(), false, "notConnected", payload, null);
@@ -403,7 +433,8 @@ public final class PlantAgent implements Agent, ScenarioContext {
 
     private int publishClock(long now) {
         boolean held = p.clock() instanceof HeldStartClock h && !h.released();
-        if ((p.rate() == 1.0 && !(p.clock() instanceof HeldStartClock)) || now < nextClockNanos || !p.plantBus().isConnected()) {
+        // published at every rate, 1 included: controllers take scenario time from it (docs/controller-contract.md)
+        if (now < nextClockNanos || !p.plantBus().isConnected()) {
             return 0;
         }
         nextClockNanos += ((now - nextClockNanos) / clockPeriodNanos + 1) * clockPeriodNanos;

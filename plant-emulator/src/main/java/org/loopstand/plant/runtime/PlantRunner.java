@@ -46,6 +46,7 @@ public final class PlantRunner implements AutoCloseable {
     private final MessageBus plantBus;
     private final PlantAgent agent;
     private final StepLateness lateness;
+    private final PlantCounters counters = new PlantCounters();
     private AgentRunner runner;
     private OperatorOrders orders;
     private org.loopstand.plant.journal.PlantRunJournal runJournal;
@@ -97,6 +98,9 @@ public final class PlantRunner implements AutoCloseable {
         });
         this.agent = new PlantAgent(new PlantAgent.Parts(sim, clock, plantBus, topics, codec, meters, hostList, field,
                 orders, events, options.rate(), lateness));
+        journal.tap(counters);
+        agent.countInto(counters);
+        hostList.forEach(h -> h.link().countInto(counters));
     }
 
     private void openGroup(String clientId, List<String> unitIds, long seqStart) {
@@ -223,6 +227,11 @@ public final class PlantRunner implements AutoCloseable {
 
     public PlantJournal journal() {
         return journal;
+    }
+
+    /** @return the counters behind the metrics page (messages, commands, refusals) */
+    public PlantCounters counters() {
+        return counters;
     }
 
     public StepLateness lateness() {

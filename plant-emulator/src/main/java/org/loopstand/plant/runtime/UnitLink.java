@@ -43,6 +43,7 @@ public final class UnitLink implements UnitOutput {
     private final LongAdder sendFailed = new LongAdder();
     private volatile boolean failed;
     private volatile org.loopstand.plant.journal.PlantRunJournal journal;
+    private volatile PlantCounters counters;
     private org.loopstand.plant.fault.FaultyPublisher telemetryFaults;
     private final java.util.concurrent.atomic.AtomicBoolean announceDue = new java.util.concurrent.atomic.AtomicBoolean(true);
 
@@ -124,7 +125,16 @@ public final class UnitLink implements UnitOutput {
         }
     }
 
+    /** Counts every telemetry and ack this link sends or drops from now on, as the journal records them. */
+    public void countInto(PlantCounters c) {
+        this.counters = c;
+    }
+
     private void journalTelemetry(UnitTelemetry t, boolean sent, String why) {
+        PlantCounters c = counters;
+        if (c != null) {
+            c.published("UnitTelemetry", sent, why);
+        }
         org.loopstand.plant.journal.PlantRunJournal j = journal;
         if (j != null) {
             j.published(clock.epochMillis(), topics.unitTelemetry(unitId), "UnitTelemetry", t.seq(), sent, why,
@@ -157,6 +167,10 @@ public final class UnitLink implements UnitOutput {
             return;
         }
         String why = send(new OutboundMessage(topic, payload, qos, false, 0));
+        PlantCounters c = counters;
+        if (c != null) {
+            c.published(type, why == null, why);
+        }
         org.loopstand.plant.journal.PlantRunJournal j = journal;
         if (j != null) {
             j.published(clock.epochMillis(), topic, type, seq, why == null, why, payload, null);

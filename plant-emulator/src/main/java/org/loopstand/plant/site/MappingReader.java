@@ -153,6 +153,13 @@ public final class MappingReader {
         return List.of();
     }
 
+    /** @return the value of {@code key} as it is (a mapping with keys of the file's own choosing), if present */
+    public java.util.Optional<YamlNode> node(String key) {
+        known.add(key);
+        YamlNode.Entry e = mapping.entries().get(key);
+        return e == null ? java.util.Optional.empty() : java.util.Optional.of(e.value());
+    }
+
     /** Reports every key that was not asked for, with the closest known key as a hint. */
     public void finish() {
         for (Map.Entry<String, YamlNode.Entry> e : mapping.entries().entrySet()) {
@@ -203,15 +210,20 @@ public final class MappingReader {
     }
 
     private String closest(String key) {
+        return closest(key, known);
+    }
+
+    /** @return the candidate a mistyped {@code key} most likely meant, or null when none is close */
+    public static String closest(String key, java.util.Collection<String> candidates) {
         String best = null;
         int bestDistance = Integer.MAX_VALUE;
-        for (String k : known) {
+        for (String k : candidates) {
             // the usual slip: the unit suffix left off ("droop" for "droopPct")
             if (k.toLowerCase(java.util.Locale.ROOT).startsWith(key.toLowerCase(java.util.Locale.ROOT))) {
                 return k;
             }
         }
-        for (String k : known) {
+        for (String k : candidates) {
             int d = distance(key.toLowerCase(java.util.Locale.ROOT), k.toLowerCase(java.util.Locale.ROOT));
             if (d < bestDistance) {
                 bestDistance = d;

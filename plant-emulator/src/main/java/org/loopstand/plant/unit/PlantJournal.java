@@ -42,16 +42,25 @@ public final class PlantJournal {
 
     private final List<Entry> entries = new ArrayList<>();
     private Sink sink;
+    private Sink tap;
 
     /** Writes every later entry and command fate through to {@code sink} as well (null: none). */
     public synchronized void attach(Sink s) {
         this.sink = s;
     }
 
-    /** Records what was done with a command (accepted or refused); only the sink keeps these. */
+    /** Tells a second sink (the metrics counters) everything the first is told (null: none). */
+    public synchronized void tap(Sink t) {
+        this.tap = t;
+    }
+
+    /** Records what was done with a command (accepted or refused); only the sinks keep these. */
     public synchronized void command(long epochMs, CommandFate fate) {
         if (sink != null) {
             sink.command(epochMs, fate);
+        }
+        if (tap != null) {
+            tap.command(epochMs, fate);
         }
     }
 
@@ -75,6 +84,9 @@ public final class PlantJournal {
         entries.add(e);
         if (sink != null) {
             sink.entry(e);
+        }
+        if (tap != null) {
+            tap.entry(e);
         }
         LOG.info("{} {} {}{} seq={} {}", e.epochMs(), e.unit(), e.kind(),
                 e.reason() != null ? " " + e.reason().wireName() : e.code() != null ? " " + e.code() : "",

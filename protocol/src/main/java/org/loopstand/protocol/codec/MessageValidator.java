@@ -32,6 +32,7 @@ import org.loopstand.protocol.message.FaultOrder;
 import org.loopstand.protocol.message.FieldReading;
 import org.loopstand.protocol.message.FieldReference;
 import org.loopstand.protocol.message.LinkStatus;
+import org.loopstand.protocol.message.RunState;
 import org.loopstand.protocol.message.Schedule;
 import org.loopstand.protocol.message.TieFlow;
 import org.loopstand.protocol.message.UnitCommand;
@@ -53,7 +54,7 @@ public final class MessageValidator {
     /** Every top-level message type of the v1 contract. */
     public static final Set<Class<?>> MESSAGE_TYPES = Set.of(AreaMeter.class, UnitTelemetry.class,
             UnitCommand.class, CommandAck.class, LinkStatus.class, Schedule.class, ControllerStatus.class,
-            ClockTick.class, FaultOrder.class, FieldReference.class, FieldReading.class);
+            ClockTick.class, RunState.class, FaultOrder.class, FieldReference.class, FieldReading.class);
 
     private MessageValidator() {
     }
@@ -96,6 +97,18 @@ public final class MessageValidator {
             header(m.seq(), m.sourceTime());
             atLeast("scenarioTimeMs", m.scenarioTimeMs(), 0);
             FieldChecks.aboveZeroAtMost("rate", m.rate(), MAX_CLOCK_RATE);
+        } else if (message instanceof RunState m) {
+            header(m.seq(), m.sourceTime());
+            id("runId", m.runId());
+            present("phase", m.phase());
+            atLeast("scenarioTimeMs", m.scenarioTimeMs(), 0);
+            if (m.durationMs() != null) {
+                atLeast("durationMs", m.durationMs(), 0);
+            }
+            FieldChecks.aboveZeroAtMost("rate", m.rate(), MAX_CLOCK_RATE);
+            if (m.endReason() != null) {
+                id("endReason", m.endReason());
+            }
         } else if (message instanceof FaultOrder m) {
             faultOrder(m);
         } else if (message instanceof FieldReference m) {

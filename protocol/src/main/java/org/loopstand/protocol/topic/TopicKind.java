@@ -10,6 +10,7 @@ import org.loopstand.protocol.message.FaultOrder;
 import org.loopstand.protocol.message.FieldReading;
 import org.loopstand.protocol.message.FieldReference;
 import org.loopstand.protocol.message.LinkStatus;
+import org.loopstand.protocol.message.RunState;
 import org.loopstand.protocol.message.Schedule;
 import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.message.UnitTelemetry;
@@ -38,6 +39,8 @@ public enum TopicKind {
     CONTROLLER_STATUS(ControllerStatus.class, Qos.AT_LEAST_ONCE, true, "controller/{controller}/status"),
     /** {@code …/clock}; retained. */
     CLOCK(ClockTick.class, Qos.AT_MOST_ONCE, true, "clock"),
+    /** {@code …/run}; retained: waiting, running, ended (the end-of-run signal). */
+    RUN(RunState.class, Qos.AT_LEAST_ONCE, true, "run"),
     /** {@code …/faults}. */
     FAULTS(FaultOrder.class, Qos.AT_LEAST_ONCE, false, "faults"),
     /** {@code …/field/unit/{unit}/reference}: plant interface to physics. */
@@ -64,7 +67,7 @@ public enum TopicKind {
     }
 
     /** @return the levels below the site root, ids as placeholders like "{unit}" */
-    List<String> levelTemplate() {
+    public List<String> levelTemplate() {
         return levels;
     }
 

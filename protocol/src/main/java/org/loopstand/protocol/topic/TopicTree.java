@@ -74,6 +74,10 @@ public final class TopicTree {
         return topic(TopicKind.CLOCK);
     }
 
+    public String run() {
+        return topic(TopicKind.RUN);
+    }
+
     public String faults() {
         return topic(TopicKind.FAULTS);
     }

@@ -29,6 +29,7 @@ import net.jqwik.api.Provide;
 import org.junit.jupiter.api.Test;
 import org.loopstand.protocol.message.AreaMeter;
 import org.loopstand.protocol.message.ClockTick;
+import org.loopstand.protocol.message.RunState;
 import org.loopstand.protocol.message.CommandAck;
 import org.loopstand.protocol.message.ControllerStatus;
 import org.loopstand.protocol.message.FaultOrder;
@@ -41,7 +42,7 @@ import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.message.UnitTelemetry;
 
 /**
- * CHECKS.md item 11: every message the codec emits and every example of docs/messages.md
+ * Wire contract check: every message the codec emits and every example of docs/messages.md
  * validates against its published schema — JSON Schema draft 2020-12, validated with networknt
  * json-schema-validator — and every example decodes with the codec.
  */
@@ -57,7 +58,7 @@ class JsonSchemaConformanceTest {
             Map.entry("unit-telemetry", UnitTelemetry.class), Map.entry("unit-command", UnitCommand.class),
             Map.entry("command-ack", CommandAck.class), Map.entry("link-status", LinkStatus.class),
             Map.entry("schedule", Schedule.class), Map.entry("controller-status", ControllerStatus.class),
-            Map.entry("clock-tick", ClockTick.class), Map.entry("fault-order", FaultOrder.class),
+            Map.entry("clock-tick", ClockTick.class), Map.entry("run-state", RunState.class), Map.entry("fault-order", FaultOrder.class),
             Map.entry("field-reference", FieldReference.class), Map.entry("field-reading", FieldReading.class));
     private static final Map<Class<?>, JsonSchema> SCHEMAS = TYPES.entrySet().stream()
             .collect(Collectors.toMap(Map.Entry::getValue, e -> loadSchema(e.getKey())));

@@ -121,6 +121,13 @@ public final class MessageArbitraries {
                 .as(ClockTick::new);
     }
 
+    public static Arbitrary<RunState> runStates() {
+        return Combinators.combine(seqs(), sourceTimes(), ids(), Arbitraries.of(RunPhase.class),
+                Arbitraries.longs().between(0, Long.MAX_VALUE), Arbitraries.longs().between(0, Long.MAX_VALUE).injectNull(0.3),
+                Arbitraries.doubles().between(0.001, 1000).ofScale(3), ids().injectNull(0.5))
+                .as(RunState::new);
+    }
+
     public static Arbitrary<Object> parameterValues() {
         return Arbitraries.oneOf(texts(40).map(s -> (Object) s),
                 Arbitraries.integers().map(i -> (Object) i),
@@ -150,7 +157,7 @@ public final class MessageArbitraries {
         return Arbitraries.oneOf(List.of(areaMeters().map(m -> (Object) m), unitTelemetry().map(m -> (Object) m),
                 unitCommands().map(m -> (Object) m), commandAcks().map(m -> (Object) m),
                 linkStatuses().map(m -> (Object) m), schedules().map(m -> (Object) m),
-                controllerStatuses().map(m -> (Object) m), clockTicks().map(m -> (Object) m),
+                controllerStatuses().map(m -> (Object) m), clockTicks().map(m -> (Object) m), runStates().map(m -> (Object) m),
                 faultOrders().map(m -> (Object) m), fieldReferences().map(m -> (Object) m),
                 fieldReadings().map(m -> (Object) m)));
     }

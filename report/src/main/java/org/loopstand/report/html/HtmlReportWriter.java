@@ -75,18 +75,21 @@ public final class HtmlReportWriter {
                 .append(ReportAssets.uplotLicense().replace("--", "- -")).append("\n-->\n");
         h.append("<style>\n").append(ReportAssets.uplotCss()).append("\n").append(ReportAssets.reportCss())
                 .append("</style>\n</head>\n<body>\n");
-        header(h, model, verdict);
+        // A unit response report (pulse test) has its own title and headings and shows only the groups it
+        // has figures for; a rehearsal report keeps its two groups, saying so when one is empty.
+        boolean unitReport = model.sections().stream().anyMatch(s -> s.group() == MetricSection.Group.UNIT_RESPONSE);
+        header(h, model, verdict, unitReport);
         h.append("<main>\n");
         if (run.cutShort()) {
-            h.append("<p class=\"banner\" id=\"cut-short\"><strong>This run was cut short.</strong> A process "
-                    + "stopped without closing its journal (killed or crashed). Everything below covers the record "
-                    + "up to the last complete journal line. ").append(esc(run.cutShortDetail())).append("</p>\n");
+            h.append("<p class=\"banner\" id=\"cut-short\"><strong>This run was cut short.</strong> ")
+                    .append(unitReport ? "The test stopped before its programme ended. Everything below covers "
+                            + "what was measured up to the stop. "
+                            : "A process stopped without closing its journal (killed or crashed). Everything below "
+                            + "covers the record up to the last complete journal line. ")
+                    .append(esc(run.cutShortDetail())).append("</p>\n");
         }
         cautions(h);
-        checks(h, model);
-        // A unit response report (pulse test) shows only the groups it has figures for; a rehearsal
-        // report keeps its two groups, saying so when one is empty.
-        boolean unitReport = model.sections().stream().anyMatch(s -> s.group() == MetricSection.Group.UNIT_RESPONSE);
+        checks(h, model, unitReport ? "Unit response test results" : "Scenario checks");
         if (unitReport) {
             metricGroup(h, model, MetricSection.Group.UNIT_RESPONSE, "unit-response", "Unit response");
         }
@@ -109,13 +112,16 @@ public final class HtmlReportWriter {
         return h.toString();
     }
 
-    private static void header(StringBuilder h, ReportModel model, ReportModel.Verdict verdict) {
+    private static void header(StringBuilder h, ReportModel model, ReportModel.Verdict verdict, boolean unitReport) {
         RunInfo run = model.run();
-        h.append("<header class=\"run\">\n<div>\n<h1>Loopstand rehearsal report</h1>\n<dl>\n");
+        h.append("<header class=\"run\">\n<div>\n<h1>")
+                .append(unitReport ? "Loopstand unit response test" : "Loopstand rehearsal report")
+                .append("</h1>\n<dl>\n");
         dt(h, "Run", run.runId());
         dt(h, "Site", run.site());
-        dt(h, "Scenario", run.scenario());
-        dt(h, "Started", Instant.ofEpochMilli(run.startedAtMs()).toString() + " (scenario time, UTC)");
+        dt(h, unitReport ? "Test" : "Scenario", run.scenario());
+        dt(h, "Started", Instant.ofEpochMilli(run.startedAtMs()).toString()
+                + (unitReport ? " (test clock, UTC)" : " (scenario time, UTC)"));
         dt(h, "Duration", String.format(Locale.ROOT, "%.1f s", run.durationS()));
         long passed = model.checks().stream().filter(CheckResult::passed).count();
         dt(h, "Checks", passed + " of " + model.checks().size() + " passed");
@@ -135,8 +141,8 @@ public final class HtmlReportWriter {
         h.append("</ul>\n</section>\n");
     }
 
-    private static void checks(StringBuilder h, ReportModel model) {
-        h.append("<section id=\"checks\">\n<h2>Scenario checks</h2>\n");
+    private static void checks(StringBuilder h, ReportModel model, String title) {
+        h.append("<section id=\"checks\">\n<h2>").append(esc(title)).append("</h2>\n");
         if (model.checks().isEmpty()) {
             h.append("<p>This scenario defines no checks.</p>\n");
         } else {

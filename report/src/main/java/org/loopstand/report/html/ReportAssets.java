@@ -5,8 +5,11 @@ import java.io.InputStream;
 import java.io.UncheckedIOException;
 import java.nio.charset.StandardCharsets;
 
-/** The files inlined into every report: uPlot from its webjar, and the report's own CSS and script. */
-final class ReportAssets {
+/**
+ * The files inlined into every report: uPlot from its webjar, and the report's own CSS and script.
+ * The plant's live view serves the same uPlot files.
+ */
+public final class ReportAssets {
     /** uPlot version bundled (matches the webjar dependency). */
     static final String UPLOT_VERSION = "1.6.30";
     private static final String UPLOT_DIR = "META-INF/resources/webjars/uplot/" + UPLOT_VERSION + "/";
@@ -14,15 +17,15 @@ final class ReportAssets {
     private ReportAssets() {
     }
 
-    static String uplotJs() {
+    public static String uplotJs() {
         return load(UPLOT_DIR + "dist/uPlot.iife.min.js");
     }
 
-    static String uplotCss() {
+    public static String uplotCss() {
         return load(UPLOT_DIR + "dist/uPlot.min.css");
     }
 
-    static String uplotLicense() {
+    public static String uplotLicense() {
         return load(UPLOT_DIR + "LICENSE");
     }
 

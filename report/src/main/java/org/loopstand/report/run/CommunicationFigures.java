@@ -51,12 +51,16 @@ final class CommunicationFigures {
         List<Metric> rates = new ArrayList<>();
         publishedByType.forEach((type, n) -> rates.add(Metric.of(type + " published by the plant", n / d, 2, "1/s",
                 n + " messages; plant published entries with sent = true")));
-        rates.add(Metric.of("commands sent by the controller", sent.size() / d, 3, "1/s", sent.size() + " commands; controller sent entries"));
-        rates.add(Metric.of("acks received by the controller", acksReceived / d, 3, "1/s", acksReceived
-                + " acks answering a command it sent"));
-        long acksUnknown = ctl.stream().filter(e -> e.fields().has("unknownAck")).count();
-        rates.add(Metric.of("acks answering no command the controller sent", acksUnknown, 0, "",
-                "another controller's, forged or repeated acks; counted apart, never as received"));
+        // controller-side counters only when that side reports them (its journal is in the run folder)
+        boolean ctlSide = !ctl.isEmpty();
+        if (ctlSide) {
+            rates.add(Metric.of("commands sent by the controller", sent.size() / d, 3, "1/s", sent.size() + " commands; controller sent entries"));
+            rates.add(Metric.of("acks received by the controller", acksReceived / d, 3, "1/s", acksReceived
+                    + " acks answering a command it sent"));
+            long acksUnknown = ctl.stream().filter(e -> e.fields().has("unknownAck")).count();
+            rates.add(Metric.of("acks answering no command the controller sent", acksUnknown, 0, "",
+                    "another controller's, forged or repeated acks; counted apart, never as received"));
+        }
         Map<String, Long> takenByController = new TreeMap<>();
         JournalSeries.ofKind(plant, "command").stream().filter(e -> "accepted".equals(e.text("outcome")))
                 .forEach(e -> takenByController.merge(String.valueOf(e.text("controllerId")), 1L, Long::sum));
@@ -82,11 +86,13 @@ final class CommunicationFigures {
             }
         }
         long lostCommands = sentSeqs.stream().filter(s -> !arrived.contains(s)).count();
-        loss.add(Metric.of("commands lost controller → plant", lostCommands, 0, "", String.format(Locale.ROOT,
+        if (ctlSide) {
+            loss.add(Metric.of("commands lost controller → plant", lostCommands, 0, "", String.format(Locale.ROOT,
                 "%d sent, %d of them arrived at a plant interface (%.2f %% lost); seq of controller sent vs plant command entries",
                 sentSeqs.size(), sentSeqs.size() - lostCommands, sentSeqs.isEmpty() ? 0.0 : 100.0 * lostCommands / sentSeqs.size())));
         loss.add(Metric.of("acks lost plant → controller", Math.max(0, acksSentByPlant - acksReceived), 0, "",
                 acksSentByPlant + " acks published by the plant, " + acksReceived + " received by the controller"));
+        }
         if (notSentByWhy.isEmpty()) {
             loss.add(new Metric("plant messages not sent", "0", "", "meter, telemetry and acks dropped at the source (link down)"));
         }
@@ -119,13 +125,15 @@ final class CommunicationFigures {
         CommunicationStats cs = CommunicationStats.of(List.of(), new double[0], latency, refusals, suspensions, d);
         List<Metric> lat = new ArrayList<>();
         CommunicationStats.Spread s = cs.commandLatencyMs();
-        lat.add(Metric.of("command latency p50", s.p50(), 0, "ms", wallNote(s.p50(), rate) + "; controller sent → ack received, "
-                + s.count() + " commands, nearest rank"));
-        lat.add(Metric.of("command latency p90", s.p90(), 0, "ms", wallNote(s.p90(), rate)));
-        lat.add(Metric.of("command latency p99", s.p99(), 0, "ms", wallNote(s.p99(), rate)));
-        lat.add(Metric.of("command latency max", s.max(), 0, "ms", wallNote(s.max(), rate)));
-        lat.addAll(DataUseFigures.ageAtUse(plant, JournalSeries.ofKind(ctl, "decided")));
-        out.add(new MetricSection("Latency (scenario ms)", MetricSection.Group.COMMUNICATION, lat));
+        if (ctlSide) {
+            lat.add(Metric.of("command latency p50", s.p50(), 0, "ms", wallNote(s.p50(), rate) + "; controller sent → ack received, "
+                    + s.count() + " commands, nearest rank"));
+            lat.add(Metric.of("command latency p90", s.p90(), 0, "ms", wallNote(s.p90(), rate)));
+            lat.add(Metric.of("command latency p99", s.p99(), 0, "ms", wallNote(s.p99(), rate)));
+            lat.add(Metric.of("command latency max", s.max(), 0, "ms", wallNote(s.max(), rate)));
+            lat.addAll(DataUseFigures.ageAtUse(plant, JournalSeries.ofKind(ctl, "decided")));
+            out.add(new MetricSection("Latency, controller side (scenario ms)", MetricSection.Group.COMMUNICATION, lat));
+        }
 
         List<Metric> reasons = new ArrayList<>();
         cs.refusalsByReason().forEach((r, n) -> reasons.add(Metric.of("command refused at the plant: " + r, n, 0, "",
@@ -138,7 +146,9 @@ final class CommunicationFigures {
                 "controller refused entries (intake)")));
         cs.suspensionsByReason().forEach((r, n) -> reasons.add(Metric.of("suspension: " + r, n, 0, "",
                 "times control went from regulating to suspended with this reason")));
-        reasons.add(Metric.of("cycles not regulating", suspendedCycles, 0, "", "controller decided entries with state ≠ regulating"));
+        if (ctlSide) {
+            reasons.add(Metric.of("cycles not regulating", suspendedCycles, 0, "", "controller decided entries with state ≠ regulating"));
+        }
         out.add(new MetricSection("Refusals and suspensions", MetricSection.Group.COMMUNICATION, reasons));
         return out;
     }

@@ -10,7 +10,7 @@ import org.loopstand.protocol.journal.JournalEntry;
 import org.loopstand.report.model.Chart;
 import org.loopstand.report.model.TimeSeries;
 
-/** The step charts of a run: commands sent, controller state, data quality and faults active. */
+/** The step charts of a run: commands the controller sent (from its journal), data quality and faults active. */
 final class RunCharts {
     private RunCharts() {
     }
@@ -33,12 +33,6 @@ final class RunCharts {
         }
         if (!moves.isEmpty()) {
             charts.add(new Chart("Commands sent: move asked of each unit per cycle (+ = raise, 0 = none)", "MW", moves, true));
-        }
-        List<JournalEntry> decided = JournalSeries.ofKind(ctl, "decided");
-        if (!decided.isEmpty()) {
-            charts.add(new Chart("Controller state (1 = regulating, 0 = suspended)", "state", List.of(JournalSeries.series(
-                    decided, e -> true, e -> "regulating".equals(e.text("state")) ? 1.0 : 0.0, "controller regulating", "")),
-                    true));
         }
         List<TimeSeries> quality = new ArrayList<>();
         for (RunReportBuilder.AreaInfo a : areas) {

@@ -18,36 +18,65 @@ import org.loopstand.protocol.journal.JournalSummary;
 import org.loopstand.report.model.TimeSeries;
 
 /**
- * A run folder ({@code runs/<timestamp>-<scenario>/}) read back: every {@code *.jsonl} journal in it,
- * by process name, with helpers to pull time series out for the report.
+ * A run folder ({@code runs/<timestamp>-<scenario>/}) read back: every Loopstand journal in it, by
+ * process name, with helpers to pull time series out for the report. Files the rig did not write (a
+ * controller's own log, notes, a foreign {@code .jsonl}) are skipped and listed, never a reason to fail.
  *
  * @param folder   the run folder
  * @param journals process name → contents, in file name order
+ * @param skipped  one line per file that was not read, with why
  */
-public record RunFolder(Path folder, Map<String, JournalReader.Contents> journals) {
+public record RunFolder(Path folder, Map<String, JournalReader.Contents> journals, List<String> skipped) {
+    /** Files the rig writes into a run folder besides its journals, by name and by suffix. */
+    private static final List<String> OWNED_NAMES = List.of("plant.log", "controller.log", "report.html");
+    private static final List<String> OWNED_SUFFIXES = List.of(".hlog", ".csv");
+
+    public RunFolder {
+        journals = Collections.unmodifiableMap(new LinkedHashMap<>(journals));
+        skipped = List.copyOf(skipped);
+    }
 
     /**
-     * Reads every {@code *.jsonl} file in the folder.
+     * Reads every Loopstand journal ({@code *.jsonl} with a Loopstand header) in the folder.
      *
      * @param folder a run folder
-     * @return the journals
-     * @throws IllegalArgumentException when the folder holds no journal
+     * @return the journals, and the files skipped
+     * @throws IllegalArgumentException when the folder holds no Loopstand journal
      */
     public static RunFolder read(Path folder) {
         Map<String, JournalReader.Contents> journals = new LinkedHashMap<>();
+        List<String> skipped = new ArrayList<>();
         try (Stream<Path> files = Files.list(folder)) {
-            for (Path p : files.filter(f -> f.getFileName().toString().endsWith(".jsonl")).sorted().toList()) {
-                JournalReader.Contents c = JournalReader.readAll(p);
+            for (Path p : files.sorted().toList()) {
                 String name = p.getFileName().toString();
-                journals.put(name.substring(0, name.length() - ".jsonl".length()), c);
+                if (!Files.isRegularFile(p)) {
+                    continue; // e.g. the csv export folder
+                }
+                if (!name.endsWith(".jsonl")) {
+                    if (!OWNED_NAMES.contains(name) && OWNED_SUFFIXES.stream().noneMatch(name::endsWith)) {
+                        skipped.add(name + ": not a file the rig writes");
+                    }
+                    continue;
+                }
+                try {
+                    JournalReader.Contents c = JournalReader.readAll(p);
+                    if (c.summary().header().isEmpty()) {
+                        skipped.add(name + ": not a Loopstand journal (its first line is not a journal header)");
+                    } else {
+                        journals.put(name.substring(0, name.length() - ".jsonl".length()), c);
+                    }
+                } catch (IllegalArgumentException e) {
+                    skipped.add(name + ": not a Loopstand journal (" + e.getMessage() + ")");
+                }
             }
         } catch (IOException e) {
             throw new UncheckedIOException("cannot list run folder " + folder + ": " + e.getMessage(), e);
         }
         if (journals.isEmpty()) {
-            throw new IllegalArgumentException("run folder " + folder + " holds no *.jsonl journal");
+            throw new IllegalArgumentException("run folder " + folder + " holds no Loopstand journal (*.jsonl)"
+                    + (skipped.isEmpty() ? "" : "; skipped: " + String.join("; ", skipped)));
         }
-        return new RunFolder(folder, Collections.unmodifiableMap(journals));
+        return new RunFolder(folder, journals, skipped);
     }
 
     /** @return true when any journal lacks its end entry */

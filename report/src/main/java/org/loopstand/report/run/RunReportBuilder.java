@@ -87,9 +87,11 @@ public final class RunReportBuilder {
 
         List<String> notes = new ArrayList<>(extraNotes);
         notes.addAll(run.problems());
+        run.skipped().forEach(f -> notes.add("Skipped in the run folder: " + f + "."));
         endNotes(run, notes);
         if (ctl.isEmpty() && !run.journals().containsKey("controller")) {
-            notes.add("No controller journal in this run folder: ACE figures are missing.");
+            notes.add("No controller journal in this run folder: every figure comes from the plant side; the controller's"
+                    + " own counters (acks received, data age at use, its decisions) are not shown.");
         }
         if (areas.stream().anyMatch(a -> a.nominalHz() != 60.0)) {
             notes.add(String.format(Locale.ROOT, "CPS1 and BAAL use ε1 = %.4f Hz. NERC BAL-001-2 gives ε1 only for the North-American"
@@ -104,38 +106,54 @@ public final class RunReportBuilder {
         List<TimeSeries> ace = new ArrayList<>();
         List<JournalEntry> meters = plant.stream().filter(e -> e.kind().equals("published")
                 && "AreaMeter".equals(e.text("type"))).toList();
+        Map<String, List<PlantSideAce.Reading>> metered = PlantSideAce.meteredReadings(plant);
+        Map<String, CommandPathFigures.AreaView> views = new LinkedHashMap<>();
+        List<MetricSection> comparisons = new ArrayList<>();
         for (AreaInfo a : areas) {
-            TimeSeries fTruth = JournalSeries.series(truth, e -> true,
+            TimeSeries fTruth = JournalSeries.series(truth, e -> e.fields().has("areas"),
                     e -> JournalSeries.number(e.fields(), "areas/" + a.id() + "/frequencyHz"), "f " + a.id() + " (truth)", "Hz");
+            List<PlantSideAce.Reading> readings = metered.getOrDefault(a.id(), List.of());
+            TimeSeries fMetered = readingSeries(readings, "f " + a.id() + " (metered)");
             freq.add(fTruth);
-            freq.add(JournalSeries.series(meters, e -> a.id().equals(e.fields().path("message").path("area").asText()),
-                    e -> JournalSeries.number(e.fields(), "message/frequencyHz"), "f " + a.id() + " (meter)", "Hz"));
-            TimeSeries aceA = JournalSeries.series(decided, e -> JournalSeries.element(e, "areas", "area", a.id()) != null,
-                    e -> JournalSeries.number(JournalSeries.element(e, "areas", "area", a.id()), "aceMw"), "ACE " + a.id(), "MW");
-            ace.add(aceA);
-            ace.add(JournalSeries.series(decided, e -> JournalSeries.element(e, "areas", "area", a.id()) != null,
-                    e -> JournalSeries.number(JournalSeries.element(e, "areas", "area", a.id()), "filteredAceMw"),
-                    "filtered ACE " + a.id(), "MW"));
-            TimeSeries ni = JournalSeries.series(truth, e -> true,
+            freq.add(fMetered);
+            List<PlantSideAce.ScheduleStep> schedules = PlantSideAce.schedules(a, plant, start);
+            TimeSeries aceTruth = PlantSideAce.fromTruth(a, truth, schedules, "ACE " + a.id() + " (truth)");
+            TimeSeries aceMetered = PlantSideAce.fromReadings(a, readings, schedules, "ACE " + a.id() + " (metered)");
+            TimeSeries aceController = controllerAce(a, decided, plant);
+            ace.add(aceTruth);
+            ace.add(aceMetered);
+            if (aceController.size() > 0) {
+                ace.add(aceController);
+            }
+            views.put(a.id(), new CommandPathFigures.AreaView(a, aceTruth, readings));
+            TimeSeries ni = JournalSeries.series(truth, e -> e.fields().has("areas"),
                     e -> JournalSeries.number(e.fields(), "areas/" + a.id() + "/netInterchangeMw"), "NIa " + a.id(), "MW");
-            sections.add(areaSection(a, aceA, fTruth, ni, start, end, epsilon1Hz));
+            sections.add(AreaFigures.quality(a, aceTruth, fTruth, ni, epsilon1Hz, "from plant truth"));
+            sections.add(AreaFigures.quality(a, aceMetered, fMetered, null, epsilon1Hz, "from the meters as published"));
+            if (aceController.size() > 0) {
+                String source = decided.isEmpty() ? "the controller's statuses as the plant received them" : "the controller journal";
+                comparisons.add(new MetricSection("Area " + a.id() + ": the controller's ACE against the metered ACE",
+                        MetricSection.Group.FREQUENCY_QUALITY, ControllerAceComparison.of(aceController, aceMetered,
+                        a.betaMwPerHz()).metrics(source)));
+            }
             for (int i = 0; i < disturbances.size(); i++) {
                 Disturbance d = disturbances.get(i);
                 if (!a.id().equals(d.area())) {
                     continue;
                 }
                 long until = i + 1 < disturbances.size() ? disturbances.get(i + 1).tMs() : Long.MAX_VALUE;
-                sections.add(excursionSection(a, d, clip(fTruth, d.tMs(), until), recoveryCheck(a, d, aceA, end)));
+                sections.add(AreaFigures.excursion(a, d, clip(fTruth, d.tMs(), until), aceTruth, end));
             }
         }
+        sections.addAll(comparisons);
         checks.addAll(journalChecks(run));
         charts.add(new Chart("Frequency", "Hz", freq, false));
         if (ace.stream().anyMatch(s -> s.size() > 0)) {
-            charts.add(new Chart("ACE (NERC sign: negative = under-generation)", "MW", ace, false));
+            charts.add(new Chart("ACE: truth, as metered and the controller's (+ = over-generation)", "MW", ace, false));
         }
         List<TimeSeries> ties = new ArrayList<>();
         for (String tie : JournalSeries.keys(truth, "ties")) {
-            ties.add(JournalSeries.series(truth, e -> true, e -> JournalSeries.number(e.fields(), "ties/" + tie + "/flowMw"),
+            ties.add(JournalSeries.series(truth, e -> e.fields().has("ties"), e -> JournalSeries.number(e.fields(), "ties/" + tie + "/flowMw"),
                     "tie " + tie, "MW"));
         }
         if (!ties.isEmpty()) {
@@ -143,14 +161,27 @@ public final class RunReportBuilder {
         }
         List<TimeSeries> units = new ArrayList<>();
         for (String u : JournalSeries.keys(truth, "units")) {
-            units.add(JournalSeries.series(truth, e -> true, e -> JournalSeries.number(e.fields(), "units/" + u + "/outputMw"),
+            units.add(JournalSeries.series(truth, e -> e.fields().has("units"), e -> JournalSeries.number(e.fields(), "units/" + u + "/outputMw"),
                     u + " output", "MW"));
-            units.add(JournalSeries.series(truth, e -> true,
+            units.add(JournalSeries.series(truth, e -> e.fields().has("units"),
                     e -> JournalSeries.number(e.fields(), "units/" + u + "/loadReferenceMw"), u + " load reference", "MW"));
         }
         if (!units.isEmpty()) {
             charts.add(new Chart("Unit output and load reference", "MW", units, false));
         }
+        Chart moves = CommandPathFigures.movesChart(plant);
+        if (moves != null) {
+            charts.add(moves);
+        }
+        Chart states = ControllerStates.chart(plant);
+        if (states != null) {
+            charts.add(states);
+        }
+        Map<String, String> unitAreas = new LinkedHashMap<>();
+        if (ph != null) {
+            ph.path("units").fields().forEachRemaining(en -> unitAreas.put(en.getKey(), en.getValue().asText()));
+        }
+        sections.add(CommandPathFigures.section(plant, unitAreas, views, (end - start) / 1000.0, meterScanS(ph)));
         RunCharts.addCommandAndStateCharts(charts, plant, ctl, meters, areas, start, end);
         sections.addAll(CommunicationFigures.sections(plant, ctl, ph, (end - start) / 1000.0));
 
@@ -170,99 +201,6 @@ public final class RunReportBuilder {
         return new ReportModel(info, checks, sections, charts, RunHistograms.of(run, ctl), config, versions, notes);
     }
 
-    private static MetricSection areaSection(AreaInfo a, TimeSeries aceA, TimeSeries f, TimeSeries ni, long start, long end,
-            double eps) {
-        List<Metric> m = new ArrayList<>();
-        String fs = trim(a.nominalHz());
-        if (aceA.size() > 0) {
-            AceStatistics s = AceStatistics.of(aceA, ACE_BANDS_MW);
-            m.add(Metric.of("ACE samples", s.samples(), 0, "", "controller decided entries, one per cycle"));
-            m.add(Metric.of("mean ACE", s.meanMw(), 2, "MW", "controller decided areas[].aceMw"));
-            m.add(Metric.of("σ ACE", s.sigmaMw(), 2, "MW", "population σ"));
-            m.add(Metric.of("p50 |ACE|", s.p50AbsMw(), 2, "MW", "nearest rank"));
-            m.add(Metric.of("p90 |ACE|", s.p90AbsMw(), 2, "MW", "nearest rank"));
-            m.add(Metric.of("p99 |ACE|", s.p99AbsMw(), 2, "MW", "nearest rank"));
-            m.add(Metric.of("max |ACE|", s.maxAbsMw(), 2, "MW", ""));
-            for (AceStatistics.Band b : s.timeInBandS()) {
-                m.add(Metric.of(String.format(Locale.ROOT, "time with |ACE| in [%s, %s) MW", trim(b.lowerAbsMw()),
-                        Double.isInfinite(b.upperAbsMw()) ? "∞" : trim(b.upperAbsMw())), b.durationS(), 0, "s",
-                        "zero-order hold; bands = controller quiet / assist defaults"));
-            }
-            if (a.betaMwPerHz() > 0) {
-                double b = -a.betaMwPerHz() / 10.0;
-                Cps1Calculator.Result c = Cps1Calculator.evaluate(aceA, f, a.nominalHz(), b, eps);
-                m.add(Metric.of("CPS1", c.cps1Pct(), 1, "%", c.minutes() + " clock minutes, FS = " + fs + " Hz, B = "
-                        + trim(b) + " MW/0.1 Hz; NERC BAL-001-2 (from memory), indicative over one run; passes at ≥ 100 %"));
-                BaalEvaluator.Result br = BaalEvaluator.evaluate(aceA, f, a.nominalHz(), b, eps);
-                m.add(Metric.of("BAAL exceedance minutes", br.exceedanceMinutes(), 0, "min", "clock minutes outside BAAL"));
-                m.add(new Metric("BAAL longest exceedance", br.longestExceedanceMinutes() + (br.passes() ? " (pass)" : " (FAIL)"),
-                        "min", "fails above 30 consecutive clock minutes; NERC BAL-001-2 (from memory)"));
-                FrceStatistics fr = FrceStatistics.of(aceA, a.betaMwPerHz() * FRCE_LEVEL1_HZ, a.betaMwPerHz() * FRCE_LEVEL2_HZ);
-                m.add(Metric.of("FRCE 15-min intervals", fr.intervals().size(), 0, "", "aligned quarter hours with data"));
-                m.add(Metric.of("FRCE mean of 15-min means", fr.meanOfMeans(), 2, "MW", "FRCE = ACE of the area"));
-                m.add(Metric.of("FRCE σ of 15-min means", fr.sigmaOfMeans(), 2, "MW", ""));
-                m.add(Metric.of("FRCE share outside level 1", fr.outsideLevel1Pct(), 1, "%", String.format(Locale.ROOT,
-                        "level 1 = β·%s Hz = %.0f MW (configured assumption; SOGL Annex III style, from memory)",
-                        trim(FRCE_LEVEL1_HZ), a.betaMwPerHz() * FRCE_LEVEL1_HZ)));
-                m.add(Metric.of("FRCE share outside level 2", fr.outsideLevel2Pct(), 1, "%", String.format(Locale.ROOT,
-                        "level 2 = β·%s Hz = %.0f MW", trim(FRCE_LEVEL2_HZ), a.betaMwPerHz() * FRCE_LEVEL2_HZ)));
-            }
-        }
-        if (f.size() > 0) {
-            double min = Double.POSITIVE_INFINITY;
-            double max = Double.NEGATIVE_INFINITY;
-            for (int i = 0; i < f.size(); i++) {
-                min = Math.min(min, f.value(i));
-                max = Math.max(max, f.value(i));
-            }
-            m.add(Metric.of("lowest frequency (truth)", min, 4, "Hz", "plant truth, whole run"));
-            m.add(Metric.of("highest frequency (truth)", max, 4, "Hz", "plant truth, whole run"));
-        }
-        if (ni.size() > 1) {
-            long[] t = {ni.timeMs(0), ni.timeMs(ni.size() - 1)};
-            InadvertentEnergy ie = InadvertentEnergy.of(ni, new TimeSeries("NIs", "MW", t,
-                    new double[] {a.scheduledNiMw(), a.scheduledNiMw()}));
-            m.add(Metric.of("inadvertent energy (net)", ie.netMwh(), 3, "MWh", "∫(NIa − NIs)dt, NIa from plant truth, NIs = "
-                    + trim(a.scheduledNiMw()) + " MW from the site's tie schedules"));
-            m.add(Metric.of("inadvertent energy over / under", ie.overMwh(), 3, "MWh", String.format(Locale.ROOT,
-                    "under: %.3f MWh", ie.underMwh())));
-        }
-        return new MetricSection("Area " + a.id() + ": frequency quality", MetricSection.Group.FREQUENCY_QUALITY, m);
-    }
-
-    private static MetricSection excursionSection(AreaInfo a, Disturbance d, TimeSeries f, CheckResult recovery) {
-        List<Metric> m = new ArrayList<>();
-        m.add(new Metric("ACE recovery (controller ACE)", recovery.decidingFigure() + (recovery.passed() ? " (within 15 min)" : " (FAIL)"),
-                "", "back to min(0, ACE before) for a loss of supply, max(0, …) for a loss of load, within 900 s; "
-                + recovery.source()));
-        Optional<FrequencyExcursion> x = FrequencyExcursion.of(f, d.tMs(), a.nominalHz(), SETTLING_BAND_HZ);
-        if (x.isPresent()) {
-            m.add(Metric.of("nadir", x.get().nadirHz(), 4, "Hz", "at " + relS(x.get().nadirTimeMs(), d) + " s after the event"));
-            m.add(Metric.of("zenith", x.get().zenithHz(), 4, "Hz", "at " + relS(x.get().zenithTimeMs(), d) + " s after the event"));
-            OptionalDouble st = x.get().settlingTimeS();
-            m.add(Metric.of("settling time", st.orElse(Double.NaN), 0, "s", "into ±" + trim(SETTLING_BAND_HZ) + " Hz of "
-                    + trim(a.nominalHz()) + " Hz and staying until the next event or the end" + (st.isEmpty() ? "; did not settle" : "")));
-        } else {
-            m.add(new Metric("nadir", "–", "Hz", "no frequency after the event in the record"));
-        }
-        return new MetricSection(String.format(Locale.ROOT, "Area %s: after %s at %s s", a.id(), d.type(), trim(d.atS())),
-                MetricSection.Group.FREQUENCY_QUALITY, m);
-    }
-
-    private static CheckResult recoveryCheck(AreaInfo a, Disturbance d, TimeSeries aceA, long end) {
-        String name = String.format(Locale.ROOT, "ACE of %s recovered within 15 min after %s at %s s", a.id(), d.type(), trim(d.atS()));
-        String source = "NERC BAL-002 (from memory)";
-        if (aceA.size() == 0) {
-            return new CheckResult(name, false, "no ACE in the record", "≤ 900 s", source);
-        }
-        double pre = aceA.valueAt(d.tMs() - 1);
-        FrequencyExcursion.AceRecovery r = FrequencyExcursion.aceRecovery(aceA, d.tMs(), Double.isNaN(pre) ? 0 : pre,
-                d.direction(), FrequencyExcursion.BAL002_RECOVERY_PERIOD_S);
-        String figure = r.recoveryTimeS().isPresent() ? String.format(Locale.ROOT, "%.0f s (to %.1f MW)", r.recoveryTimeS().getAsDouble(),
-                r.recoveryValueMw()) : String.format(Locale.ROOT, "not recovered in the %.0f s recorded after it", (end - d.tMs()) / 1000.0);
-        return new CheckResult(name, r.passes(), figure, "≤ 900 s", source);
-    }
-
     /** Checks written into a journal as {@code check} entries (name, passed, decidingFigure, limit, source). */
     static List<CheckResult> journalChecks(RunFolder run) {
         List<CheckResult> out = new ArrayList<>();
@@ -276,6 +214,33 @@ public final class RunReportBuilder {
             }
         });
         return out;
+    }
+
+    /** The controller's ACE of an area: its journal's decided entries if present, else its statuses as the plant got them. */
+    private static TimeSeries controllerAce(AreaInfo a, List<JournalEntry> decided, List<JournalEntry> plant) {
+        String name = "ACE " + a.id() + " (controller)";
+        if (!decided.isEmpty()) {
+            return JournalSeries.series(decided, e -> JournalSeries.element(e, "areas", "area", a.id()) != null,
+                    e -> JournalSeries.number(JournalSeries.element(e, "areas", "area", a.id()), "aceMw"), name, "MW");
+        }
+        return JournalSeries.series(JournalSeries.ofKind(plant, "controllerStatus"),
+                e -> e.fields().path("areas").has(a.id()),
+                e -> JournalSeries.number(e.fields(), "areas/" + a.id() + "/aceMw"), name, "MW");
+    }
+
+    private static TimeSeries readingSeries(List<PlantSideAce.Reading> readings, String name) {
+        long[] t = new long[readings.size()];
+        double[] v = new double[readings.size()];
+        for (int i = 0; i < t.length; i++) {
+            t[i] = readings.get(i).tMs();
+            v[i] = readings.get(i).frequencyHz();
+        }
+        return new TimeSeries(name, "Hz", t, v);
+    }
+
+    /** The meters' scan period from the plant header, s (2 s, the plant's default, when the header has none). */
+    private static double meterScanS(ObjectNode ph) {
+        return ph == null ? 2.0 : ph.path("meterScanMs").asDouble(2000) / 1000.0;
     }
 
     private static List<Disturbance> disturbances(List<JournalEntry> plant, ObjectNode ph) {
@@ -372,10 +337,6 @@ public final class RunReportBuilder {
     private static ObjectNode header(RunFolder run, String process) {
         JournalReader.Contents c = run.journals().get(process);
         return c == null ? null : c.summary().header().orElse(null);
-    }
-
-    private static String relS(long t, Disturbance d) {
-        return String.format(Locale.ROOT, "%.1f", (t - d.tMs()) / 1000.0);
     }
 
     static String trim(double v) {

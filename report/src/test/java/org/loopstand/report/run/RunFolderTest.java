@@ -40,4 +40,27 @@ class RunFolderTest {
         assertThat(north.values()).containsExactly(59.99, 59.97);
         controller.close();
     }
+
+    @Test
+    void shouldSkipAndListFilesTheRigDidNotWriteInsteadOfFailing() throws Exception {
+        VirtualClock wall = new VirtualClock(0);
+        try (JournalWriter plant = JournalWriter.create(dir.resolve("plant.jsonl"), "plant", 1000, wall)) {
+            plant.append(1020, "truth", Map.of("area", "north", "frequencyHz", 59.99));
+            plant.close(1060, EndReason.COMPLETED);
+        }
+        // a controller team's own files beside the rig's: a JSON Lines log, a note, a text log
+        java.nio.file.Files.writeString(dir.resolve("our-controller.jsonl"), "{\"level\":\"info\",\"msg\":\"cycle 1\"}\n");
+        java.nio.file.Files.writeString(dir.resolve("notes.txt"), "rehearsal with the new bias\n");
+        java.nio.file.Files.writeString(dir.resolve("controller.log"), "started\n");
+        java.nio.file.Files.writeString(dir.resolve("broken.jsonl"), "not json at all\n");
+
+        RunFolder run = RunFolder.read(dir);
+        assertThat(run.journals()).containsOnlyKeys("plant");
+        assertThat(run.skipped()).containsExactly(
+                "broken.jsonl: not a Loopstand journal (its first line is not a journal header)",
+                "notes.txt: not a file the rig writes",
+                "our-controller.jsonl: not a Loopstand journal (" + dir.resolve("our-controller.jsonl")
+                        + " is not a Loopstand journal: first line has no \"journal\":\"loopstand\")");
+        assertThat(run.cutShort()).isFalse();
+    }
 }

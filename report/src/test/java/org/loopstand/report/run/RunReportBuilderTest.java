@@ -70,19 +70,25 @@ class RunReportBuilderTest {
         ReportModel m = RunReportBuilder.build(RunFolder.read(run), Map.of("rate", "10"), List.of(), "test");
         assertThat(m.verdict()).isEqualTo(ReportModel.Verdict.PASS);
         assertThat(m.checks()).singleElement().satisfies(c -> assertThat(c.decidingFigure()).isEqualTo("40 s"));
-        assertThat(m.charts()).extracting(Chart::title).contains("Frequency", "Unit output and load reference",
-                "Controller state (1 = regulating, 0 = suspended)");
-        // 31 cycles: 10 of them (60, 64, …, 96 s) at −60 MW → mean −600/31 = −19.35 MW
-        assertThat(Double.parseDouble(metric(m, "Area a: frequency quality", "mean ACE").value())).isCloseTo(-19.35, within(0.01));
+        assertThat(m.charts()).extracting(Chart::title).contains("Frequency", "Unit output and load reference");
+        // the controller's own ACE: 31 cycles, 10 of them (60, 64, …, 96 s) at −60 MW → mean −600/31 = −19.35 MW
+        assertThat(Double.parseDouble(metric(m, "Area a: the controller's ACE against the metered ACE", "mean controller ACE")
+                .value())).isCloseTo(-19.35, within(0.01));
+        // the rig's ACE from truth, (NIa − 0) + 500·(f − 50): 60 samples at 0, 30 (60–89 s) at −10 − 50 = −60 MW,
+        // 31 (90–120 s) at −10 MW → mean (−1800 − 310) / 121 = −17.44 MW
+        assertThat(Double.parseDouble(metric(m, "Area a: frequency quality, from plant truth", "mean ACE").value()))
+                .isCloseTo(-2110 / 121.0, within(0.01));
         // nadir 49.9 Hz, first seen at the trip (60 s); back in ±20 mHz at 90 s → settling 30 s
         assertThat(metric(m, "Area a: after unitTrip at 60 s", "nadir").value()).isEqualTo("49.9000");
         assertThat(metric(m, "Area a: after unitTrip at 60 s", "settling time").value()).isEqualTo("30");
-        // ACE back to 0 first at the 100 s cycle: 40 s after the trip
-        assertThat(metric(m, "Area a: after unitTrip at 60 s", "ACE recovery (controller ACE)").value()).startsWith("40 s");
+        // the truth ACE stays at −10 MW after the trip (NIa −10 MW, nothing made up the lost unit): not recovered,
+        // said as a figure, not as a FAIL (only the scenario's checks decide)
+        assertThat(metric(m, "Area a: after unitTrip at 60 s", "ACE recovery").value()).startsWith("not recovered")
+                .doesNotContain("FAIL");
         // NIa −10 MW from 60 s (trapezoid 59→60 s adds −5 MW·s) to 120 s: −(5 + 600) MW·s = −0.168 MWh
-        assertThat(Double.parseDouble(metric(m, "Area a: frequency quality", "inadvertent energy (net)").value()))
+        assertThat(Double.parseDouble(metric(m, "Area a: frequency quality, from plant truth", "inadvertent energy (net)").value()))
                 .isCloseTo(-605 / 3600.0, within(0.001));
-        assertThat(metric(m, "Latency (scenario ms)", "command latency p50").value()).isEqualTo("250");
+        assertThat(metric(m, "Latency, controller side (scenario ms)", "command latency p50").value()).isEqualTo("250");
         assertThat(metric(m, "Loss", "commands lost controller → plant").value()).isEqualTo("0");
         assertThat(m.sections()).extracting(MetricSection::group).contains(MetricSection.Group.COMMUNICATION);
         assertThat(m.notes()).anyMatch(n -> n.contains("configured assumption"));
@@ -162,7 +168,7 @@ class RunReportBuilderTest {
         plant.close(T0 + 23_000, EndReason.COMPLETED);
 
         ReportModel m = RunReportBuilder.build(RunFolder.read(run), Map.of(), List.of(), "test");
-        String lat = "Latency (scenario ms)";
+        String lat = "Latency, controller side (scenario ms)";
         // frequency ages 100, 700, 1900 (the null of cycle 3 was not used): p50 = rank ⌈1.5⌉ = 2 → 700,
         // p99 = rank ⌈2.97⌉ = 3 → 1900
         assertThat(metric(m, lat, "frequency age at use p50").value()).isEqualTo("700");

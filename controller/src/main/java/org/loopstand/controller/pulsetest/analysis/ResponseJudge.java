@@ -12,8 +12,10 @@ import org.loopstand.protocol.message.PulseDirection;
 import org.loopstand.protocol.message.RefusalReason;
 
 /**
- * Judges measured steps against the unit's declared figures and the plan's tolerances. A figure that
- * cannot be measured (NaN) fails: absence of evidence is not a pass.
+ * Judges measured steps against the unit's declared figures and the plan's tolerances. A finding is made
+ * only from a measured figure; a figure that cannot be measured (NaN) gives a "not measured" row, which
+ * never passes: absence of evidence is not a pass, nor is it evidence of a fault. Failures that follow
+ * from a unit not moving, or moving the wrong way, carry that finding rather than a consequence of it.
  */
 public final class ResponseJudge {
     private final Tolerances tol;
@@ -43,7 +45,7 @@ public final class ResponseJudge {
 
     /** @return the distinct findings of the failed rows, in order of first appearance */
     public static List<Finding> findings(List<Judgement> rows) {
-        return rows.stream().filter(r -> !r.passed()).map(Judgement::finding).distinct().toList();
+        return rows.stream().filter(r -> !r.passed() && r.measured()).map(Judgement::finding).distinct().toList();
     }
 
     private void judgeStep(StepEvidence e, List<Judgement> rows) {
@@ -55,25 +57,22 @@ public final class ResponseJudge {
                     Finding.DRIFT));
             return;
         }
+        boolean opposite = m.opposite() || m.measuredChangeMw() * w.sign() < -noiseThresholdMw;
+        boolean still = Math.abs(m.measuredChangeMw()) <= noiseThresholdMw
+                && Math.abs(m.requestedChangeMw()) > noiseThresholdMw;
+        Finding cause = opposite ? Finding.OPPOSITE_DIRECTION : still ? Finding.NO_MOVEMENT : null;
         if (w.kind() != StepKind.SHORT_PULSES && w.kind() != StepKind.REVERSAL) {
             boolean moved = m.measuredChangeMw() * w.sign() > noiseThresholdMw;
-            Finding f = m.opposite() || m.measuredChangeMw() * w.sign() < -noiseThresholdMw
-                    ? Finding.OPPOSITE_DIRECTION : Finding.NO_MOVEMENT;
-            rows.add(new Judgement(s, "movement", moved && !m.opposite(),
-                    fmt(m.measuredChangeMw(), 2, "MW") + " for " + fmt(m.requestedChangeMw(), 2, "MW") + " asked",
-                    "same direction, beyond " + fmt(noiseThresholdMw, 2, "MW"), f));
+            String limit = "same direction, beyond " + fmt(noiseThresholdMw, 2, "MW");
+            rows.add(Double.isNaN(m.measuredChangeMw()) ? Judgement.notMeasured(s, "movement", limit)
+                    : new Judgement(s, "movement", moved && !opposite, true, fmt(m.measuredChangeMw(), 2, "MW")
+                            + " for " + fmt(m.requestedChangeMw(), 2, "MW") + " asked", limit,
+                            opposite ? Finding.OPPOSITE_DIRECTION : Finding.NO_MOVEMENT));
         }
         double gainTol = w.kind() == StepKind.SHORT_PULSES ? tol.shortPulseGainPct() : tol.gainPct();
         if (w.kind() != StepKind.REVERSAL) {
-            Judgement g = within(s, "gain", m.gainMwPerPulseS(), declaredGainMwPerPulseS, gainTol, "MW/pulse-s", 3,
-                    Finding.GAIN_LOW, Finding.GAIN_HIGH);
-            if (!g.passed() && m.opposite()) {
-                g = new Judgement(g.step(), g.figure(), false, g.decidingFigure(), g.limit(), Finding.OPPOSITE_DIRECTION);
-            } else if (!g.passed() && Math.abs(m.measuredChangeMw()) <= noiseThresholdMw
-                    && w.kind() != StepKind.SHORT_PULSES) {
-                g = new Judgement(g.step(), g.figure(), false, g.decidingFigure(), g.limit(), Finding.NO_MOVEMENT);
-            }
-            rows.add(g);
+            rows.add(because(cause, within(s, "gain", m.gainMwPerPulseS(), declaredGainMwPerPulseS, gainTol,
+                    "MW/pulse-s", 3, Finding.GAIN_LOW, Finding.GAIN_HIGH)));
         }
         if (w.kind() == StepKind.STAIRCASE || w.kind() == StepKind.RAMP_TO_LIMIT) {
             rows.add(max(s, "dead time", m.deadTimeS(), tol.deadTimeMaxS(), "s", 1, Finding.DEAD_TIME_LONG));
@@ -88,9 +87,18 @@ public final class ResponseJudge {
         }
         if (w.kind() != StepKind.SHORT_PULSES) {
             double band = Math.max(tol.finalErrorMinMw(), tol.finalErrorPct() / 100.0 * Math.abs(m.requestedChangeMw()));
-            rows.add(max(s, "final error", Math.abs(m.finalErrorMw()), band, "MW", 2, Finding.FINAL_ERROR));
+            rows.add(because(cause, max(s, "final error", Math.abs(m.finalErrorMw()), band, "MW", 2,
+                    Finding.FINAL_ERROR)));
         }
         rows.add(commands(s, e));
+    }
+
+    /** A failed row that only follows from the unit not moving (or moving the wrong way) carries that finding. */
+    private static Judgement because(Finding cause, Judgement row) {
+        if (cause == null || row.passed() || !row.measured()) {
+            return row;
+        }
+        return new Judgement(row.step(), row.figure(), false, true, row.decidingFigure(), row.limit(), cause);
     }
 
     private Judgement commands(String s, StepEvidence e) {
@@ -109,7 +117,7 @@ public final class ResponseJudge {
                     + (e.unanswered() > 0 ? ", " + e.unanswered() + " unanswered" : "");
         }
         Finding f = e.refusals().isEmpty() ? Finding.UNANSWERED : Finding.REFUSED;
-        return new Judgement(s, "commands", ok, figure, "all accepted", f);
+        return new Judgement(s, "commands", ok, true, figure, "all accepted", f);
     }
 
     private void asymmetry(List<StepEvidence> steps, List<Judgement> rows) {
@@ -123,6 +131,9 @@ public final class ResponseJudge {
                 continue;
             }
             int i = e.window().direction() == PulseDirection.RAISE ? 0 : 1;
+            if (!(e.measurement().measuredChangeMw() * e.window().sign() > noiseThresholdMw)) {
+                continue; // a step that did not move the commanded way says nothing about symmetry
+            }
             if (Double.isFinite(e.measurement().gainMwPerPulseS())) {
                 gain[i] += e.measurement().gainMwPerPulseS();
                 gainN[i]++;
@@ -132,19 +143,28 @@ public final class ResponseJudge {
                 rampN[i]++;
             }
         }
-        if (gainN[0] > 0 && gainN[1] > 0) {
-            rows.add(asym("gain asymmetry raise vs lower", gain[0] / gainN[0], gain[1] / gainN[1], "MW/pulse-s", 3));
+        boolean any = steps.stream().anyMatch(e -> e.window().kind() == StepKind.STAIRCASE
+                || e.window().kind() == StepKind.RAMP_TO_LIMIT);
+        if (!any) {
+            return;
         }
-        if (rampN[0] > 0 && rampN[1] > 0) {
-            rows.add(asym("ramp asymmetry raise vs lower", ramp[0] / rampN[0], ramp[1] / rampN[1], "MW/min", 2));
-        }
+        String limit = "≤ " + fmt(tol.asymmetryMaxPct(), 1, "%");
+        rows.add(gainN[0] > 0 && gainN[1] > 0
+                ? asym("gain asymmetry raise vs lower", gain[0] / gainN[0], gain[1] / gainN[1], "MW/pulse-s", 3)
+                : Judgement.notMeasured("all steps", "gain asymmetry raise vs lower", limit));
+        rows.add(rampN[0] > 0 && rampN[1] > 0
+                ? asym("ramp asymmetry raise vs lower", ramp[0] / rampN[0], ramp[1] / rampN[1], "MW/min", 2)
+                : Judgement.notMeasured("all steps", "ramp asymmetry raise vs lower", limit));
     }
 
     private Judgement asym(String figure, double raise, double lower, String unit, int decimals) {
         double mean = (Math.abs(raise) + Math.abs(lower)) / 2;
         double pct = mean == 0 ? Double.NaN : Math.abs(raise - lower) / mean * 100;
-        boolean ok = Double.isFinite(pct) && pct <= tol.asymmetryMaxPct();
-        return new Judgement("all steps", figure, ok,
+        if (!Double.isFinite(pct)) {
+            return Judgement.notMeasured("all steps", figure, "≤ " + fmt(tol.asymmetryMaxPct(), 1, "%"));
+        }
+        boolean ok = pct <= tol.asymmetryMaxPct();
+        return new Judgement("all steps", figure, ok, true,
                 String.format(Locale.ROOT, "%.1f %% (raise %s, lower %s)", pct, fmt(raise, decimals, unit),
                         fmt(lower, decimals, unit)),
                 "≤ " + fmt(tol.asymmetryMaxPct(), 1, "%"), Finding.ASYMMETRIC);
@@ -152,24 +172,27 @@ public final class ResponseJudge {
 
     private static Judgement max(String step, String figure, double value, double limit, String unit, int decimals,
             Finding f) {
-        boolean ok = Double.isFinite(value) && value <= limit;
-        return new Judgement(step, figure, ok, fmt(value, decimals, unit), "≤ " + fmt(limit, decimals, unit), f);
+        if (!Double.isFinite(value)) {
+            return Judgement.notMeasured(step, figure, "≤ " + fmt(limit, decimals, unit));
+        }
+        return new Judgement(step, figure, value <= limit, true, fmt(value, decimals, unit),
+                "≤ " + fmt(limit, decimals, unit), f);
     }
 
     private static Judgement within(String step, String figure, double value, double expected, double pct, String unit,
             int decimals, Finding low, Finding high) {
         double dev = (value - expected) / expected * 100;
-        boolean ok = Double.isFinite(dev) && Math.abs(dev) <= pct;
-        String shown = Double.isFinite(dev)
-                ? fmt(value, decimals, unit) + String.format(Locale.ROOT, " (%+.1f %%)", dev)
-                : fmt(value, decimals, unit);
-        return new Judgement(step, figure, ok, shown,
-                fmt(expected, decimals, unit) + " ± " + fmt(pct, 0, "%"), !Double.isFinite(dev) || dev < 0 ? low : high);
+        String limit = fmt(expected, decimals, unit) + " ± " + fmt(pct, 0, "%");
+        if (!Double.isFinite(dev)) {
+            return Judgement.notMeasured(step, figure, limit);
+        }
+        String shown = fmt(value, decimals, unit) + String.format(Locale.ROOT, " (%+.1f %%)", dev);
+        return new Judgement(step, figure, Math.abs(dev) <= pct, true, shown, limit, dev < 0 ? low : high);
     }
 
     static String fmt(double v, int decimals, String unit) {
-        if (Double.isNaN(v)) {
-            return "not measurable";
+        if (!Double.isFinite(v)) {
+            return Judgement.NOT_MEASURED;
         }
         return String.format(Locale.ROOT, "%." + decimals + "f %s", v, unit);
     }

@@ -74,13 +74,18 @@ public final class StepResponseAnalyzer {
                 deadTime = Math.max(0, crossMs / 1000.0);
             }
         }
-        if (opposite) {
+        // Figures that describe the commanded move exist only when the unit made it: a unit that did not
+        // move has no dead time, ramp, overshoot or settling time, and one that moved the wrong way has
+        // none of the commanded move (its wrong move is judged as such).
+        boolean movedAsCommanded = sign != 0 && change * sign > noiseThresholdMw;
+        if (!movedAsCommanded && w.kind() != StepKind.REVERSAL) {
             deadTime = Double.NaN;
+            ramp = Double.NaN;
         }
         double gain = w.pulseSeconds() > 0 && sign != 0 && w.kind() != StepKind.REVERSAL
                 ? change * sign / w.pulseSeconds() : Double.NaN;
-        double overshoot = Math.abs(change) > noiseThresholdMw ? overshoot(in, fin, change) : Double.NaN;
-        double settling = settling(in, w, fin);
+        double overshoot = movedAsCommanded ? overshoot(in, fin, change) : Double.NaN;
+        double settling = movedAsCommanded ? settling(in, w, fin) : Double.NaN;
         double finalError = fin - (baseline + w.requestedChangeMw());
         double turnDelay = w.reverseMs() >= 0 ? turnDelay(in, w, baseline) : Double.NaN;
         return new StepMeasurement(baseline, fin, change, w.requestedChangeMw(), firstMove, deadTime, ramp, gain,
@@ -183,7 +188,8 @@ public final class StepResponseAnalyzer {
         return (settledAt - w.startMs()) / 1000.0;
     }
 
-    private static double turnDelay(List<OutputSample> in, StepWindow w, double baseline) {
+    /** NaN when the output never moved beyond the noise threshold in the first direction: it had nothing to turn. */
+    private double turnDelay(List<OutputSample> in, StepWindow w, double baseline) {
         double best = Double.NEGATIVE_INFINITY;
         long at = -1;
         for (OutputSample s : in) {
@@ -193,6 +199,6 @@ public final class StepResponseAnalyzer {
                 at = s.tMs();
             }
         }
-        return at < 0 ? Double.NaN : Math.max(0, (at - w.reverseMs()) / 1000.0);
+        return at < 0 || !(best > noiseThresholdMw) ? Double.NaN : Math.max(0, (at - w.reverseMs()) / 1000.0);
     }
 }

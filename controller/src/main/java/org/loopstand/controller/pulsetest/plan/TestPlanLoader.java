@@ -18,7 +18,8 @@ public final class TestPlanLoader {
     private static final Set<String> TOP = Set.of("name", "description", "settings", "limits", "tolerances", "steps");
     private static final Set<String> SETTINGS = Set.of("leadInS", "noiseThresholdMw", "averagingS", "settleBandPct",
             "settleBandMinMw", "maxPulseMs", "pulseGapMs", "waitFactor", "extraWaitS", "commandValidityMs",
-            "telemetryLossScans");
+            "telemetryLossScans", "settledForS", "settleTimeoutS", "steadyForS", "steadyOutputBandMw",
+            "steadyFrequencyBandHz", "steadyTimeoutS");
     private static final Set<String> LIMITS = Set.of("maxExcursionMw", "maxDurationS");
     private static final Set<String> TOLERANCES = Set.of("deadTimeMaxS", "rampPct", "gainPct", "shortPulseGainPct",
             "overshootMaxPct", "settlingAllowanceS", "finalErrorPct", "finalErrorMinMw", "holdDriftMaxMw",
@@ -94,7 +95,13 @@ public final class TestPlanLoader {
                 r.number("waitFactor", d.waitFactor(), 1, 10),
                 r.number("extraWaitS", d.extraWaitS(), 0, 3600),
                 r.whole("commandValidityMs", d.commandValidityMs(), 100, 60_000),
-                (int) r.whole("telemetryLossScans", d.telemetryLossScans(), 1, 100));
+                (int) r.whole("telemetryLossScans", d.telemetryLossScans(), 1, 100),
+                r.positive("settledForS", d.settledForS(), 600),
+                r.number("settleTimeoutS", d.settleTimeoutS(), 0, 3600),
+                r.positive("steadyForS", d.steadyForS(), 3600),
+                r.positive("steadyOutputBandMw", d.steadyOutputBandMw(), 100),
+                r.positive("steadyFrequencyBandHz", d.steadyFrequencyBandHz(), 5),
+                r.number("steadyTimeoutS", d.steadyTimeoutS(), 0, 3600));
     }
 
     private static PlanLimits limits(MapReader top, String source, List<String> problems) {

@@ -118,15 +118,38 @@ public final class SafetyGate {
     }
 
     /**
-     * @param cliMaxExcursionMw  operator's own excursion cap, MW, or NaN for the plan's
-     * @param cliMaxDurationS    operator's own duration cap, s, or NaN for the plan's
-     * @return the caps in force: the tighter of the plan's and the operator's
+     * The caps in force: the plan's, or the operator's tighter ones. An operator's cap must be a finite
+     * number in (0, plan's cap]; anything else (NaN, an infinity, zero, a negative, a value above the
+     * plan's cap) is refused, never clipped or ignored.
+     *
+     * @param cliMaxExcursionMw  {@code --max-excursion-mw}, MW, or null when not given
+     * @param cliMaxDurationS    {@code --max-duration-s}, s, or null when not given
+     * @throws IllegalArgumentException naming every refused option, its value and its range
      */
-    public static PlanLimits caps(PlanLimits plan, double cliMaxExcursionMw, double cliMaxDurationS) {
-        double mw = Double.isNaN(cliMaxExcursionMw) ? plan.maxExcursionMw()
-                : Math.min(plan.maxExcursionMw(), cliMaxExcursionMw);
-        double s = Double.isNaN(cliMaxDurationS) ? plan.maxDurationS() : Math.min(plan.maxDurationS(), cliMaxDurationS);
+    public static PlanLimits caps(PlanLimits plan, Double cliMaxExcursionMw, Double cliMaxDurationS) {
+        StringBuilder problems = new StringBuilder();
+        double mw = operatorCap("--max-excursion-mw", cliMaxExcursionMw, plan.maxExcursionMw(), "MW", problems);
+        double s = operatorCap("--max-duration-s", cliMaxDurationS, plan.maxDurationS(), "s", problems);
+        if (!problems.isEmpty()) {
+            throw new IllegalArgumentException(problems.toString());
+        }
         return new PlanLimits(mw, s);
+    }
+
+    private static double operatorCap(String option, Double value, double planCap, String unit, StringBuilder problems) {
+        if (value == null) {
+            return planCap;
+        }
+        double v = value;
+        if (!Double.isFinite(v) || v <= 0 || v > planCap) {
+            if (!problems.isEmpty()) {
+                problems.append("; ");
+            }
+            problems.append(String.format(Locale.ROOT, "%s must be a finite number in (0, %.2f] %s (the plan's cap; "
+                    + "a tighter cap only), got %s", option, planCap, unit, value));
+            return planCap;
+        }
+        return v;
     }
 
     /** @return empty when the programme keeps within the caps, else the refusal naming the figure */

@@ -1,6 +1,7 @@
 package org.loopstand.controller.pulsetest.safety;
 
 import static org.assertj.core.api.Assertions.assertThat;
+import static org.assertj.core.api.Assertions.assertThatThrownBy;
 
 import java.io.BufferedReader;
 import java.io.ByteArrayOutputStream;
@@ -58,9 +59,29 @@ class SafetyGateTest {
     }
 
     @Test
-    void shouldTakeTheTighterOfPlanAndOperatorCaps() {
-        assertThat(SafetyGate.caps(new PlanLimits(20, 900), 8, Double.NaN)).isEqualTo(new PlanLimits(8, 900));
-        assertThat(SafetyGate.caps(new PlanLimits(20, 900), 50, 300)).isEqualTo(new PlanLimits(20, 300));
+    void shouldTakeTheTighterOperatorCapOrThePlans() {
+        assertThat(SafetyGate.caps(new PlanLimits(20, 900), 8.0, null)).isEqualTo(new PlanLimits(8, 900));
+        assertThat(SafetyGate.caps(new PlanLimits(20, 900), null, 300.0)).isEqualTo(new PlanLimits(20, 300));
+        assertThat(SafetyGate.caps(new PlanLimits(20, 900), 20.0, 900.0)).isEqualTo(new PlanLimits(20, 900));
+    }
+
+    @Test
+    void shouldRefuseAnOperatorCapAboveThePlansInsteadOfClippingIt() {
+        assertThatThrownBy(() -> SafetyGate.caps(new PlanLimits(20, 900), 50.0, 300.0))
+                .isInstanceOf(IllegalArgumentException.class)
+                .hasMessageContaining("--max-excursion-mw must be a finite number in (0, 20.00] MW")
+                .hasMessageContaining("got 50.0");
+    }
+
+    @Test
+    void shouldRefuseNaNInfinitiesZeroAndNegativeCapsNamingEachOption() {
+        for (double bad : new double[] {Double.NaN, Double.POSITIVE_INFINITY, Double.NEGATIVE_INFINITY, 0, -5, 1e9}) {
+            assertThatThrownBy(() -> SafetyGate.caps(new PlanLimits(20, 900), bad, bad))
+                    .as("cap %s", bad)
+                    .hasMessageContaining("--max-excursion-mw must be a finite number in (0, 20.00] MW")
+                    .hasMessageContaining("--max-duration-s must be a finite number in (0, 900.00] s")
+                    .hasMessageContaining("got " + bad);
+        }
     }
 
     @Test

@@ -1,0 +1,145 @@
+package org.loopstand.plant.rehearsal;
+
+import java.nio.file.Path;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Set;
+import java.util.TreeSet;
+import java.util.concurrent.CompletableFuture;
+import java.util.concurrent.ExecutionException;
+import java.util.concurrent.TimeUnit;
+import java.util.concurrent.TimeoutException;
+
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.message.ControllerStatus;
+import org.loopstand.protocol.topic.TopicTree;
+
+/**
+ * Starts the controller under test and waits for it: one path for the built-in controller and any
+ * user's command (a shell command in the project root, connection facts in {@code LOOPSTAND_*}
+ * environment variables, output to {@code controller.log}), or, for an external controller, the exact
+ * facts it must connect with. Ready means: the controller's first status with the accepted id arrived
+ * on the bus after the rehearsal subscribed (a retained status left by an earlier run does not count).
+ */
+final class ControllerLaunch {
+    /** Environment variables a controller command gets (docs/controller-contract.md). */
+    static final List<String> ENVIRONMENT = List.of("LOOPSTAND_BROKER_URL", "LOOPSTAND_SITE_ID", "LOOPSTAND_SITE_FILE",
+            "LOOPSTAND_TOPIC_ROOT", "LOOPSTAND_CONTROLLER_ID", "LOOPSTAND_RATE", "LOOPSTAND_RUN_DIR");
+
+    private final ControllerUnderTest controller;
+    private final MessageCodec codec = new MessageCodec();
+    private final CompletableFuture<ControllerStatus> firstStatus = new CompletableFuture<>();
+    private final Set<String> otherIds = new TreeSet<>();
+
+    ControllerLaunch(ControllerUnderTest controller) {
+        this.controller = controller;
+    }
+
+    /** @return the variables the controller command runs with */
+    static Map<String, String> environment(RehearsalSettings s, String siteId, Path run) {
+        Map<String, String> env = new LinkedHashMap<>();
+        env.put("LOOPSTAND_BROKER_URL", s.effectiveBrokerUrl());
+        env.put("LOOPSTAND_SITE_ID", siteId);
+        env.put("LOOPSTAND_SITE_FILE", s.siteFile().toAbsolutePath().normalize().toString());
+        env.put("LOOPSTAND_TOPIC_ROOT", TopicTree.forSite(siteId).root());
+        env.put("LOOPSTAND_CONTROLLER_ID", s.controller().controllerId());
+        env.put("LOOPSTAND_RATE", Rehearsal.trim(s.rate()));
+        env.put("LOOPSTAND_RUN_DIR", run.toAbsolutePath().normalize().toString());
+        if (s.wireProfile() != null) {
+            env.put("LOOPSTAND_WIRE_PROFILE", s.wireProfile().toAbsolutePath().normalize().toString());
+        }
+        // the launcher runs the built-in controller from these instead of building (see ./loopstand)
+        if (s.controllerClassPath() != null) {
+            env.put("LOOPSTAND_CONTROLLER_CP", s.controllerClassPath());
+        }
+        env.put("LOOPSTAND_JAVA", s.javaCommand());
+        return env;
+    }
+
+    /**
+     * Starts the command through {@code sh -c} in the project root, in a process group of its own
+     * ({@code setsid}), so stopping it reaches every process the command started, even after the shell
+     * itself died.
+     */
+    ChildProcess start(RehearsalSettings s, String siteId, Path run) {
+        ProcessBuilder pb = new ProcessBuilder("setsid", "sh", "-c", controller.commandLine()).directory(s.projectRoot().toFile());
+        pb.environment().putAll(environment(s, siteId, run));
+        return ChildProcess.start("controller", pb, run.resolve("controller.log"), l -> false, l -> { }).ownGroup();
+    }
+
+    /** @return what a user must give an external controller, one fact a line */
+    static List<String> instructions(RehearsalSettings s, String siteId, Path run) {
+        Map<String, String> env = environment(s, siteId, run);
+        return List.of(
+                "rehearsal: waiting for the external controller '" + s.controller().controllerId() + "' (at most "
+                        + s.controllerWaitMs() / 1000 + " s). Start it now with:",
+                "  broker        " + env.get("LOOPSTAND_BROKER_URL"),
+                "  site          " + siteId + " (file " + env.get("LOOPSTAND_SITE_FILE") + ")",
+                "  topic root    " + env.get("LOOPSTAND_TOPIC_ROOT"),
+                "  controller id " + s.controller().controllerId() + " (commands from any other id are refused)",
+                "  epoch         any whole number ≥ 0 on its first status; never lower afterwards",
+                "  time base     scenario time from " + env.get("LOOPSTAND_TOPIC_ROOT") + "/clock (rate "
+                        + env.get("LOOPSTAND_RATE") + "); every timestamp, validUntil included, is scenario epoch ms",
+                "  run folder    " + env.get("LOOPSTAND_RUN_DIR") + " (put its journal or log here if you like)",
+                "  The scenario starts when its first status arrives on "
+                        + TopicTree.forSite(siteId).controllerStatus(s.controller().controllerId()) + ".");
+    }
+
+    /** Bus thread: every controller status the rehearsal's own link receives. */
+    void onStatus(byte[] payload, boolean retained) {
+        if (retained) {
+            return; // left by an earlier run: not a sign of life
+        }
+        codec.decode(payload, ControllerStatus.class).message().ifPresent(st -> {
+            if (st.controllerId().equals(controller.controllerId())) {
+                firstStatus.complete(st);
+            } else {
+                synchronized (otherIds) {
+                    otherIds.add(st.controllerId());
+                }
+            }
+        });
+    }
+
+    /**
+     * Waits for the first status; fails with a message that says what to check.
+     *
+     * @param child the controller's process, or null for an external one
+     */
+    ControllerStatus awaitFirstStatus(long timeoutMs, ChildProcess child, String statusTopic,
+                                      java.util.function.BooleanSupplier stopAsked) {
+        long waitedMs = 0;
+        while (true) {
+            if (stopAsked.getAsBoolean()) {
+                throw new IllegalStateException("stopped by Ctrl-C while waiting for the controller");
+            }
+            try {
+                return firstStatus.get(Math.min(500, timeoutMs - waitedMs), TimeUnit.MILLISECONDS);
+            } catch (TimeoutException e) {
+                waitedMs += 500;
+                if (child != null && !child.isAlive()) {
+                    throw new IllegalStateException("the controller process exited" + child.exitCode().map(c -> " with code " + c)
+                            .orElse("") + " before its first status; its last output:\n" + child.tail());
+                }
+                if (waitedMs >= timeoutMs) {
+                    String others;
+                    synchronized (otherIds) {
+                        others = otherIds.isEmpty() ? "" : "; statuses did arrive from " + otherIds
+                                + ", which is not the accepted id";
+                    }
+                    throw new IllegalStateException(String.format(Locale.ROOT, "no status from controller '%s' on %s within"
+                            + " %d s%s. Check that it connects to the broker given above and publishes its status there.",
+                            controller.controllerId(), statusTopic, timeoutMs / 1000, others)
+                            + (child == null ? "" : " Its last output:\n" + child.tail()));
+                }
+            } catch (ExecutionException e) {
+                throw new IllegalStateException("waiting for the controller failed: " + e.getCause(), e);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+                throw new IllegalStateException("interrupted while waiting for the controller", e);
+            }
+        }
+    }
+}
