@@ -1,6 +1,5 @@
 package org.loopstand.plant.broker;
 
-import org.loopstand.protocol.bus.mqtt.PacketLimits;
 import com.hivemq.embedded.EmbeddedHiveMQ;
 import java.io.IOException;
 import java.io.UncheckedIOException;
@@ -16,6 +15,7 @@ import java.util.concurrent.ExecutionException;
 import java.util.concurrent.TimeUnit;
 import java.util.concurrent.TimeoutException;
 import java.util.stream.Stream;
+import org.loopstand.protocol.bus.mqtt.PacketLimits;
 import org.loopstand.protocol.time.SystemTime;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
