@@ -8,6 +8,7 @@ import java.util.concurrent.locks.LockSupport;
 import org.loopstand.controller.config.ControllerConfigException;
 import org.loopstand.controller.config.ControllerSiteConfig;
 import org.loopstand.controller.config.ControllerSiteReader;
+import org.loopstand.controller.pulsetest.safety.SafetyGate;
 import org.loopstand.controller.runtime.BusClock;
 import org.loopstand.controller.runtime.ControllerAgent;
 import org.loopstand.protocol.agent.AgentRunner;
@@ -21,6 +22,7 @@ import org.loopstand.protocol.security.AuthOptions;
 import org.loopstand.protocol.security.CommandSigner;
 import org.loopstand.protocol.security.LinkSecurity;
 import org.loopstand.protocol.security.SecuritySetupException;
+import org.loopstand.protocol.security.StatusSeal;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.WallClock;
 import picocli.CommandLine.Command;
@@ -62,6 +64,9 @@ public final class ControlCommand implements Callable<Integer> {
     @Mixin
     AuthOptions auth;
 
+    /** Console for the live-plant confirmation; tests give their own. */
+    java.io.Reader consoleIn = new java.io.InputStreamReader(System.in, java.nio.charset.StandardCharsets.UTF_8);
+
     @Override
     public Integer call() throws Exception {
         System.out.println(CAUTION);
@@ -77,6 +82,23 @@ public final class ControlCommand implements Callable<Integer> {
                     + " plant's procedures");
             return 2;
         }
+        ControllerSiteConfig config;
+        try {
+            config = ControllerSiteReader.read(site);
+        } catch (ControllerConfigException e) {
+            System.err.println("control: the site file cannot be used:\n" + e.getMessage());
+            return 2;
+        }
+        if (!loopback) {
+            // the same typed confirmation as pulse-test: the site id, since every unit of it may move
+            java.util.Optional<String> refusal = SafetyGate.admit(broker, false, true, config.siteId(),
+                    "The controller will send raise/lower commands to every unit of site " + config.siteId() + ".",
+                    "site", new java.io.BufferedReader(consoleIn), System.out);
+            if (refusal.isPresent()) {
+                System.err.println("control: " + refusal.get());
+                return 3;
+            }
+        }
         LinkSecurity security;
         try {
             security = auth.resolve(broker, System.getenv());
@@ -85,18 +107,17 @@ public final class ControlCommand implements Callable<Integer> {
             return 2;
         }
         System.err.println(security.startMessage());
-        ControllerSiteConfig config;
-        try {
-            config = ControllerSiteReader.read(site);
-        } catch (ControllerConfigException e) {
-            System.err.println("control: the site file cannot be used:\n" + e.getMessage());
-            return 2;
-        }
         Clock wall = WallClock.INSTANCE;
         BusClock busClock = "bus".equals(clockMode) ? new BusClock(wall) : null;
         Clock clock = busClock != null ? busClock : wall;
-        long epoch = wall.epochMillis();
-        OutboundMessage will = ControllerAgent.offlineStatus(config.siteId(), controllerId, epoch, epoch);
+        long epoch = wall.epochMillis(); // epoch ms, see CommandTimeRules
+        StatusSeal seal = security.keys().map(k -> new StatusSeal(k, new MessageCodec())).orElse(null);
+        if (seal != null && !seal.hasKeyFor(controllerId)) {
+            System.err.println("control: the keys file has no status key for " + controllerId + " (a line "
+                    + controllerId + ".<keyId> = <base64>); statuses go out unsigned");
+            seal = null;
+        }
+        OutboundMessage will = ControllerAgent.offlineStatus(config.siteId(), controllerId, epoch, epoch, seal);
         MessageBus bus;
         try {
             bus = BusConnector.connect(broker, controllerId, will, security);
@@ -114,6 +135,9 @@ public final class ControlCommand implements Callable<Integer> {
         }
         ControllerAgent agent = new ControllerAgent(config, bus, clock, busClock, controllerId, epoch, journal, hlog);
         security.keys().ifPresent(keys -> agent.signCommandsWith(new CommandSigner(keys, clock, new MessageCodec())));
+        if (seal != null) {
+            agent.signStatusWith(seal);
+        }
         AgentRunner runner = new AgentRunner(agent, 1_000_000L);
         agent.wakeOnInput(runner::wake);
         Runtime.getRuntime().addShutdownHook(new Thread(() -> {

@@ -33,6 +33,7 @@ import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.security.AuthOptions;
 import org.loopstand.protocol.security.CommandSigner;
 import org.loopstand.protocol.security.LinkSecurity;
+import org.loopstand.protocol.security.CommandTimeRules;
 import org.loopstand.protocol.security.SecuritySetupException;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.WallClock;
@@ -65,7 +66,7 @@ public final class PulseTestCommand implements Callable<Integer> {
     Double maxExcursionMw;
     @Option(names = "--max-duration-s", description = "tighter duration cap than the plan's, s, in (0, plan cap]")
     Double maxDurationS;
-    @Option(names = "--epoch", description = "controller epoch for the commands (default: now in seconds)")
+    @Option(names = "--epoch", description = "controller epoch for the commands, epoch ms (default: now in epoch ms)")
     Long epoch;
     @Mixin
     AuthOptions auth;
@@ -111,6 +112,11 @@ public final class PulseTestCommand implements Callable<Integer> {
             return 3;
         }
         Clock clock = WallClock.INSTANCE;
+        if (epoch != null && !CommandTimeRules.epochWithinBound(epoch, clock.epochMillis())) {
+            System.err.println("pulse-test: --epoch " + epoch + " is not an epoch in ms within [0, now + "
+                    + CommandTimeRules.MAX_EPOCH_AHEAD_MS + " ms]; units would refuse it");
+            return 2;
+        }
         TopicTree topics = TopicTree.forSite(siteUnit.siteId());
         LinkSecurity security;
         MqttLinkConfig config;
@@ -142,7 +148,7 @@ public final class PulseTestCommand implements Callable<Integer> {
                 clock = plantClock.get();
             }
             runner = new PulseTestRunner(link, clock, topics, unit, plan, fromTelemetry ? null : siteUnit.unit(), caps,
-                    epoch == null ? clock.epochMillis() / 1000 : epoch, new KeyAbortSwitch(console), 30)
+                    epoch == null ? clock.epochMillis() : epoch, new KeyAbortSwitch(console), 30)
                     .removeGovernorAnswer(siteUnit.governor());
             Clock signingClock = clock; // the plant's time base when following it: key validity and signed times agree
             security.keys().ifPresent(keys -> runner.signCommandsWith(new CommandSigner(keys, signingClock, new MessageCodec())));

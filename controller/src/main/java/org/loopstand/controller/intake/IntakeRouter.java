@@ -57,8 +57,8 @@ import org.loopstand.protocol.topic.TopicTree;
  *       primary meter; alternate = the other end's primary meter, sign flipped;</li>
  *   <li>unit telemetry: output checked for age, quality, sequence and skew; a unit whose
  *       telemetry fails is not eligible ({@code telemetryBad});</li>
- *   <li>schedules per area (the latest whose effectiveFrom has come); without one the site
- *       file's schedule is used if {@code scheduleFromSite}.</li>
+ *   <li>schedules per area ({@link AreaSchedules}: a later one replaces those not yet in force);
+ *       without one the site file's schedule is used if {@code scheduleFromSite}.</li>
  * </ul>
  * Cross check of each tie metered at both ends: when both ends' values are usable and this end's
  * flow and the other end's flow (sign flipped) differ by more than {@value #TIE_ENDS_TOLERANCE_MW} MW
@@ -90,7 +90,7 @@ public final class IntakeRouter {
     private final Map<String, ValidatedInput> tieFlow = new LinkedHashMap<>();
     private final Map<String, UnitTelemetry> telemetry = new LinkedHashMap<>();
     private final Map<String, SourceValidator> telemetryCheck = new LinkedHashMap<>();
-    private final Map<String, List<Schedule>> schedules = new LinkedHashMap<>();
+    private final AreaSchedules schedules = new AreaSchedules();
     private final Set<String> skewReported = new HashSet<>();
     /** per tie: cycles in a row its two ends disagreed, and the cycle time last counted */
     private final Map<String, long[]> tieDisagreement = new HashMap<>();
@@ -237,9 +237,9 @@ public final class IntakeRouter {
         MeasuredValue fv = new MeasuredValue(m.frequencyHz(), m.sourceTime(), receivedAtMs,
                 m.frequencyQuality().validity() == Validity.GOOD, m.seq());
         if (isPrimary) {
-            noteSkew("meter:" + meter, f.acceptPrimary(fv), fv);
+            noteSkew("meter:" + area + "/" + meter, f.acceptPrimary(fv), fv);
         } else if (f.alternate() != null) {
-            noteSkew("meter:" + meter, f.acceptAlternate(fv), fv);
+            noteSkew("meter:" + area + "/" + meter, f.acceptAlternate(fv), fv);
         }
         if (!isPrimary) {
             return; // tie flows come from each area's primary meter only
@@ -292,9 +292,7 @@ public final class IntakeRouter {
             reject(topic, frequency.containsKey(p.area()) ? "topicMismatch" : "unknownArea", "schedule for " + s.area());
             return;
         }
-        List<Schedule> list = schedules.computeIfAbsent(p.area(), k -> new ArrayList<>());
-        list.add(s);
-        list.sort((x, y) -> Long.compare(x.effectiveFrom(), y.effectiveFrom()));
+        schedules.receive(p.area(), s);
     }
 
     private void noteSkew(String source, Set<ValidationReason> reasons, MeasuredValue v) {
@@ -352,12 +350,7 @@ public final class IntakeRouter {
 
     /** @return the schedule in force at {@code nowMs}, the site's when none was received, or null */
     public AreaSchedule schedule(String areaId, long nowMs) {
-        Schedule inForce = null;
-        for (Schedule s : schedules.getOrDefault(areaId, List.of())) {
-            if (s.effectiveFrom() <= nowMs) {
-                inForce = s;
-            }
-        }
+        Schedule inForce = schedules.inForce(areaId, nowMs);
         if (inForce != null) {
             return new AreaSchedule(inForce.scheduledNetInterchangeMw(), inForce.scheduledFrequencyHz());
         }

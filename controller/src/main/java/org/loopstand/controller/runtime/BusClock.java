@@ -6,16 +6,26 @@ import org.loopstand.protocol.time.Clock;
 /**
  * Scenario time followed from the plant's clock ticks ({@code --clock bus}): the latest tick's
  * source time (the plant's scenario epoch ms) and rate, extrapolated between ticks with an
- * injected wall clock. Never runs backwards: a tick behind the extrapolation holds time until it
- * catches up. A stopped scenario ({@code running = false}) holds time. Thread-safe.
+ * injected wall clock. A tick a little behind the extrapolation (up to
+ * {@value #RESTART_BEHIND_MS} ms of scenario time) holds time until it catches up. A tick further
+ * behind is a restarted plant: {@link #epochMillis()} follows it back to the plant's time, so
+ * commands and ages are reckoned on the plant's clock again, while {@link #monotonicNanos()} keeps
+ * running forward (it moves on by the whole seconds it was ahead, rounded up, so cycle starts stay
+ * on whole scenario seconds). A stopped scenario ({@code running = false}) holds time. Thread-safe.
  */
 public final class BusClock implements Clock {
     private record Anchor(long scenarioEpochMs, long wallNanos, double rate) {
     }
 
+    /** A tick further behind the extrapolation than this, scenario ms, is a restarted plant. */
+    public static final long RESTART_BEHIND_MS = 10_000;
+
     private final Clock wall;
     private volatile Anchor anchor;
     private long lastNanos = Long.MIN_VALUE;
+    /** monotonic − scenario time, ns: grows by whole seconds at each restart followed */
+    private long offsetNanos;
+    private long restartsFollowed;
 
     /** @param wall the wall clock used between ticks */
     public BusClock(Clock wall) {
@@ -23,8 +33,25 @@ public final class BusClock implements Clock {
     }
 
     /** Takes a tick as the new anchor. */
-    public void onTick(ClockTick tick) {
+    public synchronized void onTick(ClockTick tick) {
+        Anchor a = anchor;
+        if (a != null) {
+            long behindNanos = scenarioNanos(a) - tick.sourceTime() * 1_000_000L;
+            if (behindNanos > RESTART_BEHIND_MS * 1_000_000L) {
+                offsetNanos += Math.floorDiv(behindNanos + 999_999_999L, 1_000_000_000L) * 1_000_000_000L;
+                restartsFollowed++;
+            }
+        }
         anchor = new Anchor(tick.sourceTime(), wall.monotonicNanos(), tick.running() ? tick.rate() : 0.0);
+    }
+
+    /** @return how many plant restarts (ticks far behind) this clock followed */
+    public synchronized long restartsFollowed() {
+        return restartsFollowed;
+    }
+
+    private long scenarioNanos(Anchor a) {
+        return a.scenarioEpochMs() * 1_000_000L + (long) ((wall.monotonicNanos() - a.wallNanos()) * a.rate());
     }
 
     /** @return true once a tick has been received; before that the time is not known */
@@ -38,19 +65,23 @@ public final class BusClock implements Clock {
         return a == null ? 0.0 : a.rate();
     }
 
+    /** The plant's scenario time, epoch ms (goes back once when a restarted plant is followed). */
     @Override
-    public long epochMillis() {
-        return Math.floorDiv(monotonicNanos(), 1_000_000L);
+    public synchronized long epochMillis() {
+        return Math.floorDiv(monotonicNanos() - offsetNanos, 1_000_000L);
     }
 
-    /** Scenario epoch time in ns (so that cycle starts align to whole scenario seconds). */
+    /**
+     * Scenario epoch time in ns plus the whole seconds of the restarts followed (so that cycle
+     * starts align to whole scenario seconds); never goes back.
+     */
     @Override
     public synchronized long monotonicNanos() {
         Anchor a = anchor;
         if (a == null) {
             return 0L;
         }
-        long n = a.scenarioEpochMs() * 1_000_000L + (long) ((wall.monotonicNanos() - a.wallNanos()) * a.rate());
+        long n = scenarioNanos(a) + offsetNanos;
         if (n < lastNanos) {
             return lastNanos;
         }

@@ -39,6 +39,7 @@ import org.loopstand.protocol.message.ControllerState;
 import org.loopstand.protocol.message.ControllerStatus;
 import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.security.CommandSigner;
+import org.loopstand.protocol.security.StatusSeal;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.topic.TopicTree;
 import org.slf4j.Logger;
@@ -79,10 +80,12 @@ public final class ControllerAgent implements Agent {
     private final ExclusionList excluded = new ExclusionList();
     private volatile boolean linkUp;
     private CommandSigner signer;
+    private StatusSeal statusSeal;
     private long unsignable;
     private CycleScheduler scheduler;
     private CycleOutcome lastOutcome;
     private long commandSeq;
+    private final SentCommands sentCommands;
     private long statusSeq;
     private long commandsSent;
     private long statusesSent;
@@ -119,6 +122,7 @@ public final class ControllerAgent implements Agent {
         this.outcomes = new CommandOutcomes(cycle, controllerId);
         this.intake = new IntakeRouter(site, clock, codec, new Observer());
         this.inputUse = new InputUseJournal(site, intake);
+        this.sentCommands = new SentCommands(controllerId, journal);
         if (busClock != null) {
             intake.onClockTick(busClock::onTick);
         }
@@ -130,6 +134,15 @@ public final class ControllerAgent implements Agent {
      */
     public ControllerAgent signCommandsWith(CommandSigner commandSigner) {
         this.signer = commandSigner;
+        return this;
+    }
+
+    /**
+     * Signs every status from now on with the controller's status key (keys configured), so units
+     * that hold that key take no unsigned or forged status. Call before {@link #onStart}.
+     */
+    public ControllerAgent signStatusWith(StatusSeal seal) {
+        this.statusSeal = seal;
         return this;
     }
 
@@ -150,8 +163,17 @@ public final class ControllerAgent implements Agent {
 
     /** @return the retained status to register as the bus connection's last will */
     public static OutboundMessage offlineStatus(String siteId, String controllerId, long epoch, long nowMs) {
+        return offlineStatus(siteId, controllerId, epoch, nowMs, null);
+    }
+
+    /** As {@link #offlineStatus(String, String, long, long)}, signed with {@code seal} when given. */
+    public static OutboundMessage offlineStatus(String siteId, String controllerId, long epoch, long nowMs,
+                                                StatusSeal seal) {
         ControllerStatus s = new ControllerStatus(0, Math.max(1, nowMs), controllerId, epoch, ControllerState.OFFLINE,
                 List.of("connectionLost"), 0, List.of());
+        if (seal != null) {
+            s = seal.sign(s, Math.max(1, nowMs));
+        }
         return new OutboundMessage(TopicTree.forSite(siteId).controllerStatus(controllerId),
                 new MessageCodec().encode(s), Qos.AT_LEAST_ONCE, true, 0);
     }
@@ -230,7 +252,12 @@ public final class ControllerAgent implements Agent {
         trackExclusions(o, nowMs);
         if (link) {
             for (PlannedCommand c : o.commands()) {
-                send(c, nowMs);
+                try {
+                    send(c, nowMs);
+                } catch (RuntimeException e) {
+                    // one command that cannot go out must not take the rest of the cycle's with it
+                    publishFailures.add("command to " + c.unitId() + " not sent: " + e);
+                }
             }
             ControllerState state = o.state() == InterlockState.REGULATING ? ControllerState.REGULATING
                     : ControllerState.SUSPENDED;
@@ -307,6 +334,7 @@ public final class ControllerAgent implements Agent {
         OutboundMessage m = new OutboundMessage(topics.unitCommand(c.unitId()), codec.encode(cmd), Qos.AT_LEAST_ONCE,
                 false, expiryS);
         outcomes.sent(seq, c);
+        sentCommands.sent(seq, c.unitId());
         bus.publish(m).whenComplete((v, e) -> {
             if (e != null) {
                 publishFailures.add("command " + seq + " to " + c.unitId() + ": " + e);
@@ -334,8 +362,9 @@ public final class ControllerAgent implements Agent {
 
     private void publishStatus(ControllerState state, List<String> reasons, long cycleNumber, List<AreaAce> aces) {
         long nowMs = Math.max(1, clock.epochMillis());
-        ControllerStatus s = new ControllerStatus(++statusSeq, nowMs, controllerId, epoch, state, reasons,
+        ControllerStatus unsigned = new ControllerStatus(++statusSeq, nowMs, controllerId, epoch, state, reasons,
                 Math.max(0, cycleNumber), aces, excluded.units());
+        ControllerStatus s = statusSeal == null ? unsigned : statusSeal.sign(unsigned, nowMs);
         bus.publish(new OutboundMessage(topics.controllerStatus(controllerId), codec.encode(s), Qos.AT_LEAST_ONCE,
                 true, 0)).whenComplete((v, e) -> {
                     if (e != null) {
@@ -365,16 +394,22 @@ public final class ControllerAgent implements Agent {
 
     @Override
     public void onClose() {
-        drainEvents();
+        // OFF goes out first: stopping on an error (a journal that cannot be written) must not leave a
+        // retained "regulating" for the units to find out about only by their watchdog
         if (linkUp && bus.isConnected()) {
             publishStatus(ControllerState.OFF, List.of("stopped"), lastOutcome == null ? 0 : lastOutcome.cycleNumber(),
                     List.of());
         }
-        if (journal != null && !journal.isClosed()) {
-            journal.append(clock.epochMillis(), JournalFormat.KIND_EVENT, Map.of("event", "summary",
-                    "cycles", cyclesRun, "commandsSent", commandsSent, "rejected", intake.rejectedByReason(),
-                    "acks", intake.acksByOutcome(), "cyclesMissed", scheduler == null ? 0 : scheduler.cyclesMissed()));
-            journal.close(clock.epochMillis(), EndReason.STOPPED);
+        try {
+            drainEvents();
+            if (journal != null && !journal.isClosed()) {
+                journal.append(clock.epochMillis(), JournalFormat.KIND_EVENT, Map.of("event", "summary",
+                        "cycles", cyclesRun, "commandsSent", commandsSent, "rejected", intake.rejectedByReason(),
+                        "acks", intake.acksByOutcome(), "cyclesMissed", scheduler == null ? 0 : scheduler.cyclesMissed()));
+                journal.close(clock.epochMillis(), EndReason.STOPPED);
+            }
+        } catch (RuntimeException e) {
+            LOG.error("controller journal could not be closed: {}", e.toString());
         }
         if (histograms != null) {
             histograms.close();
@@ -399,6 +434,9 @@ public final class ControllerAgent implements Agent {
 
         @Override
         public void onAck(CommandAck ack, long receivedAtMs) {
+            if (!sentCommands.match(ack, receivedAtMs)) {
+                return; // an ack for a command this controller never sent changes nothing here
+            }
             outcomes.onAck(ack);
             if (journal != null) {
                 Map<String, Object> f = new LinkedHashMap<>();
@@ -424,6 +462,11 @@ public final class ControllerAgent implements Agent {
     }
 
     // ---- for tests and the CLI
+
+    /** @return acks that answered a command this controller sent */
+    public long acksMatched() { return sentCommands.matchedCount(); }
+    /** @return acks that answered no command this controller sent (counted apart, never as received) */
+    public long acksUnknown() { return sentCommands.unknownCount(); }
 
     public CycleOutcome lastOutcome() { return lastOutcome; }
     public IntakeRouter intake() { return intake; }

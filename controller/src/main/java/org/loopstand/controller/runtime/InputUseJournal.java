@@ -130,7 +130,18 @@ final class InputUseJournal {
         return out;
     }
 
+    /**
+     * {@code received} counts every message of the kind that reached the intake (repeats, out-of-order
+     * and forged ones included); {@code taken} only those of the tracked sources taken in sequence,
+     * the same population as {@code seqMissing}, so loss = missing / (taken + missing) per kind.
+     * Seq jumps are counted apart ({@code seqJumps}, of which {@code seqJumpsRevoked} were one bad
+     * message), never as missing messages.
+     */
     private static Map<String, Object> kind(long received, long rejected, List<SeqTracker> seqs) {
+        long taken = 0;
+        long jumps = 0;
+        long revoked = 0;
+        long restarts = 0;
         long gaps = 0;
         long missing = 0;
         long duplicates = 0;
@@ -140,14 +151,22 @@ final class InputUseJournal {
             missing += s.missingCount();
             duplicates += s.duplicateCount();
             outOfOrder += s.outOfOrderCount();
+            taken += s.takenCount();
+            jumps += s.jumpCount();
+            revoked += s.revokedJumpCount();
+            restarts += s.restartCount();
         }
         Map<String, Object> m = new LinkedHashMap<>();
         m.put("received", received);
+        m.put("taken", taken);
         m.put("rejected", rejected);
         m.put("seqGaps", gaps);
         m.put("seqMissing", missing);
         m.put("duplicates", duplicates);
         m.put("outOfOrder", outOfOrder);
+        m.put("seqJumps", jumps);
+        m.put("seqJumpsRevoked", revoked);
+        m.put("seqRestarts", restarts);
         return m;
     }
 

@@ -13,6 +13,7 @@ import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.AreaMeter;
 import org.loopstand.protocol.message.ControlMode;
 import org.loopstand.protocol.message.Quality;
+import org.loopstand.protocol.message.Schedule;
 import org.loopstand.protocol.message.QualityFlag;
 import org.loopstand.protocol.message.TieFlow;
 import org.loopstand.protocol.message.UnitStatus;
@@ -123,13 +124,49 @@ class IntakeRouterTest {
     }
 
     @Test
+    void shouldKeepUsingAMetersRealScansAfterOneReadingWithAHugeSeqJump() {
+        IntakeRouter r = router("frequency: {policy: declareUnusable}");
+        meter(r, "a1", "m1", 1, T0, 50.00, Quality.GOOD, 0, T0);
+        meter(r, "a1", "m1", 1 + 1_000_000_000L, T0 + 500, 50.00, Quality.GOOD, 0, T0 + 500);
+        for (int i = 2; i <= 20; i++) {
+            meter(r, "a1", "m1", i, T0 + i * 1000L, 50.01, Quality.GOOD, 0, T0 + i * 1000L);
+        }
+        ValidatedValue v = r.areaInputs("a1", T0 + 20_000).frequencyHz();
+        assertThat(v.usable()).isTrue();
+        assertThat(v.value()).isEqualTo(50.01);
+        SeqTracker seq = r.frequencyInput("a1").primary().seqTracker();
+        assertThat(seq.outOfOrderCount()).isZero();
+        assertThat(seq.missingCount()).isZero();
+        assertThat(seq.revokedJumpCount()).isEqualTo(1);
+    }
+
+    @Test
+    void shouldLetANewerScheduleReplaceAnOldRetainedOneWithALaterEffectiveFrom() {
+        IntakeRouter r = router("clockSkewLimitMs: 2000");
+        // left retained by an earlier run: 300 MW from T0 + 60 s
+        r.route(topics.areaSchedule("a1"), codec.encode(new Schedule(7, T0 - 3_600_000, "a1", 300, 50, T0 + 60_000)), T0);
+        // this run's schedule, received after it: 100 MW from now
+        r.route(topics.areaSchedule("a1"), codec.encode(new Schedule(1, T0, "a1", 100, 50, T0)), T0 + 10);
+        assertThat(r.schedule("a1", T0 + 1_000).netInterchangeScheduledMw()).isEqualTo(100);
+        assertThat(r.schedule("a1", T0 + 120_000).netInterchangeScheduledMw()).isEqualTo(100);
+    }
+
+    @Test
+    void shouldKeySkewEventsByAreaAndMeterSoTwoAreasMainMetersStayApart() {
+        IntakeRouter r = router("clockSkewLimitMs: 2000");
+        meter(r, "a1", "main", 1, T0 + 5_000, 50.0, Quality.GOOD, 0, T0);
+        meter(r, "a2", "main", 1, T0 + 6_000, 50.0, Quality.GOOD, 0, T0);
+        assertThat(skews).containsExactly("meter:a1/main=5000", "meter:a2/main=6000");
+    }
+
+    @Test
     void shouldDetectAndReportClockSkewOfASourceAhead() {
         IntakeRouter r = router("clockSkewLimitMs: 2000\nfrequency: {policy: declareUnusable}");
         meter(r, "a1", "m1", 1, T0 + 5_000, 50.0, Quality.GOOD, 0, T0);
         ValidatedValue v = r.areaInputs("a1", T0).frequencyHz();
         assertThat(v.usable()).isFalse();
         assertThat(v.reasons()).contains(ValidationReason.CLOCK_SKEW_AHEAD);
-        assertThat(skews).containsExactly("meter:m1=5000");
+        assertThat(skews).containsExactly("meter:a1/m1=5000");
         assertThat(r.frequencyInput("a1").primary().maxClockSkewAheadMs()).isEqualTo(5000);
     }
 

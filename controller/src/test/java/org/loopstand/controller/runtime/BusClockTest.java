@@ -56,4 +56,20 @@ class BusClockTest {
         assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 3_000);
         assertThat(clock.rate()).isZero();
     }
+
+    @Test
+    void shouldFollowARestartedPlantsClockBackWhileMonotonicTimeRunsOn() {
+        clock.onTick(tick(1, SCENARIO_MS, 10, true));
+        wall.advanceMillis(60_000); // 600 s of scenario time at rate 10
+        long monotonicBefore = clock.monotonicNanos();
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 600_000);
+        // the plant restarted: its scenario clock starts again from its new start
+        clock.onTick(tick(1, SCENARIO_MS + 30_000, 10, true));
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 30_000);
+        assertThat(clock.monotonicNanos()).isGreaterThanOrEqualTo(monotonicBefore);
+        assertThat(clock.monotonicNanos() % 1_000_000_000L).isEqualTo(monotonicBefore % 1_000_000_000L);
+        wall.advanceMillis(100);
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 31_000);
+        assertThat(clock.restartsFollowed()).isEqualTo(1);
+    }
 }

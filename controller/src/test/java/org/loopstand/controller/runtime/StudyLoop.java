@@ -66,6 +66,12 @@ final class StudyLoop {
 
     /** @param journal the controller's journal (owned and closed by the agent), or null */
     StudyLoop(GridSimulator sim, ControllerSiteConfig config, List<ScenarioEvent> events, JournalWriter journal) {
+        this(sim, config, events, journal, bus -> bus);
+    }
+
+    /** @param controllerBus wraps the controller's connection (to make it fail in a test) */
+    StudyLoop(GridSimulator sim, ControllerSiteConfig config, List<ScenarioEvent> events, JournalWriter journal,
+              java.util.function.UnaryOperator<org.loopstand.protocol.bus.MessageBus> controllerBus) {
         this.sim = sim;
         this.topics = TopicTree.forSite(sim.grid().siteId());
         broker.connect("recorder").subscribe(topics.filterEverything(), Qos.AT_LEAST_ONCE, m -> {
@@ -95,8 +101,8 @@ final class StudyLoop {
         this.operator = broker.connect(OPERATOR);
         this.controllerLink = broker.connect("controller", ControllerAgent.offlineStatus(sim.grid().siteId(),
                 "controller-1", START_MS, START_MS));
-        this.agent = new ControllerAgent(config, controllerLink, clock, null, "controller-1", START_MS,
-                journal, null);
+        this.agent = new ControllerAgent(config, controllerBus.apply(controllerLink), clock, null, "controller-1",
+                START_MS, journal, null);
         agent.onStart();
     }
 

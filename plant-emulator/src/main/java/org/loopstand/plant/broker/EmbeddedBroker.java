@@ -15,6 +15,7 @@ import java.util.concurrent.ExecutionException;
 import java.util.concurrent.TimeUnit;
 import java.util.concurrent.TimeoutException;
 import java.util.stream.Stream;
+import org.loopstand.protocol.bus.mqtt.PacketLimits;
 import org.loopstand.protocol.time.SystemTime;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
@@ -204,6 +205,9 @@ public final class EmbeddedBroker implements AutoCloseable {
                         </tcp-listener>
                     </listeners>
                     <mqtt>
+                        <packets>
+                            <max-packet-size>%d</max-packet-size>
+                        </packets>
                         <queued-messages>
                             <max-queue-size>%d</max-queue-size>
                             <strategy>discard</strategy>
@@ -219,6 +223,6 @@ public final class EmbeddedBroker implements AutoCloseable {
                         <enabled>false</enabled>
                     </anonymous-usage-statistics>
                 </hivemq>
-                """.formatted(port, bindAddress, MAX_QUEUE_SIZE, SERVER_RECEIVE_MAXIMUM);
+                """.formatted(port, bindAddress, PacketLimits.MAX_PACKET_BYTES, MAX_QUEUE_SIZE, SERVER_RECEIVE_MAXIMUM);
     }
 }

@@ -187,6 +187,20 @@ public final class RunRecord implements FaultObserver, org.loopstand.plant.fault
         }
     }
 
+    /**
+     * @return commands the units took (accepted), per sending controller id, in id order: in an
+     *         insecure run, any id besides the rehearsed controller's is a third party's
+     */
+    public synchronized java.util.SortedMap<String, Long> acceptedByController() {
+        java.util.SortedMap<String, Long> out = new java.util.TreeMap<>();
+        for (CommandRecord c : commands) {
+            if (c.outcome() == AckOutcome.ACCEPTED && c.command() != null) {
+                out.merge(c.command().controllerId(), 1L, Long::sum);
+            }
+        }
+        return out;
+    }
+
     /** Marks the end of the run, s. */
     public void end(double tS) {
         endS = Math.max(endS, tS);

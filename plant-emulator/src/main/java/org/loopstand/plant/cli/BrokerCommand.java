@@ -4,6 +4,7 @@ import java.time.Duration;
 import java.util.concurrent.Callable;
 import java.util.concurrent.CountDownLatch;
 import org.loopstand.plant.broker.EmbeddedBroker;
+import org.loopstand.protocol.security.AuthPolicy;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
 
@@ -14,11 +15,18 @@ public final class BrokerCommand implements Callable<Integer> {
     @Option(names = "--port", defaultValue = "1884", description = "TCP port, 0 = any free port (default ${DEFAULT-VALUE})")
     int port;
 
-    @Option(names = "--bind", defaultValue = "127.0.0.1", description = "address to listen on (default ${DEFAULT-VALUE})")
+    @Option(names = "--bind", defaultValue = "127.0.0.1", description = "loopback address to listen on (default ${DEFAULT-VALUE}); any other is refused: no auth")
     String bindAddress;
 
     @Override
     public Integer call() throws InterruptedException {
+        if (!AuthPolicy.isLoopback(bindAddress)) {
+            // this command starts the broker without authentication or TLS: never on a network
+            System.err.println("broker: refusing --bind " + bindAddress + ": this broker runs without authentication"
+                    + " or TLS, so it listens on loopback only (127.0.0.1, ::1); for a networked broker use"
+                    + " 'plant --credentials-file' or Mosquitto with config/broker/mosquitto-secure.conf");
+            return 2;
+        }
         CountDownLatch stopped = new CountDownLatch(1);
         EmbeddedBroker broker = new EmbeddedBroker(bindAddress, port);
         try {

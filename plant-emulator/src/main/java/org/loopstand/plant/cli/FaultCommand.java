@@ -21,9 +21,12 @@ import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.FaultAction;
 import org.loopstand.protocol.message.FaultOrder;
 import org.loopstand.protocol.message.Ids;
+import org.loopstand.protocol.security.AuthOptions;
+import org.loopstand.protocol.security.LinkSecurity;
 import org.loopstand.protocol.time.WallClock;
 import org.loopstand.protocol.topic.TopicTree;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.ParentCommand;
 
@@ -40,6 +43,14 @@ public final class FaultCommand implements Runnable {
 
     @Option(names = "--site", defaultValue = "demo-site", description = "site id (default ${DEFAULT-VALUE})")
     String site;
+
+    /** The same auth options as every other process; under broker auth log in as {@code --username fault-tool}. */
+    @Mixin
+    AuthOptions auth = new AuthOptions();
+
+    static final String CAUTION = "CAUTION: a fault order changes what a running rig does to its units and their"
+            + " commands; send it only to an emulated plant on a test broker, never towards a live plant, and follow"
+            + " the site's procedures.";
 
     @Override
     public void run() {
@@ -156,9 +167,13 @@ public final class FaultCommand implements Runnable {
     }
 
     void publish(FaultOrder order) throws Exception {
+        System.out.println(CAUTION);
+        LinkSecurity security = auth.resolve(broker, System.getenv()); // refuses a non-loopback broker without auth
+        System.err.println(security.startMessage());
         TopicTree topics = TopicTree.forSite(site);
         byte[] payload = new MessageCodec().encode(order);
-        MqttLinkConfig config = MqttLinkConfig.builder().serverUri(broker).clientId("fault-cli-" + order.seq()).build();
+        MqttLinkConfig config = security.applyTo(MqttLinkConfig.builder().serverUri(broker)
+                .clientId("fault-cli-" + order.seq()), null).build();
         MqttLink link = new MqttLink(config, WallClock.INSTANCE);
         try {
             link.start();

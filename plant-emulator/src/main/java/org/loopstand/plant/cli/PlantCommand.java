@@ -217,8 +217,11 @@ public final class PlantCommand implements Callable<Integer> {
                 closeQuietly(embedded);
                 return 2;
             }
-            runJournal = PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), PlantJournalHeader.of(grid, site, scenarioFile, scenario, events, rate, seed,
-                    uri, embedded != null, options, sim, meterScanMs), clock, WallClock.INSTANCE);
+            Map<String, Object> header = PlantJournalHeader.of(grid, site, scenarioFile, scenario, events, rate, seed,
+                    uri, embedded != null, options, sim, meterScanMs);
+            header.put("security", security.insecure() ? "insecure" : "secured"); // the report marks insecure runs
+            header.put("acceptedControllers", new java.util.TreeSet<>(options.interfaces().acceptedControllers()));
+            runJournal = PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), header, clock, WallClock.INSTANCE);
             runner.journalTo(runJournal, truthIntervalS);
         }
         RunRecord record = new RunRecord(runner.agent().epochMsAt(0));
@@ -343,6 +346,10 @@ public final class PlantCommand implements Callable<Integer> {
                 runner.sim().timeS(), runner.lateness().histogramUs().getValueAtPercentile(99),
                 runner.lateness().histogramUs().getMaxValue(),
                 journalDir == null ? "" : "; journal " + journalDir.resolve("plant.jsonl")));
+        if (security.insecure()) {
+            say("plant: INSECURE run (no broker auth, commands unsigned): commands taken per controller "
+                    + record.acceptedByController() + "; any id besides the rehearsed controller's is a third party");
+        }
         if (embedded != null && lingerS > 0) {
             stopped.await(Math.round(lingerS * 1000), TimeUnit.MILLISECONDS);
         }

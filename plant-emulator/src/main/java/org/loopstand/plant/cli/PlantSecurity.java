@@ -14,6 +14,7 @@ import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.security.CommandVerifier;
 import org.loopstand.protocol.security.LinkSecurity;
 import org.loopstand.protocol.security.ReplayGuard;
+import org.loopstand.protocol.security.StatusSeal;
 import org.loopstand.protocol.security.SecurityEventSink;
 import org.loopstand.protocol.security.SecuritySetupException;
 import org.loopstand.protocol.security.broker.BrokerAccessModel;
@@ -35,7 +36,8 @@ public final class PlantSecurity {
     }
 
     /**
-     * Makes every interface require signed commands, when the security in force signs commands.
+     * Makes every interface require signed commands, when the security in force signs commands, and
+     * signed statuses from every controller the keys file holds a status key for.
      *
      * @param clock the interfaces' clock (expiry and key validity are judged on it)
      * @return the verifier set, or null in insecure mode (nothing set)
@@ -48,6 +50,8 @@ public final class PlantSecurity {
         CommandVerifier v = new CommandVerifier(security.keys().orElseThrow(), new ReplayGuard(), clock,
                 new MessageCodec(), LOG_SINK);
         units.forEach(u -> u.verifyCommandsWith(v));
+        StatusSeal seal = new StatusSeal(security.keys().orElseThrow(), new MessageCodec());
+        units.forEach(u -> u.verifyStatusWith(seal));
         return v;
     }
 

@@ -263,6 +263,9 @@ public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.p
         Map<String, Object> f = new LinkedHashMap<>();
         f.put("event", e.kind());
         f.put("unit", e.unit());
+        if (e.code() != null) {
+            f.put("reason", e.code());
+        }
         f.put("detail", e.detail());
         journal.append(e.epochMs(), JournalFormat.KIND_EVENT, f);
     }

@@ -137,7 +137,11 @@ public final class PlantRunner implements AutoCloseable {
     static void subscribeStatus(MessageBus bus, List<UnitLink> groupLinks) {
         // the filter is built from the kind, never by hand
         String filter = TopicTree.forSite(siteOf(groupLinks)).filterAll(TopicKind.CONTROLLER_STATUS);
-        bus.subscribe(filter, Qos.AT_LEAST_ONCE, m -> groupLinks.forEach(l -> l.offerStatus(m.payload())));
+        bus.subscribe(filter, Qos.AT_LEAST_ONCE, m -> {
+            String topicId = TopicTree.parse(m.topic()).filter(t -> t.kind() == TopicKind.CONTROLLER_STATUS)
+                    .map(t -> t.id("controller")).orElse(null);
+            groupLinks.forEach(l -> l.offerStatus(topicId, m.payload()));
+        });
     }
 
     private static String siteOf(List<UnitLink> links) {

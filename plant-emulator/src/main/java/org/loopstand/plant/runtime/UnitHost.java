@@ -83,10 +83,11 @@ public final class UnitHost {
     public int work() {
         int work = 0;
         link.announceIfDue();
-        for (byte[] s; (s = link.pollStatus()) != null; work++) {
-            Decoded<ControllerStatus> d = statusDecoding != null ? statusDecoding.decode(s)
-                    : codec.decode(s, ControllerStatus.class);
-            d.message().ifPresent(unit::onControllerStatus);
+        for (UnitLink.StatusArrival s; (s = link.pollStatus()) != null; work++) {
+            Decoded<ControllerStatus> d = statusDecoding != null ? statusDecoding.decode(s.payload())
+                    : codec.decode(s.payload(), ControllerStatus.class);
+            String topicId = s.topicControllerId() == null ? "?" : s.topicControllerId();
+            d.message().ifPresent(status -> unit.onControllerStatus(status, topicId));
         }
         UnitLink.Received r;
         for (int i = 0; i < MAX_COMMANDS_PER_CYCLE && (r = link.pollCommand()) != null; i++, work++) {

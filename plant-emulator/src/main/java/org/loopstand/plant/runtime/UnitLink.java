@@ -36,7 +36,7 @@ public final class UnitLink implements UnitOutput {
     private final Clock clock;
     private final Qos telemetryQos;
     private final ArrayBlockingQueue<Received> commands;
-    private final ArrayBlockingQueue<byte[]> statuses = new ArrayBlockingQueue<>(64);
+    private final ArrayBlockingQueue<StatusArrival> statuses = new ArrayBlockingQueue<>(64);
     private final AtomicLong linkSeq;
     private final LongAdder overflow = new LongAdder();
     private final LongAdder dropped = new LongAdder();
@@ -83,9 +83,16 @@ public final class UnitLink implements UnitOutput {
         return true;
     }
 
-    /** Bus thread: queues a controller status payload. */
-    public void offerStatus(byte[] payload) {
-        if (!failed && !statuses.offer(payload)) {
+    /**
+     * A controller status payload with the controller id of the topic it arrived on (null when the
+     * topic is not a status topic of this tree).
+     */
+    public record StatusArrival(String topicControllerId, byte[] payload) {
+    }
+
+    /** Bus thread: queues a controller status payload that arrived on {@code topicControllerId}'s topic. */
+    public void offerStatus(String topicControllerId, byte[] payload) {
+        if (!failed && !statuses.offer(new StatusArrival(topicControllerId, payload))) {
             overflow.increment();
         }
     }
@@ -95,8 +102,8 @@ public final class UnitLink implements UnitOutput {
         return commands.poll();
     }
 
-    /** Owner thread: @return next queued status payload or null */
-    public byte[] pollStatus() {
+    /** Owner thread: @return next queued status or null */
+    public StatusArrival pollStatus() {
         return statuses.poll();
     }
 

@@ -1,5 +1,7 @@
 package org.loopstand.plant.unit;
 
+import org.loopstand.protocol.message.UnitCommand;
+
 /**
  * What a unit plant interface did with one command, for the run journal.
  *
@@ -23,4 +25,16 @@ public record CommandFate(String unit, long commandSeq, String controllerId, Str
                           long durationMs, Double setpointMw, long validUntil, String outcome, String reason,
                           String detail, double loadReferenceBeforeMw, double loadReferenceAfterMw, long issuedAt,
                           long epoch) {
+
+    /** @return the fate of command {@code c} (null for a payload that did not decode) */
+    static CommandFate of(String unit, UnitCommand c, long commandSeq, String controllerId, String outcome,
+                          String reason, String detail, double beforeMw, double afterMw) {
+        if (c == null) {
+            return new CommandFate(unit, commandSeq, controllerId, null, null, 0, null, 0, outcome, reason,
+                    detail, beforeMw, afterMw, 0, -1);
+        }
+        return new CommandFate(unit, commandSeq, controllerId, c.kind() == null ? null : c.kind().wireName(),
+                c.direction() == null ? null : c.direction().wireName(), c.durationMs(), c.setpointMw(), c.validUntil(),
+                outcome, reason, detail, beforeMw, afterMw, c.issuedAt(), c.epoch());
+    }
 }

@@ -8,38 +8,52 @@ import org.loopstand.protocol.message.ControlMode;
 import org.loopstand.protocol.message.RefusalReason;
 import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.message.UnitStatus;
+import org.loopstand.protocol.security.CommandTimeRules;
+import org.loopstand.protocol.security.VerificationResult;
 
 /**
  * The refusal rules a unit applies to a decoded command before it may touch the load reference, in
- * this order: wrong unit (malformed), controller not accepted, old epoch, duplicate or out-of-order
- * seq, past validUntil, unit not online, not in remote, kind-specific checks (pulse direction and
- * length, setpoint value, setpoints not taken). The regulating-limit check needs the motion and is done
- * by {@link UnitPlantInterface}.
+ * this order: wrong unit (malformed), controller not accepted, epoch beyond its bound, standby
+ * controller or old epoch ({@link ControllerTenure}), duplicate or out-of-order seq, lifetime bound
+ * and issue time ({@link CommandTimeRules}), past validUntil, unit not online, not in remote,
+ * kind-specific checks (pulse direction and length, setpoint value, setpoints not taken). The
+ * regulating-limit check needs the motion and is done by {@link UnitPlantInterface}.
  *
- * <p>Epochs: the gate keeps the highest epoch seen (from accepted commands and from the controller's
- * status); a command with a lower epoch is refused. A higher epoch starts a new seq history. Seqs are
- * kept per controller id: once a command has passed the seq check its seq is used up, whether or not
- * a later rule refuses it, so a replay is always a duplicate.
+ * <p>Epochs: only a command that passed every message check (up to expiry) adopts its epoch (a new
+ * epoch starts that controller's seq history afresh); a refused one (expired, too long a lifetime,
+ * an epoch from the future) leaves the epoch and the seq history as they were, so it cannot fence
+ * the unit. Seqs are kept per controller id: within the current epoch, once a command has passed
+ * the seq check its seq is used up, whether or not a later rule refuses it, so a replay is always
+ * a duplicate; a refused command more than {@value #MAX_SEQ_STEP} ahead of the last seq, or the
+ * first of a history, does not move it.
  */
 public final class CommandGate {
+    /**
+     * Largest seq step a command refused later (expired, lifetime, issue time) may still use up; a
+     * refused command further ahead leaves the seq history alone, so one stale message with seq + 10^9
+     * cannot make every later real command "out of order".
+     */
+    static final long MAX_SEQ_STEP = 1_000;
+
     private final UnitSettings settings;
+    private final ControllerTenure tenure;
     private final Map<String, Long> lastSeqByController = new HashMap<>();
-    private long highestEpoch = -1;
 
     public CommandGate(UnitSettings settings) {
         this.settings = settings;
+        this.tenure = new ControllerTenure(settings.watchdogS());
     }
 
-    /** Takes note of a controller's epoch from its status. */
-    public void observeEpoch(String controllerId, long epoch) {
-        if (settings.acceptedControllers().contains(controllerId)) {
-            raiseEpoch(epoch);
+    /** The holder of this unit and each controller's epoch (shared with the status handling). */
+    ControllerTenure tenure() {
+        return tenure;
+    }
+
+    /** Adopts a checked status's epoch; a new epoch starts that controller's seq history afresh. */
+    void adoptStatusEpoch(String controllerId, long epoch, long nowNanos) {
+        if (tenure.adopt(controllerId, epoch, nowNanos)) {
+            lastSeqByController.remove(controllerId);
         }
-    }
-
-    /** @return highest controller epoch seen, −1 before any */
-    public long highestEpoch() {
-        return highestEpoch;
     }
 
     /**
@@ -50,11 +64,19 @@ public final class CommandGate {
         return check(c, nowEpochMs, mode, status, false);
     }
 
+    /** As {@link #check(UnitCommand, long, ControlMode, UnitStatus, boolean, long)} at monotonic time 0. */
+    public Refusal check(UnitCommand c, long nowEpochMs, ControlMode mode, UnitStatus status, boolean acceptExpired) {
+        return check(c, nowEpochMs, mode, status, acceptExpired, 0L);
+    }
+
     /**
      * As {@link #check(UnitCommand, long, ControlMode, UnitStatus)}; with {@code acceptExpired} (a plant
      * fault) a command past validUntil is let through.
+     *
+     * @param nowNanos unit's monotonic clock, ns (the tenure's watchdog period)
      */
-    public Refusal check(UnitCommand c, long nowEpochMs, ControlMode mode, UnitStatus status, boolean acceptExpired) {
+    public Refusal check(UnitCommand c, long nowEpochMs, ControlMode mode, UnitStatus status, boolean acceptExpired,
+                         long nowNanos) {
         if (!c.unit().equals(settings.unitId())) {
             return new Refusal(RefusalReason.MALFORMED, "command is for unit " + c.unit() + ", this is " + settings.unitId());
         }
@@ -62,22 +84,33 @@ public final class CommandGate {
             return new Refusal(RefusalReason.WRONG_CONTROLLER, "controller " + c.controllerId()
                     + " is not accepted (accepted: " + settings.acceptedControllers() + ")");
         }
-        if (c.epoch() < highestEpoch) {
-            return new Refusal(RefusalReason.WRONG_EPOCH, "epoch " + c.epoch() + " is older than " + highestEpoch);
+        Refusal held = tenure.check(c.controllerId(), c.epoch(), nowEpochMs, nowNanos);
+        if (held != null) {
+            return held;
         }
-        raiseEpoch(c.epoch());
-        Long last = lastSeqByController.get(c.controllerId());
+        boolean sameEpoch = c.epoch() == tenure.storedEpochOf(c.controllerId());
+        Long last = sameEpoch ? lastSeqByController.get(c.controllerId()) : null;
         if (last != null && c.seq() == last) {
             return new Refusal(RefusalReason.DUPLICATE, "seq " + c.seq() + " was already received");
         }
         if (last != null && c.seq() < last) {
             return new Refusal(RefusalReason.OUT_OF_ORDER, "seq " + c.seq() + " is older than the last seq " + last);
         }
-        lastSeqByController.put(c.controllerId(), c.seq());
+        if (sameEpoch && last != null && c.seq() - last <= MAX_SEQ_STEP) {
+            lastSeqByController.put(c.controllerId(), c.seq()); // used up: a replay is a duplicate
+        }
+        VerificationResult timing = CommandTimeRules.check(c, nowEpochMs);
+        if (timing != null) {
+            return new Refusal(timing.reason(), timing.detail());
+        }
         if (nowEpochMs > c.validUntil() && !acceptExpired) {
             return new Refusal(RefusalReason.EXPIRED, "validUntil " + c.validUntil() + " passed "
                     + (nowEpochMs - c.validUntil()) + " ms ago");
         }
+        if (tenure.adopt(c.controllerId(), c.epoch(), nowNanos)) {
+            lastSeqByController.remove(c.controllerId());
+        }
+        lastSeqByController.put(c.controllerId(), c.seq()); // a command that passed every message check
         if (status != UnitStatus.ONLINE) {
             return new Refusal(RefusalReason.UNIT_OFFLINE, "unit is " + status.wireName());
         }
@@ -107,10 +140,4 @@ public final class CommandGate {
         return null;
     }
 
-    private void raiseEpoch(long epoch) {
-        if (epoch > highestEpoch) {
-            highestEpoch = epoch;
-            lastSeqByController.clear();
-        }
-    }
 }

@@ -23,8 +23,14 @@ public final class PlantJournal {
      * @param reason     refusal reason, or null for other kinds
      * @param commandSeq seq of the command concerned, −1 when none
      * @param detail     sentence for people
+     * @param code       reason code of a decision that is not a command refusal (a refused or
+     *                   fenced controller status: {@code wrongTopic}, {@code standby}, ...), else null
      */
-    public record Entry(long epochMs, String unit, String kind, RefusalReason reason, long commandSeq, String detail) {
+    public record Entry(long epochMs, String unit, String kind, RefusalReason reason, long commandSeq, String detail,
+                        String code) {
+        public Entry(long epochMs, String unit, String kind, RefusalReason reason, long commandSeq, String detail) {
+            this(epochMs, unit, kind, reason, commandSeq, detail, null);
+        }
     }
 
     /** Where entries go besides memory and the log (the run journal); called under this journal's lock. */
@@ -66,6 +72,11 @@ public final class PlantJournal {
         add(new Entry(epochMs, unit, kind, null, -1, detail));
     }
 
+    /** A decision with a reason code that is not a command refusal (kind e.g. "statusRefused"). */
+    public void decision(long epochMs, String unit, String kind, String code, String detail) {
+        add(new Entry(epochMs, unit, kind, null, -1, detail, code));
+    }
+
     private synchronized void add(Entry e) {
         if (entries.size() == KEPT) {
             entries.remove(0);
@@ -78,7 +89,8 @@ public final class PlantJournal {
             tap.entry(e);
         }
         LOG.info("{} {} {}{} seq={} {}", e.epochMs(), e.unit(), e.kind(),
-                e.reason() == null ? "" : " " + e.reason().wireName(), e.commandSeq(), e.detail());
+                e.reason() != null ? " " + e.reason().wireName() : e.code() != null ? " " + e.code() : "",
+                e.commandSeq(), e.detail());
     }
 
     /** @return a copy of the kept entries, oldest first */

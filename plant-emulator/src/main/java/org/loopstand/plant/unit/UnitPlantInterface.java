@@ -22,6 +22,7 @@ import org.loopstand.protocol.message.UnitStatus;
 import org.loopstand.protocol.message.UnitTelemetry;
 import org.loopstand.protocol.message.Validity;
 import org.loopstand.protocol.security.CommandVerifier;
+import org.loopstand.protocol.security.StatusSeal;
 import org.loopstand.protocol.security.VerificationResult;
 import org.loopstand.protocol.time.Clock;
 
@@ -49,7 +50,9 @@ public final class UnitPlantInterface {
     private final long telemetryPeriodNanos;
     private LoadReferenceMotion motion;
     private ControlMode mode = ControlMode.REMOTE;
+    /** telemetry and acks each count their own seq, so the controller can reckon loss per kind */
     private long seq;
+    private long ackSeq;
     private long lastAcceptedSeq;
     private long lastTickNanos;
     private long nextTelemetryNanos;
@@ -61,10 +64,12 @@ public final class UnitPlantInterface {
     private CommandOutcomeListener outcomes = CommandOutcomeListener.NONE;
     private boolean localByFault;
     private CommandVerifier verifier;
+    private final StatusCheck statusCheck;
 
     /**
-     * @param seqStart first seq this interface publishes with (use the start time in epoch ms so a
-     *                 restarted interface keeps counting upward)
+     * @param seqStart first seq of each message kind this interface publishes (telemetry and acks
+     *                 count separately; use the start time in epoch ms so a restarted interface keeps
+     *                 counting upward)
      */
     public UnitPlantInterface(UnitSettings settings, UnitField field, Clock clock, UnitOutput output,
                               PlantJournal journal, long seqStart) {
@@ -74,8 +79,10 @@ public final class UnitPlantInterface {
         this.output = output;
         this.journal = journal;
         this.gate = new CommandGate(settings);
+        this.statusCheck = new StatusCheck(settings, gate.tenure(), journal);
         this.telemetryPeriodNanos = settings.telemetryScanMs() * 1_000_000L;
         this.seq = seqStart;
+        this.ackSeq = seqStart;
         long now = clock.monotonicNanos();
         this.lastTickNanos = now;
         this.nextTelemetryNanos = now;
@@ -145,7 +152,7 @@ public final class UnitPlantInterface {
             outcomes.handled(nowMs, c, AckOutcome.REJECTED, RefusalReason.UNIT_OFFLINE, false);
             return;
         }
-        Refusal r = gate.check(c, nowMs, mode, field.status(), faults.applyExpiredCommands());
+        Refusal r = gate.check(c, nowMs, mode, field.status(), faults.applyExpiredCommands(), clock.monotonicNanos());
         if (r == null && c.kind() == CommandKind.PULSE && motion.headroomMw(c.direction()) <= 0) {
             r = new Refusal(RefusalReason.AT_LIMIT, "load reference target " + motion.targetMw() + " MW is at the "
                     + (c.direction() == PulseDirection.RAISE ? "upper" : "lower") + " regulating limit");
@@ -180,8 +187,8 @@ public final class UnitPlantInterface {
         lastAcceptedSeq = c.seq();
         accepted++;
         latency.accepted(receivedNanos, field.outputMw(), sign);
-        journal.command(nowMs, fate(c, c.seq(), c.controllerId(), "accepted", null, detail, targetBeforeMw, motion.targetMw()));
-        output.ack(new CommandAck(seq++, nowMs, settings.unitId(), c.seq(), c.controllerId(), AckOutcome.ACCEPTED, null, detail));
+        journal.command(nowMs, CommandFate.of(settings.unitId(), c, c.seq(), c.controllerId(), "accepted", null, detail, targetBeforeMw, motion.targetMw()));
+        output.ack(new CommandAck(ackSeq++, nowMs, settings.unitId(), c.seq(), c.controllerId(), AckOutcome.ACCEPTED, null, detail));
         outcomes.handled(nowMs, c, AckOutcome.ACCEPTED, null, acted);
     }
 
@@ -190,29 +197,50 @@ public final class UnitPlantInterface {
         refuse(null, commandSeq, controllerId, new Refusal(RefusalReason.MALFORMED, detail));
     }
 
-    private CommandFate fate(UnitCommand c, long commandSeq, String controllerId, String outcome, String reason,
-                             String detail, double beforeMw, double afterMw) {
-        if (c == null) {
-            return new CommandFate(settings.unitId(), commandSeq, controllerId, null, null, 0, null, 0, outcome, reason,
-                    detail, beforeMw, afterMw, 0, -1);
-        }
-        return new CommandFate(settings.unitId(), commandSeq, controllerId, c.kind() == null ? null : c.kind().wireName(),
-                c.direction() == null ? null : c.direction().wireName(), c.durationMs(), c.setpointMw(), c.validUntil(),
-                outcome, reason, detail, beforeMw, afterMw, c.issuedAt(), c.epoch());
+    /** As {@link #onControllerStatus(ControllerStatus, String)} for a status that arrived on its own topic. */
+    public void onControllerStatus(ControllerStatus s) {
+        onControllerStatus(s, s.controllerId());
     }
 
-    /** Handles a controller status: heartbeat for the watchdog, epoch for the gate. */
-    public void onControllerStatus(ControllerStatus s) {
-        if (!settings.acceptedControllers().contains(s.controllerId()) || s.epoch() < gate.highestEpoch()) {
+    /**
+     * Handles a controller status: heartbeat for the watchdog, epoch for the gate, once it passed
+     * every check of {@link StatusCheck}; a refused one is counted and journaled with its reason code
+     * ({@code statusRefused}, at most once per code and controller per watchdog period).
+     *
+     * @param topicControllerId controller id of the topic it arrived on
+     */
+    public void onControllerStatus(ControllerStatus s, String topicControllerId) {
+        long nowNanos = clock.monotonicNanos();
+        if (!statusCheck.admit(s, topicControllerId, clock.epochMillis(), nowNanos)) {
             return;
         }
-        gate.observeEpoch(s.controllerId(), s.epoch());
+        gate.adoptStatusEpoch(s.controllerId(), s.epoch(), nowNanos);
         if (s.state() == ControllerState.OFFLINE) {
+            gate.tenure().release(s.controllerId());
             leaveRemote("controller " + s.controllerId() + " reported offline");
             return;
         }
-        lastHeartbeatNanos = clock.monotonicNanos();
+        lastHeartbeatNanos = nowNanos;
         watchdogArmed = true;
+    }
+
+    /**
+     * Requires every controller status to be signed with the controller's status key (keys
+     * configured); without it statuses are taken unsigned (insecure demo).
+     */
+    public UnitPlantInterface verifyStatusWith(StatusSeal seal) {
+        statusCheck.requireSignatures(seal);
+        return this;
+    }
+
+    /** @return controller statuses refused so far (any reason) */
+    public long statusRefusalCount() {
+        return statusCheck.refusals();
+    }
+
+    /** @return the controller this unit follows now, or null (owner thread) */
+    public String activeController() {
+        return gate.tenure().active(clock.monotonicNanos());
     }
 
     /** Operator order: sets the control mode (the only way back to remote after the watchdog). */
@@ -324,8 +352,8 @@ public final class UnitPlantInterface {
         long nowMs = clock.epochMillis();
         journal.refused(nowMs, settings.unitId(), r.reason(), commandSeq, r.detail());
         double targetMw = motion == null ? Double.NaN : motion.targetMw();
-        journal.command(nowMs, fate(c, commandSeq, controllerId, "rejected", r.reason().wireName(), r.detail(), targetMw, targetMw));
-        output.ack(new CommandAck(seq++, nowMs, settings.unitId(), Math.max(0, commandSeq), controllerId,
+        journal.command(nowMs, CommandFate.of(settings.unitId(), c, commandSeq, controllerId, "rejected", r.reason().wireName(), r.detail(), targetMw, targetMw));
+        output.ack(new CommandAck(ackSeq++, nowMs, settings.unitId(), Math.max(0, commandSeq), controllerId,
                 AckOutcome.REJECTED, r.reason(), truncate(r.detail())));
     }
 

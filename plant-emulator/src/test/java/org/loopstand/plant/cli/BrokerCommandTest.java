@@ -30,4 +30,13 @@ class BrokerCommandTest {
             assertThat(rc).isEqualTo(1);
         }
     }
+
+    @Test
+    void shouldRefuseANonLoopbackBindBecauseTheBrokerHasNoAuthentication() {
+        for (String bind : new String[] {"0.0.0.0", "192.168.1.20", "::", "broker.example"}) {
+            CommandLine cli = new CommandLine(new PlantCli());
+            cli.setErr(new PrintWriter(new StringWriter()));
+            assertThat(cli.execute("broker", "--bind", bind, "--port", "0")).as(bind).isEqualTo(2);
+        }
+    }
 }

@@ -46,6 +46,23 @@ class FaultCommandTest {
     }
 
     @Test
+    void shouldRefuseANonLoopbackBrokerWithoutAuthAndPrintTheCaution() {
+        java.io.ByteArrayOutputStream out = new java.io.ByteArrayOutputStream();
+        java.io.PrintStream old = System.out;
+        System.setOut(new java.io.PrintStream(out, true, java.nio.charset.StandardCharsets.UTF_8));
+        int code;
+        try {
+            // TEST-NET-1 (RFC 5737): never routed
+            code = new CommandLine(new PlantCli()).execute("fault", "--broker", "tcp://192.0.2.10:1883", "start", "--type",
+                    "delay", "--target", "basin-steam-1", "--param", "delayMs=100");
+        } finally {
+            System.setOut(old);
+        }
+        assertThat(code).isEqualTo(1);
+        assertThat(out.toString(java.nio.charset.StandardCharsets.UTF_8)).contains(FaultCommand.CAUTION);
+    }
+
+    @Test
     void shouldStartAndStopAFaultInARunningPlantThroughTheBroker() throws Exception {
         String uri = SharedEmbeddedBroker.serverUri();
         String site = "fault-cli-" + Long.toHexString(System.nanoTime());

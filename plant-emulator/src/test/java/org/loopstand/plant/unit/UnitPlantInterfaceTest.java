@@ -139,6 +139,21 @@ class UnitPlantInterfaceTest {
     }
 
     @Test
+    void shouldNumberTelemetryAndAcksEachInTheirOwnSeriesSoAcksLeaveNoTelemetryGap() {
+        UnitPlantInterface u = unit();
+        u.tick();
+        receive(u, pulse(PulseDirection.RAISE, 1_000));
+        receive(u, pulse(PulseDirection.LOWER, 1_000));
+        run(u, 4.0);
+        List<Long> telemetrySeqs = out.telemetry.stream().map(t -> t.seq()).toList();
+        for (int i = 1; i < telemetrySeqs.size(); i++) {
+            assertThat(telemetrySeqs.get(i)).isEqualTo(telemetrySeqs.get(i - 1) + 1);
+        }
+        assertThat(telemetrySeqs).hasSizeGreaterThanOrEqualTo(3);
+        assertThat(out.acks.stream().map(a -> a.seq()).toList()).containsExactly(0L, 1L);
+    }
+
+    @Test
     void shouldRefuseOlderEpochOnceANewerOneWasSeen() {
         UnitPlantInterface u = unit();
         u.onControllerStatus(status(3, ControllerState.REGULATING));

@@ -227,6 +227,12 @@ public final class MessageValidator {
             list("excludedUnits", m.excludedUnits(), MessageValidator::excludedUnit);
             unique("excludedUnits", m.excludedUnits(), ExcludedUnit::unit, "unit");
         }
+        if (m.keyId() != null) {
+            id("keyId", m.keyId());
+        }
+        if (m.signature() != null) {
+            base64("signature", m.signature());
+        }
     }
 
     private static void excludedUnit(String path, ExcludedUnit u) {

@@ -16,9 +16,12 @@ import java.util.Objects;
  * @param areas        ACE of each area (area ids unique)
  * @param excludedUnits units taken out of the allocation and why (unit ids unique); optional, absent
  *                     when none is excluded
+ * @param keyId        id of the controller's status key, optional (set when keys are configured)
+ * @param signature    base64 HMAC over the canonical bytes, optional
  */
 public record ControllerStatus(long seq, long sourceTime, String controllerId, long epoch, ControllerState state,
-        List<String> reasons, long cycle, List<AreaAce> areas, @OptionalField List<ExcludedUnit> excludedUnits) {
+        List<String> reasons, long cycle, List<AreaAce> areas, @OptionalField List<ExcludedUnit> excludedUnits,
+        @OptionalField String keyId, @OptionalField String signature) {
     public ControllerStatus {
         Objects.requireNonNull(controllerId, "controllerId");
         reasons = List.copyOf(reasons);
@@ -26,9 +29,21 @@ public record ControllerStatus(long seq, long sourceTime, String controllerId, l
         excludedUnits = excludedUnits == null || excludedUnits.isEmpty() ? null : List.copyOf(excludedUnits);
     }
 
-    /** A status that excludes no unit. */
+    /** An unsigned status that excludes no unit. */
     public ControllerStatus(long seq, long sourceTime, String controllerId, long epoch, ControllerState state,
                             List<String> reasons, long cycle, List<AreaAce> areas) {
-        this(seq, sourceTime, controllerId, epoch, state, reasons, cycle, areas, null);
+        this(seq, sourceTime, controllerId, epoch, state, reasons, cycle, areas, null, null, null);
+    }
+
+    /** An unsigned status. */
+    public ControllerStatus(long seq, long sourceTime, String controllerId, long epoch, ControllerState state,
+                            List<String> reasons, long cycle, List<AreaAce> areas, List<ExcludedUnit> excludedUnits) {
+        this(seq, sourceTime, controllerId, epoch, state, reasons, cycle, areas, excludedUnits, null, null);
+    }
+
+    /** @return this status with key id and signature set (both may be null to clear them) */
+    public ControllerStatus withSignature(String newKeyId, String newSignature) {
+        return new ControllerStatus(seq, sourceTime, controllerId, epoch, state, reasons, cycle, areas, excludedUnits, newKeyId,
+                newSignature);
     }
 }

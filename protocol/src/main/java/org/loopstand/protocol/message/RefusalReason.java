@@ -17,7 +17,11 @@ public enum RefusalReason {
     BAD_SIGNATURE("badSignature"),
     MISSING_SIGNATURE("missingSignature"),
     UNKNOWN_KEY("unknownKey"),
-    REPLAYED("replayed");
+    REPLAYED("replayed"),
+    /** validUntil − issuedAt not in (0, the stated bound], see {@code CommandTimeRules} */
+    BAD_LIFETIME("badLifetime"),
+    /** issuedAt (or the epoch) further ahead of the unit's clock than the stated allowance */
+    NOT_YET_VALID("notYetValid");
 
     private final String wireName;
 

@@ -94,7 +94,8 @@ public final class AuthPolicy {
     }
 
     /** @return whether the host is a loopback literal or localhost (no DNS lookup) */
-    static boolean isLoopback(String host) {
+    /** @return whether {@code host} is a loopback literal (127.0.0.0/8, ::1) or {@code localhost}; no name is resolved */
+    public static boolean isLoopback(String host) {
         if (host == null || host.isEmpty()) {
             return false;
         }

@@ -4,9 +4,10 @@ import java.security.GeneralSecurityException;
 import javax.crypto.Mac;
 import javax.crypto.spec.SecretKeySpec;
 import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.message.ControllerStatus;
 import org.loopstand.protocol.message.UnitCommand;
 
-/** The HMAC-SHA256 over a command's canonical bytes, shared by signer and verifier. */
+/** The HMAC-SHA256 over a command's or a status's canonical bytes, shared by signers and verifiers. */
 final class CommandMac {
     static final String ALGORITHM = "HmacSHA256";
 
@@ -19,6 +20,11 @@ final class CommandMac {
      */
     static byte[] canonicalBytes(MessageCodec codec, UnitCommand command, String keyId) {
         return codec.encode(command.withSignature(keyId, null));
+    }
+
+    /** The signed bytes of a controller status, built the same way as a command's. */
+    static byte[] canonicalBytes(MessageCodec codec, ControllerStatus status, String keyId) {
+        return codec.encode(status.withSignature(keyId, null));
     }
 
     static byte[] mac(UnitKey key, byte[] data) {

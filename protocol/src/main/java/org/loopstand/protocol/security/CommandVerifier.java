@@ -22,6 +22,8 @@ import org.loopstand.protocol.time.Clock;
  * <li>key id known for the unit and valid now, else {@link RefusalReason#UNKNOWN_KEY};</li>
  * <li>HMAC matches (constant-time compare), else {@link RefusalReason#BAD_SIGNATURE};</li>
  * <li>now ≤ validUntil, else {@link RefusalReason#EXPIRED};</li>
+ * <li>the time rules of {@link CommandTimeRules} (lifetime bound, issuedAt and epoch not ahead of
+ * this clock), else {@link RefusalReason#BAD_LIFETIME} or {@link RefusalReason#NOT_YET_VALID};</li>
  * <li>(epoch, seq) above the last accepted from that controller, else {@link RefusalReason#REPLAYED}.</li>
  * </ol>
  * Authenticity comes before freshness so that an unauthenticated message can never move the replay
@@ -123,6 +125,10 @@ public final class CommandVerifier {
         if (nowMs > command.validUntil()) {
             return VerificationResult.refused(RefusalReason.EXPIRED,
                     "validUntil " + command.validUntil() + " is " + (nowMs - command.validUntil()) + " ms in the past");
+        }
+        VerificationResult timing = CommandTimeRules.check(command, nowMs);
+        if (timing != null) {
+            return timing;
         }
         Optional<String> replay = replayGuard.tryAccept(receivingUnit, command.controllerId(), command.epoch(),
                 command.seq(), command.issuedAt());

@@ -176,6 +176,19 @@ class CommandVerifierTest {
     }
 
     @Test
+    void shouldRefuseASignedCommandWithAYearLongLifetimeOrIssuedAheadOfTheUnitsClock() {
+        UnitCommand yearLong = signer.sign(new UnitCommand(1, T0_MS, "G1", "controller-1", 1, T0_MS,
+                T0_MS + 365L * 86_400_000L, CommandKind.PULSE, PulseDirection.RAISE, 1_000, null, null, null));
+        assertThat(verifier.verify("G1", yearLong).reason()).isEqualTo(RefusalReason.BAD_LIFETIME);
+        long ahead = T0_MS + CommandTimeRules.MAX_ISSUED_AHEAD_MS + 1;
+        UnitCommand future = signer.sign(new UnitCommand(2, ahead, "G1", "controller-1", 1, ahead, ahead + 4_000,
+                CommandKind.PULSE, PulseDirection.RAISE, 1_000, null, null, null));
+        assertThat(verifier.verify("G1", future).reason()).isEqualTo(RefusalReason.NOT_YET_VALID);
+        // neither moved the replay mark: the real seq 1 still goes through
+        assertThat(verifier.verify("G1", signer.sign(raise(1))).accepted()).isTrue();
+    }
+
+    @Test
     void shouldAcceptBothKeysDuringTheRotationOverlapOnly() {
         long overlapStart = T0_MS + 10_000;
         long overlapEnd = T0_MS + 20_000;

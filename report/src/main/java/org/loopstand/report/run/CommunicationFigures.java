@@ -55,7 +55,20 @@ final class CommunicationFigures {
         boolean ctlSide = !ctl.isEmpty();
         if (ctlSide) {
             rates.add(Metric.of("commands sent by the controller", sent.size() / d, 3, "1/s", sent.size() + " commands; controller sent entries"));
-            rates.add(Metric.of("acks received by the controller", acksReceived / d, 3, "1/s", acksReceived + " acks"));
+            rates.add(Metric.of("acks received by the controller", acksReceived / d, 3, "1/s", acksReceived
+                    + " acks answering a command it sent"));
+            long acksUnknown = ctl.stream().filter(e -> e.fields().has("unknownAck")).count();
+            rates.add(Metric.of("acks answering no command the controller sent", acksUnknown, 0, "",
+                    "another controller's, forged or repeated acks; counted apart, never as received"));
+        }
+        Map<String, Long> takenByController = new TreeMap<>();
+        JournalSeries.ofKind(plant, "command").stream().filter(e -> "accepted".equals(e.text("outcome")))
+                .forEach(e -> takenByController.merge(String.valueOf(e.text("controllerId")), 1L, Long::sum));
+        takenByController.forEach((id, n) -> rates.add(Metric.of("commands taken by the units from " + id, n, 0, "",
+                "plant command entries, outcome accepted, by sending controller id")));
+        if (ph != null && "insecure".equals(ph.path("security").asText())) {
+            rates.add(new Metric("security", "INSECURE", "", "no broker auth, commands unsigned (plant journal header):"
+                    + " any controller id above besides the rehearsed one is a third party"));
         }
         rates.add(new Metric("rates per", "scenario second", "", String.format(Locale.ROOT, "run of %.0f s at rate %s", durationS,
                 RunReportBuilder.trim(rate))));
@@ -88,7 +101,7 @@ final class CommunicationFigures {
         out.add(new MetricSection("Loss", MetricSection.Group.COMMUNICATION, loss));
 
         List<String> suspensions = new ArrayList<>();
-        String previous = "regulating";
+        String previous = null; // start-up cycles before the first regulating one are no fall from regulating
         long suspendedCycles = 0;
         for (JournalEntry e : JournalSeries.ofKind(ctl, "decided")) {
             String state = e.text("state");

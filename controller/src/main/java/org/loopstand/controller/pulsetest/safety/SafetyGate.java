@@ -80,6 +80,20 @@ public final class SafetyGate {
      */
     public static Optional<String> admit(String brokerUrl, boolean declaredTestBroker, boolean livePlant,
             String unitId, BufferedReader in, PrintStream out) {
+        return admit(brokerUrl, declaredTestBroker, livePlant, unitId, "This test will move unit " + unitId + ".",
+                "unit", in, out);
+    }
+
+    /**
+     * As {@link #admit(String, boolean, boolean, String, BufferedReader, PrintStream)} for any tool that
+     * commands units: {@code confirmWord} must be typed exactly.
+     *
+     * @param whatMoves sentence saying what will be commanded
+     * @param subject   what the confirmation word is the id of: "unit", "site"
+     */
+    public static Optional<String> admit(String brokerUrl, boolean declaredTestBroker, boolean livePlant,
+            String confirmWord, String whatMoves, String subject, BufferedReader in, PrintStream out) {
+        String unitId = confirmWord;
         if (isTestBroker(brokerUrl, declaredTestBroker)) {
             return Optional.empty();
         }
@@ -87,9 +101,8 @@ public final class SafetyGate {
             return Optional.of("refusing to start: broker " + brokerUrl + " is not a test broker (not loopback, "
                     + "not declared with --test-broker). To move a real unit, pass --live-plant and confirm.");
         }
-        out.println("LIVE PLANT: broker " + brokerUrl + " is not a test broker. This test will move unit " + unitId
-                + ".");
-        out.println("Type the unit id (" + unitId + ") to confirm, anything else to stop:");
+        out.println("LIVE PLANT: broker " + brokerUrl + " is not a test broker. " + whatMoves);
+        out.println("Type the " + subject + " id (" + unitId + ") to confirm, anything else to stop:");
         out.flush();
         String answer;
         try {
@@ -99,7 +112,7 @@ public final class SafetyGate {
         }
         if (answer == null || !answer.trim().equals(unitId)) {
             return Optional.of("refusing to start: confirmation '" + (answer == null ? "" : answer.trim())
-                    + "' does not name unit " + unitId);
+                    + "' does not name " + subject + " " + unitId);
         }
         return Optional.empty();
     }

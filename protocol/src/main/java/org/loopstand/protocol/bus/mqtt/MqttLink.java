@@ -115,6 +115,7 @@ public final class MqttLink implements MessageBus {
         o.setCleanStart(config.cleanStart());
         o.setSessionExpiryInterval(config.sessionExpirySeconds());
         o.setKeepAliveInterval(config.keepAliveSeconds());
+        o.setMaximumPacketSize((long) PacketLimits.MAX_PACKET_BYTES);
         o.setConnectionTimeout(Math.max(1, config.connectTimeoutMs() / 1000));
         config.username().ifPresent(o::setUserName);
         config.password().ifPresent(pw -> o.setPassword(new String(pw).getBytes(java.nio.charset.StandardCharsets.UTF_8)));

@@ -99,6 +99,27 @@ public abstract class MqttLinkContract {
     }
 
     @Test
+    public void shouldNotDeliverAPacketOverTheMaximumPacketSize() throws Exception {
+        MqttLink sub = started(id("sub"), b -> b);
+        Inbox inbox = new Inbox();
+        sub.subscribe(prefix + "big/#", Qos.AT_LEAST_ONCE, inbox);
+        MqttLink pub = started(id("pub"), b -> b);
+        byte[] huge = new byte[1 << 20]; // 1 MiB, 8 × the limit
+        java.util.Arrays.fill(huge, (byte) 'x');
+        try {
+            pub.publish(OutboundMessage.of(prefix + "big/huge", huge, Qos.AT_LEAST_ONCE)).get(10, java.util.concurrent.TimeUnit.SECONDS);
+        } catch (java.util.concurrent.ExecutionException | java.util.concurrent.TimeoutException refusedOnTheWay) {
+            // refused by the publisher's client or the broker: either way the transport stopped it
+        }
+        MqttLink pub2 = started(id("pub2"), b -> b);
+        pub2.publish(qos1(prefix + "big/small", "after")).get();
+        await().atMost(Duration.ofSeconds(5)).until(() -> inbox.payloads().contains("after"));
+        assertThat(inbox.messages()).allSatisfy(m -> assertThat(m.payload().length)
+                .isLessThanOrEqualTo(PacketLimits.MAX_PACKET_BYTES));
+        assertThat(inbox.payloads()).containsExactly("after");
+    }
+
+    @Test
     public void shouldRedeliverQos1MessagesPublishedWhileSubscriberWasCutOff() throws Exception {
         // MQTT 5 §4.4 / §3.1.2.4: with Clean Start 0 and a session expiry, QoS 1 messages for the
         // session's subscriptions are stored while it is disconnected and sent when it returns.

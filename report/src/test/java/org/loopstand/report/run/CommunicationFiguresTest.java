@@ -1,0 +1,74 @@
+package org.loopstand.report.run;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Map;
+
+import com.fasterxml.jackson.databind.ObjectMapper;
+import com.fasterxml.jackson.databind.node.ObjectNode;
+import org.junit.jupiter.api.Test;
+import org.loopstand.protocol.journal.JournalEntry;
+import org.loopstand.report.model.Metric;
+import org.loopstand.report.model.MetricSection;
+
+class CommunicationFiguresTest {
+    private static final ObjectMapper JSON = new ObjectMapper();
+    private final List<JournalEntry> ctl = new ArrayList<>();
+
+    private void add(long tMs, String kind, Map<String, ?> fields) {
+        ctl.add(new JournalEntry(tMs, kind, JSON.valueToTree(fields), ctl.size() + 1));
+    }
+
+    private void decided(long tMs, String state, String... reasons) {
+        ObjectNode f = JSON.createObjectNode();
+        f.put("state", state);
+        f.putArray("reasons").addAll(List.of(reasons).stream().map(JSON.getNodeFactory()::textNode).toList());
+        ctl.add(new JournalEntry(tMs, "decided", f, ctl.size() + 1));
+    }
+
+    private static Map<String, Metric> byName(List<MetricSection> sections) {
+        Map<String, Metric> m = new java.util.HashMap<>();
+        sections.forEach(s -> s.metrics().forEach(x -> m.put(x.name(), x)));
+        return m;
+    }
+
+    @Test
+    void shouldNotCountTheStartUpSuspensionAsAFallFromRegulating() {
+        decided(4_000, "suspended", "noFrequency");
+        decided(8_000, "suspended", "noFrequency");
+        decided(12_000, "regulating");
+        decided(16_000, "suspended", "staleFrequency");
+        Map<String, Metric> m = byName(CommunicationFigures.sections(List.of(), ctl, null, 16));
+        assertThat(m).doesNotContainKey("suspension: noFrequency");
+        assertThat(m.get("suspension: staleFrequency").value()).isEqualTo("1");
+        assertThat(m.get("cycles not regulating").value()).isEqualTo("3");
+    }
+
+    @Test
+    void shouldCountOnlyAcksThatAnswerASentCommandAsReceived() {
+        add(1_000, "sent", Map.of("unit", "u1", "seq", 1));
+        add(1_100, "received", Map.of("ack", "u1", "commandSeq", 1, "outcome", "accepted"));
+        for (int i = 0; i < 3; i++) {
+            add(1_200 + i, "received", Map.of("unknownAck", "u1", "controllerId", "pulse-test", "commandSeq", 900 + i));
+        }
+        Map<String, Metric> m = byName(CommunicationFigures.sections(List.of(), ctl, null, 10));
+        assertThat(m.get("acks received by the controller").note()).startsWith("1 acks");
+        assertThat(m.get("acks answering no command the controller sent").value()).isEqualTo("3");
+    }
+
+    @Test
+    void shouldMarkAnInsecureRunAndCountCommandsTakenPerController() {
+        List<JournalEntry> plant = new ArrayList<>();
+        for (String id : List.of("controller-1", "controller-1", "intruder")) {
+            plant.add(new JournalEntry(1_000, "command", JSON.valueToTree(Map.of("unit", "u1", "commandSeq", plant.size(),
+                    "controllerId", id, "outcome", "accepted")), plant.size() + 1));
+        }
+        ObjectNode header = JSON.createObjectNode().put("security", "insecure");
+        Map<String, Metric> m = byName(CommunicationFigures.sections(plant, ctl, header, 10));
+        assertThat(m.get("security").value()).isEqualTo("INSECURE");
+        assertThat(m.get("commands taken by the units from intruder").value()).isEqualTo("1");
+        assertThat(m.get("commands taken by the units from controller-1").value()).isEqualTo("2");
+    }
+}
