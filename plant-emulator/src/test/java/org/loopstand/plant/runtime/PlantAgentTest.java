@@ -204,7 +204,7 @@ class PlantAgentTest {
     }
 
     @Test
-    void shouldPublishTheScenarioClockWhenTheRateIsNotOne() throws Exception {
+    void shouldPublishTheScenarioClockOnceAWallSecondAtEveryRate() throws Exception {
         try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of(), 10)) {
             run(p, 25);
             List<ClockTick> ticks = decoded(topics.clock(), ClockTick.class);
@@ -216,7 +216,11 @@ class PlantAgentTest {
         }
         try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of())) {
             run(p, 5);
-            assertThat(on(topics.clock())).hasSize(3); // nothing more at rate 1
+            // at rate 1 too (controllers take scenario time from the clock at every rate): once a scenario second
+            List<ClockTick> ticks = decoded(topics.clock(), ClockTick.class);
+            assertThat(ticks.subList(3, ticks.size())).extracting(ClockTick::scenarioTimeMs)
+                    .containsExactly(0L, 1_000L, 2_000L, 3_000L, 4_000L, 5_000L);
+            assertThat(ticks.subList(3, ticks.size())).allSatisfy(t -> assertThat(t.rate()).isEqualTo(1));
         }
     }
 }
