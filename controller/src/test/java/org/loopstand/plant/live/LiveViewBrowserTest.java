@@ -111,7 +111,10 @@ class LiveViewBrowserTest {
             rehearsal.abort(); // ends the live view's hold after the report
         }
         Rehearsal.Outcome o = outcome.get();
-        assertThat(o.exitCode()).as(out()).isIn(0, 130);
+        // the run completed (no process failed): its exit code follows the verdict, 1 for this short scenario's
+        // FAIL at rate 3, or 130 when the abort above ended the live view's hold
+        assertThat(o.message() == null || o.exitCode() == 130).as(out()).isTrue();
+        assertThat(o.exitCode()).as(out()).isIn(0, 1, 130);
         List<JournalEntry> plant = JournalReader.readAll(o.runFolder().resolve("plant.jsonl")).entries();
         assertThat(plant).anyMatch(e -> e.kind().equals("fault") && "start".equals(e.text("action"))
                 && "page-1".equals(e.text("faultId")) && "order".equals(e.text("source")));
