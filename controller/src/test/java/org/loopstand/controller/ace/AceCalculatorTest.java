@@ -7,7 +7,7 @@ import static org.assertj.core.api.Assertions.within;
 import org.junit.jupiter.api.Test;
 
 class AceCalculatorTest {
-    // Two-area example (Saadat, Power System Analysis, ch. 12, from memory; CHECKS.md items 2/3):
+    // Two-area example (Saadat, Power System Analysis, ch. 12, from memory):
     // 1000 MW base, 60 Hz, beta1 = 20.6 pu, beta2 = 16.9 pu, 187.5 MW load step in area 1.
     // Re-derived: df = -0.1875/(20.6+16.9) pu = -0.005 pu = -0.3 Hz;
     // dP_tie,1->2 = beta2*df = -0.0845 pu = -84.5 MW.
@@ -32,7 +32,7 @@ class AceCalculatorTest {
     @Test
     void shouldGiveAreaOneAloneTheDisturbanceWithTieLineBias() {
         // With bias = beta the ACE of the disturbed area equals minus its load step, the other area 0
-        // (tie-line bias property, CHECKS.md item 3 / item 10).
+        // (tie-line bias property; Saadat, ch. 12, from memory).
         AceResult a1 = na("A1", BETA1_MW_PER_HZ, AceMode.TIE_LINE_BIAS)
                 .compute(AceInputs.of(TIE_1_TO_2_MW, 0, F0 + DF_HZ, F0));
         AceResult a2 = na("A2", BETA2_MW_PER_HZ, AceMode.TIE_LINE_BIAS)

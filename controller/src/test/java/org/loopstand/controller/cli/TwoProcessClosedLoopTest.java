@@ -160,7 +160,7 @@ class TwoProcessClosedLoopTest {
         }
         // the trip was real and large: the south went well outside the standard range
         assertThat(minHz).isLessThan(49.85);
-        // CHECKS.md 9 (SOGL Annex III, from memory): back inside ±50 mHz within 15 minutes, and stays
+        // Commission Regulation (EU) 2017/1485 (SOGL) Annex III, from memory: back inside ±50 mHz within 15 minutes, and stays
         assertThat(lastOutsideMs - tripMs).isLessThanOrEqualTo(900_000).isLessThanOrEqualTo(RESTORE_BOUND_MS);
         assertThat(lastReadingMs - tripMs).isGreaterThanOrEqualTo(WATCH_AFTER_TRIP_MS - 10_000);
 

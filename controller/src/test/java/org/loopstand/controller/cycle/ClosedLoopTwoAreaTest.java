@@ -19,10 +19,10 @@ import org.loopstand.controller.safety.InterlockSettings;
 
 /**
  * The controller's cycle closing the loop around a small linear two-area model written here (not
- * the project's plant emulator): the two-area system of CHECKS.md item 2 (Saadat, Power System
+ * the project's plant emulator): the two-area worked example (Saadat, Power System
  * Analysis, ch. 12 worked example, from memory; 1000 MW base, 60 Hz; R1 = 0.05, D1 = 0.6, H1 = 5;
  * R2 = 0.0625, D2 = 0.9, H2 = 4; synchronizing coefficient 2.0 pu), with tie-line bias control and
- * bias = β (CHECKS.md items 3 and 10): frequency and tie flow return to schedule and area 1 alone
+ * bias = β (same sources; bias near β is the textbook setting): frequency and tie flow return to schedule and area 1 alone
  * picks up its 187.5 MW load step.
  */
 class ClosedLoopTwoAreaTest {

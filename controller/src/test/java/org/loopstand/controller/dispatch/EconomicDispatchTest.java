@@ -10,7 +10,7 @@ import java.util.Set;
 import org.junit.jupiter.api.Test;
 
 class EconomicDispatchTest {
-    // Wood & Wollenberg, Power Generation, Operation, and Control, Example 3A (from memory, CHECKS.md 5).
+    // Wood & Wollenberg, Power Generation, Operation, and Control, Example 3A (from memory).
     // Unit 1 fuel 1.1 $/MBtu: C1 = 561 + 7.92P + 0.001562P^2; C2 = 310 + 7.85P + 0.00194P^2;
     // C3 = 78 + 7.97P + 0.00482P^2. Re-derived at 850 MW:
     // sum 1/(2c) = 320.10 + 257.73 + 103.73 = 681.57; sum b/(2c) = 5385.2;
@@ -34,7 +34,7 @@ class EconomicDispatchTest {
 
     @Test
     void shouldLandOnNewDispatchWhenMovingByParticipationFactors() {
-        // CHECKS.md 6 (Wood & Wollenberg, base point and participation factors, from memory):
+        // Wood & Wollenberg, base point and participation factor method (from memory):
         // exact for quadratic costs while no limit is hit.
         DispatchResult base = EconomicDispatch.solve(EXAMPLE_3A, 850);
         ParticipationFactors pf = ParticipationFactors.of(EXAMPLE_3A, base);

@@ -19,7 +19,7 @@ import org.loopstand.plant.site.SiteLoader;
 
 /**
  * The controller process (agent, intake, wire records) closing the loop around the project's plant
- * physics in study mode. Two-area system of CHECKS.md item 2 (Saadat, Power System Analysis, ch. 12
+ * physics in study mode. Two-area worked example (Saadat, Power System Analysis, ch. 12
  * worked example, from memory): 1000 MVA base, 60 Hz; area 1 R = 0.05, D = 0.6, H = 5; area 2
  * R = 0.0625, D = 0.9, H = 4; synchronizing coefficient 2.0 pu (5.31 MW/rad in our tie law, see
  * the physics tests); load step 187.5 MW in area 1. β1 = 1/R1 + D1 = 20.6 pu = 343.3 MW/Hz
@@ -72,7 +72,7 @@ class ClosedLoopStudyTest {
         assertThat(loop.agent.lastOutcome().state().name()).isEqualTo("REGULATING");
         loop.sim.stepLoadMw("area1", STEP_MW);
         loop.runTo(STEP_AT_S + 20);
-        // primary response alone settles at −0.3 Hz (CHECKS.md 2); the first swing reaches about that
+        // primary response alone settles at −0.3 Hz (Saadat, ch. 12, from memory); the first swing reaches about that
         assertThat(loop.sim.frequencyHz("area1")).isLessThan(60 - 0.1);
         // "frequency returns within a few minutes" (common practice, no source): 5 minutes after the step
         loop.runTo(STEP_AT_S + 300);
@@ -82,7 +82,7 @@ class ClosedLoopStudyTest {
         assertThat(loop.sim.frequencyHz("area1")).isCloseTo(60, within(0.001));
         assertThat(loop.sim.frequencyHz("area2")).isCloseTo(60, within(0.001));
         assertThat(loop.sim.tieFlowMw("tie12")).isCloseTo(0, within(1.0));
-        // CHECKS.md 3: area 1 alone picks up the 187.5 MW (within 1 %)
+        // Saadat, ch. 12 (from memory): with tie-line bias control area 1 alone picks up the 187.5 MW (within 1 %)
         assertThat(loop.sim.outputMw("gen1") - 500).isCloseTo(STEP_MW, within(0.01 * STEP_MW));
         assertThat(loop.sim.outputMw("gen2") - 500).isCloseTo(0, within(0.01 * STEP_MW));
         assertThat(loop.commands()).isNotEmpty().allSatisfy(c -> assertThat(c.kind().name()).isEqualTo("PULSE"));
@@ -152,10 +152,10 @@ class ClosedLoopStudyTest {
         }
         // the trip really is a large disturbance: well outside the standard range at first
         assertThat(worstDfHz).isLessThan(-0.15);
-        // CHECKS.md 9 (SOGL Annex III, from memory): back inside ±50 mHz within 15 minutes and stays there
+        // Commission Regulation (EU) 2017/1485 (SOGL) Annex III, from memory: back inside ±50 mHz within 15 minutes and stays there
         assertThat(restoredAfterS).isLessThanOrEqualTo(900);
         assertThat(restoredAfterS).as("restored %.0f s after the trip", restoredAfterS).isLessThan(400);
-        // CHECKS.md 8 (BAL-002, from memory): ACE recovered within 15 minutes; we hold it near zero
+        // NERC BAL-002 (from memory): ACE recovered within 15 minutes; we hold it near zero
         // over the last five minutes (meter noise and the load's own noise remain)
         assertThat(worstLateAceMw).isLessThan(25);
         assertThat(sim.tieFlowMw("basin-ridge")).isCloseTo(100, within(15.0));

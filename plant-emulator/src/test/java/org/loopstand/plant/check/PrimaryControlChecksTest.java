@@ -17,12 +17,12 @@ import org.loopstand.plant.physics.GridSimulator;
 
 /**
  * The restoration checks on a real physics run with primary control only, where the outcome is known
- * from outside: CHECKS.md item 2 (Saadat, Power System Analysis, ch. 12 worked example, from memory):
+ * from outside: the two-area worked example (Saadat, Power System Analysis, ch. 12 worked example, from memory):
  * two 60 Hz areas on 1000 MVA, R1 = 0.05, D1 = 0.6, R2 = 0.0625, D2 = 0.9, load step 187.5 MW in area 1
  * → Δf = −0.1875/(20.6 + 16.9) pu = −0.005 pu = −0.3 Hz, tie flow 1→2 = −84.5 MW (re-derived:
  * ΔP12 = Δf·β2 = −0.005·16.9 pu). Without secondary control nothing returns to schedule, so the checks must
  * fail with figures that bracket those values; with bias B = −β1 the truth ACE of area 1 equals −187.5 MW
- * (ΔNI − 10B·Δf = −84.5 − 103.0, CHECKS.md items 3 and 10).
+ * (ΔNI − 10B·Δf = −84.5 − 103.0; same source).
  */
 class PrimaryControlChecksTest {
     private static Grid twoArea() {

@@ -17,7 +17,7 @@ import org.hipparchus.ode.nonstiff.DormandPrince853Integrator;
 import org.junit.jupiter.api.Test;
 
 /**
- * Trajectories and modes against a general-purpose library (CHECKS.md item 4): the same linear two-area
+ * Trajectories and modes against a general-purpose reference library (Hipparchus, from Maven Central): the same linear two-area
  * model, written out independently, integrated with Hipparchus Dormand–Prince 8(5,3) at tight tolerance,
  * and its eigenvalues from Hipparchus' non-symmetric eigen decomposition.
  */

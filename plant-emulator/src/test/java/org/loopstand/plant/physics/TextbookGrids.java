@@ -10,7 +10,7 @@ final class TextbookGrids {
     }
 
     /**
-     * The two-area example of CHECKS.md item 2 (Saadat, Power System Analysis, ch. 12, from memory), on a
+     * The two-area worked example (Saadat, Power System Analysis, ch. 12, from memory), on a
      * 1000 MVA base at 60 Hz: D in pu MW/pu Hz → MW/Hz is D·1000/60 (0.6 → 10, 0.9 → 15); the
      * synchronizing coefficient 2.0 pu enters the example's block diagram as ΔP12 = (Ps/s)(Δω1 − Δω2) with
      * Δω in pu of speed, i.e. dP12/dt = Ps·S/f0·(Δf1 − Δf2) MW/s; our tie law is dP/dt = 2πT(Δf1 − Δf2), so

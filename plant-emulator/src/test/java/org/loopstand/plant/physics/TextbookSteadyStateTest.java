@@ -22,7 +22,7 @@ class TextbookSteadyStateTest {
 
     @Test
     void shouldReproduceTheTwoAreaWorkedExample() {
-        // CHECKS.md item 2 (Saadat, ch. 12 worked example, from memory), re-derived:
+        // Saadat, Power System Analysis, ch. 12 worked example (from memory), re-derived:
         // β1 = 1/0.05 + 0.6 = 20.6, β2 = 1/0.0625 + 0.9 = 16.9 (pu on 1000 MVA);
         // Δf = −0.1875/(20.6 + 16.9) = −0.005 pu = −0.3 Hz; ΔP12 = Δf·β2 = −0.0845 pu = −84.5 MW;
         // ΔPm1 = −Δf/R1 = 0.1 pu = 100 MW; ΔPm2 = −Δf/R2 = 0.08 pu = 80 MW. Area 1 balance closes:

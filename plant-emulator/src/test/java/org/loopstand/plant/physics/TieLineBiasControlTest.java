@@ -20,7 +20,7 @@ class TieLineBiasControlTest {
 
     @Test
     void shouldReturnFrequencyAndTieFlowToScheduleWithArea1PickingUpItsOwnLoad() {
-        // CHECKS.md item 3 (Saadat, ch. 12; Kundur, ch. 11, from memory): with tie-line bias control and bias = β,
+        // Saadat, ch. 12; Kundur, ch. 11 (from memory): with tie-line bias control and bias = β,
         // Δf → 0, ΔP12 → 0 and area 1 alone picks up its 187.5 MW. β in MW/Hz: β1 = 20.6 pu·1000/60, β2 = 16.9 pu·1000/60.
         GridSimulator sim = new GridSimulator(TextbookGrids.twoArea());
         double[] betaMwPerHz = {20.6 * 1000 / 60, 16.9 * 1000 / 60};
@@ -43,7 +43,7 @@ class TieLineBiasControlTest {
 
     @Test
     void shouldShipDemoSitesWhoseBiasIsNearTheNaturalResponse() throws Exception {
-        // CHECKS.md item 10 (textbook; the trade's rule of thumb): bias near β = D + Σ 1/R.
+        // Textbook setting, the trade's rule of thumb (common practice, no source): bias near β = D + Σ 1/R.
         for (String file : new String[] {"demo-site.yaml", "three-area.yaml"}) {
             Grid grid = SiteLoader.load(Path.of("..", "config", "sites", file));
             for (Area area : grid.areas()) {

@@ -70,7 +70,7 @@ class ShippedScenariosStudyTest {
 
     @Test
     void shouldLeaveTheTripOffsetThatPrimaryControlAloneGives() throws Exception {
-        // CHECKS.md item 1 (Kundur ch. 11; Saadat ch. 12): Δf_ss = −ΔP / (D + Σ 1/R), re-derived for the demo site
+        // Kundur, Power System Stability and Control, ch. 11; Saadat, ch. 12 (from memory): Δf_ss = −ΔP / (D + Σ 1/R), re-derived for the demo site
         // after losing ridge-hydro-2 (260 MW, its 1/R = 400/(0.05·50) = 160 MW/Hz gone):
         // D = 34 + 22, Σ 1/R = 360 + 320 + 240 + 200 + 350 → β = 1526 MW/Hz. The two basin steam units have a
         // 10 mHz dead band, which withholds 0.01 Hz × 680 MW/Hz = 6.8 MW: Δf = −(260 + 6.8)/1526 = −0.1748 Hz.

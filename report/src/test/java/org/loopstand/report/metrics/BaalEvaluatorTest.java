@@ -6,7 +6,7 @@ import static org.assertj.core.api.Assertions.within;
 import java.util.Arrays;
 import org.junit.jupiter.api.Test;
 
-/** BAAL per NERC BAL-001-2 (formula re-derived from memory, see CHECKS.md item 7). */
+/** BAAL per NERC BAL-001-2 (formula re-derived from memory). */
 class BaalEvaluatorTest {
     private static final double B = -50.0; // −10B = 500 MW/Hz
     private static final double EPS = 0.018; // Eastern; 3ε1 = 0.054 Hz, 9ε1² = 0.002916 Hz²

@@ -6,7 +6,7 @@ import static org.assertj.core.api.Assertions.within;
 import org.junit.jupiter.api.Test;
 import org.loopstand.report.model.TimeSeries;
 
-/** CPS1 per NERC BAL-001-2 (formula and ε1 from memory, see CHECKS.md item 7). */
+/** CPS1 per NERC BAL-001-2 (formula and ε1 from memory). */
 class Cps1CalculatorTest {
     private static final double B = -50.0; // MW/0.1 Hz → −10B = 500 MW/Hz
 

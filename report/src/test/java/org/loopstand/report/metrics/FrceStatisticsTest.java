@@ -5,7 +5,7 @@ import static org.assertj.core.api.Assertions.within;
 
 import org.junit.jupiter.api.Test;
 
-/** 15-minute FRCE statistics, SOGL Annex III style (from memory, see CHECKS.md item 9). */
+/** 15-minute FRCE statistics, SOGL Annex III style (Commission Regulation (EU) 2017/1485, from memory). */
 class FrceStatisticsTest {
     @Test
     void shouldAverageQuarterHoursAndCountThemOutsideTheRanges() {
