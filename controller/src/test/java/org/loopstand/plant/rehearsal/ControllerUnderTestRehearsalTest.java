@@ -144,7 +144,7 @@ class ControllerUnderTestRehearsalTest {
         CompletableFuture<Rehearsal.Outcome> run = CompletableFuture.supplyAsync(r::run);
         Awaitility.await().atMost(Duration.ofSeconds(90)).until(() -> out().contains("Start it now with:"));
         assertThat(out()).contains("controller id outside-7").contains("topic root    loopstand/v1/demo-site")
-                .contains("epoch         any whole number ≥ 0");
+                .contains("epoch         epoch ms, ≥ 0");
         String broker = line("  broker        ");
         String runDir = line("  run folder    ").replaceFirst(" \\(.*$", "");
         // the "user" starts the example by hand, with the facts the rig printed

@@ -79,7 +79,7 @@ final class ControllerLaunch {
                 "  site          " + siteId + " (file " + env.get("LOOPSTAND_SITE_FILE") + ")",
                 "  topic root    " + env.get("LOOPSTAND_TOPIC_ROOT"),
                 "  controller id " + s.controller().controllerId() + " (commands from any other id are refused)",
-                "  epoch         any whole number ≥ 0 on its first status; never lower afterwards",
+                "  epoch         epoch ms, ≥ 0, at most a day ahead of scenario time; one per process, never lower",
                 "  time base     scenario time from " + env.get("LOOPSTAND_TOPIC_ROOT") + "/clock (rate "
                         + env.get("LOOPSTAND_RATE") + "); every timestamp, validUntil included, is scenario epoch ms",
                 "  run folder    " + env.get("LOOPSTAND_RUN_DIR") + " (put its journal or log here if you like)",

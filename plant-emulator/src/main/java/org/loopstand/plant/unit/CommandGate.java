@@ -104,8 +104,11 @@ public final class CommandGate {
             return new Refusal(timing.reason(), timing.detail());
         }
         if (nowEpochMs > c.validUntil() && !acceptExpired) {
-            return new Refusal(RefusalReason.EXPIRED, "validUntil " + c.validUntil() + " passed "
-                    + (nowEpochMs - c.validUntil()) + " ms ago");
+            long agoMs = nowEpochMs - c.validUntil();
+            // far in the past usually means a wall-clock stamp in an accelerated run: say what the time base is
+            return new Refusal(RefusalReason.EXPIRED, "validUntil " + c.validUntil() + " passed " + agoMs + " ms ago"
+                    + (agoMs > CommandTimeRules.MAX_LIFETIME_MS ? "; every time on the bus is scenario epoch ms (the clock"
+                    + " topic's sourceTime), not the wall clock" : ""));
         }
         if (tenure.adopt(c.controllerId(), c.epoch(), nowNanos)) {
             lastSeqByController.remove(c.controllerId());

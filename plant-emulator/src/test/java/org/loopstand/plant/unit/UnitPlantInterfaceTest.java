@@ -139,6 +139,22 @@ class UnitPlantInterfaceTest {
     }
 
     @Test
+    void shouldSayWhatTheTimeBaseIsWhenACommandIsStampedWithTheWallClockInAnAcceleratedRun() {
+        UnitPlantInterface u = unit();
+        u.tick();
+        // at rate 10 an hour of wall time is ten of scenario time: a wall-clock stamp lies far in the past
+        long wallMs = clock.epochMillis() - 9 * 3_600_000L;
+        receive(u, UnitCommand.pulse(seq++, wallMs, "basin-steam-1", CTRL, 0, wallMs + 8_000, PulseDirection.RAISE, 1_000));
+        assertThat(out.lastAck().reason()).isEqualTo(RefusalReason.EXPIRED);
+        assertThat(out.lastAck().detail()).isEqualTo("validUntil " + (wallMs + 8_000) + " passed " + (9 * 3_600_000L - 8_000)
+                + " ms ago; every time on the bus is scenario epoch ms (the clock topic's sourceTime), not the wall clock");
+        // a command that only just expired gets the plain sentence
+        long now = clock.epochMillis();
+        receive(u, UnitCommand.pulse(seq++, now - 5_000, "basin-steam-1", CTRL, 0, now - 500, PulseDirection.RAISE, 1_000));
+        assertThat(out.lastAck().detail()).isEqualTo("validUntil " + (now - 500) + " passed 500 ms ago");
+    }
+
+    @Test
     void shouldNumberTelemetryAndAcksEachInTheirOwnSeriesSoAcksLeaveNoTelemetryGap() {
         UnitPlantInterface u = unit();
         u.tick();
