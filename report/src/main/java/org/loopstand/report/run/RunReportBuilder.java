@@ -147,7 +147,9 @@ public final class RunReportBuilder {
         }
         sections.addAll(comparisons);
         checks.addAll(journalChecks(run));
-        charts.add(new Chart("Frequency", "Hz", freq, false));
+        if (!freq.isEmpty()) {
+            charts.add(new Chart("Frequency", "Hz", freq, false));
+        }
         if (ace.stream().anyMatch(s -> s.size() > 0)) {
             charts.add(new Chart("ACE: truth, as metered and the controller's (+ = over-generation)", "MW", ace, false));
         }
@@ -183,6 +185,11 @@ public final class RunReportBuilder {
         }
         sections.add(CommandPathFigures.section(plant, unitAreas, views, (end - start) / 1000.0, meterScanS(ph)));
         sections.add(ControllerDecisions.section(plant, start));
+        MetricSection dispatch = DispatchFigures.section(decided, start);
+        if (dispatch != null) {
+            sections.add(dispatch);
+            charts.add(DispatchFigures.chart(decided));
+        }
         RunCharts.addCommandAndStateCharts(charts, plant, ctl, meters, areas, start, end);
         sections.addAll(CommunicationFigures.sections(plant, ctl, ph, (end - start) / 1000.0));
 
