@@ -41,7 +41,7 @@ public final class StudyCommand implements Callable<Integer> {
     @Override
     public Integer call() throws Exception {
         try {
-            Grid grid = SiteLoader.load(site);
+            Grid grid = SiteLoader.loadForRun(site, System.err::println);
             Scenario scenario = ScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
             if (durationS != null) {
                 if (!(durationS > 0)) {
