@@ -60,6 +60,7 @@ public final class StudyCommand implements Callable<Integer> {
             StudyResult r = new StudyRunner(grid, scenario, WallClock.INSTANCE, progress).run(out);
             System.out.printf(java.util.Locale.ROOT, "wrote %s and %s (%.0f s simulated)%n",
                     out.resolve("trace.csv"), out.resolve("summary.json"), r.simulatedSeconds());
+            System.out.println((r.settled() ? "settled: " : "NOT settled (end values are a snapshot): ") + r.settledCriterion());
             return 0;
         } catch (ConfigFileException e) {
             System.err.println("refused:");
