@@ -10,7 +10,7 @@ import picocli.CommandLine.Command;
  */
 @Command(name = "loopstand", mixinStandardHelpOptions = true, version = "loopstand 0.1.0",
         description = "Loopstand plant side: embedded broker, plant emulator, study mode.",
-        subcommands = {BrokerCommand.class, StudyCommand.class, PlantCommand.class, UnitCommand.class, FaultCommand.class,
+        subcommands = {BrokerCommand.class, StudyCommand.class, CheckCommand.class, PlantCommand.class, UnitCommand.class, FaultCommand.class,
                 RehearsalCommand.class, ReportCommand.class, ExportCommand.class})
 public final class PlantCli implements Runnable {
     /** The project version, as shown by --version and written into journals and reports. */

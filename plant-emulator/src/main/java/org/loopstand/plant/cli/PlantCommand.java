@@ -135,7 +135,7 @@ public final class PlantCommand implements Callable<Integer> {
         Scenario scenario = null;
         RunScenario rehearsal = null;
         try {
-            grid = SiteLoader.load(site);
+            grid = SiteLoader.loadForRun(site, System.err::println);
             if (quietLoads) {
                 grid = grid.withoutLoadNoise();
             }

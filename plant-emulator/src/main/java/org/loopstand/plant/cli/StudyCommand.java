@@ -41,7 +41,7 @@ public final class StudyCommand implements Callable<Integer> {
     @Override
     public Integer call() throws Exception {
         try {
-            Grid grid = SiteLoader.load(site);
+            Grid grid = SiteLoader.loadForRun(site, System.err::println);
             Scenario scenario = ScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
             if (durationS != null) {
                 if (!(durationS > 0)) {
@@ -60,6 +60,7 @@ public final class StudyCommand implements Callable<Integer> {
             StudyResult r = new StudyRunner(grid, scenario, WallClock.INSTANCE, progress).run(out);
             System.out.printf(java.util.Locale.ROOT, "wrote %s and %s (%.0f s simulated)%n",
                     out.resolve("trace.csv"), out.resolve("summary.json"), r.simulatedSeconds());
+            System.out.println((r.settled() ? "settled: " : "NOT settled (end values are a snapshot): ") + r.settledCriterion());
             return 0;
         } catch (ConfigFileException e) {
             System.err.println("refused:");

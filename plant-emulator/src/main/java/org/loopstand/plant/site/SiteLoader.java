@@ -9,6 +9,7 @@ import java.util.ArrayList;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
+import java.util.function.Consumer;
 
 import org.loopstand.plant.grid.AceConvention;
 import org.loopstand.plant.grid.Grid;
@@ -16,6 +17,7 @@ import org.loopstand.plant.grid.GridBuilder;
 import org.loopstand.plant.grid.GridProblem;
 import org.loopstand.plant.grid.GridValidationException;
 import org.loopstand.plant.grid.UnitSpec;
+import org.loopstand.plant.physics.SmallSignalStability;
 
 /**
  * Reads a site file (YAML, see docs/physics.md for the keys) into a {@link Grid}. Unknown keys, missing
@@ -33,6 +35,25 @@ public final class SiteLoader {
         try (Reader r = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
             return load(file.toString(), r);
         }
+    }
+
+    /**
+     * Loads a site for a run: {@link #load(Path)} and then the small-signal screen
+     * ({@link SmallSignalStability}, docs/physics.md). An unstable site is refused in the
+     * {@link ConfigFileException}, naming the growing mode; a lightly damped one is passed on with a warning.
+     *
+     * @param warnings receives each warning as {@code file: warning: what}
+     */
+    public static Grid loadForRun(Path file, Consumer<String> warnings) throws IOException {
+        Grid grid = load(file);
+        SmallSignalStability.Report report = SmallSignalStability.assess(grid);
+        if (report.refused()) {
+            throw new ConfigFileException(List.of(file + ": site refused by the stability screen: " + report.describe()));
+        }
+        if (report.verdict() != SmallSignalStability.Verdict.STABLE) {
+            warnings.accept(file + ": warning: " + report.describe());
+        }
+        return grid;
     }
 
     /** @param fileName used in messages only */

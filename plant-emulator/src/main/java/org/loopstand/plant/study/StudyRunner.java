@@ -86,6 +86,7 @@ public final class StudyRunner implements ScenarioContext {
             minHz[a] = maxHz[a] = sim.frequencyHz(a);
             imbalanceMw[a] = sim.generationMw(a) - sim.loadMw(a) - sim.netInterchangeMw(a);
         }
+        SettlingWatch settling = new SettlingWatch(areaCount, grid.ties().size(), totalSteps * sim.stepS());
         TraceWriter trace = new TraceWriter(traceOut, grid);
         trace.write(sim);
         List<ScenarioEvent> events = scenario.events();
@@ -102,6 +103,7 @@ public final class StudyRunner implements ScenarioContext {
                 minHz[a] = Math.min(minHz[a], f);
                 maxHz[a] = Math.max(maxHz[a], f);
             }
+            settling.observe(sim);
             if ((k + 1) % traceEverySteps == 0) {
                 trace.write(sim);
             }
@@ -111,10 +113,11 @@ public final class StudyRunner implements ScenarioContext {
         }
         double wallS = (wallClock.monotonicNanos() - wallStart) / 1e9;
         progress.done(sim.timeS(), wallS);
-        return result(minHz, maxHz, imbalanceMw, next, wallS);
+        return result(minHz, maxHz, imbalanceMw, next, settling, wallS);
     }
 
-    private StudyResult result(double[] minHz, double[] maxHz, double[] imbalanceMw, int eventsApplied, double wallS) {
+    private StudyResult result(double[] minHz, double[] maxHz, double[] imbalanceMw, int eventsApplied, SettlingWatch settling,
+                               double wallS) {
         Map<String, Map<String, Double>> areas = new LinkedHashMap<>();
         for (int a = 0; a < grid.areas().size(); a++) {
             Map<String, Double> m = new LinkedHashMap<>();
@@ -133,6 +136,6 @@ public final class StudyRunner implements ScenarioContext {
             units.put(grid.units().get(u).id(), Map.of("finalOutputMw", sim.outputMw(u)));
         }
         return new StudyResult(grid.siteId(), scenario.seed(), sim.stepS(), sim.timeS(), eventsApplied,
-                areas, ties, units, wallS);
+                settling.settled(), settling.criterion(sim.timeS()), areas, ties, units, wallS);
     }
 }

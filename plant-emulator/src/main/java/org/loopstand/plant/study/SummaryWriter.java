@@ -20,6 +20,8 @@ public final class SummaryWriter {
         sb.append("  \"stepS\": ").append(DecimalText.of(r.stepS())).append(",\n");
         sb.append("  \"simulatedSeconds\": ").append(DecimalText.of(r.simulatedSeconds())).append(",\n");
         sb.append("  \"eventsApplied\": ").append(r.eventsApplied()).append(",\n");
+        sb.append("  \"settled\": ").append(r.settled()).append(",\n");
+        sb.append("  \"settledCriterion\": \"").append(escape(r.settledCriterion())).append("\",\n");
         section(sb, "areas", r.areas());
         section(sb, "ties", r.ties());
         section(sb, "units", r.units());

@@ -101,7 +101,7 @@ class ReferenceIntegratorTest {
     void shouldMatchItsOwnLinearisationAgainstTheIndependentModel() {
         // The simulator's right-hand side, differentiated numerically, must have the same eigenvalues as the
         // independently written textbook matrix (the 3rd slot of each non-reheat unit adds zero eigenvalues).
-        double[] fromSimulator = Arrays.stream(ModalAnalysis.eigenvalues(new GridSimulator(TextbookGrids.twoArea())))
+        double[] fromSimulator = Arrays.stream(SmallSignalStability.eigenvalues(new GridSimulator(TextbookGrids.twoArea())))
                 .filter(c -> c.norm() > 1e-9).mapToDouble(Complex::getReal).sorted().toArray();
         double[] fromModel = Arrays.stream(new EigenDecompositionNonSymmetric(new TwoAreaLinearModel().a()).getEigenvalues())
                 .mapToDouble(Complex::getReal).sorted().toArray();

@@ -3,6 +3,8 @@ package org.loopstand.plant.physics;
 import static org.assertj.core.api.Assertions.assertThat;
 
 import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
 
 import org.hipparchus.complex.Complex;
 import org.loopstand.plant.site.SiteLoader;
@@ -17,10 +19,10 @@ import org.junit.jupiter.params.provider.ValueSource;
 class ShippedSitesStabilityTest {
 
     @ParameterizedTest
-    @ValueSource(strings = {"demo-site.yaml", "three-area.yaml", "three-area-50.yaml"})
+    @ValueSource(strings = {"demo-site.yaml", "three-area.yaml", "three-area-50.yaml", "four-unit-dispatch.yaml"})
     void shouldHaveOnlyDampedModes(String file) throws Exception {
         GridSimulator sim = new GridSimulator(SiteLoader.load(Path.of("..", "config", "sites", file)));
-        for (Complex mode : ModalAnalysis.eigenvalues(sim)) {
+        for (Complex mode : SmallSignalStability.eigenvalues(sim)) {
             assertThat(mode.getReal()).as("mode %s", mode).isLessThan(1e-6);
             if (Math.abs(mode.getImaginary()) > 1e-6) {
                 double dampingRatio = -mode.getReal() / mode.norm();
@@ -28,5 +30,18 @@ class ShippedSitesStabilityTest {
                 assertThat(dampingRatio).as("damping ratio of %s", mode).isGreaterThan(0.03);
             }
         }
+    }
+
+    @ParameterizedTest
+    @ValueSource(strings = {"demo-site.yaml", "three-area.yaml", "three-area-50.yaml", "four-unit-dispatch.yaml"})
+    void shouldLoadForARunWithoutRefusalOrWarningAndNameTheLeastDampedMode(String file) throws Exception {
+        Path site = Path.of("..", "config", "sites", file);
+        List<String> warnings = new ArrayList<>();
+        SiteLoader.loadForRun(site, warnings::add);
+        assertThat(warnings).isEmpty();
+        SmallSignalStability.Report report = SmallSignalStability.assess(SiteLoader.load(site));
+        assertThat(report.verdict()).isEqualTo(SmallSignalStability.Verdict.STABLE);
+        assertThat(report.describe()).startsWith("stable: least-damped mode ").contains(" Hz, damping ratio ", "areas ");
+        assertThat(report.leastDamped().dampingRatio()).isGreaterThanOrEqualTo(SmallSignalStability.MIN_DAMPING_RATIO);
     }
 }

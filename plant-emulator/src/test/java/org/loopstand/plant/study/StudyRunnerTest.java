@@ -55,6 +55,33 @@ class StudyRunnerTest {
         assertThat(Files.readAllBytes(tmp.resolve("a/trace.csv"))).isNotEqualTo(Files.readAllBytes(tmp.resolve("c/trace.csv")));
     }
 
+    @Test
+    void shouldSaySettledOnlyWhenTheLastWindowStaysInItsBands() throws Exception {
+        Grid grid = SiteLoader.load(CONFIG.resolve("sites/demo-site.yaml"));
+        Scenario full = ScenarioLoader.load(CONFIG.resolve("scenarios/unit-trip.yaml"), EventTypeRegistry.physics(), grid);
+        // the whole run: the last event (a 120 s ramp from 300 s) is over long before the last 30 s
+        StudyResult settled = new StudyRunner(grid, full, new VirtualClock(0), ProgressReporter.NONE).run(tmp.resolve("s"));
+        assertThat(settled.settled()).isTrue();
+        assertThat(Files.readString(tmp.resolve("s/summary.json"))).contains("\"settled\": true,",
+                "\"settledCriterion\": \"every area's frequency within a 0.02 Hz band and every tie flow within a 10 MW band"
+                        + " (max - min) over the last 30 s\"");
+        // cut 30 s after the unit trip at 120 s: frequency is still falling back and the tie still swinging
+        StudyResult cut = new StudyRunner(grid, full.withDurationS(150), new VirtualClock(0), ProgressReporter.NONE)
+                .run(tmp.resolve("c"));
+        assertThat(cut.settled()).isFalse();
+        assertThat(Files.readString(tmp.resolve("c/summary.json"))).contains("\"settled\": false,");
+    }
+
+    @Test
+    void shouldNotSaySettledWhenAnUnstableSiteSwingsWithGrowingAmplitude() throws Exception {
+        Path tests = Path.of("src", "test", "resources", "sites");
+        Grid grid = SiteLoader.load(tests.resolve("unstable-three-area.yaml")); // unscreened on purpose
+        Scenario scenario = ScenarioLoader.load(tests.resolve("unstable-three-area-step.yaml"), EventTypeRegistry.physics(), grid);
+        StudyResult r = new StudyRunner(grid, scenario, new VirtualClock(0), ProgressReporter.NONE).run(tmp.resolve("u"));
+        assertThat(r.settled()).isFalse();
+        assertThat(Files.readString(tmp.resolve("u/summary.json"))).contains("\"settled\": false,");
+    }
+
     private static List<String> withoutWallTime(Path summary) throws Exception {
         return Files.readAllLines(summary).stream().filter(l -> !l.contains("\"wallSeconds\"")).toList();
     }

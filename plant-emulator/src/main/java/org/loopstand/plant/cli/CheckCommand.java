@@ -1,0 +1,104 @@
+package org.loopstand.plant.cli;
+
+import java.io.IOException;
+import java.io.PrintWriter;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.concurrent.Callable;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
+
+import org.loopstand.plant.grid.Grid;
+import org.loopstand.plant.physics.SmallSignalStability;
+import org.loopstand.plant.scenario.EventTypeRegistry;
+import org.loopstand.plant.scenario.RunScenario;
+import org.loopstand.plant.scenario.RunScenarioLoader;
+import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.plant.site.SiteLoader;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Model.CommandSpec;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Parameters;
+import picocli.CommandLine.Spec;
+
+/**
+ * {@code loopstand check FILE...}: validates site and scenario files without running them. A site is loaded
+ * and screened for small-signal stability (docs/physics.md); a scenario is loaded with every rehearsal
+ * section against its site. Exit 0 when every file passes (warnings printed), 2 when any is refused or
+ * cannot be checked here. Sends nothing.
+ */
+@Command(name = "check", mixinStandardHelpOptions = true,
+        description = "Validate site and scenario files without running them (site: load and stability screen;"
+                + " scenario: load against its site). Exit 0 all good, 2 on any refusal.")
+public final class CheckCommand implements Callable<Integer> {
+    private static final Pattern TOP_KEY = Pattern.compile("^([A-Za-z]+):\\s*([^#\\s]*)");
+
+    @Parameters(arity = "1..*", paramLabel = "FILE", description = "site or scenario files (YAML)")
+    private List<Path> files;
+
+    @Option(names = "--site", description = "site file for the scenarios (default: config/sites/<the scenario's site>.yaml)")
+    private Path site;
+
+    @Spec
+    private CommandSpec spec;
+
+    @Override
+    public Integer call() {
+        PrintWriter out = spec.commandLine().getOut();
+        boolean refused = false;
+        for (Path file : files) {
+            try {
+                refused |= !check(file, out);
+            } catch (ConfigFileException e) {
+                e.problems().forEach(out::println);
+                out.println(file + ": refused");
+                refused = true;
+            } catch (IOException e) {
+                out.println(file + ": cannot read: " + e.getMessage());
+                refused = true;
+            }
+        }
+        out.flush();
+        return refused ? 2 : 0;
+    }
+
+    /** @return false when the file cannot be checked here */
+    private boolean check(Path file, PrintWriter out) throws IOException {
+        Map<String, String> top = topKeys(file);
+        if (top.containsKey("siteId")) {
+            Grid grid = SiteLoader.loadForRun(file, out::println);
+            out.println(file + ": site " + grid.siteId() + " ok; " + SmallSignalStability.assess(grid).describe());
+            return true;
+        }
+        if (top.containsKey("site")) {
+            Path siteFile = site != null ? site : Path.of("config", "sites", top.get("site") + ".yaml");
+            Grid grid = SiteLoader.loadForRun(siteFile, out::println);
+            RunScenario scenario = RunScenarioLoader.load(file, EventTypeRegistry.physics(), grid);
+            out.println(file + ": scenario ok against " + siteFile + " (" + scenario.scenario().events().size()
+                    + " events, " + scenario.faults().size() + " faults, " + scenario.checks().size() + " checks)");
+            return true;
+        }
+        if (top.containsKey("settings") || top.containsKey("steps")) {
+            out.println(file + ": looks like a unit test plan; plans are the controller's and are not checked here:"
+                    + " ./loopstand pulse-test --plan FILE reads it and refuses it before any pulse is sent");
+            return false;
+        }
+        out.println(file + ":1:1: neither a site (top-level siteId:) nor a scenario (top-level site:)");
+        return false;
+    }
+
+    private static Map<String, String> topKeys(Path file) throws IOException {
+        Map<String, String> keys = new LinkedHashMap<>();
+        for (String line : Files.readAllLines(file, StandardCharsets.UTF_8)) {
+            Matcher m = TOP_KEY.matcher(line);
+            if (m.find()) {
+                keys.putIfAbsent(m.group(1), m.group(2).replaceAll("^[\"']|[\"']$", ""));
+            }
+        }
+        return keys;
+    }
+}
