@@ -1,7 +1,5 @@
 package org.loopstand.controller.runtime;
 
-import java.util.LinkedHashMap;
-import java.util.Map;
 import java.util.concurrent.ConcurrentLinkedQueue;
 import org.loopstand.controller.cycle.ControlCycle;
 import org.loopstand.controller.pulse.PlannedCommand;
@@ -9,32 +7,20 @@ import org.loopstand.protocol.message.AckOutcome;
 import org.loopstand.protocol.message.CommandAck;
 
 /**
- * Feeds what became of each command back into the cycle: the commands sent are kept by seq until
- * their ack; a refusal, a failed publish or an unsignable command becomes
- * {@link ControlCycle#commandNotExecuted}, an accepted ack {@link ControlCycle#commandAccepted}.
- * Bounded: the oldest unanswered commands are forgotten past 4096. Everything but
- * {@link #publishFailed} runs on the agent thread.
+ * Feeds what became of each command back into the cycle: a refusal, a failed publish or an unsignable
+ * command becomes {@link ControlCycle#commandNotExecuted}, an accepted ack
+ * {@link ControlCycle#commandAccepted}. The commands awaiting their ack are kept once, in
+ * {@link SentCommands}. Everything but {@link #publishFailed} runs on the agent thread.
  */
 final class CommandOutcomes {
-    private static final int MAX_UNANSWERED = 4096;
     private final ControlCycle cycle;
-    private final String controllerId;
-    private final Map<Long, PlannedCommand> unanswered = new LinkedHashMap<>(16, 0.75f, false) {
-        @Override
-        protected boolean removeEldestEntry(Map.Entry<Long, PlannedCommand> eldest) {
-            return size() > MAX_UNANSWERED;
-        }
-    };
+    private final SentCommands sent;
     /** seqs of commands whose publish failed (bus threads), handed to the cycle on the agent thread */
     private final ConcurrentLinkedQueue<Long> failedPublishes = new ConcurrentLinkedQueue<>();
 
-    CommandOutcomes(ControlCycle cycle, String controllerId) {
+    CommandOutcomes(ControlCycle cycle, SentCommands sent) {
         this.cycle = cycle;
-        this.controllerId = controllerId;
-    }
-
-    void sent(long seq, PlannedCommand c) {
-        unanswered.put(seq, c);
+        this.sent = sent;
     }
 
     /** No key was valid for the unit: the command was never sent. */
@@ -51,23 +37,15 @@ final class CommandOutcomes {
     void drain() {
         Long seq;
         while ((seq = failedPublishes.poll()) != null) {
-            PlannedCommand c = unanswered.remove(seq);
+            PlannedCommand c = sent.forget(seq);
             if (c != null) {
                 cycle.commandNotExecuted(c.unitId(), c.deltaMw(), "publishFailed");
             }
         }
     }
 
-    /** A unit's ack (agent thread); acks to other controllers' commands are ignored. */
-    void onAck(CommandAck ack) {
-        if (!controllerId.equals(ack.controllerId())) {
-            return;
-        }
-        PlannedCommand c = unanswered.get(ack.commandSeq());
-        if (c == null || !c.unitId().equals(ack.unit())) {
-            return; // not an answer to a command of ours we still know
-        }
-        unanswered.remove(ack.commandSeq());
+    /** The ack of command {@code c}, one of ours ({@link SentCommands#match}) (agent thread). */
+    void onAck(PlannedCommand c, CommandAck ack) {
         if (ack.outcome() == AckOutcome.ACCEPTED) {
             cycle.commandAccepted(c.unitId());
         } else {

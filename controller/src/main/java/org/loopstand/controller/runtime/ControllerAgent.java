@@ -119,10 +119,11 @@ public final class ControllerAgent implements Agent {
         metrics.attach(this);
         this.topics = TopicTree.forSite(site.siteId());
         this.cycle = new ControlCycle(site.toCycleSettings());
-        this.outcomes = new CommandOutcomes(cycle, controllerId);
+
         this.intake = new IntakeRouter(site, clock, codec, new Observer());
         this.inputUse = new InputUseJournal(site, intake);
         this.sentCommands = new SentCommands(controllerId, journal);
+        this.outcomes = new CommandOutcomes(cycle, sentCommands);
         if (busClock != null) {
             intake.onClockTick(busClock::onTick);
         }
@@ -333,8 +334,7 @@ public final class ControllerAgent implements Agent {
         long expiryS = Math.max(1, (c.validUntilMs() - nowMs + 999) / 1000);
         OutboundMessage m = new OutboundMessage(topics.unitCommand(c.unitId()), codec.encode(cmd), Qos.AT_LEAST_ONCE,
                 false, expiryS);
-        outcomes.sent(seq, c);
-        sentCommands.sent(seq, c.unitId());
+        sentCommands.sent(seq, c);
         bus.publish(m).whenComplete((v, e) -> {
             if (e != null) {
                 publishFailures.add("command " + seq + " to " + c.unitId() + ": " + e);
@@ -434,10 +434,11 @@ public final class ControllerAgent implements Agent {
 
         @Override
         public void onAck(CommandAck ack, long receivedAtMs) {
-            if (!sentCommands.match(ack, receivedAtMs)) {
+            PlannedCommand answered = sentCommands.match(ack, receivedAtMs);
+            if (answered == null) {
                 return; // an ack for a command this controller never sent changes nothing here
             }
-            outcomes.onAck(ack);
+            outcomes.onAck(answered, ack);
             if (journal != null) {
                 Map<String, Object> f = new LinkedHashMap<>();
                 f.put("ack", ack.unit());

@@ -5,15 +5,17 @@ import java.util.Map;
 
 import org.loopstand.protocol.journal.JournalFormat;
 import org.loopstand.protocol.journal.JournalWriter;
+import org.loopstand.controller.pulse.PlannedCommand;
 import org.loopstand.protocol.message.CommandAck;
 
 /**
- * The commands this controller sent that await their ack, so that an ack is counted as received
- * only when it answers one of them: same controller id, a seq this controller sent to that unit,
- * and not answered before. Every other ack (another controller's, a forged one, a second ack for
- * the same command) is an unknown ack, counted apart. Memory is bounded: past
- * {@value #MAX_AWAITED} unanswered commands the oldest is forgotten (its late ack then counts as
- * unknown). Not thread-safe (the controller's cycle thread).
+ * The commands this controller sent that await their ack, the one record of them: an ack is counted
+ * as received only when it answers one of them (same controller id, a seq this controller sent to
+ * that unit, not answered before), and the answered command goes on to {@link CommandOutcomes}.
+ * Every other ack (another controller's, a forged one, a second ack for the same command) is an
+ * unknown ack, counted apart. Memory is bounded: past {@value #MAX_AWAITED} unanswered commands the
+ * oldest is forgotten (its late ack then counts as unknown). Not thread-safe (the controller's cycle
+ * thread).
  */
 final class SentCommands {
     /** Most unanswered commands remembered. */
@@ -21,9 +23,9 @@ final class SentCommands {
 
     private final String controllerId;
     private final JournalWriter journal;
-    private final LinkedHashMap<Long, String> awaited = new LinkedHashMap<>(16, 0.75f, false) {
+    private final LinkedHashMap<Long, PlannedCommand> awaited = new LinkedHashMap<>(16, 0.75f, false) {
         @Override
-        protected boolean removeEldestEntry(Map.Entry<Long, String> eldest) {
+        protected boolean removeEldestEntry(Map.Entry<Long, PlannedCommand> eldest) {
             if (size() > MAX_AWAITED) {
                 forgotten++;
                 return true;
@@ -41,20 +43,26 @@ final class SentCommands {
         this.journal = journal;
     }
 
-    /** Notes a command sent with {@code seq} to {@code unit}. */
-    void sent(long seq, String unit) {
-        awaited.put(seq, unit);
+    /** Notes a command sent with {@code seq}. */
+    void sent(long seq, PlannedCommand command) {
+        awaited.put(seq, command);
+    }
+
+    /** @return the command sent with {@code seq}, no longer awaited (its publish failed), or null */
+    PlannedCommand forget(long seq) {
+        return awaited.remove(seq);
     }
 
     /**
-     * @return whether the ack answers a command this controller sent and had not had answered; an
-     *         unknown ack is counted and journaled
+     * @return the command the ack answers, if it is one this controller sent and had not had answered;
+     *         else null, and the unknown ack is counted and journaled
      */
-    boolean match(CommandAck ack, long receivedAtMs) {
-        if (ack.controllerId().equals(controllerId) && ack.unit().equals(awaited.get(ack.commandSeq()))) {
+    PlannedCommand match(CommandAck ack, long receivedAtMs) {
+        PlannedCommand c = awaited.get(ack.commandSeq());
+        if (ack.controllerId().equals(controllerId) && c != null && ack.unit().equals(c.unitId())) {
             awaited.remove(ack.commandSeq());
             matched++;
-            return true;
+            return c;
         }
         unknown++;
         if (journal != null) {
@@ -64,7 +72,7 @@ final class SentCommands {
             f.put("commandSeq", ack.commandSeq());
             journal.append(receivedAtMs, JournalFormat.KIND_RECEIVED, f);
         }
-        return false;
+        return null;
     }
 
     long matchedCount() { return matched; }
