@@ -168,9 +168,18 @@ final class CommandPathFigures {
      *         very same frequency and interchange (a frozen meter: real readings always move a little)
      */
     static boolean isStaleOrFrozen(List<PlantSideAce.Reading> metered, long tMs, double scanS) {
+        // the last reading at or before tMs (readings are in time order): binary search, not a scan per command
+        int lo = 0;
+        int hi = metered.size() - 1;
         int i = -1;
-        for (int k = 0; k < metered.size() && metered.get(k).tMs() <= tMs; k++) {
-            i = k;
+        while (lo <= hi) {
+            int mid = (lo + hi) >>> 1;
+            if (metered.get(mid).tMs() <= tMs) {
+                i = mid;
+                lo = mid + 1;
+            } else {
+                hi = mid - 1;
+            }
         }
         if (i < 0 || tMs - metered.get(i).tMs() > STALE_SCAN_PERIODS * scanS * 1000) {
             return true;
