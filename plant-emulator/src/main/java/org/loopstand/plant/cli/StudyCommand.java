@@ -3,10 +3,12 @@ package org.loopstand.plant.cli;
 import java.nio.file.Path;
 import java.util.concurrent.Callable;
 
+import org.loopstand.plant.check.CheckOutcome;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.Scenario;
-import org.loopstand.plant.scenario.ScenarioLoader;
+import org.loopstand.plant.scenario.RunScenario;
+import org.loopstand.plant.scenario.RunScenarioLoader;
 import org.loopstand.plant.site.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.plant.study.ProgressReporter;
@@ -23,7 +25,8 @@ public final class StudyCommand implements Callable<Integer> {
     @Option(names = "--site", required = true, description = "site file (YAML)")
     private Path site;
 
-    @Option(names = "--scenario", required = true, description = "scenario file (YAML)")
+    @Option(names = "--scenario", required = true,
+            description = "scenario file (YAML); a rehearsal scenario too: its faults apply to the physics, its checks are decided, its rate is unused")
     private Path scenarioFile;
 
     @Option(names = "--out", required = true, description = "output directory (created if missing)")
@@ -42,7 +45,9 @@ public final class StudyCommand implements Callable<Integer> {
     public Integer call() throws Exception {
         try {
             Grid grid = SiteLoader.loadForRun(site, System.err::println);
-            Scenario scenario = ScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
+            // one scenario format for every run: a rehearsal scenario's rate is unused here, its checks decided on the physics
+            RunScenario rehearsal = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
+            Scenario scenario = rehearsal.scenario();
             if (durationS != null) {
                 if (!(durationS > 0)) {
                     System.err.println("--duration must be greater than 0 s, got " + durationS);
@@ -57,10 +62,15 @@ public final class StudyCommand implements Callable<Integer> {
                 scenario = scenario.withTraceIntervalS(traceIntervalS);
             }
             ProgressReporter progress = System.console() != null ? ProgressReporter.terminal(System.err) : ProgressReporter.NONE;
-            StudyResult r = new StudyRunner(grid, scenario, WallClock.INSTANCE, progress).run(out);
+            StudyRunner runner = new StudyRunner(grid, new RunScenario(scenario, rehearsal.rateX(), rehearsal.faults(),
+                    rehearsal.checks()), WallClock.INSTANCE, progress);
+            StudyResult r = runner.run(out);
             System.out.printf(java.util.Locale.ROOT, "wrote %s and %s (%.0f s simulated)%n",
                     out.resolve("trace.csv"), out.resolve("summary.json"), r.simulatedSeconds());
             System.out.println((r.settled() ? "settled: " : "NOT settled (end values are a snapshot): ") + r.settledCriterion());
+            for (CheckOutcome o : runner.checkOutcomes()) {
+                System.out.println("check (physics only, no secondary control) " + o);
+            }
             return 0;
         } catch (ConfigFileException e) {
             System.err.println("refused:");

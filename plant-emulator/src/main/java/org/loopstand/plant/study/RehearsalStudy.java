@@ -1,11 +1,10 @@
 package org.loopstand.plant.study;
 
-import java.util.ArrayList;
 import java.util.List;
 import java.util.function.Function;
 
 import org.loopstand.plant.check.CheckOutcome;
-import org.loopstand.plant.check.CheckSpec;
+import org.loopstand.plant.engine.ScenarioEngine;
 import org.loopstand.plant.check.RunRecord;
 import org.loopstand.plant.fault.FaultEngine;
 import org.loopstand.plant.fault.FaultObserver;
@@ -13,32 +12,30 @@ import org.loopstand.plant.fault.FaultSpec;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.physics.GridSimulator;
 import org.loopstand.plant.physics.StepSizeRule;
-import org.loopstand.plant.scenario.PlantControls;
 import org.loopstand.plant.scenario.RunScenario;
-import org.loopstand.plant.scenario.ScenarioContext;
-import org.loopstand.plant.scenario.ScenarioEvent;
 import org.loopstand.protocol.agent.Agent;
 import org.loopstand.protocol.time.VirtualClock;
 
 /**
- * Runs a rehearsal scenario in study mode (lockstep on a virtual clock): physics, scenario events,
- * fault windows and, after every physics step, the participants the caller plugs in (the plant on the
- * bus, a controller, an in-memory broker's delivery); then evaluates the scenario's checks over the
- * run record. With no participants it is the physics alone: the checks then show what the grid does
- * without secondary control.
+ * Runs a rehearsal scenario in study mode (lockstep on a virtual clock): the {@link ScenarioEngine}
+ * fires the events, updates the fault windows and steps the physics; after every step the
+ * participants the caller plugs in run (the plant on the bus, a controller, an in-memory broker's
+ * delivery); then the scenario's checks are decided over the run record. With no participants it is
+ * the physics alone: the checks then show what the grid does without secondary control.
  */
-public final class RehearsalStudy implements ScenarioContext {
+public final class RehearsalStudy {
     /** Scenario time of t = 0 in study runs, epoch ms (2026-01-01T00:00:00Z). */
     public static final long START_EPOCH_MS = 1_767_225_600_000L;
 
     /**
      * What participants are built from.
      *
-     * @param plantControls a participant that is the plant on the bus hands its controls here, so that
-     *                      plant events (scheduleChange, modeChange) reach it
+     * @param engine the scenario loop that steps the physics: a participant that is the plant on the bus
+     *               follows its steps and hands it the plant's controls, so that plant events
+     *               (scheduleChange, modeChange) reach it
      */
     public record Context(Grid grid, GridSimulator sim, VirtualClock clock, FaultEngine faults, RunRecord record,
-                          RunScenario scenario, java.util.function.Consumer<PlantControls> plantControls) {
+                          RunScenario scenario, ScenarioEngine engine) {
     }
 
     /** The checks' verdicts and the record they were read from. */
@@ -53,15 +50,12 @@ public final class RehearsalStudy implements ScenarioContext {
         }
     }
 
-    private final Grid grid;
     private final RunScenario scenario;
-    private final GridSimulator sim;
     private final VirtualClock clock = new VirtualClock(START_EPOCH_MS);
     private final RunRecord record = new RunRecord(START_EPOCH_MS);
     private final FaultEngine faults;
+    private final ScenarioEngine engine;
     private final List<Agent> participants;
-    private final double sampleIntervalS;
-    private PlantControls plant;
 
     /**
      * @param sampleIntervalS how often the truth is sampled into the record, s (a multiple of the step)
@@ -70,35 +64,20 @@ public final class RehearsalStudy implements ScenarioContext {
      */
     public RehearsalStudy(Grid grid, RunScenario scenario, double sampleIntervalS, Function<Context, List<Agent>> participants,
             FaultObserver extraObserver) {
-        this.grid = grid;
         this.scenario = scenario;
         var s = scenario.scenario();
         double stepS = Double.isNaN(s.stepS()) ? new StepSizeRule(grid).defaultStepS() : s.stepS();
-        this.sim = new GridSimulator(grid, stepS, s.seed(), s.startHourOfDay());
-        this.sampleIntervalS = sampleIntervalS;
+        GridSimulator sim = new GridSimulator(grid, stepS, s.seed(), s.startHourOfDay());
         this.faults = new FaultEngine(clock, START_EPOCH_MS, FaultObserver.all(List.of(record, extraObserver)));
         for (FaultSpec f : scenario.faults()) {
             faults.schedule(f).ifPresent(why -> {
                 throw new IllegalArgumentException("fault " + f.id() + ": " + why);
             });
         }
+        this.engine = new ScenarioEngine(sim, clock, s.events()).endAt(s.durationS()).withFaults(faults)
+                .recordInto(record, sampleIntervalS);
         this.participants = List.copyOf(participants.apply(new Context(grid, sim, clock, faults, record, scenario,
-                p -> this.plant = p)));
-    }
-
-    @Override
-    public GridSimulator grid() {
-        return sim;
-    }
-
-    @Override
-    public PlantControls plant() {
-        return plant;
-    }
-
-    @Override
-    public void scheduleChanged(String area, double scheduledNetInterchangeMw, double scheduledFrequencyHz) {
-        record.scheduleChanged(sim.timeS(), area, scheduledNetInterchangeMw, scheduledFrequencyHz);
+                engine)));
     }
 
     public FaultEngine faults() {
@@ -111,38 +90,16 @@ public final class RehearsalStudy implements ScenarioContext {
 
     /** Runs the scenario to its end and evaluates its checks. */
     public Result run() {
-        double stepS = sim.stepS();
-        long stepNanos = Math.round(stepS * 1e9);
-        long totalSteps = Math.round(scenario.scenario().durationS() / stepS);
-        long sampleEvery = Math.max(1, Math.round(sampleIntervalS / stepS));
-        List<ScenarioEvent> events = scenario.scenario().events();
         participants.forEach(Agent::onStart);
-        int next = 0;
-        double tolerance = stepS * 1e-6;
-        record.sampleTruth(0, sim);
-        for (long k = 0; k < totalSteps; k++) {
-            while (next < events.size() && events.get(next).atS() <= sim.timeS() + tolerance) {
-                ScenarioEvent e = events.get(next++);
-                e.apply(this);
-                record.event(sim.timeS(), e.type(), e.toString());
+        engine.runToEnd(clock, new ScenarioEngine.StepHook() {
+            @Override
+            public void stepped(long latenessNanos) {
+                for (Agent a : participants) {
+                    a.doWork();
+                }
             }
-            faults.update();
-            sim.step();
-            clock.advanceNanos(stepNanos);
-            for (Agent a : participants) {
-                a.doWork();
-            }
-            if ((k + 1) % sampleEvery == 0) {
-                record.sampleTruth(sim.timeS(), sim);
-            }
-        }
-        faults.update();
+        });
         participants.forEach(Agent::onClose);
-        record.end(sim.timeS());
-        List<CheckOutcome> outcomes = new ArrayList<>();
-        for (CheckSpec c : scenario.checks()) {
-            outcomes.add(c.evaluate(record, grid));
-        }
-        return new Result(outcomes, record);
+        return new Result(engine.decideChecks(scenario.checks()), record);
     }
 }

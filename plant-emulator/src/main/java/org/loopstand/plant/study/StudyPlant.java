@@ -25,8 +25,8 @@ import org.loopstand.protocol.topic.TopicTree;
  * {@link InMemoryBroker} (every connection made by the broker, so last wills and reconnects behave as
  * on MQTT), the scenario's fault stages wired in with {@link FaultHooks} (the study's engine, the run
  * record as observer), and a recorder connection that puts every published {@link ControllerStatus}
- * into the run record. The physics is stepped by the study; the plant agent only runs its units,
- * meters and faults after each step. A controller under test connects to the same broker.
+ * into the run record. The physics is stepped by the study's scenario engine; the plant agent follows
+ * its steps and only runs its units, meters and faults after each step. A controller under test connects to the same broker.
  */
 public final class StudyPlant implements Agent {
     private final PlantRunner plant;
@@ -53,9 +53,9 @@ public final class StudyPlant implements Agent {
     public static StudyPlant on(RehearsalStudy.Context c, InMemoryBroker broker, PlantOptions options, boolean live) {
         PlantRunner plant = new PlantRunner(c.sim(), List.of(), options, broker::connect, c.clock(), w -> {
         });
+        plant.agent().followSteps(c.engine());
         FaultHooks hooks = FaultHooks.wire(plant, c.faults(), c.record(), c.record(), c.clock(), options.seed(), live);
         recordStatuses(broker, plant.topics(), c);
-        c.plantControls().accept(plant.agent().plant());
         return new StudyPlant(plant, hooks);
     }
 

@@ -1,0 +1,52 @@
+package org.loopstand.plant.runtime;
+
+import java.util.List;
+
+import org.loopstand.plant.scenario.PlantControls;
+import org.loopstand.protocol.bus.MessageBus;
+import org.loopstand.protocol.bus.OutboundMessage;
+import org.loopstand.protocol.bus.Qos;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.message.ControlMode;
+import org.loopstand.protocol.message.Schedule;
+import org.loopstand.protocol.time.Clock;
+import org.loopstand.protocol.topic.TopicTree;
+
+/**
+ * The plant's controls as scenario events see them: a schedule change goes out retained on the
+ * area's schedule topic, a control mode change reaches the unit's plant interface. Loop thread only.
+ */
+final class BusPlantControls implements PlantControls {
+    private final Clock clock;
+    private final MessageBus plantBus;
+    private final TopicTree topics;
+    private final MessageCodec codec;
+    private final List<UnitHost> units;
+    private long scheduleSeq;
+
+    BusPlantControls(Clock clock, MessageBus plantBus, TopicTree topics, MessageCodec codec, List<UnitHost> units) {
+        this.clock = clock;
+        this.plantBus = plantBus;
+        this.topics = topics;
+        this.codec = codec;
+        this.units = units;
+        this.scheduleSeq = clock.epochMillis();
+    }
+
+    @Override
+    public void publishSchedule(String area, double scheduledNetInterchangeMw, double scheduledFrequencyHz) {
+        long now = clock.epochMillis();
+        Schedule s = new Schedule(scheduleSeq++, now, area, scheduledNetInterchangeMw, scheduledFrequencyHz, now);
+        // retained: a controller that connects later still finds the schedule in force
+        plantBus.publish(new OutboundMessage(topics.areaSchedule(area), codec.encode(s), Qos.AT_LEAST_ONCE, true, 0));
+    }
+
+    @Override
+    public void setControlMode(String unit, ControlMode mode, String why) {
+        for (UnitHost h : units) {
+            if (h.unit().unitId().equals(unit)) {
+                h.unit().setControlMode(mode, why);
+            }
+        }
+    }
+}
