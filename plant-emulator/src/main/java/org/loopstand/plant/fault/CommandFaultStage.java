@@ -53,22 +53,15 @@ public final class CommandFaultStage implements Agent {
         long delayMs = 0;
         int copies = 1;
         for (FaultSpec f : faults) {
-            switch (f.type().name()) {
-                case "commandDrop" -> {
-                    if (random.nextDouble() < f.number("dropProbability")) {
-                        observer.commandPassed(clock.epochMillis(), command, DROPPED, ids);
-                        return;
-                    }
-                }
-                case "commandDelay" -> delayMs += Math.round(f.number("delayMs") + random.nextDouble() * f.number("jitterMs"));
-                case "commandDuplicate" -> {
-                    if (random.nextDouble() < f.number("duplicateProbability")) {
-                        copies += (int) Math.round(f.number("copies"));
-                    }
-                }
-                default -> {
-                }
+            if (!(f.behaviour() instanceof CommandFault cf)) {
+                continue;
             }
+            if (cf.drops(random)) {
+                observer.commandPassed(clock.epochMillis(), command, DROPPED, ids);
+                return;
+            }
+            delayMs += cf.delayMs(random);
+            copies += cf.extraCopies(random);
         }
         List<String> touched = new ArrayList<>(ids);
         for (int c = 0; c < copies; c++) {

@@ -136,21 +136,17 @@ public final class FaultEngine {
         w.startedAtMs = nowMs();
         active.add(w.spec);
         observer.faultStarted(w.startedAtMs, w.spec, w.source);
-        if (w.spec.type().name().equals("plantTrip")) {
+        if (w.spec.behaviour() instanceof PlantFault pf && pf.tripsUnit()) {
             w.spec.targets().forEach(t -> tripOrdered.add(t.id()));
         }
-        if (w.spec.type().category() == FaultCategory.CONNECTION) {
+        if (w.spec.behaviour() instanceof LinkFault lf) {
             for (FaultTarget t : w.spec.targets()) {
                 LinkFaultControl link = links.get(t.id());
                 if (link == null) {
                     continue; // study mode: the publication stage emulates the outage for its own connection
                 }
-                if (w.spec.type().name().equals("disconnectAbrupt")) {
-                    link.disconnectAbruptly();
-                } else {
-                    link.disconnectCleanly();
-                }
-                double refuse = w.spec.number("refuseReconnectS");
+                lf.cut(link);
+                double refuse = lf.refuseReconnectS();
                 link.refuseReconnectForS(Double.isNaN(refuse) ? w.spec.endS() - w.spec.startS() : refuse);
             }
         }
@@ -160,7 +156,7 @@ public final class FaultEngine {
         w.ended = true;
         active.remove(w.spec);
         observer.faultStopped(nowMs(), w.spec, w.source, reason);
-        if (w.spec.type().category() == FaultCategory.CONNECTION && Double.isNaN(w.spec.number("refuseReconnectS"))) {
+        if (w.spec.behaviour() instanceof LinkFault lf && Double.isNaN(lf.refuseReconnectS())) {
             for (FaultTarget t : w.spec.targets()) {
                 LinkFaultControl link = links.get(t.id());
                 if (link != null) {

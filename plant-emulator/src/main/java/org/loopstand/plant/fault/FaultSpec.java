@@ -21,12 +21,20 @@ import org.loopstand.protocol.message.Ids;
  * @param parameters every parameter of the type: Double for numbers, String for texts
  * @param startS     window start, scenario s, ≥ 0
  * @param endS       window end, scenario s, &gt; startS; +∞ = until stopped
+ * @param behaviour  what the fault does, bound to its parameters (typed; the stages read only this)
  */
 public record FaultSpec(String id, FaultType type, List<FaultTarget> targets, Map<String, Object> parameters,
-                        double startS, double endS) {
+                        double startS, double endS, FaultBehaviour behaviour) {
     public FaultSpec {
         targets = List.copyOf(targets);
         parameters = Collections.unmodifiableMap(new LinkedHashMap<>(parameters));
+        Objects.requireNonNull(behaviour, "behaviour");
+    }
+
+    /** Binds the type's behaviour to {@code parameters}. */
+    public FaultSpec(String id, FaultType type, List<FaultTarget> targets, Map<String, Object> parameters,
+                     double startS, double endS) {
+        this(id, type, targets, parameters, startS, endS, type.bind(parameters));
     }
 
     public static Builder builder(FaultLibrary library, TargetCatalog catalog) {
@@ -48,6 +56,12 @@ public record FaultSpec(String id, FaultType type, List<FaultTarget> targets, Ma
             throw new IllegalArgumentException("fault type " + type.name() + " has no text parameter '" + name + "'");
         }
         return s;
+    }
+
+    /** @return which meter of an area target the fault acts on ({@link FaultLibrary#ALL_METERS} = every one); null when the type has none */
+    public String meter() {
+        Object v = parameters.get("meter");
+        return v instanceof String s ? s : null;
     }
 
     /** @return the meter point for area targets: frequency, netInterchange or a tie id; null when the type has none */
@@ -234,7 +248,7 @@ public record FaultSpec(String id, FaultType type, List<FaultTarget> targets, Ma
                             + t.id() + " (ties: " + catalog.ties() + ")"));
                 }
             }
-            if (type.name().equals("stuckAt")) {
+            if (type.behaviour() == ValueFault.StuckAt.class) {
                 boolean needsHz = anyArea && point.equals(FaultLibrary.POINT_FREQUENCY);
                 boolean needsMw = anyUnit || (anyArea && !point.equals(FaultLibrary.POINT_FREQUENCY));
                 if (needsHz && Double.isNaN((Double) params.get("valueHz"))) {

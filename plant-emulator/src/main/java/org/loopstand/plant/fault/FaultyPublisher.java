@@ -1,7 +1,6 @@
 package org.loopstand.plant.fault;
 
 import java.util.ArrayList;
-import java.util.EnumSet;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
@@ -19,8 +18,9 @@ import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.topic.TopicTree;
 
 /**
- * The fault stage between "record built from the physics" and {@link MessageBus#publish}: stale,
- * value, clock, loss and delivery faults act here on a copy, the truth record is left as it is and
+ * The fault stage between "record built from the physics" and {@link MessageBus#publish}: each active
+ * {@link StreamFault} shapes the outgoing copy (stale, clock, value), then rules on its loss, then on
+ * its delay and copies; the truth record is left as it is and
  * both are told to the {@link FaultObserver}. Delayed messages wait in a bounded {@link DelayLine}
  * released by {@link #doWork()} on the injected clock; nothing here sleeps. Single-threaded: the agent
  * that builds the records calls every method.
@@ -28,9 +28,6 @@ import org.loopstand.protocol.topic.TopicTree;
 public final class FaultyPublisher implements Agent {
     /** Default most messages held back at once. */
     public static final int DEFAULT_DELAY_CAPACITY = 10_000;
-
-    private static final EnumSet<FaultCategory> STREAM_CATEGORIES = EnumSet.of(FaultCategory.LOSS, FaultCategory.STALE,
-            FaultCategory.TIMING, FaultCategory.VALUE);
 
     private final String connectionId;
     private final MessageBus bus;
@@ -43,7 +40,7 @@ public final class FaultyPublisher implements Agent {
     private final Qos measurementQos;
     private final SplittableRandom random;
     private final DelayLine<Pending> delayLine;
-    private final Map<String, StreamState> streams = new HashMap<>();
+    private final Map<String, StreamMemory> streams = new HashMap<>();
     private final AtomicLong busFailures = new AtomicLong();
 
     /**
@@ -72,8 +69,8 @@ public final class FaultyPublisher implements Agent {
     public void publishMeter(AreaMeter truth) {
         List<FaultSpec> faults = new ArrayList<>();
         for (FaultSpec f : engine.active(TargetKind.AREA, truth.area())) {
-            String meter = (String) f.parameters().get("meter");
-            if (STREAM_CATEGORIES.contains(f.type().category())
+            String meter = f.meter();
+            if (f.behaviour() instanceof StreamFault
                     && (meter == null || meter.equals(FaultLibrary.ALL_METERS) || meter.equals(truth.meter()))) {
                 faults.add(f);
             }
@@ -86,7 +83,7 @@ public final class FaultyPublisher implements Agent {
     public void publishTelemetry(UnitTelemetry truth) {
         List<FaultSpec> faults = new ArrayList<>();
         for (FaultSpec f : engine.active(TargetKind.UNIT, truth.unit())) {
-            if (STREAM_CATEGORIES.contains(f.type().category())) {
+            if (f.behaviour() instanceof StreamFault) {
                 faults.add(f);
             }
         }
@@ -119,7 +116,7 @@ public final class FaultyPublisher implements Agent {
     }
 
     private void process(String stream, String topic, Object truth, List<FaultSpec> faults, double nominalHz) {
-        StreamState st = streams.computeIfAbsent(stream, k -> new StreamState());
+        StreamMemory st = streams.computeIfAbsent(stream, k -> new StreamMemory());
         st.forgetEnded(faults);
         if (engine.connectionDown(connectionId)) {
             List<String> ids = engine.active(FaultCategory.CONNECTION, TargetKind.CONNECTION, connectionId).stream()
@@ -130,46 +127,33 @@ public final class FaultyPublisher implements Agent {
             return;
         }
         List<String> ids = faults.stream().map(FaultSpec::id).toList();
-        Object rec = truth;
-        boolean repeated = false;
-        List<ValueFaults.Applied> values = new ArrayList<>();
-        long clockShiftMs = 0;
+        List<StreamFault> kinds = new ArrayList<>();
+        MessageDraft draft = new MessageDraft(truth, st);
         for (FaultSpec f : faults) {
-            double activeS = engine.activeForS(f);
-            switch (f.type().name()) {
-                case "repeatLast" -> {
-                    if (st.lastSent != null) {
-                        rec = st.lastSent;
-                        repeated = true;
-                    }
-                }
-                case "freezeValue" -> rec = Records.withValuesOf(rec,
-                        st.frozen.computeIfAbsent(f.id(), k -> st.lastTruth != null ? st.lastTruth : truth));
-                case "freezeTimestamp" -> rec = Records.withSourceTime(rec, st.frozenTime.computeIfAbsent(f.id(),
-                        k -> Records.sourceTime(st.lastTruth != null ? st.lastTruth : truth)));
-                case "clockOffset" -> clockShiftMs += Math.round(f.number("offsetMs"));
-                case "clockDrift" -> clockShiftMs += Math.round(f.number("driftMsPerS") * activeS);
-                case "holdLast" -> values.add(new ValueFaults.Applied(f, activeS, st.count(f.id()),
-                        st.frozen.computeIfAbsent(f.id(), k -> st.lastTruth != null ? st.lastTruth : truth)));
-                default -> {
-                    if (f.type().category() == FaultCategory.VALUE) {
-                        values.add(new ValueFaults.Applied(f, activeS, st.count(f.id())));
-                    }
-                }
-            }
+            StreamFault k = (StreamFault) f.behaviour();
+            kinds.add(k);
+            draft.activeForS(engine.activeForS(f));
+            k.shape(f, draft);
         }
+        Object rec = draft.record();
         st.lastTruth = truth;
-        faults.forEach(f -> st.counts.merge(f.id(), 1, Integer::sum));
-        if (!repeated) {
-            if (!values.isEmpty()) {
-                rec = rec instanceof AreaMeter m ? ValueFaults.apply(m, values, nominalHz, random)
-                        : ValueFaults.apply((UnitTelemetry) rec, values, random);
+        st.counted(faults);
+        if (!draft.repeated()) {
+            if (!draft.values().isEmpty()) {
+                rec = rec instanceof AreaMeter m ? ValueFaults.apply(m, draft.values(), nominalHz, random)
+                        : ValueFaults.apply((UnitTelemetry) rec, draft.values(), random);
             }
-            if (clockShiftMs != 0) {
-                rec = Records.withSourceTime(rec, Records.sourceTime(rec) + clockShiftMs);
+            if (draft.clockShiftMs() != 0) {
+                rec = Records.withSourceTime(rec, Records.sourceTime(rec) + draft.clockShiftMs());
             }
         }
-        String lost = lossVerdict(st, faults);
+        String lost = null;
+        for (StreamFault k : kinds) {
+            String why = k.lossVerdict(st, random);
+            if (why != null) {
+                lost = why;
+            }
+        }
         if (lost != null) {
             observer.published(clock.epochMillis(), new Publication(stream, topic, truth, null, Publication.DROPPED, ids, lost));
             return;
@@ -184,22 +168,9 @@ public final class FaultyPublisher implements Agent {
         }
         long delayMs = 0;
         int copies = 1;
-        for (FaultSpec f : faults) {
-            switch (f.type().name()) {
-                case "delay" -> delayMs += Math.round(f.number("delayMs") + random.nextDouble() * f.number("jitterMs"));
-                case "reorder" -> {
-                    if (random.nextDouble() < f.number("reorderProbability")) {
-                        delayMs += Math.round(f.number("holdMs"));
-                    }
-                }
-                case "duplicate" -> {
-                    if (random.nextDouble() < f.number("duplicateProbability")) {
-                        copies += (int) Math.round(f.number("copies"));
-                    }
-                }
-                default -> {
-                }
-            }
+        for (StreamFault k : kinds) {
+            delayMs += k.delayMs(random);
+            copies += k.extraCopies(random);
         }
         for (int c = 0; c < copies; c++) {
             String detail = (delayMs > 0 ? "held " + delayMs + " ms" : "") + (c > 0 ? (delayMs > 0 ? ", " : "") + "copy " + c : "");
@@ -211,32 +182,6 @@ public final class FaultyPublisher implements Agent {
                         ids, "delay line full (" + held() + " messages held)"));
             }
         }
-    }
-
-    private String lossVerdict(StreamState st, List<FaultSpec> faults) {
-        String lost = null;
-        for (FaultSpec f : faults) {
-            switch (f.type().name()) {
-                case "blackout" -> lost = "blackout";
-                case "drop" -> {
-                    if (random.nextDouble() < f.number("dropProbability")) {
-                        lost = "dropped";
-                    }
-                }
-                case "burstLoss" -> {
-                    if (st.burstLeft > 0) {
-                        st.burstLeft--;
-                        lost = "in a loss burst";
-                    } else if (random.nextDouble() < f.number("burstStartProbability")) {
-                        st.burstLeft = (int) Math.round(f.number("burstLengthMessages")) - 1;
-                        lost = "a loss burst started";
-                    }
-                }
-                default -> {
-                }
-            }
-        }
-        return lost;
     }
 
     private void send(Pending p) {
@@ -255,31 +200,7 @@ public final class FaultyPublisher implements Agent {
                 p.faultIds, p.detail));
     }
 
-    private record Pending(StreamState state, String stream, String topic, Object truth, Object published, byte[] bytes,
+    private record Pending(StreamMemory state, String stream, String topic, Object truth, Object published, byte[] bytes,
                            List<String> faultIds, String detail) {
-    }
-
-    /** What the stale and loss faults remember about one stream. */
-    private static final class StreamState {
-        Object lastTruth;
-        Object lastSent;
-        int burstLeft;
-        final Map<String, Object> frozen = new HashMap<>();
-        final Map<String, Long> frozenTime = new HashMap<>();
-        final Map<String, Integer> counts = new HashMap<>();
-
-        int count(String faultId) {
-            return counts.getOrDefault(faultId, 0);
-        }
-
-        void forgetEnded(List<FaultSpec> active) {
-            List<String> ids = active.stream().map(FaultSpec::id).toList();
-            frozen.keySet().retainAll(ids);
-            frozenTime.keySet().retainAll(ids);
-            counts.keySet().retainAll(ids);
-            if (active.stream().noneMatch(f -> f.type().name().equals("burstLoss"))) {
-                burstLeft = 0;
-            }
-        }
     }
 }

@@ -1,6 +1,7 @@
 package org.loopstand.plant.fault;
 
 import java.util.List;
+import java.util.function.Predicate;
 
 /** {@link PlantFaultFlags} of one unit read live from the engine's active faults. */
 final class PlantFlagsView implements PlantFaultFlags {
@@ -12,28 +13,28 @@ final class PlantFlagsView implements PlantFaultFlags {
         this.unit = unit;
     }
 
-    private boolean has(String type) {
-        return plantFaults().stream().anyMatch(f -> f.type().name().equals(type));
+    private boolean any(Predicate<PlantFault> effect) {
+        return plantFaults().stream().anyMatch(effect);
     }
 
-    private List<FaultSpec> plantFaults() {
-        return engine.active(FaultCategory.PLANT, TargetKind.UNIT, unit);
+    private List<PlantFault> plantFaults() {
+        return engine.active(FaultCategory.PLANT, TargetKind.UNIT, unit).stream()
+                .map(FaultSpec::behaviour).filter(PlantFault.class::isInstance).map(PlantFault.class::cast).toList();
     }
 
     @Override
     public boolean ignorePulses() {
-        return has("ignorePulses");
+        return any(PlantFault::ignoresPulses);
     }
 
     @Override
     public double slowFactor() {
-        return plantFaults().stream().filter(f -> f.type().name().equals("slowResponse"))
-                .mapToDouble(f -> f.number("slowFactor")).max().orElse(1.0);
+        return plantFaults().stream().mapToDouble(PlantFault::slowFactor).max().orElse(1.0);
     }
 
     @Override
     public boolean swapRaiseLower() {
-        return has("swapRaiseLower");
+        return any(PlantFault::swapsRaiseLower);
     }
 
     @Override
@@ -43,11 +44,11 @@ final class PlantFlagsView implements PlantFaultFlags {
 
     @Override
     public boolean forcedLocal() {
-        return has("switchToLocal");
+        return any(PlantFault::forcesLocal);
     }
 
     @Override
     public boolean applyExpiredCommands() {
-        return has("applyExpired");
+        return any(PlantFault::appliesExpiredCommands);
     }
 }

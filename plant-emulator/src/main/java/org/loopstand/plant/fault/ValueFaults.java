@@ -1,16 +1,13 @@
 package org.loopstand.plant.fault;
 
 import java.util.ArrayList;
-import java.util.EnumSet;
 import java.util.List;
 import java.util.random.RandomGenerator;
 
 import org.loopstand.protocol.message.AreaMeter;
 import org.loopstand.protocol.message.Quality;
-import org.loopstand.protocol.message.QualityFlag;
 import org.loopstand.protocol.message.TieFlow;
 import org.loopstand.protocol.message.UnitTelemetry;
-import org.loopstand.protocol.message.Validity;
 
 /**
  * Value faults as pure transforms of one outgoing record: the truth record is never changed, a new
@@ -94,35 +91,10 @@ public final class ValueFaults {
      * @param nominalHz the area's nominal frequency, for scale and sign flip of a frequency
      */
     static double value(Applied a, double v, boolean hz, double nominalHz, RandomGenerator random) {
-        FaultSpec s = a.spec();
-        return switch (s.type().name()) {
-            case "bias" -> hz ? v + s.number("offsetMhz") / 1000.0 : v + s.number("offsetMw");
-            case "drift" -> hz ? v + s.number("driftMhzPerMin") / 1000.0 * a.activeForS() / 60.0
-                    : v + s.number("driftMwPerMin") * a.activeForS() / 60.0;
-            case "scale" -> hz ? nominalHz + (v - nominalHz) * s.number("factor") : v * s.number("factor");
-            case "signFlip" -> hz ? nominalHz - (v - nominalHz) : -v;
-            case "noise" -> v + random.nextGaussian() * (hz ? s.number("sigmaMhz") / 1000.0 : s.number("sigmaMw"));
-            case "spike" -> a.messageIndex() < s.number("spikeMessages")
-                    ? v + (hz ? s.number("spikeMhz") / 1000.0 : s.number("spikeMw")) : v;
-            case "stuckAt" -> hz ? s.number("valueHz") : s.number("valueMw");
-            default -> v;
-        };
+        return a.spec().behaviour() instanceof ValueFault f ? f.value(v, hz, nominalHz, a, random) : v;
     }
 
     static Quality quality(Applied a, Quality q) {
-        if (!a.spec().type().name().equals("quality")) {
-            return q;
-        }
-        Validity validity = a.spec().text("validity").equals("questionable") ? Validity.QUESTIONABLE : Validity.INVALID;
-        EnumSet<QualityFlag> flags = q.flags().isEmpty() ? EnumSet.noneOf(QualityFlag.class) : EnumSet.copyOf(q.flags());
-        String flag = a.spec().text("flag");
-        if (!flag.equals("none")) {
-            for (QualityFlag qf : QualityFlag.values()) {
-                if (qf.wireName().equals(flag)) {
-                    flags.add(qf);
-                }
-            }
-        }
-        return new Quality(validity, flags);
+        return a.spec().behaviour() instanceof ValueFault f ? f.quality(q) : q;
     }
 }
