@@ -1,4 +1,4 @@
-package org.loopstand.plant.rehearsal;
+package org.loopstand.app.rehearsal;
 
 import java.util.concurrent.locks.LockSupport;
 import java.util.function.BooleanSupplier;

@@ -1,4 +1,4 @@
-package org.loopstand.plant.cli;
+package org.loopstand.app.cli;
 
 import java.io.IOException;
 import java.nio.file.Files;

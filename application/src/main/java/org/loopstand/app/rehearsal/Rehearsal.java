@@ -1,4 +1,4 @@
-package org.loopstand.plant.rehearsal;
+package org.loopstand.app.rehearsal;
 
 import java.io.IOException;
 import java.io.PrintStream;
@@ -300,7 +300,7 @@ public final class Rehearsal {
 
     List<String> plantCommand(Path run) {
         List<String> c = new ArrayList<>(List.of(s.javaCommand(), "-cp", s.plantClassPath(),
-                "org.loopstand.plant.cli.PlantCli", "plant", "--site", s.siteFile().toString(),
+                PlantCli.class.getName(), "plant", "--site", s.siteFile().toString(),
                 "--scenario", s.scenarioFile().toString(), "--rate", trim(s.rate()), "--journal", run.toString(),
                 "--linger-s", "60", "--wait-go", "--accept-controller", s.controller().controllerId()));
         if (s.wireProfile() != null) {

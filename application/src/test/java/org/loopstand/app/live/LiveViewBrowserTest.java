@@ -1,4 +1,4 @@
-package org.loopstand.plant.live;
+package org.loopstand.app.live;
 
 import static org.assertj.core.api.Assertions.assertThat;
 import static org.assertj.core.api.Assertions.fail;
@@ -21,8 +21,8 @@ import org.awaitility.Awaitility;
 import org.junit.jupiter.api.Assumptions;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
-import org.loopstand.plant.rehearsal.Rehearsal;
-import org.loopstand.plant.rehearsal.RehearsalSettings;
+import org.loopstand.app.rehearsal.Rehearsal;
+import org.loopstand.app.rehearsal.RehearsalSettings;
 import org.loopstand.protocol.journal.JournalEntry;
 import org.loopstand.protocol.journal.JournalReader;
 import org.loopstand.protocol.time.WallClock;

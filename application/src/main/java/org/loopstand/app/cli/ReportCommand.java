@@ -1,4 +1,4 @@
-package org.loopstand.plant.cli;
+package org.loopstand.app.cli;
 
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -6,6 +6,7 @@ import java.util.List;
 import java.util.Map;
 import java.util.concurrent.Callable;
 
+import org.loopstand.plant.cli.PlantCli;
 import org.loopstand.report.html.HtmlReportWriter;
 import org.loopstand.report.model.ReportModel;
 import org.loopstand.report.run.RunFolder;

@@ -1,4 +1,4 @@
-package org.loopstand.plant.rehearsal;
+package org.loopstand.app.rehearsal;
 
 import java.nio.file.Files;
 import java.nio.file.Path;

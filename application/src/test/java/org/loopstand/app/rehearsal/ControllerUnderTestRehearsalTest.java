@@ -1,4 +1,4 @@
-package org.loopstand.plant.rehearsal;
+package org.loopstand.app.rehearsal;
 
 import static org.assertj.core.api.Assertions.assertThat;
 
