@@ -22,6 +22,9 @@ import picocli.CommandLine.Parameters;
                         + " or CUT SHORT verdict or when a process failed, 2 on bad options, 130 when stopped by Ctrl-C.",
                 "CAUTION: the controller sends raise/lower commands; rehearse only against the emulator or a test broker."})
 public final class RehearsalCommand implements Callable<Integer> {
+    @picocli.CommandLine.Spec
+    picocli.CommandLine.Model.CommandSpec spec;
+
     static final String DEFAULT_SCENARIO = "config/scenarios/rehearse-unit-trip.yaml";
     /** Wall time a rehearsal aims at when the scenario names no rateX, s. */
     static final double TARGET_WALL_S = 120;
@@ -39,7 +42,7 @@ public final class RehearsalCommand implements Callable<Integer> {
     @Option(names = "--runs-dir", defaultValue = "runs", description = "where run folders go (default ${DEFAULT-VALUE})")
     Path runsDir;
 
-    @Option(names = "--port", defaultValue = "1884", description = "port of the embedded broker (default ${DEFAULT-VALUE})")
+    @Option(names = {"--broker-port", "--port"}, defaultValue = "1884", description = "port of the embedded broker (default ${DEFAULT-VALUE})")
     int port;
 
     @Option(names = "--site", description = "site file (default: config/sites/<the scenario's site>.yaml)")
@@ -94,6 +97,8 @@ public final class RehearsalCommand implements Callable<Integer> {
 
     @Override
     public Integer call() throws Exception {
+        org.loopstand.protocol.cli.OldSpellings.of("--port", "--broker-port")
+                .warn(spec.commandLine().getParseResult().originalArgs(), System.err::println);
         Path home = Path.of(System.getenv().getOrDefault("LOOPSTAND_HOME", "."));
         Path scenarioFile = scenario != null ? scenario : home.resolve(DEFAULT_SCENARIO);
         if (!Files.isRegularFile(scenarioFile)) {

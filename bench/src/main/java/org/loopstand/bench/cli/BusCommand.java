@@ -15,13 +15,16 @@ import picocli.CommandLine.Option;
 @Command(name = "bus", mixinStandardHelpOptions = true,
         description = "Generate a site, run plant and controller over a broker beside a raw Paho loop, and write the figures.")
 public final class BusCommand implements Callable<Integer> {
+    @picocli.CommandLine.Spec
+    picocli.CommandLine.Model.CommandSpec spec;
+
     @Option(names = "--units", required = true, description = "units in the generated site")
     int units;
 
     @Option(names = "--areas", defaultValue = "50", description = "areas (default ${DEFAULT-VALUE})")
     int areas;
 
-    @Option(names = "--duration", defaultValue = "60", description = "measured wall seconds after the warm-up (default ${DEFAULT-VALUE})")
+    @Option(names = {"--wall-duration-s", "--duration"}, defaultValue = "60", description = "measured wall seconds after the warm-up (default ${DEFAULT-VALUE})")
     double durationS;
 
     @Option(names = "--warmup", defaultValue = "20", description = "wall seconds before measuring (default ${DEFAULT-VALUE})")
@@ -45,7 +48,7 @@ public final class BusCommand implements Callable<Integer> {
     @Option(names = "--telemetry-ms", defaultValue = "1000", description = "unit telemetry period, ms (default ${DEFAULT-VALUE})")
     long telemetryMs;
 
-    @Option(names = "--meter-ms", defaultValue = "2000", description = "area meter period, ms (default ${DEFAULT-VALUE})")
+    @Option(names = {"--meter-scan-ms", "--meter-ms"}, defaultValue = "2000", description = "area meter period, ms (default ${DEFAULT-VALUE})")
     long meterMs;
 
     @Option(names = "--cycle-s", defaultValue = "4", description = "controller cycle, s (default ${DEFAULT-VALUE})")
@@ -66,11 +69,13 @@ public final class BusCommand implements Callable<Integer> {
     @Option(names = "--load-step-mw", defaultValue = "100", description = "load step in the first area at 5 s and every 60 s, alternating sign, MW; 0 = none (default ${DEFAULT-VALUE})")
     double loadStepMw;
 
-    @Option(names = "--out", description = "run folder (default runs/bench-<time>)")
+    @Option(names = {"--run-dir", "--out"}, description = "run folder (default runs/bench-<time>)")
     Path out;
 
     @Override
     public Integer call() throws Exception {
+        org.loopstand.protocol.cli.OldSpellings.of("--duration", "--wall-duration-s", "--meter-ms", "--meter-scan-ms", "--out", "--run-dir")
+                .warn(spec.commandLine().getParseResult().originalArgs(), System.err::println);
         BenchSettings s;
         try {
             s = settings();

@@ -46,15 +46,18 @@ import picocli.CommandLine.Option;
 @Command(name = "pulse-test", mixinStandardHelpOptions = true,
         description = "Send a pulse programme to one unit and judge its response (docs/pulse-test.md).")
 public final class PulseTestCommand implements Callable<Integer> {
+    @picocli.CommandLine.Spec
+    picocli.CommandLine.Model.CommandSpec spec;
+
     @Option(names = "--unit", required = true, description = "unit id")
     String unit;
     @Option(names = "--site", required = true, description = "site file (declared unit data, site id)")
     Path site;
-    @Option(names = "--broker", defaultValue = "tcp://127.0.0.1:1883", description = "MQTT broker URL (default ${DEFAULT-VALUE})")
+    @Option(names = "--broker", defaultValue = "tcp://127.0.0.1:1884", description = "MQTT broker URL (default ${DEFAULT-VALUE})")
     String broker;
     @Option(names = "--plan", defaultValue = "config/plans/standard.yaml", description = "test plan (default ${DEFAULT-VALUE})")
     Path planFile;
-    @Option(names = "--out", defaultValue = "runs", description = "folder for run folders (default ${DEFAULT-VALUE})")
+    @Option(names = {"--runs-dir", "--out"}, defaultValue = "runs", description = "folder for run folders (default ${DEFAULT-VALUE})")
     Path out;
     @Option(names = "--test-broker", description = "declare a non-loopback broker a test broker")
     boolean testBroker;
@@ -82,6 +85,8 @@ public final class PulseTestCommand implements Callable<Integer> {
 
     @Override
     public Integer call() throws Exception {
+        org.loopstand.protocol.cli.OldSpellings.of("--out", "--runs-dir")
+                .warn(spec.commandLine().getParseResult().originalArgs(), System.err::println);
         PrintStream o = System.out;
         o.println("CAUTIONS");
         SafetyGate.CAUTIONS.forEach(c -> o.println("  - " + c));

@@ -12,7 +12,10 @@ import picocli.CommandLine.Option;
 @Command(name = "broker", mixinStandardHelpOptions = true,
         description = "Run the embedded MQTT 5 broker (HiveMQ CE) until Ctrl-C.")
 public final class BrokerCommand implements Callable<Integer> {
-    @Option(names = "--port", defaultValue = "1884", description = "TCP port, 0 = any free port (default ${DEFAULT-VALUE})")
+    @picocli.CommandLine.Spec
+    picocli.CommandLine.Model.CommandSpec spec;
+
+    @Option(names = {"--broker-port", "--port"}, defaultValue = "1884", description = "TCP port, 0 = any free port (default ${DEFAULT-VALUE})")
     int port;
 
     @Option(names = "--bind", defaultValue = "127.0.0.1", description = "loopback address to listen on (default ${DEFAULT-VALUE}); any other is refused: no auth")
@@ -20,6 +23,8 @@ public final class BrokerCommand implements Callable<Integer> {
 
     @Override
     public Integer call() throws InterruptedException {
+        org.loopstand.protocol.cli.OldSpellings.of("--port", "--broker-port")
+                .warn(spec.commandLine().getParseResult().originalArgs(), System.err::println);
         if (!AuthPolicy.isLoopback(bindAddress)) {
             // this command starts the broker without authentication or TLS: never on a network
             System.err.println("broker: refusing --bind " + bindAddress + ": this broker runs without authentication"

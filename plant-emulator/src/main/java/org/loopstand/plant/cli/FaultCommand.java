@@ -41,8 +41,12 @@ public final class FaultCommand implements Runnable {
     @Option(names = "--broker", defaultValue = "tcp://127.0.0.1:1884", description = "broker URI (default ${DEFAULT-VALUE})")
     String broker;
 
-    @Option(names = "--site", defaultValue = "demo-site", description = "site id (default ${DEFAULT-VALUE})")
+    @Option(names = "--site", description = "site file (YAML), as in every other command; its siteId names the rig"
+            + " (a bare site id here is the old use: still taken, with a deprecation line)")
     String site;
+
+    @Option(names = "--site-id", description = "site id of the rig, instead of --site (default demo-site when neither is given)")
+    String siteId;
 
     /** The same auth options as every other process; under broker auth log in as {@code --username fault-tool}. */
     @Mixin
@@ -152,6 +156,23 @@ public final class FaultCommand implements Runnable {
         }
     }
 
+    /** @return the rig's site id: {@code --site-id}, else the siteId of the {@code --site} file, else demo-site */
+    String resolvedSiteId(java.util.function.Consumer<String> err) throws java.io.IOException {
+        if (siteId != null) {
+            return siteId;
+        }
+        if (site == null) {
+            return "demo-site";
+        }
+        java.nio.file.Path file = java.nio.file.Path.of(site);
+        if (java.nio.file.Files.isRegularFile(file)) {
+            return org.loopstand.plant.site.SiteLoader.load(file).siteId();
+        }
+        err.accept("deprecated: fault --site takes the site file now; give a bare site id with --site-id (the old use"
+                + " goes in release " + org.loopstand.protocol.cli.OldSpellings.REMOVED_IN + ")");
+        return site;
+    }
+
     boolean tryPublish(FaultOrder order) {
         try {
             publish(order);
@@ -170,7 +191,7 @@ public final class FaultCommand implements Runnable {
         System.out.println(CAUTION);
         LinkSecurity security = auth.resolve(broker, System.getenv()); // refuses a non-loopback broker without auth
         System.err.println(security.startMessage());
-        TopicTree topics = TopicTree.forSite(site);
+        TopicTree topics = TopicTree.forSite(resolvedSiteId(System.err::println));
         byte[] payload = new MessageCodec().encode(order);
         MqttLinkConfig config = security.applyTo(MqttLinkConfig.builder().serverUri(broker)
                 .clientId("fault-cli-" + order.seq()), null).build();

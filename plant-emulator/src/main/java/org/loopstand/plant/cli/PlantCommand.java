@@ -60,6 +60,9 @@ import picocli.CommandLine.Option;
 @Command(name = "plant", mixinStandardHelpOptions = true,
         description = "Run the grid physics in real time (or accelerated) and put meters and units on MQTT.")
 public final class PlantCommand implements Callable<Integer> {
+    @picocli.CommandLine.Spec
+    picocli.CommandLine.Model.CommandSpec spec;
+
     @Option(names = "--site", required = true, description = "site file (YAML)")
     Path site;
 
@@ -101,7 +104,7 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--late-warn-s", defaultValue = "1", description = "step lateness that is reported, s (default ${DEFAULT-VALUE})")
     double lateWarnS;
 
-    @Option(names = "--duration", description = "stop after this many wall seconds (default: the scenario's durationS, or until Ctrl-C without a scenario)")
+    @Option(names = {"--wall-duration-s", "--duration"}, description = "stop after this many wall seconds (default: the scenario's durationS, or until Ctrl-C without a scenario)")
     Double durationS;
 
     @Option(names = "--journal", paramLabel = "DIR", description = "run folder for plant.jsonl and plant.hlog (none if absent)")
@@ -131,6 +134,8 @@ public final class PlantCommand implements Callable<Integer> {
 
     @Override
     public Integer call() throws Exception {
+        org.loopstand.protocol.cli.OldSpellings.of("--duration", "--wall-duration-s")
+                .warn(spec.commandLine().getParseResult().originalArgs(), System.err::println);
         Grid grid;
         Scenario scenario = null;
         RunScenario rehearsal = null;

@@ -22,6 +22,9 @@ import picocli.CommandLine.Option;
 @Command(name = "study", mixinStandardHelpOptions = true,
         description = "Run the grid physics with a virtual clock (no broker) and write trace.csv and summary.json.")
 public final class StudyCommand implements Callable<Integer> {
+    @picocli.CommandLine.Spec
+    picocli.CommandLine.Model.CommandSpec spec;
+
     @Option(names = "--site", required = true, description = "site file (YAML)")
     private Path site;
 
@@ -32,17 +35,19 @@ public final class StudyCommand implements Callable<Integer> {
     @Option(names = "--out", required = true, description = "output directory (created if missing)")
     private Path out;
 
-    @Option(names = "--duration", description = "simulated seconds; overrides the scenario's durationS")
+    @Option(names = {"--duration-s", "--duration"}, description = "simulated seconds; overrides the scenario's durationS")
     private Double durationS;
 
     @Option(names = "--seed", description = "noise seed; overrides the scenario's seed")
     private Long seed;
 
-    @Option(names = "--trace-interval", description = "seconds between trace rows; overrides traceIntervalS")
+    @Option(names = {"--trace-interval-s", "--trace-interval"}, description = "seconds between trace rows; overrides traceIntervalS")
     private Double traceIntervalS;
 
     @Override
     public Integer call() throws Exception {
+        org.loopstand.protocol.cli.OldSpellings.of("--duration", "--duration-s", "--trace-interval", "--trace-interval-s")
+                .warn(spec.commandLine().getParseResult().originalArgs(), System.err::println);
         try {
             Grid grid = SiteLoader.loadForRun(site, System.err::println);
             // one scenario format for every run: a rehearsal scenario's rate is unused here, its checks decided on the physics
@@ -50,7 +55,7 @@ public final class StudyCommand implements Callable<Integer> {
             Scenario scenario = rehearsal.scenario();
             if (durationS != null) {
                 if (!(durationS > 0)) {
-                    System.err.println("--duration must be greater than 0 s, got " + durationS);
+                    System.err.println("--duration-s must be greater than 0 s, got " + durationS);
                     return 2;
                 }
                 scenario = scenario.withDurationS(durationS);
