@@ -36,11 +36,6 @@ import org.loopstand.plant.scenario.ScenarioEvent;
 import org.loopstand.plant.scenario.RunScenario;
 import org.loopstand.plant.scenario.RunScenarioLoader;
 import org.loopstand.plant.check.RunRecord;
-import org.loopstand.plant.fault.FaultObserver;
-import org.loopstand.protocol.bus.Qos;
-import org.loopstand.protocol.message.ControllerStatus;
-import org.loopstand.plant.fault.FaultEngine;
-import org.loopstand.plant.fault.FaultLog;
 import org.loopstand.plant.runtime.FaultHooks;
 import org.loopstand.plant.site.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
@@ -230,19 +225,7 @@ public final class PlantCommand implements Callable<Integer> {
             runner.journalTo(runJournal, truthIntervalS);
         }
         RunRecord record = new RunRecord(runner.agent().epochMsAt(0));
-        List<FaultObserver> observers = new ArrayList<>(List.of(new FaultLog(), record, new FaultAnnouncer(PlantCommand::say)));
-        if (runJournal != null) {
-            observers.add(runJournal);
-        }
-        observers.add(runner.counters()); // the metrics page counts what the fault stage kept off the wire
-        FaultObserver observer = FaultObserver.all(observers);
-        FaultEngine faults = new FaultEngine(clock, clock.epochMillis(), observer);
-        if (rehearsal != null) {
-            for (var f : rehearsal.faults()) {
-                faults.schedule(f).ifPresent(why -> say("plant: fault " + f.id() + " not scheduled: " + why));
-            }
-        }
-        FaultHooks hooks = FaultHooks.wire(runner, faults, observer, record, clock, scenario == null ? 0 : scenario.seed(), true);
+        FaultHooks hooks = ScenarioFaults.wire(runner, rehearsal, record, runJournal, clock, scenario == null ? 0 : scenario.seed());
         LiveView liveView;
         try {
             liveView = live.startIfAsked(runner, hooks, clock, embedded != null,
@@ -265,24 +248,7 @@ public final class PlantCommand implements Callable<Integer> {
                 }
             });
         }
-        if (rehearsal != null || runJournal != null) {
-            // the controller's statuses as the plant sees them: the checks on its decisions, its heartbeat and own ACE
-            PlantRunJournal statusJournal = runJournal;
-            boolean checking = rehearsal != null;
-            var statusCodec = new org.loopstand.protocol.codec.MessageCodec();
-            runner.plantBus().subscribe(runner.topics().filterAll(org.loopstand.protocol.topic.TopicKind.CONTROLLER_STATUS),
-                    Qos.AT_LEAST_ONCE, m -> {
-                        long at = clock.epochMillis();
-                        statusCodec.decode(m.payload(), ControllerStatus.class).message().ifPresent(st -> {
-                            if (statusJournal != null) {
-                                statusJournal.controllerStatus(at, st);
-                            }
-                            if (checking) {
-                                runner.agent().runOnLoop(() -> record.controllerStatus(at, st));
-                            }
-                        });
-                    });
-        }
+        ControllerStatusTap.subscribe(runner, clock, runJournal, rehearsal != null ? record : null);
         if (scenario != null) {
             runner.agent().endAt(scenario.durationS());
         }
