@@ -134,9 +134,9 @@ public final class FaultCommand implements Runnable {
         @Override
         public Integer call() {
             if (markdown) {
-                System.out.print(org.loopstand.plant.fault.FaultDocs.faultTable());
+                System.out.print(org.loopstand.plant.scenario.ScenarioDocs.faultTable());
                 System.out.println();
-                System.out.print(org.loopstand.plant.fault.FaultDocs.checkTable());
+                System.out.print(org.loopstand.plant.scenario.ScenarioDocs.checkTable());
             } else {
                 print(System.out);
             }

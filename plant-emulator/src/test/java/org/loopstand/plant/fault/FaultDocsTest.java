@@ -11,6 +11,7 @@ import java.util.regex.Matcher;
 import java.util.regex.Pattern;
 
 import org.junit.jupiter.api.Test;
+import org.loopstand.plant.scenario.ScenarioDocs;
 import org.loopstand.protocol.codec.Decoded;
 import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.FaultOrder;
@@ -33,8 +34,8 @@ class FaultDocsTest {
     @Test
     void shouldCarryTheFaultAndCheckTablesAsTheCodeWritesThem() throws Exception {
         String text = doc();
-        assertThat(between(text, "fault-table")).isEqualTo(FaultDocs.faultTable());
-        assertThat(between(text, "check-table")).isEqualTo(FaultDocs.checkTable());
+        assertThat(between(text, "fault-table")).isEqualTo(ScenarioDocs.faultTable());
+        assertThat(between(text, "check-table")).isEqualTo(ScenarioDocs.checkTable());
     }
 
     @Test

@@ -1,9 +1,13 @@
-package org.loopstand.plant.fault;
+package org.loopstand.plant.scenario;
 
 import java.util.List;
 import java.util.Locale;
 import java.util.stream.Collectors;
 
+import org.loopstand.plant.fault.FaultLibrary;
+import org.loopstand.plant.fault.FaultType;
+import org.loopstand.plant.fault.ParameterSpec;
+import org.loopstand.plant.fault.TargetKind;
 import org.loopstand.plant.check.CheckLibrary;
 import org.loopstand.plant.check.CheckType;
 
@@ -12,8 +16,8 @@ import org.loopstand.plant.check.CheckType;
  * documentation cannot drift from the code ({@code loopstand fault list --markdown} prints them; a test
  * holds the document to them).
  */
-public final class FaultDocs {
-    private FaultDocs() {
+public final class ScenarioDocs {
+    private ScenarioDocs() {
     }
 
     /** @return one markdown table of every fault type with its parameters */
