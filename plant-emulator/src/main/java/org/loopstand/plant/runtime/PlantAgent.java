@@ -13,7 +13,6 @@ import org.loopstand.plant.journal.PlantRunJournal;
 import org.loopstand.plant.meter.AreaMeterPublisher;
 import org.loopstand.plant.physics.GridSimulator;
 import org.loopstand.plant.scenario.PlantControls;
-import org.loopstand.plant.scenario.ScenarioContext;
 import org.loopstand.plant.scenario.ScenarioEvent;
 import org.loopstand.protocol.agent.Agent;
 import org.loopstand.protocol.bus.MessageBus;
@@ -32,7 +31,7 @@ import org.loopstand.protocol.topic.TopicTree;
  *
  * <p>Simulated time 0 is the clock's reading when the agent is built.
  */
-public final class PlantAgent implements Agent, ScenarioContext {
+public final class PlantAgent implements Agent {
     public static final int MAX_STEPS_PER_CYCLE = 250;
 
     /** What the agent runs. */
@@ -185,13 +184,12 @@ public final class PlantAgent implements Agent, ScenarioContext {
         }
     }
 
-    @Override
+    /** @return the physics (loop thread only) */
     public GridSimulator grid() {
         return p.sim();
     }
 
-    /** Scenario events reach the plant's units and the schedule topic through this. */
-    @Override
+    /** Scenario events (through the {@link ScenarioEngine}) reach the plant's units and the schedule topic through this. */
     public PlantControls plant() {
         return controls;
     }
