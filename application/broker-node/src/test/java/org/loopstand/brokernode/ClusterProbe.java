@@ -15,7 +15,7 @@ import org.loopstand.protocol.time.WallClock;
  * it sends a command-like QoS 1 message every period (seq and validUntil in the payload, MQTT message
  * expiry = the validity), as {@code sub} it records what arrives. One line per event on stdout:
  * {@code conn EPOCH_MS URI}, {@code lost EPOCH_MS}, {@code sent SEQ EPOCH_MS}, {@code refused SEQ
- * EPOCH_MS REASON}, {@code recv SEQ VALID_UNTIL_MS EPOCH_MS DUP}.
+ * EPOCH_MS REASON}, {@code recv SEQ VALID_UNTIL_MS EPOCH_MS DUP SENT_AT_MS}.
  *
  * <p>Arguments: {@code pub|sub clientId brokerList topic username password [periodMs validityMs]}.
  */
@@ -45,7 +45,7 @@ public final class ClusterProbe {
         if (role.equals("sub")) {
             link.subscribe(args[3], Qos.AT_LEAST_ONCE, m -> {
                 String[] f = new String(m.payload(), UTF_8).split(",");
-                say("recv " + f[0] + " " + f[1] + " " + clock.epochMillis() + " " + m.duplicate());
+                say("recv " + f[0] + " " + f[1] + " " + clock.epochMillis() + " " + m.duplicate() + " " + f[2]);
             });
             link.start();
             Thread.currentThread().join(); // until the test kills this process
@@ -54,9 +54,10 @@ public final class ClusterProbe {
         long validityMs = Long.parseLong(args[7]);
         link.start();
         for (long seq = 1; ; seq++) {
-            long validUntil = clock.epochMillis() + validityMs;
+            long sentAt = clock.epochMillis();
+            long validUntil = sentAt + validityMs;
             long s = seq;
-            link.publish(new OutboundMessage(args[3], (seq + "," + validUntil).getBytes(UTF_8), Qos.AT_LEAST_ONCE,
+            link.publish(new OutboundMessage(args[3], (seq + "," + validUntil + "," + sentAt).getBytes(UTF_8), Qos.AT_LEAST_ONCE,
                     false, Math.max(1, validityMs / 1000))).whenComplete((ok, e) -> say(e == null
                     ? "sent " + s + " " + clock.epochMillis()
                     : "refused " + s + " " + clock.epochMillis() + " " + e.getMessage().replace(' ', '_')));

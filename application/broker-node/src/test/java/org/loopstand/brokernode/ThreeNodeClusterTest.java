@@ -17,6 +17,7 @@ import java.util.function.Predicate;
 import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.Assumptions;
 import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.Timeout;
 import org.junit.jupiter.api.io.TempDir;
 import org.loopstand.protocol.time.WallClock;
 
@@ -64,6 +65,7 @@ class ThreeNodeClusterTest {
     }
 
     @Test
+    @Timeout(value = 120, unit = TimeUnit.SECONDS) // the whole run, failures included, stays inside CI's budget
     void shouldCarryCommandsAcrossNodesAndSurviveANodeKillAndAPartition() throws Exception {
         long t0 = clock.epochMillis();
         hosts = namespacesOrSkip();
@@ -137,6 +139,9 @@ class ThreeNodeClusterTest {
         figures.put("commandsReceivedDistinct", (long) seen.size());
         figures.put("commandsReceivedDuplicate", duplicates);
         figures.put("commandsReceivedAfterValidUntil", late);
+        long[] latencyMs = recv.stream().mapToLong(l -> epochOf(l, 3) - epochOf(l, 5)).sorted().toArray();
+        figures.put("commandLatencyP50Ms", latencyMs[latencyMs.length / 2]);
+        figures.put("commandLatencyP99Ms", latencyMs[Math.min(latencyMs.length - 1, latencyMs.length * 99 / 100)]);
         figures.put("wallTimeMs", clock.epochMillis() - t0);
         String text = "three-node cluster figures: " + figures;
         System.out.println(text);
