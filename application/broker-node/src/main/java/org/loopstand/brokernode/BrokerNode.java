@@ -4,6 +4,7 @@ import java.io.IOException;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.nio.file.attribute.PosixFilePermissions;
 import java.util.List;
 import java.util.Map;
 import java.util.regex.Matcher;
@@ -47,6 +48,9 @@ public final class BrokerNode implements AutoCloseable {
                 : firstLine(settings.clusterPasswordFile(), "--cluster-password-file");
         Path filled = workDir.resolve("broker-" + settings.nodeName() + ".xml");
         Files.createDirectories(workDir);
+        // it holds the cluster password: owner only, set before the content goes in
+        Files.deleteIfExists(filled);
+        Files.createFile(filled, PosixFilePermissions.asFileAttribute(PosixFilePermissions.fromString("rw-------")));
         Files.writeString(filled, fill(settings.configFile(), settings.placeholders(clusterPassword)));
         BrokerNode node = new BrokerNode(settings);
         node.server.setConfigResourcePath(filled.toUri().toString());

@@ -44,9 +44,9 @@ public final class BrokerNodeCli implements Callable<Integer> {
             + " with, the same on every node")
     Path clusterPasswordFile;
 
-    @Option(names = "--work-dir", defaultValue = "target/broker-node", description = "where the filled-in broker"
-            + " file goes (default ${DEFAULT-VALUE})")
-    Path workDir;
+    @Option(names = "--work-dir", description = "where the filled-in broker file goes, readable by its owner only"
+            + " (default: loopstand-broker-node in the system temp folder)")
+    Path workDir = Path.of(System.getProperty("java.io.tmpdir"), "loopstand-broker-node");
 
     public static void main(String[] args) {
         System.exit(new CommandLine(new BrokerNodeCli()).execute(args));

@@ -3,6 +3,7 @@ package org.loopstand.protocol.bus.mqtt;
 import java.util.List;
 import java.util.Objects;
 import java.util.concurrent.CopyOnWriteArrayList;
+import java.util.function.Consumer;
 import org.loopstand.protocol.bus.ConnectionListener;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
@@ -24,20 +25,18 @@ final class LinkListeners {
 
     /** @param reconnect false for the first connect of the link */
     void connected(boolean reconnect) {
-        for (ConnectionListener l : listeners) {
-            try {
-                l.onConnected(reconnect);
-            } catch (RuntimeException e) {
-                LOG.warn("{}: connection listener failed: {}", clientId, e.toString());
-            }
-        }
+        tellAll(l -> l.onConnected(reconnect));
     }
 
     /** @param cause null for a disconnect of our own */
     void disconnected(Throwable cause) {
+        tellAll(l -> l.onDisconnected(cause));
+    }
+
+    private void tellAll(Consumer<ConnectionListener> call) {
         for (ConnectionListener l : listeners) {
             try {
-                l.onDisconnected(cause);
+                call.accept(l);
             } catch (RuntimeException e) {
                 LOG.warn("{}: connection listener failed: {}", clientId, e.toString());
             }
