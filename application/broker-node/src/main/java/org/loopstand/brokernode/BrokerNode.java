@@ -51,7 +51,9 @@ public final class BrokerNode implements AutoCloseable {
         // it holds the cluster password: owner only, set before the content goes in
         Files.deleteIfExists(filled);
         Files.createFile(filled, PosixFilePermissions.asFileAttribute(PosixFilePermissions.fromString("rw-------")));
-        Files.writeString(filled, fill(settings.configFile(), settings.placeholders(clusterPassword)));
+        String keyStorePassword = settings.keyStorePasswordFile() == null ? null
+                : firstLine(settings.keyStorePasswordFile(), "--key-store-password-file");
+        Files.writeString(filled, fill(settings.configFile(), settings.placeholders(clusterPassword, keyStorePassword)));
         BrokerNode node = new BrokerNode(settings);
         node.server.setConfigResourcePath(filled.toUri().toString());
         node.server.setSecurityManager(new ActiveMQJAASSecurityManager(InVMLoginModule.class.getName(),
@@ -60,6 +62,11 @@ public final class BrokerNode implements AutoCloseable {
         LOG.info("broker node {} listening on {} (cluster port {}, peers {}, {})", settings.nodeName(),
                 settings.mqttUri(), settings.clusterPort(), settings.peers(),
                 settings.insecure() ? "no login" : "login required");
+        if (!settings.tls() && !org.loopstand.protocol.security.AuthPolicy.isLoopback(settings.host())) {
+            LOG.warn("broker node {}: plain MQTT on {}: passwords and commands cross the network in the clear, and"
+                    + " the rig's processes refuse a tcp:// broker off loopback; give --key-store for TLS",
+                    settings.nodeName(), settings.host());
+        }
         return node;
     }
 

@@ -20,9 +20,13 @@ import org.loopstand.protocol.security.AuthPolicy;
  * @param configFile          the Artemis broker file with ${...} placeholders (config/broker/artemis/broker-node.xml)
  * @param usersFile           MQTT users (username = password a line); null = no login (loopback only)
  * @param clusterPasswordFile first line: the password the nodes log in to each other with; null on loopback only
+ * @param keyStore            PKCS#12 (.p12/.pfx) or JKS key store with this node's certificate and key: the MQTT
+ *                            listener speaks TLS; null = plain MQTT
+ * @param keyStorePasswordFile first line: the key store's password; needed with a key store
  */
 public record BrokerNodeSettings(String nodeName, String host, int mqttPort, int clusterPort, List<String> peers,
-                                 Path configFile, Path usersFile, Path clusterPasswordFile) {
+                                 Path configFile, Path usersFile, Path clusterPasswordFile, Path keyStore,
+                                 Path keyStorePasswordFile) {
     /** Name the nodes log in to each other with. */
     public static final String CLUSTER_USER = "loopstand-cluster";
     /** Used only between loopback nodes that were given no cluster password file. */
@@ -69,6 +73,11 @@ public record BrokerNodeSettings(String nodeName, String host, int mqttPort, int
         }
         checkReadable("--users", usersFile, problems);
         checkReadable("--cluster-password-file", clusterPasswordFile, problems);
+        checkReadable("--key-store", keyStore, problems);
+        checkReadable("--key-store-password-file", keyStorePasswordFile, problems);
+        if ((keyStore == null) != (keyStorePasswordFile == null)) {
+            problems.add("--key-store and --key-store-password-file go together");
+        }
         return problems;
     }
 
@@ -77,8 +86,17 @@ public record BrokerNodeSettings(String nodeName, String host, int mqttPort, int
         return usersFile == null;
     }
 
-    /** @return the ${...} values of the broker file, by placeholder name */
-    Map<String, String> placeholders(String clusterPassword) {
+    /** @return true when the MQTT listener speaks TLS */
+    public boolean tls() {
+        return keyStore != null;
+    }
+
+    /**
+     * @param keyStorePassword the key store's password, or null without TLS
+     * @return the ${...} values of the broker file, by placeholder name
+     * @throws IllegalArgumentException for a key store password the acceptor URL cannot carry
+     */
+    Map<String, String> placeholders(String clusterPassword, String keyStorePassword) {
         Map<String, String> m = new LinkedHashMap<>();
         m.put("node.name", nodeName);
         m.put("node.host", host);
@@ -89,13 +107,25 @@ public record BrokerNodeSettings(String nodeName, String host, int mqttPort, int
         m.put("security.enabled", Boolean.toString(!insecure()));
         m.put("cluster.user", CLUSTER_USER);
         m.put("cluster.password", clusterPassword);
+        m.put("mqtt.tls", tls() ? tlsParameters(keyStorePassword) : "");
         return m;
     }
 
-    /** @return the MQTT address clients use, tcp://host:port */
+    private String tlsParameters(String keyStorePassword) {
+        if (keyStorePassword == null || keyStorePassword.matches(".*[;=&].*")) {
+            throw new IllegalArgumentException("--key-store-password-file: the password must not contain ';', '=' or '&'"
+                    + " (the listener's settings carry it)");
+        }
+        String name = keyStore.getFileName().toString().toLowerCase(java.util.Locale.ROOT);
+        String type = name.endsWith(".p12") || name.endsWith(".pfx") ? "PKCS12" : "JKS";
+        return ";sslEnabled=true;keyStoreType=" + type + ";keyStorePath=" + keyStore.toAbsolutePath()
+                + ";keyStorePassword=" + keyStorePassword;
+    }
+
+    /** @return the MQTT address clients use, tcp://host:port or ssl://host:port */
     public String mqttUri() {
         String h = host.contains(":") && !host.startsWith("[") ? "[" + host + "]" : host;
-        return "tcp://" + h + ":" + mqttPort;
+        return (tls() ? "ssl://" : "tcp://") + h + ":" + mqttPort;
     }
 
     private static void checkPort(String option, int port, List<String> problems) {

@@ -16,6 +16,7 @@ import org.loopstand.protocol.bus.Qos;
 import org.loopstand.protocol.bus.mqtt.MqttLink;
 import org.loopstand.protocol.bus.mqtt.MqttLinkConfig;
 import org.loopstand.protocol.testing.FreePort;
+import org.loopstand.protocol.security.broker.TestPki;
 import org.loopstand.protocol.testing.Inbox;
 import org.loopstand.protocol.time.WallClock;
 
@@ -28,7 +29,7 @@ class BrokerNodeTest {
 
     private BrokerNodeSettings settings(Path users) {
         return new BrokerNodeSettings("n1", "127.0.0.1", FreePort.find(), FreePort.find(),
-                List.of("127.0.0.1:" + FreePort.find(), "127.0.0.1:" + FreePort.find()), CONFIG, users, null);
+                List.of("127.0.0.1:" + FreePort.find(), "127.0.0.1:" + FreePort.find()), CONFIG, users, null, null, null);
     }
 
     private static MqttLink link(String uri, String clientId, String user, String password) {
@@ -75,6 +76,29 @@ class BrokerNodeTest {
             assertThat(good.awaitConnected(10_000)).isTrue();
             assertThat(bad.awaitConnected(1_500)).isFalse();
             assertThat(anonymous.isConnected()).isFalse();
+        }
+    }
+
+    @Test
+    void shouldServeMqttOverTlsFromTheGivenKeyStore() throws Exception {
+        TestPki pki = TestPki.newCa("broker-node-test-ca");
+        Path store = dir.resolve("n1.p12");
+        TestPki.writeKeyStore(pki.issueServer("n1"), store, "store-pass-0123".toCharArray());
+        Path storePassword = Files.writeString(dir.resolve("store-pass"), "store-pass-0123\n");
+        BrokerNodeSettings plain = settings(null);
+        BrokerNodeSettings s = new BrokerNodeSettings("n1", "127.0.0.1", plain.mqttPort(), plain.clusterPort(),
+                plain.peers(), CONFIG, null, null, store, storePassword);
+        try (BrokerNode node = BrokerNode.start(s, dir);
+             MqttLink tls = new MqttLink(MqttLinkConfig.builder().serverUri(s.mqttUri()).clientId("tls")
+                     .sslSocketFactory(TestPki.socketFactory(pki.ca().certificate(), null)).connectTimeoutMs(3000)
+                     .build(), WallClock.INSTANCE);
+             MqttLink clear = link("tcp://127.0.0.1:" + s.mqttPort(), "clear", null, null)) {
+            assertThat(s.mqttUri()).startsWith("ssl://");
+            tls.start();
+            clear.start();
+            assertThat(tls.awaitConnected(10_000)).isTrue();
+            assertThat(tls.socketForTest()).isInstanceOf(javax.net.ssl.SSLSocket.class);
+            assertThat(clear.awaitConnected(1_500)).as("plain MQTT on the TLS listener").isFalse();
         }
     }
 }

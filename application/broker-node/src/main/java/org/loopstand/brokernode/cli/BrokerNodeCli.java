@@ -44,6 +44,13 @@ public final class BrokerNodeCli implements Callable<Integer> {
             + " with, the same on every node")
     Path clusterPasswordFile;
 
+    @Option(names = "--key-store", description = "PKCS#12 (.p12) or JKS key store with this node's certificate and key:"
+            + " the MQTT listener speaks TLS (clients use ssl://)")
+    Path keyStore;
+
+    @Option(names = "--key-store-password-file", description = "first line: the key store's password")
+    Path keyStorePasswordFile;
+
     @Option(names = "--work-dir", description = "where the filled-in broker file goes, readable by its owner only"
             + " (default: loopstand-broker-node in the system temp folder)")
     Path workDir = Path.of(System.getProperty("java.io.tmpdir"), "loopstand-broker-node");
@@ -55,7 +62,7 @@ public final class BrokerNodeCli implements Callable<Integer> {
     @Override
     public Integer call() throws Exception {
         BrokerNodeSettings s = new BrokerNodeSettings(name, host, mqttPort, clusterPort, peers, config, users,
-                clusterPasswordFile);
+                clusterPasswordFile, keyStore, keyStorePasswordFile);
         List<String> problems = s.check();
         if (!problems.isEmpty()) {
             System.err.println("broker-node: refusing to start: " + String.join("; ", problems));
