@@ -2,9 +2,12 @@ package org.loopstand.brokernode;
 
 import java.io.IOException;
 import java.nio.charset.StandardCharsets;
+import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.concurrent.TimeUnit;
+import org.junit.jupiter.api.Assertions;
+import org.junit.jupiter.api.Assumptions;
 
 /**
  * Hosts on one machine for tests: a network namespace per host, each joined by a veth pair to a
@@ -84,6 +87,33 @@ final class NetnsHosts implements AutoCloseable {
     /** @return the command prefix that runs a program inside host i */
     List<String> exec(int i) {
         return List.of("ip", "netns", "exec", host(i));
+    }
+
+    /** @return the command that runs {@code main} of the test class path in a JVM inside host i */
+    List<String> java(int i, String heap, String main) {
+        List<String> cmd = new ArrayList<>(exec(i));
+        String cp = System.getProperty("surefire.test.class.path", System.getProperty("java.class.path"));
+        cmd.addAll(List.of(Path.of(System.getProperty("java.home"), "bin", "java").toString(), heap,
+                "-XX:+UseSerialGC", "-XX:TieredStopAtLevel=1", "-cp", cp, main));
+        return cmd;
+    }
+
+    /**
+     * As {@link #create}, named after this JVM; when namespaces cannot be made the test fails under
+     * CI=true (it must run there) and is skipped otherwise, saying why either way.
+     */
+    static NetnsHosts createOrSkip(int count) {
+        String prefix = "ls" + (ProcessHandle.current().pid() % 100_000);
+        try {
+            return create(prefix, count);
+        } catch (IllegalStateException e) {
+            String why = "cannot create network namespaces (needs root and iproute2): " + e.getMessage();
+            if ("true".equals(System.getenv("CI"))) {
+                Assertions.fail("CI=true: the test on network-namespace hosts must run; " + why);
+            }
+            Assumptions.abort(why);
+            return null;
+        }
     }
 
     void run(String... command) {

@@ -1,7 +1,6 @@
 package org.loopstand.brokernode;
 
 import static org.assertj.core.api.Assertions.assertThat;
-import static org.assertj.core.api.Assertions.fail;
 
 import java.io.IOException;
 import java.nio.file.Files;
@@ -15,7 +14,6 @@ import java.util.Set;
 import java.util.concurrent.TimeUnit;
 import java.util.function.Predicate;
 import org.junit.jupiter.api.AfterEach;
-import org.junit.jupiter.api.Assumptions;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
 import org.junit.jupiter.api.io.TempDir;
@@ -68,7 +66,7 @@ class ThreeNodeClusterTest {
     @Timeout(value = 120, unit = TimeUnit.SECONDS) // the whole run, failures included, stays inside CI's budget
     void shouldCarryCommandsAcrossNodesAndSurviveANodeKillAndAPartition() throws Exception {
         long t0 = clock.epochMillis();
-        hosts = namespacesOrSkip();
+        hosts = NetnsHosts.createOrSkip(3);
         Path users = Files.writeString(dir.resolve("users.properties"), "rig-probe = probe-password-0123456789\n");
         Path clusterPassword = Files.writeString(dir.resolve("cluster-password"), "cluster-password-0123456789\n");
         Process[] nodes = new Process[4];
@@ -169,20 +167,6 @@ class ThreeNodeClusterTest {
         assertThat(received).as("every command sent in a steady window %s arrived", phase).containsAll(sentInWindow);
     }
 
-    private NetnsHosts namespacesOrSkip() {
-        String prefix = "ls" + (ProcessHandle.current().pid() % 100_000);
-        try {
-            return NetnsHosts.create(prefix, 3);
-        } catch (IllegalStateException e) {
-            String why = "cannot create network namespaces (needs root and iproute2): " + e.getMessage();
-            if ("true".equals(System.getenv("CI"))) {
-                fail("CI=true: the three-node cluster test must run; " + why);
-            }
-            Assumptions.abort(why);
-            return null;
-        }
-    }
-
     private String list(int... order) {
         List<String> uris = new ArrayList<>();
         for (int i : order) {
@@ -199,7 +183,7 @@ class ThreeNodeClusterTest {
                 peers.add(hosts.address(j) + ":" + CLUSTER_PORT);
             }
         }
-        List<String> cmd = javaIn(i, "-Xmx192m", "org.loopstand.brokernode.cli.BrokerNodeCli");
+        List<String> cmd = hosts.java(i, "-Xmx192m", "org.loopstand.brokernode.cli.BrokerNodeCli");
         cmd.addAll(List.of("--name", "n" + i, "--host", hosts.address(i), "--mqtt-port", "" + MQTT_PORT,
                 "--cluster-port", "" + CLUSTER_PORT, "--config", CONFIG.toString(), "--users", users.toString(),
                 "--cluster-password-file", clusterPassword.toString(), "--work-dir", dir.resolve("n" + i).toString()));
@@ -208,19 +192,11 @@ class ThreeNodeClusterTest {
     }
 
     private Path start(int host, String role, String clientId, String brokers) throws IOException {
-        List<String> cmd = javaIn(host, "-Xmx64m", ClusterProbe.class.getName());
+        List<String> cmd = hosts.java(host, "-Xmx64m", ClusterProbe.class.getName());
         cmd.addAll(List.of(role, clientId, brokers, TOPIC, "rig-probe", "probe-password-0123456789",
                 "" + PERIOD_MS, "" + VALIDITY_MS));
         launch(cmd, clientId);
         return dir.resolve(clientId + ".out");
-    }
-
-    private List<String> javaIn(int host, String heap, String main) {
-        List<String> cmd = new ArrayList<>(hosts.exec(host));
-        String cp = System.getProperty("surefire.test.class.path", System.getProperty("java.class.path"));
-        cmd.addAll(List.of(Path.of(System.getProperty("java.home"), "bin", "java").toString(), heap,
-                "-XX:+UseSerialGC", "-XX:TieredStopAtLevel=1", "-cp", cp, main));
-        return cmd;
     }
 
     private Process launch(List<String> cmd, String name) throws IOException {
