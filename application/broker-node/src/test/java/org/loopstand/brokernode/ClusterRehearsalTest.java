@@ -46,18 +46,16 @@ class ClusterRehearsalTest {
     private final MessageCodec codec = new MessageCodec();
     private final List<AreaMeter> south = new CopyOnWriteArrayList<>();
     private final List<ClockTick> ticks = new CopyOnWriteArrayList<>();
-    private final List<Process> processes = new ArrayList<>();
     private final List<BrokerNode> nodes = new ArrayList<>();
     private MqttLink observer;
 
     @TempDir
     Path dir;
+    private TestProcesses children;
 
     @AfterEach
     void tearDown() throws Exception {
-        for (Process p : processes) {
-            p.destroyForcibly().waitFor(10, TimeUnit.SECONDS);
-        }
+        children.killAll();
         if (observer != null) {
             observer.close();
         }
@@ -69,6 +67,7 @@ class ClusterRehearsalTest {
     @Test
     @Timeout(value = 120, unit = TimeUnit.SECONDS)
     void shouldRestoreFrequencyAfterAUnitTripWhenThePlantsNodeStopsBeforeIt() throws Exception {
+        children = new TestProcesses(dir);
         int[] mqtt = {FreePort.find(), FreePort.find(), FreePort.find()};
         int[] cluster = {FreePort.find(), FreePort.find(), FreePort.find()};
         for (int i = 0; i < 3; i++) {
@@ -87,12 +86,7 @@ class ClusterRehearsalTest {
         Process plant = launch("plant", "org.loopstand.plant.cli.PlantCli", "plant", "--site", SITE.toString(),
                 "--scenario", SCENARIO.toString(), "--rate", "20", "--broker", n1 + "," + n2 + "," + n3,
                 "--duration", "90", "--journal", dir.resolve("run").toString());
-        Path controllerSite = dir.resolve("demo-site-pulses.yaml");
-        String siteText = Files.readString(SITE);
-        String pulsesOnly = "  pulses: {preferSetpoints: false}\n";
-        Files.writeString(controllerSite, siteText.contains("\ncontroller:\n")
-                ? siteText.replace("\ncontroller:\n", "\ncontroller:\n" + pulsesOnly)
-                : siteText + "\ncontroller:\n" + pulsesOnly);
+        Path controllerSite = children.pulsesOnlySite(SITE);
         Process controller = launch("controller", "org.loopstand.controller.cli.ControllerCli", "control",
                 "--site", controllerSite.toString(), "--broker", n3, "--clock", "bus", "--journal",
                 dir.resolve("run").toString());
@@ -197,9 +191,6 @@ class ClusterRehearsalTest {
                 "-cp", System.getProperty("surefire.test.class.path", System.getProperty("java.class.path")),
                 mainClass));
         cmd.addAll(List.of(args));
-        Process p = new ProcessBuilder(cmd).redirectOutput(dir.resolve(name + ".out").toFile())
-                .redirectError(dir.resolve(name + ".err").toFile()).start();
-        processes.add(p);
-        return p;
+        return children.launch(cmd, name);
     }
 }

@@ -43,37 +43,26 @@ class CrossHostRehearsalTest {
     private static final int MQTT_PORT = 8883;
     private static final long TRIP_AT_MS = 120_000;
     private static final String STORE_PASSWORD = "store-password-0123";
-    private final List<Process> processes = new ArrayList<>();
     private NetnsHosts hosts;
 
     @TempDir
     Path dir;
 
+    private TestProcesses children;
+
     @AfterEach
     void tearDown() throws Exception {
-        for (Process p : processes) {
-            p.destroyForcibly().waitFor(10, TimeUnit.SECONDS);
-        }
+        children.killAll();
         if (hosts != null) {
             hosts.close();
         }
-        Path keep = Files.createDirectories(Path.of("target", "cross-host-run"));
-        try (var files = Files.list(dir)) {
-            for (Path f : files.filter(f -> f.toString().endsWith(".out") || f.toString().endsWith(".err")).toList()) {
-                Files.copy(f, keep.resolve(f.getFileName()), java.nio.file.StandardCopyOption.REPLACE_EXISTING);
-            }
-        }
-        for (String journal : new String[] {"plant.jsonl", "controller.jsonl"}) {
-            Path f = dir.resolve("run").resolve(journal);
-            if (Files.exists(f)) {
-                Files.copy(f, keep.resolve(journal), java.nio.file.StandardCopyOption.REPLACE_EXISTING);
-            }
-        }
+        children.keepOutput("cross-host-run", "run/plant.jsonl", "run/controller.jsonl");
     }
 
     @Test
     @Timeout(value = 150, unit = TimeUnit.SECONDS)
     void shouldRestoreFrequencyAfterAUnitTripWithPlantUnitsAndControllerOnThreeHosts() throws Exception {
+        children = new TestProcesses(dir);
         hosts = NetnsHosts.createOrSkip(3);
         TestPki pki = TestPki.newCa("cross-host-ca");
         Path trust = dir.resolve("trust.p12");
@@ -119,12 +108,7 @@ class CrossHostRehearsalTest {
                 usersFile.toString()));
         plant.addAll(tls);
         Process plantProcess = launch(plant, "plant");
-        Path controllerSite = dir.resolve("demo-site-pulses.yaml");
-        String siteText = Files.readString(SITE);
-        String pulsesOnly = "  pulses: {preferSetpoints: false}\n";
-        Files.writeString(controllerSite, siteText.contains("\ncontroller:\n")
-                ? siteText.replace("\ncontroller:\n", "\ncontroller:\n" + pulsesOnly)
-                : siteText + "\ncontroller:\n" + pulsesOnly);
+        Path controllerSite = children.pulsesOnlySite(SITE);
         List<String> control = hosts.java(3, "-Xmx256m", "org.loopstand.controller.cli.ControllerCli");
         control.addAll(List.of("control", "--site", controllerSite.toString(), "--broker",
                 "ssl://" + hosts.address(3) + ":" + MQTT_PORT, "--clock", "bus", "--journal", run.toString(),
@@ -218,10 +202,7 @@ class CrossHostRehearsalTest {
     }
 
     private Process launch(List<String> cmd, String name) throws IOException {
-        Process p = new ProcessBuilder(cmd).redirectOutput(dir.resolve(name + ".out").toFile())
-                .redirectError(dir.resolve(name + ".err").toFile()).start();
-        processes.add(p);
-        return p;
+        return children.launch(cmd, name);
     }
 
     private static void awaitStarted(Path out, String line, long timeoutMs) throws Exception {

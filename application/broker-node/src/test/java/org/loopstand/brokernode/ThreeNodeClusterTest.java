@@ -38,7 +38,7 @@ class ThreeNodeClusterTest {
     private static final long VALIDITY_MS = 2000;
     private static final long STEADY_MS = 2500;
     private final WallClock clock = WallClock.INSTANCE;
-    private final List<Process> processes = new ArrayList<>();
+    private TestProcesses children;
     private final Map<String, Long> figures = new LinkedHashMap<>();
     private NetnsHosts hosts;
 
@@ -47,25 +47,18 @@ class ThreeNodeClusterTest {
 
     @AfterEach
     void tearDown() throws InterruptedException, IOException {
-        for (Process p : processes) {
-            p.destroyForcibly().waitFor(10, TimeUnit.SECONDS);
-        }
+        children.killAll();
         if (hosts != null) {
             hosts.close();
         }
-        // the processes' own output, kept for a look after a failure
-        Path keep = Files.createDirectories(Path.of("target", "cluster-run"));
-        try (var files = Files.list(dir)) {
-            for (Path f : files.filter(f -> f.toString().endsWith(".out") || f.toString().endsWith(".err")).toList()) {
-                Files.copy(f, keep.resolve(f.getFileName()), java.nio.file.StandardCopyOption.REPLACE_EXISTING);
-            }
-        }
+        children.keepOutput("cluster-run");
     }
 
     @Test
     @Timeout(value = 120, unit = TimeUnit.SECONDS) // the whole run, failures included, stays inside CI's budget
     void shouldCarryCommandsAcrossNodesAndSurviveANodeKillAndAPartition() throws Exception {
         long t0 = clock.epochMillis();
+        children = new TestProcesses(dir);
         hosts = NetnsHosts.createOrSkip(3);
         Path users = Files.writeString(dir.resolve("users.properties"), "rig-probe = probe-password-0123456789\n");
         Path clusterPassword = Files.writeString(dir.resolve("cluster-password"), "cluster-password-0123456789\n");
@@ -200,10 +193,7 @@ class ThreeNodeClusterTest {
     }
 
     private Process launch(List<String> cmd, String name) throws IOException {
-        Process p = new ProcessBuilder(cmd).redirectOutput(dir.resolve(name + ".out").toFile())
-                .redirectError(dir.resolve(name + ".err").toFile()).start();
-        processes.add(p);
-        return p;
+        return children.launch(cmd, name);
     }
 
     /** @return the epoch ms at which a matching line was seen (its own stamp where it has one) */
