@@ -30,9 +30,10 @@ import org.loopstand.protocol.topic.TopicTree;
 
 /**
  * The unit-trip rehearsal (demo site, rate 20) with the plant and the controller as two processes on a
- * three-node Artemis cluster on loopback: the plant on n1 (list n1,n2,n3), the controller on n3. Node n1
- * is stopped before the trip: the plant fails over to n2 and its meters reach the controller across the
- * cluster again; frequency is restored after the trip as on a single broker.
+ * three-node Artemis cluster on loopback: the plant on n1 (list n1,n2,n3), the controller on n3 (list
+ * n3,n1,n2). Before the trip node n1 is stopped, then node n3: each process fails over to the next node
+ * of its list and the meters reach the controller across the cluster again; frequency is restored after
+ * the trip as on a single broker, and no unit executes a command twice or late.
  */
 class ClusterRehearsalTest {
     private static final Path CONFIG = Path.of("../../config/broker/artemis/broker-node.xml");
@@ -40,6 +41,7 @@ class ClusterRehearsalTest {
     private static final Path SCENARIO = Path.of("../../config/scenarios/unit-trip.yaml");
     private static final long TRIP_AT_MS = 120_000;
     private static final long KILL_AT_MS = 60_000;
+    private static final long SECOND_KILL_AT_MS = 90_000;
     private static final long WATCH_AFTER_TRIP_MS = 400_000;
 
     private final TopicTree topics = TopicTree.forSite("demo-site");
@@ -87,10 +89,14 @@ class ClusterRehearsalTest {
                 "--scenario", SCENARIO.toString(), "--rate", "20", "--broker", n1 + "," + n2 + "," + n3,
                 "--duration", "90", "--journal", dir.resolve("run").toString());
         Path controllerSite = children.pulsesOnlySite(SITE);
+        // a broker list is not a loopback URL to `control`: it asks for --live-plant and the typed site id
         Process controller = launch("controller", "org.loopstand.controller.cli.ControllerCli", "control",
-                "--site", controllerSite.toString(), "--broker", n3, "--clock", "bus", "--journal",
-                dir.resolve("run").toString());
-        observer = new MqttLink(MqttLinkConfig.builder().serverUri(n3).clientId("cluster-observer")
+                "--site", controllerSite.toString(), "--broker", n3 + "," + n1 + "," + n2, "--clock", "bus",
+                "--journal", dir.resolve("run").toString(), "--live-plant");
+        try (var in = controller.getOutputStream()) {
+            in.write("demo-site\n".getBytes(java.nio.charset.StandardCharsets.UTF_8));
+        }
+        observer = new MqttLink(MqttLinkConfig.builder().serverUri(n3 + "," + n1 + "," + n2).clientId("cluster-observer")
                 .reconnectBackoff(100, 500, 0.2).build(), WallClock.INSTANCE).start();
         observer.subscribe(topics.areaMeter("south-ridge", "main"), Qos.AT_MOST_ONCE,
                 m -> codec.decode(m.payload(), AreaMeter.class).message().ifPresent(south::add));
@@ -101,10 +107,13 @@ class ClusterRehearsalTest {
             awaitScenarioMs(plant, controller, KILL_AT_MS, 60);
             long stoppedAtScenarioMs = lastTick().scenarioTimeMs();
             nodes.get(0).close(); // the plant's node
+            awaitScenarioMs(plant, controller, SECOND_KILL_AT_MS, 30);
+            long secondStopAtScenarioMs = lastTick().scenarioTimeMs();
+            nodes.get(2).close(); // the controller's node (and the observer's: it follows to n1, gone, then n2)
             awaitScenarioMs(plant, controller, TRIP_AT_MS + WATCH_AFTER_TRIP_MS, 80);
             controller.destroy();
             assertThat(controller.waitFor(20, TimeUnit.SECONDS)).isTrue();
-            check(stoppedAtScenarioMs);
+            check(stoppedAtScenarioMs, secondStopAtScenarioMs);
         } catch (Throwable t) {
             for (String f : new String[] {"plant.err", "controller.err"}) {
                 List<String> lines = Files.readAllLines(dir.resolve(f));
@@ -115,7 +124,7 @@ class ClusterRehearsalTest {
         }
     }
 
-    private void check(long stoppedAtScenarioMs) throws Exception {
+    private void check(long stoppedAtScenarioMs, long secondStopAtScenarioMs) throws Exception {
         ClockTick tick = lastTick();
         long plantStartMs = tick.sourceTime() - tick.scenarioTimeMs();
         long tripMs = plantStartMs + TRIP_AT_MS;
@@ -138,6 +147,8 @@ class ClusterRehearsalTest {
         }
         String plantLog = Files.readString(dir.resolve("plant.err"));
         assertThat(plantLog).as("the plant's links moved from n1 to the next node").contains("failed over from");
+        assertThat(Files.readString(dir.resolve("controller.err"))).as("the controller moved from n3 to n2")
+                .contains("failed over from tcp://127.0.0.1:" + nodes.get(2).settings().mqttPort());
         assertThat(minHz).as("the trip was real").isLessThan(49.85);
         // Commission Regulation (EU) 2017/1485 (SOGL) Annex III, from memory: back inside ±50 mHz within 15 minutes
         assertThat(lastOutsideMs - tripMs).isLessThanOrEqualTo(900_000).isLessThanOrEqualTo(WATCH_AFTER_TRIP_MS - 30_000);
@@ -150,9 +161,15 @@ class ClusterRehearsalTest {
         long duplicate = of(j, JournalFormat.KIND_REFUSED).stream()
                 .filter(e -> "DUPLICATE".equals(e.text("reason"))).count();
         List<JournalEntry> decided = of(j, JournalFormat.KIND_DECIDED);
-        List<String> afterStop = decided.stream().filter(e -> e.tMs() > gapFromMs && e.tMs() < gapFromMs + 60_000)
+        long secondGapFromMs = plantStartMs + secondStopAtScenarioMs;
+        long reconnects = of(j, JournalFormat.KIND_EVENT).stream()
+                .filter(e -> "busReconnected".equals(e.text("event"))).count();
+        assertThat(reconnects).as("the controller's journal records its reconnect").isGreaterThanOrEqualTo(1);
+        List<String> afterStop = decided.stream().filter(e -> e.tMs() > gapFromMs && e.tMs() < secondGapFromMs + 30_000)
                 .map(e -> e.text("state") + (e.get("reasons") == null ? "" : e.get("reasons").toString())).toList();
         long suspendedCycles = afterStop.stream().filter(st -> !st.startsWith("regulating")).count();
+        // while its own node is gone the controller says why it holds: the bus link is down (reason code)
+        assertThat(afterStop).anySatisfy(st -> assertThat(st).startsWith("suspended").contains("busLinkDown"));
         JournalReader.Contents plantJournal = JournalReader.readAll(dir.resolve("run").resolve("plant.jsonl"));
         assertThat(plantJournal.summary().damagedLines()).isEmpty();
         List<JournalEntry> lastMinute = decided.stream()
@@ -160,10 +177,10 @@ class ClusterRehearsalTest {
         assertThat(lastMinute).isNotEmpty().allSatisfy(e -> assertThat(e.text("state")).isEqualTo("regulating"));
         assertThat(sent).hasSizeGreaterThan(20);
         assertThat(received.size()).isGreaterThanOrEqualTo((int) (0.9 * sent.size()));
-        String figures = String.format(Locale.ROOT, "rehearsal on the cluster: plant's node stopped at %d s of scenario"
-                        + " time, longest south meter gap %d ms (scenario), min %.3f Hz, last outside ±50 mHz %d s after"
-                        + " the trip, %d cycles (%d not regulating in the minute after the stop: %s), %d commands, %d acked, %d refused expired, %d refused"
-                        + " duplicate", stoppedAtScenarioMs / 1000, meterGapMs, minHz, (lastOutsideMs - tripMs) / 1000,
+        String figures = String.format(Locale.ROOT, "rehearsal on the cluster: plant's node stopped at %d s, controller's"
+                        + " node at %d s of scenario time, controller reconnects %d, longest south meter gap %d ms (scenario), min %.3f Hz, last outside ±50 mHz %d s after"
+                        + " the trip, %d cycles (%d not regulating from the first stop to 30 s after the second: %s), %d commands, %d acked, %d refused expired, %d refused"
+                        + " duplicate", stoppedAtScenarioMs / 1000, secondStopAtScenarioMs / 1000, reconnects, meterGapMs, minHz, (lastOutsideMs - tripMs) / 1000,
                 decided.size(), suspendedCycles, afterStop.stream().filter(st -> !st.startsWith("regulating")).toList(),
                 sent.size(), received.size(), expired, duplicate);
         System.out.println(figures);
