@@ -1,6 +1,8 @@
 package org.loopstand.brokernode.cli;
 
 import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.List;
 import java.util.concurrent.Callable;
 import java.util.concurrent.CountDownLatch;
@@ -30,7 +32,7 @@ public final class BrokerNodeCli implements Callable<Integer> {
     int clusterPort;
 
     @Option(names = "--peer", description = "host:cluster-port of another node; give it twice")
-    List<String> peers = List.of();
+    List<String> peers = new ArrayList<>();
 
     @Option(names = "--config", defaultValue = "config/broker/artemis/broker-node.xml",
             description = "broker file with placeholders (default ${DEFAULT-VALUE})")
@@ -56,7 +58,12 @@ public final class BrokerNodeCli implements Callable<Integer> {
     Path workDir = Path.of(System.getProperty("java.io.tmpdir"), "loopstand-broker-node");
 
     public static void main(String[] args) {
-        System.exit(new CommandLine(new BrokerNodeCli()).execute(args));
+        System.exit(new CommandLine(new BrokerNodeCli()).execute(withoutCommandName(args)));
+    }
+
+    /** @return the arguments without a leading "broker-node" (the launcher passes the subcommand's name on) */
+    static String[] withoutCommandName(String[] args) {
+        return args.length > 0 && args[0].equals("broker-node") ? Arrays.copyOfRange(args, 1, args.length) : args;
     }
 
     @Override
