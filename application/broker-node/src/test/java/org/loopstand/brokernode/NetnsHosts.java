@@ -17,6 +17,7 @@ import org.junit.jupiter.api.Assumptions;
  * unknown"), so delay and loss are not available, only link down.
  */
 final class NetnsHosts implements AutoCloseable {
+    private static final java.util.concurrent.atomic.AtomicInteger CREATED = new java.util.concurrent.atomic.AtomicInteger();
     private final String prefix;
     private final int count;
     private final List<String> created = new ArrayList<>();
@@ -103,7 +104,8 @@ final class NetnsHosts implements AutoCloseable {
      * CI=true (it must run there) and is skipped otherwise, saying why either way.
      */
     static NetnsHosts createOrSkip(int count) {
-        String prefix = "ls" + (ProcessHandle.current().pid() % 100_000);
+        // unique per JVM and per call, short enough for interface names (at most 15 characters)
+        String prefix = "ls" + (ProcessHandle.current().pid() % 100_000) + (char) ('a' + CREATED.getAndIncrement() % 26);
         try {
             return create(prefix, count);
         } catch (IllegalStateException e) {
