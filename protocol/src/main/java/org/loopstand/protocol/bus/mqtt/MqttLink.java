@@ -37,6 +37,11 @@ import org.slf4j.LoggerFactory;
  * delivery thread. QoS 1 publishes are gated by the broker's Receive Maximum and refused with
  * {@link Reason#BACK_PRESSURE} past it. Threads: Paho's own, plus one delivery and one reconnect thread.
  *
+ * <p>Several broker nodes ({@link BrokerEndpoints}, a comma-separated {@code serverUri}): the link walks
+ * them in list order ({@link FailoverCursor}), every attempt bounded by the connect timeout including the
+ * CONNACK, and starts a clean session on a node other than the last one, so QoS 1 publishes still in
+ * flight towards the old node fail instead of going out late on the new one.
+ *
  * <p>Use: construct, {@link #subscribe} what is needed (may be before connecting, so messages queued
  * in a resumed session find their listener), then {@link #start()} and optionally
  * {@link #awaitConnected(long)}.
