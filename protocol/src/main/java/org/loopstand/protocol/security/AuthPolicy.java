@@ -1,12 +1,10 @@
 package org.loopstand.protocol.security;
 
 import java.net.InetAddress;
-import java.net.URI;
-import java.net.URISyntaxException;
 import java.net.UnknownHostException;
 import java.util.ArrayList;
 import java.util.List;
-import java.util.Locale;
+import org.loopstand.protocol.bus.mqtt.BrokerEndpoints;
 
 /**
  * Decides whether a process may start with the security settings it was given.
@@ -60,22 +58,26 @@ public final class AuthPolicy {
     private AuthPolicy() {
     }
 
-    /** @return the decision for those settings; never throws for a bad URI (refuses instead) */
+    /**
+     * Decides per broker node: a comma-separated list of cluster nodes ({@link BrokerEndpoints}) counts as
+     * loopback only when every node is, and each node that is off loopback must be {@code ssl://}.
+     *
+     * @return the decision for those settings; never throws for a bad URI (refuses instead)
+     */
     public static Decision decide(Settings s) {
-        URI uri;
+        BrokerEndpoints nodes;
         try {
-            uri = new URI(s.brokerUri());
-        } catch (URISyntaxException | NullPointerException e) {
-            return new Decision(false, s.insecure(), List.of("broker URI '" + s.brokerUri() + "' is not a valid URI"));
+            nodes = BrokerEndpoints.parse(s.brokerUri());
+        } catch (IllegalArgumentException e) {
+            return new Decision(false, s.insecure(), List.of("broker URI '" + s.brokerUri() + "' is not valid: "
+                    + e.getMessage()));
         }
-        String scheme = uri.getScheme() == null ? "" : uri.getScheme().toLowerCase(Locale.ROOT);
-        boolean tls = scheme.equals("ssl") || scheme.equals("mqtts") || scheme.equals("wss");
-        boolean loopback = isLoopback(uri.getHost());
+        List<String> offLoopback = nodes.hosts().stream().filter(h -> !isLoopback(h)).toList();
         List<String> problems = new ArrayList<>();
         if (s.insecure()) {
-            if (!loopback) {
+            if (!offLoopback.isEmpty()) {
                 problems.add("--insecure is allowed only with a loopback broker (127.0.0.1, ::1, localhost), not "
-                        + uri.getHost());
+                        + String.join(", ", offLoopback));
                 return new Decision(false, true, problems);
             }
             return new Decision(true, true, List.of("no broker auth, no TLS, unsigned commands accepted"));
@@ -83,9 +85,9 @@ public final class AuthPolicy {
         if (!s.hasCredentials()) {
             problems.add("no broker username/password given (or pass --insecure on loopback)");
         }
-        if (!tls && !loopback) {
-            problems.add("broker " + uri.getHost() + " is not loopback: use an ssl:// URL so passwords and commands "
-                    + "are not sent in the clear");
+        if (!nodes.isTls() && !offLoopback.isEmpty()) {
+            problems.add("broker " + String.join(", ", offLoopback) + (offLoopback.size() > 1 ? " are" : " is")
+                    + " not loopback: use an ssl:// URL for every node so passwords and commands are not sent in the clear");
         }
         if (!s.hasKeys()) {
             problems.add("no command keys (set " + KeyRing.KEYS_FILE_ENV + " or --keys FILE; or --insecure on loopback)");

@@ -1,8 +1,6 @@
 package org.loopstand.protocol.security;
 
 import java.io.IOException;
-import java.net.URI;
-import java.net.URISyntaxException;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -11,6 +9,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.Optional;
+import org.loopstand.protocol.bus.mqtt.BrokerEndpoints;
 import org.loopstand.protocol.bus.mqtt.MqttLinkConfig;
 
 /**
@@ -99,11 +98,12 @@ public final class LinkSecurity {
         }
     }
 
+    /** @return true when every node of the broker list is a tcp:// loopback address */
     private static boolean isPlainLoopback(String brokerUri) {
         try {
-            URI uri = new URI(brokerUri);
-            return "tcp".equalsIgnoreCase(uri.getScheme()) && AuthPolicy.isLoopback(uri.getHost());
-        } catch (URISyntaxException | NullPointerException e) {
+            BrokerEndpoints nodes = BrokerEndpoints.parse(brokerUri);
+            return !nodes.isTls() && nodes.hosts().stream().allMatch(AuthPolicy::isLoopback);
+        } catch (IllegalArgumentException e) {
             return false;
         }
     }

@@ -48,4 +48,23 @@ class AuthPolicyTest {
         assertThat(AuthPolicy.decide(new Settings("tcp://bad host:1", true, false, false)).allowed()).isFalse();
         assertThat(AuthPolicy.decide(new Settings(null, true, false, false)).allowed()).isFalse();
     }
+
+    @Test
+    void shouldDecideEveryNodeOfAClusterList() {
+        Decision allLoopback = AuthPolicy.decide(new Settings("tcp://127.0.0.1:1883, tcp://127.0.0.2:1883", true,
+                false, false));
+        assertThat(allLoopback.allowed()).isTrue();
+        Decision oneRemote = AuthPolicy.decide(new Settings("tcp://127.0.0.1:1883,tcp://10.1.2.3:1883", true, false,
+                false));
+        assertThat(oneRemote.allowed()).as("one node off loopback makes the list off loopback").isFalse();
+        assertThat(oneRemote.message()).endsWith("not 10.1.2.3");
+        Decision plainCluster = AuthPolicy.decide(new Settings("tcp://10.1.2.3:1883,tcp://10.1.2.4:1883", false,
+                true, true));
+        assertThat(plainCluster.message()).contains("10.1.2.3, 10.1.2.4 are not loopback");
+        assertThat(AuthPolicy.decide(new Settings("ssl://10.1.2.3:8883,ssl://10.1.2.4:8883", false, true, true))
+                .allowed()).isTrue();
+        Decision mixed = AuthPolicy.decide(new Settings("ssl://10.1.2.3:8883,tcp://10.1.2.4:1883", false, true, true));
+        assertThat(mixed.allowed()).isFalse();
+        assertThat(mixed.message()).contains("mixes tcp:// and ssl://");
+    }
 }

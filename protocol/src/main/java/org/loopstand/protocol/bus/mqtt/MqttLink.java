@@ -3,30 +3,20 @@ package org.loopstand.protocol.bus.mqtt;
 import java.io.IOException;
 import java.net.Socket;
 import java.util.EnumMap;
-import java.util.List;
 import java.util.Map;
 import java.util.Objects;
 import java.util.Random;
 import java.util.concurrent.CompletableFuture;
-import java.util.concurrent.CopyOnWriteArrayList;
 import java.util.concurrent.RejectedExecutionException;
 import java.util.concurrent.ScheduledThreadPoolExecutor;
 import java.util.concurrent.TimeUnit;
 import java.util.concurrent.atomic.AtomicBoolean;
 import java.util.concurrent.atomic.LongAdder;
-import java.util.concurrent.locks.Condition;
-import java.util.concurrent.locks.ReentrantLock;
 import org.eclipse.paho.mqttv5.client.IMqttToken;
 import org.eclipse.paho.mqttv5.client.MqttAsyncClient;
-import org.eclipse.paho.mqttv5.client.MqttCallback;
-import org.eclipse.paho.mqttv5.client.MqttConnectionOptions;
-import org.eclipse.paho.mqttv5.client.MqttDisconnectResponse;
 import org.eclipse.paho.mqttv5.client.persist.MemoryPersistence;
 import org.eclipse.paho.mqttv5.common.MqttException;
-import org.eclipse.paho.mqttv5.common.MqttMessage;
-import org.eclipse.paho.mqttv5.common.MqttSubscription;
 import org.eclipse.paho.mqttv5.common.packet.MqttProperties;
-import org.eclipse.paho.mqttv5.common.util.MqttTopicValidator;
 import org.loopstand.protocol.bus.BusCounters;
 import org.loopstand.protocol.bus.BusException.Reason;
 import org.loopstand.protocol.bus.ConnectionListener;
@@ -47,6 +37,11 @@ import org.slf4j.LoggerFactory;
  * delivery thread. QoS 1 publishes are gated by the broker's Receive Maximum and refused with
  * {@link Reason#BACK_PRESSURE} past it. Threads: Paho's own, plus one delivery and one reconnect thread.
  *
+ * <p>Several broker nodes ({@link BrokerEndpoints}, a comma-separated {@code serverUri}): the link walks
+ * them in list order ({@link FailoverCursor}), every attempt bounded by the connect timeout including the
+ * CONNACK, and starts a clean session on a node other than the last one, so QoS 1 publishes still in
+ * flight towards the old node fail instead of going out late on the new one.
+ *
  * <p>Use: construct, {@link #subscribe} what is needed (may be before connecting, so messages queued
  * in a resumed session find their listener), then {@link #start()} and optionally
  * {@link #awaitConnected(long)}.
@@ -61,25 +56,23 @@ public final class MqttLink implements MessageBus {
     private final Map<Reason, LongAdder> failures = new EnumMap<>(Reason.class);
     private final NoDelaySockets sockets = new NoDelaySockets();
     private final MqttAsyncClient client;
-    private final MqttConnectionOptions options;
+    private final LinkOptions options;
     private final SubscriptionTable subscriptions = new SubscriptionTable();
+    private final LinkSubscriptions subscribing;
+    private final FailoverCursor cursor;
     private final ReceiveQueue receiveQueue;
     private final InflightGate inflight = new InflightGate();
-    private final ReconnectBackoff backoff;
     private final LinkPublisher publisher;
     private final ScheduledThreadPoolExecutor reconnectThread;
-    private final List<ConnectionListener> connectionListeners = new CopyOnWriteArrayList<>();
-    private final ReentrantLock stateLock = new ReentrantLock();
-    private final Condition connectedChanged = stateLock.newCondition();
-    private final ReentrantLock subscribeLock = new ReentrantLock();
+    private final LinkListeners connectionListeners;
     private final AtomicBoolean started = new AtomicBoolean();
     private final AtomicBoolean closed = new AtomicBoolean();
-    private volatile boolean ready;
+    private final ReadyFlag ready = new ReadyFlag();
     /** while true the reconnect loop parks instead of connecting (a rehearsal's refused reconnect) */
     private volatile boolean reconnectHeld;
     private final AtomicBoolean parkedWhileHeld = new AtomicBoolean();
     private boolean everConnected;
-    private int attempt;
+    private volatile String connectedUri;
 
     /** @param clock stamps {@link InboundMessage#receivedNanos()} and paces drop warnings */
     public MqttLink(MqttLinkConfig config, Clock clock) {
@@ -90,41 +83,25 @@ public final class MqttLink implements MessageBus {
         }
         this.receiveQueue = new ReceiveQueue(config.clientId(), config.receiveQueueCapacity(), subscriptions,
                 counters, clock);
-        this.backoff = new ReconnectBackoff(config.reconnectInitialMs(), config.reconnectMaxMs(),
-                config.reconnectJitter(), new Random());
+        this.connectionListeners = new LinkListeners(config.clientId());
+        this.cursor = new FailoverCursor(config.endpoints(), new ReconnectBackoff(config.reconnectInitialMs(),
+                config.reconnectMaxMs(), config.reconnectJitter(), new Random()));
         this.reconnectThread = new ScheduledThreadPoolExecutor(1, r -> {
             Thread t = new Thread(r, "mqtt-connect-" + config.clientId());
             t.setDaemon(true);
             return t;
         });
         this.reconnectThread.setRemoveOnCancelPolicy(true);
-        this.options = connectionOptions();
+        this.options = new LinkOptions(config, sockets);
         try {
             // In-memory persistence: Paho's default writes files into the working directory.
-            this.client = new MqttAsyncClient(config.serverUri(), config.clientId(), new MemoryPersistence());
+            this.client = new MqttAsyncClient(config.endpoints().first(), config.clientId(), new MemoryPersistence());
         } catch (MqttException e) {
             throw new IllegalArgumentException("cannot create MQTT client for " + config + ": " + e.getMessage(), e);
         }
-        client.setCallback(new PahoCallback());
+        client.setCallback(new PahoCallbacks(config.clientId(), receiveQueue, clock, this::onPahoDisconnected));
+        this.subscribing = new LinkSubscriptions(client, config, subscriptions);
         this.publisher = new LinkPublisher(client, inflight, counters, failures, config);
-    }
-
-    private MqttConnectionOptions connectionOptions() {
-        MqttConnectionOptions o = new MqttConnectionOptions();
-        o.setAutomaticReconnect(false);
-        o.setCleanStart(config.cleanStart());
-        o.setSessionExpiryInterval(config.sessionExpirySeconds());
-        o.setKeepAliveInterval(config.keepAliveSeconds());
-        o.setMaximumPacketSize((long) PacketLimits.MAX_PACKET_BYTES);
-        o.setConnectionTimeout(Math.max(1, config.connectTimeoutMs() / 1000));
-        config.username().ifPresent(o::setUserName);
-        config.password().ifPresent(pw -> o.setPassword(new String(pw).getBytes(java.nio.charset.StandardCharsets.UTF_8)));
-        o.setSocketFactory(config.isTls() ? sockets.tls(TlsSocketFactories.from(config)) : sockets.plain());
-        config.lastWill().ifPresent(will -> {
-            MqttMessage m = new MqttMessage(will.payload(), will.qos().level(), will.retained(), null);
-            o.setWill(will.topic(), m);
-        });
-        return o;
     }
 
     /** Starts connecting in the background; reconnects until {@link #close()}. Idempotent. */
@@ -145,22 +122,13 @@ public final class MqttLink implements MessageBus {
      * @return true when connected within the time
      */
     public boolean awaitConnected(long timeoutMs) throws InterruptedException {
-        long leftNanos = TimeUnit.MILLISECONDS.toNanos(timeoutMs);
-        stateLock.lock();
-        try {
-            while (!ready && leftNanos > 0 && !closed.get()) {
-                leftNanos = connectedChanged.awaitNanos(leftNanos);
-            }
-            return ready;
-        } finally {
-            stateLock.unlock();
-        }
+        return ready.await(timeoutMs, closed::get);
     }
 
     // ----- connecting (reconnect thread only) -----
 
     private void connectAttempt() {
-        if (closed.get() || ready) {
+        if (closed.get() || ready.get()) {
             return;
         }
         if (reconnectHeld) {
@@ -170,75 +138,56 @@ public final class MqttLink implements MessageBus {
                 return;
             }
         }
+        String uri = cursor.uri();
+        boolean cleanStart = config.cleanStart() || cursor.switchingNode();
         try {
-            IMqttToken token = client.connect(options);
+            IMqttToken token = client.connect(options.forAttempt(uri, cleanStart));
+            // bounds TCP connect and CONNACK together: a node that accepts TCP but never answers is left
             token.waitForCompletion(config.connectTimeoutMs());
             MqttProperties props = token.getResponseProperties();
             Integer receiveMaximum = props == null ? null : props.getReceiveMaximum();
             inflight.resize(receiveMaximum == null ? DEFAULT_RECEIVE_MAXIMUM : receiveMaximum);
-            resubscribeAll();
+            subscribing.resubscribeAll();
         } catch (MqttException | RuntimeException e) {
-            long delayMs = backoff.delayMs(Math.min(attempt, 30));
-            attempt++;
-            LOG.info("{}: connect to {} failed ({}), retry #{} in {} ms", config.clientId(), config.serverUri(),
-                    e.getMessage(), attempt, delayMs);
-            if (client.isConnected()) {
-                forceDisconnect();
-            }
+            // abort whatever is left of the attempt (a CONNECT still waiting for its CONNACK included),
+            // else Paho refuses every later connect as "connect already in progress"
+            forceDisconnect();
+            long delayMs = cursor.failed();
+            LOG.info("{}: connect to {} failed ({}), attempt #{}, next {} in {} ms", config.clientId(), uri,
+                    e.getMessage(), cursor.failuresInRow(), cursor.uri(), delayMs);
             schedule(this::connectAttempt, delayMs);
             return;
         }
-        attempt = 0;
+        String previousUri = cursor.lastConnectedUri();
+        cursor.connected();
+        connectedUri = uri;
         boolean reconnect = everConnected;
         everConnected = true;
         if (reconnect) {
             counters.onReconnect();
         }
-        setReady(true);
-        LOG.info("{}: connected to {} (in-flight limit {})", config.clientId(), config.serverUri(), inflight.limit());
-        for (ConnectionListener l : connectionListeners) {
-            try {
-                l.onConnected(reconnect);
-            } catch (RuntimeException e) {
-                LOG.warn("{}: connection listener failed: {}", config.clientId(), e.toString());
-            }
+        if (previousUri != null && !previousUri.equals(uri)) {
+            LOG.warn("{}: failed over from {} to {} (clean session: in-flight QoS 1 publishes to the old node dropped)",
+                    config.clientId(), previousUri, uri);
         }
+        ready.set(true);
+        LOG.info("{}: connected to {} (in-flight limit {})", config.clientId(), uri, inflight.limit());
+        connectionListeners.connected(reconnect);
     }
 
     private void connectionLost(Throwable cause) {
-        if (closed.get() || !markLost()) {
+        if (closed.get() || !ready.clearIfSet()) {
             return; // already lost (e.g. a clean disconnect of ours, or lost while connecting: that attempt retries)
         }
-        LOG.warn("{}: connection to {} lost: {}", config.clientId(), config.serverUri(),
+        LOG.warn("{}: connection to {} lost: {}", config.clientId(), connectedUri,
                 cause == null ? "broker disconnected" : cause.getMessage());
         tellLostAndRetry(cause);
     }
 
     private void tellLostAndRetry(Throwable cause) {
-        for (ConnectionListener l : connectionListeners) {
-            try {
-                l.onDisconnected(cause);
-            } catch (RuntimeException e) {
-                LOG.warn("{}: connection listener failed: {}", config.clientId(), e.toString());
-            }
-        }
-        attempt = 0;
-        schedule(this::connectAttempt, backoff.delayMs(0));
-    }
-
-    /** @return true if the link was ready and is now marked lost (exactly one caller wins) */
-    private boolean markLost() {
-        stateLock.lock();
-        try {
-            if (!ready) {
-                return false;
-            }
-            ready = false;
-            connectedChanged.signalAll();
-            return true;
-        } finally {
-            stateLock.unlock();
-        }
+        connectionListeners.disconnected(cause);
+        connectedUri = null;
+        schedule(this::connectAttempt, cursor.lost());
     }
 
     private void schedule(Runnable task, long delayMs) {
@@ -246,43 +195,6 @@ public final class MqttLink implements MessageBus {
             reconnectThread.schedule(task, delayMs, TimeUnit.MILLISECONDS);
         } catch (RejectedExecutionException e) {
             // closing: nothing more to do
-        }
-    }
-
-    private void setReady(boolean value) {
-        stateLock.lock();
-        try {
-            ready = value;
-            connectedChanged.signalAll();
-        } finally {
-            stateLock.unlock();
-        }
-    }
-
-    private void resubscribeAll() throws MqttException {
-        subscribeLock.lock();
-        try {
-            List<SubscriptionTable.Entry> entries = subscriptions.entries();
-            if (entries.isEmpty()) {
-                return;
-            }
-            MqttSubscription[] subs = entries.stream()
-                    .map(e -> new MqttSubscription(e.filter(), e.qos().level())).toArray(MqttSubscription[]::new);
-            IMqttToken token = client.subscribe(subs);
-            token.waitForCompletion(config.operationTimeoutMs());
-            checkGranted(token, entries.stream().map(SubscriptionTable.Entry::filter).toList());
-        } finally {
-            subscribeLock.unlock();
-        }
-    }
-
-    private void checkGranted(IMqttToken token, List<String> filters) {
-        int[] codes = token.getReasonCodes();
-        for (int i = 0; codes != null && i < codes.length && i < filters.size(); i++) {
-            if (codes[i] >= 0x80) {
-                LOG.error("{}: broker refused subscription {} (reason code 0x{})", config.clientId(), filters.get(i),
-                        Integer.toHexString(codes[i]));
-            }
         }
     }
 
@@ -306,54 +218,23 @@ public final class MqttLink implements MessageBus {
      */
     @Override
     public void subscribe(String topicFilter, Qos qos, MessageListener listener) {
-        Objects.requireNonNull(qos, "qos");
-        Objects.requireNonNull(listener, "listener");
-        try {
-            MqttTopicValidator.validate(topicFilter, true, true);
-        } catch (IllegalArgumentException e) {
-            throw new IllegalArgumentException("bad topic filter '" + topicFilter + "': " + e.getMessage(), e);
-        }
-        subscribeLock.lock();
-        try {
-            if (!subscriptions.add(topicFilter, qos, listener) || !client.isConnected()) {
-                return;
-            }
-            SubscriptionTable.Entry entry = subscriptions.get(topicFilter);
-            IMqttToken token = client.subscribe(new MqttSubscription(topicFilter, entry.qos().level()));
-            token.waitForCompletion(config.operationTimeoutMs());
-            checkGranted(token, List.of(topicFilter));
-        } catch (MqttException e) {
-            // Kept in the table: it is made again after the next reconnect.
-            LOG.warn("{}: subscribe to {} not confirmed yet ({}); retried after reconnect", config.clientId(),
-                    topicFilter, e.getMessage());
-        } finally {
-            subscribeLock.unlock();
-        }
+        subscribing.subscribe(topicFilter, qos, listener);
     }
 
     @Override
     public void unsubscribe(String topicFilter) {
-        subscribeLock.lock();
-        try {
-            if (subscriptions.remove(topicFilter) && client.isConnected()) {
-                client.unsubscribe(topicFilter).waitForCompletion(config.operationTimeoutMs());
-            }
-        } catch (MqttException e) {
-            LOG.warn("{}: unsubscribe from {} failed: {}", config.clientId(), topicFilter, e.getMessage());
-        } finally {
-            subscribeLock.unlock();
-        }
+        subscribing.unsubscribe(topicFilter);
     }
 
     /** @return true while connected and resubscribed */
     @Override
     public boolean isConnected() {
-        return ready && client.isConnected();
+        return ready.get() && client.isConnected();
     }
 
     @Override
     public void addConnectionListener(ConnectionListener listener) {
-        connectionListeners.add(Objects.requireNonNull(listener, "listener"));
+        connectionListeners.add(listener);
     }
 
     @Override
@@ -378,6 +259,11 @@ public final class MqttLink implements MessageBus {
 
     public MqttLinkConfig config() {
         return config;
+    }
+
+    /** @return the broker node this link is connected to now, or null while disconnected */
+    public String connectedUri() {
+        return ready.get() ? connectedUri : null;
     }
 
     /** @return the TCP socket of the current connection (tests check TCP_NODELAY), or null */
@@ -414,7 +300,7 @@ public final class MqttLink implements MessageBus {
     public void disconnectCleanly() {
         try {
             reconnectThread.execute(() -> {
-                if (closed.get() || !markLost()) {
+                if (closed.get() || !ready.clearIfSet()) {
                     return;
                 }
                 try {
@@ -449,8 +335,8 @@ public final class MqttLink implements MessageBus {
             return;
         }
         reconnectThread.shutdownNow();
-        boolean wasReady = ready;
-        setReady(false);
+        boolean wasReady = ready.get();
+        ready.set(false);
         try {
             if (client.isConnected()) {
                 client.disconnect(Math.min(1000, config.operationTimeoutMs())).waitForCompletion(config.operationTimeoutMs());
@@ -471,13 +357,7 @@ public final class MqttLink implements MessageBus {
         }
         receiveQueue.close(1000);
         if (wasReady) {
-            for (ConnectionListener l : connectionListeners) {
-                try {
-                    l.onDisconnected(null);
-                } catch (RuntimeException e) {
-                    LOG.warn("{}: connection listener failed: {}", config.clientId(), e.toString());
-                }
-            }
+            connectionListeners.disconnected(null);
         }
         LOG.info("{}: closed ({})", config.clientId(), counters);
     }
@@ -490,43 +370,12 @@ public final class MqttLink implements MessageBus {
         }
     }
 
-    /** Paho's callbacks: each returns at once; real work happens on the link's own threads. */
-    private final class PahoCallback implements MqttCallback {
-        @Override
-        public void disconnected(MqttDisconnectResponse response) {
-            Throwable cause = response.getException();
-            try {
-                reconnectThread.execute(() -> connectionLost(cause));
-            } catch (RejectedExecutionException e) {
-                // closing
-            }
-        }
-
-        @Override
-        public void mqttErrorOccurred(MqttException exception) {
-            LOG.warn("{}: MQTT error: {}", config.clientId(), exception.getMessage());
-        }
-
-        @Override
-        public void messageArrived(String topic, MqttMessage message) {
-            receiveQueue.offer(new InboundMessage(topic, message.getPayload(),
-                    message.getQos() >= 1 ? Qos.AT_LEAST_ONCE : Qos.AT_MOST_ONCE, message.isRetained(),
-                    message.isDuplicate(), clock.monotonicNanos()));
-        }
-
-        @Override
-        public void deliveryComplete(IMqttToken token) {
-            // completion is handled by the publish's own action listener
-        }
-
-        @Override
-        public void connectComplete(boolean reconnect, String serverUri) {
-            // the link's own thread reports connections, after resubscribing
-        }
-
-        @Override
-        public void authPacketArrived(int reasonCode, MqttProperties properties) {
-            // no enhanced authentication
+    /** From Paho's thread: hands the loss to the reconnect thread. */
+    private void onPahoDisconnected(Throwable cause) {
+        try {
+            reconnectThread.execute(() -> connectionLost(cause));
+        } catch (RejectedExecutionException e) {
+            // closing
         }
     }
 }

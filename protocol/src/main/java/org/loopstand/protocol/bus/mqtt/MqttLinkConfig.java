@@ -1,7 +1,5 @@
 package org.loopstand.protocol.bus.mqtt;
 
-import java.net.URI;
-import java.net.URISyntaxException;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -18,6 +16,7 @@ import org.loopstand.protocol.bus.Qos;
  */
 public final class MqttLinkConfig {
     private final String serverUri;
+    private final BrokerEndpoints endpoints;
     private final String clientId;
     private final String username;
     private final char[] password;
@@ -38,7 +37,8 @@ public final class MqttLinkConfig {
     private final int operationTimeoutMs;
 
     private MqttLinkConfig(Builder b) {
-        serverUri = b.serverUri;
+        endpoints = BrokerEndpoints.parse(b.serverUri);
+        serverUri = endpoints.toString();
         clientId = b.clientId;
         username = b.username;
         password = b.password == null ? null : b.password.clone();
@@ -63,9 +63,14 @@ public final class MqttLinkConfig {
         return new Builder();
     }
 
-    /** @return broker address, tcp://host:port or ssl://host:port */
+    /** @return broker address, tcp://host:port or ssl://host:port, or the nodes' comma-separated list */
     public String serverUri() {
         return serverUri;
+    }
+
+    /** @return the broker nodes in failover order (one for a single broker) */
+    public BrokerEndpoints endpoints() {
+        return endpoints;
     }
 
     public String clientId() {
@@ -187,7 +192,10 @@ public final class MqttLinkConfig {
         private Builder() {
         }
 
-        /** @param serverUri tcp://host:port or ssl://host:port */
+        /**
+         * @param serverUri tcp://host:port or ssl://host:port, or a comma-separated list of the nodes of one
+         *                  broker cluster in failover order ({@link BrokerEndpoints})
+         */
         public Builder serverUri(String serverUri) {
             this.serverUri = serverUri;
             return this;
@@ -325,27 +333,12 @@ public final class MqttLinkConfig {
         }
 
         private void checkServerUri(List<String> problems) {
-            if (serverUri == null) {
-                problems.add("serverUri is missing");
-                return;
-            }
-            if (!serverUri.startsWith("tcp://") && !serverUri.startsWith("ssl://")) {
-                problems.add("serverUri must start with tcp:// or ssl://, got '" + serverUri + "'");
-                return;
-            }
-            try {
-                URI uri = new URI(serverUri);
-                if (uri.getHost() == null || uri.getPort() < 1 || uri.getPort() > 65_535) {
-                    problems.add("serverUri needs a host and a port in 1..65535, got '" + serverUri + "'");
-                }
-            } catch (URISyntaxException e) {
-                problems.add("serverUri is not a URI: " + e.getMessage());
-            }
+            BrokerEndpoints.parse(serverUri, problems);
         }
 
         private void checkTls(List<String> problems) {
             boolean storesGiven = trustStorePath != null || keyStorePath != null;
-            boolean tls = serverUri != null && serverUri.startsWith("ssl://");
+            boolean tls = serverUri != null && serverUri.strip().startsWith("ssl://");
             if ((storesGiven || sslSocketFactory != null) && !tls) {
                 problems.add("TLS settings need an ssl:// serverUri, got '" + serverUri + "'");
             }

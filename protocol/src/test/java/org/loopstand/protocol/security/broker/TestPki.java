@@ -66,10 +66,15 @@ public final class TestPki {
 
     /** @return a server certificate for 127.0.0.1 / localhost */
     public Issued issueServer(String cn) throws Exception {
+        return issueServer(cn, "127.0.0.1");
+    }
+
+    /** @return a server certificate for this IP address and localhost (a host of a test's network namespace) */
+    public Issued issueServer(String cn, String ipAddress) throws Exception {
         KeyPair keys = ecKeys();
         X509v3CertificateBuilder b = builder(new X500Name("CN=" + name), new X500Name("CN=" + cn), keys);
         b.addExtension(Extension.subjectAlternativeName, false, new GeneralNames(new GeneralName[] {
-                new GeneralName(GeneralName.iPAddress, "127.0.0.1"), new GeneralName(GeneralName.dNSName, "localhost")}));
+                new GeneralName(GeneralName.iPAddress, ipAddress), new GeneralName(GeneralName.dNSName, "localhost")}));
         b.addExtension(Extension.basicConstraints, true, new BasicConstraints(false));
         return new Issued(sign(b, ca.keys()), keys);
     }
