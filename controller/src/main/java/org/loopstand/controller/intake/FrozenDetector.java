@@ -45,6 +45,11 @@ public final class FrozenDetector {
         return frozen();
     }
 
+    /** @return samples in the present run of identical values (1 after a change, 0 before any sample) */
+    public int identicalRun() {
+        return run;
+    }
+
     public boolean frozen() {
         return identicalCount > 0 && run >= identicalCount;
     }

@@ -107,6 +107,10 @@ public final class SourceValidator {
         return lastGood;
     }
 
+    /** @return the latest sample as it arrived (whatever its checks said), or null before any */
+    public MeasuredValue latest() { return latest; }
+    /** @return samples in the present run of identical values (see {@link FrozenDetector}) */
+    public int identicalRun() { return frozen.identicalRun(); }
     public InputValidationSettings settings() { return settings; }
     public SeqTracker seqTracker() { return seq; }
     /** @return source time − receipt time of the latest sample, ms (+ = source clock ahead) */
