@@ -235,11 +235,16 @@ public final class ControllerSiteReader {
                 yield d.policy();
             }
         };
+        if (s.has("frozenCount")) {
+            s.fail("frozenCount", "is replaced by frozenAfterMs (scenario ms the value must stay identical; a count of"
+                    + " readings stretched with every lost scan) and frozenMinReadings");
+        }
         double rate = s.dbl("maxRate" + unit + "PerS", 0);
         InputRule r = new InputRule(s.lng("maxAgeMs", d.maxAgeMs()), s.dbl("min" + unit, d.minValue()),
                 s.dbl("max" + unit, d.maxValue()), rate > 0 ? rate : s.has("maxRate" + unit + "PerS")
                         ? Double.POSITIVE_INFINITY : d.maxRatePerS(),
-                (int) s.lng("frozenCount", d.frozenCount()), s.dbl("frozenEpsilon" + unit, d.frozenEpsilon()), policy,
+                s.lng("frozenAfterMs", d.frozenAfterMs()), (int) s.lng("frozenMinReadings", d.frozenMinReadings()),
+                s.dbl("frozenEpsilon" + unit, d.frozenEpsilon()), policy,
                 s.lng("holdMs", d.holdMs()));
         s.finish();
         if (!attempt(s, () -> r.toSettings("check", 1000))) {

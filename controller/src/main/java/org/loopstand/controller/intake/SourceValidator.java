@@ -30,7 +30,8 @@ public final class SourceValidator {
 
     public SourceValidator(InputValidationSettings settings) {
         this.settings = settings;
-        this.frozen = new FrozenDetector(settings.frozenCount(), settings.frozenEpsilon());
+        this.frozen = new FrozenDetector(settings.frozenAfterMs(), settings.frozenMinReadings(),
+                settings.frozenEpsilon());
     }
 
     /** @return the reasons found for this sample (empty = clean) */
@@ -111,6 +112,8 @@ public final class SourceValidator {
     public MeasuredValue latest() { return latest; }
     /** @return samples in the present run of identical values (see {@link FrozenDetector}) */
     public int identicalRun() { return frozen.identicalRun(); }
+    /** @return source-time span of the present run of identical values, ms */
+    public long identicalSpanMs() { return frozen.identicalSpanMs(); }
     public InputValidationSettings settings() { return settings; }
     public SeqTracker seqTracker() { return seq; }
     /** @return source time − receipt time of the latest sample, ms (+ = source clock ahead) */

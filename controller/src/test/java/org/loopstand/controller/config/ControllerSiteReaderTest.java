@@ -38,6 +38,32 @@ class ControllerSiteReaderTest {
     }
 
     @Test
+    void shouldTakeFreezeDetectionInScenarioTimeByDefaultAndPerSiteAndRefuseTheOldCount() {
+        ControllerSiteConfig demo = ControllerSiteReader.read(Path.of("..", "config", "sites", "demo-site.yaml"));
+        // defaults for the frequency, the demo site's own for its ties
+        assertThat(demo.settings().frequency().frozenAfterMs()).isEqualTo(22_000);
+        assertThat(demo.settings().frequency().frozenMinReadings()).isEqualTo(6);
+        assertThat(demo.settings().tieFlow().frozenAfterMs()).isEqualTo(8_000);
+        assertThat(demo.settings().tieFlow().frozenMinReadings()).isEqualTo(3);
+        String site = """
+                siteId: s
+                areas:
+                  - {id: a1, nominalFrequencyHz: 50, aceConvention: european, kMwPerHz: 1000}
+                units:
+                  - {id: u1, area: a1}
+                controller:
+                  intake:
+                    frequency: {%s}
+                """;
+        ControllerSiteConfig off = ControllerSiteReader.read("off.yaml", site.formatted("frozenAfterMs: 0"));
+        assertThat(off.settings().frequency().frozenAfterMs()).isZero();
+        assertThatThrownBy(() -> ControllerSiteReader.read("old.yaml", site.formatted("frozenCount: 12")))
+                .isInstanceOf(ControllerConfigException.class)
+                .satisfies(e -> assertThat(((ControllerConfigException) e).problems())
+                        .anySatisfy(p -> assertThat(p).startsWith("old.yaml:8:").contains("frozenCount", "frozenAfterMs")));
+    }
+
+    @Test
     void shouldReadTheReadmissionProbeOfTheFollowingCheckAndRefuseABadOne() {
         String site = """
                 siteId: s

@@ -93,7 +93,7 @@ class IntakeRouterTest {
 
     @Test
     void shouldRefuseBadQualityAndFrozenValues() {
-        IntakeRouter r = router("frequency: {policy: declareUnusable, frozenCount: 3, frozenEpsilonHz: 0.0}");
+        IntakeRouter r = router("frequency: {policy: declareUnusable, frozenAfterMs: 2000, frozenMinReadings: 3, frozenEpsilonHz: 0.0}");
         meter(r, "a1", "m1", 1, T0, 49.99, Quality.of(Validity.INVALID, QualityFlag.FAILURE), 0, T0);
         assertThat(r.areaInputs("a1", T0).frequencyHz().reasons()).contains(ValidationReason.BAD_QUALITY);
         assertThat(r.areaInputs("a1", T0).frequencyHz().usable()).isFalse();
