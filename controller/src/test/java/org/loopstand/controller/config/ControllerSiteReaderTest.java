@@ -30,10 +30,15 @@ class ControllerSiteReaderTest {
         ControllerSiteConfig c = ControllerSiteReader.read(Path.of("..", "config", "sites", "demo-site.yaml"));
         var governors = c.toCycleSettings().governors();
         // β_unit = ratingMw / (droopPct/100 · f0): 700 / (0.04 · 50) = 350 MW/Hz, 500 / (0.05 · 50) = 200 MW/Hz
-        assertThat(governors.get("ridge-steam-1")).isEqualTo(new GovernorResponse(350, 0));
-        assertThat(governors.get("ridge-hydro-1")).isEqualTo(new GovernorResponse(200, 0));
+        assertThat(governors.get("ridge-steam-1").mwPerHz()).isEqualTo(350);
+        assertThat(governors.get("ridge-hydro-1").mwPerHz()).isEqualTo(200);
         // basin-steam-1: 900 / (0.05 · 50) = 360 MW/Hz with its 10 mHz dead band
-        assertThat(governors.get("basin-steam-1")).isEqualTo(new GovernorResponse(360, 0.01));
+        assertThat(governors.get("basin-steam-1").mwPerHz()).isEqualTo(360);
+        assertThat(governors.get("basin-steam-1").deadBandHz()).isEqualTo(0.01);
+        // ramp lags from the turbine data (physics.md models): reheat Tg + Tch + (1 − Fhp)·Trh = 0.2 + 0.3 + 0.7·7;
+        // hydro Tg + 1.5·Tw + (Rt/Rp − 1)·Tr = 0.5 + 3 + (43/5 − 1)·9
+        assertThat(governors.get("ridge-steam-1").responseLagS()).isCloseTo(5.4, org.assertj.core.api.Assertions.within(1e-9));
+        assertThat(governors.get("ridge-hydro-1").responseLagS()).isCloseTo(71.9, org.assertj.core.api.Assertions.within(1e-9));
         assertThat(c.settings().following().governorSettleMs()).isEqualTo(120_000);
     }
 

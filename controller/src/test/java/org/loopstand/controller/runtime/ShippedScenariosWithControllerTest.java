@@ -65,7 +65,11 @@ class ShippedScenariosWithControllerTest {
 
     /** One lockstep run of {@code rs} on the site file {@code sitePath} with our controller. */
     static Run runOnce(Path sitePath, RunScenario rs) throws Exception {
-        Grid grid = SiteLoader.load(sitePath);
+        return runOnce(SiteLoader.load(sitePath), sitePath, rs);
+    }
+
+    /** As {@link #runOnce(Path, RunScenario)} with the plant's grid given (e.g. without load noise). */
+    static Run runOnce(Grid grid, Path sitePath, RunScenario rs) throws Exception {
         ControllerSiteConfig site = ControllerSiteReader.read(sitePath);
         ControllerAgent[] controller = new ControllerAgent[1];
         List<String> linkStates = new java.util.concurrent.CopyOnWriteArrayList<>();
