@@ -42,6 +42,16 @@ class ControllerSiteReaderTest {
         assertThat(c.settings().following().governorSettleMs()).isEqualTo(120_000);
     }
 
+    /** One area, one unit, and the controller section's first line; a test adds its keys below. */
+    private static final String ONE_UNIT_SITE = """
+            siteId: s
+            areas:
+              - {id: a1, nominalFrequencyHz: 50, aceConvention: european, kMwPerHz: 1000}
+            units:
+              - {id: u1, area: a1}
+            controller:
+            """;
+
     @Test
     void shouldTakeFreezeDetectionInScenarioTimeByDefaultAndPerSiteAndRefuseTheOldCount() {
         ControllerSiteConfig demo = ControllerSiteReader.read(Path.of("..", "config", "sites", "demo-site.yaml"));
@@ -50,13 +60,7 @@ class ControllerSiteReaderTest {
         assertThat(demo.settings().frequency().frozenMinReadings()).isEqualTo(6);
         assertThat(demo.settings().tieFlow().frozenAfterMs()).isEqualTo(8_000);
         assertThat(demo.settings().tieFlow().frozenMinReadings()).isEqualTo(3);
-        String site = """
-                siteId: s
-                areas:
-                  - {id: a1, nominalFrequencyHz: 50, aceConvention: european, kMwPerHz: 1000}
-                units:
-                  - {id: u1, area: a1}
-                controller:
+        String site = ONE_UNIT_SITE + """
                   intake:
                     frequency: {%s}
                 """;
@@ -70,13 +74,7 @@ class ControllerSiteReaderTest {
 
     @Test
     void shouldReadTheReadmissionProbeOfTheFollowingCheckAndRefuseABadOne() {
-        String site = """
-                siteId: s
-                areas:
-                  - {id: a1, nominalFrequencyHz: 50, aceConvention: european, kMwPerHz: 1000}
-                units:
-                  - {id: u1, area: a1}
-                controller:
+        String site = ONE_UNIT_SITE + """
                   following: {probeIntervalMs: %s, probeMw: 7.5}
                 """;
         ControllerSiteConfig c = ControllerSiteReader.read("ok.yaml", site.formatted("90000"));

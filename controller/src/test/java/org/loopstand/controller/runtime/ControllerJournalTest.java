@@ -31,12 +31,17 @@ import java.util.TreeSet;
  * {@code decided} entry, and the file ends cleanly.
  */
 class ControllerJournalTest {
+    /** The two-area study loop with the controller journaling into {@code file}. */
+    private static StudyLoop journaledLoop(Path file) {
+        return new StudyLoop(new GridSimulator(ClosedLoopStudyTest.twoAreaGrid()),
+                ClosedLoopStudyTest.twoAreaController("tieLineBias"), List.of(),
+                JournalWriter.create(file, "controller", StudyLoop.START_MS, new org.loopstand.protocol.time.VirtualClock(0)));
+    }
+
     @Test
     void shouldJournalEveryCommandSentAndReadItBack(@TempDir Path dir) {
         Path file = dir.resolve("controller.jsonl");
-        StudyLoop loop = new StudyLoop(new GridSimulator(ClosedLoopStudyTest.twoAreaGrid()),
-                ClosedLoopStudyTest.twoAreaController("tieLineBias"), List.of(),
-                JournalWriter.create(file, "controller", StudyLoop.START_MS, new org.loopstand.protocol.time.VirtualClock(0)));
+        StudyLoop loop = journaledLoop(file);
         loop.runTo(40);
         loop.sim.stepLoadMw("area1", 100);
         loop.runTo(121); // the last cycle at 120 s; its acks come back within the next slices
@@ -75,9 +80,7 @@ class ControllerJournalTest {
     @Test
     void shouldJournalTheSuspensionOfOneAreaWithItsFiguresAndItsResumption(@TempDir Path dir) {
         Path file = dir.resolve("controller.jsonl");
-        StudyLoop loop = new StudyLoop(new GridSimulator(ClosedLoopStudyTest.twoAreaGrid()),
-                ClosedLoopStudyTest.twoAreaController("tieLineBias"), List.of(),
-                JournalWriter.create(file, "controller", StudyLoop.START_MS, new org.loopstand.protocol.time.VirtualClock(0)));
+        StudyLoop loop = journaledLoop(file);
         loop.runTo(60);
         loop.tap.stuckFrequencyHzByArea.put("area1", 59.98);
         loop.runTo(120);
@@ -123,9 +126,7 @@ class ControllerJournalTest {
     @Test
     void shouldJournalTheAgeOfWhatEachCycleUsedAndTheIntakeCounters(@TempDir Path dir) {
         Path file = dir.resolve("controller.jsonl");
-        StudyLoop loop = new StudyLoop(new GridSimulator(ClosedLoopStudyTest.twoAreaGrid()),
-                ClosedLoopStudyTest.twoAreaController("tieLineBias"), List.of(),
-                JournalWriter.create(file, "controller", StudyLoop.START_MS, new org.loopstand.protocol.time.VirtualClock(0)));
+        StudyLoop loop = journaledLoop(file);
         MessageCodec codec = new MessageCodec();
         TopicTree topics = TopicTree.forSite("two-area-textbook");
         Map<String, TreeSet<Long>> meterSeqs = new TreeMap<>();
