@@ -89,6 +89,7 @@ public final class IntakeRouter {
     private volatile Runnable arrivalSignal = () -> { };
     private RouteProbe routeProbe;
     private long messagesRouted;
+    private double replayRate = 1.0;
 
     public IntakeRouter(ControllerSiteConfig site, Clock clock, MessageCodec codec, IntakeObserver observer) {
         this.site = site;
@@ -203,6 +204,7 @@ public final class IntakeRouter {
         } else if (v instanceof Schedule sc) {
             onSchedule(topic, p, sc);
         } else if (v instanceof ClockTick tick) {
+            followRate(tick);
             clockListener.accept(tick);
         } else {
             reject(topic, "unknownTopic", "no route for " + v.getClass().getSimpleName());
@@ -273,6 +275,18 @@ public final class IntakeRouter {
             return;
         }
         schedules.receive(p.area(), s);
+    }
+
+    /** The clock skew limits follow the replay rate the plant's clock announces (skew is wall time). */
+    private void followRate(ClockTick tick) {
+        double rate = tick.running() && tick.rate() > 0 ? tick.rate() : replayRate;
+        if (rate == replayRate) {
+            return;
+        }
+        replayRate = rate;
+        frequency.values().forEach(f -> f.scaleClockSkewLimit(rate));
+        tieFlow.scaleClockSkewLimit(rate);
+        telemetryCheck.values().forEach(t -> t.scaleClockSkewLimit(rate));
     }
 
     private void noteSkew(String source, Set<ValidationReason> reasons, MeasuredValue v) {

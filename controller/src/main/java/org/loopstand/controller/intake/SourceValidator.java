@@ -21,6 +21,7 @@ public final class SourceValidator {
     private final InputValidationSettings settings;
     private final SeqTracker seq = new SeqTracker();
     private final FrozenDetector frozen;
+    private long clockSkewLimitMs;
     private MeasuredValue latest;
     private EnumSet<ValidationReason> latestReasons = EnumSet.noneOf(ValidationReason.class);
     private MeasuredValue lastGood;
@@ -30,6 +31,7 @@ public final class SourceValidator {
 
     public SourceValidator(InputValidationSettings settings) {
         this.settings = settings;
+        this.clockSkewLimitMs = settings.clockSkewLimitMs();
         this.frozen = new FrozenDetector(settings.frozenAfterMs(), settings.frozenMinReadings(),
                 settings.frozenEpsilon());
     }
@@ -51,10 +53,10 @@ public final class SourceValidator {
         }
         long skew = sample.sourceTimeMs() - sample.receivedAtMs();
         lastClockSkewMs = skew;
-        if (skew > settings.clockSkewLimitMs()) {
+        if (skew > clockSkewLimitMs) {
             r.add(ValidationReason.CLOCK_SKEW_AHEAD);
             maxClockSkewAheadMs = Math.max(maxClockSkewAheadMs, skew);
-        } else if (skew < -settings.clockSkewLimitMs()) {
+        } else if (skew < -clockSkewLimitMs) {
             r.add(ValidationReason.CLOCK_SKEW_BEHIND);
             maxClockSkewBehindMs = Math.max(maxClockSkewBehindMs, -skew);
         }
@@ -101,6 +103,22 @@ public final class SourceValidator {
         }
         boolean usable = !blocking(r) && !r.contains(ValidationReason.STALE);
         return new ValidatedValue(usable ? latest.value() : Double.NaN, usable, r, false, ageMs);
+    }
+
+    /**
+     * Clock skew is a matter of wall clocks: in a run replayed at {@code rate} scenario seconds per
+     * wall second, a source whose time stamp is ahead of ours by the same wall time is {@code rate}
+     * times further ahead in scenario ms (transport delay and the extrapolation of the plant's clock
+     * grow the same way). The limit becomes {@code clockSkewLimitMs · max(1, rate)}.
+     */
+    public void scaleClockSkewLimit(double rate) {
+        double factor = Double.isFinite(rate) ? Math.max(1.0, rate) : 1.0;
+        clockSkewLimitMs = Math.round(settings.clockSkewLimitMs() * factor);
+    }
+
+    /** @return the clock skew limit in force, scenario ms */
+    public long clockSkewLimitMs() {
+        return clockSkewLimitMs;
     }
 
     /** @return the last sample that passed the per-sample checks, or null */

@@ -87,6 +87,11 @@ final class TieFlowInputs {
         return ValidatedValue.unusable(reasons, v.ageMs());
     }
 
+    /** Scales every tie input's clock skew limit to the replay rate. */
+    void scaleClockSkewLimit(double rate) {
+        byEnd.values().forEach(v -> v.scaleClockSkewLimit(rate));
+    }
+
     /** @return the flow input of a tie seen from one area, or null */
     ValidatedInput input(String areaId, String tieId) {
         return byEnd.get(areaId + "/" + tieId);
