@@ -9,7 +9,6 @@ import java.util.concurrent.ConcurrentLinkedQueue;
 import org.loopstand.controller.config.ControllerSiteConfig;
 import org.loopstand.controller.config.SiteArea;
 import org.loopstand.controller.cycle.AreaCycleInputs;
-import org.loopstand.controller.cycle.AreaCycleResult;
 import org.loopstand.controller.cycle.ControlCycle;
 import org.loopstand.controller.cycle.CycleInputs;
 import org.loopstand.controller.cycle.CycleOutcome;
@@ -80,6 +79,7 @@ public final class ControllerAgent implements Agent {
     private volatile boolean linkUp;
     private CycleScheduler scheduler;
     private CycleOutcome lastOutcome;
+    private long lastHeartbeatWallNanos;
     private long cyclesRun;
 
     /**
@@ -199,10 +199,14 @@ public final class ControllerAgent implements Agent {
         }
     }
 
+    /** Wall time between the statuses sent while the controller's clock stands still, ns. */
+    static final long STILL_HEARTBEAT_WALL_NANOS = 200_000_000L;
+
     @Override
     public int doWork() {
         int work = intake.drain();
         drainEvents();
+        work += heartbeatWhileStill();
         if (scheduler == null) {
             if (busClock != null && !busClock.synced()) {
                 return work;
@@ -221,6 +225,27 @@ public final class ControllerAgent implements Agent {
             histograms.writeIntervalIfDue();
         }
         return work;
+    }
+
+    /**
+     * While the plant's clock stands still for this controller (no tick yet, or the last one said
+     * held) no cycle runs (at most the one due at the held instant), yet the units' watchdog counts from the go: the plant may have started the
+     * scenario and its next tick may be a wall second away (at rate 40, 40 s of scenario time, more
+     * than the 30 s watchdog). So the suspended status goes out every {@value #STILL_HEARTBEAT_WALL_NANOS}
+     * ns of wall time until the clock runs (docs/controller-contract.md: "also while scenario time stands
+     * still"). Reason {@code waitingForClock}.
+     */
+    private int heartbeatWhileStill() {
+        if (busClock == null || busClock.rate() > 0 || !linkUp) {
+            return 0;
+        }
+        long now = busClock.wallNanos();
+        if (now - lastHeartbeatWallNanos < STILL_HEARTBEAT_WALL_NANOS) {
+            return 0;
+        }
+        lastHeartbeatWallNanos = now;
+        status.publish(ControllerState.SUSPENDED, List.of("waitingForClock"), 0, List.of(), List.of(), List.of());
+        return 1;
     }
 
     /** @return ns until the next cycle start (for a runner that waits its own way); 0 if unknown */
@@ -245,7 +270,7 @@ public final class ControllerAgent implements Agent {
         if (histograms != null) {
             histograms.record(JITTER_TAG, tick.jitterNanos() / 1000);
         }
-        List<AreaAce> aces = areaAces(o);
+        List<AreaAce> aces = StatusPublisher.areaAces(o);
         trackExclusions(o, nowMs);
         areaSuspensions.update(o);
         if (link) {
@@ -294,23 +319,6 @@ public final class ControllerAgent implements Agent {
             }
         }
         excluded.update(o);
-    }
-
-    private static List<AreaAce> areaAces(CycleOutcome o) {
-        List<AreaAce> out = new ArrayList<>();
-        for (AreaCycleResult r : o.areas()) {
-            if (r.ace() == null || !Double.isFinite(r.aceMw())) {
-                continue; // unknown ACE is not published as a number; the reasons say why
-            }
-            double filtered = r.regulation() == null ? r.aceMw() : r.regulation().filteredAceMw();
-            String band = r.regulation() == null ? "held" : r.regulation().band().code();
-            out.add(new AreaAce(r.areaId(), clampMw(r.aceMw()), clampMw(filtered), band));
-        }
-        return out;
-    }
-
-    private static double clampMw(double mw) {
-        return Math.max(-1e6, Math.min(1e6, mw));
     }
 
     private void drainEvents() {

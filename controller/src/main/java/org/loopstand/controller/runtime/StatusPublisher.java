@@ -1,6 +1,9 @@
 package org.loopstand.controller.runtime;
 
+import java.util.ArrayList;
 import java.util.List;
+import org.loopstand.controller.cycle.AreaCycleResult;
+import org.loopstand.controller.cycle.CycleOutcome;
 import java.util.Queue;
 import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.OutboundMessage;
@@ -63,5 +66,23 @@ final class StatusPublisher {
 
     long statusesSent() {
         return statusesSent;
+    }
+
+    /** @return each area's ACE as the status shows it (areas with no known ACE left out, values clamped) */
+    static List<AreaAce> areaAces(CycleOutcome o) {
+        List<AreaAce> out = new ArrayList<>();
+        for (AreaCycleResult r : o.areas()) {
+            if (r.ace() == null || !Double.isFinite(r.aceMw())) {
+                continue; // unknown ACE is not published as a number; the reasons say why
+            }
+            double filtered = r.regulation() == null ? r.aceMw() : r.regulation().filteredAceMw();
+            String band = r.regulation() == null ? "held" : r.regulation().band().code();
+            out.add(new AreaAce(r.areaId(), clampMw(r.aceMw()), clampMw(filtered), band));
+        }
+        return out;
+    }
+
+    private static double clampMw(double mw) {
+        return Math.max(-1e6, Math.min(1e6, mw));
     }
 }
