@@ -41,26 +41,34 @@ public record ControllerSettings(long cycleMs, AceMode aceMode, RegulationSettin
                 defaultFrequencyRule(f0Hz), defaultTieRule(), 10_000, 2_000, 20_000, true);
     }
 
-    /** Identical frequency readings in a row that make a frequency frozen by default. */
-    public static final int DEFAULT_FREQUENCY_FROZEN_COUNT = 12;
-    /** Identical tie flow readings in a row that make a tie flow frozen by default. */
-    public static final int DEFAULT_TIE_FROZEN_COUNT = 8;
+    /** Scenario time a frequency must stay identical to be frozen by default, ms (12 readings at a 2 s scan). */
+    public static final long DEFAULT_FREQUENCY_FROZEN_AFTER_MS = 22_000;
+    /** Fewest frequency readings in that time by default (half of a 2 s scan's). */
+    public static final int DEFAULT_FREQUENCY_FROZEN_MIN_READINGS = 6;
+    /** Scenario time a tie flow must stay identical to be frozen by default, ms (8 readings at a 2 s scan). */
+    public static final long DEFAULT_TIE_FROZEN_AFTER_MS = 14_000;
+    /** Fewest tie flow readings in that time by default (half of a 2 s scan's). */
+    public static final int DEFAULT_TIE_FROZEN_MIN_READINGS = 4;
 
     /**
-     * Frequency: 10 s age, f0 ± 5 Hz, 5 Hz/s, frozen after 12 identical readings (exact repeats),
-     * hold last good 8 s. Twelve: a live meter with 1 mHz noise at 1 mHz resolution puts a reading
-     * in its most likely bin with a chance of about 0.38, so twelve equal readings in a row come
-     * about once in 10⁵ readings (two to three days at a 2 s scan, and then only a short
-     * suspension), while a frozen meter is caught 22 s after it froze.
+     * Frequency: 10 s age, f0 ± 5 Hz, 5 Hz/s, frozen after 22 s of scenario time with identical
+     * readings (exact repeats, at least 6), hold last good 8 s. 22 s is twelve readings at a 2 s scan:
+     * a live meter with 1 mHz noise at 1 mHz resolution puts a reading in its most likely bin with a
+     * chance of about 0.38, so twelve equal readings in a row come about once in 10⁵ readings (two to
+     * three days at a 2 s scan, and then only a short suspension). Lost scans inside the 22 s do not
+     * delay the verdict; six readings at least keep two equal readings far apart from being one.
      */
     static InputRule defaultFrequencyRule(double f0Hz) {
-        return new InputRule(10_000, f0Hz - 5, f0Hz + 5, 5.0, DEFAULT_FREQUENCY_FROZEN_COUNT, 0.0,
-                FallbackPolicy.HOLD_LAST_GOOD, 8_000);
+        return new InputRule(10_000, f0Hz - 5, f0Hz + 5, 5.0, DEFAULT_FREQUENCY_FROZEN_AFTER_MS,
+                DEFAULT_FREQUENCY_FROZEN_MIN_READINGS, 0.0, FallbackPolicy.HOLD_LAST_GOOD, 8_000);
     }
 
-    /** Tie flow: 10 s age, ±20000 MW, rate off, frozen after 8 identical readings, hold last good 8 s. */
+    /**
+     * Tie flow: 10 s age, ±20000 MW, rate off, frozen after 14 s of scenario time with identical
+     * readings (at least 4), hold last good 8 s.
+     */
     static InputRule defaultTieRule() {
-        return new InputRule(10_000, -20_000, 20_000, Double.POSITIVE_INFINITY, DEFAULT_TIE_FROZEN_COUNT, 0.0,
-                FallbackPolicy.HOLD_LAST_GOOD, 8_000);
+        return new InputRule(10_000, -20_000, 20_000, Double.POSITIVE_INFINITY, DEFAULT_TIE_FROZEN_AFTER_MS,
+                DEFAULT_TIE_FROZEN_MIN_READINGS, 0.0, FallbackPolicy.HOLD_LAST_GOOD, 8_000);
     }
 }

@@ -13,6 +13,7 @@ import org.loopstand.controller.ace.AceConvention;
 import org.loopstand.controller.ace.AceMode;
 import org.loopstand.controller.ace.AreaControlSettings;
 import org.loopstand.controller.following.FollowingSettings;
+import org.loopstand.controller.following.GovernorResponse;
 import org.loopstand.controller.intake.FallbackPolicy;
 import org.loopstand.controller.pulse.PulseSettings;
 import org.loopstand.controller.regulation.RegulationSettings;
@@ -93,8 +94,13 @@ public final class ControllerSiteReader {
                 u.fail("needs regulating limits (regulatingMinMw/regulatingMaxMw or ratingMw) for its cost curve");
             }
             if (id != null && area != null) {
+                double droop = u.dbl("droopPct", Double.NaN);
+                double lagS = GovernorResponse.rampLagS(u.string("turbine", ""), u.dbl("governorTimeConstantS", 0.0),
+                        u.dbl("turbineTimeConstantS", 0.0), u.dbl("steamChestTimeConstantS", 0.0),
+                        u.dbl("reheatTimeConstantS", 0.0), u.dbl("hpFraction", 1.0), u.dbl("waterStartingTimeS", 0.0),
+                        u.dbl("transientDroopPct", Double.NaN), droop, u.dbl("resetTimeS", 0.0));
                 units.add(new SiteUnit(id, area, u.dbl("costA", 0.0), u.dbl("costB", 0.0), c, min, max, rating,
-                        u.dbl("droopPct", Double.NaN), deadBandHz));
+                        droop, deadBandHz, lagS));
             }
         }
         double f0 = areas.isEmpty() ? 50.0 : areas.get(0).nominalFrequencyHz();
@@ -235,11 +241,16 @@ public final class ControllerSiteReader {
                 yield d.policy();
             }
         };
+        if (s.has("frozenCount")) {
+            s.fail("frozenCount", "is replaced by frozenAfterMs (scenario ms the value must stay identical; a count of"
+                    + " readings stretched with every lost scan) and frozenMinReadings");
+        }
         double rate = s.dbl("maxRate" + unit + "PerS", 0);
         InputRule r = new InputRule(s.lng("maxAgeMs", d.maxAgeMs()), s.dbl("min" + unit, d.minValue()),
                 s.dbl("max" + unit, d.maxValue()), rate > 0 ? rate : s.has("maxRate" + unit + "PerS")
                         ? Double.POSITIVE_INFINITY : d.maxRatePerS(),
-                (int) s.lng("frozenCount", d.frozenCount()), s.dbl("frozenEpsilon" + unit, d.frozenEpsilon()), policy,
+                s.lng("frozenAfterMs", d.frozenAfterMs()), (int) s.lng("frozenMinReadings", d.frozenMinReadings()),
+                s.dbl("frozenEpsilon" + unit, d.frozenEpsilon()), policy,
                 s.lng("holdMs", d.holdMs()));
         s.finish();
         if (!attempt(s, () -> r.toSettings("check", 1000))) {

@@ -11,18 +11,20 @@ import org.loopstand.controller.intake.InputValidationSettings;
  * @param minValue      lowest plausible value (Hz or MW)
  * @param maxValue      highest plausible value (Hz or MW)
  * @param maxRatePerS   largest plausible change per second (Hz/s or MW/s); +∞ = off
- * @param frozenCount   identical samples in a row that make the value frozen; 0 = off, else ≥ 2
+ * @param frozenAfterMs source-time span (scenario ms) of identical samples that makes the value
+ *                      frozen; 0 = off
+ * @param frozenMinReadings fewest samples in that span, ≥ 2
  * @param frozenEpsilon largest difference counted as identical (Hz or MW), ≥ 0
  * @param policy        fallback when the latest value is not usable
  * @param holdMs        hold-last-good time past maxAgeMs, ms, ≥ 0
  */
-public record InputRule(long maxAgeMs, double minValue, double maxValue, double maxRatePerS, int frozenCount,
-                        double frozenEpsilon, FallbackPolicy policy, long holdMs) {
+public record InputRule(long maxAgeMs, double minValue, double maxValue, double maxRatePerS, long frozenAfterMs,
+                        int frozenMinReadings, double frozenEpsilon, FallbackPolicy policy, long holdMs) {
 
     /** @return validation settings for one input named {@code inputName} */
     public InputValidationSettings toSettings(String inputName, long clockSkewLimitMs) {
         InputValidationSettings.Builder b = InputValidationSettings.builder(inputName).maxAgeMs(maxAgeMs)
-                .range(minValue, maxValue).maxRatePerS(maxRatePerS).frozen(frozenCount, frozenEpsilon)
+                .range(minValue, maxValue).maxRatePerS(maxRatePerS).frozen(frozenAfterMs, frozenMinReadings, frozenEpsilon)
                 .clockSkewLimitMs(clockSkewLimitMs);
         switch (policy) {
             case HOLD_LAST_GOOD -> b.holdLastGood(holdMs);

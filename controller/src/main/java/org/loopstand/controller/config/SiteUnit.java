@@ -17,9 +17,17 @@ import org.loopstand.controller.following.GovernorResponse;
  * @param ratingMw    rating, MW (NaN when not given)
  * @param droopPct    permanent droop, % (NaN when not given)
  * @param deadBandHz  governor dead band, Hz (0 when not given)
+ * @param responseLagS how far the unit's output lags a ramp of its load reference, s, from its
+ *                    turbine data ({@link GovernorResponse#rampLagS}); 0 when not given
  */
 public record SiteUnit(String id, String area, double costA, double costB, double costC, double minMw,
-                       double maxMw, double ratingMw, double droopPct, double deadBandHz) {
+                       double maxMw, double ratingMw, double droopPct, double deadBandHz, double responseLagS) {
+    /** Without a known response lag. */
+    public SiteUnit(String id, String area, double costA, double costB, double costC, double minMw, double maxMw,
+                    double ratingMw, double droopPct, double deadBandHz) {
+        this(id, area, costA, costB, costC, minMw, maxMw, ratingMw, droopPct, deadBandHz, 0.0);
+    }
+
     /** Without a governor dead band. */
     public SiteUnit(String id, String area, double costA, double costB, double costC, double minMw, double maxMw,
                     double ratingMw, double droopPct) {
@@ -34,7 +42,8 @@ public record SiteUnit(String id, String area, double costA, double costB, doubl
     /** @return the unit's governor as the following check models it (none when rating or droop is missing) */
     public GovernorResponse governor(double nominalFrequencyHz) {
         double k = primaryResponseMwPerHz(nominalFrequencyHz);
-        return k > 0 ? new GovernorResponse(k, deadBandHz >= 0 && Double.isFinite(deadBandHz) ? deadBandHz : 0.0)
-                : GovernorResponse.NONE;
+        double lag = responseLagS >= 0 && Double.isFinite(responseLagS) ? responseLagS : 0.0;
+        return k > 0 ? new GovernorResponse(k, deadBandHz >= 0 && Double.isFinite(deadBandHz) ? deadBandHz : 0.0, lag)
+                : new GovernorResponse(0, 0, lag);
     }
 }

@@ -102,7 +102,8 @@ final class AreaController {
         double baseMovedMw = redispatch != null ? tertiary(eligible, nowMs, notes) : 0;
         Set<String> ids = idsOf(eligible);
         if (ids.isEmpty()) {
-            notes.add("noEligibleUnits:" + areaId());
+            // the reason of each unit's absence goes with it: {unit}:{offline|notInRemote|telemetryBad|notFollowing}
+            notes.add("noEligibleUnits:" + areaId() + (excluded.isEmpty() ? "" : ":" + String.join(",", excluded)));
             regulator.suspend();
             lastEligible = ids;
             return new AreaCycleResult(areaId(), aceResult, null, null);

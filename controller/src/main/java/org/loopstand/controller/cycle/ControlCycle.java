@@ -5,7 +5,6 @@ import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
-import java.util.Optional;
 import java.util.Set;
 import org.loopstand.controller.ace.AceResult;
 import org.loopstand.controller.allocation.RegulationAllocator;
@@ -13,13 +12,10 @@ import org.loopstand.controller.allocation.UnitAllocation;
 import org.loopstand.controller.allocation.UnitState;
 import org.loopstand.controller.following.FollowingCheck;
 import org.loopstand.controller.following.FollowingDecision;
-import org.loopstand.controller.intake.ValidatedValue;
 import org.loopstand.controller.pulse.PlannedCommand;
 import org.loopstand.controller.pulse.PulseOutcome;
 import org.loopstand.controller.pulse.PulsePlanner;
-import org.loopstand.controller.safety.InterlockCheck;
-import org.loopstand.controller.safety.InterlockDecision;
-import org.loopstand.controller.safety.RegulationInterlock;
+import org.loopstand.controller.safety.InterlockState;
 import org.loopstand.controller.safety.UsableValue;
 
 /**
@@ -29,16 +25,19 @@ import org.loopstand.controller.safety.UsableValue;
  *
  * <p>Order within a cycle: (1) interlock conditions: bus link, every area's frequency, every tie
  * flow and schedule must be usable (a held value is usable), then ACE within its sanity limit;
- * (2) unit-following checks; (3) if the interlock says suspended, the regulators freeze and no
- * command is planned; on the cycle it resumes, each regulator tracks the units' present level;
- * (4) per area: tertiary base point step, filter, band, PI, allocation, pulse/setpoint planning.
+ * each is judged per area ({@link AreaInterlocks}: only the areas whose data are unusable are
+ * suspended; a bad tie suspends both its ends; link down or a superseded epoch suspends all);
+ * (2) unit-following checks; (3) a suspended area's regulator freezes and nothing is planned for
+ * it; on the cycle an area resumes, its regulator tracks its units' present level;
+ * (4) per regulating area: tertiary base point step, filter, band, PI, allocation, pulse/setpoint
+ * planning. The outcome is regulating while any area regulates.
  * Values are taken only through {@link UsableValue#from}, so nothing is computed from a value
  * that failed validation. Not thread-safe: one cycle thread.
  */
 public final class ControlCycle {
     private final ControlCycleSettings settings;
     private final Map<String, AreaController> areas = new LinkedHashMap<>();
-    private final RegulationInterlock interlock;
+    private final AreaInterlocks interlocks;
     private final FollowingStage following;
     private final PulsePlanner pulses;
     private final Map<String, LastCommand> lastCommands = new HashMap<>();
@@ -61,7 +60,7 @@ public final class ControlCycle {
         for (AreaSetup a : settings.areas()) {
             areas.put(a.ace().areaId(), new AreaController(a));
         }
-        this.interlock = new RegulationInterlock(settings.interlock());
+        this.interlocks = new AreaInterlocks(areas.keySet(), settings.interlock());
         this.following = new FollowingStage(settings);
         this.pulses = new PulsePlanner(settings.pulses());
     }
@@ -71,9 +70,12 @@ public final class ControlCycle {
         List<String> notes = new ArrayList<>();
         notes.addAll(notExecuted);
         notExecuted.clear();
-        InterlockCheck check = new InterlockCheck().busLink(in.busLinkUp());
+        AreaInterlocks.Conditions conditions = new AreaInterlocks.Conditions();
+        if (!in.busLinkUp()) {
+            conditions.global("busLinkDown");
+        }
         if (supersededEpochReason != null) {
-            check.other(supersededEpochReason);
+            conditions.global(supersededEpochReason);
         }
         Map<String, AceResult> aceByArea = new LinkedHashMap<>();
         Map<String, Double> freqDevByArea = new HashMap<>();
@@ -88,10 +90,10 @@ public final class ControlCycle {
         for (AreaController area : areas.values()) {
             AreaCycleInputs a = inputsByArea.get(area.areaId());
             if (a == null) {
-                check.other("areaInputsMissing:" + area.areaId());
+                conditions.area(area.areaId(), "areaInputsMissing:" + area.areaId(), "");
                 continue;
             }
-            AceResult ace = ace(area, a, check);
+            AceResult ace = AreaInputCheck.ace(area, a, conditions);
             UsableValue.from(a.frequencyHz()).ifPresent(f -> {
                 if (a.schedule() != null) {
                     double df = f.value() - a.schedule().frequencyScheduledHz();
@@ -100,11 +102,14 @@ public final class ControlCycle {
                 }
             });
             if (ace != null) {
-                check.ace(area.areaId(), ace.aceMw(), settings.interlock().aceSanityLimitMw());
+                AreaInputCheck.sanity(area.areaId(), ace.aceMw(), settings.interlock().aceSanityLimitMw(), conditions);
                 aceByArea.put(area.areaId(), ace);
             }
         }
-        InterlockDecision decision = interlock.evaluate(check);
+        Map<String, AreaInterlockState> interlock = interlocks.evaluate(conditions, in.nowMs());
+        boolean anyRegulating = interlock.values().stream().anyMatch(AreaInterlockState::mayCommand);
+        InterlockState state = anyRegulating ? InterlockState.REGULATING : InterlockState.SUSPENDED;
+        List<String> reasons = anyRegulating ? List.of() : conditions.allReasons(areas.keySet());
 
         List<UnitState> units = effectiveUnits(in.units());
         List<FollowingDecision> decisions = new ArrayList<>(pendingDecisions);
@@ -114,14 +119,6 @@ public final class ControlCycle {
 
         List<AreaCycleResult> results = new ArrayList<>();
         List<PlannedCommand> commands = new ArrayList<>();
-        if (!decision.mayCommand()) {
-            for (AreaController area : areas.values()) {
-                area.suspend();
-                results.add(new AreaCycleResult(area.areaId(), aceByArea.get(area.areaId()), null, null));
-            }
-            return new CycleOutcome(in.cycleNumber(), in.nowMs(), decision.state(), decision.reasons(), results,
-                    List.of(), checks, notes, decisions, flagged);
-        }
         Map<String, UnitState> byId = new HashMap<>();
         // grouped once: a scan of every unit per area was 50 × 10,000 comparisons per cycle
         Map<String, List<UnitState>> unitsByArea = new HashMap<>();
@@ -131,11 +128,17 @@ public final class ControlCycle {
             unitsByArea.computeIfAbsent(u.areaId(), k -> new ArrayList<>()).add(u);
         }
         for (AreaController area : areas.values()) {
+            AceResult ace = aceByArea.get(area.areaId());
+            if (!interlock.get(area.areaId()).mayCommand()) {
+                // suspended: the regulator is frozen (no integration), no command, no probe
+                area.suspend();
+                results.add(new AreaCycleResult(area.areaId(), ace, null, null));
+                continue;
+            }
             List<String> excluded = new ArrayList<>();
             List<UnitState> eligible = RegulationAllocator.eligible(
                     unitsByArea.getOrDefault(area.areaId(), List.of()), flagged, excluded);
-            AceResult ace = aceByArea.get(area.areaId());
-            if (decision.resumedNow()) {
+            if (interlock.get(area.areaId()).resumedNow()) {
                 area.resume(eligible, ace.aceMw());
             }
             AreaCycleResult r = area.regulate(ace, eligible, excluded, in.nowMs(), notes);
@@ -160,26 +163,8 @@ public final class ControlCycle {
                 }
             }
         }
-        return new CycleOutcome(in.cycleNumber(), in.nowMs(), decision.state(), List.of(), results, commands, checks,
-                notes, decisions, following.flaggedUnits());
-    }
-
-    private static AceResult ace(AreaController area, AreaCycleInputs a, InterlockCheck check) {
-        Optional<UsableValue> f = UsableValue.from(a.frequencyHz());
-        check.frequency(area.areaId(), f.isPresent());
-        List<UsableValue> ties = new ArrayList<>();
-        boolean tiesOk = true;
-        for (Map.Entry<String, ValidatedValue> t : new java.util.TreeMap<>(a.tieFlowsMw()).entrySet()) {
-            Optional<UsableValue> v = UsableValue.from(t.getValue());
-            check.tieFlow(area.areaId(), t.getKey(), v.isPresent());
-            v.ifPresent(ties::add);
-            tiesOk &= v.isPresent();
-        }
-        check.schedule(area.areaId(), a.schedule() != null);
-        if (f.isEmpty() || !tiesOk || a.schedule() == null) {
-            return null;
-        }
-        return area.computeAce(f.get(), ties, a.schedule(), a.timeErrorS(), a.inadvertentAccumMwh());
+        return new CycleOutcome(in.cycleNumber(), in.nowMs(), state, reasons, results, commands, checks,
+                notes, decisions, following.flaggedUnits(), List.copyOf(interlock.values()));
     }
 
     private void remember(UnitState u, PlannedCommand c, long nowMs) {

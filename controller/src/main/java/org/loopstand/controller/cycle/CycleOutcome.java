@@ -22,11 +22,13 @@ import org.loopstand.controller.safety.InterlockState;
  *                    {@code redispatchInfeasible:areaA:…}, {@code commandNotExecuted:U1:expired}
  * @param decisions   unit exclusions, re-admission probes and re-admissions of this cycle
  * @param excludedUnits units flagged as not following after this cycle, sorted
+ * @param areaStates  each area's interlock state after this cycle (site order); empty when not
+ *                    known (outcomes built by hand)
  */
 public record CycleOutcome(long cycleNumber, long nowMs, InterlockState state, List<String> reasons,
                            List<AreaCycleResult> areas, List<PlannedCommand> commands,
                            List<FollowingCheck> following, List<String> notes, List<FollowingDecision> decisions,
-                           Set<String> excludedUnits) {
+                           Set<String> excludedUnits, List<AreaInterlockState> areaStates) {
     public CycleOutcome {
         reasons = List.copyOf(reasons);
         areas = List.copyOf(areas);
@@ -35,12 +37,18 @@ public record CycleOutcome(long cycleNumber, long nowMs, InterlockState state, L
         notes = List.copyOf(notes);
         decisions = List.copyOf(decisions);
         excludedUnits = java.util.Collections.unmodifiableSet(new TreeSet<>(excludedUnits));
+        areaStates = List.copyOf(areaStates);
+    }
+
+    /** @return the areas that may not be regulated after this cycle, site order */
+    public List<AreaInterlockState> suspendedAreas() {
+        return areaStates.stream().filter(a -> !a.mayCommand()).toList();
     }
 
     /** Without following decisions. */
     public CycleOutcome(long cycleNumber, long nowMs, InterlockState state, List<String> reasons,
                         List<AreaCycleResult> areas, List<PlannedCommand> commands,
                         List<FollowingCheck> following, List<String> notes) {
-        this(cycleNumber, nowMs, state, reasons, areas, commands, following, notes, List.of(), Set.of());
+        this(cycleNumber, nowMs, state, reasons, areas, commands, following, notes, List.of(), Set.of(), List.of());
     }
 }

@@ -36,6 +36,7 @@ final class FollowingStage {
     FollowingStage(ControlCycleSettings settings) {
         this.settings = settings;
         this.monitor = new UnitFollowingMonitor(settings.following());
+        settings.governors().forEach((unitId, g) -> monitor.responseLag(unitId, g.responseLagS()));
         for (AreaSetup a : settings.areas()) {
             frequencyHistory.put(a.ace().areaId(), new FrequencyHistory(settings.following().governorSettleMs()));
         }

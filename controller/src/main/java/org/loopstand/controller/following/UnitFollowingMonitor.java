@@ -12,7 +12,8 @@ import java.util.TreeSet;
  * Checks that units answer their commands.
  *
  * <p>Per unit an <em>expected output</em> moves from the measured output at the first command toward
- * the commanded target ({@code target += Δ} for each command) at the unit's ramp rate. A check
+ * the commanded target ({@code target += Δ} for each command) at the unit's ramp rate, then through
+ * a first-order lag of the unit's response lag ({@link #responseLag}). A check
  * compares the measured output with the expected output at {@code t − deadTimeMs}, where t is the
  * source time of the telemetry reading (never later than the check), so a reading that arrives late
  * (a loaded bus, a high replay rate) is judged against what the unit could have done when it was
@@ -45,9 +46,29 @@ import java.util.TreeSet;
 public final class UnitFollowingMonitor {
     private final FollowingSettings settings;
     private final Map<String, Track> tracks = new HashMap<>();
+    private final Map<String, Long> lagMsByUnit = new HashMap<>();
 
     public UnitFollowingMonitor(FollowingSettings settings) {
         this.settings = settings;
+    }
+
+    /**
+     * The unit's output lags a ramp of its load reference by {@code lagS} (its servo, turbine and
+     * hydro compensation): the expected output is the ramp-limited commanded move passed through a
+     * first-order lag of that time constant, then judged {@code deadTimeMs} later. Without it a unit
+     * whose response is slower than the dead time (a hydro unit with transient droop compensation:
+     * about 40 s) falls behind a pure ramp by its lag times its rate and is flagged although it
+     * follows every command. Set before the unit's first command; 0 = no lag.
+     */
+    public void responseLag(String unitId, double lagS) {
+        if (!(lagS >= 0) || !Double.isFinite(lagS)) {
+            throw new IllegalArgumentException("responseLag of " + unitId + " must be >= 0 s, was " + lagS);
+        }
+        lagMsByUnit.put(unitId, Math.round(lagS * 1000));
+    }
+
+    private Track track(String unitId, double mw, long nowMs) {
+        return tracks.computeIfAbsent(unitId, k -> new Track(mw, nowMs, lagMsByUnit.getOrDefault(unitId, 0L)));
     }
 
     /** A command was sent: the unit's target moves by {@code deltaMw}. No governor allowance. */
@@ -63,7 +84,7 @@ public final class UnitFollowingMonitor {
      */
     public void onCommand(String unitId, double deltaMw, long issuedAtMs, double measuredOutputMw,
                           double governorUncertaintyMw) {
-        Track t = tracks.computeIfAbsent(unitId, k -> new Track(measuredOutputMw, issuedAtMs));
+        Track t = track(unitId, measuredOutputMw, issuedAtMs);
         if (!t.commanded) {
             t.resync(measuredOutputMw, issuedAtMs);
             t.baselineUncertaintyMw = Math.max(0, governorUncertaintyMw);
@@ -99,7 +120,7 @@ public final class UnitFollowingMonitor {
      */
     public FollowingCheck check(String unitId, long nowMs, long readingTimeMs, double measuredOutputMw,
                                 double rampMwPerMin, double governorUncertaintyMw) {
-        Track t = tracks.computeIfAbsent(unitId, k -> new Track(measuredOutputMw, nowMs));
+        Track t = track(unitId, measuredOutputMw, nowMs);
         if (!t.commanded) {
             // nothing asked of the unit: follow its drift (governor action) without judging it
             t.resync(measuredOutputMw, nowMs);
@@ -121,7 +142,9 @@ public final class UnitFollowingMonitor {
         }
         t.lastJudgedMs = judgedAtMs;
         boolean probe = t.probing;
-        boolean done = Math.abs(remaining) <= 1e-9 && judgedAtMs - t.lastCommandMs > settings.deadTimeMs();
+        // with a lag the expected output only approaches the target: done within a tenth of the tolerance
+        double doneWithinMw = t.lagMs > 0 ? 0.1 * settings.toleranceMw() : 1e-9;
+        boolean done = Math.abs(remaining) <= doneWithinMw && judgedAtMs - t.lastCommandMs > settings.deadTimeMs();
         boolean flaggedNow = false;
         boolean returnedNow = false;
         boolean probeFailedNow = false;
@@ -177,7 +200,7 @@ public final class UnitFollowingMonitor {
     /**
      * A re-admission probe of {@code deltaMw} was sent to a flagged unit: a fresh track starts from
      * the present output; the unit stays flagged (out of the allocation) until it completes the probe
-     * within {@code toleranceMw}. It must do so within {@code 2·deadTimeMs + |Δ|/ramp} of the
+     * within {@code toleranceMw}. It must do so within {@code 2·deadTimeMs + |Δ|/ramp + 4·lag} of the
      * reading's time, or after {@code missedCyclesToFlag} misses in a row, else the probe failed.
      *
      * @param measuredOutputMw      output with the governor share removed, MW
@@ -195,7 +218,8 @@ public final class UnitFollowingMonitor {
         t.followed = 0;
         t.probing = true;
         double moveMs = rampMwPerMin > 0 ? Math.abs(deltaMw) / rampMwPerMin * 60_000.0 : 0;
-        t.probeDeadlineMs = issuedAtMs + 2 * settings.deadTimeMs() + (long) Math.ceil(moveMs);
+        // a lagging unit gets four of its time constants more (98 % of the move)
+        t.probeDeadlineMs = issuedAtMs + 2 * settings.deadTimeMs() + (long) Math.ceil(moveMs) + 4 * t.lagMs;
         onCommand(unitId, deltaMw, issuedAtMs, measuredOutputMw, governorUncertaintyMw);
     }
 
@@ -234,7 +258,7 @@ public final class UnitFollowingMonitor {
      * @return true when the unit was not flagged before
      */
     public boolean flag(String unitId, long nowMs, double outputMw) {
-        Track t = tracks.computeIfAbsent(unitId, k -> new Track(outputMw, nowMs));
+        Track t = track(unitId, outputMw, nowMs);
         if (t.flagged) {
             return false;
         }
@@ -266,10 +290,14 @@ public final class UnitFollowingMonitor {
     }
 
     private final class Track {
+        final long lagMs;
         boolean commanded;
         double lastDirection;
         double targetMw;
+        /** the ramp-limited commanded move */
         double expectedMw;
+        /** that move through the unit's response lag: what the unit's output should show */
+        double laggedMw;
         long lastMs;
         long lastCommandMs = Long.MIN_VALUE / 2;
         int missed;
@@ -286,13 +314,15 @@ public final class UnitFollowingMonitor {
         final Deque<long[]> historyTimes = new ArrayDeque<>();
         final Deque<Double> historyValues = new ArrayDeque<>();
 
-        Track(double mw, long nowMs) {
+        Track(double mw, long nowMs, long lagMs) {
+            this.lagMs = lagMs;
             resync(mw, nowMs);
         }
 
         void resync(double mw, long nowMs) {
             targetMw = mw;
             expectedMw = mw;
+            laggedMw = mw;
             lastMs = nowMs;
             historyTimes.clear();
             historyValues.clear();
@@ -302,6 +332,7 @@ public final class UnitFollowingMonitor {
         void shift(double deltaMw) {
             targetMw += deltaMw;
             expectedMw += deltaMw;
+            laggedMw += deltaMw;
             int n = historyValues.size();
             for (int i = 0; i < n; i++) {
                 historyValues.addLast(historyValues.removeFirst() + deltaMw);
@@ -309,11 +340,21 @@ public final class UnitFollowingMonitor {
         }
 
         void advance(long nowMs, double rampMwPerMin) {
-            double step = rampMwPerMin * Math.max(0, nowMs - lastMs) / 60_000.0;
+            long dtMs = Math.max(0, nowMs - lastMs);
+            double step = rampMwPerMin * dtMs / 60_000.0;
             double d = targetMw - expectedMw;
+            double before = expectedMw;
             expectedMw += Math.max(-step, Math.min(step, d));
+            if (lagMs <= 0) {
+                laggedMw = expectedMw;
+            } else if (dtMs > 0) {
+                // first-order lag of a linear input over dt, exact: y = x − k·T + (y0 − x0 + k·T)·e^(−dt/T)
+                double k = (expectedMw - before) / dtMs;
+                double decay = Math.exp(-(double) dtMs / lagMs);
+                laggedMw = expectedMw - k * lagMs + (laggedMw - before + k * lagMs) * decay;
+            }
             lastMs = Math.max(lastMs, nowMs);
-            push(nowMs, expectedMw);
+            push(nowMs, laggedMw);
         }
 
         /** Latest expected value at or before {@code tMs}; the oldest one if none is that old. */
@@ -338,7 +379,7 @@ public final class UnitFollowingMonitor {
             historyValues.addLast(v);
             // keep what the dead time needs plus a margin; bounded in count as well
             while (historyTimes.size() > 2 && (historyTimes.size() > 1024
-                    || historyTimes.peekFirst()[0] < tMs - 2 * settings.deadTimeMs() - 60_000)) {
+                    || historyTimes.peekFirst()[0] < tMs - 2 * settings.deadTimeMs() - 60_000 - lagMs)) {
                 historyTimes.removeFirst();
                 historyValues.removeFirst();
             }

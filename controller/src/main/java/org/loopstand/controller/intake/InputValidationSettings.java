@@ -12,8 +12,9 @@ import java.util.List;
  * @param maxValue          highest plausible value (input unit), default +∞
  * @param maxRatePerS       largest plausible change per second between consecutive samples
  *                          (input unit/s), &gt; 0, default +∞ (off)
- * @param frozenCount       consecutive identical samples with advancing source time that make
- *                          the input frozen, 0 = off or ≥ 2, default 0
+ * @param frozenAfterMs     source-time span (scenario time) of identical samples that makes the
+ *                          input frozen, ms, 0 = off or &gt; 0, default 0 ({@link FrozenDetector})
+ * @param frozenMinReadings fewest samples in that span, ≥ 2, default 2
  * @param frozenEpsilon     largest difference counted as identical (input unit), ≥ 0, default 0
  * @param policy            fallback when the latest value is not usable, default DECLARE_UNUSABLE
  * @param holdMs            hold-last-good time after the age limit, ms, ≥ 0, default 0
@@ -21,7 +22,8 @@ import java.util.List;
  *                          &gt; 0, default 2000; a source ahead by more is not used
  */
 public record InputValidationSettings(String inputName, long maxAgeMs, double minValue, double maxValue,
-                                      double maxRatePerS, int frozenCount, double frozenEpsilon,
+                                      double maxRatePerS, long frozenAfterMs, int frozenMinReadings,
+                                      double frozenEpsilon,
                                       FallbackPolicy policy, long holdMs, long clockSkewLimitMs) {
 
     public static Builder builder(String inputName) {
@@ -34,7 +36,8 @@ public record InputValidationSettings(String inputName, long maxAgeMs, double mi
         private double minValue = Double.NEGATIVE_INFINITY;
         private double maxValue = Double.POSITIVE_INFINITY;
         private double maxRatePerS = Double.POSITIVE_INFINITY;
-        private int frozenCount;
+        private long frozenAfterMs;
+        private int frozenMinReadings = 2;
         private double frozenEpsilon;
         private FallbackPolicy policy = FallbackPolicy.DECLARE_UNUSABLE;
         private long holdMs;
@@ -47,7 +50,13 @@ public record InputValidationSettings(String inputName, long maxAgeMs, double mi
         public Builder maxAgeMs(long v) { maxAgeMs = v; return this; }
         public Builder range(double min, double max) { minValue = min; maxValue = max; return this; }
         public Builder maxRatePerS(double v) { maxRatePerS = v; return this; }
-        public Builder frozen(int count, double epsilon) { frozenCount = count; frozenEpsilon = epsilon; return this; }
+        /** Frozen after {@code afterMs} of source time within {@code epsilon}, at least {@code minReadings} samples. */
+        public Builder frozen(long afterMs, int minReadings, double epsilon) {
+            frozenAfterMs = afterMs;
+            frozenMinReadings = minReadings;
+            frozenEpsilon = epsilon;
+            return this;
+        }
         public Builder holdLastGood(long holdMs) { policy = FallbackPolicy.HOLD_LAST_GOOD; this.holdMs = holdMs; return this; }
         public Builder alternateSource() { policy = FallbackPolicy.ALTERNATE_SOURCE; return this; }
         public Builder declareUnusable() { policy = FallbackPolicy.DECLARE_UNUSABLE; return this; }
@@ -67,8 +76,11 @@ public record InputValidationSettings(String inputName, long maxAgeMs, double mi
             if (!(maxRatePerS > 0)) {
                 p.add("maxRatePerS must be > 0, was " + maxRatePerS);
             }
-            if (frozenCount != 0 && frozenCount < 2) {
-                p.add("frozenCount must be 0 (off) or >= 2, was " + frozenCount);
+            if (frozenAfterMs < 0) {
+                p.add("frozenAfterMs must be 0 (off) or > 0, was " + frozenAfterMs);
+            }
+            if (frozenAfterMs > 0 && frozenMinReadings < 2) {
+                p.add("frozenMinReadings must be >= 2, was " + frozenMinReadings);
             }
             if (!(frozenEpsilon >= 0)) {
                 p.add("frozenEpsilon must be >= 0, was " + frozenEpsilon);
@@ -82,7 +94,7 @@ public record InputValidationSettings(String inputName, long maxAgeMs, double mi
             if (!p.isEmpty()) {
                 throw new IllegalArgumentException("input " + inputName + " settings invalid: " + String.join("; ", p));
             }
-            return new InputValidationSettings(inputName, maxAgeMs, minValue, maxValue, maxRatePerS, frozenCount,
+            return new InputValidationSettings(inputName, maxAgeMs, minValue, maxValue, maxRatePerS, frozenAfterMs, frozenMinReadings,
                     frozenEpsilon, policy, holdMs, clockSkewLimitMs);
         }
     }

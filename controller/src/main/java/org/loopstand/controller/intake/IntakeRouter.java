@@ -1,7 +1,6 @@
 package org.loopstand.controller.intake;
 
 import java.util.ArrayList;
-import java.util.HashMap;
 import java.util.HashSet;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -60,19 +59,14 @@ import org.loopstand.protocol.topic.TopicTree;
  *   <li>schedules per area ({@link AreaSchedules}: a later one replaces those not yet in force);
  *       without one the site file's schedule is used if {@code scheduleFromSite}.</li>
  * </ul>
- * Cross check of each tie metered at both ends: when both ends' values are usable and this end's
- * flow and the other end's flow (sign flipped) differ by more than {@value #TIE_ENDS_TOLERANCE_MW} MW
- * for {@value #TIE_ENDS_DISAGREE_CYCLES} evaluations in a row, the tie flow is unusable at both ends
- * (reason {@code endsDisagree}): one meter is wrong (reversed, scaled, stuck) and we cannot tell which.
- * The run of evaluations keeps a transient swing seen by two meters scanned at different instants
- * from suspending control.
+ * Cross check of each tie metered at both ends ({@code endsDisagree}): {@link TieFlowInputs}.
  * Not thread-safe except {@link #listener()} and the counters.
  */
 public final class IntakeRouter {
     /** Largest difference between the two ends of a tie taken as agreement, MW (lossless ties, meter noise ≲ 1 MW). */
-    public static final double TIE_ENDS_TOLERANCE_MW = 50;
+    public static final double TIE_ENDS_TOLERANCE_MW = TieFlowInputs.TIE_ENDS_TOLERANCE_MW;
     /** Evaluations (cycles) in a row of disagreement before the tie flow is unusable. */
-    public static final int TIE_ENDS_DISAGREE_CYCLES = 3;
+    public static final int TIE_ENDS_DISAGREE_CYCLES = TieFlowInputs.TIE_ENDS_DISAGREE_CYCLES;
 
     private final ControllerSiteConfig site;
     private final ControllerSettings settings;
@@ -86,18 +80,16 @@ public final class IntakeRouter {
     private final Map<String, AtomicLong> acksByOutcome = new ConcurrentHashMap<>();
     private final Map<String, ValidatedInput> frequency = new LinkedHashMap<>();
     private final Map<String, String> primaryMeter = new LinkedHashMap<>();
-    /** key area + "/" + tie */
-    private final Map<String, ValidatedInput> tieFlow = new LinkedHashMap<>();
+    private final TieFlowInputs tieFlow;
     private final Map<String, UnitTelemetry> telemetry = new LinkedHashMap<>();
     private final Map<String, SourceValidator> telemetryCheck = new LinkedHashMap<>();
     private final AreaSchedules schedules = new AreaSchedules();
     private final Set<String> skewReported = new HashSet<>();
-    /** per tie: cycles in a row its two ends disagreed, and the cycle time last counted */
-    private final Map<String, long[]> tieDisagreement = new HashMap<>();
     private Consumer<ClockTick> clockListener = t -> { };
     private volatile Runnable arrivalSignal = () -> { };
     private RouteProbe routeProbe;
     private long messagesRouted;
+    private double replayRate = 1.0;
 
     public IntakeRouter(ControllerSiteConfig site, Clock clock, MessageCodec codec, IntakeObserver observer) {
         this.site = site;
@@ -110,11 +102,9 @@ public final class IntakeRouter {
         long skew = settings.clockSkewLimitMs();
         for (SiteArea a : site.areas()) {
             frequency.put(a.id(), new ValidatedInput(settings.frequency().toSettings("frequency:" + a.id(), skew)));
-            for (SiteTie t : site.tiesOf(a.id())) {
-                tieFlow.put(a.id() + "/" + t.id(),
-                        new ValidatedInput(settings.tieFlow().toSettings("tieFlow:" + a.id() + ":" + t.id(), skew)));
-            }
         }
+        this.tieFlow = new TieFlowInputs(site,
+                (areaId, tieId) -> settings.tieFlow().toSettings("tieFlow:" + areaId + ":" + tieId, skew));
         for (SiteUnit u : site.units()) {
             telemetryCheck.put(u.id(), new SourceValidator(InputValidationSettings.builder("telemetry:" + u.id())
                     .maxAgeMs(settings.unitTelemetryMaxAgeMs()).clockSkewLimitMs(skew).build()));
@@ -214,6 +204,7 @@ public final class IntakeRouter {
         } else if (v instanceof Schedule sc) {
             onSchedule(topic, p, sc);
         } else if (v instanceof ClockTick tick) {
+            followRate(tick);
             clockListener.accept(tick);
         } else {
             reject(topic, "unknownTopic", "no route for " + v.getClass().getSimpleName());
@@ -247,17 +238,8 @@ public final class IntakeRouter {
         for (TieFlow t : m.ties()) {
             MeasuredValue own = new MeasuredValue(t.flowMw(), m.sourceTime(), receivedAtMs,
                     t.quality().validity() == Validity.GOOD, m.seq());
-            ValidatedInput mine = tieFlow.get(area + "/" + t.tie());
-            if (mine == null) {
+            if (!tieFlow.accept(area, t.tie(), own)) {
                 count(rejectedByReason, "unknownTie");
-                continue;
-            }
-            mine.acceptPrimary(own);
-            SiteTie tie = site.ties().stream().filter(x -> x.id().equals(t.tie())).findFirst().orElseThrow();
-            ValidatedInput theirs = tieFlow.get(tie.otherEnd(area) + "/" + t.tie());
-            if (theirs != null && theirs.alternate() != null) {
-                theirs.acceptAlternate(new MeasuredValue(-t.flowMw(), own.sourceTimeMs(), receivedAtMs,
-                        own.qualityGood(), m.seq()));
             }
         }
     }
@@ -295,6 +277,18 @@ public final class IntakeRouter {
         schedules.receive(p.area(), s);
     }
 
+    /** The clock skew limits follow the replay rate the plant's clock announces (skew is wall time). */
+    private void followRate(ClockTick tick) {
+        double rate = tick.running() && tick.rate() > 0 ? tick.rate() : replayRate;
+        if (rate == replayRate) {
+            return;
+        }
+        replayRate = rate;
+        frequency.values().forEach(f -> f.scaleClockSkewLimit(rate));
+        tieFlow.scaleClockSkewLimit(rate);
+        telemetryCheck.values().forEach(t -> t.scaleClockSkewLimit(rate));
+    }
+
     private void noteSkew(String source, Set<ValidationReason> reasons, MeasuredValue v) {
         for (ValidationReason r : reasons) {
             if ((r == ValidationReason.CLOCK_SKEW_AHEAD || r == ValidationReason.CLOCK_SKEW_BEHIND)
@@ -323,29 +317,9 @@ public final class IntakeRouter {
         }
         Map<String, ValidatedValue> ties = new TreeMap<>();
         for (SiteTie t : site.tiesOf(areaId)) {
-            ValidatedValue mine = tieFlow.get(areaId + "/" + t.id()).evaluate(nowMs);
-            ties.put(t.id(), endsDisagree(t, nowMs) ? withEndsDisagree(mine) : mine);
+            ties.put(t.id(), tieFlow.evaluate(areaId, t, nowMs));
         }
         return new AreaCycleInputs(areaId, f.evaluate(nowMs), ties, schedule(areaId, nowMs), 0, 0);
-    }
-
-    /** Counts at most once per {@code nowMs} (both areas of a tie ask in the same cycle). */
-    private boolean endsDisagree(SiteTie t, long nowMs) {
-        long[] state = tieDisagreement.computeIfAbsent(t.id(), k -> new long[] {0, Long.MIN_VALUE});
-        if (state[1] != nowMs) {
-            state[1] = nowMs;
-            ValidatedValue from = tieFlow.get(t.fromArea() + "/" + t.id()).evaluate(nowMs);
-            ValidatedValue to = tieFlow.get(t.toArea() + "/" + t.id()).evaluate(nowMs);
-            boolean disagree = from.usable() && to.usable() && Math.abs(from.value() + to.value()) > TIE_ENDS_TOLERANCE_MW;
-            state[0] = disagree ? state[0] + 1 : 0;
-        }
-        return state[0] >= TIE_ENDS_DISAGREE_CYCLES;
-    }
-
-    private static ValidatedValue withEndsDisagree(ValidatedValue v) {
-        Set<ValidationReason> reasons = new HashSet<>(v.reasons());
-        reasons.add(ValidationReason.ENDS_DISAGREE);
-        return ValidatedValue.unusable(reasons, v.ageMs());
     }
 
     /** @return the schedule in force at {@code nowMs}, the site's when none was received, or null */
@@ -396,7 +370,7 @@ public final class IntakeRouter {
     /** @return the frequency input of an area (for diagnostics and tests) */
     public ValidatedInput frequencyInput(String areaId) { return frequency.get(areaId); }
     /** @return the flow input of a tie seen from one area */
-    public ValidatedInput tieFlowInput(String areaId, String tieId) { return tieFlow.get(areaId + "/" + tieId); }
+    public ValidatedInput tieFlowInput(String areaId, String tieId) { return tieFlow.input(areaId, tieId); }
     /** @return the telemetry check of a unit */
     public SourceValidator telemetryCheck(String unitId) { return telemetryCheck.get(unitId); }
     /** @return the meter taken as primary in an area, or null before any was heard */

@@ -21,6 +21,7 @@ public final class SourceValidator {
     private final InputValidationSettings settings;
     private final SeqTracker seq = new SeqTracker();
     private final FrozenDetector frozen;
+    private long clockSkewLimitMs;
     private MeasuredValue latest;
     private EnumSet<ValidationReason> latestReasons = EnumSet.noneOf(ValidationReason.class);
     private MeasuredValue lastGood;
@@ -30,7 +31,9 @@ public final class SourceValidator {
 
     public SourceValidator(InputValidationSettings settings) {
         this.settings = settings;
-        this.frozen = new FrozenDetector(settings.frozenCount(), settings.frozenEpsilon());
+        this.clockSkewLimitMs = settings.clockSkewLimitMs();
+        this.frozen = new FrozenDetector(settings.frozenAfterMs(), settings.frozenMinReadings(),
+                settings.frozenEpsilon());
     }
 
     /** @return the reasons found for this sample (empty = clean) */
@@ -50,10 +53,10 @@ public final class SourceValidator {
         }
         long skew = sample.sourceTimeMs() - sample.receivedAtMs();
         lastClockSkewMs = skew;
-        if (skew > settings.clockSkewLimitMs()) {
+        if (skew > clockSkewLimitMs) {
             r.add(ValidationReason.CLOCK_SKEW_AHEAD);
             maxClockSkewAheadMs = Math.max(maxClockSkewAheadMs, skew);
-        } else if (skew < -settings.clockSkewLimitMs()) {
+        } else if (skew < -clockSkewLimitMs) {
             r.add(ValidationReason.CLOCK_SKEW_BEHIND);
             maxClockSkewBehindMs = Math.max(maxClockSkewBehindMs, -skew);
         }
@@ -102,11 +105,33 @@ public final class SourceValidator {
         return new ValidatedValue(usable ? latest.value() : Double.NaN, usable, r, false, ageMs);
     }
 
+    /**
+     * Clock skew is a matter of wall clocks: in a run replayed at {@code rate} scenario seconds per
+     * wall second, a source whose time stamp is ahead of ours by the same wall time is {@code rate}
+     * times further ahead in scenario ms (transport delay and the extrapolation of the plant's clock
+     * grow the same way). The limit becomes {@code clockSkewLimitMs · max(1, rate)}.
+     */
+    public void scaleClockSkewLimit(double rate) {
+        double factor = Double.isFinite(rate) ? Math.max(1.0, rate) : 1.0;
+        clockSkewLimitMs = Math.round(settings.clockSkewLimitMs() * factor);
+    }
+
+    /** @return the clock skew limit in force, scenario ms */
+    public long clockSkewLimitMs() {
+        return clockSkewLimitMs;
+    }
+
     /** @return the last sample that passed the per-sample checks, or null */
     public MeasuredValue lastGood() {
         return lastGood;
     }
 
+    /** @return the latest sample as it arrived (whatever its checks said), or null before any */
+    public MeasuredValue latest() { return latest; }
+    /** @return samples in the present run of identical values (see {@link FrozenDetector}) */
+    public int identicalRun() { return frozen.identicalRun(); }
+    /** @return source-time span of the present run of identical values, ms */
+    public long identicalSpanMs() { return frozen.identicalSpanMs(); }
     public InputValidationSettings settings() { return settings; }
     public SeqTracker seqTracker() { return seq; }
     /** @return source time − receipt time of the latest sample, ms (+ = source clock ahead) */

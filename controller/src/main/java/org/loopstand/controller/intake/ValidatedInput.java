@@ -73,6 +73,14 @@ public final class ValidatedInput {
         }
     }
 
+    /** Scales the clock skew limit of both sources to the replay rate ({@link SourceValidator#scaleClockSkewLimit}). */
+    public void scaleClockSkewLimit(double rate) {
+        primary.scaleClockSkewLimit(rate);
+        if (alternate != null) {
+            alternate.scaleClockSkewLimit(rate);
+        }
+    }
+
     public SourceValidator primary() { return primary; }
     /** @return the alternate source's validator, or null without one */
     public SourceValidator alternate() { return alternate; }

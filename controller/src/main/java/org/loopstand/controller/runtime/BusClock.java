@@ -59,6 +59,11 @@ public final class BusClock implements Clock {
         return anchor != null;
     }
 
+    /** @return the wall clock's monotonic time, ns (for what must go on while scenario time stands still) */
+    public long wallNanos() {
+        return wall.monotonicNanos();
+    }
+
     /** @return the rate of the latest tick (0 while stopped or before the first tick) */
     public double rate() {
         Anchor a = anchor;

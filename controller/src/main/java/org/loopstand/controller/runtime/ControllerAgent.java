@@ -9,18 +9,14 @@ import java.util.concurrent.ConcurrentLinkedQueue;
 import org.loopstand.controller.config.ControllerSiteConfig;
 import org.loopstand.controller.config.SiteArea;
 import org.loopstand.controller.cycle.AreaCycleInputs;
-import org.loopstand.controller.cycle.AreaCycleResult;
 import org.loopstand.controller.cycle.ControlCycle;
 import org.loopstand.controller.cycle.CycleInputs;
 import org.loopstand.controller.cycle.CycleOutcome;
 import org.loopstand.controller.cycle.CycleScheduler;
 import org.loopstand.controller.cycle.CycleTick;
 import org.loopstand.controller.following.FollowingDecision;
-import org.loopstand.controller.intake.IntakeObserver;
 import org.loopstand.controller.intake.IntakeRouter;
-import org.loopstand.controller.pulse.CommandKind;
 import org.loopstand.controller.pulse.PlannedCommand;
-import org.loopstand.controller.pulse.PulseDirection;
 import org.loopstand.controller.safety.InterlockState;
 import org.loopstand.protocol.agent.Agent;
 import org.loopstand.protocol.bus.ConnectionListener;
@@ -32,9 +28,7 @@ import org.loopstand.protocol.journal.EndReason;
 import org.loopstand.protocol.journal.HistogramLogs;
 import org.loopstand.protocol.journal.JournalFormat;
 import org.loopstand.protocol.journal.JournalWriter;
-import org.loopstand.protocol.message.AckOutcome;
 import org.loopstand.protocol.message.AreaAce;
-import org.loopstand.protocol.message.CommandAck;
 import org.loopstand.protocol.message.ControllerState;
 import org.loopstand.protocol.message.ControllerStatus;
 import org.loopstand.protocol.message.UnitCommand;
@@ -78,17 +72,14 @@ public final class ControllerAgent implements Agent {
     private final ConcurrentLinkedQueue<String> publishFailures = new ConcurrentLinkedQueue<>();
     private final ConcurrentLinkedQueue<Map<String, Object>> journalEvents = new ConcurrentLinkedQueue<>();
     private final ExclusionList excluded = new ExclusionList();
+    private final SentCommands sentCommands;
+    private final CommandSender sender;
+    private final StatusPublisher status;
+    private final AreaSuspensionJournal areaSuspensions;
     private volatile boolean linkUp;
-    private CommandSigner signer;
-    private StatusSeal statusSeal;
-    private long unsignable;
     private CycleScheduler scheduler;
     private CycleOutcome lastOutcome;
-    private long commandSeq;
-    private final SentCommands sentCommands;
-    private long statusSeq;
-    private long commandsSent;
-    private long statusesSent;
+    private long lastHeartbeatWallNanos;
     private long cyclesRun;
 
     /**
@@ -120,10 +111,15 @@ public final class ControllerAgent implements Agent {
         this.topics = TopicTree.forSite(site.siteId());
         this.cycle = new ControlCycle(site.toCycleSettings());
 
-        this.intake = new IntakeRouter(site, clock, codec, new Observer());
-        this.inputUse = new InputUseJournal(site, intake);
         this.sentCommands = new SentCommands(controllerId, journal);
         this.outcomes = new CommandOutcomes(cycle, sentCommands);
+        this.intake = new IntakeRouter(site, clock, codec,
+                new IntakeJournal(clock, journal, sentCommands, outcomes, this::countRejected));
+        this.inputUse = new InputUseJournal(site, intake);
+        this.sender = new CommandSender(bus, topics, codec, controllerId, epoch, sentCommands, outcomes, journal, metrics,
+                publishFailures);
+        this.status = new StatusPublisher(bus, clock, topics, codec, controllerId, epoch, publishFailures);
+        this.areaSuspensions = new AreaSuspensionJournal(intake, journal);
         if (busClock != null) {
             intake.onClockTick(busClock::onTick);
         }
@@ -134,7 +130,7 @@ public final class ControllerAgent implements Agent {
      * commands go out unsigned, which only an insecure demo unit accepts. Call before {@link #onStart}.
      */
     public ControllerAgent signCommandsWith(CommandSigner commandSigner) {
-        this.signer = commandSigner;
+        sender.signWith(commandSigner);
         return this;
     }
 
@@ -143,7 +139,7 @@ public final class ControllerAgent implements Agent {
      * that hold that key take no unsigned or forged status. Call before {@link #onStart}.
      */
     public ControllerAgent signStatusWith(StatusSeal seal) {
-        this.statusSeal = seal;
+        status.sealWith(seal);
         return this;
     }
 
@@ -159,7 +155,7 @@ public final class ControllerAgent implements Agent {
 
     /** @return commands not sent because no key was valid for their unit */
     public long unsignableCommands() {
-        return unsignable;
+        return sender.unsignable();
     }
 
     /** @return the retained status to register as the bus connection's last will */
@@ -199,14 +195,18 @@ public final class ControllerAgent implements Agent {
         }
         linkUp = bus.isConnected();
         if (linkUp) {
-            publishStatus(ControllerState.SUSPENDED, List.of("starting"), 0, List.of());
+            status.publish(ControllerState.SUSPENDED, List.of("starting"), 0, List.of(), List.of(), List.of());
         }
     }
+
+    /** Wall time between the statuses sent while the controller's clock stands still, ns. */
+    static final long STILL_HEARTBEAT_WALL_NANOS = 200_000_000L;
 
     @Override
     public int doWork() {
         int work = intake.drain();
         drainEvents();
+        work += heartbeatWhileStill();
         if (scheduler == null) {
             if (busClock != null && !busClock.synced()) {
                 return work;
@@ -225,6 +225,27 @@ public final class ControllerAgent implements Agent {
             histograms.writeIntervalIfDue();
         }
         return work;
+    }
+
+    /**
+     * While the plant's clock stands still for this controller (no tick yet, or the last one said
+     * held) no cycle runs (at most the one due at the held instant), yet the units' watchdog counts from the go: the plant may have started the
+     * scenario and its next tick may be a wall second away (at rate 40, 40 s of scenario time, more
+     * than the 30 s watchdog). So the suspended status goes out every {@value #STILL_HEARTBEAT_WALL_NANOS}
+     * ns of wall time until the clock runs (docs/controller-contract.md: "also while scenario time stands
+     * still"). Reason {@code waitingForClock}.
+     */
+    private int heartbeatWhileStill() {
+        if (busClock == null || busClock.rate() > 0 || !linkUp) {
+            return 0;
+        }
+        long now = busClock.wallNanos();
+        if (now - lastHeartbeatWallNanos < STILL_HEARTBEAT_WALL_NANOS) {
+            return 0;
+        }
+        lastHeartbeatWallNanos = now;
+        status.publish(ControllerState.SUSPENDED, List.of("waitingForClock"), 0, List.of(), List.of(), List.of());
+        return 1;
     }
 
     /** @return ns until the next cycle start (for a runner that waits its own way); 0 if unknown */
@@ -249,12 +270,13 @@ public final class ControllerAgent implements Agent {
         if (histograms != null) {
             histograms.record(JITTER_TAG, tick.jitterNanos() / 1000);
         }
-        List<AreaAce> aces = areaAces(o);
+        List<AreaAce> aces = StatusPublisher.areaAces(o);
         trackExclusions(o, nowMs);
+        areaSuspensions.update(o);
         if (link) {
             for (PlannedCommand c : o.commands()) {
                 try {
-                    send(c, nowMs);
+                    sender.send(c, nowMs);
                 } catch (RuntimeException e) {
                     // one command that cannot go out must not take the rest of the cycle's with it
                     publishFailures.add("command to " + c.unitId() + " not sent: " + e);
@@ -262,7 +284,8 @@ public final class ControllerAgent implements Agent {
             }
             ControllerState state = o.state() == InterlockState.REGULATING ? ControllerState.REGULATING
                     : ControllerState.SUSPENDED;
-            publishStatus(state, o.reasons(), tick.cycleNumber(), aces);
+            status.publish(state, o.reasons(), tick.cycleNumber(), aces, excluded.units(),
+                    AreaSuspensionJournal.forStatus(o));
         }
         if (journal != null) {
             Map<String, Object> f = new LinkedHashMap<>();
@@ -273,6 +296,8 @@ public final class ControllerAgent implements Agent {
             f.put("commands", o.commands().size());
             f.put("notes", o.notes());
             f.put("excludedUnits", List.copyOf(o.excludedUnits()));
+            f.put("suspendedAreas", o.suspendedAreas().stream()
+                    .map(a -> Map.of("area", a.areaId(), "reasons", a.reasons())).toList());
             f.put("jitterUs", tick.jitterNanos() / 1000);
             f.put("missedBefore", tick.missedBefore());
             f.put("linkUp", link);
@@ -294,84 +319,6 @@ public final class ControllerAgent implements Agent {
             }
         }
         excluded.update(o);
-    }
-
-    private static List<AreaAce> areaAces(CycleOutcome o) {
-        List<AreaAce> out = new ArrayList<>();
-        for (AreaCycleResult r : o.areas()) {
-            if (r.ace() == null || !Double.isFinite(r.aceMw())) {
-                continue; // unknown ACE is not published as a number; the reasons say why
-            }
-            double filtered = r.regulation() == null ? r.aceMw() : r.regulation().filteredAceMw();
-            String band = r.regulation() == null ? "held" : r.regulation().band().code();
-            out.add(new AreaAce(r.areaId(), clampMw(r.aceMw()), clampMw(filtered), band));
-        }
-        return out;
-    }
-
-    private static double clampMw(double mw) {
-        return Math.max(-1e6, Math.min(1e6, mw));
-    }
-
-    private void send(PlannedCommand c, long nowMs) {
-        long seq = ++commandSeq;
-        UnitCommand cmd = c.kind() == CommandKind.PULSE
-                ? UnitCommand.pulse(seq, nowMs, c.unitId(), controllerId, epoch, c.validUntilMs(),
-                        c.direction() == PulseDirection.RAISE ? org.loopstand.protocol.message.PulseDirection.RAISE
-                                : org.loopstand.protocol.message.PulseDirection.LOWER, c.durationMs())
-                : UnitCommand.setpoint(seq, nowMs, c.unitId(), controllerId, epoch, c.validUntilMs(), c.setpointMw());
-        if (signer != null) {
-            try {
-                cmd = signer.sign(cmd);
-            } catch (IllegalStateException e) {
-                // no key for the unit: an unsigned command would only be refused, so none is sent
-                unsignable++;
-                publishFailures.add("command " + seq + " to " + c.unitId() + " not signed: " + e.getMessage());
-                outcomes.unsignable(c);
-                return;
-            }
-        }
-        long expiryS = Math.max(1, (c.validUntilMs() - nowMs + 999) / 1000);
-        OutboundMessage m = new OutboundMessage(topics.unitCommand(c.unitId()), codec.encode(cmd), Qos.AT_LEAST_ONCE,
-                false, expiryS);
-        sentCommands.sent(seq, c);
-        bus.publish(m).whenComplete((v, e) -> {
-            if (e != null) {
-                publishFailures.add("command " + seq + " to " + c.unitId() + ": " + e);
-                outcomes.publishFailed(seq);
-            }
-        });
-        commandsSent++;
-        metrics.commandSent(c.kind().name().toLowerCase(java.util.Locale.ROOT));
-        if (journal != null) {
-            Map<String, Object> f = new LinkedHashMap<>();
-            f.put("unit", c.unitId());
-            f.put("seq", seq);
-            f.put("commandKind", c.kind().name().toLowerCase(java.util.Locale.ROOT));
-            if (c.kind() == CommandKind.PULSE) {
-                f.put("direction", c.direction().name().toLowerCase(java.util.Locale.ROOT));
-                f.put("durationMs", c.durationMs());
-            } else {
-                f.put("setpointMw", c.setpointMw());
-            }
-            f.put("deltaMw", c.deltaMw());
-            f.put("validUntil", c.validUntilMs());
-            journal.append(nowMs, JournalFormat.KIND_SENT, f);
-        }
-    }
-
-    private void publishStatus(ControllerState state, List<String> reasons, long cycleNumber, List<AreaAce> aces) {
-        long nowMs = Math.max(1, clock.epochMillis());
-        ControllerStatus unsigned = new ControllerStatus(++statusSeq, nowMs, controllerId, epoch, state, reasons,
-                Math.max(0, cycleNumber), aces, excluded.units());
-        ControllerStatus s = statusSeal == null ? unsigned : statusSeal.sign(unsigned, nowMs);
-        bus.publish(new OutboundMessage(topics.controllerStatus(controllerId), codec.encode(s), Qos.AT_LEAST_ONCE,
-                true, 0)).whenComplete((v, e) -> {
-                    if (e != null) {
-                        publishFailures.add("status " + s.seq() + ": " + e);
-                    }
-                });
-        statusesSent++;
     }
 
     private void drainEvents() {
@@ -397,14 +344,15 @@ public final class ControllerAgent implements Agent {
         // OFF goes out first: stopping on an error (a journal that cannot be written) must not leave a
         // retained "regulating" for the units to find out about only by their watchdog
         if (linkUp && bus.isConnected()) {
-            publishStatus(ControllerState.OFF, List.of("stopped"), lastOutcome == null ? 0 : lastOutcome.cycleNumber(),
-                    List.of());
+            status.publish(ControllerState.OFF, List.of("stopped"), lastOutcome == null ? 0 : lastOutcome.cycleNumber(),
+                    List.of(), List.of(), List.of());
         }
         try {
             drainEvents();
             if (journal != null && !journal.isClosed()) {
                 journal.append(clock.epochMillis(), JournalFormat.KIND_EVENT, Map.of("event", "summary",
-                        "cycles", cyclesRun, "commandsSent", commandsSent, "rejected", intake.rejectedByReason(),
+                        "cycles", cyclesRun, "commandsSent", sender.commandsSent(),
+                        "areaSuspensions", areaSuspensions.suspensions(), "rejected", intake.rejectedByReason(),
                         "acks", intake.acksByOutcome(), "cyclesMissed", scheduler == null ? 0 : scheduler.cyclesMissed()));
                 journal.close(clock.epochMillis(), EndReason.STOPPED);
             }
@@ -421,45 +369,8 @@ public final class ControllerAgent implements Agent {
         return "controller-" + controllerId;
     }
 
-    /** Journals what the intake reports (on the agent thread, while draining). */
-    private final class Observer implements IntakeObserver {
-        @Override
-        public void onRejected(String topic, String reason, String detail) {
-            inputUse.onRejected(topic);
-            if (journal != null) {
-                journal.append(clock.epochMillis(), JournalFormat.KIND_REFUSED,
-                        Map.of("topic", topic, "reason", reason, "detail", detail));
-            }
-        }
-
-        @Override
-        public void onAck(CommandAck ack, long receivedAtMs) {
-            PlannedCommand answered = sentCommands.match(ack, receivedAtMs);
-            if (answered == null) {
-                return; // an ack for a command this controller never sent changes nothing here
-            }
-            outcomes.onAck(answered, ack);
-            if (journal != null) {
-                Map<String, Object> f = new LinkedHashMap<>();
-                f.put("ack", ack.unit());
-                f.put("commandSeq", ack.commandSeq());
-                f.put("outcome", ack.outcome() == AckOutcome.ACCEPTED ? "accepted" : "rejected");
-                if (ack.reason() != null) {
-                    f.put("reason", ack.reason().name());
-                }
-                journal.append(receivedAtMs, ack.outcome() == AckOutcome.ACCEPTED ? JournalFormat.KIND_RECEIVED
-                        : JournalFormat.KIND_REFUSED, f);
-            }
-        }
-
-        @Override
-        public void onClockSkew(String source, long skewMs) {
-            LOG.warn("clock skew of {} ms from {}", skewMs, source);
-            if (journal != null) {
-                journal.append(clock.epochMillis(), JournalFormat.KIND_EVENT,
-                        Map.of("event", "clockSkew", "source", source, "skewMs", skewMs));
-            }
-        }
+    private void countRejected(String topic) {
+        inputUse.onRejected(topic);
     }
 
     // ---- for tests and the CLI
@@ -472,10 +383,10 @@ public final class ControllerAgent implements Agent {
     public CycleOutcome lastOutcome() { return lastOutcome; }
     public IntakeRouter intake() { return intake; }
     public ControlCycle cycle() { return cycle; }
-    public long commandsSent() { return commandsSent; }
+    public long commandsSent() { return sender.commandsSent(); }
     /** @return the counters behind {@code control --metrics-port} (readable from any thread) */
     public ControllerMetrics metrics() { return metrics; }
-    public long statusesSent() { return statusesSent; }
+    public long statusesSent() { return status.statusesSent(); }
     public long cyclesRun() { return cyclesRun; }
     public boolean linkUp() { return linkUp; }
     public String controllerId() { return controllerId; }

@@ -30,22 +30,51 @@ class ControllerSiteReaderTest {
         ControllerSiteConfig c = ControllerSiteReader.read(Path.of("..", "config", "sites", "demo-site.yaml"));
         var governors = c.toCycleSettings().governors();
         // β_unit = ratingMw / (droopPct/100 · f0): 700 / (0.04 · 50) = 350 MW/Hz, 500 / (0.05 · 50) = 200 MW/Hz
-        assertThat(governors.get("ridge-steam-1")).isEqualTo(new GovernorResponse(350, 0));
-        assertThat(governors.get("ridge-hydro-1")).isEqualTo(new GovernorResponse(200, 0));
+        assertThat(governors.get("ridge-steam-1").mwPerHz()).isEqualTo(350);
+        assertThat(governors.get("ridge-hydro-1").mwPerHz()).isEqualTo(200);
         // basin-steam-1: 900 / (0.05 · 50) = 360 MW/Hz with its 10 mHz dead band
-        assertThat(governors.get("basin-steam-1")).isEqualTo(new GovernorResponse(360, 0.01));
+        assertThat(governors.get("basin-steam-1").mwPerHz()).isEqualTo(360);
+        assertThat(governors.get("basin-steam-1").deadBandHz()).isEqualTo(0.01);
+        // ramp lags from the turbine data (physics.md models): reheat Tg + Tch + (1 − Fhp)·Trh = 0.2 + 0.3 + 0.7·7;
+        // hydro Tg + 1.5·Tw + (Rt/Rp − 1)·Tr = 0.5 + 3 + (43/5 − 1)·9
+        assertThat(governors.get("ridge-steam-1").responseLagS()).isCloseTo(5.4, org.assertj.core.api.Assertions.within(1e-9));
+        assertThat(governors.get("ridge-hydro-1").responseLagS()).isCloseTo(71.9, org.assertj.core.api.Assertions.within(1e-9));
         assertThat(c.settings().following().governorSettleMs()).isEqualTo(120_000);
+    }
+
+    /** One area, one unit, and the controller section's first line; a test adds its keys below. */
+    private static final String ONE_UNIT_SITE = """
+            siteId: s
+            areas:
+              - {id: a1, nominalFrequencyHz: 50, aceConvention: european, kMwPerHz: 1000}
+            units:
+              - {id: u1, area: a1}
+            controller:
+            """;
+
+    @Test
+    void shouldTakeFreezeDetectionInScenarioTimeByDefaultAndPerSiteAndRefuseTheOldCount() {
+        ControllerSiteConfig demo = ControllerSiteReader.read(Path.of("..", "config", "sites", "demo-site.yaml"));
+        // defaults for the frequency, the demo site's own for its ties
+        assertThat(demo.settings().frequency().frozenAfterMs()).isEqualTo(22_000);
+        assertThat(demo.settings().frequency().frozenMinReadings()).isEqualTo(6);
+        assertThat(demo.settings().tieFlow().frozenAfterMs()).isEqualTo(8_000);
+        assertThat(demo.settings().tieFlow().frozenMinReadings()).isEqualTo(3);
+        String site = ONE_UNIT_SITE + """
+                  intake:
+                    frequency: {%s}
+                """;
+        ControllerSiteConfig off = ControllerSiteReader.read("off.yaml", site.formatted("frozenAfterMs: 0"));
+        assertThat(off.settings().frequency().frozenAfterMs()).isZero();
+        assertThatThrownBy(() -> ControllerSiteReader.read("old.yaml", site.formatted("frozenCount: 12")))
+                .isInstanceOf(ControllerConfigException.class)
+                .satisfies(e -> assertThat(((ControllerConfigException) e).problems())
+                        .anySatisfy(p -> assertThat(p).startsWith("old.yaml:8:").contains("frozenCount", "frozenAfterMs")));
     }
 
     @Test
     void shouldReadTheReadmissionProbeOfTheFollowingCheckAndRefuseABadOne() {
-        String site = """
-                siteId: s
-                areas:
-                  - {id: a1, nominalFrequencyHz: 50, aceConvention: european, kMwPerHz: 1000}
-                units:
-                  - {id: u1, area: a1}
-                controller:
+        String site = ONE_UNIT_SITE + """
                   following: {probeIntervalMs: %s, probeMw: 7.5}
                 """;
         ControllerSiteConfig c = ControllerSiteReader.read("ok.yaml", site.formatted("90000"));

@@ -45,6 +45,48 @@ class UnitFollowingMonitorTest {
         assertThat(m.flagged("U1")).isFalse();
     }
 
+    /**
+     * A unit whose output lags its setpoint by 40 s (first-order, e.g. a hydro unit's transient droop
+     * compensation) walked 1.33 MW per cycle for 300 s: with its lag it is never flagged; without it,
+     * it falls behind the ramp by 0.333 MW/s × (40 − 4) s = 12 MW and is; one that does not move at
+     * all is still flagged with the lag.
+     */
+    @Test
+    void shouldAllowForTheUnitsResponseLagButStillFlagOneThatDoesNotMove() {
+        UnitFollowingMonitor lagged = new UnitFollowingMonitor(settings);
+        lagged.responseLag("H1", 40);
+        UnitFollowingMonitor plain = new UnitFollowingMonitor(settings);
+        UnitFollowingMonitor stuck = new UnitFollowingMonitor(settings);
+        stuck.responseLag("H1", 40);
+        double setpoint = 150;
+        double output = 150;
+        int plainFlaggedCycles = 0;
+        for (int k = 0; k < 150; k++) {
+            long t = T0 + k * CYCLE;
+            if (k < 75) {
+                lagged.onCommand("H1", 1.333, t, output);
+                plain.onCommand("H1", 1.333, t, output);
+                stuck.onCommand("H1", 1.333, t, 150);
+                setpoint += 1.333;
+            }
+            // the plant: a first-order lag of 40 s on the setpoint, integrated in 100 ms steps
+            for (int i = 0; i < 40; i++) {
+                output += (setpoint - output) * 0.1 / 40;
+            }
+            lagged.check("H1", t + CYCLE, output, 40);
+            plain.check("H1", t + CYCLE, output, 40);
+            stuck.check("H1", t + CYCLE, 150, 40);
+            assertThat(lagged.flagged("H1")).as("lagged unit at cycle %d", k).isFalse();
+            plainFlaggedCycles += plain.flagged("H1") ? 1 : 0;
+        }
+        // judged with the dead time alone it is out of the allocation for most of its walk (and back once it
+        // catches up at the end)
+        assertThat(plainFlaggedCycles).isGreaterThan(50);
+        assertThat(stuck.flagged("H1")).isTrue();
+        // 300 s after the last command the expected output is within a tenth of the tolerance: idle again
+        assertThat(lagged.idle("H1")).isTrue();
+    }
+
     @Test
     void shouldFlagUnitMovingTheWrongWay() {
         UnitFollowingMonitor m = new UnitFollowingMonitor(settings);

@@ -11,6 +11,7 @@ import org.loopstand.controller.config.ControllerSiteReader;
 import org.loopstand.controller.cycle.AreaCycleInputs;
 import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.AreaMeter;
+import org.loopstand.protocol.message.ClockTick;
 import org.loopstand.protocol.message.ControlMode;
 import org.loopstand.protocol.message.Quality;
 import org.loopstand.protocol.message.Schedule;
@@ -93,7 +94,7 @@ class IntakeRouterTest {
 
     @Test
     void shouldRefuseBadQualityAndFrozenValues() {
-        IntakeRouter r = router("frequency: {policy: declareUnusable, frozenCount: 3, frozenEpsilonHz: 0.0}");
+        IntakeRouter r = router("frequency: {policy: declareUnusable, frozenAfterMs: 2000, frozenMinReadings: 3, frozenEpsilonHz: 0.0}");
         meter(r, "a1", "m1", 1, T0, 49.99, Quality.of(Validity.INVALID, QualityFlag.FAILURE), 0, T0);
         assertThat(r.areaInputs("a1", T0).frequencyHz().reasons()).contains(ValidationReason.BAD_QUALITY);
         assertThat(r.areaInputs("a1", T0).frequencyHz().usable()).isFalse();
@@ -169,6 +170,25 @@ class IntakeRouterTest {
         assertThat(v.reasons()).contains(ValidationReason.CLOCK_SKEW_AHEAD);
         assertThat(skews).containsExactly("meter:a1/m1=5000");
         assertThat(r.frequencyInput("a1").primary().maxClockSkewAheadMs()).isEqualTo(5000);
+    }
+
+    /**
+     * Replayed at rate 40, a source 5 s of scenario time ahead is 125 ms of wall time ahead: transport and
+     * the extrapolation of the plant's clock, not a wrong clock. The limit follows the rate the plant's
+     * clock announces (2000 ms · 40 = 80 s); at rate 1 the same reading is refused as before.
+     */
+    @Test
+    void shouldScaleTheClockSkewLimitWithTheReplayRate() {
+        IntakeRouter r = router("clockSkewLimitMs: 2000\nfrequency: {policy: declareUnusable}");
+        r.route(topics.clock(), codec.encode(new ClockTick(1, T0, 0, 40.0, true)), T0);
+        assertThat(r.frequencyInput("a1").primary().clockSkewLimitMs()).isEqualTo(80_000);
+        meter(r, "a1", "m1", 1, T0 + 5_000, 50.0, Quality.GOOD, 0, T0);
+        assertThat(r.areaInputs("a1", T0).frequencyHz().usable()).isTrue();
+        assertThat(r.telemetryCheck("u1").clockSkewLimitMs()).isEqualTo(80_000);
+        assertThat(r.tieFlowInput("a1", "t12").primary().clockSkewLimitMs()).isEqualTo(80_000);
+        r.route(topics.clock(), codec.encode(new ClockTick(2, T0, 0, 1.0, true)), T0);
+        meter(r, "a1", "m1", 2, T0 + 5_000 + 2_000, 50.0, Quality.GOOD, 0, T0);
+        assertThat(r.areaInputs("a1", T0).frequencyHz().reasons()).contains(ValidationReason.CLOCK_SKEW_AHEAD);
     }
 
     @Test

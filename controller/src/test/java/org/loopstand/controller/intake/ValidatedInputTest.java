@@ -78,7 +78,7 @@ class ValidatedInputTest {
 
     @Test
     void shouldDetectFrozenValueOnlyWhenTimeAdvances() {
-        ValidatedInput in = new ValidatedInput(InputValidationSettings.builder("f").frozen(4, 0.0).build());
+        ValidatedInput in = new ValidatedInput(InputValidationSettings.builder("f").frozen(3000, 3, 0.0).build());
         for (int i = 0; i < 3; i++) {
             in.acceptPrimary(sample(50.0, T0 + i * 1000L, i));
         }
@@ -91,6 +91,48 @@ class ValidatedInputTest {
         assertThat(v.reasons()).contains(ValidationReason.FROZEN);
         in.acceptPrimary(sample(50.003, T0 + 4000, 5));
         assertThat(in.evaluate(T0 + 4000).usable()).isTrue();
+    }
+
+    /**
+     * Frozen after 22 s of scenario time: with every 2 s scan the 12th reading (22 s) decides; with
+     * three scans lost inside the run the verdict comes at the same 22 s, not three scans later as a
+     * count of twelve readings would have it; and the verdict does not depend on when the readings
+     * arrive (receipt times at a replay rate of 40 give the same answer as at 1).
+     */
+    @Test
+    void shouldJudgeAFreezeInScenarioTimeWhateverScansAreLostOrHowFastTheyArrive() {
+        InputValidationSettings s = InputValidationSettings.builder("f").frozen(22_000, 6, 0.0).build();
+        for (double rate : new double[] {1, 40}) {
+            SourceValidator all = new SourceValidator(s);
+            SourceValidator lossy = new SourceValidator(s);
+            long frozenAllAtMs = -1;
+            long frozenLossyAtMs = -1;
+            for (int i = 0; i <= 15; i++) {
+                long sourceMs = T0 + i * 2000L;
+                long receivedMs = T0 + (long) (i * 2000L / rate);
+                MeasuredValue m = new MeasuredValue(49.987, sourceMs, receivedMs, true, i);
+                if (all.accept(m).contains(ValidationReason.FROZEN) && frozenAllAtMs < 0) {
+                    frozenAllAtMs = sourceMs - T0;
+                }
+                boolean lost = i == 3 || i == 6 || i == 9; // three scans lost inside the run
+                if (!lost && lossy.accept(m).contains(ValidationReason.FROZEN) && frozenLossyAtMs < 0) {
+                    frozenLossyAtMs = sourceMs - T0;
+                }
+            }
+            assertThat(frozenAllAtMs).as("rate %s", rate).isEqualTo(22_000);
+            assertThat(frozenLossyAtMs).as("rate %s", rate).isEqualTo(22_000);
+        }
+    }
+
+    @Test
+    void shouldNotCallTwoEqualReadingsFarApartAFreeze() {
+        SourceValidator v = new SourceValidator(InputValidationSettings.builder("f").frozen(22_000, 6, 0.0).build());
+        // a meter heard only every 12 s for a while: three equal readings span 24 s but are too few
+        for (int i = 0; i < 3; i++) {
+            assertThat(v.accept(sample(49.987, T0 + i * 12_000L, i))).doesNotContain(ValidationReason.FROZEN);
+        }
+        assertThat(v.identicalRun()).isEqualTo(3);
+        assertThat(v.identicalSpanMs()).isEqualTo(24_000);
     }
 
     @Test
@@ -141,8 +183,8 @@ class ValidatedInputTest {
 
     @Test
     void shouldNameEveryBadSetting() {
-        assertThatThrownBy(() -> InputValidationSettings.builder("f").maxAgeMs(0).range(5, 1).frozen(1, -1).build())
-                .hasMessageContaining("maxAgeMs").hasMessageContaining("range").hasMessageContaining("frozenCount")
+        assertThatThrownBy(() -> InputValidationSettings.builder("f").maxAgeMs(0).range(5, 1).frozen(1000, 1, -1).build())
+                .hasMessageContaining("maxAgeMs").hasMessageContaining("range").hasMessageContaining("frozenMinReadings")
                 .hasMessageContaining("frozenEpsilon");
     }
 }

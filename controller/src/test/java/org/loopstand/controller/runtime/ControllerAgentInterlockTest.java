@@ -79,18 +79,61 @@ class ControllerAgentInterlockTest {
     @Test
     void shouldSuspendWhenAceExceedsTheSanityLimitBecauseOfATieFlowDataError() {
         regulateAfterAStep();
-        int before = commandsOnBus().size();
+        int before = commandsTo("gen1");
         loop.tap.tieErrorMwByArea.put("area1", 5000.0); // |ACE| ≈ 5000 MW > 2000 MW limit
         loop.runTo(66);
-        int atSuspension = commandsOnBus().size();
-        assertThat(lastStatus().reasons()).contains("aceBeyondSanityLimit:area1");
+        int atSuspension = commandsTo("gen1");
+        // area 1 alone is left out first: its ACE is beyond the limit, area 2's is its own and sane
+        ControllerStatus first = lastStatus();
+        assertThat(first.state()).isEqualTo(ControllerState.REGULATING);
+        assertThat(first.suspendedAreas()).singleElement().satisfies(a -> {
+            assertThat(a.area()).isEqualTo("area1");
+            assertThat(a.reasons()).containsExactly("aceBeyondSanityLimit:area1");
+            assertThat(a.detail()).startsWith("ace:area1 aceMw=").endsWith("limitMw=2000");
+        });
         loop.runTo(120);
         ControllerStatus s = lastStatus();
         assertThat(s.state()).isEqualTo(ControllerState.SUSPENDED);
-        // three cycles later the tie ends cross check names the tie itself: area 1's end disagrees with area 2's
+        // three cycles later the tie ends cross check names the tie itself: area 1's end disagrees with
+        // area 2's, and a tie unusable at either end suspends both areas
         assertThat(s.reasons()).contains("tieFlowUnusable:area1:tie12");
+        assertThat(s.suspendedAreas()).extracting(a -> a.area()).containsExactly("area1", "area2");
         assertThat(atSuspension - before).isLessThanOrEqualTo(2); // at most the cycles before the first bad scan
-        assertThat(commandsOnBus()).hasSize(atSuspension);
+        assertThat(commandsTo("gen1")).isEqualTo(atSuspension);
+        int all = commandsOnBus().size();
+        loop.runTo(160);
+        assertThat(commandsOnBus()).hasSize(all);
+    }
+
+    @Test
+    void shouldSuspendOnlyTheAreaWhoseFrequencyIsStuckAndResumeItWhenTheMeterIsLiveAgain() {
+        regulateAfterAStep();
+        loop.tap.stuckFrequencyHzByArea.put("area1", 59.98);
+        loop.runTo(100); // 12 identical readings make it frozen
+        ControllerStatus s = lastStatus();
+        assertThat(s.state()).isEqualTo(ControllerState.REGULATING);
+        assertThat(s.suspendedAreas()).singleElement().satisfies(a -> {
+            assertThat(a.area()).isEqualTo("area1");
+            assertThat(a.reasons()).containsExactly("frequencyUnusable:area1");
+            assertThat(a.detail()).startsWith("frequency:area1 frozen");
+        });
+        int gen1 = commandsTo("gen1");
+        int gen2 = commandsTo("gen2");
+        assertThat(gen2).isZero(); // tie-line bias: area 2 had nothing to do for area 1's step
+        // area 2's own step while area 1 is out: area 2 regulates on and its unit takes it
+        loop.sim.stepLoadMw("area2", 80);
+        loop.runTo(160);
+        assertThat(commandsTo("gen1")).isEqualTo(gen1);
+        assertThat(commandsTo("gen2")).isGreaterThan(5);
+        assertThat(lastStatus().suspendedAreas()).extracting(a -> a.area()).containsExactly("area1");
+        loop.tap.stuckFrequencyHzByArea.clear();
+        loop.runTo(200);
+        assertThat(lastStatus().suspendedAreas()).isNull();
+        assertThat(commandsTo("gen1")).isGreaterThan(gen1);
+    }
+
+    private int commandsTo(String unit) {
+        return (int) commandsOnBus().stream().filter(m -> m.topic().contains("/unit/" + unit + "/")).count();
     }
 
     @Test

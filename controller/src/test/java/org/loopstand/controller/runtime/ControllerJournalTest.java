@@ -31,12 +31,17 @@ import java.util.TreeSet;
  * {@code decided} entry, and the file ends cleanly.
  */
 class ControllerJournalTest {
+    /** The two-area study loop with the controller journaling into {@code file}. */
+    private static StudyLoop journaledLoop(Path file) {
+        return new StudyLoop(new GridSimulator(ClosedLoopStudyTest.twoAreaGrid()),
+                ClosedLoopStudyTest.twoAreaController("tieLineBias"), List.of(),
+                JournalWriter.create(file, "controller", StudyLoop.START_MS, new org.loopstand.protocol.time.VirtualClock(0)));
+    }
+
     @Test
     void shouldJournalEveryCommandSentAndReadItBack(@TempDir Path dir) {
         Path file = dir.resolve("controller.jsonl");
-        StudyLoop loop = new StudyLoop(new GridSimulator(ClosedLoopStudyTest.twoAreaGrid()),
-                ClosedLoopStudyTest.twoAreaController("tieLineBias"), List.of(),
-                JournalWriter.create(file, "controller", StudyLoop.START_MS, new org.loopstand.protocol.time.VirtualClock(0)));
+        StudyLoop loop = journaledLoop(file);
         loop.runTo(40);
         loop.sim.stepLoadMw("area1", 100);
         loop.runTo(121); // the last cycle at 120 s; its acks come back within the next slices
@@ -68,6 +73,49 @@ class ControllerJournalTest {
     }
 
     /**
+     * Area 1's frequency sticks at 59.98 Hz from 60 s to 120 s: one {@code areaSuspended} event for area 1
+     * naming the reason with the stuck reading, its age and the identical readings in a row, one
+     * {@code areaResumed} after, and area 1 listed in the decided entries in between.
+     */
+    @Test
+    void shouldJournalTheSuspensionOfOneAreaWithItsFiguresAndItsResumption(@TempDir Path dir) {
+        Path file = dir.resolve("controller.jsonl");
+        StudyLoop loop = journaledLoop(file);
+        loop.runTo(60);
+        loop.tap.stuckFrequencyHzByArea.put("area1", 59.98);
+        loop.runTo(120);
+        loop.tap.stuckFrequencyHzByArea.clear();
+        loop.runTo(160);
+        loop.agent.onClose();
+
+        List<JournalEntry> entries = JournalReader.readAll(file).entries();
+        List<JournalEntry> out = entries.stream().filter(e -> "areaSuspended".equals(e.text("event"))).toList();
+        assertThat(out).singleElement().satisfies(e -> {
+            assertThat(e.text("area")).isEqualTo("area1");
+            assertThat(e.fields().path("reasons").get(0).asText()).isEqualTo("frequencyUnusable:area1");
+            assertThat(e.text("detail")).startsWith("frequency:area1 frozen ageMs=");
+            JsonNode input = e.fields().path("inputs").get(0);
+            assertThat(input.path("latestValue").asDouble()).isEqualTo(59.98);
+            // frozen after 12 identical readings (the default), judged at the next cycle
+            assertThat(input.path("identicalReadings").asInt()).isBetween(12, 14);
+            assertThat(e.tMs() - StudyLoop.START_MS).isBetween(60_000L, 90_000L);
+        });
+        List<JournalEntry> back = entries.stream().filter(e -> "areaResumed".equals(e.text("event"))).toList();
+        assertThat(back).singleElement().satisfies(e -> {
+            assertThat(e.text("area")).isEqualTo("area1");
+            assertThat(e.fields().path("after").get(0).asText()).isEqualTo("frequencyUnusable:area1");
+            assertThat(e.tMs()).isGreaterThan(StudyLoop.START_MS + 120_000);
+        });
+        long outTMs = out.get(0).tMs();
+        List<JournalEntry> decidedWhileOut = entries.stream().filter(e -> e.kind().equals(JournalFormat.KIND_DECIDED))
+                .filter(e -> e.tMs() >= outTMs && e.tMs() < back.get(0).tMs()).toList();
+        assertThat(decidedWhileOut).isNotEmpty().allSatisfy(e -> {
+            assertThat(e.text("state")).isEqualTo("regulating");
+            assertThat(e.fields().path("suspendedAreas").get(0).path("area").asText()).isEqualTo("area1");
+        });
+    }
+
+    /**
      * Each decided entry says how old the data it used was and how much the intake has received and
      * missed so far. Area 2's meter is silenced from 40 s to 52 s (the tap drops its messages, the
      * area's frequency ages while held). At 60 s a copy of area 2's last reading is injected with its
@@ -78,9 +126,7 @@ class ControllerJournalTest {
     @Test
     void shouldJournalTheAgeOfWhatEachCycleUsedAndTheIntakeCounters(@TempDir Path dir) {
         Path file = dir.resolve("controller.jsonl");
-        StudyLoop loop = new StudyLoop(new GridSimulator(ClosedLoopStudyTest.twoAreaGrid()),
-                ClosedLoopStudyTest.twoAreaController("tieLineBias"), List.of(),
-                JournalWriter.create(file, "controller", StudyLoop.START_MS, new org.loopstand.protocol.time.VirtualClock(0)));
+        StudyLoop loop = journaledLoop(file);
         MessageCodec codec = new MessageCodec();
         TopicTree topics = TopicTree.forSite("two-area-textbook");
         Map<String, TreeSet<Long>> meterSeqs = new TreeMap<>();

@@ -18,8 +18,8 @@ import org.loopstand.protocol.topic.TopicKind;
 import org.loopstand.protocol.topic.TopicTree;
 
 /**
- * Test-only fault injection on the plant's own connection: silences the meters of chosen areas and
- * adds a data error to the tie flows a chosen area's meter reports. Everything else passes through.
+ * Test-only fault injection on the plant's own connection: silences the meters of chosen areas, adds
+ * a data error to the tie flows a chosen area's meter reports, or sticks its frequency at a value. Everything else passes through.
  * Only for the single thread of a study loop.
  */
 final class MeterTap extends ForwardingBus {
@@ -28,6 +28,8 @@ final class MeterTap extends ForwardingBus {
     final Set<String> silentAreas = new HashSet<>();
     /** offset added to every tie flow the named area's meter reports, MW */
     final Map<String, Double> tieErrorMwByArea = new HashMap<>();
+    /** frequency the named area's meter reports instead of the measured one (a stuck value), Hz */
+    final Map<String, Double> stuckFrequencyHzByArea = new HashMap<>();
 
     MeterTap(MessageBus inner) {
         super(inner);
@@ -44,13 +46,16 @@ final class MeterTap extends ForwardingBus {
             return CompletableFuture.completedFuture(null);
         }
         Double err = tieErrorMwByArea.get(area);
-        if (err == null) {
+        Double stuckHz = stuckFrequencyHzByArea.get(area);
+        if (err == null && stuckHz == null) {
             return inner.publish(m);
         }
+        double errMw = err == null ? 0 : err;
         AreaMeter a = codec.decode(m.payload(), AreaMeter.class).message().orElseThrow();
-        List<TieFlow> ties = a.ties().stream().map(f -> new TieFlow(f.tie(), f.flowMw() + err, f.quality())).toList();
-        AreaMeter bad = new AreaMeter(a.seq(), a.sourceTime(), a.area(), a.meter(), a.frequencyHz(), a.frequencyQuality(),
-                ties, a.netInterchangeMw() + err * ties.size(), a.netInterchangeQuality());
+        List<TieFlow> ties = a.ties().stream().map(f -> new TieFlow(f.tie(), f.flowMw() + errMw, f.quality())).toList();
+        AreaMeter bad = new AreaMeter(a.seq(), a.sourceTime(), a.area(), a.meter(),
+                stuckHz == null ? a.frequencyHz() : stuckHz, a.frequencyQuality(),
+                ties, a.netInterchangeMw() + errMw * ties.size(), a.netInterchangeQuality());
         return inner.publish(new OutboundMessage(m.topic(), codec.encode(bad), m.qos(), m.retained(), m.expirySeconds()));
     }
 

@@ -65,7 +65,11 @@ class ShippedScenariosWithControllerTest {
 
     /** One lockstep run of {@code rs} on the site file {@code sitePath} with our controller. */
     static Run runOnce(Path sitePath, RunScenario rs) throws Exception {
-        Grid grid = SiteLoader.load(sitePath);
+        return runOnce(SiteLoader.load(sitePath), sitePath, rs);
+    }
+
+    /** As {@link #runOnce(Path, RunScenario)} with the plant's grid given (e.g. without load noise). */
+    static Run runOnce(Grid grid, Path sitePath, RunScenario rs) throws Exception {
         ControllerSiteConfig site = ControllerSiteReader.read(sitePath);
         ControllerAgent[] controller = new ControllerAgent[1];
         List<String> linkStates = new java.util.concurrent.CopyOnWriteArrayList<>();
@@ -160,25 +164,53 @@ class ShippedScenariosWithControllerTest {
         assertThat(r.outcome("no-pulse-on-frozen-meter").detail()).doesNotStartWith("0 of 0");
     }
 
+    /** The first status at or after {@code afterS} that lists {@code area} among the suspended areas. */
+    private static RunRecord.StatusRecord firstWithAreaOut(RehearsalStudy.Result r, String area, double afterS) {
+        return r.record().statuses().stream()
+                .filter(st -> st.receivedS() >= afterS && areaOut(st, area))
+                .findFirst().orElseThrow(() -> new AssertionError("no status with " + area + " suspended after " + afterS + " s"));
+    }
+
+    private static boolean areaOut(RunRecord.StatusRecord st, String area) {
+        return st.status().suspendedAreas() != null
+                && st.status().suspendedAreas().stream().anyMatch(a -> a.area().equals(area));
+    }
+
     @Test
-    void shouldSuspendOnTheNorthFrequencyHoldingItsLastValueByDefaultDetection() throws Exception {
+    void shouldSuspendOnlyTheNorthWhenItsFrequencyHoldsItsLastValueAndKeepRegulatingTheSouth() throws Exception {
         RehearsalStudy.Result r = run("rehearse-frequency-hold.yaml").result();
-        RunRecord.StatusRecord s = firstSuspended(r, 140);
+        RunRecord.StatusRecord s = firstWithAreaOut(r, "north-basin", 140);
         // the demo site leaves frequency freeze detection at its default: 12 equal readings (2 s scans)
         // = 22 s after the hold began, seen at the next 4 s cycle → within 26 s; a frozen run is not held
         assertThat(s.receivedS() - 140).isBetween(0.0, 26.0);
-        assertThat(s.status().reasons()).containsExactly("frequencyUnusable:north-basin");
+        // only the north is out: its own frequency is unusable; the south's ACE needs none of the north's data
+        assertThat(s.status().state()).isEqualTo(ControllerState.REGULATING);
+        assertThat(s.status().suspendedAreas()).singleElement().satisfies(a -> {
+            assertThat(a.reasons()).containsExactly("frequencyUnusable:north-basin");
+            assertThat(a.detail()).startsWith("frequency:north-basin frozen");
+        });
         assertThat(r.record().statuses()).filteredOn(st -> st.receivedS() >= s.receivedS() && st.receivedS() < 420)
-                .allSatisfy(st -> assertThat(st.status().state()).isEqualTo(ControllerState.SUSPENDED));
+                .allSatisfy(st -> {
+                    assertThat(areaOut(st, "north-basin")).isTrue();
+                    assertThat(areaOut(st, "south-ridge")).isFalse();
+                });
         // no command to the north after the detection, while the held frequency would give a false ACE
         long start = r.record().runStartEpochMs();
         assertThat(r.record().commands()).filteredOn(c -> c.command().unit().startsWith("basin-"))
                 .filteredOn(c -> (c.command().issuedAt() - start) / 1000.0 >= s.receivedS()
                         && (c.command().issuedAt() - start) / 1000.0 < 420)
                 .isEmpty();
+        // the south kept regulating: its units got commands inside the north's suspension
+        assertThat(r.record().commands()).filteredOn(c -> c.command().unit().startsWith("ridge-"))
+                .filteredOn(c -> (c.command().issuedAt() - start) / 1000.0 >= s.receivedS()
+                        && (c.command().issuedAt() - start) / 1000.0 < 420)
+                .isNotEmpty();
         assertThat(commandsIssuedOutside(r, "basin-", 140, 420)).isGreaterThan(10);
         assertThat(r.outcome("no-pulse-on-held-frequency").passed()).isTrue();
         assertThat(r.outcome("frequency-back").passed()).isTrue();
+        // the north is back once its frequency is live again
+        assertThat(r.record().statuses()).filteredOn(st -> st.receivedS() >= 460 && st.receivedS() < r.record().endS())
+                .isNotEmpty().noneMatch(st -> areaOut(st, "north-basin"));
     }
 
     @Test

@@ -67,9 +67,10 @@ public final class CheckLibrary {
                 number("minExpired", "commands", 0, 1_000_000, 1.0, "fewest expired commands that must arrive for a verdict")),
                 false, false, "every command reaching the unit after validUntil was refused with reason expired",
                 CommandChecks::expiredCommandsRefused));
-        t.add(new CheckType("suspendedWithin", List.of(choice("controller", "*", List.of(), "controller id (* = any)"), AFTER_S,
+        t.add(new CheckType("suspendedWithin", List.of(choice("controller", "*", List.of(), "controller id (* = any)"),
+                choice("area", "*", List.of(), "area whose suspension counts (* = any)"), AFTER_S,
                 AFTER, number("withinS", "s", 0, 3600, 8.0, "limit (two 4 s cycles)")), true, true,
-                "controller side: the controller published state suspended within withinS",
+                "controller side: the controller published state suspended, or the area among its suspendedAreas, within withinS",
                 ControllerChecks::suspendedWithin));
         return new CheckLibrary(t);
     }

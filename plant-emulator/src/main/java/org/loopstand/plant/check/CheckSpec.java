@@ -61,17 +61,21 @@ public record CheckSpec(String name, CheckType type, Map<String, Object> paramet
             Object normal = v instanceof Number n ? (Object) n.doubleValue() : v;
             p.check(normal).ifPresentOrElse(w -> out.add(new Problem(p.name(), w)), () -> params.put(p.name(), normal));
         }
-        idCheck(params, "area", catalog.areas(), out);
-        idCheck(params, "tie", catalog.ties(), out);
-        idCheck(params, "unit", catalog.units(), out);
+        idCheck(type, params, "area", catalog.areas(), out);
+        idCheck(type, params, "tie", catalog.ties(), out);
+        idCheck(type, params, "unit", catalog.units(), out);
         if (type.needsAfter() && params.get("afterS") instanceof Double d && d.isNaN()) {
             out.add(new Problem("afterS", "check type " + type.name() + " needs afterS (s) or after (an event type or fault id)"));
         }
         return new CheckSpec(name, type, params);
     }
 
-    private static void idCheck(Map<String, Object> params, String key, java.util.Set<String> known, List<Problem> out) {
-        if (params.get(key) instanceof String s && !known.contains(s)) {
+    /** An id must name one of the site's; {@code *} is accepted where the type's default is {@code *} (any). */
+    private static void idCheck(CheckType type, Map<String, Object> params, String key, java.util.Set<String> known,
+                                List<Problem> out) {
+        boolean wildcard = "*".equals(params.get(key))
+                && type.parameter(key).map(p -> "*".equals(p.defaultValue())).orElse(false);
+        if (params.get(key) instanceof String s && !known.contains(s) && !wildcard) {
             out.add(new Problem(key, "unknown " + key + " '" + s + "' (the site has " + new ArrayList<>(known) + ")"));
         }
     }

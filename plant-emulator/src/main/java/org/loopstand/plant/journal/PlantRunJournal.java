@@ -251,6 +251,10 @@ public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.p
             f.put("excludedUnits", s.excludedUnits().stream().map(x -> Map.of("unit", x.unit(), "area", x.area() == null ? "" : x.area(),
                     "reason", x.reason() == null ? "" : x.reason(), "shortfallMw", x.shortfallMw())).toList());
         }
+        if (s.suspendedAreas() != null) {
+            f.put("suspendedAreas", s.suspendedAreas().stream().map(x -> Map.of("area", x.area(), "reasons", x.reasons(),
+                    "detail", x.detail() == null ? "" : x.detail(), "since", x.since())).toList());
+        }
         journal.append(arrivedMs, "controllerStatus", f);
     }
 

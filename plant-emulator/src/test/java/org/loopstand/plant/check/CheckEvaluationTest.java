@@ -19,6 +19,7 @@ import org.loopstand.protocol.message.ControllerState;
 import org.loopstand.protocol.message.ControllerStatus;
 import org.loopstand.protocol.message.PulseDirection;
 import org.loopstand.protocol.message.RefusalReason;
+import org.loopstand.protocol.message.SuspendedArea;
 import org.loopstand.protocol.message.UnitCommand;
 
 /** Each check on a hand-made run record whose deciding figure can be worked out by hand. */
@@ -162,6 +163,23 @@ class CheckEvaluationTest {
         assertThat(out.decidingFigure()).isEqualTo(8);
         assertThat(out.controllerSide()).isTrue();
         assertThat(check("suspendedWithin", Map.of("afterS", 100.0, "withinS", 7.0)).evaluate(run, grid).passed()).isFalse();
+    }
+
+    @Test
+    void shouldCountTheSuspensionOfTheNamedAreaWhileTheControllerRegulatesTheOthers() {
+        RunRecord run = new RunRecord(T0);
+        run.controllerStatus(T0 + 104_000, status(ControllerState.REGULATING));
+        run.controllerStatus(T0 + 110_000, new ControllerStatus(2, T0, "agc-1", 1, ControllerState.REGULATING, List.of(), 2,
+                List.of(), null, List.of(new SuspendedArea("north-basin", List.of("frequencyUnusable:north-basin"),
+                        "frequency:north-basin frozen ageMs=1200", T0 + 110_000))));
+        CheckOutcome north = check("suspendedWithin", Map.of("afterS", 100.0, "withinS", 12.0, "area", "north-basin"))
+                .evaluate(run, grid);
+        assertThat(north.passed()).isTrue();
+        assertThat(north.decidingFigure()).isEqualTo(10);
+        assertThat(north.detail()).contains("area [north-basin]", "frequencyUnusable:north-basin");
+        // the other area was never suspended: no verdict in its favour
+        assertThat(check("suspendedWithin", Map.of("afterS", 100.0, "withinS", 12.0, "area", "south-ridge"))
+                .evaluate(run, grid).passed()).isFalse();
     }
 
     private static ControllerStatus status(ControllerState state) {

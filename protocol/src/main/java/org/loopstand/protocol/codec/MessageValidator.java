@@ -35,6 +35,7 @@ import org.loopstand.protocol.message.FieldReference;
 import org.loopstand.protocol.message.LinkStatus;
 import org.loopstand.protocol.message.RunState;
 import org.loopstand.protocol.message.Schedule;
+import org.loopstand.protocol.message.SuspendedArea;
 import org.loopstand.protocol.message.TieFlow;
 import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.message.UnitTelemetry;
@@ -227,6 +228,10 @@ public final class MessageValidator {
             list("excludedUnits", m.excludedUnits(), MessageValidator::excludedUnit);
             unique("excludedUnits", m.excludedUnits(), ExcludedUnit::unit, "unit");
         }
+        if (m.suspendedAreas() != null) {
+            list("suspendedAreas", m.suspendedAreas(), MessageValidator::suspendedArea);
+            unique("suspendedAreas", m.suspendedAreas(), SuspendedArea::area, "area");
+        }
         if (m.keyId() != null) {
             id("keyId", m.keyId());
         }
@@ -240,6 +245,17 @@ public final class MessageValidator {
         id(at(path, "area"), u.area());
         text(at(path, "reason"), u.reason(), MAX_TEXT_CHARS);
         mw(at(path, "shortfallMw"), u.shortfallMw());
+    }
+
+    private static void suspendedArea(String path, SuspendedArea a) {
+        id(at(path, "area"), a.area());
+        List<String> reasons = present(at(path, "reasons"), a.reasons());
+        if (reasons.isEmpty()) {
+            throw fail(DecodeErrorKind.INVALID_VALUE, at(path, "reasons"), "a suspended area names at least one reason");
+        }
+        list(at(path, "reasons"), reasons, (p, reason) -> text(p, reason, MAX_TEXT_CHARS));
+        text(at(path, "detail"), a.detail(), MAX_TEXT_CHARS);
+        atLeast(at(path, "since"), a.since(), 1);
     }
 
     private static void areaAce(String path, AreaAce ace) {

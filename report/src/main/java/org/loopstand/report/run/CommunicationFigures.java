@@ -102,6 +102,7 @@ final class CommunicationFigures {
 
         List<String> suspensions = new ArrayList<>();
         String previous = null; // start-up cycles before the first regulating one are no fall from regulating
+        Set<String> areasOut = new HashSet<>();
         long suspendedCycles = 0;
         for (JournalEntry e : JournalSeries.ofKind(ctl, "decided")) {
             String state = e.text("state");
@@ -115,6 +116,18 @@ final class CommunicationFigures {
                         suspensions.add("unknown");
                     }
                 }
+            } else {
+                // an area left out while the others regulate is a suspension of that area
+                Set<String> now = new HashSet<>();
+                boolean wasRegulating = "regulating".equals(previous);
+                e.fields().path("suspendedAreas").forEach(a -> {
+                    now.add(a.path("area").asText());
+                    if (wasRegulating && !areasOut.contains(a.path("area").asText())) {
+                        a.path("reasons").forEach(x -> suspensions.add(x.asText()));
+                    }
+                });
+                areasOut.clear();
+                areasOut.addAll(now);
             }
             previous = state;
         }
@@ -145,7 +158,7 @@ final class CommunicationFigures {
         intake.forEach((r, n) -> reasons.add(Metric.of("input refused by the controller: " + r, n, 0, "",
                 "controller refused entries (intake)")));
         cs.suspensionsByReason().forEach((r, n) -> reasons.add(Metric.of("suspension: " + r, n, 0, "",
-                "times control went from regulating to suspended with this reason")));
+                "times control (all areas, or one area while the others regulated) went from regulating to suspended with this reason")));
         if (ctlSide) {
             reasons.add(Metric.of("cycles not regulating", suspendedCycles, 0, "", "controller decided entries with state ≠ regulating"));
         }

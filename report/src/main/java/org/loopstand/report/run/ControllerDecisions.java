@@ -13,7 +13,8 @@ import org.loopstand.report.model.MetricSection;
 
 /**
  * The controller's decisions as the plant saw them in its statuses, for any controller: each change of
- * state with its reasons, each unit taken out of the allocation (reason code and shortfall) and each
+ * state with its reasons, each area suspended while the others regulate and its return (reasons and
+ * figures), each unit taken out of the allocation (reason code and shortfall) and each
  * re-admission, in time order.
  */
 final class ControllerDecisions {
@@ -28,6 +29,7 @@ final class ControllerDecisions {
         int more = 0;
         String lastState = null;
         Map<String, JsonNode> excluded = new LinkedHashMap<>();
+        Map<String, JsonNode> areasOut = new LinkedHashMap<>();
         for (JournalEntry e : JournalSeries.ofKind(plant, "controllerStatus")) {
             String at = String.format(Locale.ROOT, "%.0f s", (e.tMs() - startMs) / 1000.0);
             List<String> lines = new ArrayList<>();
@@ -54,6 +56,7 @@ final class ControllerDecisions {
                 }
             }
             excluded = now;
+            areasOut = areaChanges(e, areasOut, lines, notes);
             for (int i = 0; i < lines.size(); i++) {
                 if (rows.size() < MAX_ROWS) {
                     rows.add(new Metric(at, lines.get(i), "", notes.get(i)));
@@ -68,8 +71,34 @@ final class ControllerDecisions {
         if (more > 0) {
             rows.add(new Metric("…", more + " more", "", "every status is in plant.jsonl (controllerStatus)"));
         }
-        return new MetricSection("Controller decisions as the plant saw them (state, exclusions, re-admissions)",
+        return new MetricSection("Controller decisions as the plant saw them (state, area suspensions, exclusions, re-admissions)",
                 MetricSection.Group.COMMUNICATION, rows);
+    }
+
+    /**
+     * Areas suspended while the controller regulated the others: a row when one is left out and when it
+     * is back. While the whole controller is suspended its state row says it all.
+     */
+    private static Map<String, JsonNode> areaChanges(JournalEntry e, Map<String, JsonNode> before, List<String> lines,
+                                                     List<String> notes) {
+        Map<String, JsonNode> now = new LinkedHashMap<>();
+        if (!"regulating".equals(e.text("state"))) {
+            return now;
+        }
+        e.fields().path("suspendedAreas").forEach(x -> now.put(x.path("area").asText(), x));
+        for (Map.Entry<String, JsonNode> x : now.entrySet()) {
+            if (!before.containsKey(x.getKey())) {
+                lines.add("area " + x.getKey() + " suspended");
+                notes.add("reasons " + reasons(x.getValue().path("reasons")) + "; " + x.getValue().path("detail").asText());
+            }
+        }
+        for (String a : before.keySet()) {
+            if (!now.containsKey(a)) {
+                lines.add("area " + a + " resumed");
+                notes.add("after " + reasons(before.get(a).path("reasons")));
+            }
+        }
+        return now;
     }
 
     private static String reasons(JsonNode reasons) {

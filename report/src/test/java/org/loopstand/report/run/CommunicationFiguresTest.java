@@ -47,6 +47,31 @@ class CommunicationFiguresTest {
     }
 
     @Test
+    void shouldCountAnAreaLeftOutWhileTheOthersRegulateAsASuspension() {
+        decided(4_000, "regulating");
+        decidedWithAreaOut(8_000, "north", "frequencyUnusable:north");
+        decidedWithAreaOut(12_000, "north", "frequencyUnusable:north");
+        decided(16_000, "regulating");
+        decidedWithAreaOut(20_000, "south", "tieFlowUnusable:south:ns");
+        Map<String, Metric> m = byName(CommunicationFigures.sections(List.of(), ctl, null, 20));
+        // one fall of the north (not one per cycle it stayed out), one of the south
+        assertThat(m.get("suspension: frequencyUnusable:north").value()).isEqualTo("1");
+        assertThat(m.get("suspension: tieFlowUnusable:south:ns").value()).isEqualTo("1");
+        // the controller as a whole regulated throughout
+        assertThat(m.get("cycles not regulating").value()).isEqualTo("0");
+    }
+
+    private void decidedWithAreaOut(long tMs, String area, String reason) {
+        ObjectNode f = JSON.createObjectNode();
+        f.put("state", "regulating");
+        f.putArray("reasons");
+        ObjectNode a = f.putArray("suspendedAreas").addObject();
+        a.put("area", area);
+        a.putArray("reasons").add(reason);
+        ctl.add(new JournalEntry(tMs, "decided", f, ctl.size() + 1));
+    }
+
+    @Test
     void shouldCountOnlyAcksThatAnswerASentCommandAsReceived() {
         add(1_000, "sent", Map.of("unit", "u1", "seq", 1));
         add(1_100, "received", Map.of("ack", "u1", "commandSeq", 1, "outcome", "accepted"));

@@ -116,6 +116,10 @@ class PlantSideFiguresTest {
             if (t >= 36) {
                 st.put("reasons", List.of("frequencyUnusable:a"));
             }
+            if (t == 16 || t == 20) {
+                st.put("suspendedAreas", List.of(Map.of("area", "b", "reasons", List.of("frequencyUnusable:b"),
+                        "detail", "frequency:b frozen ageMs=1200", "since", T0 + 16_000)));
+            }
             if (t == 40 || t == 44) {
                 st.put("excludedUnits", List.of(Map.of("unit", "u2", "area", "a", "reason", "notFollowing", "shortfallMw", 3.5)));
             }
@@ -210,6 +214,8 @@ class PlantSideFiguresTest {
         // arrival times are 50 ms after each status: rounded to whole seconds of the run
         assertThat(rows).extracting(x -> x.name() + " " + x.value() + " | " + x.note()).containsExactly(
                 "0 s theirs-1 regulating | ",
+                "16 s area b suspended | reasons frequencyUnusable:b; frequency:b frozen ageMs=1200",
+                "24 s area b resumed | after frequencyUnusable:b",
                 "36 s theirs-1 suspended | reasons frequencyUnusable:a",
                 "40 s u2 excluded | reason notFollowing, shortfall 3.50 MW, area a",
                 "48 s u2 re-admitted | after notFollowing");
