@@ -35,7 +35,7 @@ import org.loopstand.protocol.topic.TopicTree;
  * The plant's one loop: steps the physics up to the clock's now (at most {@value #MAX_STEPS_PER_CYCLE}
  * steps per cycle, then the rest next cycle), lets every in-process unit interface handle its queued
  * commands and tick after each step, runs due meter scans, serves the field topics of units that run
- * elsewhere, applies operator orders and publishes the scenario clock once a wall second. All
+ * elsewhere, applies operator orders and publishes the scenario clock ({@link ClockTickSchedule}). All
  * bus input reaches it through bounded queues, so nothing on a bus thread can hold it up.
  *
  * <p>Simulated time 0 is the clock's reading when the agent is built.
@@ -53,9 +53,8 @@ public final class PlantAgent implements Agent, ScenarioContext {
     private final long startNanos;
     private final long stepNanos;
     private final List<ScenarioEvent> events;
-    private final long clockPeriodNanos;
+    private final ClockTickSchedule clockTicks = new ClockTickSchedule();
     private int nextEvent;
-    private long nextClockNanos;
     private long clockSeq;
     private long scheduleSeq;
     private volatile long meterDropped;
@@ -84,9 +83,6 @@ public final class PlantAgent implements Agent, ScenarioContext {
         this.startNanos = parts.clock().monotonicNanos();
         this.stepNanos = Math.round(parts.sim().stepS() * 1e9);
         this.events = new ArrayList<>(parts.events());
-        // one clock tick per wall second
-        this.clockPeriodNanos = Math.max(1_000_000_000L, Math.round(1e9 * parts.rate()));
-        this.nextClockNanos = startNanos;
         this.clockSeq = parts.clock().epochMillis();
         this.scheduleSeq = parts.clock().epochMillis();
         this.startEpochMs = parts.clock().epochMillis();
@@ -432,14 +428,14 @@ public final class PlantAgent implements Agent, ScenarioContext {
     }
 
     private int publishClock(long now) {
-        boolean held = p.clock() instanceof HeldStartClock h && !h.released();
+        HeldStartClock held = p.clock() instanceof HeldStartClock h ? h : null;
+        boolean running = held == null || held.running(); // held: the controller's time stands still too
+        double rate = held == null ? p.rate() : held.currentRate();
         // published at every rate, 1 included: controllers take scenario time from it (docs/controller-contract.md)
-        if (now < nextClockNanos || !p.plantBus().isConnected()) {
+        if (!p.plantBus().isConnected() || !clockTicks.due(now, running, rate)) {
             return 0;
         }
-        nextClockNanos += ((now - nextClockNanos) / clockPeriodNanos + 1) * clockPeriodNanos;
-        ClockTick tick = new ClockTick(clockSeq++, p.clock().epochMillis(), Math.round(p.sim().timeS() * 1000),
-                p.rate(), !held); // held: the controller's time stands still too
+        ClockTick tick = new ClockTick(clockSeq++, p.clock().epochMillis(), Math.round(p.sim().timeS() * 1000), rate, running);
         p.plantBus().publish(new OutboundMessage(p.topics().clock(), p.codec().encode(tick), Qos.AT_MOST_ONCE, true, 0));
         return 1;
     }
