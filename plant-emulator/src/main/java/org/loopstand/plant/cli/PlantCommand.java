@@ -25,7 +25,6 @@ import org.loopstand.plant.meter.MeterSettings;
 import org.loopstand.plant.physics.GridSimulator;
 import org.loopstand.plant.physics.StepSizeRule;
 import org.loopstand.plant.runtime.ConnectionGrouping;
-import org.loopstand.plant.runtime.HeldStartClock;
 import org.loopstand.plant.runtime.PlantOptions;
 import org.loopstand.plant.runtime.PlantRunner;
 import org.loopstand.plant.runtime.RunAnnouncer;
@@ -50,7 +49,6 @@ import org.loopstand.protocol.security.LinkSecurity;
 import org.loopstand.protocol.security.SecuritySetupException;
 import org.loopstand.protocol.time.AcceleratedClock;
 import org.loopstand.protocol.time.Clock;
-import org.loopstand.protocol.time.SystemTime;
 import org.loopstand.protocol.time.WallClock;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
@@ -110,9 +108,6 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--truth-interval-s", defaultValue = "1", description = "scenario seconds between physics truth entries in the journal (default ${DEFAULT-VALUE})")
     double truthIntervalS;
 
-    @Option(names = "--wait-go", description = "connect, print the ready line, then hold scenario time at 0 until a line 'go' arrives on stdin (the rehearsal starts the controller in between)")
-    boolean waitGo;
-
     @Option(names = "--linger-s", defaultValue = "0", description = "after the scenario ends, keep the embedded broker up this many wall seconds (or until stopped) so the controller can stop cleanly")
     double lingerS;
 
@@ -122,6 +117,9 @@ public final class PlantCommand implements Callable<Integer> {
 
     @Mixin
     LiveMixin live;
+
+    @Mixin
+    ScenarioClockMixin start;
 
     @Mixin
     InterfaceMixin iface;
@@ -198,9 +196,7 @@ public final class PlantCommand implements Callable<Integer> {
             }
             uri = embedded.serverUri();
         }
-        HeldStartClock held = waitGo ? new HeldStartClock(WallClock.INSTANCE, rate) : null;
-        Clock clock = held != null ? held
-                : rate == 1.0 ? WallClock.INSTANCE : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
+        Clock clock = start.clock(rate);
         var links = MqttLinks.to(uri, WallClock.INSTANCE, security, grid.siteId());
         if (profile != null) {
             links = org.loopstand.plant.profile.ProfiledLinks.of(links, profile,
@@ -208,6 +204,7 @@ public final class PlantCommand implements Callable<Integer> {
             say("plant: wire profile " + profile.name() + " from " + wireProfile + " on the controller's side of the bus");
         }
         PlantRunner runner = new PlantRunner(sim, events, options, links, clock, PlantCommand::say);
+        start.pace(clock, runner);
         PlantSecurity.requireSignedCommands(security, runner.hosts().stream().map(UnitHost::unit).toList(), clock);
         PlantRunJournal runJournal = null;
         if (journalDir != null) {
@@ -305,19 +302,18 @@ public final class PlantCommand implements Callable<Integer> {
             System.err.println("plant: not connected to " + uri + " after 30 s; going on, the link keeps retrying");
         }
         RunAnnouncer.publishSiteSchedules(grid, runner.agent().plant());
-        run.announce(held != null ? RunPhase.WAITING : RunPhase.RUNNING, 0, null);
+        run.announce(start.waitGo ? RunPhase.WAITING : RunPhase.RUNNING, 0, null);
         int here = runner.hosts().size();
         say(String.format(Locale.ROOT, "plant: site %s, broker %s%s, rate %s, %d unit interface(s) here (%s), %d elsewhere%s",
                 grid.siteId(), uri, embedded != null ? " (embedded)" : "", trim(rate), here,
                 options.grouping().cliName(), options.remoteUnits().size(),
                 scenario == null ? "" : ", scenario " + trim(scenario.durationS()) + " s"));
-        if (held != null) {
-            if (!awaitGo()) {
+        if (start.waitGo) {
+            if (!start.awaitGo(clock, () -> new GridSimulator(sim.grid(), sim.stepS(), 1, 0), PlantCommand::say)) {
                 say("plant: stdin closed before 'go'; stopping");
                 closeAll.run();
                 return 1;
             }
-            held.release();
             run.announce(RunPhase.RUNNING, 0, null);
             say("plant: go, scenario time runs");
         }
@@ -341,6 +337,7 @@ public final class PlantCommand implements Callable<Integer> {
         }
         run.announce(RunPhase.ENDED, Math.round(runner.sim().timeS() * 1000),
                 runner.agent().finished() ? "completed" : "stopped");
+        start.end(runner.sim().timeS(), PlantCommand::say);
         runner.close(); // stops the loop: the journal gets its end entry
         say(String.format(Locale.ROOT, "plant: %s at %.1f s simulated; step lateness p99 %d µs, max %d µs%s", why,
                 runner.sim().timeS(), runner.lateness().histogramUs().getValueAtPercentile(99),
@@ -355,18 +352,6 @@ public final class PlantCommand implements Callable<Integer> {
         }
         closeAll.run();
         return 0;
-    }
-
-    /** @return true when a line "go" arrived on stdin, false at its end */
-    private static boolean awaitGo() throws java.io.IOException {
-        java.io.BufferedReader in = new java.io.BufferedReader(new java.io.InputStreamReader(System.in,
-                java.nio.charset.StandardCharsets.UTF_8));
-        for (String line; (line = in.readLine()) != null; ) {
-            if ("go".equals(line.trim())) {
-                return true;
-            }
-        }
-        return false;
     }
 
     private static void closeQuietly(EmbeddedBroker b) {
@@ -414,6 +399,7 @@ public final class PlantCommand implements Callable<Integer> {
         if (!(rate > 0) || rate > AcceleratedClock.MAX_RATE) {
             throw new IllegalArgumentException("--rate must be in (0, " + AcceleratedClock.MAX_RATE + "], got " + rate);
         }
+        start.check();
         return new PlantOptions(rate, remote, g, poolSize, meters, iface.options(), iface.qos(), 256, seed, lateWarnS);
     }
 

@@ -266,4 +266,38 @@ class PlantAgentTest {
             assertThat(ticks.get(13).scenarioTimeMs()).isEqualTo(10_600); // 10 ms wall at rate 20 after the hold
         }
     }
+
+    @Test
+    void shouldHoldAndSlowTheScenarioClockRatherThanRunThePhysicsLate() throws Exception {
+        HeldStartClock scenario = new HeldStartClock(clock, 40);
+        try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of(), 40, scenario)) {
+            List<Map<String, Object>> paceEntries = new java.util.ArrayList<>();
+            long stepNanos = Math.round(p.sim().stepS() * 1e9);
+            PlantPacing pacing = new PlantPacing(scenario, clock, stepNanos, new PlantPacing.Settings(1.0, 1.1, 0.8, 5.0),
+                    paceEntries::add).watch(p.lateness());
+            scenario.release();
+            pacing.started();
+            run(p, 0.1); // 4 scenario s, on time
+            assertThat(paceEntries).isEmpty();
+            clock.advanceMillis(1_000); // the loop misses a wall second: the clock is 40 s ahead of the physics
+            for (int i = 0; i < 20; i++) {
+                p.agent().doWork(); // at most 250 steps (5 s) a pass: the clock is held while the physics catches up
+                clock.advanceMillis(10);
+            }
+            assertThat(paceEntries).singleElement().satisfies(e -> {
+                assertThat(e).containsEntry("event", "paceSlowed").containsEntry("fromRate", 40.0).containsEntry("toRate", 32.0);
+                // held at the first late step: the clock stood at 44 s, the physics at 4 s
+                assertThat((Double) e.get("behindS")).isCloseTo(40.0, within(p.sim().stepS()));
+                assertThat((Double) e.get("atS")).isCloseTo(44.0, within(p.sim().stepS()));
+            });
+            // the physics caught up with the held clock and both run on at 32x
+            p.agent().doWork();
+            assertThat(scenario.running()).isTrue();
+            assertThat(p.sim().timeS()).isCloseTo(scenario.monotonicNanos() / 1e9, within(p.sim().stepS()));
+            List<ClockTick> ticks = decoded(topics.clock(), ClockTick.class);
+            assertThat(ticks).extracting(ClockTick::running).contains(false);
+            assertThat(ticks.get(ticks.size() - 1).rate()).isEqualTo(32.0);
+            assertThat(ticks.get(ticks.size() - 1).running()).isTrue();
+        }
+    }
 }
