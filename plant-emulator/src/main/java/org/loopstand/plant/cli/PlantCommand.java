@@ -105,6 +105,9 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--journal", paramLabel = "DIR", description = "run folder for plant.jsonl and plant.hlog (none if absent)")
     Path journalDir;
 
+    @Option(names = "--journal-queue", defaultValue = "65536", description = "journal entries that may wait for the journal's writer thread; beyond, entries are dropped and counted (journalQueue event); 0 = write on the physics thread (default ${DEFAULT-VALUE})")
+    int journalQueue;
+
     @Option(names = "--truth-interval-s", defaultValue = "1", description = "scenario seconds between physics truth entries in the journal (default ${DEFAULT-VALUE})")
     double truthIntervalS;
 
@@ -218,7 +221,7 @@ public final class PlantCommand implements Callable<Integer> {
                     uri, embedded != null, options, sim, meterScanMs);
             header.put("security", security.insecure() ? "insecure" : "secured"); // the report marks insecure runs
             header.put("acceptedControllers", new java.util.TreeSet<>(options.interfaces().acceptedControllers()));
-            runJournal = PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), header, clock, WallClock.INSTANCE);
+            runJournal = PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), header, clock, WallClock.INSTANCE, journalQueue);
             runner.journalTo(runJournal, truthIntervalS);
         }
         RunRecord record = new RunRecord(runner.agent().epochMsAt(0));
@@ -400,6 +403,9 @@ public final class PlantCommand implements Callable<Integer> {
             throw new IllegalArgumentException("--rate must be in (0, " + AcceleratedClock.MAX_RATE + "], got " + rate);
         }
         start.check();
+        if (journalQueue < 0 || journalQueue > 10_000_000) {
+            throw new IllegalArgumentException("--journal-queue must be in [0, 10000000], got " + journalQueue);
+        }
         return new PlantOptions(rate, remote, g, poolSize, meters, iface.options(), iface.qos(), 256, seed, lateWarnS);
     }
 

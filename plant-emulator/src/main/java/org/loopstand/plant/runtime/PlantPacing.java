@@ -130,7 +130,7 @@ public final class PlantPacing {
         if (rate < clock.rate() && lateNanos < lagNanos / 4) {
             long w = wall.monotonicNanos();
             if (w - lastChangeWallNanos >= calmNanos) {
-                double to = Math.min(clock.rate(), rate / settings.slowFactor());
+                double to = Math.min(clock.rate(), rounded(rate / settings.slowFactor()));
                 clock.runAt(to);
                 lastChangeWallNanos = w;
                 raises++;
@@ -142,7 +142,7 @@ public final class PlantPacing {
     private void resumeSlower() {
         long w = wall.monotonicNanos();
         double from = clock.currentRate();
-        double to = Math.max(MIN_RATE, from * settings.slowFactor());
+        double to = Math.max(MIN_RATE, rounded(from * settings.slowFactor()));
         clock.runAt(to);
         holding = false;
         heldWallNanos += w - holdStartWallNanos;
@@ -154,6 +154,11 @@ public final class PlantPacing {
         e.put("limitS", settings.lagS());
         e.put("heldWallMs", (w - holdStartWallNanos) / 1e6);
         journal.accept(e);
+    }
+
+    /** @return {@code rate} to 0.01 (a rate the clock topic and the progress line show plainly) */
+    private static double rounded(double rate) {
+        return Math.round(rate * 100) / 100.0;
     }
 
     private Map<String, Object> entry(String event, double fromRate, double toRate) {
