@@ -2,38 +2,62 @@ package org.loopstand.plant.fault;
 
 import java.util.List;
 
-/** {@link PlantFaultFlags} of one unit read live from the engine's active faults. */
+/**
+ * {@link PlantFaultFlags} of one unit read from the engine's active faults. The unit interface reads
+ * its flags after every step: the view reads the engine again only when its active faults changed
+ * ({@link FaultEngine#generation()}), so the step's path allocates nothing. Loop thread only, like
+ * the engine.
+ */
 final class PlantFlagsView implements PlantFaultFlags {
     private final FaultEngine engine;
     private final String unit;
+    private long seenGeneration = -1;
+    private boolean ignorePulses;
+    private boolean swapRaiseLower;
+    private boolean forcedLocal;
+    private boolean applyExpired;
+    private double slowFactor = 1.0;
 
     PlantFlagsView(FaultEngine engine, String unit) {
         this.engine = engine;
         this.unit = unit;
     }
 
-    private boolean has(String type) {
-        return plantFaults().stream().anyMatch(f -> f.type().name().equals(type));
+    private void refresh() {
+        long g = engine.generation();
+        if (g == seenGeneration) {
+            return;
+        }
+        seenGeneration = g;
+        List<FaultSpec> faults = engine.active(FaultCategory.PLANT, TargetKind.UNIT, unit);
+        ignorePulses = has(faults, "ignorePulses");
+        swapRaiseLower = has(faults, "swapRaiseLower");
+        forcedLocal = has(faults, "switchToLocal");
+        applyExpired = has(faults, "applyExpired");
+        slowFactor = faults.stream().filter(f -> f.type().name().equals("slowResponse"))
+                .mapToDouble(f -> f.number("slowFactor")).max().orElse(1.0);
     }
 
-    private List<FaultSpec> plantFaults() {
-        return engine.active(FaultCategory.PLANT, TargetKind.UNIT, unit);
+    private static boolean has(List<FaultSpec> faults, String type) {
+        return faults.stream().anyMatch(f -> f.type().name().equals(type));
     }
 
     @Override
     public boolean ignorePulses() {
-        return has("ignorePulses");
+        refresh();
+        return ignorePulses;
     }
 
     @Override
     public double slowFactor() {
-        return plantFaults().stream().filter(f -> f.type().name().equals("slowResponse"))
-                .mapToDouble(f -> f.number("slowFactor")).max().orElse(1.0);
+        refresh();
+        return slowFactor;
     }
 
     @Override
     public boolean swapRaiseLower() {
-        return has("swapRaiseLower");
+        refresh();
+        return swapRaiseLower;
     }
 
     @Override
@@ -43,11 +67,13 @@ final class PlantFlagsView implements PlantFaultFlags {
 
     @Override
     public boolean forcedLocal() {
-        return has("switchToLocal");
+        refresh();
+        return forcedLocal;
     }
 
     @Override
     public boolean applyExpiredCommands() {
-        return has("applyExpired");
+        refresh();
+        return applyExpired;
     }
 }
