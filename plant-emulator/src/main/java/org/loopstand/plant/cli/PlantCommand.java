@@ -105,9 +105,6 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--journal", paramLabel = "DIR", description = "run folder for plant.jsonl and plant.hlog (none if absent)")
     Path journalDir;
 
-    @Option(names = "--journal-queue", defaultValue = "65536", description = "journal entries that may wait for the journal's writer thread; beyond, entries are dropped and counted (journalQueue event); 0 = write on the physics thread (default ${DEFAULT-VALUE})")
-    int journalQueue;
-
     @Option(names = "--truth-interval-s", defaultValue = "1", description = "scenario seconds between physics truth entries in the journal (default ${DEFAULT-VALUE})")
     double truthIntervalS;
 
@@ -123,6 +120,9 @@ public final class PlantCommand implements Callable<Integer> {
 
     @Mixin
     ScenarioClockMixin start;
+
+    @Mixin
+    LoopThreadMixin loop;
 
     @Mixin
     InterfaceMixin iface;
@@ -206,7 +206,7 @@ public final class PlantCommand implements Callable<Integer> {
                     (topic, why) -> System.err.println("plant: wire profile: " + topic + ": " + why));
             say("plant: wire profile " + profile.name() + " from " + wireProfile + " on the controller's side of the bus");
         }
-        PlantRunner runner = new PlantRunner(sim, events, options, links, clock, PlantCommand::say);
+        PlantRunner runner = new PlantRunner(sim, events, options, loop.links(links::connect), clock, PlantCommand::say);
         start.pace(clock, runner);
         PlantSecurity.requireSignedCommands(security, runner.hosts().stream().map(UnitHost::unit).toList(), clock);
         PlantRunJournal runJournal = null;
@@ -221,7 +221,7 @@ public final class PlantCommand implements Callable<Integer> {
                     uri, embedded != null, options, sim, meterScanMs);
             header.put("security", security.insecure() ? "insecure" : "secured"); // the report marks insecure runs
             header.put("acceptedControllers", new java.util.TreeSet<>(options.interfaces().acceptedControllers()));
-            runJournal = PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), header, clock, WallClock.INSTANCE, journalQueue);
+            runJournal = PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), header, clock, WallClock.INSTANCE, loop.journalQueue);
             runner.journalTo(runJournal, truthIntervalS);
         }
         RunRecord record = new RunRecord(runner.agent().epochMsAt(0));
@@ -301,7 +301,7 @@ public final class PlantCommand implements Callable<Integer> {
         RunAnnouncer run = new RunAnnouncer(runner.plantBus(), runner.topics(), new org.loopstand.protocol.codec.MessageCodec(),
                 clock, RunAnnouncer.newRunId(WallClock.INSTANCE.epochMillis(), ProcessHandle.current().pid()),
                 scenario == null ? Double.NaN : scenario.durationS(), rate);
-        if (runner.plantBus() instanceof org.loopstand.protocol.bus.mqtt.MqttLink l && !l.awaitConnected(30_000)) {
+        if (org.loopstand.plant.runtime.PublisherThread.unwrap(runner.plantBus()) instanceof org.loopstand.protocol.bus.mqtt.MqttLink l && !l.awaitConnected(30_000)) {
             System.err.println("plant: not connected to " + uri + " after 30 s; going on, the link keeps retrying");
         }
         RunAnnouncer.publishSiteSchedules(grid, runner.agent().plant());
@@ -403,9 +403,7 @@ public final class PlantCommand implements Callable<Integer> {
             throw new IllegalArgumentException("--rate must be in (0, " + AcceleratedClock.MAX_RATE + "], got " + rate);
         }
         start.check();
-        if (journalQueue < 0 || journalQueue > 10_000_000) {
-            throw new IllegalArgumentException("--journal-queue must be in [0, 10000000], got " + journalQueue);
-        }
+        loop.check();
         return new PlantOptions(rate, remote, g, poolSize, meters, iface.options(), iface.qos(), 256, seed, lateWarnS);
     }
 
