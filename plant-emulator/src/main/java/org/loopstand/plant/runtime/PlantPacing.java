@@ -12,9 +12,11 @@ import org.loopstand.protocol.time.Clock;
 
 /**
  * The pace keeper: when the physics falls more than {@link Settings#lagS()} of scenario time behind
- * the scenario clock, it holds the clock until the physics has caught up, then lets it run on at a
- * lower rate ({@link Settings#slowFactor()} × the rate it ran at), journaling {@code paceSlowed}
- * with the figures. After {@link Settings#calmWallS()} wall seconds without a lag above a quarter of
+ * the scenario clock, it holds the clock until the physics has caught up. When the catch-up ran at
+ * less than {@value #CATCH_UP_MARGIN} × the rate (the loop itself cannot keep the rate), the clock
+ * then runs on at a lower rate ({@link Settings#slowFactor()} × the rate it ran at), journaled as
+ * {@code paceSlowed}; when the catch-up was fast (the loop was held up once: a pause, a busy
+ * machine) it runs on at the same rate, journaled as {@code paceHeld}; both with the figures. After {@link Settings#calmWallS()} wall seconds without a lag above a quarter of
  * the limit it raises the rate again by the same factor, up to the asked rate ({@code paceRaised}).
  * So a machine that cannot keep the asked rate slows the scenario (the controller follows the clock
  * ticks, so both see the same, slower time) instead of running the physics late and reaching a
@@ -49,6 +51,9 @@ public final class PlantPacing {
         }
     }
 
+    /** A catch-up faster than this many times the rate is a one-off hold-up: the rate is kept. */
+    public static final double CATCH_UP_MARGIN = 2.0;
+
     /** Lowest rate the pace keeper slows to, scenario seconds per wall second. */
     public static final double MIN_RATE = 0.05;
 
@@ -66,6 +71,7 @@ public final class PlantPacing {
     private long lastChangeWallNanos;
     private long maxLateNanos;
     private long slowdowns;
+    private long holds;
     private long raises;
     private long heldWallNanos;
     private double lowestRate;
@@ -142,14 +148,23 @@ public final class PlantPacing {
     private void resumeSlower() {
         long w = wall.monotonicNanos();
         double from = clock.currentRate();
-        double to = Math.max(MIN_RATE, rounded(from * settings.slowFactor()));
+        long heldNanos = Math.max(1, w - holdStartWallNanos);
+        // scenario ns caught up per wall ns while held: how fast the loop can go right now
+        double catchUpRate = (double) holdMaxLateNanos / heldNanos;
+        boolean slow = catchUpRate < CATCH_UP_MARGIN * from;
+        double to = slow ? Math.max(MIN_RATE, rounded(from * settings.slowFactor())) : from;
         clock.runAt(to);
         holding = false;
         heldWallNanos += w - holdStartWallNanos;
-        lastChangeWallNanos = w;
-        slowdowns++;
-        lowestRate = Math.min(lowestRate, to);
-        Map<String, Object> e = entry("paceSlowed", from, to);
+        if (slow) {
+            lastChangeWallNanos = w;
+            slowdowns++;
+            lowestRate = Math.min(lowestRate, to);
+        } else {
+            holds++;
+        }
+        Map<String, Object> e = entry(slow ? "paceSlowed" : "paceHeld", from, to);
+        e.put("catchUpRate", rounded(catchUpRate));
         e.put("behindS", holdMaxLateNanos / 1e9);
         e.put("limitS", settings.lagS());
         e.put("heldWallMs", (w - holdStartWallNanos) / 1e6);
@@ -185,6 +200,7 @@ public final class PlantPacing {
         e.put("keptRate", Double.isNaN(kept) ? null : kept);
         e.put("wallS", Double.isNaN(wallS) ? null : wallS);
         e.put("slowdowns", slowdowns);
+        e.put("holds", holds);
         e.put("raises", raises);
         e.put("heldWallMs", heldWallNanos / 1e6);
         e.put("lowestRate", lowestRate);
@@ -197,18 +213,19 @@ public final class PlantPacing {
             return Optional.empty();
         }
         return Optional.of(String.format(Locale.ROOT, "RATE NOT KEPT: asked %sx, kept %.1fx over %.1f s wall"
-                        + " (clock slowed %d times, held %.0f ms in all, lowest rate %.1fx, physics at most %.2f s behind;"
-                        + " limit %.2f s); rehearse at a lower --rate for this machine",
-                trim(clock.rate()), kept, wallS, slowdowns, heldWallNanos / 1e6, lowestRate, maxLateNanos / 1e9,
+                        + " (clock held %d times and slowed %d times, held %.0f ms in all, lowest rate %.1fx, physics at most"
+                        + " %.2f s behind; limit %.2f s); rehearse at a lower --rate for this machine",
+                trim(clock.rate()), kept, wallS, holds + slowdowns, slowdowns, heldWallNanos / 1e6, lowestRate, maxLateNanos / 1e9,
                 settings.lagS()));
     }
 
     /** @return a one-line account of the pacing so far, for the plant's last lines */
     public String describe(double simulatedS) {
         double wallS = goWallNanos < 0 ? Double.NaN : (wall.monotonicNanos() - goWallNanos) / 1e9;
-        return String.format(Locale.ROOT, "pace: asked %sx, kept %.1fx, clock slowed %d times (held %.0f ms), raised %d"
-                        + " times, physics at most %.3f s behind (limit %.2f s)",
-                trim(clock.rate()), simulatedS / wallS, slowdowns, heldWallNanos / 1e6, raises, maxLateNanos / 1e9,
+        return String.format(Locale.ROOT, "pace: asked %sx, kept %.1fx, clock held %d times (%.0f ms in all), slowed %d"
+                        + " times, raised %d times, physics at most %.3f s behind (limit %.2f s)",
+                trim(clock.rate()), simulatedS / wallS, holds + slowdowns, heldWallNanos / 1e6, slowdowns, raises,
+                maxLateNanos / 1e9,
                 settings.lagS());
     }
 

@@ -38,10 +38,12 @@ class PlantPacingTest {
         assertThat(clock.running()).isFalse();
         pacing.onStep(10_000_000L); // within one step of the clock: caught up
         assertThat(clock.running()).isTrue();
+        // 1.5 s caught up in 50 ms of wall time = 30x, less than twice the rate: the loop cannot keep 40x
         assertThat(clock.currentRate()).isEqualTo(32.0); // 40 × 0.8
         assertThat(journal).singleElement().satisfies(e -> {
             assertThat(e).containsEntry("event", "paceSlowed").containsEntry("fromRate", 40.0).containsEntry("toRate", 32.0)
-                    .containsEntry("behindS", 1.5).containsEntry("heldWallMs", 50.0).containsEntry("limitS", 1.0);
+                    .containsEntry("behindS", 1.5).containsEntry("heldWallMs", 50.0).containsEntry("limitS", 1.0)
+                    .containsEntry("catchUpRate", 30.0);
             assertThat((Double) e.get("atS")).isEqualTo(4.0);
         });
         wall.advanceMillis(1_000);
@@ -57,6 +59,22 @@ class PlantPacingTest {
         pacing.onStep(0);
         assertThat(clock.currentRate()).isEqualTo(40.0); // never above the asked rate
         assertThat(journal).hasSize(2);
+    }
+
+    @Test
+    void shouldKeepTheRateAfterAHoldWhenThePhysicsCaughtUpFast() {
+        wall.advanceMillis(100);
+        pacing.onStep(3_000_000_000L); // 3 s behind: held
+        wall.advanceMillis(10);
+        pacing.onStep(5_000_000L); // caught up 3 s in 10 ms = 300x, well above twice the rate: a one-off hold-up
+        assertThat(clock.running()).isTrue();
+        assertThat(clock.currentRate()).isEqualTo(40.0);
+        assertThat(journal).singleElement().satisfies(e -> assertThat(e).containsEntry("event", "paceHeld")
+                .containsEntry("toRate", 40.0).containsEntry("catchUpRate", 300.0).containsEntry("heldWallMs", 10.0));
+        wall.advanceMillis(100);
+        assertThat(clock.monotonicNanos()).isEqualTo(8_000_000_000L); // 4 s, held 10 ms, then 100 ms at 40x
+        pacing.finish(8.0);
+        assertThat(journal.get(1)).containsEntry("holds", 1L).containsEntry("slowdowns", 0L);
     }
 
     @Test
