@@ -58,6 +58,8 @@ public final class Rehearsal {
     private volatile ChildProcess plantChild;
     private volatile ChildProcess controllerChild;
     private volatile String liveUrl;
+    /** the plant's "RATE NOT KEPT: …" line, repeated under the verdict (docs/plant.md, "Pacing") */
+    private volatile String rateNotKept;
 
     /**
      * @param wall     wall clock (names the run folder, paces progress)
@@ -124,6 +126,8 @@ public final class Rehearsal {
                     l -> l.startsWith("plant: site "), l -> {
                         if (l.startsWith("plant: scenario done")) {
                             plantDone = true;
+                        } else if (l.startsWith("plant: RATE NOT KEPT")) {
+                            rateNotKept = l.substring("plant: ".length());
                         } else if (l.startsWith("live view: ")) {
                             liveUrl = l.substring("live view: ".length()).trim();
                             say(l); // the plant serves the live view; its address belongs on the terminal
@@ -167,6 +171,9 @@ public final class Rehearsal {
         if (terminal) {
             out.println();
         }
+        if (rateNotKept != null) {
+            notes.add("The plant could not keep the asked rate: " + rateNotKept);
+        }
         ReportModel model = reportModel(run, notes);
         Path report = writeReport(model, run);
         if (message != null) {
@@ -176,6 +183,9 @@ public final class Rehearsal {
         }
         if (model != null) {
             VerdictLines.of(model).forEach(this::say);
+            if (rateNotKept != null) {
+                say("  " + rateNotKept);
+            }
             if (exit == 0 && (model.verdict() == ReportModel.Verdict.FAIL || model.verdict() == ReportModel.Verdict.CUT_SHORT)) {
                 exit = 1; // scripts can tell a failed rehearsal by its exit code alone
             }

@@ -73,9 +73,25 @@ public final class RehearsalCommand implements Callable<Integer> {
             + " the controller (YAML; docs/controller-contract.md, \"Wire profiles\"); LOOPSTAND_WIRE_PROFILE tells the controller")
     Path wireProfile;
 
+    @Option(names = "--pace-lag-s", paramLabel = "S", description = "the plant holds and slows the scenario clock when its"
+            + " physics falls more than S scenario seconds behind, 0 = never (default: the plant's, 1 s; docs/plant.md, \"Pacing\")")
+    Double paceLagS;
+
     @Option(names = "--controller-wait-s", paramLabel = "S", description = "how long to wait for the controller's first"
             + " status, wall s (default 90; 300 for --external-controller)")
     Double controllerWaitS;
+
+    /** @return the options handed on to the plant process */
+    private List<String> plantArgs() {
+        List<String> a = new java.util.ArrayList<>();
+        if (!noLiveView) {
+            a.addAll(List.of("--live-port", Integer.toString(livePort)));
+        }
+        if (paceLagS != null) {
+            a.addAll(List.of("--pace-lag-s", Double.toString(paceLagS))); // the plant checks the value
+        }
+        return a;
+    }
 
     /** @return the controller the options name; refuses contradicting options */
     ControllerUnderTest controller() {
@@ -133,7 +149,7 @@ public final class RehearsalCommand implements Callable<Integer> {
             settings = new RehearsalSettings(scenarioFile, siteFile, broker, r, runsDir,
                     Path.of(System.getProperty("java.home"), "bin", "java").toString(),
                     System.getenv("LOOPSTAND_PLANT_CP"), System.getenv("LOOPSTAND_CONTROLLER_CP"),
-                    port, 90_000, noLiveView ? List.of() : List.of("--live-port", Integer.toString(livePort)), home, controller,
+                    port, 90_000, plantArgs(), home, controller,
                     Math.round(waitS * 1000), wireProfile);
             if (wireProfile != null) {
                 // refused here, before anything starts, with every problem at its line

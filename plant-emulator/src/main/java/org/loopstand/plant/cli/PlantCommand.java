@@ -25,7 +25,6 @@ import org.loopstand.plant.meter.MeterSettings;
 import org.loopstand.plant.physics.GridSimulator;
 import org.loopstand.plant.physics.StepSizeRule;
 import org.loopstand.plant.runtime.ConnectionGrouping;
-import org.loopstand.plant.runtime.HeldStartClock;
 import org.loopstand.plant.runtime.PlantOptions;
 import org.loopstand.plant.runtime.PlantRunner;
 import org.loopstand.plant.runtime.RunAnnouncer;
@@ -45,7 +44,6 @@ import org.loopstand.protocol.security.LinkSecurity;
 import org.loopstand.protocol.security.SecuritySetupException;
 import org.loopstand.protocol.time.AcceleratedClock;
 import org.loopstand.protocol.time.Clock;
-import org.loopstand.protocol.time.SystemTime;
 import org.loopstand.protocol.time.WallClock;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
@@ -108,9 +106,6 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--truth-interval-s", defaultValue = "1", description = "scenario seconds between physics truth entries in the journal (default ${DEFAULT-VALUE})")
     double truthIntervalS;
 
-    @Option(names = "--wait-go", description = "connect, print the ready line, then hold scenario time at 0 until a line 'go' arrives on stdin (the rehearsal starts the controller in between)")
-    boolean waitGo;
-
     @Option(names = "--linger-s", defaultValue = "0", description = "after the scenario ends, keep the embedded broker up this many wall seconds (or until stopped) so the controller can stop cleanly")
     double lingerS;
 
@@ -120,6 +115,12 @@ public final class PlantCommand implements Callable<Integer> {
 
     @Mixin
     LiveMixin live;
+
+    @Mixin
+    ScenarioClockMixin start;
+
+    @Mixin
+    LoopThreadMixin loop;
 
     @Mixin
     InterfaceMixin iface;
@@ -198,16 +199,15 @@ public final class PlantCommand implements Callable<Integer> {
             }
             uri = embedded.serverUri();
         }
-        HeldStartClock held = waitGo ? new HeldStartClock(WallClock.INSTANCE, rate) : null;
-        Clock clock = held != null ? held
-                : rate == 1.0 ? WallClock.INSTANCE : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
+        Clock clock = start.clock(rate);
         var links = MqttLinks.to(uri, WallClock.INSTANCE, security, grid.siteId());
         if (profile != null) {
             links = org.loopstand.plant.profile.ProfiledLinks.of(links, profile,
                     (topic, why) -> System.err.println("plant: wire profile: " + topic + ": " + why));
             say("plant: wire profile " + profile.name() + " from " + wireProfile + " on the controller's side of the bus");
         }
-        PlantRunner runner = new PlantRunner(sim, events, options, links, clock, PlantCommand::say);
+        PlantRunner runner = new PlantRunner(sim, events, options, loop.links(links::connect), clock, PlantCommand::say);
+        start.pace(clock, runner);
         PlantSecurity.requireSignedCommands(security, runner.hosts().stream().map(UnitHost::unit).toList(), clock);
         PlantRunJournal runJournal = null;
         if (journalDir != null) {
@@ -221,7 +221,7 @@ public final class PlantCommand implements Callable<Integer> {
                     uri, embedded != null, options, sim, meterScanMs);
             header.put("security", security.insecure() ? "insecure" : "secured"); // the report marks insecure runs
             header.put("acceptedControllers", new java.util.TreeSet<>(options.interfaces().acceptedControllers()));
-            runJournal = PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), header, clock, WallClock.INSTANCE);
+            runJournal = PlantRunJournal.create(journalDir, runner.agent().epochMsAt(0), header, clock, WallClock.INSTANCE, loop.journalQueue);
             runner.journalTo(runJournal, truthIntervalS);
         }
         RunRecord record = new RunRecord(runner.agent().epochMsAt(0));
@@ -272,23 +272,22 @@ public final class PlantCommand implements Callable<Integer> {
         RunAnnouncer run = new RunAnnouncer(runner.plantBus(), runner.topics(), new org.loopstand.protocol.codec.MessageCodec(),
                 clock, RunAnnouncer.newRunId(WallClock.INSTANCE.epochMillis(), ProcessHandle.current().pid()),
                 scenario == null ? Double.NaN : scenario.durationS(), rate);
-        if (runner.plantBus() instanceof org.loopstand.protocol.bus.mqtt.MqttLink l && !l.awaitConnected(30_000)) {
+        if (org.loopstand.plant.runtime.PublisherThread.unwrap(runner.plantBus()) instanceof org.loopstand.protocol.bus.mqtt.MqttLink l && !l.awaitConnected(30_000)) {
             System.err.println("plant: not connected to " + uri + " after 30 s; going on, the link keeps retrying");
         }
         RunAnnouncer.publishSiteSchedules(grid, runner.agent().plant());
-        run.announce(held != null ? RunPhase.WAITING : RunPhase.RUNNING, 0, null);
+        run.announce(start.waitGo ? RunPhase.WAITING : RunPhase.RUNNING, 0, null);
         int here = runner.hosts().size();
         say(String.format(Locale.ROOT, "plant: site %s, broker %s%s, rate %s, %d unit interface(s) here (%s), %d elsewhere%s",
                 grid.siteId(), uri, embedded != null ? " (embedded)" : "", trim(rate), here,
                 options.grouping().cliName(), options.remoteUnits().size(),
                 scenario == null ? "" : ", scenario " + trim(scenario.durationS()) + " s"));
-        if (held != null) {
-            if (!awaitGo()) {
+        if (start.waitGo) {
+            if (!start.awaitGo(clock, () -> new GridSimulator(sim.grid(), sim.stepS(), 1, 0), PlantCommand::say)) {
                 say("plant: stdin closed before 'go'; stopping");
                 closeAll.run();
                 return 1;
             }
-            held.release();
             run.announce(RunPhase.RUNNING, 0, null);
             say("plant: go, scenario time runs");
         }
@@ -312,6 +311,7 @@ public final class PlantCommand implements Callable<Integer> {
         }
         run.announce(RunPhase.ENDED, Math.round(runner.sim().timeS() * 1000),
                 runner.agent().finished() ? "completed" : "stopped");
+        start.end(runner.sim().timeS(), PlantCommand::say);
         runner.close(); // stops the loop: the journal gets its end entry
         say(String.format(Locale.ROOT, "plant: %s at %.1f s simulated; step lateness p99 %d µs, max %d µs%s", why,
                 runner.sim().timeS(), runner.lateness().histogramUs().getValueAtPercentile(99),
@@ -326,18 +326,6 @@ public final class PlantCommand implements Callable<Integer> {
         }
         closeAll.run();
         return 0;
-    }
-
-    /** @return true when a line "go" arrived on stdin, false at its end */
-    private static boolean awaitGo() throws java.io.IOException {
-        java.io.BufferedReader in = new java.io.BufferedReader(new java.io.InputStreamReader(System.in,
-                java.nio.charset.StandardCharsets.UTF_8));
-        for (String line; (line = in.readLine()) != null; ) {
-            if ("go".equals(line.trim())) {
-                return true;
-            }
-        }
-        return false;
     }
 
     private static void closeQuietly(EmbeddedBroker b) {
@@ -385,6 +373,8 @@ public final class PlantCommand implements Callable<Integer> {
         if (!(rate > 0) || rate > AcceleratedClock.MAX_RATE) {
             throw new IllegalArgumentException("--rate must be in (0, " + AcceleratedClock.MAX_RATE + "], got " + rate);
         }
+        start.check();
+        loop.check();
         return new PlantOptions(rate, remote, g, poolSize, meters, iface.options(), iface.qos(), 256, seed, lateWarnS);
     }
 

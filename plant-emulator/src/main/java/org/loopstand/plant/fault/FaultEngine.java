@@ -25,6 +25,10 @@ public final class FaultEngine {
     private final FaultObserver observer;
     private final Map<String, Window> windows = new LinkedHashMap<>();
     private final Map<String, LinkFaultControl> links = new LinkedHashMap<>();
+    /** the registered links, each once, in registration order (polled every update without allocating) */
+    private final List<LinkFaultControl> distinctLinks = new ArrayList<>();
+    /** changes whenever the active faults change: lets flag views cache what they read */
+    private long generation;
     private final List<FaultSpec> active = new ArrayList<>();
     private final java.util.Set<String> tripOrdered = new java.util.HashSet<>();
 
@@ -42,6 +46,9 @@ public final class FaultEngine {
     /** Lets connection faults on {@code connectionId} act on a real connection. */
     public void registerLink(String connectionId, LinkFaultControl control) {
         links.put(connectionId, control);
+        if (!distinctLinks.contains(control)) {
+            distinctLinks.add(control);
+        }
     }
 
     /** @return scenario seconds since the run start */
@@ -125,8 +132,8 @@ public final class FaultEngine {
                 fired++;
             }
         }
-        for (LinkFaultControl link : new java.util.LinkedHashSet<>(links.values())) {
-            fired += link.poll();
+        for (int i = 0; i < distinctLinks.size(); i++) {
+            fired += distinctLinks.get(i).poll();
         }
         return fired;
     }
@@ -135,6 +142,7 @@ public final class FaultEngine {
         w.started = true;
         w.startedAtMs = nowMs();
         active.add(w.spec);
+        generation++;
         observer.faultStarted(w.startedAtMs, w.spec, w.source);
         if (w.spec.behaviour() instanceof PlantFault pf && pf.tripsUnit()) {
             w.spec.targets().forEach(t -> tripOrdered.add(t.id()));
@@ -155,6 +163,7 @@ public final class FaultEngine {
     private void end(Window w, String reason) {
         w.ended = true;
         active.remove(w.spec);
+        generation++;
         observer.faultStopped(nowMs(), w.spec, w.source, reason);
         if (w.spec.behaviour() instanceof LinkFault lf && Double.isNaN(lf.refuseReconnectS())) {
             for (FaultTarget t : w.spec.targets()) {
@@ -209,6 +218,11 @@ public final class FaultEngine {
         List<FaultState> out = new ArrayList<>();
         windows.values().forEach(w -> out.add(new FaultState(w.spec, w.source, w.started, w.ended)));
         return out;
+    }
+
+    /** @return a number that changes whenever a fault starts or ends (for views that cache what they read) */
+    public long generation() {
+        return generation;
     }
 
     /** @return whether a plant trip was ordered for the unit at any time in the run (a trip is not undone) */

@@ -5,7 +5,7 @@ import java.util.List;
 import java.util.Map;
 
 import org.loopstand.protocol.journal.JournalFormat;
-import org.loopstand.protocol.journal.JournalWriter;
+import org.loopstand.protocol.journal.JournalSink;
 import org.loopstand.protocol.message.UnitCommand;
 
 /**
@@ -21,9 +21,9 @@ public final class FaultJournal implements FaultObserver {
     /** Entry kind of what went on the wire in place of the truth. */
     public static final String KIND_PUBLISHED = "published";
 
-    private final JournalWriter writer;
+    private final JournalSink writer;
 
-    public FaultJournal(JournalWriter writer) {
+    public FaultJournal(JournalSink writer) {
         this.writer = writer;
     }
 

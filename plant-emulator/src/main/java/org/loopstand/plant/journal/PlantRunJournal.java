@@ -1,14 +1,10 @@
 package org.loopstand.plant.journal;
 
-import java.io.IOException;
-import java.io.UncheckedIOException;
 import java.nio.file.Path;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 
-import com.fasterxml.jackson.databind.JsonNode;
-import com.fasterxml.jackson.databind.ObjectMapper;
 import org.loopstand.plant.grid.Area;
 import org.loopstand.plant.grid.GeneratingUnit;
 import org.loopstand.plant.grid.Grid;
@@ -19,6 +15,8 @@ import org.loopstand.plant.unit.PlantJournal;
 import org.loopstand.protocol.journal.EndReason;
 import org.loopstand.protocol.journal.HistogramLogs;
 import org.loopstand.protocol.journal.JournalFormat;
+import org.loopstand.protocol.journal.JournalSink;
+import org.loopstand.protocol.journal.QueuedJournal;
 import org.loopstand.protocol.journal.JournalWriter;
 import org.loopstand.protocol.message.FaultOrder;
 import org.loopstand.protocol.time.Clock;
@@ -39,13 +37,17 @@ public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.p
     public static final String COMMAND_TO_REFERENCE_US = "commandToReferenceUs";
     public static final String COMMAND_TO_OUTPUT_US = "commandToOutputUs";
 
-    private final JournalWriter journal;
+    private final JournalWriter writer;
+    /** the writer, or the queue in front of it */
+    private final JournalSink journal;
+    private final QueuedJournal queue;
     private final HistogramLogs histograms;
-    private final ObjectMapper mapper = new ObjectMapper();
     private final org.loopstand.plant.fault.FaultJournal faults;
 
-    private PlantRunJournal(JournalWriter journal, HistogramLogs histograms) {
-        this.journal = journal;
+    private PlantRunJournal(JournalWriter writer, QueuedJournal queue, HistogramLogs histograms) {
+        this.writer = writer;
+        this.queue = queue;
+        this.journal = queue != null ? queue : writer;
         this.histograms = histograms;
         this.faults = new org.loopstand.plant.fault.FaultJournal(journal);
     }
@@ -120,10 +122,31 @@ public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.p
      */
     public static PlantRunJournal create(Path dir, long startedAtMs, Map<String, ?> header, Clock scenarioClock,
                                          Clock wallClock) {
+        return create(dir, startedAtMs, header, scenarioClock, wallClock, 0);
+    }
+
+    /**
+     * As {@link #create(Path, long, Map, Clock, Clock)}, with {@code queueCapacity} &gt; 0 the entries are
+     * turned into JSON and written on a writer thread behind a bounded queue ({@link QueuedJournal}:
+     * entries beyond the capacity are dropped, counted by kind and journaled at close); 0 writes on
+     * the caller's thread.
+     *
+     * @param queueCapacity entries that may wait for the writer thread, 0 – 10,000,000 (0 = no queue)
+     */
+    public static PlantRunJournal create(Path dir, long startedAtMs, Map<String, ?> header, Clock scenarioClock,
+                                         Clock wallClock, int queueCapacity) {
+        if (queueCapacity < 0 || queueCapacity > 10_000_000) {
+            throw new IllegalArgumentException("journal queue capacity must be in [0, 10000000], got " + queueCapacity);
+        }
         JournalWriter w = JournalWriter.create(dir.resolve("plant.jsonl"), "plant", startedAtMs, header, wallClock,
                 JournalWriter.DEFAULT_FLUSH_INTERVAL);
         HistogramLogs h = HistogramLogs.create(dir.resolve("plant.hlog"), scenarioClock, 3_600_000_000L, 3, 10_000);
-        return new PlantRunJournal(w, h);
+        return new PlantRunJournal(w, queueCapacity == 0 ? null : new QueuedJournal(w, queueCapacity, "plant-journal"), h);
+    }
+
+    /** @return entries dropped because the journal queue was full (0 without a queue) */
+    public synchronized long droppedEntries() {
+        return queue == null ? 0 : queue.dropped();
     }
 
     /** Writes the physics as it is: every area, tie and unit. */
@@ -181,7 +204,7 @@ public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.p
         if (why != null) {
             f.put("why", why);
         }
-        f.put("message", parse(payload));
+        f.put("message", new EncodedJson(payload)); // parsed back where the entry is written
         if (faults != null && !faults.isEmpty()) {
             f.put("faults", faults);
         }
@@ -309,7 +332,9 @@ public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.p
     /** Call from the loop: flushes the journal at least every second and writes due histogram intervals. */
     public synchronized void flushIfDue() {
         if (!journal.isClosed()) {
-            journal.flushIfDue();
+            if (queue == null) {
+                writer.flushIfDue(); // the queue's writer thread flushes by itself
+            }
             histograms.writeIntervalIfDue();
         }
     }
@@ -322,7 +347,11 @@ public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.p
         try {
             histograms.close();
         } finally {
-            journal.close(tMs, reason);
+            if (queue != null) {
+                queue.close(tMs, reason);
+            } else {
+                writer.close(tMs, reason);
+            }
         }
     }
 
@@ -335,7 +364,11 @@ public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.p
         try {
             histograms.close();
         } finally {
-            journal.close();
+            if (queue != null) {
+                queue.close();
+            } else {
+                writer.close();
+            }
         }
     }
 
@@ -344,15 +377,7 @@ public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.p
     }
 
     public Path file() {
-        return journal.file();
-    }
-
-    private JsonNode parse(byte[] payload) {
-        try {
-            return mapper.readTree(payload);
-        } catch (IOException e) {
-            throw new UncheckedIOException("plant journal: an encoded message did not parse back: " + e.getMessage(), e);
-        }
+        return writer.file();
     }
 
     private static void putFinite(Map<String, Object> f, String name, double v) {

@@ -26,7 +26,8 @@ public final class BusLinkFaults implements LinkFaultControl {
     }
 
     /** @return a control for {@code bus}, or null when its kind cannot be cut (the publication stage then emulates the outage) */
-    public static BusLinkFaults forBus(MessageBus bus, Clock clock) {
+    public static BusLinkFaults forBus(MessageBus connection, Clock clock) {
+        MessageBus bus = PublisherThread.unwrap(connection); // cut the connection itself, not the queue in front of it
         return bus instanceof MqttLink || bus instanceof InMemoryBus ? new BusLinkFaults(bus, clock) : null;
     }
 

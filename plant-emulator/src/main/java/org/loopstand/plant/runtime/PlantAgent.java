@@ -25,7 +25,7 @@ import org.loopstand.protocol.topic.TopicTree;
  * most {@value #MAX_STEPS_PER_CYCLE} steps per cycle, then the rest next cycle), lets every in-process
  * unit interface handle its queued commands and tick after each step, runs due meter scans
  * ({@link MeterScan}), serves the field topics of units that run elsewhere, applies operator orders
- * and publishes the scenario clock once a wall second ({@link PlantClockPublisher}). All bus input
+ * and publishes the scenario clock ({@link PlantClockPublisher}). All bus input
  * reaches it through bounded queues, so nothing on a bus thread can hold it up. In a lockstep study
  * the study's engine steps the physics and this agent only follows ({@link #followSteps}).
  *
@@ -73,12 +73,11 @@ public final class PlantAgent implements Agent {
 
     public PlantAgent(Parts parts) {
         this.p = parts;
-        long startNanos = parts.clock().monotonicNanos();
         this.stepNanos = Math.round(parts.sim().stepS() * 1e9);
         this.startEpochMs = parts.clock().epochMillis();
         this.controls = new BusPlantControls(parts.clock(), parts.plantBus(), parts.topics(), parts.codec(), parts.units());
         this.clockPublisher = new PlantClockPublisher(parts.clock(), parts.plantBus(), parts.topics(), parts.codec(),
-                parts.rate(), startNanos);
+                parts.rate());
         this.meterScan = new MeterScan(parts.meters(), parts.sim(), parts.clock(), parts.plantBus(), parts.topics(),
                 parts.codec());
         this.journal = new PlantLoopJournal(parts.clock(), parts.sim(), parts.units(), this::epochMsAt);

@@ -9,9 +9,10 @@ import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.topic.TopicTree;
 
 /**
- * Publishes the scenario clock, retained, once a wall second (at every rate, 1 included: controllers
- * take scenario time from it, docs/controller-contract.md). While a {@link HeldStartClock} holds, the
- * tick says the clock is not running. Loop thread only.
+ * Publishes the scenario clock, retained, at once when scenario time starts, is held or changes rate,
+ * and otherwise on the {@link ClockTickSchedule} (at every rate, 1 included: controllers take scenario
+ * time from it, docs/controller-contract.md). While a {@link HeldStartClock} holds, the tick says the
+ * clock is not running. Loop thread only.
  */
 final class PlantClockPublisher {
     private final Clock clock;
@@ -19,23 +20,18 @@ final class PlantClockPublisher {
     private final TopicTree topics;
     private final MessageCodec codec;
     private final double rate;
-    private final long periodNanos;
-    private long nextNanos;
+    private final ClockTickSchedule ticks = new ClockTickSchedule();
     private long seq;
 
     /**
      * @param rate       scenario seconds per wall second, &gt; 0
-     * @param startNanos the clock's monotonic reading at the run's start, ns
      */
-    PlantClockPublisher(Clock clock, MessageBus plantBus, TopicTree topics, MessageCodec codec, double rate, long startNanos) {
+    PlantClockPublisher(Clock clock, MessageBus plantBus, TopicTree topics, MessageCodec codec, double rate) {
         this.clock = clock;
         this.plantBus = plantBus;
         this.topics = topics;
         this.codec = codec;
         this.rate = rate;
-        // one clock tick per wall second
-        this.periodNanos = Math.max(1_000_000_000L, Math.round(1e9 * rate));
-        this.nextNanos = startNanos;
         this.seq = clock.epochMillis();
     }
 
@@ -45,13 +41,13 @@ final class PlantClockPublisher {
      * @return 1 when a tick went out, else 0
      */
     int publishIfDue(long nowNanos, double simTimeS) {
-        boolean held = clock instanceof HeldStartClock h && !h.released();
-        if (nowNanos < nextNanos || !plantBus.isConnected()) {
+        HeldStartClock held = clock instanceof HeldStartClock h ? h : null;
+        boolean running = held == null || held.running(); // held: the controller's time stands still too
+        double rateNow = held == null ? rate : held.currentRate();
+        if (!plantBus.isConnected() || !ticks.due(nowNanos, running, rateNow)) {
             return 0;
         }
-        nextNanos += ((nowNanos - nextNanos) / periodNanos + 1) * periodNanos;
-        ClockTick tick = new ClockTick(seq++, clock.epochMillis(), Math.round(simTimeS * 1000), rate,
-                !held); // held: the controller's time stands still too
+        ClockTick tick = new ClockTick(seq++, clock.epochMillis(), Math.round(simTimeS * 1000), rateNow, running);
         plantBus.publish(new OutboundMessage(topics.clock(), codec.encode(tick), Qos.AT_MOST_ONCE, true, 0));
         return 1;
     }

@@ -6,8 +6,8 @@ import org.HdrHistogram.Histogram;
 
 /**
  * How late each physics step runs against the clock, in µs of scenario time. When a step runs later
- * than the warning threshold, says so once (with how far behind) and never slows the clock: the loop
- * catches up as fast as it can.
+ * than the warning threshold, says so once (with how far behind); the loop catches up as fast as it
+ * can, and a pace keeper watching the steps ({@link #watchSteps}) may slow the clock.
  */
 public final class StepLateness {
     private static final long MAX_US = 3_600_000_000L;
@@ -16,6 +16,7 @@ public final class StepLateness {
     private final Consumer<String> warnings;
     private boolean warned;
     private volatile long currentNanos;
+    private java.util.function.LongConsumer stepWatcher;
 
     /**
      * @param warnNanos lateness that triggers the one warning, ns of scenario time
@@ -30,11 +31,22 @@ public final class StepLateness {
         long late = Math.max(0, lateNanos);
         currentNanos = late;
         lateUs.recordValue(Math.min(MAX_US, late / 1_000));
+        if (stepWatcher != null) {
+            stepWatcher.accept(late);
+        }
         if (!warned && late > warnNanos) {
             warned = true;
             warnings.accept(String.format(java.util.Locale.ROOT,
-                    "plant: physics is falling behind the clock by %.3f s (steps run late; the clock is not slowed)", late / 1e9));
+                    "plant: physics is falling behind the clock by %.3f s (steps run late)", late / 1e9));
         }
+    }
+
+    /**
+     * Before the loop starts: {@code watcher} gets every step's lateness, ns of scenario time, on the
+     * loop's thread (the pace keeper, {@link PlantPacing}); it must be cheap.
+     */
+    public synchronized void watchSteps(java.util.function.LongConsumer watcher) {
+        this.stepWatcher = watcher;
     }
 
     /** @return a copy of the lateness histogram, µs */

@@ -42,4 +42,33 @@ class PlantFaultFlagsTest {
         assertThat(flags.tripRequested()).isTrue();
         assertThat(rig.transitions).containsExactly("start p1 at 30000", "stop p1 at 30000");
     }
+
+    @Test
+    void shouldReadTheFlagsAfterEveryStepWithoutAllocating() {
+        rig.fault("p2", "slowResponse", FaultRig.UNIT, Map.of("slowFactor", 5), 10, 20);
+        at(12);
+        var threads = (com.sun.management.ThreadMXBean) java.lang.management.ManagementFactory.getThreadMXBean();
+        long id = Thread.currentThread().getId();
+        double sum = readAll(1_000) + threads.getThreadAllocatedBytes(id); // the first reads and the meter's own first call
+        long before = threads.getThreadAllocatedBytes(id);
+        sum += readAll(100_000);
+        long allocatedBytes = threads.getThreadAllocatedBytes(id) - before;
+        // was a list and a stream per flag read (≥ 100 bytes each, so ≥ 50 MB here); now only when a fault starts or ends
+        assertThat(allocatedBytes).isLessThan(1_000);
+        assertThat(sum).isGreaterThan(0);
+        at(20);
+        assertThat(flags.slowFactor()).isEqualTo(1.0); // the end of the window is still seen
+    }
+
+    /** What a unit interface reads after each step, {@code n} times. */
+    private double readAll(int n) {
+        double s = 0;
+        for (int i = 0; i < n; i++) {
+            s += flags.slowFactor();
+            s += flags.forcedLocal() ? 1 : 0;
+            s += flags.tripRequested() ? 1 : 0;
+            s += flags.ignorePulses() || flags.swapRaiseLower() || flags.applyExpiredCommands() ? 1 : 0;
+        }
+        return s;
+    }
 }

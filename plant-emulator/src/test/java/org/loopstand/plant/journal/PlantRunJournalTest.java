@@ -49,13 +49,18 @@ class PlantRunJournalTest {
     Path dir;
 
     PlantRunner plant() throws Exception {
+        return plant(0);
+    }
+
+    PlantRunner plant(int journalQueue) throws Exception {
         Grid grid = SiteLoader.load(SITE);
         PlantOptions o = new PlantOptions(1, Set.of(), ConnectionGrouping.PER_UNIT, 2,
                 List.of(MeterSettings.defaults("north-basin"), MeterSettings.defaults("south-ridge")),
                 InterfaceOptions.defaults(), Qos.AT_MOST_ONCE, 256, 7, 1.0);
         PlantRunner p = new PlantRunner(new GridSimulator(grid), List.of(new PhysicsEvents.LoadStep(2, "north-basin", 50)),
                 o, broker::connect, clock, w -> { });
-        p.journalTo(PlantRunJournal.create(dir, p.agent().epochMsAt(0), Map.of("site", "demo-site", "rate", 1.0), clock, clock), 1.0);
+        p.journalTo(PlantRunJournal.create(dir, p.agent().epochMsAt(0), Map.of("site", "demo-site", "rate", 1.0), clock, clock,
+                journalQueue), 1.0);
         p.agent().endAt(10);
         return p;
     }
@@ -71,9 +76,11 @@ class PlantRunJournalTest {
         tester.publish(OutboundMessage.of(topics.unitCommand(c.unit()), codec.encode(c), Qos.AT_LEAST_ONCE));
     }
 
-    @Test
-    void shouldJournalTruthPublishedCommandsEventsAndFaultsAndEndWhenTheScenarioEnds() throws Exception {
-        PlantRunner p = plant();
+    /** 0: written on the plant loop's thread; 65,536: behind the queue, written on the journal's own thread. */
+    @org.junit.jupiter.params.ParameterizedTest
+    @org.junit.jupiter.params.provider.ValueSource(ints = {0, 65_536})
+    void shouldJournalTruthPublishedCommandsEventsAndFaultsAndEndWhenTheScenarioEnds(int journalQueue) throws Exception {
+        PlantRunner p = plant(journalQueue);
         run(p, 3);
         long now = clock.epochMillis();
         send(UnitCommand.pulse(1, now, "basin-steam-1", "controller-1", 0, now + 8_000, PulseDirection.RAISE, 4_000));
@@ -85,9 +92,9 @@ class PlantRunJournalTest {
         assertThat(p.sim().timeS()).isCloseTo(10.0, within(1e-9));
 
         // flushed while running (flush clock = the virtual clock, 1 s interval): readable, not yet ended
-        JournalReader.Contents live = JournalReader.readAll(dir.resolve("plant.jsonl"));
-        assertThat(live.summary().cutShort()).isTrue();
-        assertThat(live.entries()).anyMatch(e -> e.kind().equals("truth"));
+        org.awaitility.Awaitility.await().atMost(java.time.Duration.ofSeconds(10)).until(() -> // the writer thread's pace
+                JournalReader.readAll(dir.resolve("plant.jsonl")).entries().stream().anyMatch(e -> e.kind().equals("truth")));
+        assertThat(JournalReader.readAll(dir.resolve("plant.jsonl")).summary().cutShort()).isTrue();
 
         p.close();
         JournalReader.Contents c = JournalReader.readAll(dir.resolve("plant.jsonl"));
@@ -136,6 +143,10 @@ class PlantRunJournalTest {
             assertThat(f.text("orderId")).isEqualTo("order-1");
             assertThat(f.text("action")).isEqualTo("start");
         });
+        if (journalQueue > 0) { // the queue's figures: nothing dropped
+            assertThat(kind(c, "event")).filteredOn(e -> "journalQueue".equals(e.text("event"))).singleElement()
+                    .satisfies(e -> assertThat(e.number("dropped").getAsDouble()).isZero());
+        }
         assertThat(HistogramLogs.readTotals(dir.resolve("plant.hlog")).histograms())
                 .containsKeys(PlantRunJournal.STEP_LATENESS_US, PlantRunJournal.COMMAND_TO_REFERENCE_US);
     }

@@ -55,6 +55,11 @@ class PlantAgentTest {
     }
 
     PlantRunner plant(ConnectionGrouping grouping, Set<String> remote, double rate) throws Exception {
+        return plant(grouping, remote, rate, clock);
+    }
+
+    PlantRunner plant(ConnectionGrouping grouping, Set<String> remote, double rate, org.loopstand.protocol.time.Clock plantClock)
+            throws Exception {
         Grid grid = SiteLoader.load(SITE);
         GridSimulator sim = new GridSimulator(grid);
         List<MeterSettings> meters = List.of(MeterSettings.defaults("north-basin"),
@@ -62,7 +67,7 @@ class PlantAgentTest {
         PlantOptions o = new PlantOptions(rate, remote, grouping, 2, meters,
                 InterfaceOptions.defaults().withTelemetryScanMs(2_000, Map.of("ridge-hydro-1", 500L)),
                 Qos.AT_MOST_ONCE, 256, 7, 1.0);
-        return new PlantRunner(sim, List.of(), o, broker::connect, clock, warnings::add);
+        return new PlantRunner(sim, List.of(), o, broker::connect, plantClock, warnings::add);
     }
 
     void run(PlantRunner p, double s) {
@@ -204,23 +209,96 @@ class PlantAgentTest {
     }
 
     @Test
-    void shouldPublishTheScenarioClockOnceAWallSecondAtEveryRate() throws Exception {
+    void shouldPublishTheScenarioClockEveryScenarioSecondAtEveryRate() throws Exception {
         try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of(), 10)) {
             run(p, 25);
             List<ClockTick> ticks = decoded(topics.clock(), ClockTick.class);
-            // once per wall second = every 10 s of scenario time: t = 0.01, 10, 20 s
-            assertThat(ticks).hasSize(3);
+            // every scenario second (here the virtual clock is the scenario clock): t = 0.01, 1, 2, ... 25 s
+            assertThat(ticks).hasSize(26);
             assertThat(ticks).allSatisfy(t -> assertThat(t.rate()).isEqualTo(10));
-            assertThat(ticks.get(2).scenarioTimeMs()).isEqualTo(20_000);
+            assertThat(ticks.get(2).scenarioTimeMs()).isEqualTo(2_000);
             assertThat(on(topics.clock()).get(0).retained()).isFalse(); // live delivery; the broker keeps it
         }
         try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of())) {
             run(p, 5);
             // at rate 1 too (controllers take scenario time from the clock at every rate): once a scenario second
             List<ClockTick> ticks = decoded(topics.clock(), ClockTick.class);
-            assertThat(ticks.subList(3, ticks.size())).extracting(ClockTick::scenarioTimeMs)
+            assertThat(ticks.subList(26, ticks.size())).extracting(ClockTick::scenarioTimeMs)
                     .containsExactly(0L, 1_000L, 2_000L, 3_000L, 4_000L, 5_000L);
-            assertThat(ticks.subList(3, ticks.size())).allSatisfy(t -> assertThat(t.rate()).isEqualTo(1));
+            assertThat(ticks.subList(26, ticks.size())).allSatisfy(t -> assertThat(t.rate()).isEqualTo(1));
+        }
+    }
+
+    @Test
+    void shouldTellTheClockAtOnceWhenItStartsHoldsOrChangesRate() throws Exception {
+        // the plant's scenario clock at rate 40 over the virtual wall clock, held until go
+        HeldStartClock scenario = new HeldStartClock(clock, 40);
+        try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of(), 40, scenario)) {
+            run(p, 0.5); // held: one tick saying the time stands still, nothing more
+            assertThat(decoded(topics.clock(), ClockTick.class)).extracting(ClockTick::running).containsExactly(false);
+            scenario.release();
+            clock.advanceMillis(10);
+            p.agent().doWork();
+            // go reaches the controller in the same loop pass, not a wall second (40 scenario s) later
+            List<ClockTick> ticks = decoded(topics.clock(), ClockTick.class);
+            assertThat(ticks).hasSize(2);
+            assertThat(ticks.get(1).running()).isTrue();
+            assertThat(ticks.get(1).rate()).isEqualTo(40);
+            assertThat(ticks.get(1).scenarioTimeMs()).isEqualTo(400); // 10 ms wall at rate 40, stepped to the clock
+            run(p, 0.25); // 10 scenario seconds in passes of 0.4 s: the first pass in each scenario second ticks
+            ticks = decoded(topics.clock(), ClockTick.class);
+            assertThat(ticks.subList(2, ticks.size())).extracting(ClockTick::scenarioTimeMs)
+                    .containsExactly(1_200L, 2_000L, 3_200L, 4_000L, 5_200L, 6_000L, 7_200L, 8_000L, 9_200L, 10_000L);
+            scenario.hold();
+            clock.advanceMillis(10);
+            p.agent().doWork();
+            ticks = decoded(topics.clock(), ClockTick.class);
+            assertThat(ticks).hasSize(13);
+            assertThat(ticks.get(12).running()).isFalse();
+            assertThat(ticks.get(12).scenarioTimeMs()).isEqualTo(10_400); // stands where the hold caught it
+            scenario.runAt(20);
+            clock.advanceMillis(10);
+            p.agent().doWork();
+            ticks = decoded(topics.clock(), ClockTick.class);
+            assertThat(ticks).hasSize(14);
+            assertThat(ticks.get(13).running()).isTrue();
+            assertThat(ticks.get(13).rate()).isEqualTo(20);
+            assertThat(ticks.get(13).scenarioTimeMs()).isEqualTo(10_600); // 10 ms wall at rate 20 after the hold
+        }
+    }
+
+    @Test
+    void shouldHoldTheScenarioClockRatherThanRunThePhysicsLate() throws Exception {
+        HeldStartClock scenario = new HeldStartClock(clock, 40);
+        try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of(), 40, scenario)) {
+            List<Map<String, Object>> paceEntries = new java.util.ArrayList<>();
+            long stepNanos = Math.round(p.sim().stepS() * 1e9);
+            PlantPacing pacing = new PlantPacing(scenario, clock, stepNanos, new PlantPacing.Settings(1.0, 1.1, 0.8, 5.0),
+                    paceEntries::add).watch(p.lateness());
+            scenario.release();
+            pacing.started();
+            run(p, 0.1); // 4 scenario s, on time
+            assertThat(paceEntries).isEmpty();
+            clock.advanceMillis(1_000); // the loop misses a wall second: the clock is 40 s ahead of the physics
+            for (int i = 0; i < 20; i++) {
+                p.agent().doWork(); // at most 250 steps (5 s) a pass: the clock is held while the physics catches up
+                clock.advanceMillis(10);
+            }
+            assertThat(paceEntries).singleElement().satisfies(e -> {
+                // caught up 40 s in about 80 ms of wall time: a one-off hold-up, so the rate is kept
+                assertThat(e).containsEntry("event", "paceHeld").containsEntry("fromRate", 40.0).containsEntry("toRate", 40.0);
+                // held at the first late step: the clock stood at 44 s, the physics at 4 s
+                assertThat((Double) e.get("behindS")).isCloseTo(40.0, within(p.sim().stepS()));
+                assertThat((Double) e.get("atS")).isCloseTo(44.0, within(p.sim().stepS()));
+            });
+            // the physics caught up with the held clock and both run on at 40x
+            p.agent().doWork();
+            assertThat(scenario.running()).isTrue();
+            assertThat(p.sim().timeS()).isCloseTo(scenario.monotonicNanos() / 1e9, within(p.sim().stepS()));
+            List<ClockTick> ticks = decoded(topics.clock(), ClockTick.class);
+            assertThat(ticks).extracting(ClockTick::running).contains(false);
+            assertThat(ticks.get(ticks.size() - 1).rate()).isEqualTo(40.0);
+            assertThat(ticks.get(ticks.size() - 1).running()).isTrue();
         }
     }
 }

@@ -36,7 +36,7 @@ import org.loopstand.protocol.time.Clock;
  * <p><b>Threads.</b> Not thread-safe: one thread at a time (normally the agent that owns it) calls
  * every method. Handing it to another thread needs a happens-before edge such as starting that thread.
  */
-public final class JournalWriter implements AutoCloseable {
+public final class JournalWriter implements JournalSink, AutoCloseable {
     /** Default flush interval: at most one second of journal lost on a kill. */
     public static final Duration DEFAULT_FLUSH_INTERVAL = Duration.ofSeconds(1);
 
@@ -130,6 +130,7 @@ public final class JournalWriter implements AutoCloseable {
      * @param fields the entry's fields: a {@code Map} or any object Jackson serializes to a JSON
      *               object (a record); must not use the names {@code t} or {@code kind}
      */
+    @Override
     public void append(long tMs, String kind, Object fields) {
         ensureOpen();
         if (kind == null || !KIND.matcher(kind).matches()) {
@@ -238,6 +239,7 @@ public final class JournalWriter implements AutoCloseable {
     }
 
     /** @return true once closed */
+    @Override
     public boolean isClosed() {
         return closed;
     }

@@ -1,0 +1,256 @@
+package org.loopstand.plant.runtime;
+
+import java.util.LinkedHashMap;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Optional;
+import java.util.function.Consumer;
+import java.util.function.Supplier;
+
+import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.protocol.time.Clock;
+
+/**
+ * The pace keeper: when the physics falls more than {@link Settings#lagS()} of scenario time behind
+ * the scenario clock, it holds the clock until the physics has caught up. When the catch-up ran at
+ * less than {@value #CATCH_UP_MARGIN} × the rate (the loop itself cannot keep the rate), the clock
+ * then runs on at a lower rate ({@link Settings#slowFactor()} × the rate it ran at), journaled as
+ * {@code paceSlowed}; when the catch-up was fast (the loop was held up once: a pause, a busy
+ * machine) it runs on at the same rate, journaled as {@code paceHeld}; both with the figures. After {@link Settings#calmWallS()} wall seconds without a lag above a quarter of
+ * the limit it raises the rate again by the same factor, up to the asked rate ({@code paceRaised}).
+ * So a machine that cannot keep the asked rate slows the scenario (the controller follows the clock
+ * ticks, so both see the same, slower time) instead of running the physics late and reaching a
+ * different verdict. At the end {@link #finish(double)} compares the rate kept over the run with the
+ * asked one and says {@code RATE NOT KEPT} beyond {@link Settings#notKeptFactor()}.
+ *
+ * <p>{@link #onStep(long)} runs on the plant loop's thread (every step, through
+ * {@link StepLateness#watchSteps}); it allocates only when it changes the clock. The other methods run
+ * on the owner's thread.
+ */
+public final class PlantPacing {
+    /**
+     * @param lagS          scenario seconds the physics may fall behind the clock before the clock is held, &gt; 0
+     * @param notKeptFactor asked rate / kept rate beyond which the run says RATE NOT KEPT, ≥ 1
+     * @param slowFactor    rate multiplier at each slow-down, (0, 1)
+     * @param calmWallS     wall seconds without lag before the rate is raised again, &gt; 0
+     */
+    public record Settings(double lagS, double notKeptFactor, double slowFactor, double calmWallS) {
+        public Settings {
+            if (!(lagS > 0) || Double.isInfinite(lagS)) {
+                throw new IllegalArgumentException("pace lag must be a positive number of scenario seconds, got " + lagS);
+            }
+            if (!(notKeptFactor >= 1) || Double.isInfinite(notKeptFactor)) {
+                throw new IllegalArgumentException("pace factor must be at least 1, got " + notKeptFactor);
+            }
+            if (!(slowFactor > 0 && slowFactor < 1)) {
+                throw new IllegalArgumentException("slow factor must be in (0, 1), got " + slowFactor);
+            }
+            if (!(calmWallS > 0) || Double.isInfinite(calmWallS)) {
+                throw new IllegalArgumentException("calm time must be a positive number of wall seconds, got " + calmWallS);
+            }
+        }
+    }
+
+    /** A catch-up faster than this many times the rate is a one-off hold-up: the rate is kept. */
+    public static final double CATCH_UP_MARGIN = 2.0;
+
+    /** Lowest rate the pace keeper slows to, scenario seconds per wall second. */
+    public static final double MIN_RATE = 0.05;
+
+    private final HeldStartClock clock;
+    private final Clock wall;
+    private final long stepNanos;
+    private final Settings settings;
+    private final Consumer<Map<String, Object>> journal;
+    private final long lagNanos;
+    private final long calmNanos;
+
+    private boolean holding;
+    private long holdStartWallNanos;
+    private long holdMaxLateNanos;
+    private long lastChangeWallNanos;
+    private long maxLateNanos;
+    private long slowdowns;
+    private long holds;
+    private long raises;
+    private long heldWallNanos;
+    private double lowestRate;
+    private long goWallNanos = -1;
+
+    /**
+     * @param clock     the scenario clock it holds and slows
+     * @param wall      wall clock, for hold durations, calm time and the kept rate
+     * @param stepNanos physics step, ns
+     * @param settings  limits
+     * @param journal   takes each {@code paceSlowed}/{@code paceRaised}/{@code paceSummary} entry
+     *                  (e.g. {@link PlantAgent#noteEvent}); called on the loop's thread
+     */
+    public PlantPacing(HeldStartClock clock, Clock wall, long stepNanos, Settings settings,
+                       Consumer<Map<String, Object>> journal) {
+        this.clock = clock;
+        this.wall = wall;
+        this.stepNanos = stepNanos;
+        this.settings = settings;
+        this.journal = journal;
+        this.lagNanos = Math.round(settings.lagS() * 1e9);
+        this.calmNanos = Math.round(settings.calmWallS() * 1e9);
+        this.lowestRate = clock.rate();
+    }
+
+    /** Watches the loop's steps from now on. */
+    public PlantPacing watch(StepLateness lateness) {
+        lateness.watchSteps(this::onStep);
+        return this;
+    }
+
+    /** Owner thread: scenario time started now (the kept rate is reckoned from here). */
+    public void started() {
+        goWallNanos = wall.monotonicNanos();
+        lastChangeWallNanos = goWallNanos;
+    }
+
+    /**
+     * Loop thread, after every step.
+     *
+     * @param lateNanos how late the step ran against the clock, ns of scenario time, ≥ 0
+     */
+    public void onStep(long lateNanos) {
+        if (lateNanos > maxLateNanos) {
+            maxLateNanos = lateNanos;
+        }
+        if (holding) {
+            holdMaxLateNanos = Math.max(holdMaxLateNanos, lateNanos);
+            if (lateNanos < stepNanos) {
+                resumeSlower();
+            }
+            return;
+        }
+        if (lateNanos > lagNanos && clock.running()) {
+            clock.hold();
+            holding = true;
+            holdStartWallNanos = wall.monotonicNanos();
+            holdMaxLateNanos = lateNanos;
+            return;
+        }
+        double rate = clock.currentRate();
+        if (rate < clock.rate() && lateNanos < lagNanos / 4) {
+            long w = wall.monotonicNanos();
+            if (w - lastChangeWallNanos >= calmNanos) {
+                double to = Math.min(clock.rate(), rounded(rate / settings.slowFactor()));
+                clock.runAt(to);
+                lastChangeWallNanos = w;
+                raises++;
+                journal.accept(entry("paceRaised", rate, to));
+            }
+        }
+    }
+
+    private void resumeSlower() {
+        long w = wall.monotonicNanos();
+        double from = clock.currentRate();
+        long heldNanos = Math.max(1, w - holdStartWallNanos);
+        // scenario ns caught up per wall ns while held: how fast the loop can go right now
+        double catchUpRate = (double) holdMaxLateNanos / heldNanos;
+        boolean slow = catchUpRate < CATCH_UP_MARGIN * from;
+        double to = slow ? Math.max(MIN_RATE, rounded(from * settings.slowFactor())) : from;
+        clock.runAt(to);
+        holding = false;
+        heldWallNanos += w - holdStartWallNanos;
+        if (slow) {
+            lastChangeWallNanos = w;
+            slowdowns++;
+            lowestRate = Math.min(lowestRate, to);
+        } else {
+            holds++;
+        }
+        Map<String, Object> e = entry(slow ? "paceSlowed" : "paceHeld", from, to);
+        e.put("catchUpRate", rounded(catchUpRate));
+        e.put("behindS", holdMaxLateNanos / 1e9);
+        e.put("limitS", settings.lagS());
+        e.put("heldWallMs", (w - holdStartWallNanos) / 1e6);
+        journal.accept(e);
+    }
+
+    /** @return {@code rate} to 0.01 (a rate the clock topic and the progress line show plainly) */
+    private static double rounded(double rate) {
+        return Math.round(rate * 100) / 100.0;
+    }
+
+    private Map<String, Object> entry(String event, double fromRate, double toRate) {
+        Map<String, Object> e = new LinkedHashMap<>();
+        e.put("event", event);
+        e.put("atS", clock.monotonicNanos() / 1e9);
+        e.put("fromRate", fromRate);
+        e.put("toRate", toRate);
+        return e;
+    }
+
+    /**
+     * Owner thread, when the scenario ended (or the run stopped): journals {@code paceSummary}.
+     *
+     * @param simulatedS scenario seconds simulated since go
+     * @return the line to print when the rate was not kept (asked / kept &gt; the factor)
+     */
+    public Optional<String> finish(double simulatedS) {
+        double wallS = goWallNanos < 0 ? Double.NaN : (wall.monotonicNanos() - goWallNanos) / 1e9;
+        double kept = wallS > 0 ? simulatedS / wallS : Double.NaN;
+        Map<String, Object> e = new LinkedHashMap<>();
+        e.put("event", "paceSummary");
+        e.put("askedRate", clock.rate());
+        e.put("keptRate", Double.isNaN(kept) ? null : kept);
+        e.put("wallS", Double.isNaN(wallS) ? null : wallS);
+        e.put("slowdowns", slowdowns);
+        e.put("holds", holds);
+        e.put("raises", raises);
+        e.put("heldWallMs", heldWallNanos / 1e6);
+        e.put("lowestRate", lowestRate);
+        e.put("maxBehindS", maxLateNanos / 1e9);
+        e.put("lagLimitS", settings.lagS());
+        boolean notKept = kept > 0 && clock.rate() / kept > settings.notKeptFactor();
+        e.put("rateKept", !notKept);
+        journal.accept(e);
+        if (!notKept) {
+            return Optional.empty();
+        }
+        return Optional.of(String.format(Locale.ROOT, "RATE NOT KEPT: asked %sx, kept %.1fx over %.1f s wall"
+                        + " (clock held %d times and slowed %d times, held %.0f ms in all, lowest rate %.1fx, physics at most"
+                        + " %.2f s behind; limit %.2f s); rehearse at a lower --rate for this machine",
+                trim(clock.rate()), kept, wallS, holds + slowdowns, slowdowns, heldWallNanos / 1e6, lowestRate, maxLateNanos / 1e9,
+                settings.lagS()));
+    }
+
+    /** @return a one-line account of the pacing so far, for the plant's last lines */
+    public String describe(double simulatedS) {
+        double wallS = goWallNanos < 0 ? Double.NaN : (wall.monotonicNanos() - goWallNanos) / 1e9;
+        return String.format(Locale.ROOT, "pace: asked %sx, kept %.1fx, clock held %d times (%.0f ms in all), slowed %d"
+                        + " times, raised %d times, physics at most %.3f s behind (limit %.2f s)",
+                trim(clock.rate()), simulatedS / wallS, holds + slowdowns, heldWallNanos / 1e6, slowdowns, raises,
+                maxLateNanos / 1e9,
+                settings.lagS());
+    }
+
+    private static String trim(double v) {
+        return v == Math.rint(v) ? String.valueOf((long) v) : String.valueOf(v);
+    }
+
+    /**
+     * Steps a throwaway simulator so that the JIT has compiled the physics before scenario time
+     * starts (the first wall seconds of an accelerated run otherwise run the physics interpreted).
+     *
+     * @param sims         makes a simulator of the same site and step (not the one the run uses)
+     * @param wall         wall clock for the budget
+     * @param maxSteps     steps at most
+     * @param maxWallNanos wall time at most, ns
+     * @return steps run
+     */
+    public static long warmUp(Supplier<GridSimulator> sims, Clock wall, long maxSteps, long maxWallNanos) {
+        long start = wall.monotonicNanos();
+        GridSimulator sim = sims.get();
+        long steps = 0;
+        while (steps < maxSteps && (steps % 1_000 != 0 || wall.monotonicNanos() - start < maxWallNanos)) {
+            sim.step();
+            steps++;
+        }
+        return steps;
+    }
+}

@@ -1,0 +1,101 @@
+package org.loopstand.plant.runtime;
+
+import static org.assertj.core.api.Assertions.assertThat;
+import static org.assertj.core.api.Assertions.within;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Map;
+import java.util.Optional;
+
+import org.junit.jupiter.api.Test;
+import org.loopstand.protocol.time.VirtualClock;
+
+/** The pace keeper against a scenario clock over a virtual wall clock. */
+class PlantPacingTest {
+    final VirtualClock wall = new VirtualClock(1_700_000_000_000L);
+    final HeldStartClock clock = new HeldStartClock(wall, 40);
+    final List<Map<String, Object>> journal = new ArrayList<>();
+    final PlantPacing pacing = new PlantPacing(clock, wall, 20_000_000L,
+            new PlantPacing.Settings(1.0, 1.1, 0.8, 5.0), journal::add);
+
+    {
+        clock.release();
+        pacing.started();
+    }
+
+    @Test
+    void shouldHoldTheClockWhileThePhysicsCatchesUpThenRunOnSlowerAndLaterRaiseTheRateAgain() {
+        wall.advanceMillis(100);
+        pacing.onStep(500_000_000L); // 0.5 s behind: within the 1 s limit
+        assertThat(clock.running()).isTrue();
+        assertThat(clock.monotonicNanos()).isEqualTo(4_000_000_000L); // 100 ms wall at rate 40
+        pacing.onStep(1_500_000_000L); // 1.5 s behind: the clock is held
+        wall.advanceMillis(50);
+        assertThat(clock.running()).isFalse();
+        assertThat(clock.monotonicNanos()).isEqualTo(4_000_000_000L); // stands still while held
+        pacing.onStep(600_000_000L);
+        assertThat(clock.running()).isFalse();
+        pacing.onStep(10_000_000L); // within one step of the clock: caught up
+        assertThat(clock.running()).isTrue();
+        // 1.5 s caught up in 50 ms of wall time = 30x, less than twice the rate: the loop cannot keep 40x
+        assertThat(clock.currentRate()).isEqualTo(32.0); // 40 × 0.8
+        assertThat(journal).singleElement().satisfies(e -> {
+            assertThat(e).containsEntry("event", "paceSlowed").containsEntry("fromRate", 40.0).containsEntry("toRate", 32.0)
+                    .containsEntry("behindS", 1.5).containsEntry("heldWallMs", 50.0).containsEntry("limitS", 1.0)
+                    .containsEntry("catchUpRate", 30.0);
+            assertThat((Double) e.get("atS")).isEqualTo(4.0);
+        });
+        wall.advanceMillis(1_000);
+        assertThat(clock.monotonicNanos()).isEqualTo(36_000_000_000L); // 4 s + 1 s wall at rate 32
+        pacing.onStep(0);
+        assertThat(clock.currentRate()).isEqualTo(32.0); // not calm for 5 wall seconds yet
+        wall.advanceMillis(4_000);
+        pacing.onStep(0);
+        assertThat(clock.currentRate()).isEqualTo(40.0); // calm for 5 s: back to the asked rate (32 / 0.8)
+        assertThat(journal.get(1)).containsEntry("event", "paceRaised").containsEntry("fromRate", 32.0)
+                .containsEntry("toRate", 40.0);
+        wall.advanceMillis(10_000);
+        pacing.onStep(0);
+        assertThat(clock.currentRate()).isEqualTo(40.0); // never above the asked rate
+        assertThat(journal).hasSize(2);
+    }
+
+    @Test
+    void shouldKeepTheRateAfterAHoldWhenThePhysicsCaughtUpFast() {
+        wall.advanceMillis(100);
+        pacing.onStep(3_000_000_000L); // 3 s behind: held
+        wall.advanceMillis(10);
+        pacing.onStep(5_000_000L); // caught up 3 s in 10 ms = 300x, well above twice the rate: a one-off hold-up
+        assertThat(clock.running()).isTrue();
+        assertThat(clock.currentRate()).isEqualTo(40.0);
+        assertThat(journal).singleElement().satisfies(e -> assertThat(e).containsEntry("event", "paceHeld")
+                .containsEntry("toRate", 40.0).containsEntry("catchUpRate", 300.0).containsEntry("heldWallMs", 10.0));
+        wall.advanceMillis(100);
+        assertThat(clock.monotonicNanos()).isEqualTo(8_000_000_000L); // 4 s, held 10 ms, then 100 ms at 40x
+        pacing.finish(8.0);
+        assertThat(journal.get(1)).containsEntry("holds", 1L).containsEntry("slowdowns", 0L);
+    }
+
+    @Test
+    void shouldSayRateNotKeptOnlyBeyondTheFactor() {
+        wall.advanceMillis(10_000);
+        // 390 scenario s in 10 wall s = 39x kept of 40x asked: 40 / 39 = 1.026 ≤ 1.1
+        assertThat(pacing.finish(390)).isEmpty();
+        assertThat(journal.get(0)).containsEntry("event", "paceSummary").containsEntry("rateKept", true)
+                .containsEntry("askedRate", 40.0);
+        assertThat((Double) journal.get(0).get("keptRate")).isCloseTo(39.0, within(1e-9));
+        // 300 scenario s in 10 wall s = 30x: 40 / 30 = 1.33 > 1.1
+        Optional<String> line = pacing.finish(300);
+        assertThat(line).hasValueSatisfying(l -> assertThat(l).startsWith("RATE NOT KEPT: asked 40x, kept 30.0x over 10.0 s wall"));
+        assertThat(journal.get(1)).containsEntry("rateKept", false);
+    }
+
+    @Test
+    void shouldRefuseSettingsOutsideTheirRange() {
+        org.assertj.core.api.Assertions.assertThatThrownBy(() -> new PlantPacing.Settings(0, 1.1, 0.8, 5))
+                .hasMessageContaining("pace lag");
+        org.assertj.core.api.Assertions.assertThatThrownBy(() -> new PlantPacing.Settings(1, 0.9, 0.8, 5))
+                .hasMessageContaining("pace factor");
+    }
+}
