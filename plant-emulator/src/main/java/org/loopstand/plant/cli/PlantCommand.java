@@ -174,8 +174,9 @@ public final class PlantCommand implements Callable<Integer> {
         LinkSecurity security;
         EmbeddedBroker embedded = null;
         try {
+            // port 0 (any free port) is not a valid URI port; the policy judges the host only
             security = auth.resolve(broker != null ? broker : "tcp://" + EmbeddedBroker.DEFAULT_BIND_ADDRESS + ":"
-                    + brokerPort, System.getenv());
+                    + Math.max(1, brokerPort), System.getenv());
             PlantSecurity.checkGrouping(security, options.grouping());
             if (broker == null) {
                 embedded = new EmbeddedBroker(EmbeddedBroker.DEFAULT_BIND_ADDRESS, brokerPort);
