@@ -1,6 +1,6 @@
 package org.loopstand.controller.cli;
 
-import java.net.URI;
+import org.loopstand.protocol.security.AuthPolicy;
 import java.nio.file.Path;
 import java.util.Map;
 import java.util.concurrent.Callable;
@@ -74,9 +74,8 @@ public final class ControlCommand implements Callable<Integer> {
             System.err.println("control: --clock must be wall or bus, got '" + clockMode + "'");
             return 2;
         }
-        String host = URI.create(broker).getHost();
-        boolean loopback = "127.0.0.1".equals(host) || "::1".equals(host) || "[::1]".equals(host)
-                || "localhost".equals(host);
+        // a comma-separated list of cluster nodes is loopback only when every node is
+        boolean loopback = AuthPolicy.isLoopbackBroker(broker);
         if (!loopback && !livePlant) {
             System.err.println("control: refusing broker " + broker + " (not loopback); add --live-plant only under the"
                     + " plant's procedures");

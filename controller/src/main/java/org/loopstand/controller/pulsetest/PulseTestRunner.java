@@ -1,12 +1,9 @@
 package org.loopstand.controller.pulsetest;
 
 import java.util.ArrayList;
-import java.util.HashMap;
 import java.util.List;
 import java.util.Locale;
-import java.util.Map;
 import java.util.Optional;
-import java.util.concurrent.ConcurrentLinkedQueue;
 import org.loopstand.controller.pulsetest.plan.PlanException;
 import org.loopstand.controller.pulsetest.governor.GovernorAnswerTracker;
 import org.loopstand.controller.pulsetest.governor.GovernorSpec;
@@ -21,7 +18,6 @@ import org.loopstand.controller.pulsetest.programme.UnitDeclaration;
 import org.loopstand.controller.pulsetest.safety.AbortSwitch;
 import org.loopstand.controller.pulsetest.safety.SafetyGate;
 import org.loopstand.protocol.agent.Agent;
-import org.loopstand.protocol.bus.InboundMessage;
 import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.OutboundMessage;
 import org.loopstand.protocol.bus.Qos;
@@ -68,12 +64,10 @@ public final class PulseTestRunner implements Agent {
     private final long epoch;
     private final AbortSwitch abort;
     private final long startTimeoutMs;
-    private final ConcurrentLinkedQueue<Object[]> inbox = new ConcurrentLinkedQueue<>();
-
-    private final List<TelemetryPoint> telemetry = new ArrayList<>();
-    private final List<FrequencyPoint> frequency = new ArrayList<>();
+    private final UnitObservations seen;
+    private final List<TelemetryPoint> telemetry;
+    private final List<FrequencyPoint> frequency;
     private final List<SentPulse> sent = new ArrayList<>();
-    private final Map<Long, CommandAck> acks = new HashMap<>();
     private final List<String> notes = new ArrayList<>();
     private final long startedMs;
     private RunState state = RunState.AWAITING_TELEMETRY;
@@ -84,14 +78,11 @@ public final class PulseTestRunner implements Agent {
     private long programmeStartMs = -1;
     private long steadyCheckFromMs = -1;
     private GovernorSpec governor;
-    private GovernorAnswerTracker governorTracker;
     private double requestedMw = Double.NaN;
     private volatile String externalAbort;
     private volatile PulseTestProgress progress;
     private long stoppedMs = -1;
     private long nextSeq;
-    private UnitTelemetry latest;
-    private long lastGoodMs = -1;
     private CommandSigner signer;
 
     /**
@@ -112,6 +103,9 @@ public final class PulseTestRunner implements Agent {
         this.epoch = epoch;
         this.abort = abort;
         this.startTimeoutMs = Math.round(startTimeoutS * 1000);
+        this.seen = new UnitObservations(unitId, CONTROLLER_ID, clock);
+        this.telemetry = seen.telemetry();
+        this.frequency = seen.frequency();
         this.startedMs = clock.epochMillis();
         // Seq rises across runs (the unit refuses a seq it has seen from this controller id).
         this.nextSeq = startedMs;
@@ -124,7 +118,7 @@ public final class PulseTestRunner implements Agent {
      */
     public PulseTestRunner removeGovernorAnswer(GovernorSpec spec) {
         this.governor = spec;
-        this.governorTracker = spec == null ? null : new GovernorAnswerTracker(spec);
+        seen.trackGovernor(spec == null ? null : new GovernorAnswerTracker(spec));
         return this;
     }
 
@@ -136,16 +130,12 @@ public final class PulseTestRunner implements Agent {
 
     @Override
     public void onStart() {
-        bus.subscribe(topics.unitTelemetry(unitId), Qos.AT_MOST_ONCE, m -> receive(m, UnitTelemetry.class));
-        bus.subscribe(topics.unitAck(unitId), Qos.AT_LEAST_ONCE, m -> receive(m, CommandAck.class));
+        bus.subscribe(topics.unitTelemetry(unitId), Qos.AT_MOST_ONCE, m -> seen.receive(m, UnitTelemetry.class));
+        bus.subscribe(topics.unitAck(unitId), Qos.AT_LEAST_ONCE, m -> seen.receive(m, CommandAck.class));
         if (governor != null) {
-            bus.subscribe(topics.filterAreaMeters(governor.area()), Qos.AT_MOST_ONCE, m -> receive(m, AreaMeter.class));
+            bus.subscribe(topics.filterAreaMeters(governor.area()), Qos.AT_MOST_ONCE,
+                    m -> seen.receive(m, AreaMeter.class));
         }
-    }
-
-    private void receive(InboundMessage m, Class<?> type) {
-        // Stamped on arrival with the test's clock: the plant's clock may be offset from ours.
-        inbox.add(new Object[] {m, type, clock.epochMillis()});
     }
 
     @Override
@@ -153,7 +143,7 @@ public final class PulseTestRunner implements Agent {
         if (isDone()) {
             return 0;
         }
-        int work = drain();
+        int work = seen.drain();
         long now = clock.epochMillis();
         work += step(now);
         publishProgress(now);
@@ -166,7 +156,7 @@ public final class PulseTestRunner implements Agent {
             return 1;
         }
         if (state == RunState.AWAITING_TELEMETRY) {
-            if (latest != null && lastGoodMs >= 0) {
+            if (seen.latest() != null && seen.lastGoodMs() >= 0) {
                 prepare(now);
                 return 1;
             }
@@ -235,49 +225,9 @@ public final class PulseTestRunner implements Agent {
         return step == null || StepSequencer.settled(telemetry, step, now, sequencer.nominalEndMs(), plan.settings());
     }
 
-    private int drain() {
-        int n = 0;
-        Object[] item;
-        while ((item = inbox.poll()) != null) {
-            n++;
-            InboundMessage m = (InboundMessage) item[0];
-            long at = (Long) item[2];
-            if (item[1] == AreaMeter.class) {
-                codec.decode(m.payload(), AreaMeter.class).message()
-                        .filter(f -> f.frequencyQuality().validity() == Validity.GOOD)
-                        .ifPresent(f -> onFrequency(f.frequencyHz(), at));
-            } else if (item[1] == UnitTelemetry.class) {
-                codec.decode(m.payload(), UnitTelemetry.class).message().filter(t -> t.unit().equals(unitId))
-                        .ifPresent(t -> onTelemetry(t, at));
-            } else {
-                codec.decode(m.payload(), CommandAck.class)
-                        .message().filter(a -> a.controllerId().equals(CONTROLLER_ID))
-                        .ifPresent(a -> acks.putIfAbsent(a.commandSeq(), a));
-            }
-        }
-        return n;
-    }
-
-    private void onFrequency(double hz, long at) {
-        if (governorTracker != null && Double.isFinite(hz)) {
-            frequency.add(new FrequencyPoint(at, hz));
-            governorTracker.frequency(at, hz);
-        }
-    }
-
-    private void onTelemetry(UnitTelemetry t, long at) {
-        boolean good = t.outputQuality().validity() == Validity.GOOD;
-        double governorMw = governorTracker == null ? Double.NaN : governorTracker.answerMwAt(at);
-        telemetry.add(new TelemetryPoint(at, t.outputMw(), t.setpointMw(), good, governorMw));
-        latest = t;
-        if (good) {
-            lastGoodMs = at;
-        }
-    }
-
     /** @return true when the programme expanded within the caps; else the run is refused */
     private boolean expand(long now) {
-        UnitTelemetry t = latest;
+        UnitTelemetry t = seen.latest();
         if (t.status() != UnitStatus.ONLINE || t.controlMode() != ControlMode.REMOTE) {
             stop(RunState.REFUSED, "unit " + unitId + " is " + t.status().name().toLowerCase(Locale.ROOT) + " in "
                     + t.controlMode().name().toLowerCase(Locale.ROOT) + " mode; the test needs online and remote", now);
@@ -313,7 +263,8 @@ public final class PulseTestRunner implements Agent {
             return Optional.of("bus connection lost");
         }
         long scanMs = scanPeriodMs();
-        long silentMs = now - lastGoodMs;
+        long silentMs = now - seen.lastGoodMs();
+        UnitTelemetry latest = seen.latest();
         if (silentMs > plan.settings().telemetryLossScans() * scanMs) {
             return Optional.of(String.format(Locale.ROOT, "telemetry lost: no good reading for %.1f s (limit %d scans "
                     + "of %.1f s)", silentMs / 1000.0, plan.settings().telemetryLossScans(), scanMs / 1000.0));
@@ -392,12 +343,12 @@ public final class PulseTestRunner implements Agent {
         progress = PulseTestProgress.of(state, sequencer == null ? null : sequencer.current(),
                 sequencer != null && now >= sequencer.nominalEndMs(), sequencer == null ? 0 : sequencer.stepNumber(),
                 programme == null ? 0 : programme.steps().size(), (now - startedMs) / 1000.0,
-                telemetry.isEmpty() ? null : telemetry.get(telemetry.size() - 1), requestedMw);
+                seen.lastPoint(), requestedMw);
     }
 
     /** @return what the run recorded so far (final once {@link #isDone()}) */
     public PulseTestRecord record() {
-        drain();
+        seen.drain();
         if (!isDone() && externalAbort != null) {
             stop(RunState.ABORTED, externalAbort, clock.epochMillis());
         }
@@ -407,7 +358,7 @@ public final class PulseTestRunner implements Agent {
         }
         return new PulseTestRecord(unitId, state, stopReason, declaration, programme,
                 startedMs, programmeStartMs, stoppedMs < 0 ? clock.epochMillis() : stoppedMs, telemetry, frequency,
-                sequencer == null ? List.of() : sequencer.timings(), governor, sent, acks, n);
+                sequencer == null ? List.of() : sequencer.timings(), governor, sent, seen.acks(), n);
     }
 
     @Override

@@ -6,16 +6,20 @@ import java.util.concurrent.Callable;
 import java.util.concurrent.CountDownLatch;
 
 import org.loopstand.plant.grid.Grid;
+import org.loopstand.plant.runtime.LinkFactory;
 import org.loopstand.plant.runtime.UnitProcess;
 import org.loopstand.plant.site.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
+import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.security.AuthOptions;
 import org.loopstand.protocol.security.LinkSecurity;
 import org.loopstand.protocol.security.SecuritySetupException;
 import org.loopstand.protocol.time.AcceleratedClock;
 import org.loopstand.protocol.time.Clock;
+import org.loopstand.protocol.time.PlantClockFollower;
 import org.loopstand.protocol.time.SystemTime;
 import org.loopstand.protocol.time.WallClock;
+import org.loopstand.protocol.topic.TopicTree;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
@@ -33,8 +37,17 @@ public final class UnitCommand implements Callable<Integer> {
     @Option(names = "--broker", required = true, description = "broker URL, e.g. tcp://127.0.0.1:1884")
     String broker;
 
-    @Option(names = "--rate", defaultValue = "1", description = "scenario seconds per wall second, as the plant's (default ${DEFAULT-VALUE})")
+    @Option(names = "--rate", defaultValue = "1", description = "scenario seconds per wall second, as the plant's (default ${DEFAULT-VALUE});"
+            + " with --clock own only")
     double rate;
+
+    @Option(names = "--clock", defaultValue = "own", paramLabel = "own|bus", description = "own: scenario time runs at --rate"
+            + " from this process's start; bus: scenario time and rate from a fresh tick on the plant's clock topic, so"
+            + " the unit's times agree with the plant's (default ${DEFAULT-VALUE})")
+    String clockMode;
+
+    /** How long --clock bus waits for the plant's first fresh tick, wall ms (tests shorten it). */
+    long plantTickTimeoutMs = 10_000;
 
     @Mixin
     InterfaceMixin iface;
@@ -44,6 +57,10 @@ public final class UnitCommand implements Callable<Integer> {
 
     @Override
     public Integer call() throws Exception {
+        if (!"own".equals(clockMode) && !"bus".equals(clockMode)) {
+            System.err.println("unit: --clock must be own or bus, got '" + clockMode + "'");
+            return 2;
+        }
         Grid grid;
         try {
             grid = SiteLoader.load(site);
@@ -64,11 +81,25 @@ public final class UnitCommand implements Callable<Integer> {
             return 2;
         }
         System.err.println(security.startMessage());
-        Clock clock = rate == 1.0 ? WallClock.INSTANCE : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
+        LinkFactory links;
+        Clock clock;
+        try {
+            links = MqttLinks.to(broker, WallClock.INSTANCE, security, grid.siteId());
+            clock = "bus".equals(clockMode) ? plantClock(links, grid.siteId()) : rate == 1.0 ? WallClock.INSTANCE
+                    : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
+        } catch (IllegalArgumentException e) {
+            System.err.println("refused: " + e.getMessage());
+            return 2;
+        }
+        if (clock == null) {
+            System.err.println("unit: no fresh tick on " + TopicTree.forSite(grid.siteId()).clock() + " within "
+                    + plantTickTimeoutMs / 1000.0 + " s (is the plant running?)");
+            return 4;
+        }
         UnitProcess process;
         try {
             process = new UnitProcess(grid.siteId(), grid.units().get(grid.unitIndex(unit)), iface.options(), iface.qos(),
-                    MqttLinks.to(broker, WallClock.INSTANCE, security, grid.siteId()), clock);
+                    links, clock);
             PlantSecurity.requireSignedCommands(security, java.util.List.of(process.unitInterface()), clock);
         } catch (IllegalArgumentException e) {
             System.err.println("refused: " + e.getMessage());
@@ -84,5 +115,21 @@ public final class UnitCommand implements Callable<Integer> {
                 broker, process.bus().clientId()));
         stopped.await();
         return 0;
+    }
+
+    /**
+     * Follows the plant's clock: connects as the unit (same client id and identity, no last will), waits
+     * for a fresh running tick and disconnects before the unit's own connection opens.
+     *
+     * @return the plant's scenario time, or null when no fresh tick came in time
+     */
+    private Clock plantClock(LinkFactory links, String siteId) throws InterruptedException {
+        MessageBus bus = links.connect(UnitProcess.clientId(siteId, unit), null);
+        try {
+            return PlantClockFollower.await(bus, TopicTree.forSite(siteId), WallClock.INSTANCE, plantTickTimeoutMs)
+                    .orElse(null);
+        } finally {
+            bus.close();
+        }
     }
 }

@@ -1,14 +1,11 @@
 package org.loopstand.plant.unit;
 
-import java.util.EnumMap;
 import java.util.Map;
-import java.util.concurrent.atomic.AtomicLongArray;
 
 import org.loopstand.plant.fault.CommandOutcomeListener;
 import org.loopstand.plant.fault.PlantFaultFlags;
 import org.loopstand.plant.field.UnitField;
 import org.loopstand.protocol.message.AckOutcome;
-import org.loopstand.protocol.message.CommandAck;
 import org.loopstand.protocol.message.CommandKind;
 import org.loopstand.protocol.message.ControlMode;
 import org.loopstand.protocol.message.ControllerState;
@@ -28,8 +25,9 @@ import org.loopstand.protocol.time.Clock;
 
 /**
  * One unit's plant interface, the part a control centre talks to: takes commands through the
- * {@link CommandGate}, moves the load reference with a {@link LoadReferenceMotion}, keeps the control
- * mode, runs the heartbeat watchdog and publishes telemetry on its scan period. Pure logic on an
+ * {@link CommandGate}, answers them through {@link CommandAnswers}, moves the load reference with a
+ * {@link LoadReferenceMotion}, keeps the control mode, runs the heartbeat watchdog and publishes
+ * telemetry on its scan period ({@link TelemetryScanSchedule}). Pure logic on an
  * injected clock: no bus, no threads. One owner thread calls every method; only the counters are
  * safe to read from other threads.
  *
@@ -46,20 +44,16 @@ public final class UnitPlantInterface {
     private final PlantJournal journal;
     private final CommandGate gate;
     private final CommandLatency latency = new CommandLatency();
-    private final AtomicLongArray refusals = new AtomicLongArray(RefusalReason.values().length);
-    private final long telemetryPeriodNanos;
+    private final CommandAnswers answers;
+    private final TelemetryScanSchedule scans;
     private LoadReferenceMotion motion;
     private ControlMode mode = ControlMode.REMOTE;
     /** telemetry and acks each count their own seq, so the controller can reckon loss per kind */
     private long seq;
-    private long ackSeq;
-    private long lastAcceptedSeq;
     private long lastTickNanos;
-    private long nextTelemetryNanos;
     private long lastHeartbeatNanos;
     private boolean watchdogArmed;
-    private volatile long accepted;
-    private long lastOverflowReportNanos = Long.MIN_VALUE;
+    private final IntakeOverflowReport overflow;
     private PlantFaultFlags faults = PlantFaultFlags.NONE;
     private CommandOutcomeListener outcomes = CommandOutcomeListener.NONE;
     private boolean localByFault;
@@ -80,12 +74,12 @@ public final class UnitPlantInterface {
         this.journal = journal;
         this.gate = new CommandGate(settings);
         this.statusCheck = new StatusCheck(settings, gate.tenure(), journal);
-        this.telemetryPeriodNanos = settings.telemetryScanMs() * 1_000_000L;
         this.seq = seqStart;
-        this.ackSeq = seqStart;
+        this.answers = new CommandAnswers(settings.unitId(), output, journal, seqStart);
+        this.overflow = new IntakeOverflowReport(settings.unitId(), journal);
         long now = clock.monotonicNanos();
         this.lastTickNanos = now;
-        this.nextTelemetryNanos = now;
+        this.scans = new TelemetryScanSchedule(settings.telemetryScanMs(), now);
     }
 
     /**
@@ -96,10 +90,7 @@ public final class UnitPlantInterface {
      * @param phaseNanos ≥ 0, ns
      */
     public void staggerTelemetry(long phaseNanos) {
-        if (phaseNanos < 0) {
-            throw new IllegalArgumentException("phaseNanos must be ≥ 0, got " + phaseNanos);
-        }
-        nextTelemetryNanos = lastTickNanos + phaseNanos % telemetryPeriodNanos;
+        scans.stagger(lastTickNanos, phaseNanos);
     }
 
     public String unitId() {
@@ -184,11 +175,8 @@ public final class UnitPlantInterface {
             detail = taken != c.setpointMw()
                     ? String.format(java.util.Locale.ROOT, "atLimit: setpoint held at %.3f MW", taken) : null;
         }
-        lastAcceptedSeq = c.seq();
-        accepted++;
         latency.accepted(receivedNanos, field.outputMw(), sign);
-        journal.command(nowMs, CommandFate.of(settings.unitId(), c, c.seq(), c.controllerId(), "accepted", null, detail, targetBeforeMw, motion.targetMw()));
-        output.ack(new CommandAck(ackSeq++, nowMs, settings.unitId(), c.seq(), c.controllerId(), AckOutcome.ACCEPTED, null, detail));
+        answers.accepted(nowMs, c, detail, targetBeforeMw, motion.targetMw());
         outcomes.handled(nowMs, c, AckOutcome.ACCEPTED, null, acted);
     }
 
@@ -283,10 +271,7 @@ public final class UnitPlantInterface {
                 latency.observe(now, changed, field.outputMw());
             }
         }
-        if (now >= nextTelemetryNanos) {
-            // fixed rate; after a stall skip the missed scans instead of bursting them
-            long missed = (now - nextTelemetryNanos) / telemetryPeriodNanos;
-            nextTelemetryNanos += (missed + 1) * telemetryPeriodNanos;
+        if (scans.takeDue(now)) {
             output.telemetry(telemetry());
             return 1;
         }
@@ -301,7 +286,7 @@ public final class UnitPlantInterface {
         return new UnitTelemetry(seq++, clock.epochMillis(), settings.unitId(), ready ? field.outputMw() : 0.0, q,
                 setpoint, ready ? field.status() : UnitStatus.OFFLINE, mode, settings.regulatingMinMw(),
                 settings.regulatingMaxMw(), settings.rampMwPerMin(), settings.pulseRateMwPerMin(),
-                settings.acceptsSetpoints(), lastAcceptedSeq);
+                settings.acceptsSetpoints(), answers.lastAcceptedSeq());
     }
 
     /** A switch-to-local plant fault takes the unit out of remote; its end gives remote back. */
@@ -348,32 +333,17 @@ public final class UnitPlantInterface {
     }
 
     private void refuse(UnitCommand c, long commandSeq, String controllerId, Refusal r) {
-        refusals.incrementAndGet(r.reason().ordinal());
-        long nowMs = clock.epochMillis();
-        journal.refused(nowMs, settings.unitId(), r.reason(), commandSeq, r.detail());
-        double targetMw = motion == null ? Double.NaN : motion.targetMw();
-        journal.command(nowMs, CommandFate.of(settings.unitId(), c, commandSeq, controllerId, "rejected", r.reason().wireName(), r.detail(), targetMw, targetMw));
-        output.ack(new CommandAck(ackSeq++, nowMs, settings.unitId(), Math.max(0, commandSeq), controllerId,
-                AckOutcome.REJECTED, r.reason(), truncate(r.detail())));
-    }
-
-    private static String truncate(String s) {
-        return s == null || s.length() <= 1024 ? s : s.substring(0, 1021) + "...";
+        answers.refused(clock.epochMillis(), c, commandSeq, controllerId, r, motion == null ? Double.NaN : motion.targetMw());
     }
 
     /**
      * Journals commands lost before they reached this interface (intake queue full; no ack is
-     * possible), at most once per second of clock time so a flood does not flood the journal.
+     * possible), at most once per second of clock time ({@link IntakeOverflowReport}).
      *
      * @param totalLost commands lost since start
      */
     public void reportOverflow(long totalLost) {
-        long now = clock.monotonicNanos();
-        if (lastOverflowReportNanos == Long.MIN_VALUE || now - lastOverflowReportNanos >= 1_000_000_000L) {
-            lastOverflowReportNanos = now;
-            journal.event(clock.epochMillis(), settings.unitId(), "overflow",
-                    "command intake full: " + totalLost + " commands dropped since start");
-        }
+        overflow.report(totalLost, clock.monotonicNanos(), clock.epochMillis());
     }
 
     // ---- readings, safe from any thread unless stated
@@ -393,21 +363,15 @@ public final class UnitPlantInterface {
     }
 
     public long refusalCount(RefusalReason reason) {
-        return refusals.get(reason.ordinal());
+        return answers.refusalCount(reason);
     }
 
     public Map<RefusalReason, Long> refusalCounts() {
-        Map<RefusalReason, Long> m = new EnumMap<>(RefusalReason.class);
-        for (RefusalReason r : RefusalReason.values()) {
-            if (refusals.get(r.ordinal()) > 0) {
-                m.put(r, refusals.get(r.ordinal()));
-            }
-        }
-        return m;
+        return answers.refusalCounts();
     }
 
     public long acceptedCount() {
-        return accepted;
+        return answers.acceptedCount();
     }
 
     public CommandLatency latency() {

@@ -95,7 +95,22 @@ public final class AuthPolicy {
         return new Decision(problems.isEmpty(), false, problems);
     }
 
-    /** @return whether the host is a loopback literal or localhost (no DNS lookup) */
+    /**
+     * Whether a broker URI, or a comma-separated list of cluster nodes ({@link BrokerEndpoints}), is on
+     * loopback: true only when the list parses and every node's host is {@link #isLoopback loopback}.
+     * No name is resolved.
+     *
+     * @param brokerUriList e.g. {@code tcp://127.0.0.1:1883} or {@code tcp://127.0.0.1:1883,tcp://[::1]:1884}
+     * @return false for a null, blank or invalid list, or when any node is off loopback
+     */
+    public static boolean isLoopbackBroker(String brokerUriList) {
+        try {
+            return BrokerEndpoints.parse(brokerUriList).hosts().stream().allMatch(AuthPolicy::isLoopback);
+        } catch (IllegalArgumentException e) {
+            return false;
+        }
+    }
+
     /** @return whether {@code host} is a loopback literal (127.0.0.0/8, ::1) or {@code localhost}; no name is resolved */
     public static boolean isLoopback(String host) {
         if (host == null || host.isEmpty()) {

@@ -100,12 +100,7 @@ public final class LinkSecurity {
 
     /** @return true when every node of the broker list is a tcp:// loopback address */
     private static boolean isPlainLoopback(String brokerUri) {
-        try {
-            BrokerEndpoints nodes = BrokerEndpoints.parse(brokerUri);
-            return !nodes.isTls() && nodes.hosts().stream().allMatch(AuthPolicy::isLoopback);
-        } catch (IllegalArgumentException e) {
-            return false;
-        }
+        return AuthPolicy.isLoopbackBroker(brokerUri) && !BrokerEndpoints.parse(brokerUri).isTls();
     }
 
     /** @return the first line of the file, which must not be empty (the value is never echoed) */

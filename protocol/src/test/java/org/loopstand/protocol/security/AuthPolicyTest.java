@@ -67,4 +67,15 @@ class AuthPolicyTest {
         assertThat(mixed.allowed()).isFalse();
         assertThat(mixed.message()).contains("mixes tcp:// and ssl://");
     }
+
+    @Test
+    void shouldCallABrokerListLoopbackOnlyWhenEveryNodeIs() {
+        assertThat(AuthPolicy.isLoopbackBroker("tcp://127.0.0.1:1883")).isTrue();
+        assertThat(AuthPolicy.isLoopbackBroker("tcp://127.0.0.1:1883,tcp://[::1]:1884, tcp://localhost:1885")).isTrue();
+        assertThat(AuthPolicy.isLoopbackBroker("tcp://127.0.0.1:1883,tcp://192.0.2.10:1883")).isFalse();
+        assertThat(AuthPolicy.isLoopbackBroker("tcp://broker.example:1883,tcp://127.0.0.1:1883")).isFalse();
+        assertThat(AuthPolicy.isLoopbackBroker("tcp://127.0.0.1:1883,tcp://127.0.0.1:1883")).as("repeat: invalid").isFalse();
+        assertThat(AuthPolicy.isLoopbackBroker("")).isFalse();
+        assertThat(AuthPolicy.isLoopbackBroker(null)).isFalse();
+    }
 }

@@ -41,6 +41,15 @@ class LinkSecurityTest {
     }
 
     @Test
+    void shouldRunAnAllLoopbackNodeListAsTheDefaultDemoButNotAListWithOneRemoteNode() throws Exception {
+        LinkSecurity s = new AuthOptions().resolve("tcp://127.0.0.1:1884, tcp://[::1]:1885,tcp://localhost:1886", Map.of());
+        assertThat(s.insecure()).isTrue();
+        assertThat(s.startMessage()).contains("running as --insecure");
+        assertThatThrownBy(() -> new AuthOptions().resolve("tcp://127.0.0.1:1884,tcp://192.0.2.7:1884", Map.of()))
+                .isInstanceOf(SecuritySetupException.class).hasMessageContaining("192.0.2.7 is not loopback");
+    }
+
+    @Test
     void shouldRefuseAPartialSecuredSetupOnLoopbackInsteadOfFallingBackToInsecure() throws Exception {
         // keys without credentials: asking for security switches the implicit demo mode off
         assertThatThrownBy(() -> new AuthOptions().keysFile(keys()).resolve("tcp://127.0.0.1:1884", Map.of()))

@@ -3,14 +3,12 @@ package org.loopstand.controller.pulsetest.safety;
 import java.io.BufferedReader;
 import java.io.IOException;
 import java.io.PrintStream;
-import java.net.InetAddress;
-import java.net.URI;
-import java.net.UnknownHostException;
 import java.util.List;
 import java.util.Locale;
 import java.util.Optional;
 import org.loopstand.controller.pulsetest.plan.PlanLimits;
 import org.loopstand.controller.pulsetest.programme.PulseProgramme;
+import org.loopstand.protocol.security.AuthPolicy;
 
 /**
  * What stands between the pulse test and a real generator: the broker check with its typed
@@ -31,7 +29,8 @@ public final class SafetyGate {
 
     /**
      * A broker counts as a test broker when it was declared one ({@code --test-broker}), is in memory, or
-     * its host is a loopback address (127.0.0.0/8, ::1, localhost).
+     * its host is a loopback address (127.0.0.0/8, ::1, localhost); a comma-separated list of broker
+     * nodes only when every node's host is.
      *
      * @param brokerUrl          e.g. {@code tcp://127.0.0.1:1883}, {@code mem:}
      * @param declaredTestBroker the operator said it is a test broker
@@ -46,28 +45,9 @@ public final class SafetyGate {
         if (brokerUrl.startsWith("mem:")) {
             return true;
         }
-        String host;
-        try {
-            host = URI.create(brokerUrl.trim()).getHost();
-        } catch (IllegalArgumentException e) {
-            return false;
-        }
-        if (host == null) {
-            return false;
-        }
-        if (host.equalsIgnoreCase("localhost")) {
-            return true;
-        }
-        String h = host.startsWith("[") ? host.substring(1, host.length() - 1) : host;
-        // Only literal addresses are classified: resolving a name could reach a name server.
-        if (!h.matches("[0-9.]+") && !h.contains(":")) {
-            return false;
-        }
-        try {
-            return InetAddress.getByName(h).isLoopbackAddress();
-        } catch (UnknownHostException e) {
-            return false;
-        }
+        // only literal addresses and localhost count; a comma-separated list of cluster nodes counts only
+        // when every node is on loopback; no name is resolved
+        return AuthPolicy.isLoopbackBroker(brokerUrl.trim());
     }
 
     /**

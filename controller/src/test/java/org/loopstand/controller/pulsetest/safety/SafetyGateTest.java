@@ -30,6 +30,14 @@ class SafetyGateTest {
         assertThat(SafetyGate.isTestBroker(url, false)).isEqualTo(test);
     }
 
+    @ParameterizedTest
+    @CsvSource(delimiter = '|', value = {"tcp://127.0.0.1:1883,tcp://127.0.0.1:1884|true",
+            "ssl://[::1]:8883, ssl://localhost:8884|true", "tcp://127.0.0.1:1883,tcp://192.0.2.10:1883|false",
+            "tcp://192.0.2.10:1883,tcp://127.0.0.1:1883|false", "tcp://127.0.0.1:1883,|false"})
+    void shouldCountABrokerNodeListAsATestBrokerOnlyWhenEveryNodeIsLoopback(String list, boolean test) {
+        assertThat(SafetyGate.isTestBroker(list, false)).isEqualTo(test);
+    }
+
     @Test
     void shouldRefuseANonTestBrokerWithoutLivePlant() {
         Optional<String> r = SafetyGate.admit("tcp://10.1.2.3:1883", false, false, "unit-a", typed("unit-a\n"), out);

@@ -1,4 +1,4 @@
-package org.loopstand.controller.pulsetest;
+package org.loopstand.protocol.time;
 
 import java.util.Optional;
 import java.util.concurrent.CompletableFuture;
@@ -9,14 +9,12 @@ import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.Qos;
 import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.ClockTick;
-import org.loopstand.protocol.time.AcceleratedClock;
-import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.topic.TopicTree;
 
 /**
- * Takes an emulated plant's time base from its clock topic, so a pulse test can run against a plant
- * at an accelerated rate: the commands' validUntil and the measured times are then in the plant's
- * scenario time. Only a fresh tick is used (not the retained one, which may be up to a wall second
+ * Takes an emulated plant's time base from its clock topic, so a process other than the plant (a
+ * pulse test, a unit interface in its own process) can run against a plant at an accelerated rate:
+ * its commands' validUntil, telemetry and measured times are then in the plant's scenario time. Only a fresh tick is used (not the retained one, which may be up to a wall second
  * old, i.e. {@code rate} scenario seconds).
  */
 public final class PlantClockFollower {
