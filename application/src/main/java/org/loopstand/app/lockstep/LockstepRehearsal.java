@@ -100,9 +100,13 @@ public final class LockstepRehearsal {
             plant.plant().agent().checkWith(c.record(), rs.checks(), line -> { });
             ControllerStatusTap.subscribe(plant.plant(), c.clock(), plantJournal, null);
             long now = c.clock().epochMillis();
+            Map<String, Object> controllerHeader = new LinkedHashMap<>(); // filled in order: the same bytes every run
+            controllerHeader.put("site", grid.siteId());
+            controllerHeader.put("controllerId", CONTROLLER_ID);
+            controllerHeader.put("broker", BUS);
+            controllerHeader.put("cycleMs", controllerSite.settings().cycleMs());
             JournalWriter controllerJournal = JournalWriter.create(run.resolve("controller.jsonl"), "controller", now,
-                    Map.of("site", grid.siteId(), "controllerId", CONTROLLER_ID, "broker", BUS,
-                            "cycleMs", controllerSite.settings().cycleMs()), c.clock(), JournalWriter.DEFAULT_FLUSH_INTERVAL);
+                    controllerHeader, c.clock(), JournalWriter.DEFAULT_FLUSH_INTERVAL);
             HistogramLogs controllerHistograms = HistogramLogs.create(run.resolve("controller.hlog"), c.clock(), 60_000_000L, 3, 10_000);
             InMemoryBus link = broker.connect(CONTROLLER_ID, ControllerAgent.offlineStatus(grid.siteId(), CONTROLLER_ID, now, now));
             ControllerAgent controller = new ControllerAgent(controllerSite, link, c.clock(), null, CONTROLLER_ID, now,
