@@ -329,13 +329,21 @@ public final class Rehearsal {
     }
 
     private Path makeRunFolder() {
+        return newRunFolder(s.runsDir(), s.scenarioName(), wall);
+    }
+
+    /**
+     * Creates {@code runsDir/<yyyyMMdd-HHmmss>-<name>} (local wall time), with a {@code -2}, {@code -3}…
+     * suffix when it exists.
+     */
+    public static Path newRunFolder(Path runsDir, String name, Clock wall) {
         String stamp = DateTimeFormatter.ofPattern("yyyyMMdd-HHmmss", Locale.ROOT)
                 .format(Instant.ofEpochMilli(wall.epochMillis()).atZone(ZoneId.systemDefault()));
-        String base = stamp + "-" + s.scenarioName();
+        String base = stamp + "-" + name;
         try {
-            Files.createDirectories(s.runsDir());
+            Files.createDirectories(runsDir);
             for (int i = 1; ; i++) {
-                Path p = s.runsDir().resolve(i == 1 ? base : base + "-" + i);
+                Path p = runsDir.resolve(i == 1 ? base : base + "-" + i);
                 try {
                     return Files.createDirectory(p);
                 } catch (java.nio.file.FileAlreadyExistsException e) {
@@ -345,7 +353,7 @@ public final class Rehearsal {
                 }
             }
         } catch (IOException e) {
-            throw new UncheckedIOException("cannot create a run folder in " + s.runsDir() + ": " + e.getMessage(), e);
+            throw new UncheckedIOException("cannot create a run folder in " + runsDir + ": " + e.getMessage(), e);
         }
     }
 
@@ -355,7 +363,7 @@ public final class Rehearsal {
     }
 
     /** @return the value of a top-level {@code key: value} line of a YAML file, or null */
-    static String topValue(Path file, String key) {
+    public static String topValue(Path file, String key) {
         try {
             for (String line : Files.readAllLines(file, StandardCharsets.UTF_8)) {
                 Matcher m = TOP_KEY.matcher(line);

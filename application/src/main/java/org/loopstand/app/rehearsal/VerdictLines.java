@@ -10,11 +10,11 @@ import org.loopstand.report.model.ReportModel;
  * The verdict as the terminal shows it at the end of a rehearsal: the same verdict as the report's badge
  * (both come from {@link ReportModel#verdict()}), and each failing check with its deciding figure.
  */
-final class VerdictLines {
+public final class VerdictLines {
     private VerdictLines() {
     }
 
-    static List<String> of(ReportModel model) {
+    public static List<String> of(ReportModel model) {
         List<String> out = new ArrayList<>();
         List<CheckResult> checks = model.checks();
         long failed = checks.stream().filter(c -> !c.passed()).count();

@@ -9,8 +9,8 @@ import picocli.CommandLine;
 /** The application holds the commands that put the parts together; the plant process keeps its own. */
 class AppCliTest {
     @Test
-    void shouldHoldRehearseReportAndExportAndLeaveThemOutOfThePlantProcess() {
-        assertThat(new CommandLine(new AppCli()).getSubcommands()).containsOnlyKeys("rehearse", "report", "export");
+    void shouldHoldRehearseReportExportAndTheLockstepStudyAndLeaveThemOutOfThePlantProcess() {
+        assertThat(new CommandLine(new AppCli()).getSubcommands()).containsOnlyKeys("rehearse", "study", "report", "export");
         assertThat(new CommandLine(new PlantCli()).getSubcommands()).doesNotContainKeys("rehearse", "report", "export")
                 .containsKeys("plant", "study", "broker", "unit", "fault", "check");
     }

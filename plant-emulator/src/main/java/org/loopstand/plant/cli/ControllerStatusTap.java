@@ -14,7 +14,7 @@ import org.loopstand.protocol.topic.TopicKind;
  * (its heartbeat and own ACE for the report) and, when the scenario has checks, fed into the run
  * record on the plant loop's thread (the checks on its decisions).
  */
-final class ControllerStatusTap {
+public final class ControllerStatusTap {
     private ControllerStatusTap() {
     }
 
@@ -22,7 +22,7 @@ final class ControllerStatusTap {
      * @param journal where statuses are journaled, may be null
      * @param record  the run record the checks read, or null when the run decides no checks
      */
-    static void subscribe(PlantRunner runner, Clock clock, PlantRunJournal journal, RunRecord record) {
+    public static void subscribe(PlantRunner runner, Clock clock, PlantRunJournal journal, RunRecord record) {
         if (journal == null && record == null) {
             return;
         }

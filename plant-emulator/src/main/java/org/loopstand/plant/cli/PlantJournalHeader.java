@@ -13,11 +13,11 @@ import org.loopstand.plant.scenario.Scenario;
 import org.loopstand.plant.scenario.ScenarioEvent;
 
 /** The extras of the plant journal's header: what the report needs to judge any controller (docs/report.md). */
-final class PlantJournalHeader {
+public final class PlantJournalHeader {
     private PlantJournalHeader() {
     }
 
-    static Map<String, Object> of(Grid grid, Path siteFile, Path scenarioFile, Scenario scenario, List<ScenarioEvent> events,
+    public static Map<String, Object> of(Grid grid, Path siteFile, Path scenarioFile, Scenario scenario, List<ScenarioEvent> events,
                                   double rate, long seed, String uri, boolean embedded, PlantOptions options, GridSimulator sim,
                                   long meterScanMs) {
         Map<String, Object> header = new LinkedHashMap<>();

@@ -51,10 +51,33 @@ public final class StudyPlant implements Agent {
      * @param live true: also take fault orders from the faults topic
      */
     public static StudyPlant on(RehearsalStudy.Context c, InMemoryBroker broker, PlantOptions options, boolean live) {
+        return on(c, broker, options, live, null, 1.0);
+    }
+
+    /**
+     * As {@link #on(RehearsalStudy.Context, InMemoryBroker, PlantOptions, boolean)}, with the plant journaled
+     * into {@code journal} as a real-time plant journals it (truth, publications through the fault stages,
+     * command fates, events); the caller closes nothing: the plant closes the journal when it closes.
+     *
+     * @param journal the run folder's plant journal, may be null
+     * @param truthIntervalS scenario seconds between truth entries, &gt; 0 (unused without a journal)
+     */
+    public static StudyPlant on(RehearsalStudy.Context c, InMemoryBroker broker, PlantOptions options, boolean live,
+            org.loopstand.plant.journal.PlantRunJournal journal, double truthIntervalS) {
         PlantRunner plant = new PlantRunner(c.sim(), List.of(), options, broker::connect, c.clock(), w -> {
         });
+        if (journal != null) {
+            plant.journalTo(journal, truthIntervalS);
+        }
+        return wired(c, broker, options, live, plant, journal);
+    }
+
+    private static StudyPlant wired(RehearsalStudy.Context c, InMemoryBroker broker, PlantOptions options, boolean live,
+            PlantRunner plant, org.loopstand.plant.journal.PlantRunJournal journal) {
         plant.agent().followSteps(c.engine());
-        FaultHooks hooks = FaultHooks.wire(plant, c.faults(), c.record(), c.record(), c.clock(), options.seed(), live);
+        org.loopstand.plant.fault.FaultObserver observer = journal == null ? c.record()
+                : org.loopstand.plant.fault.FaultObserver.all(List.of(c.record(), journal));
+        FaultHooks hooks = FaultHooks.wire(plant, c.faults(), observer, c.record(), c.clock(), options.seed(), live);
         recordStatuses(broker, plant.topics(), c);
         return new StudyPlant(plant, hooks);
     }

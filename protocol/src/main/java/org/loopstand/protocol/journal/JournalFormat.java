@@ -40,6 +40,7 @@ public final class JournalFormat {
         ObjectMapper mapper = new ObjectMapper();
         mapper.disable(SerializationFeature.INDENT_OUTPUT);
         mapper.disable(SerializationFeature.FAIL_ON_EMPTY_BEANS);
+        mapper.registerModule(StableOrderMaps.module()); // Map.of / Set.of in key order: the same bytes in every JVM
         return mapper;
     }
 }

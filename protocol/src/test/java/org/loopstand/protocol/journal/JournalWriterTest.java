@@ -87,4 +87,21 @@ class JournalWriterTest {
         assertThatThrownBy(() -> JournalWriter.create(file, "plant", START_MS, wall))
                 .hasMessageContaining("cannot create journal");
     }
+
+    @Test
+    void shouldWriteImmutableMapsAndSetsInKeyOrderAndKeepTheOrderOfOtherMaps() throws Exception {
+        // Map.of / Set.of iterate in an order that changes from one JVM to the next: journals write them sorted,
+        // so a lockstep run is byte-identical in every JVM; a map filled in order keeps its order
+        Path file = dir.resolve("plant.jsonl");
+        Map<String, Object> filled = new java.util.LinkedHashMap<>();
+        filled.put("zulu", Map.of("flowMw", 1.5, "band", "held", "aceMw", -2.0));
+        filled.put("alpha", java.util.Set.of("north", "east", "south"));
+        filled.put("list", List.of("c", "a", "b"));
+        try (JournalWriter w = JournalWriter.create(file, "plant", START_MS, new VirtualClock(0))) {
+            w.append(START_MS, JournalFormat.KIND_EVENT, filled);
+        }
+        assertThat(Files.readAllLines(file).get(1)).isEqualTo("{\"t\":1700000000000,\"kind\":\"event\","
+                + "\"zulu\":{\"aceMw\":-2.0,\"band\":\"held\",\"flowMw\":1.5},\"alpha\":[\"east\",\"north\",\"south\"],"
+                + "\"list\":[\"c\",\"a\",\"b\"]}");
+    }
 }
