@@ -1,13 +1,15 @@
 package org.loopstand.bench.cli;
 
 import java.nio.file.Path;
-import java.time.LocalDateTime;
+import java.time.Instant;
+import java.time.ZoneId;
 import java.time.format.DateTimeFormatter;
 import java.util.concurrent.Callable;
 import org.loopstand.bench.run.BenchResult;
 import org.loopstand.bench.run.BenchSettings;
 import org.loopstand.bench.run.BusBench;
 import org.loopstand.plant.runtime.ConnectionGrouping;
+import org.loopstand.protocol.time.WallClock;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
 
@@ -97,7 +99,8 @@ public final class BusCommand implements Callable<Integer> {
         } catch (IllegalArgumentException e) {
             throw new IllegalArgumentException("--grouping must be per-unit, per-plant or pooled, got " + grouping);
         }
-        Path dir = out != null ? out : Path.of("runs", "bench-" + LocalDateTime.now().format(DateTimeFormatter.ofPattern("yyyyMMdd-HHmmss")));
+        Path dir = out != null ? out : Path.of("runs", "bench-" + DateTimeFormatter.ofPattern("yyyyMMdd-HHmmss")
+                .format(Instant.ofEpochMilli(WallClock.INSTANCE.epochMillis()).atZone(ZoneId.systemDefault())));
         return new BenchSettings(units, areas, durationS, warmupS, broker, brokerConfig, g, poolSize, intakeConnections,
                 telemetryMs, meterMs, cycleS, sampleS, !noRaw, !noWake, unitScanMs, loadStepMw, dir);
     }
