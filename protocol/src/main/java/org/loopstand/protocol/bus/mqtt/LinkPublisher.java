@@ -115,10 +115,12 @@ final class LinkPublisher {
         return f;
     }
 
+    /** Counts a failure once per publish: Paho may report the same lost publish twice (connection lost, then session cleared). */
     private void fail(CompletableFuture<Void> f, Reason reason, String text, Throwable cause) {
-        counters.onSendFailed();
-        failures.get(reason).increment();
-        f.completeExceptionally(new BusException(reason, config.clientId() + ": " + text, cause));
+        if (f.completeExceptionally(new BusException(reason, config.clientId() + ": " + text, cause))) {
+            counters.onSendFailed();
+            failures.get(reason).increment();
+        }
     }
 
 }
