@@ -19,6 +19,8 @@ public final class CheckLibrary {
             "moment to measure from, scenario s (or give after)");
     private static final ParameterSpec AFTER = choice("after", "", List.of(),
             "event type (its first occurrence) or fault id (its start) to measure from, instead of afterS");
+    private static final ParameterSpec HOLD_S = number("holdS", "s", 0, 31_536_000, Double.NaN,
+            "how long it must stay in band once back, s (not set: to the end of the run)");
     private static final ParameterSpec WITHIN_900 = number("withinS", "s", 0, 31_536_000, 900.0, "limit, s");
     private static final CheckLibrary STANDARD = build();
 
@@ -47,12 +49,12 @@ public final class CheckLibrary {
     private static CheckLibrary build() {
         List<CheckType> t = new ArrayList<>();
         t.add(new CheckType("frequencyRestored", List.of(choice("area", null, List.of(), "area id"), AFTER_S, AFTER, WITHIN_900,
-                number("bandMhz", "mHz", 0, 5000, 20.0, "band around scheduled frequency")), false, true,
-                "truth frequency back within ±bandMhz of schedule, and staying there, within withinS",
+                number("bandMhz", "mHz", 0, 5000, 20.0, "band around scheduled frequency"), HOLD_S), false, true,
+                "truth frequency back within ±bandMhz of schedule, and staying there (holdS, or to the end), within withinS",
                 RestorationChecks::frequencyRestored));
         t.add(new CheckType("tieFlowRestored", List.of(choice("tie", null, List.of(), "tie id"), AFTER_S, AFTER, WITHIN_900,
-                number("bandMw", "MW", 0, 100_000, 10.0, "band around the scheduled flow")), false, true,
-                "truth tie flow back within ±bandMw of its schedule, and staying there, within withinS",
+                number("bandMw", "MW", 0, 100_000, 10.0, "band around the scheduled flow"), HOLD_S), false, true,
+                "truth tie flow back within ±bandMw of its schedule, and staying there (holdS, or to the end), within withinS",
                 RestorationChecks::tieFlowRestored));
         t.add(new CheckType("aceRecovered", List.of(choice("area", null, List.of(), "area id"), AFTER_S, AFTER, WITHIN_900,
                 number("toleranceMw", "MW", 0, 100_000, 5.0, "how close to the recovery target counts as back")), false, true,

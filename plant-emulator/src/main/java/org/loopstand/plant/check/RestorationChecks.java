@@ -92,36 +92,73 @@ final class RestorationChecks {
         boolean at(int i);
     }
 
-    /** Time from afterS to the sample after the last one out of band; never back = fail. */
+    /**
+     * Time from afterS to the moment the quantity is back in band for good: to the end of the run, or,
+     * with holdS, for holdS in a row (a return into the band that lasts is the restoration; a later
+     * excursion, e.g. on load noise, is reported in the detail but does not undo it). Never back = fail.
+     */
     private static CheckOutcome staysBack(CheckSpec spec, RunRecord.Series s, Out out, String what, IntToDoubleFunction deviation,
             String devUnit) {
         double after = spec.number("afterS");
         double within = spec.number("withinS");
-        int lastOut = -1;
-        int samples = 0;
+        double holdS = spec.number("holdS"); // NaN when not set
+        int first = -1;
         double worst = 0;
         for (int i = 0; i < s.size(); i++) {
-            if (s.timeS(i) < after) {
-                continue;
-            }
-            samples++;
-            worst = Math.max(worst, deviation.applyAsDouble(i));
-            if (out.at(i)) {
-                lastOut = i;
+            if (s.timeS(i) >= after) {
+                first = first < 0 ? i : first;
+                worst = Math.max(worst, deviation.applyAsDouble(i));
             }
         }
-        if (samples == 0) {
+        if (first < 0) {
             return new CheckOutcome(spec.name(), false, Double.NaN, "s", within, "no truth samples after " + after + " s", false);
         }
-        if (lastOut == s.size() - 1) {
+        int back = backIndex(s, out, first, holdS);
+        if (back < 0) {
+            int last = s.size() - 1;
             return new CheckOutcome(spec.name(), false, Double.NaN, "s", within, what + ": not back by the end ("
-                    + CheckOutcome.format(s.timeS(lastOut)) + " s), deviation then " + CheckOutcome.format(deviation.applyAsDouble(lastOut))
+                    + CheckOutcome.format(s.timeS(last)) + " s), deviation then " + CheckOutcome.format(deviation.applyAsDouble(last))
                     + " " + devUnit + ", worst " + CheckOutcome.format(worst) + " " + devUnit, false);
         }
-        double backAt = lastOut < 0 ? after : s.timeS(lastOut + 1);
+        double backAt = back == first ? after : s.timeS(back);
         double delay = backAt - after;
+        String held = Double.isNaN(holdS) ? " on" : " on for " + CheckOutcome.format(holdS) + " s" + laterExcursion(s, out, back, holdS,
+                deviation, devUnit);
         return new CheckOutcome(spec.name(), delay <= within, delay, "s", within,
-                what + " from " + CheckOutcome.format(backAt) + " s on; worst deviation after " + CheckOutcome.format(after) + " s: "
-                        + CheckOutcome.format(worst) + " " + devUnit, false);
+                what + " from " + CheckOutcome.format(backAt) + " s" + held + "; worst deviation after " + CheckOutcome.format(after)
+                        + " s: " + CheckOutcome.format(worst) + " " + devUnit, false);
+    }
+
+    /** First sample from which the series stays in band for holdS (NaN: to the end), or stays in band to the end; -1 if none. */
+    private static int backIndex(RunRecord.Series s, Out out, int first, double holdS) {
+        int runStart = -1;
+        for (int i = first; i < s.size(); i++) {
+            if (out.at(i)) {
+                runStart = -1;
+                continue;
+            }
+            runStart = runStart < 0 ? i : runStart;
+            if (!Double.isNaN(holdS) && s.timeS(i) - s.timeS(runStart) >= holdS) {
+                return runStart;
+            }
+        }
+        return runStart; // in band from runStart to the last sample (or -1: out at the end)
+    }
+
+    /** The detail's note on samples out of band after the hold: how many seconds and the worst deviation. */
+    private static String laterExcursion(RunRecord.Series s, Out out, int back, double holdS, IntToDoubleFunction deviation,
+            String devUnit) {
+        int outSamples = 0;
+        double worst = 0;
+        double firstOutS = Double.NaN;
+        for (int i = back; i < s.size(); i++) {
+            if (s.timeS(i) - s.timeS(back) > holdS && out.at(i)) {
+                outSamples++;
+                worst = Math.max(worst, deviation.applyAsDouble(i));
+                firstOutS = Double.isNaN(firstOutS) ? s.timeS(i) : firstOutS;
+            }
+        }
+        return outSamples == 0 ? "" : " (out of band again from " + CheckOutcome.format(firstOutS) + " s, " + outSamples
+                + " samples of 1 s, worst " + CheckOutcome.format(worst) + " " + devUnit + ")";
     }
 }

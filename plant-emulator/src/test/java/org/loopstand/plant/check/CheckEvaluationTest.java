@@ -71,6 +71,39 @@ class CheckEvaluationTest {
         assertThat(never.detail()).contains("not back by the end").contains("deviation then 100.000 mHz");
     }
 
+    /** The recovery above, then a noise-like excursion to 49.97 Hz for 3 s at 90–92 s. */
+    private RunRecord recoveryThenLateExcursion() {
+        RunRecord run = new RunRecord(T0);
+        for (int t = 0; t <= 100; t++) {
+            double f = t < 10 ? 50 : t <= 40 ? 49.9 : t >= 90 && t <= 92 ? 49.97 : Math.min(50, 49.9 + 0.1 * (t - 40) / 20.0);
+            run.series("frequencyHz/north-basin").add(t, f);
+            run.series("netInterchangeMw/north-basin").add(t, 100);
+        }
+        run.end(100);
+        return run;
+    }
+
+    @Test
+    void shouldCountAReturnThatHoldsForHoldSAsRestoredAndReportTheLaterExcursion() {
+        // back in the ±23 mHz band at 56 s (see above) and in it for 30 s to 86 s: restored 46 s after 10 s;
+        // the 30 mHz excursion at 90–92 s is reported, it does not undo the restoration
+        CheckOutcome held = check("frequencyRestored", Map.of("area", "north-basin", "afterS", 10.0, "withinS", 50.0, "bandMhz", 23.0,
+                "holdS", 30.0)).evaluate(recoveryThenLateExcursion(), grid);
+        assertThat(held.passed()).isTrue();
+        assertThat(held.decidingFigure()).isCloseTo(46, within(1e-9));
+        assertThat(held.detail()).contains("from 56 s on for 30 s").contains("out of band again from 90 s, 3 samples of 1 s, worst 30.000 mHz");
+        // a hold longer than the quiet stretch (56–89 s) starts again after the excursion: back at 93 s, 83 s after 10 s
+        CheckOutcome longHold = check("frequencyRestored", Map.of("area", "north-basin", "afterS", 10.0, "withinS", 50.0,
+                "bandMhz", 23.0, "holdS", 40.0)).evaluate(recoveryThenLateExcursion(), grid);
+        assertThat(longHold.passed()).isFalse();
+        assertThat(longHold.decidingFigure()).isCloseTo(83, within(1e-9));
+        // without holdS it must stay to the end: the excursion decides, back at 93 s
+        CheckOutcome toEnd = check("frequencyRestored", Map.of("area", "north-basin", "afterS", 10.0, "withinS", 50.0, "bandMhz", 23.0))
+                .evaluate(recoveryThenLateExcursion(), grid);
+        assertThat(toEnd.passed()).isFalse();
+        assertThat(toEnd.decidingFigure()).isCloseTo(83, within(1e-9));
+    }
+
     @Test
     void shouldTimeTheAceRecovery() {
         // European ACE = ΔNI + K·Δf with K = 954 MW/Hz (demo site); ΔNI = 0. ACE ≥ −5 MW needs Δf ≥ −5/954 Hz,
