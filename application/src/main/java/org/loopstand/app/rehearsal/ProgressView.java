@@ -18,7 +18,8 @@ import org.loopstand.protocol.topic.TopicTree;
 /**
  * The latest of what the rehearsal shows on the terminal: scenario time and rate from the clock,
  * frequency per area from the meters, ACE and state from the controller status, active faults from
- * the plant's own fault lines (scenario faults and live fault orders alike, as applied). Fed from bus and
+ * the plant's own fault lines (scenario faults and live fault orders alike, as applied), and the areas
+ * the controller suspends and the units it excludes while it regulates the rest. Fed from bus and
  * output threads, read by the progress printer: every method is synchronized.
  */
 final class ProgressView {
@@ -61,6 +62,15 @@ final class ProgressView {
     private void onStatus(ControllerStatus s) {
         state = s.state().wireName() + (s.reasons().isEmpty() || "regulating".equals(s.state().wireName()) ? ""
                 : "(" + String.join(",", s.reasons()) + ")");
+        // while it regulates the others, the areas it holds and the units it left out, each with its reason
+        if (s.suspendedAreas() != null) {
+            state += s.suspendedAreas().stream().map(a -> a.area() + "(" + String.join(",", a.reasons()) + ")")
+                    .collect(java.util.stream.Collectors.joining(" ", " suspended:", ""));
+        }
+        if (s.excludedUnits() != null) {
+            state += s.excludedUnits().stream().map(u -> u.unit() + "(" + u.reason() + ")")
+                    .collect(java.util.stream.Collectors.joining(" ", " excluded:", ""));
+        }
         for (AreaAce a : s.areas()) {
             aceMw.put(a.area(), a.aceMw());
         }

@@ -12,7 +12,14 @@ import org.loopstand.plant.fault.FaultSpec;
 import org.loopstand.plant.fault.TargetCatalog;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.site.SiteLoader;
+import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.message.AreaAce;
+import org.loopstand.protocol.message.ControllerState;
+import org.loopstand.protocol.message.ControllerStatus;
+import org.loopstand.protocol.message.ExcludedUnit;
+import org.loopstand.protocol.message.SuspendedArea;
 import org.loopstand.protocol.time.VirtualClock;
+import org.loopstand.protocol.topic.TopicTree;
 import org.junit.jupiter.api.Test;
 
 class ProgressViewTest {
@@ -38,5 +45,17 @@ class ProgressViewTest {
         assertThat(plantLines).containsExactly("plant: fault active freezeValue:nb-freeze (scenario)",
                 "plant: fault ended freezeValue:nb-freeze (window ended)");
         assertThat(view.line()).endsWith("faults=none");
+    }
+
+    @Test
+    void shouldShowTheSuspendedAreasAndExcludedUnitsWithTheirReasonsWhileTheControllerRegulatesTheRest() {
+        ProgressView view = new ProgressView(700);
+        ControllerStatus status = new ControllerStatus(7, 1_000_000L, "controller-1", 1L, ControllerState.REGULATING, List.of(), 7,
+                List.of(new AreaAce("north-basin", 0, 0, "held"), new AreaAce("south-ridge", -3.5, -3.1, "quiet")),
+                List.of(new ExcludedUnit("ridge-hydro-2", "south-ridge", "notFollowing", 12.5)),
+                List.of(new SuspendedArea("north-basin", List.of("frequencyUnusable:north-basin"), "frozen 22.6 s", 1_000_000L)));
+        view.onMessage(TopicTree.forSite("demo-site").controllerStatus("controller-1"), new MessageCodec().encode(status));
+        assertThat(view.line()).contains("ACE=-3.5 MW")
+                .contains("ctl=regulating suspended:north-basin(frequencyUnusable:north-basin) excluded:ridge-hydro-2(notFollowing)  faults=none");
     }
 }
