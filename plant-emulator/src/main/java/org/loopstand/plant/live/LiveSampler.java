@@ -122,9 +122,8 @@ public final class LiveSampler implements Consumer<PlantAgent> {
                     u.targetMw(), u.settings().regulatingMinMw(), u.settings().regulatingMaxMw(), u.controlMode().wireName(),
                     sim.isOnline(i), counters.lastCommand(u.unitId()), u.acceptedCount(), refused));
         }
-        LiveSnapshot.ControllerView controller = st == null ? null : new LiveSnapshot.ControllerView(st.controllerId(),
-                st.state().name().toLowerCase(java.util.Locale.ROOT), st.reasons(), st.cycle(),
-                (scenario.epochMillis() - bus.statusAtMs()) / 1000.0);
+        LiveSnapshot.ControllerView controller = st == null ? null
+                : LiveSnapshot.ControllerView.of(st, (scenario.epochMillis() - bus.statusAtMs()) / 1000.0);
         List<LiveSnapshot.FaultView> faults = new ArrayList<>();
         FaultEngine engine = agent.faultEngineOnLoop();
         if (engine != null) {

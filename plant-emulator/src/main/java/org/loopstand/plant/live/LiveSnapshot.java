@@ -43,7 +43,21 @@ public record LiveSnapshot(long seq, double timeS, double rate, String state, Li
                            long accepted, long refusals) {
     }
 
-    public record ControllerView(String id, String state, List<String> reasons, long cycle, double ageS) {
+    /**
+     * @param heldAreas     areas the controller holds while it regulates the others, each "area (reasons)"
+     * @param excludedUnits units it leaves out of the allocation, each "unit (reason)"
+     * @param ageS          how long ago the status arrived, s of the plant's clock
+     */
+    public record ControllerView(String id, String state, List<String> reasons, long cycle, List<String> heldAreas,
+                                 List<String> excludedUnits, double ageS) {
+        /** The view of a status as the plant heard it {@code ageS} seconds ago. */
+        public static ControllerView of(org.loopstand.protocol.message.ControllerStatus st, double ageS) {
+            List<String> held = st.suspendedAreas() == null ? List.of() : st.suspendedAreas().stream()
+                    .map(a -> a.area() + " (" + String.join(", ", a.reasons()) + ")").toList();
+            List<String> excluded = st.excludedUnits() == null ? List.of() : st.excludedUnits().stream()
+                    .map(u -> u.unit() + " (" + u.reason() + ")").toList();
+            return new ControllerView(st.controllerId(), st.state().wireName(), st.reasons(), st.cycle(), held, excluded, ageS);
+        }
     }
 
     public record FaultView(String id, String type, List<String> targets, String source, double activeForS) {

@@ -76,7 +76,9 @@
     text($("lateness"), fmt(s.lateness.p99Us / 1000, 1));
     const c = s.controller;
     text($("controller"), c ? c.id + ": " + c.state + (c.reasons.length ? " (" + c.reasons.join("; ") + ")" : "")
-      + ", cycle " + c.cycle + ", heard " + fmt(c.ageS, 1) + " s ago" : "no status heard yet");
+      + ", cycle " + c.cycle + ", heard " + fmt(c.ageS, 1) + " s ago"
+      + (c.heldAreas.length ? "; holds " + c.heldAreas.join("; ") : "")
+      + (c.excludedUnits.length ? "; leaves out " + c.excludedUnits.join("; ") : "") : "no status heard yet");
     const units = $("units-table").tBodies[0];
     units.replaceChildren(...s.units.map((u) => row([u.id, u.mode + (u.online ? "" : ", tripped"), [fmt(u.outputMw, 1)],
       [fmt(u.targetMw, 1)], fmt(u.regulatingMinMw, 0) + "–" + fmt(u.regulatingMaxMw, 0), u.lastCommand || "–", [String(u.refusals)]])));
