@@ -1,0 +1,95 @@
+package org.loopstand.app.campaign;
+
+import java.util.List;
+import java.util.Locale;
+import java.util.SplittableRandom;
+
+/**
+ * What a campaign draws one value from: a number uniform in [min, max], one of a list of numbers, or
+ * one of a list of texts (each equally likely).
+ */
+public sealed interface Distribution permits Distribution.Uniform, Distribution.Numbers, Distribution.Texts {
+    /** @return the drawn value: a Double for numbers, a String for texts */
+    Object draw(SplittableRandom random);
+
+    /** @return the distribution as written in a campaign file, e.g. {@code 60..300} or {@code [a, b]} */
+    String describe();
+
+    /** @return the smallest and largest number it can give; NaN for texts */
+    double min();
+
+    double max();
+
+    /** Uniform over [minValue, maxValue]; equal ends give that one number. */
+    record Uniform(double min, double max) implements Distribution {
+        @Override
+        public Object draw(SplittableRandom random) {
+            // rounded to the millisecond / milli-unit: the scenario file written for the run gives the same number back
+            double v = min == max ? min : min + random.nextDouble() * (max - min);
+            return Math.round(v * 1000.0) / 1000.0;
+        }
+
+        @Override
+        public String describe() {
+            return min == max ? format(min) : format(min) + ".." + format(max);
+        }
+    }
+
+    /** One of the listed numbers. */
+    record Numbers(List<Double> values) implements Distribution {
+        public Numbers {
+            values = List.copyOf(values);
+        }
+
+        @Override
+        public Object draw(SplittableRandom random) {
+            return values.get(random.nextInt(values.size()));
+        }
+
+        @Override
+        public String describe() {
+            return values.stream().map(Distribution::format).toList().toString();
+        }
+
+        @Override
+        public double min() {
+            return values.stream().mapToDouble(Double::doubleValue).min().orElse(Double.NaN);
+        }
+
+        @Override
+        public double max() {
+            return values.stream().mapToDouble(Double::doubleValue).max().orElse(Double.NaN);
+        }
+    }
+
+    /** One of the listed texts. */
+    record Texts(List<String> values) implements Distribution {
+        public Texts {
+            values = List.copyOf(values);
+        }
+
+        @Override
+        public Object draw(SplittableRandom random) {
+            return values.get(random.nextInt(values.size()));
+        }
+
+        @Override
+        public String describe() {
+            return values.toString();
+        }
+
+        @Override
+        public double min() {
+            return Double.NaN;
+        }
+
+        @Override
+        public double max() {
+            return Double.NaN;
+        }
+    }
+
+    static String format(double v) {
+        return v == Math.rint(v) && Math.abs(v) < 1e15 ? Long.toString((long) v) : String.format(Locale.ROOT, "%s", v);
+    }
+}
