@@ -116,7 +116,8 @@ public final class CampaignCommand implements Callable<Integer> {
                         + ")" : " " + x.failingChecks()) + ": " + CampaignReport.reproduce(r, x)));
         for (RunResult.Shrunk s : r.shrunk().subList(0, Math.min(PRINTED, r.shrunk().size()))) {
             out.println("smallest failing combination from run " + s.runIndex() + " (" + s.check() + " fails, " + s.runsTried()
-                    + " shrink runs): " + String.join("; ", s.smallest().describe()));
+                    + " shrink runs): " + (s.smallest().describe().isEmpty() ? CampaignHtml.NOTHING_DRAWN + " " + s.smallest().seed()
+                    : String.join("; ", s.smallest().describe())));
             out.println("  reproduce: " + CampaignReport.reproduce(r, s));
         }
     }

@@ -11,8 +11,9 @@ import org.loopstand.plant.fault.FaultSpec;
 import org.loopstand.plant.fault.TargetCatalog;
 
 /**
- * Expands a campaign into its runs. Run i's random seed comes from the master seed alone
- * ({@link #runSeed}), and everything drawn for run i comes from a generator seeded with it, so the same
+ * Expands a campaign into its runs. Run i's draw seed comes from the master seed alone
+ * ({@link #runSeed}), and everything drawn for run i comes from a generator seeded with it (and, unless the
+ * campaign keeps the base scenario's seed, so does the run's load noise), so the same
  * campaign file gives the same runs on any machine and with any worker count, and run i is the same
  * whether the campaign has 10 runs or 1000.
  */
@@ -23,12 +24,17 @@ public final class CampaignExpander {
     private final CampaignSpec spec;
     private final TargetCatalog catalog;
     private final List<FaultSpec> baseFaults;
+    private final long baseSeed;
 
-    /** @param baseFaults the base scenario's own faults, which drawn ones must not contradict */
-    public CampaignExpander(CampaignSpec spec, TargetCatalog catalog, List<FaultSpec> baseFaults) {
+    /**
+     * @param baseFaults the base scenario's own faults, which drawn ones must not contradict
+     * @param baseSeed   the base scenario's random seed (every run's when the campaign keeps it)
+     */
+    public CampaignExpander(CampaignSpec spec, TargetCatalog catalog, List<FaultSpec> baseFaults, long baseSeed) {
         this.spec = spec;
         this.catalog = catalog;
         this.baseFaults = List.copyOf(baseFaults);
+        this.baseSeed = baseSeed;
     }
 
     /** @return the expander of {@code spec}, with the target catalog of its site and its base scenario's faults */
@@ -36,7 +42,7 @@ public final class CampaignExpander {
         org.loopstand.plant.grid.Grid grid = org.loopstand.plant.site.SiteLoader.loadForRun(spec.siteFile(), w -> { });
         var base = org.loopstand.plant.scenario.RunScenarioLoader.load(spec.scenarioFile(),
                 org.loopstand.plant.scenario.EventTypeRegistry.physics(), grid);
-        return new CampaignExpander(spec, TargetCatalog.of(grid), base.faults());
+        return new CampaignExpander(spec, TargetCatalog.of(grid), base.faults(), base.scenario().seed());
     }
 
     /** @return run i's random seed (i ≥ 1): a SplitMix64 mix of the master seed and i, 0 ≤ seed &lt; 2^63 */
@@ -57,8 +63,8 @@ public final class CampaignExpander {
 
     /** @return run {@code index} (1-based) */
     public RunPlan plan(int index) {
-        long seed = runSeed(spec.masterSeed(), index);
-        SplittableRandom random = new SplittableRandom(seed);
+        long drawSeed = runSeed(spec.masterSeed(), index);
+        SplittableRandom random = new SplittableRandom(drawSeed);
         int faultCount = between(random, spec.faultsPerRun());
         List<RunPlan.PlannedFault> faults = new ArrayList<>();
         List<FaultSpec> placed = new ArrayList<>(baseFaults);
@@ -83,7 +89,7 @@ public final class CampaignExpander {
             double rampS = d.durationS() == null ? Double.NaN : (Double) d.durationS().draw(random);
             loads.add(new RunPlan.PlannedLoad(d.type(), area, atS, deltaMw, rampS));
         }
-        return new RunPlan(index, seed, faults, loads);
+        return new RunPlan(index, spec.seedPerRun() ? drawSeed : baseSeed, faults, loads);
     }
 
     private RunPlan.PlannedFault drawFault(SplittableRandom random, String id) {

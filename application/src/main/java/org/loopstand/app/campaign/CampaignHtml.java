@@ -21,6 +21,9 @@ final class CampaignHtml {
             + "code,pre{background:#f4f4f4;font-size:0.9em}pre{padding:0.5em;overflow-x:auto}.caution{border-left:4px solid #c80;"
             + "padding:0.3em 0.8em;background:#fff8e8}";
 
+    /** Shown for a run or a shrunk combination without drawn faults or load events. */
+    static final String NOTHING_DRAWN = "nothing drawn: the base scenario alone, with this random seed";
+
     private CampaignHtml() {
     }
 
@@ -177,7 +180,7 @@ final class CampaignHtml {
     private static String lines(List<String> items) {
         StringBuilder sb = new StringBuilder();
         items.forEach(i -> sb.append(esc(i)).append("<br>"));
-        return sb.length() == 0 ? "(nothing drawn)<br>" : sb.toString();
+        return sb.length() == 0 ? esc(NOTHING_DRAWN) + "<br>" : sb.toString();
     }
 
     private static void row(StringBuilder h, String key, String value) {

@@ -69,6 +69,10 @@ public final class CampaignReader {
             top.requiredDouble("masterSeed");
         }
         long masterSeed = top.optionalLong("masterSeed", 0);
+        String scenarioSeed = top.optionalString("scenarioSeed", "perRun");
+        if (!List.of("perRun", "base").contains(scenarioSeed)) {
+            top.fail("scenarioSeed", "must be perRun or base, got '" + scenarioSeed + "'");
+        }
         CampaignSpec.IntRange faultsPerRun = intRange(top, "faultsPerRun", new CampaignSpec.IntRange(1, 2));
         CampaignSpec.IntRange loadEventsPerRun = intRange(top, "loadEventsPerRun", new CampaignSpec.IntRange(0, 0));
         CampaignSpec.Shrink shrink = shrink(top);
@@ -120,8 +124,8 @@ public final class CampaignReader {
             throw new ConfigFileException(problems);
         }
         String name = file.getFileName().toString().replaceFirst("\\.ya?ml$", "");
-        return new CampaignSpec(name, file, siteFile, scenarioFile, durationS, (int) runs, masterSeed, faultsPerRun, faults,
-                loadEventsPerRun, loads, shrink);
+        return new CampaignSpec(name, file, siteFile, scenarioFile, durationS, (int) runs, masterSeed, "perRun".equals(scenarioSeed),
+                faultsPerRun, faults, loadEventsPerRun, loads, shrink);
     }
 
     private Path siteFileFor(Path dir, String siteId) {

@@ -13,7 +13,9 @@ import java.util.Map;
  * @param scenarioFile     the base scenario: its events, faults and checks are in every run
  * @param baseDurationS    the base scenario's duration, s
  * @param runs             how many runs, ≥ 1
- * @param masterSeed       every run's random seed is derived from it ({@link CampaignExpander#runSeed})
+ * @param masterSeed       every run's draws are seeded from it ({@link CampaignExpander#runSeed})
+ * @param seedPerRun       true: each run's scenario gets its draw seed as random seed (load noise differs from run to
+ *                         run); false: every run keeps the base scenario's seed, so only the drawn faults differ
  * @param faultsPerRun     how many faults each run draws, [min, max], 0 ≤ min ≤ max
  * @param faults           the fault kinds to draw from, at least one when faultsPerRun max &gt; 0
  * @param loadEventsPerRun how many load events each run draws, [min, max]
@@ -21,7 +23,7 @@ import java.util.Map;
  * @param shrink           bounds of the shrinking of failing runs
  */
 public record CampaignSpec(String name, Path file, Path siteFile, Path scenarioFile, double baseDurationS, int runs,
-                           long masterSeed, IntRange faultsPerRun, List<FaultDraw> faults, IntRange loadEventsPerRun,
+                           long masterSeed, boolean seedPerRun, IntRange faultsPerRun, List<FaultDraw> faults, IntRange loadEventsPerRun,
                            List<LoadEventDraw> loadEvents, Shrink shrink) {
     public CampaignSpec {
         faults = List.copyOf(faults);
@@ -30,7 +32,7 @@ public record CampaignSpec(String name, Path file, Path siteFile, Path scenarioF
 
     /** @return the same campaign with another run count */
     public CampaignSpec withRuns(int n) {
-        return new CampaignSpec(name, file, siteFile, scenarioFile, baseDurationS, n, masterSeed, faultsPerRun, faults,
+        return new CampaignSpec(name, file, siteFile, scenarioFile, baseDurationS, n, masterSeed, seedPerRun, faultsPerRun, faults,
                 loadEventsPerRun, loadEvents, shrink);
     }
 

@@ -8,7 +8,7 @@ import java.util.function.UnaryOperator;
  * One run of a campaign as drawn: its random seed and the faults and load events added to the base scenario.
  *
  * @param index  1-based run number in the campaign
- * @param seed   the run's random seed (load noise, fault draws inside the plant)
+ * @param seed   the random seed written into the run's scenario (load noise, fault draws inside the plant)
  * @param faults drawn faults, in draw order
  * @param loads  drawn load events, in draw order
  */

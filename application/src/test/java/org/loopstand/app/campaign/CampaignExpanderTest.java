@@ -62,6 +62,16 @@ class CampaignExpanderTest {
     }
 
     @Test
+    void shouldKeepTheBaseScenariosSeedInEveryRunWhenTheCampaignSaysSo() throws Exception {
+        CampaignSpec spec = CampaignReader.read(CampaignFiles.campaign(dir, "base.yaml", "scenarioSeed: base\n" + BODY.formatted(42)), dir);
+        List<RunPlan> plans = CampaignExpander.of(spec).expand();
+
+        // short.yaml's seed: 5; the draws still follow the master seed
+        assertThat(plans).extracting(RunPlan::seed).containsOnly(5L);
+        assertThat(plans).extracting(RunPlan::faults).isEqualTo(expand(42, 12).stream().map(RunPlan::faults).toList());
+    }
+
+    @Test
     void shouldDrawWithinTheDistributionsAndNeverAContradictingPair() throws Exception {
         List<RunPlan> plans = expand(7, 12);
 
