@@ -284,7 +284,7 @@ public final class CampaignReader {
         }
 
         private static List<Object> extremes(Distribution d) {
-            return d instanceof Distribution.Texts t ? List.copyOf(t.values()) : List.of(d.min(), d.max());
+            return d instanceof Distribution.OneOf o && o.texts() ? List.copyOf(o.values()) : List.of(d.min(), d.max());
         }
 
         /** Builds the fault once per target and text value, as the scenario loader will, so that what it refuses is refused here. */

@@ -8,7 +8,7 @@ import java.util.SplittableRandom;
  * What a campaign draws one value from: a number uniform in [min, max], one of a list of numbers, or
  * one of a list of texts (each equally likely).
  */
-public sealed interface Distribution permits Distribution.Uniform, Distribution.Numbers, Distribution.Texts {
+public sealed interface Distribution permits Distribution.Uniform, Distribution.OneOf {
     /** @return the drawn value: a Double for numbers, a String for texts */
     Object draw(SplittableRandom random);
 
@@ -35,9 +35,9 @@ public sealed interface Distribution permits Distribution.Uniform, Distribution.
         }
     }
 
-    /** One of the listed numbers. */
-    record Numbers(List<Double> values) implements Distribution {
-        public Numbers {
+    /** One of the listed values, each equally likely: all numbers (Double) or all texts (String). */
+    record OneOf(List<?> values) implements Distribution {
+        public OneOf {
             values = List.copyOf(values);
         }
 
@@ -48,44 +48,27 @@ public sealed interface Distribution permits Distribution.Uniform, Distribution.
 
         @Override
         public String describe() {
-            return values.stream().map(Distribution::format).toList().toString();
+            return values.stream().map(v -> v instanceof Double d ? format(d) : String.valueOf(v)).toList().toString();
+        }
+
+        /** @return true when the values are texts */
+        public boolean texts() {
+            return !values.isEmpty() && values.get(0) instanceof String;
+        }
+
+        /** @return the values as texts (empty when they are numbers) */
+        public List<String> textValues() {
+            return texts() ? values.stream().map(String::valueOf).toList() : List.of();
         }
 
         @Override
         public double min() {
-            return values.stream().mapToDouble(Double::doubleValue).min().orElse(Double.NaN);
+            return values.stream().filter(Double.class::isInstance).mapToDouble(v -> (Double) v).min().orElse(Double.NaN);
         }
 
         @Override
         public double max() {
-            return values.stream().mapToDouble(Double::doubleValue).max().orElse(Double.NaN);
-        }
-    }
-
-    /** One of the listed texts. */
-    record Texts(List<String> values) implements Distribution {
-        public Texts {
-            values = List.copyOf(values);
-        }
-
-        @Override
-        public Object draw(SplittableRandom random) {
-            return values.get(random.nextInt(values.size()));
-        }
-
-        @Override
-        public String describe() {
-            return values.toString();
-        }
-
-        @Override
-        public double min() {
-            return Double.NaN;
-        }
-
-        @Override
-        public double max() {
-            return Double.NaN;
+            return values.stream().filter(Double.class::isInstance).mapToDouble(v -> (Double) v).max().orElse(Double.NaN);
         }
     }
 

@@ -33,7 +33,7 @@ final class Distributions {
             return List.of();
         }
         Distribution d = texts(node, key + " of " + r.what(), problems);
-        return d instanceof Distribution.Texts t ? t.values() : List.of();
+        return d instanceof Distribution.OneOf o ? o.textValues() : List.of();
     }
 
     /** @return a number distribution, or null (reported) */
@@ -60,7 +60,7 @@ final class Distributions {
                     return null;
                 }
             }
-            return new Distribution.Numbers(values);
+            return new Distribution.OneOf(values);
         }
         List<String> local = new ArrayList<>();
         MappingReader r = new MappingReader(node, what, local);
@@ -95,7 +95,7 @@ final class Distributions {
                 return null;
             }
         }
-        return new Distribution.Texts(values);
+        return new Distribution.OneOf(values);
     }
 
     private static boolean isNumber(YamlNode.Scalar s) {

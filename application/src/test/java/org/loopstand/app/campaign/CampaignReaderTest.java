@@ -54,7 +54,7 @@ class CampaignReaderTest {
         assertThat(f.weight()).isEqualTo(2.0);
         assertThat(f.targets()).containsExactly("ridge-hydro-1", "ridge-steam-1");
         assertThat(f.startS()).isEqualTo(new Distribution.Uniform(10, 40));
-        assertThat(f.durationS()).isEqualTo(new Distribution.Numbers(List.of(20.0, 60.0)));
+        assertThat(f.durationS()).isEqualTo(new Distribution.OneOf(List.of(20.0, 60.0)));
         assertThat(f.parameters().get("delayMs")).isEqualTo(new Distribution.Uniform(2000, 9000));
         assertThat(spec.loadEvents().get(0).durationS()).isEqualTo(new Distribution.Uniform(40, 40));
         assertThat(spec.shrink()).isEqualTo(new CampaignSpec.Shrink(5, 24, 10));
