@@ -35,7 +35,7 @@ public final class CampaignCommand implements Callable<Integer> {
     @Option(names = "--runs", paramLabel = "N", description = "run count replacing the file's")
     Integer runs;
 
-    @Option(names = "--workers", paramLabel = "W", description = "worker threads (default: the machine's cores, ${DEFAULT-VALUE})",
+    @Option(names = "--workers", paramLabel = "W", description = "worker threads (default: the machine's cores)",
             defaultValue = "0", showDefaultValue = picocli.CommandLine.Help.Visibility.NEVER)
     int workers;
 

@@ -249,6 +249,12 @@ public final class CampaignReader {
             }
             Map<String, Distribution> params = new LinkedHashMap<>();
             if (type != null) {
+                for (String t : targets) {
+                    TargetCatalog.Resolution res = catalog.resolve(t, type.targetKinds());
+                    if (res.problem() != null) {
+                        problems.add(r.locationOf("targets") + ": fault " + type.name() + ": " + res.problem());
+                    }
+                }
                 parameters(type, paramNodes, problems, params);
                 if (problems.size() == before) {
                     probe(type, targets, params, catalog, r.locationOf("targets"), problems);

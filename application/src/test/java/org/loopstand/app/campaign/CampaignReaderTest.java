@@ -97,6 +97,10 @@ class CampaignReaderTest {
                     targets: []
                     startS: {min: 100, max: 20}
                     durationS: 20
+                  - type: ignorePulses
+                    targets: [ridge-hydro-7]
+                    startS: {min: 50, max: 10}
+                    durationS: 20
                   - type: commandDelay
                     targets: [ridge-hydro-1]
                     startS: {min: 0, max: 100}
@@ -110,10 +114,13 @@ class CampaignReaderTest {
 
         assertThat(p).anySatisfy(s -> assertThat(s).startsWith(dir.resolve("bad.yaml") + ":7:").contains("targets of fault is an empty list"));
         assertThat(p).anySatisfy(s -> assertThat(s).contains("bad.yaml:8:").contains("contradictory: min 100 is above max 20"));
-        assertThat(p).anySatisfy(s -> assertThat(s).contains("bad.yaml:13:").contains("a window can end at 160 s").contains("(150 s)"));
-        assertThat(p).anySatisfy(s -> assertThat(s).contains("bad.yaml:15:").contains("delayMs must lie in [0, 600000] ms, got 900000"));
-        assertThat(p).anySatisfy(s -> assertThat(s).contains("bad.yaml:18:").contains("deltaMw of load event is an empty list"));
-        assertThat(p).anySatisfy(s -> assertThat(s).contains("bad.yaml:18:").contains("atS 200 must lie in [0, 150) s"));
+        // an unknown target is named even beside a contradictory range of the same entry
+        assertThat(p).anySatisfy(s -> assertThat(s).contains("bad.yaml:11:").contains("unknown target 'ridge-hydro-7'"));
+        assertThat(p).anySatisfy(s -> assertThat(s).contains("bad.yaml:12:").contains("contradictory: min 50 is above max 10"));
+        assertThat(p).anySatisfy(s -> assertThat(s).contains("bad.yaml:17:").contains("a window can end at 160 s").contains("(150 s)"));
+        assertThat(p).anySatisfy(s -> assertThat(s).contains("bad.yaml:19:").contains("delayMs must lie in [0, 600000] ms, got 900000"));
+        assertThat(p).anySatisfy(s -> assertThat(s).contains("bad.yaml:22:").contains("deltaMw of load event is an empty list"));
+        assertThat(p).anySatisfy(s -> assertThat(s).contains("bad.yaml:22:").contains("atS 200 must lie in [0, 150) s"));
     }
 
     @Test
