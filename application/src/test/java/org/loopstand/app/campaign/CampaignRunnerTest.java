@@ -92,6 +92,42 @@ class CampaignRunnerTest {
     }
 
     @Test
+    void shouldGiveTheSameOutcomesOnOneWorkerAndOnTwo() throws Exception {
+        // runs on two threads at once share nothing: each run's outcomes, figures included, are those it gives alone
+        Path file = CampaignFiles.campaign(dir, "workers.yaml", """
+                runs: 4
+                masterSeed: 21
+                faultsPerRun: {min: 1, max: 2}
+                faults:
+                  - type: commandDelay
+                    targets: [ridge-hydro-1, ridge-steam-1]
+                    startS: {min: 0, max: 40}
+                    durationS: {min: 40, max: 100}
+                    parameters: {delayMs: {min: 3000, max: 12000}}
+                  - type: switchToLocal
+                    targets: [ridge-hydro-1, ridge-hydro-2]
+                    startS: {min: 0, max: 40}
+                    durationS: {min: 40, max: 100}
+                loadEventsPerRun: 1
+                loadEvents:
+                  - {type: loadStep, areas: [south-ridge], atS: {min: 20, max: 60}, deltaMw: {min: -30, max: 30}}
+                """);
+        CampaignSpec spec = CampaignReader.read(file, dir);
+        List<RunPlan> plans = CampaignExpander.of(spec).expand();
+        VirtualClock wall = new VirtualClock(WALL_MS);
+
+        CampaignRunner.Result one = new CampaignRunner(spec, plans, RunExecutor.LOCKSTEP, 1, wall, l -> { })
+                .run(Files.createDirectories(dir.resolve("one")), false);
+        CampaignRunner.Result two = new CampaignRunner(spec, plans, RunExecutor.LOCKSTEP, 2, wall, l -> { })
+                .run(Files.createDirectories(dir.resolve("two")), false);
+
+        assertThat(one.runs()).extracting(RunResult::status).doesNotContain(RunResult.Status.ERROR);
+        assertThat(two.runs()).extracting(RunResult::checks).isEqualTo(one.runs().stream().map(RunResult::checks).toList());
+        // not vacuous: the drawn faults reach the runs, which do not all come out alike
+        assertThat(one.runs()).extracting(r -> r.checks().get(0).decidingFigure()).doesNotHaveDuplicates();
+    }
+
+    @Test
     void shouldRecordARunThatThrowsWithItsSeedAndStackTraceAndGoOn() throws Exception {
         Path file = CampaignFiles.campaign(dir, "throws.yaml", """
                 runs: 4
