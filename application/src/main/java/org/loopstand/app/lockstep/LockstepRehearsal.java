@@ -81,9 +81,8 @@ public final class LockstepRehearsal {
      */
     public Outcome run(Path run) throws IOException {
         Grid grid = SiteLoader.loadForRun(siteFile, w -> { });
-        RunScenario loaded = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
-        Scenario scenario = seedOverride == null ? loaded.scenario() : loaded.scenario().withSeed(seedOverride);
-        RunScenario rs = new RunScenario(scenario, loaded.rateX(), loaded.faults(), loaded.checks());
+        RunScenario rs = scenario(grid);
+        Scenario scenario = rs.scenario();
         ControllerSiteConfig controllerSite = ControllerSiteReader.read(siteFile);
         JournalForwarder plantFaults = new JournalForwarder();
         RehearsalStudy.Result result = new RehearsalStudy(grid, rs, 1.0, c -> {
@@ -121,6 +120,35 @@ public final class LockstepRehearsal {
                 + " no network); wall-time figures in this report are not those of a real-time rehearsal.");
         ReportModel model = report(run, scenario, notes);
         return new Outcome(result.outcomes(), model, notes);
+    }
+
+    /**
+     * Runs the scenario to its end with the same plant, controller and bus but no journals, run folder or
+     * report: the checks alone, for campaigns of many runs. Everything it builds is its own, so runs on
+     * several threads of one JVM share no mutable state.
+     *
+     * @return the checks as the study decided them, in the scenario's order
+     * @throws IOException              when the site file cannot be read
+     * @throws IllegalArgumentException on a refused site, scenario or fault (the message names it)
+     */
+    public List<CheckOutcome> checksOnly() throws IOException {
+        Grid grid = SiteLoader.loadForRun(siteFile, w -> { });
+        RunScenario rs = scenario(grid);
+        ControllerSiteConfig controllerSite = ControllerSiteReader.read(siteFile);
+        return new RehearsalStudy(grid, rs, 1.0, c -> {
+            InMemoryBroker broker = new InMemoryBroker(c.clock(), DeliveryMode.DIRECT);
+            StudyPlant plant = StudyPlant.on(c, broker, StudyPlant.defaultOptions(c), false);
+            long now = c.clock().epochMillis();
+            InMemoryBus link = broker.connect(CONTROLLER_ID, ControllerAgent.offlineStatus(grid.siteId(), CONTROLLER_ID, now, now));
+            ControllerAgent controller = new ControllerAgent(controllerSite, link, c.clock(), null, CONTROLLER_ID, now, null, null);
+            return List.<Agent>of(plant, controller);
+        }, org.loopstand.plant.fault.FaultObserver.NONE).run().outcomes();
+    }
+
+    private RunScenario scenario(Grid grid) throws IOException {
+        RunScenario loaded = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
+        Scenario scenario = seedOverride == null ? loaded.scenario() : loaded.scenario().withSeed(seedOverride);
+        return new RunScenario(scenario, loaded.rateX(), loaded.faults(), loaded.checks());
     }
 
     private ReportModel report(Path run, Scenario scenario, List<String> notes) {

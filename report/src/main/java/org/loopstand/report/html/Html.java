@@ -1,12 +1,12 @@
 package org.loopstand.report.html;
 
 /** HTML text escaping. */
-final class Html {
+public final class Html {
     private Html() {
     }
 
     /** @return {@code text} safe inside an element or a quoted attribute */
-    static String esc(String text) {
+    public static String esc(String text) {
         if (text == null) {
             return "";
         }
