@@ -8,7 +8,7 @@ import java.util.concurrent.Callable;
 import org.loopstand.app.rehearsal.Rehearsal;
 import org.loopstand.app.rehearsal.VerdictLines;
 import org.loopstand.plant.check.CheckOutcome;
-import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.WallClock;
 import org.loopstand.report.model.ReportModel;

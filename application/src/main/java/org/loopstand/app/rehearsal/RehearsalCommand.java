@@ -158,7 +158,7 @@ public final class RehearsalCommand implements Callable<Integer> {
         } catch (IllegalArgumentException e) {
             System.err.println("rehearse: " + e.getMessage());
             return 2;
-        } catch (org.loopstand.plant.site.ConfigFileException e) {
+        } catch (org.loopstand.protocol.config.ConfigFileException e) {
             System.err.println("rehearse: the wire profile is refused:");
             System.err.println(e.getMessage());
             return 2;

@@ -17,7 +17,7 @@ import org.loopstand.plant.physics.SmallSignalStability;
 import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.RunScenario;
 import org.loopstand.plant.scenario.RunScenarioLoader;
-import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Model.CommandSpec;

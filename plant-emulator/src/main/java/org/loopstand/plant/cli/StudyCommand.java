@@ -9,7 +9,7 @@ import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.Scenario;
 import org.loopstand.plant.scenario.RunScenario;
 import org.loopstand.plant.scenario.RunScenarioLoader;
-import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.plant.study.ProgressReporter;
 import org.loopstand.plant.study.StudyResult;

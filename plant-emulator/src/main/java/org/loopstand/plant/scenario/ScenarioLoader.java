@@ -10,9 +10,9 @@ import java.util.List;
 import java.util.Optional;
 
 import org.loopstand.plant.grid.Grid;
-import org.loopstand.plant.site.ConfigFileException;
-import org.loopstand.plant.site.MappingReader;
-import org.loopstand.plant.site.YamlNode;
+import org.loopstand.protocol.config.ConfigFileException;
+import org.loopstand.protocol.config.MappingReader;
+import org.loopstand.protocol.config.YamlNode;
 
 /**
  * Reads a scenario file and checks it against the site: keys {@code site, durationS, seed,

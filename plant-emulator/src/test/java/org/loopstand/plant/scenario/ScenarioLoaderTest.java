@@ -8,7 +8,7 @@ import java.nio.file.Path;
 import java.util.Optional;
 
 import org.loopstand.plant.grid.Grid;
-import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
 import org.junit.jupiter.api.Test;
 

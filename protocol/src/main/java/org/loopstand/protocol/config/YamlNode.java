@@ -1,7 +1,11 @@
-package org.loopstand.plant.site;
+package org.loopstand.protocol.config;
 
 import java.io.IOException;
 import java.io.Reader;
+import java.io.StringReader;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -33,6 +37,33 @@ public sealed interface YamlNode permits YamlNode.Mapping, YamlNode.Sequence, Ya
 
     /** A plain value; {@code token} tells number, string, boolean or null apart. */
     record Scalar(SourceLocation location, String text, JsonToken token) implements YamlNode {
+    }
+
+    /**
+     * Reads one YAML file; the path as given is the file name in messages.
+     *
+     * @throws ConfigFileException when the file cannot be read, on a syntax error or a duplicate key
+     */
+    static YamlNode read(Path file) {
+        try (Reader r = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
+            return read(file.toString(), r);
+        } catch (IOException e) {
+            throw new ConfigFileException(List.of(file + ": cannot read: " + e));
+        }
+    }
+
+    /**
+     * Reads one YAML document from text.
+     *
+     * @param fileName shown in messages
+     * @throws ConfigFileException on a syntax error or a duplicate key, with the location
+     */
+    static YamlNode read(String fileName, String text) {
+        try {
+            return read(fileName, new StringReader(text));
+        } catch (IOException e) {
+            throw new ConfigFileException(List.of(fileName + ": cannot read: " + e));
+        }
     }
 
     /**
