@@ -2,15 +2,11 @@ package org.loopstand.plant.cli;
 
 import java.io.IOException;
 import java.io.PrintWriter;
-import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.concurrent.Callable;
-import java.util.regex.Matcher;
-import java.util.regex.Pattern;
 
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.physics.SmallSignalStability;
@@ -18,6 +14,7 @@ import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.RunScenario;
 import org.loopstand.plant.scenario.RunScenarioLoader;
 import org.loopstand.protocol.config.ConfigFileException;
+import org.loopstand.protocol.config.YamlNode;
 import org.loopstand.plant.site.SiteLoader;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Model.CommandSpec;
@@ -35,8 +32,6 @@ import picocli.CommandLine.Spec;
         description = "Validate site and scenario files without running them (site: load and stability screen;"
                 + " scenario: load against its site). Exit 0 all good, 2 on any refusal.")
 public final class CheckCommand implements Callable<Integer> {
-    private static final Pattern TOP_KEY = Pattern.compile("^([A-Za-z]+):\\s*([^#\\s]*)");
-
     @Parameters(arity = "1..*", paramLabel = "FILE", description = "site or scenario files (YAML)")
     private List<Path> files;
 
@@ -91,13 +86,11 @@ public final class CheckCommand implements Callable<Integer> {
         return false;
     }
 
-    private static Map<String, String> topKeys(Path file) throws IOException {
+    /** @return the top-level keys and their plain values (a list or mapping value reads as "") */
+    private static Map<String, String> topKeys(Path file) {
         Map<String, String> keys = new LinkedHashMap<>();
-        for (String line : Files.readAllLines(file, StandardCharsets.UTF_8)) {
-            Matcher m = TOP_KEY.matcher(line);
-            if (m.find()) {
-                keys.putIfAbsent(m.group(1), m.group(2).replaceAll("^[\"']|[\"']$", ""));
-            }
+        if (YamlNode.read(file) instanceof YamlNode.Mapping m) {
+            m.entries().keySet().forEach(k -> keys.put(k, m.text(k).orElse("")));
         }
         return keys;
     }

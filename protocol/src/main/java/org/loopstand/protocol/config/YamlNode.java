@@ -26,6 +26,22 @@ public sealed interface YamlNode permits YamlNode.Mapping, YamlNode.Sequence, Ya
 
     /** A mapping; keys keep file order. */
     record Mapping(SourceLocation location, Map<String, Entry> entries) implements YamlNode {
+        /** @return the text of a plain, non-null value under {@code key}, if there is one */
+        public java.util.Optional<String> text(String key) {
+            Entry e = entries.get(key);
+            return e != null && e.value() instanceof Scalar s && s.token() != JsonToken.VALUE_NULL
+                    ? java.util.Optional.of(s.text()) : java.util.Optional.empty();
+        }
+    }
+
+    /**
+     * The text of one top-level key of a YAML file, for a command that only needs to know which file
+     * to read next (the site a scenario names); the file itself is read and checked by its own reader.
+     *
+     * @throws ConfigFileException when the file cannot be read or is not valid YAML
+     */
+    static java.util.Optional<String> topLevelText(Path file, String key) {
+        return read(file) instanceof Mapping m ? m.text(key) : java.util.Optional.empty();
     }
 
     /** A key and its value; {@code keyLocation} is where the key is written. */
