@@ -98,7 +98,7 @@ public sealed interface YamlNode permits YamlNode.Mapping, YamlNode.Sequence, Ya
         } catch (JsonProcessingException e) {
             JsonLocation l = e.getLocation();
             String where = l == null ? fileName : fileName + ":" + l.getLineNr() + ":" + l.getColumnNr();
-            throw new ConfigFileException(List.of(where + ": not valid YAML: " + e.getOriginalMessage()));
+            throw new ConfigFileException(List.of(where + ": not valid YAML: " + e.getOriginalMessage().replace("\n", "; ")));
         }
     }
 
