@@ -70,11 +70,12 @@ public final class LockstepStudyCommand implements Callable<Integer> {
             err.println("study: scenario file " + scenarioFile + " does not exist");
             return 2;
         }
+        org.loopstand.protocol.config.OldKeys.SCENARIO.warn(scenarioFile, err::println);
         Path siteFile = site;
         if (siteFile == null) {
-            String id = Rehearsal.topValue(scenarioFile, "site");
+            String id = Rehearsal.scenarioSiteId(scenarioFile);
             if (id == null) {
-                err.println("study: scenario " + scenarioFile + " names no site (top-level 'site:'); give --site FILE");
+                err.println("study: scenario " + scenarioFile + " names no site (top-level 'siteId:'); give --site FILE");
                 return 2;
             }
             siteFile = home.resolve("config/sites/" + id + ".yaml");

@@ -361,6 +361,14 @@ public final class Rehearsal {
     }
 
     /**
+     * @return the site id a scenario names ({@code siteId:}, or the old spelling {@code site:}), or null
+     */
+    public static String scenarioSiteId(Path scenarioFile) {
+        String id = topValue(scenarioFile, "siteId");
+        return id != null ? id : topValue(scenarioFile, "site");
+    }
+
+    /**
      * @return the value of a top-level {@code key: value} of a YAML file, or null when it has none or is
      *         not valid YAML (its own reader then refuses it with the line)
      */

@@ -121,11 +121,12 @@ public final class RehearsalCommand implements Callable<Integer> {
             System.err.println("rehearse: scenario file " + scenarioFile + " does not exist");
             return 2;
         }
+        org.loopstand.protocol.config.OldKeys.SCENARIO.warn(scenarioFile, System.err::println);
         Path siteFile = site;
         if (siteFile == null) {
-            String id = Rehearsal.topValue(scenarioFile, "site");
+            String id = Rehearsal.scenarioSiteId(scenarioFile);
             if (id == null) {
-                System.err.println("rehearse: scenario " + scenarioFile + " names no site (top-level 'site:'); give --site FILE");
+                System.err.println("rehearse: scenario " + scenarioFile + " names no site (top-level 'siteId:'); give --site FILE");
                 return 2;
             }
             siteFile = home.resolve("config/sites/" + id + ".yaml");

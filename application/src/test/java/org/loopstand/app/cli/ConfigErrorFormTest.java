@@ -87,7 +87,7 @@ class ConfigErrorFormTest {
     void shouldNameAScenarioProblemInTheOneForm() throws Exception {
         Grid grid = SiteLoader.load(DEMO_SITE);
         Path scenario = write("scenario.yaml", """
-                site: demo-site
+                siteId: demo-site
                 durationS: 600
                 events:
                   - {atS: 30, type: loadStep, area: north-basin, deltaMw: 80}

@@ -14,6 +14,7 @@ import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.RunScenario;
 import org.loopstand.plant.scenario.RunScenarioLoader;
 import org.loopstand.protocol.config.ConfigFileException;
+import org.loopstand.protocol.config.OldKeys;
 import org.loopstand.protocol.config.YamlNode;
 import org.loopstand.plant.site.SiteLoader;
 import picocli.CommandLine.Command;
@@ -64,13 +65,16 @@ public final class CheckCommand implements Callable<Integer> {
     /** @return false when the file cannot be checked here */
     private boolean check(Path file, PrintWriter out) throws IOException {
         Map<String, String> top = topKeys(file);
-        if (top.containsKey("siteId")) {
+        boolean isScenario = top.containsKey("durationS") || top.containsKey("events") || top.containsKey("site");
+        if (top.containsKey("areas") || top.containsKey("siteId") && !isScenario) {
             Grid grid = SiteLoader.loadForRun(file, out::println);
             out.println(file + ": site " + grid.siteId() + " ok; " + SmallSignalStability.assess(grid).describe());
             return true;
         }
-        if (top.containsKey("site")) {
-            Path siteFile = site != null ? site : Path.of("config", "sites", top.get("site") + ".yaml");
+        if (isScenario) {
+            OldKeys.SCENARIO.warn(file, out::println);
+            String siteId = top.getOrDefault("siteId", top.get("site"));
+            Path siteFile = site != null ? site : Path.of("config", "sites", siteId + ".yaml");
             Grid grid = SiteLoader.loadForRun(siteFile, out::println);
             RunScenario scenario = RunScenarioLoader.load(file, EventTypeRegistry.physics(), grid);
             out.println(file + ": scenario ok against " + siteFile + " (" + scenario.scenario().events().size()
@@ -82,7 +86,7 @@ public final class CheckCommand implements Callable<Integer> {
                     + " ./loopstand pulse-test --plan FILE reads it and refuses it before any pulse is sent");
             return false;
         }
-        out.println(file + ":1:1: neither a site (top-level siteId:) nor a scenario (top-level site:)");
+        out.println(file + ":1:1: neither a site (top-level siteId: and areas:) nor a scenario (top-level siteId: and durationS:)");
         return false;
     }
 

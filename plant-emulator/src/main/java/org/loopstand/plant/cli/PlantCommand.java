@@ -141,6 +141,7 @@ public final class PlantCommand implements Callable<Integer> {
                 grid = grid.withoutLoadNoise();
             }
             if (scenarioFile != null) {
+                org.loopstand.protocol.config.OldKeys.SCENARIO.warn(scenarioFile, System.err::println);
                 rehearsal = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
                 scenario = rehearsal.scenario();
             }

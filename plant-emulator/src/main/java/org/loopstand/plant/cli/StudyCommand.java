@@ -51,6 +51,7 @@ public final class StudyCommand implements Callable<Integer> {
         try {
             Grid grid = SiteLoader.loadForRun(site, System.err::println);
             // one scenario format for every run: a rehearsal scenario's rate is unused here, its checks decided on the physics
+            org.loopstand.protocol.config.OldKeys.SCENARIO.warn(scenarioFile, System.err::println);
             RunScenario rehearsal = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
             Scenario scenario = rehearsal.scenario();
             if (durationS != null) {

@@ -47,6 +47,18 @@ class ScenarioLoaderTest {
     }
 
     @Test
+    void shouldNameTheSiteWithSiteIdAsTheSiteFileDoesAndStillTakeTheOldSpelling() throws Exception {
+        String now = "durationS: 10\nsiteId: demo-site\n";
+        assertThat(ScenarioLoader.load("n.yaml", new StringReader(now), EventTypeRegistry.physics(), demo()).siteId())
+                .isEqualTo("demo-site");
+        assertThat(ScenarioLoader.load("o.yaml", new StringReader("site: demo-site\ndurationS: 10\n"),
+                EventTypeRegistry.physics(), demo()).siteId()).isEqualTo("demo-site");
+        assertThatThrownBy(() -> ScenarioLoader.load("w.yaml", new StringReader(now.replace("demo-site", "elsewhere")),
+                EventTypeRegistry.physics(), demo()))
+                .hasMessage("w.yaml:2:1: the scenario is for site 'elsewhere' but the site file is 'demo-site'");
+    }
+
+    @Test
     void shouldAcceptEventTypesRegisteredByOthers() throws Exception {
         EventTypeRegistry registry = EventTypeRegistry.physics();
         registry.register("note", (at, keys) -> new ScenarioEvent() {

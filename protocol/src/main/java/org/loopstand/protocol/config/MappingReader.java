@@ -230,6 +230,22 @@ public final class MappingReader {
         return e == null ? Optional.empty() : Optional.of(e.value());
     }
 
+    /**
+     * For a key renamed in the format: both spellings are allowed, writing both is a problem.
+     * {@link OldKeys} tells the user about the old one.
+     *
+     * @return the spelling written, or {@code newKey} when neither is
+     */
+    public String renamedKey(String oldKey, String newKey) {
+        known.add(newKey);
+        known.add(oldKey);
+        boolean oldWritten = mapping.entries().containsKey(oldKey);
+        if (oldWritten && mapping.entries().containsKey(newKey)) {
+            fail(oldKey, "is the old spelling of " + newKey + "; write only " + newKey);
+        }
+        return oldWritten && !mapping.entries().containsKey(newKey) ? oldKey : newKey;
+    }
+
     /** Reports every key that was not asked for or allowed, with the closest known key as a hint. */
     public void finish() {
         for (Map.Entry<String, YamlNode.Entry> e : mapping.entries().entrySet()) {
