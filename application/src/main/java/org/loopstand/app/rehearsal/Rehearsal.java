@@ -360,18 +360,13 @@ public final class Rehearsal {
         return new Outcome(code, run, null, message);
     }
 
-    /**
-     * @return the site id a scenario names ({@code siteId:}, or the old spelling {@code site:}), or null
-     */
+    /** @return the site id a scenario names ({@code siteId:}, or the old spelling {@code site:}), or null */
     public static String scenarioSiteId(Path scenarioFile) {
         String id = topValue(scenarioFile, "siteId");
         return id != null ? id : topValue(scenarioFile, "site");
     }
 
-    /**
-     * @return the value of a top-level {@code key: value} of a YAML file, or null when it has none or is
-     *         not valid YAML (its own reader then refuses it with the line)
-     */
+    /** @return a top-level {@code key: value} of a YAML file, or null (also when not valid YAML: its reader says so) */
     public static String topValue(Path file, String key) {
         try {
             return YamlNode.topLevelText(file, key).orElse(null);

@@ -2,7 +2,6 @@ package org.loopstand.protocol.config;
 
 import java.nio.file.Path;
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.function.Consumer;
@@ -19,21 +18,15 @@ public final class OldKeys {
     /** A scenario names its site with {@code siteId:}, the key the site file itself uses. */
     public static final OldKeys SCENARIO = of("site", "siteId");
 
-    private final Map<String, String> newByOld = new LinkedHashMap<>();
+    private final Map<String, String> newByOld;
 
-    private OldKeys() {
+    private OldKeys(Map<String, String> newByOld) {
+        this.newByOld = newByOld;
     }
 
     /** @param oldAndNew pairs: old key, new key, … */
     public static OldKeys of(String... oldAndNew) {
-        if (oldAndNew.length % 2 != 0) {
-            throw new IllegalArgumentException("old and new keys come in pairs, got " + oldAndNew.length + " names");
-        }
-        OldKeys k = new OldKeys();
-        for (int i = 0; i < oldAndNew.length; i += 2) {
-            k.newByOld.put(oldAndNew[i], oldAndNew[i + 1]);
-        }
-        return k;
+        return new OldKeys(OldSpellings.pairs(oldAndNew));
     }
 
     /** @return one {@code FILE:LINE:COLUMN: deprecated: …} line per old top-level key of {@code root}, in file order */

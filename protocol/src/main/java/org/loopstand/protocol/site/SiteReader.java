@@ -62,22 +62,10 @@ public final class SiteReader {
         String siteId = site.requiredString("siteId");
         String description = site.optionalString("description", "");
         var controller = site.node("controller");
-        List<SiteFile.Area> areas = new ArrayList<>();
-        for (MappingReader r : site.mappings("areas", true, "area")) {
-            areas.add(area(r));
-        }
-        List<SiteFile.Tie> ties = new ArrayList<>();
-        for (MappingReader r : site.mappings("ties", false, "tie")) {
-            ties.add(tie(r));
-        }
-        List<SiteFile.Unit> units = new ArrayList<>();
-        for (MappingReader r : site.mappings("units", false, "unit")) {
-            units.add(unit(r));
-        }
-        List<SiteFile.Load> loads = new ArrayList<>();
-        for (MappingReader r : site.mappings("loads", false, "load")) {
-            loads.add(load(r));
-        }
+        List<SiteFile.Area> areas = site.mappings("areas", true, "area").stream().map(this::area).toList();
+        List<SiteFile.Tie> ties = site.mappings("ties", false, "tie").stream().map(this::tie).toList();
+        List<SiteFile.Unit> units = site.mappings("units", false, "unit").stream().map(this::unit).toList();
+        List<SiteFile.Load> loads = site.mappings("loads", false, "load").stream().map(this::load).toList();
         site.finish();
         return new SiteFile(siteId, description, areas, ties, units, loads, controller, site.locations());
     }
