@@ -4,7 +4,7 @@ import java.util.List;
 
 /**
  * A valid test plan that cannot be run on this unit from where it stands (a step would leave the
- * regulating range); each problem names the plan step's line. A plan file that cannot be read is a
+ * regulating range); each problem names the plan step as {@code file:line:column}. A plan file that cannot be read is a
  * {@link org.loopstand.protocol.config.ConfigFileException} instead.
  */
 public final class PlanException extends RuntimeException {
@@ -16,7 +16,7 @@ public final class PlanException extends RuntimeException {
         this.problems = List.copyOf(problems);
     }
 
-    /** @return each problem, naming the plan step's line */
+    /** @return each problem, naming the plan step as {@code file:line:column} */
     public List<String> problems() {
         return problems;
     }

@@ -109,7 +109,6 @@ public final class TestPlanLoader {
     }
 
     private static PlanStep step(MappingReader r) {
-        int line = r.location().line();
         String kindName = r.requiredString("kind");
         StepKind kind = StepKind.fromYaml(kindName);
         if (kind == null) {
@@ -150,7 +149,7 @@ public final class TestPlanLoader {
         }
         String label = r.optionalString("label", defaultLabel(kind, direction));
         r.finish();
-        return new PlanStep(kind, line, label, direction, size, count, Double.isNaN(durationS) ? 1 : durationS,
+        return new PlanStep(kind, r.location(), label, direction, size, count, Double.isNaN(durationS) ? 1 : durationS,
                 pulseMs);
     }
 
