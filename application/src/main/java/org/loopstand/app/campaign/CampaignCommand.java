@@ -7,7 +7,7 @@ import java.util.List;
 import java.util.concurrent.Callable;
 
 import org.loopstand.app.rehearsal.Rehearsal;
-import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.WallClock;
 import picocli.CommandLine.Command;

@@ -21,11 +21,11 @@ import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.RunScenario;
 import org.loopstand.plant.scenario.RunScenarioLoader;
-import org.loopstand.plant.site.ConfigFileException;
-import org.loopstand.plant.site.MappingReader;
+import org.loopstand.protocol.config.ConfigFileException;
+import org.loopstand.protocol.config.MappingReader;
 import org.loopstand.plant.site.SiteLoader;
-import org.loopstand.plant.site.SourceLocation;
-import org.loopstand.plant.site.YamlNode;
+import org.loopstand.protocol.config.SourceLocation;
+import org.loopstand.protocol.config.YamlNode;
 
 /**
  * Reads a campaign file (docs/campaigns.md) and checks it against its site, its base scenario and the

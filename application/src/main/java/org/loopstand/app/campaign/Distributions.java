@@ -4,8 +4,8 @@ import java.util.ArrayList;
 import java.util.List;
 
 import com.fasterxml.jackson.core.JsonToken;
-import org.loopstand.plant.site.MappingReader;
-import org.loopstand.plant.site.YamlNode;
+import org.loopstand.protocol.config.MappingReader;
+import org.loopstand.protocol.config.YamlNode;
 
 /**
  * Reads a {@link Distribution} from a campaign file: a number or text (that one value), a list (one of

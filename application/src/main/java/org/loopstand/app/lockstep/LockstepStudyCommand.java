@@ -8,7 +8,7 @@ import java.util.concurrent.Callable;
 import org.loopstand.app.rehearsal.Rehearsal;
 import org.loopstand.app.rehearsal.VerdictLines;
 import org.loopstand.plant.check.CheckOutcome;
-import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.WallClock;
 import org.loopstand.report.model.ReportModel;
@@ -70,11 +70,12 @@ public final class LockstepStudyCommand implements Callable<Integer> {
             err.println("study: scenario file " + scenarioFile + " does not exist");
             return 2;
         }
+        org.loopstand.protocol.config.OldKeys.SCENARIO.warn(scenarioFile, err::println);
         Path siteFile = site;
         if (siteFile == null) {
-            String id = Rehearsal.topValue(scenarioFile, "site");
+            String id = Rehearsal.scenarioSiteId(scenarioFile);
             if (id == null) {
-                err.println("study: scenario " + scenarioFile + " names no site (top-level 'site:'); give --site FILE");
+                err.println("study: scenario " + scenarioFile + " names no site (top-level 'siteId:'); give --site FILE");
                 return 2;
             }
             siteFile = home.resolve("config/sites/" + id + ".yaml");

@@ -3,7 +3,6 @@ package org.loopstand.app.rehearsal;
 import java.io.IOException;
 import java.io.PrintStream;
 import java.io.UncheckedIOException;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Instant;
@@ -17,13 +16,13 @@ import java.util.Map;
 import java.util.concurrent.CountDownLatch;
 import java.util.concurrent.TimeUnit;
 import java.util.concurrent.locks.LockSupport;
-import java.util.regex.Matcher;
-import java.util.regex.Pattern;
 
 import org.loopstand.plant.cli.PlantCli;
 import org.loopstand.plant.profile.ProfiledBus;
 import org.loopstand.plant.profile.WireProfileLoader;
 import org.loopstand.protocol.bus.MessageBus;
+import org.loopstand.protocol.config.ConfigFileException;
+import org.loopstand.protocol.config.YamlNode;
 import org.loopstand.protocol.bus.Qos;
 import org.loopstand.protocol.bus.mqtt.MqttLink;
 import org.loopstand.protocol.bus.mqtt.MqttLinkConfig;
@@ -46,7 +45,6 @@ public final class Rehearsal {
     public record Outcome(int exitCode, Path runFolder, Path report, String message) {
     }
 
-    private static final Pattern TOP_KEY = Pattern.compile("^(site|siteId|durationS|rateX):\\s*([^#\\s]+)");
 
     private final RehearsalSettings s;
     private final Clock wall;
@@ -362,18 +360,18 @@ public final class Rehearsal {
         return new Outcome(code, run, null, message);
     }
 
-    /** @return the value of a top-level {@code key: value} line of a YAML file, or null */
+    /** @return the site id a scenario names ({@code siteId:}, or the old spelling {@code site:}), or null */
+    public static String scenarioSiteId(Path scenarioFile) {
+        String id = topValue(scenarioFile, "siteId");
+        return id != null ? id : topValue(scenarioFile, "site");
+    }
+
+    /** @return a top-level {@code key: value} of a YAML file, or null (also when not valid YAML: its reader says so) */
     public static String topValue(Path file, String key) {
         try {
-            for (String line : Files.readAllLines(file, StandardCharsets.UTF_8)) {
-                Matcher m = TOP_KEY.matcher(line);
-                if (m.find() && m.group(1).equals(key)) {
-                    return m.group(2).replaceAll("^[\"']|[\"']$", "");
-                }
-            }
+            return YamlNode.topLevelText(file, key).orElse(null);
+        } catch (ConfigFileException e) {
             return null;
-        } catch (IOException e) {
-            throw new UncheckedIOException("cannot read " + file + ": " + e.getMessage(), e);
         }
     }
 

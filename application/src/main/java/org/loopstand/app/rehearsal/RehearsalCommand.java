@@ -121,11 +121,12 @@ public final class RehearsalCommand implements Callable<Integer> {
             System.err.println("rehearse: scenario file " + scenarioFile + " does not exist");
             return 2;
         }
+        org.loopstand.protocol.config.OldKeys.SCENARIO.warn(scenarioFile, System.err::println);
         Path siteFile = site;
         if (siteFile == null) {
-            String id = Rehearsal.topValue(scenarioFile, "site");
+            String id = Rehearsal.scenarioSiteId(scenarioFile);
             if (id == null) {
-                System.err.println("rehearse: scenario " + scenarioFile + " names no site (top-level 'site:'); give --site FILE");
+                System.err.println("rehearse: scenario " + scenarioFile + " names no site (top-level 'siteId:'); give --site FILE");
                 return 2;
             }
             siteFile = home.resolve("config/sites/" + id + ".yaml");
@@ -158,7 +159,7 @@ public final class RehearsalCommand implements Callable<Integer> {
         } catch (IllegalArgumentException e) {
             System.err.println("rehearse: " + e.getMessage());
             return 2;
-        } catch (org.loopstand.plant.site.ConfigFileException e) {
+        } catch (org.loopstand.protocol.config.ConfigFileException e) {
             System.err.println("rehearse: the wire profile is refused:");
             System.err.println(e.getMessage());
             return 2;

@@ -8,7 +8,7 @@ import java.util.List;
 
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
-import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.protocol.config.ConfigFileException;
 
 /** A campaign file is refused before any run, every problem at its file:line:column. */
 class CampaignReaderTest {

@@ -1,5 +1,7 @@
 package org.loopstand.controller.ace;
 
+import org.loopstand.protocol.site.AceConvention;
+
 import java.util.ArrayList;
 import java.util.List;
 import java.util.regex.Pattern;

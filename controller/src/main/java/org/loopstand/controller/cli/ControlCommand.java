@@ -5,7 +5,7 @@ import java.nio.file.Path;
 import java.util.Map;
 import java.util.concurrent.Callable;
 import java.util.concurrent.locks.LockSupport;
-import org.loopstand.controller.config.ControllerConfigException;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.controller.config.ControllerSiteConfig;
 import org.loopstand.controller.config.ControllerSiteReader;
 import org.loopstand.controller.pulsetest.safety.SafetyGate;
@@ -84,7 +84,7 @@ public final class ControlCommand implements Callable<Integer> {
         ControllerSiteConfig config;
         try {
             config = ControllerSiteReader.read(site);
-        } catch (ControllerConfigException e) {
+        } catch (ConfigFileException e) {
             System.err.println("control: the site file cannot be used:\n" + e.getMessage());
             return 2;
         }

@@ -5,7 +5,7 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 import java.util.concurrent.Callable;
-import org.loopstand.controller.config.ControllerConfigException;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.controller.config.ControllerSiteConfig;
 import org.loopstand.controller.config.ControllerSiteReader;
 import org.loopstand.controller.config.SiteUnit;
@@ -39,7 +39,7 @@ public final class DispatchCommand implements Callable<Integer> {
         try {
             System.out.print(render(ControllerSiteReader.read(site), demandMw, area));
             return 0;
-        } catch (ControllerConfigException | IllegalArgumentException e) {
+        } catch (ConfigFileException | IllegalArgumentException e) {
             System.err.println("dispatch: " + e.getMessage());
             return 2;
         } catch (InfeasibleDispatchException e) {

@@ -18,10 +18,10 @@ import org.loopstand.controller.pulsetest.PulseTestResult;
 import org.loopstand.controller.pulsetest.PulseTestRunFolder;
 import org.loopstand.controller.pulsetest.PulseTestRunner;
 import org.loopstand.controller.pulsetest.analysis.Judgement;
-import org.loopstand.controller.pulsetest.plan.PlanException;
 import org.loopstand.controller.pulsetest.plan.PlanLimits;
 import org.loopstand.controller.pulsetest.plan.TestPlan;
 import org.loopstand.controller.pulsetest.plan.TestPlanLoader;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.controller.pulsetest.programme.SiteUnitReader;
 import org.loopstand.controller.pulsetest.safety.KeyAbortSwitch;
 import org.loopstand.controller.pulsetest.safety.SafetyGate;
@@ -95,7 +95,7 @@ public final class PulseTestCommand implements Callable<Integer> {
         try {
             plan = TestPlanLoader.load(planFile);
             siteUnit = SiteUnitReader.read(site, unit);
-        } catch (PlanException | IllegalArgumentException e) {
+        } catch (ConfigFileException | IllegalArgumentException e) {
             System.err.println("pulse-test: " + e.getMessage());
             return 2;
         }

@@ -5,7 +5,7 @@ import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
-import org.loopstand.controller.ace.AceConvention;
+import org.loopstand.protocol.site.AceConvention;
 import org.loopstand.controller.ace.AreaControlSettings;
 import org.loopstand.controller.cycle.AreaSchedule;
 import org.loopstand.controller.cycle.AreaSetup;

@@ -1,6 +1,6 @@
 package org.loopstand.controller.config;
 
-import org.loopstand.controller.ace.AceConvention;
+import org.loopstand.protocol.site.AceConvention;
 
 /**
  * What the controller needs of one area.

@@ -1,5 +1,8 @@
 package org.loopstand.controller.pulse;
 
+import org.loopstand.protocol.message.PulseDirection;
+import org.loopstand.protocol.message.CommandKind;
+
 /**
  * A command the cycle wants sent; the integration step turns it into a wire command.
  *

@@ -1,5 +1,8 @@
 package org.loopstand.controller.pulse;
 
+import org.loopstand.protocol.message.PulseDirection;
+import org.loopstand.protocol.message.CommandKind;
+
 import org.loopstand.controller.allocation.UnitState;
 
 /**

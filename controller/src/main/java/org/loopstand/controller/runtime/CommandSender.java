@@ -4,9 +4,8 @@ import java.util.LinkedHashMap;
 import java.util.Locale;
 import java.util.Map;
 import java.util.Queue;
-import org.loopstand.controller.pulse.CommandKind;
+import org.loopstand.protocol.message.CommandKind;
 import org.loopstand.controller.pulse.PlannedCommand;
-import org.loopstand.controller.pulse.PulseDirection;
 import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.OutboundMessage;
 import org.loopstand.protocol.bus.Qos;
@@ -63,8 +62,7 @@ final class CommandSender {
         long seq = ++commandSeq;
         UnitCommand cmd = c.kind() == CommandKind.PULSE
                 ? UnitCommand.pulse(seq, nowMs, c.unitId(), controllerId, epoch, c.validUntilMs(),
-                        c.direction() == PulseDirection.RAISE ? org.loopstand.protocol.message.PulseDirection.RAISE
-                                : org.loopstand.protocol.message.PulseDirection.LOWER, c.durationMs())
+                        c.direction(), c.durationMs())
                 : UnitCommand.setpoint(seq, nowMs, c.unitId(), controllerId, epoch, c.validUntilMs(), c.setpointMw());
         if (signer != null) {
             try {

@@ -5,7 +5,8 @@ import static org.assertj.core.api.Assertions.assertThatThrownBy;
 
 import java.nio.file.Path;
 import org.junit.jupiter.api.Test;
-import org.loopstand.controller.ace.AceConvention;
+import org.loopstand.protocol.config.ConfigFileException;
+import org.loopstand.protocol.site.AceConvention;
 import org.loopstand.controller.following.GovernorResponse;
 
 class ControllerSiteReaderTest {
@@ -67,8 +68,8 @@ class ControllerSiteReaderTest {
         ControllerSiteConfig off = ControllerSiteReader.read("off.yaml", site.formatted("frozenAfterMs: 0"));
         assertThat(off.settings().frequency().frozenAfterMs()).isZero();
         assertThatThrownBy(() -> ControllerSiteReader.read("old.yaml", site.formatted("frozenCount: 12")))
-                .isInstanceOf(ControllerConfigException.class)
-                .satisfies(e -> assertThat(((ControllerConfigException) e).problems())
+                .isInstanceOf(ConfigFileException.class)
+                .satisfies(e -> assertThat(((ConfigFileException) e).problems())
                         .anySatisfy(p -> assertThat(p).startsWith("old.yaml:8:").contains("frozenCount", "frozenAfterMs")));
     }
 
@@ -81,8 +82,8 @@ class ControllerSiteReaderTest {
         assertThat(c.settings().following().probeIntervalMs()).isEqualTo(90_000);
         assertThat(c.settings().following().probeMw()).isEqualTo(7.5);
         assertThatThrownBy(() -> ControllerSiteReader.read("bad.yaml", site.formatted("10")))
-                .isInstanceOf(ControllerConfigException.class)
-                .satisfies(e -> assertThat(((ControllerConfigException) e).problems())
+                .isInstanceOf(ConfigFileException.class)
+                .satisfies(e -> assertThat(((ConfigFileException) e).problems())
                         .anySatisfy(p -> assertThat(p).contains("probeIntervalMs")));
     }
 
@@ -103,13 +104,17 @@ class ControllerSiteReaderTest {
                 controller:
                   cycleS: 20
                   regulaton: {kp: 1}
-                """)).isInstanceOf(ControllerConfigException.class).satisfies(e -> {
-                    ControllerConfigException x = (ControllerConfigException) e;
-                    assertThat(x.problems()).anySatisfy(p -> assertThat(p).startsWith("bad.yaml:3").contains("B = -34"));
-                    assertThat(x.problems()).anySatisfy(p -> assertThat(p).startsWith("bad.yaml:7").contains("biasMwPer01Hz"));
-                    assertThat(x.problems()).anySatisfy(p -> assertThat(p).startsWith("bad.yaml:11").contains("nowhere"));
-                    assertThat(x.problems()).anySatisfy(p -> assertThat(p).startsWith("bad.yaml:13").contains("[1, 10]"));
-                    assertThat(x.problems()).anySatisfy(p -> assertThat(p).startsWith("bad.yaml:14").contains("regulaton"));
+                """)).isInstanceOf(ConfigFileException.class).satisfies(e -> {
+                    ConfigFileException x = (ConfigFileException) e;
+                    assertThat(x.problems()).anySatisfy(p -> assertThat(p).startsWith("bad.yaml:3:").contains("B = -34"));
+                    assertThat(x.problems()).anySatisfy(p -> assertThat(p).startsWith("bad.yaml:7:").contains("biasMwPer01Hz"));
+                    assertThat(x.problems()).anySatisfy(p -> assertThat(p).startsWith("bad.yaml:11:").contains("nowhere"));
+                    assertThat(x.problems()).anySatisfy(p -> assertThat(p).startsWith("bad.yaml:13:").contains("[1, 10]"));
+                    assertThat(x.problems()).anySatisfy(p -> assertThat(p).startsWith("bad.yaml:14:").contains("regulaton"));
+                    // one form for every config file: file:line:column: message
+                    assertThat(x.problems()).allSatisfy(p -> assertThat(p).matches("bad\\.yaml:\\d+:\\d+: .*"));
+                    assertThat(x.problems()).anySatisfy(p -> assertThat(p)
+                            .startsWith("bad.yaml:13:3: cycleS of controller = 20 is outside [1, 10]"));
                 });
     }
 }

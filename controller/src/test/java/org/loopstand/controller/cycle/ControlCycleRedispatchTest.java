@@ -12,7 +12,7 @@ import org.loopstand.controller.allocation.UnitState;
 import org.loopstand.controller.dispatch.QuadraticCostUnit;
 import org.loopstand.controller.following.FollowingSettings;
 import org.loopstand.controller.intake.ValidatedValue;
-import org.loopstand.controller.pulse.CommandKind;
+import org.loopstand.protocol.message.CommandKind;
 import org.loopstand.controller.pulse.PlannedCommand;
 import org.loopstand.controller.pulse.PulseSettings;
 import org.loopstand.controller.regulation.RegulationSettings;

@@ -13,7 +13,7 @@ import org.loopstand.controller.following.FollowingSettings;
 import org.loopstand.controller.intake.ValidatedValue;
 import org.loopstand.controller.intake.ValidationReason;
 import org.loopstand.controller.pulse.PlannedCommand;
-import org.loopstand.controller.pulse.PulseDirection;
+import org.loopstand.protocol.message.PulseDirection;
 import org.loopstand.controller.pulse.PulseSettings;
 import org.loopstand.controller.regulation.AceBand;
 import org.loopstand.controller.regulation.RegulationSettings;

@@ -1,5 +1,8 @@
 package org.loopstand.controller.pulse;
 
+import org.loopstand.protocol.message.PulseDirection;
+import org.loopstand.protocol.message.CommandKind;
+
 import static org.assertj.core.api.Assertions.assertThat;
 
 import org.junit.jupiter.api.Test;

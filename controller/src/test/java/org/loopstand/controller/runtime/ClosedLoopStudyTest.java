@@ -7,7 +7,7 @@ import java.nio.file.Path;
 import org.junit.jupiter.api.Test;
 import org.loopstand.controller.config.ControllerSiteConfig;
 import org.loopstand.controller.config.ControllerSiteReader;
-import org.loopstand.plant.grid.AceConvention;
+import org.loopstand.protocol.site.AceConvention;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.grid.GridBuilder;
 import org.loopstand.plant.physics.GridSimulator;

@@ -5,8 +5,8 @@ import static org.assertj.core.api.Assertions.assertThat;
 import org.junit.jupiter.api.Test;
 import org.loopstand.controller.pulse.PlannedCommand;
 import org.loopstand.protocol.message.AckOutcome;
-import org.loopstand.controller.pulse.CommandKind;
-import org.loopstand.controller.pulse.PulseDirection;
+import org.loopstand.protocol.message.CommandKind;
+import org.loopstand.protocol.message.PulseDirection;
 import org.loopstand.protocol.message.CommandAck;
 
 class SentCommandsTest {

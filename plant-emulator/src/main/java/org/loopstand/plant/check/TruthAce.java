@@ -1,6 +1,6 @@
 package org.loopstand.plant.check;
 
-import org.loopstand.plant.grid.AceConvention;
+import org.loopstand.protocol.site.AceConvention;
 import org.loopstand.plant.grid.Area;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.grid.TieLine;

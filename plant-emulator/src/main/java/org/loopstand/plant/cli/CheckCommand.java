@@ -2,22 +2,20 @@ package org.loopstand.plant.cli;
 
 import java.io.IOException;
 import java.io.PrintWriter;
-import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.concurrent.Callable;
-import java.util.regex.Matcher;
-import java.util.regex.Pattern;
 
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.physics.SmallSignalStability;
 import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.RunScenario;
 import org.loopstand.plant.scenario.RunScenarioLoader;
-import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.protocol.config.ConfigFileException;
+import org.loopstand.protocol.config.OldKeys;
+import org.loopstand.protocol.config.YamlNode;
 import org.loopstand.plant.site.SiteLoader;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Model.CommandSpec;
@@ -35,8 +33,6 @@ import picocli.CommandLine.Spec;
         description = "Validate site and scenario files without running them (site: load and stability screen;"
                 + " scenario: load against its site). Exit 0 all good, 2 on any refusal.")
 public final class CheckCommand implements Callable<Integer> {
-    private static final Pattern TOP_KEY = Pattern.compile("^([A-Za-z]+):\\s*([^#\\s]*)");
-
     @Parameters(arity = "1..*", paramLabel = "FILE", description = "site or scenario files (YAML)")
     private List<Path> files;
 
@@ -69,13 +65,16 @@ public final class CheckCommand implements Callable<Integer> {
     /** @return false when the file cannot be checked here */
     private boolean check(Path file, PrintWriter out) throws IOException {
         Map<String, String> top = topKeys(file);
-        if (top.containsKey("siteId")) {
+        boolean isScenario = top.containsKey("durationS") || top.containsKey("events") || top.containsKey("site");
+        if (top.containsKey("areas") || top.containsKey("siteId") && !isScenario) {
             Grid grid = SiteLoader.loadForRun(file, out::println);
             out.println(file + ": site " + grid.siteId() + " ok; " + SmallSignalStability.assess(grid).describe());
             return true;
         }
-        if (top.containsKey("site")) {
-            Path siteFile = site != null ? site : Path.of("config", "sites", top.get("site") + ".yaml");
+        if (isScenario) {
+            OldKeys.SCENARIO.warn(file, out::println);
+            String siteId = top.getOrDefault("siteId", top.get("site"));
+            Path siteFile = site != null ? site : Path.of("config", "sites", siteId + ".yaml");
             Grid grid = SiteLoader.loadForRun(siteFile, out::println);
             RunScenario scenario = RunScenarioLoader.load(file, EventTypeRegistry.physics(), grid);
             out.println(file + ": scenario ok against " + siteFile + " (" + scenario.scenario().events().size()
@@ -87,17 +86,15 @@ public final class CheckCommand implements Callable<Integer> {
                     + " ./loopstand pulse-test --plan FILE reads it and refuses it before any pulse is sent");
             return false;
         }
-        out.println(file + ":1:1: neither a site (top-level siteId:) nor a scenario (top-level site:)");
+        out.println(file + ":1:1: neither a site (top-level siteId: and areas:) nor a scenario (top-level siteId: and durationS:)");
         return false;
     }
 
-    private static Map<String, String> topKeys(Path file) throws IOException {
+    /** @return the top-level keys and their plain values (a list or mapping value reads as "") */
+    private static Map<String, String> topKeys(Path file) {
         Map<String, String> keys = new LinkedHashMap<>();
-        for (String line : Files.readAllLines(file, StandardCharsets.UTF_8)) {
-            Matcher m = TOP_KEY.matcher(line);
-            if (m.find()) {
-                keys.putIfAbsent(m.group(1), m.group(2).replaceAll("^[\"']|[\"']$", ""));
-            }
+        if (YamlNode.read(file) instanceof YamlNode.Mapping m) {
+            m.entries().keySet().forEach(k -> keys.put(k, m.text(k).orElse("")));
         }
         return keys;
     }

@@ -36,7 +36,7 @@ import org.loopstand.plant.scenario.RunScenario;
 import org.loopstand.plant.scenario.RunScenarioLoader;
 import org.loopstand.plant.check.RunRecord;
 import org.loopstand.plant.runtime.FaultHooks;
-import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.plant.runtime.UnitHost;
 import org.loopstand.protocol.security.AuthOptions;
@@ -141,6 +141,7 @@ public final class PlantCommand implements Callable<Integer> {
                 grid = grid.withoutLoadNoise();
             }
             if (scenarioFile != null) {
+                org.loopstand.protocol.config.OldKeys.SCENARIO.warn(scenarioFile, System.err::println);
                 rehearsal = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
                 scenario = rehearsal.scenario();
             }

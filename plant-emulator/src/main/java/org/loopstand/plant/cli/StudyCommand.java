@@ -9,7 +9,7 @@ import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.Scenario;
 import org.loopstand.plant.scenario.RunScenario;
 import org.loopstand.plant.scenario.RunScenarioLoader;
-import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.plant.study.ProgressReporter;
 import org.loopstand.plant.study.StudyResult;
@@ -51,6 +51,7 @@ public final class StudyCommand implements Callable<Integer> {
         try {
             Grid grid = SiteLoader.loadForRun(site, System.err::println);
             // one scenario format for every run: a rehearsal scenario's rate is unused here, its checks decided on the physics
+            org.loopstand.protocol.config.OldKeys.SCENARIO.warn(scenarioFile, System.err::println);
             RunScenario rehearsal = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
             Scenario scenario = rehearsal.scenario();
             if (durationS != null) {

@@ -8,7 +8,7 @@ import java.util.concurrent.CountDownLatch;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.runtime.LinkFactory;
 import org.loopstand.plant.runtime.UnitProcess;
-import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.security.AuthOptions;

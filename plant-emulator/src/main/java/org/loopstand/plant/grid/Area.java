@@ -1,5 +1,7 @@
 package org.loopstand.plant.grid;
 
+import org.loopstand.protocol.site.AceConvention;
+
 /**
  * A control area lumped into one inertia: {@code M dΔf/dt = ΣPm − Pload − D·Δf − ΣPtie,out} with
  * {@code M = 2·H·S/f0}.

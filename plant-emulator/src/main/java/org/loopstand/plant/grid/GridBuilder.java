@@ -1,5 +1,7 @@
 package org.loopstand.plant.grid;
 
+import org.loopstand.protocol.site.AceConvention;
+
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.LinkedHashMap;

@@ -10,7 +10,7 @@ import org.loopstand.plant.check.TruthAce;
 import org.loopstand.plant.fault.FaultEngine;
 import org.loopstand.plant.fault.FaultSpec;
 import org.loopstand.plant.fault.FaultTarget;
-import org.loopstand.plant.grid.AceConvention;
+import org.loopstand.protocol.site.AceConvention;
 import org.loopstand.plant.grid.Area;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.grid.TieLine;

@@ -19,9 +19,9 @@ import java.util.Set;
 import java.util.regex.Matcher;
 import java.util.regex.Pattern;
 
-import org.loopstand.plant.site.ConfigFileException;
-import org.loopstand.plant.site.MappingReader;
-import org.loopstand.plant.site.YamlNode;
+import org.loopstand.protocol.config.ConfigFileException;
+import org.loopstand.protocol.config.MappingReader;
+import org.loopstand.protocol.config.YamlNode;
 import org.loopstand.protocol.topic.TopicKind;
 
 /**

@@ -4,7 +4,7 @@ import java.util.LinkedHashMap;
 import java.util.Map;
 import java.util.Set;
 
-import org.loopstand.plant.site.MappingReader;
+import org.loopstand.protocol.config.MappingReader;
 
 /**
  * Maps an event's {@code type} in a scenario file to the parser that reads the rest of its keys.

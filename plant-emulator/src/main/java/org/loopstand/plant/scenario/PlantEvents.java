@@ -4,7 +4,7 @@ import java.util.Locale;
 import java.util.Optional;
 
 import org.loopstand.plant.grid.Grid;
-import org.loopstand.plant.site.MappingReader;
+import org.loopstand.protocol.config.MappingReader;
 import org.loopstand.protocol.message.ControlMode;
 
 /**

@@ -21,15 +21,15 @@ import org.loopstand.plant.fault.FaultLibrary;
 import org.loopstand.plant.fault.FaultSpec;
 import org.loopstand.plant.fault.TargetCatalog;
 import org.loopstand.plant.grid.Grid;
-import org.loopstand.plant.site.MappingReader;
-import org.loopstand.plant.site.SourceLocation;
-import org.loopstand.plant.site.YamlNode;
+import org.loopstand.protocol.config.MappingReader;
+import org.loopstand.protocol.config.SourceLocation;
+import org.loopstand.protocol.config.YamlNode;
 
 /**
  * Reads a whole rehearsal scenario: the physics keys of {@link ScenarioLoader} plus {@code rateX},
  * {@code faults:} and {@code checks:}. A fault is {@code {id, type, targets | target, startS, endS |
  * durationS, <its parameters>}}; a check is {@code {name, type, <its parameters>}} where {@code after}
- * names an event type or a fault id. Every problem is reported as {@code file:line:column: what} (a {@link org.loopstand.plant.site.ConfigFileException}):
+ * names an event type or a fault id. Every problem is reported as {@code file:line:column: what} (a {@link org.loopstand.protocol.config.ConfigFileException}):
  * unknown types, targets, parameters, times past the run's end, contradictory overlapping faults.
  */
 public final class RunScenarioLoader {

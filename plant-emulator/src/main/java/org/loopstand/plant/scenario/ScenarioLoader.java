@@ -10,12 +10,13 @@ import java.util.List;
 import java.util.Optional;
 
 import org.loopstand.plant.grid.Grid;
-import org.loopstand.plant.site.ConfigFileException;
-import org.loopstand.plant.site.MappingReader;
-import org.loopstand.plant.site.YamlNode;
+import org.loopstand.protocol.config.ConfigFileException;
+import org.loopstand.protocol.config.MappingReader;
+import org.loopstand.protocol.config.YamlNode;
 
 /**
- * Reads a scenario file and checks it against the site: keys {@code site, durationS, seed,
+ * Reads a scenario file and checks it against the site: keys {@code siteId} (the old spelling
+ * {@code site} still accepted, see {@link org.loopstand.protocol.config.OldKeys#SCENARIO}), {@code durationS, seed,
  * startHourOfDay, traceIntervalS, stepS, events}; each event has {@code atS}, {@code type} and the
  * type's own keys. Every problem is reported as {@code file:line:column: what}.
  */
@@ -52,9 +53,10 @@ public final class ScenarioLoader {
             throws IOException {
         List<String> problems = new ArrayList<>();
         MappingReader top = new MappingReader(YamlNode.read(fileName, reader), "the scenario", problems);
-        String site = top.requiredString("site");
+        String siteKey = top.renamedKey("site", "siteId"); // OldKeys.SCENARIO tells about the old spelling
+        String site = top.requiredString(siteKey);
         if (site != null && !site.equals(grid.siteId())) {
-            problems.add(top.locationOf("site") + ": the scenario is for site '" + site + "' but the site file is '"
+            problems.add(top.locationOf(siteKey) + ": the scenario is for site '" + site + "' but the site file is '"
                     + grid.siteId() + "'");
         }
         double durationS = top.requiredDouble("durationS");

@@ -2,39 +2,41 @@ package org.loopstand.plant.site;
 
 import java.io.IOException;
 import java.io.Reader;
-import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.function.Consumer;
+import java.util.function.DoubleConsumer;
 
-import org.loopstand.plant.grid.AceConvention;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.grid.GridBuilder;
 import org.loopstand.plant.grid.GridProblem;
 import org.loopstand.plant.grid.GridValidationException;
 import org.loopstand.plant.grid.UnitSpec;
 import org.loopstand.plant.physics.SmallSignalStability;
+import org.loopstand.protocol.config.ConfigFileException;
+import org.loopstand.protocol.config.KeyLocations;
+import org.loopstand.protocol.config.YamlNode;
+import org.loopstand.protocol.site.SiteFile;
+import org.loopstand.protocol.site.SiteReader;
+import org.loopstand.protocol.site.SiteUse;
 
 /**
- * Reads a site file (YAML, see docs/physics.md for the keys) into a {@link Grid}. Unknown keys, missing
- * or mistyped values and every check of {@link GridBuilder#build()} are reported together, each as
- * {@code file:line:column: what is wrong}, in one {@link ConfigFileException}.
+ * The plant's view of a site file: reads it with the shared {@link SiteReader} (for {@link SiteUse#PHYSICS})
+ * and builds its {@link Grid}. The reader's problems and every check of {@link GridBuilder#build()} are
+ * reported together, each as {@code file:line:column: what is wrong}, in one {@link ConfigFileException}.
  */
 public final class SiteLoader {
     private final List<String> problems = new ArrayList<>();
-    private final Map<String, MappingReader> readersBySubject = new HashMap<>();
+    private final Map<String, KeyLocations> placesBySubject = new HashMap<>();
 
     private SiteLoader() {
     }
 
     public static Grid load(Path file) throws IOException {
-        try (Reader r = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
-            return load(file.toString(), r);
-        }
+        return new SiteLoader().build(YamlNode.read(file));
     }
 
     /**
@@ -58,151 +60,89 @@ public final class SiteLoader {
 
     /** @param fileName used in messages only */
     public static Grid load(String fileName, Reader reader) throws IOException {
-        return new SiteLoader().read(YamlNode.read(fileName, reader));
+        return new SiteLoader().build(YamlNode.read(fileName, reader));
     }
 
-    private Grid read(YamlNode root) {
-        MappingReader site = new MappingReader(root, "the site", problems);
-        readersBySubject.put("site", site);
-        GridBuilder b = new GridBuilder(site.requiredString("siteId"));
-        site.optionalString("description", "");
-        site.allow("controller"); // the controller's own section, read by the controller
-        for (YamlNode n : site.sequence("areas", true)) {
-            readArea(b, n);
-        }
-        for (YamlNode n : site.sequence("ties", false)) {
-            readTie(b, n);
-        }
-        for (YamlNode n : site.sequence("units", false)) {
-            readUnit(b, n);
-        }
-        for (YamlNode n : site.sequence("loads", false)) {
-            readLoad(b, n);
-        }
-        site.finish();
+    private Grid build(YamlNode root) {
+        SiteFile site = SiteReader.read(root, SiteUse.PHYSICS, problems);
+        placesBySubject.put("site", site.where());
+        GridBuilder b = new GridBuilder(site.siteId());
+        site.areas().forEach(a -> area(b, a));
+        site.ties().forEach(t -> tie(b, t));
+        site.units().forEach(u -> unit(b, u));
+        site.loads().forEach(l -> load(b, l));
         Grid grid = null;
         try {
             grid = b.build();
         } catch (GridValidationException e) {
             for (GridProblem p : e.problems()) {
-                MappingReader r = readersBySubject.getOrDefault(p.subject(), site);
-                if (!r.failed(p.field())) {
-                    problems.add(r.locationOf(p.field()) + ": " + p);
+                KeyLocations at = placesBySubject.getOrDefault(p.subject(), site.where());
+                if (!at.failed(p.field())) {
+                    problems.add(at.of(p.field()) + ": " + p);
                 }
             }
         }
-        if (!problems.isEmpty()) {
-            throw new ConfigFileException(problems);
-        }
+        ConfigFileException.throwIfAny(problems);
         return grid;
     }
 
-    private MappingReader reader(YamlNode n, String kind) {
-        String id = n instanceof YamlNode.Mapping m && m.entries().get("id") != null
-                && m.entries().get("id").value() instanceof YamlNode.Scalar s ? s.text() : "?";
-        MappingReader r = new MappingReader(n, kind + " " + id, problems);
-        readersBySubject.put(kind + " " + id, r);
-        return r;
-    }
-
-    private void readArea(GridBuilder b, YamlNode n) {
-        MappingReader r = reader(n, "area");
-        var a = b.area(r.requiredString("id"))
-                .nominalFrequencyHz(r.requiredDouble("nominalFrequencyHz"))
-                .ratingMva(r.requiredDouble("ratingMva"))
-                .inertiaS(r.requiredDouble("inertiaS"))
-                .dampingMwPerHz(r.requiredDouble("dampingMwPerHz"))
-                .biasMwPer01Hz(r.optionalDouble("biasMwPer01Hz", Double.NaN))
-                .kMwPerHz(r.optionalDouble("kMwPerHz", Double.NaN));
-        String convention = r.optionalString("aceConvention", "european");
-        switch (convention) {
-            case "european" -> a.aceConvention(AceConvention.EUROPEAN);
-            case "northAmerican" -> a.aceConvention(AceConvention.NORTH_AMERICAN);
-            default -> r.fail("aceConvention", "must be 'european' or 'northAmerican', got '" + convention + "'");
+    private void area(GridBuilder b, SiteFile.Area a) {
+        placesBySubject.put("area " + a.id(), a.where());
+        var spec = b.area(a.id()).nominalFrequencyHz(a.nominalFrequencyHz()).ratingMva(a.ratingMva())
+                .inertiaS(a.inertiaS()).dampingMwPerHz(a.dampingMwPerHz()).biasMwPer01Hz(a.biasMwPer01Hz())
+                .kMwPerHz(a.kMwPerHz());
+        if (a.aceConvention() != null) {
+            spec.aceConvention(a.aceConvention());
         }
-        r.finish();
     }
 
-    private void readTie(GridBuilder b, YamlNode n) {
-        MappingReader r = reader(n, "tie");
-        var t = b.tie(r.requiredString("id"), r.requiredString("fromArea"), r.requiredString("toArea"))
-                .scheduledFlowMw(r.optionalDouble("scheduledFlowMw", 0.0));
-        boolean direct = r.has("synchronizingMwPerRad");
-        boolean viaReactance = r.has("reactancePu");
-        if (direct == viaReactance) {
-            problems.add(r.location() + ": " + r.what() + " needs exactly one of synchronizingMwPerRad or "
-                    + "reactancePu (with baseMva and initialAngleDiffDeg)");
-            r.optionalDouble("synchronizingMwPerRad", 0);
-            r.optionalDouble("reactancePu", 0);
-            r.optionalDouble("baseMva", 0);
-            r.optionalDouble("initialAngleDiffDeg", 0);
-        } else if (direct) {
-            t.synchronizingMwPerRad(r.requiredDouble("synchronizingMwPerRad"));
-        } else {
-            double x = r.requiredDouble("reactancePu");
-            double base = r.requiredDouble("baseMva");
-            double angle = r.optionalDouble("initialAngleDiffDeg", 0.0);
-            if (!(x > 0) || !(base > 0) || !(Math.abs(angle) < 90)) {
-                problems.add(r.locationOf("reactancePu") + ": " + r.what() + " needs reactancePu > 0, baseMva > 0 and "
-                        + "|initialAngleDiffDeg| < 90, got " + x + ", " + base + ", " + angle);
-            }
-            t.fromReactance(x, base, angle);
+    private void tie(GridBuilder b, SiteFile.Tie t) {
+        placesBySubject.put("tie " + t.id(), t.where());
+        var spec = b.tie(t.id(), t.fromArea(), t.toArea()).scheduledFlowMw(t.scheduledFlowMw());
+        boolean viaReactance = !Double.isNaN(t.reactancePu());
+        if (t.direct() && !viaReactance) {
+            spec.synchronizingMwPerRad(t.synchronizingMwPerRad());
+        } else if (viaReactance && !t.direct()) {
+            spec.fromReactance(t.reactancePu(), t.baseMva(), t.initialAngleDiffDeg());
         }
-        r.finish();
     }
 
-    private void readUnit(GridBuilder b, YamlNode n) {
-        MappingReader r = reader(n, "unit");
-        UnitSpec u = b.unit(r.requiredString("id"), r.requiredString("area"))
-                .ratingMw(r.requiredDouble("ratingMw"))
-                .droopPct(r.requiredDouble("droopPct"))
-                .governorTimeConstantS(r.requiredDouble("governorTimeConstantS"))
-                .deadBandHz(r.optionalDouble("deadBandHz", 0.0))
-                .raiseRateMwPerMin(r.optionalDouble("raiseRateMwPerMin", Double.POSITIVE_INFINITY))
-                .lowerRateMwPerMin(r.optionalDouble("lowerRateMwPerMin", Double.POSITIVE_INFINITY))
-                .online(r.optionalBoolean("online", true))
-                .tripTimeConstantS(r.optionalDouble("tripTimeConstantS", 0.5))
-                .acceptsSetpoints(r.optionalBoolean("acceptsSetpoints", true))
-                .cost(r.optionalDouble("costA", 0), r.optionalDouble("costB", 0), r.optionalDouble("costC", 0));
-        optional(r, "minOutputMw", u::minOutputMw);
-        optional(r, "maxOutputMw", u::maxOutputMw);
-        optional(r, "initialOutputMw", u::initialOutputMw);
-        optional(r, "regulatingMinMw", u::regulatingMinMw);
-        optional(r, "regulatingMaxMw", u::regulatingMaxMw);
-        optional(r, "rampMwPerMin", u::rampMwPerMin);
-        optional(r, "pulseRateMwPerMin", u::pulseRateMwPerMin);
-        String turbine = r.requiredString("turbine");
-        if (turbine != null) {
-            switch (turbine) {
-                case "nonReheat" -> u.nonReheat(r.requiredDouble("turbineTimeConstantS"));
-                case "reheat" -> u.reheat(r.requiredDouble("steamChestTimeConstantS"),
-                        r.requiredDouble("reheatTimeConstantS"), r.requiredDouble("hpFraction"));
-                case "hydro" -> u.hydro(r.requiredDouble("waterStartingTimeS"),
-                        r.optionalDouble("transientDroopPct", Double.NaN), r.optionalDouble("resetTimeS", 0.0));
-                default -> {
-                    r.fail("turbine", "must be nonReheat, reheat or hydro, got '" + turbine + "'");
-                    r.allow("turbineTimeConstantS", "steamChestTimeConstantS", "reheatTimeConstantS", "hpFraction",
-                            "waterStartingTimeS", "transientDroopPct", "resetTimeS");
-                }
+    private void unit(GridBuilder b, SiteFile.Unit u) {
+        placesBySubject.put("unit " + u.id(), u.where());
+        UnitSpec spec = b.unit(u.id(), u.areaId()).ratingMw(u.ratingMw()).droopPct(u.droopPct())
+                .governorTimeConstantS(u.governorTimeConstantS()).deadBandHz(u.deadBandHz())
+                .raiseRateMwPerMin(u.raiseRateMwPerMin()).lowerRateMwPerMin(u.lowerRateMwPerMin())
+                .online(u.online()).tripTimeConstantS(u.tripTimeConstantS()).acceptsSetpoints(u.acceptsSetpoints())
+                .cost(u.cost().a(), u.cost().b(), u.cost().c());
+        SiteFile.Limits l = u.limits();
+        ifWritten(l.minOutputMw(), spec::minOutputMw);
+        ifWritten(l.maxOutputMw(), spec::maxOutputMw);
+        ifWritten(l.initialOutputMw(), spec::initialOutputMw);
+        ifWritten(l.regulatingMinMw(), spec::regulatingMinMw);
+        ifWritten(l.regulatingMaxMw(), spec::regulatingMaxMw);
+        ifWritten(l.rampMwPerMin(), spec::rampMwPerMin);
+        ifWritten(l.pulseRateMwPerMin(), spec::pulseRateMwPerMin);
+        SiteFile.Turbine t = u.turbine();
+        if (t.kind() != null) {
+            switch (t.kind()) {
+                case NON_REHEAT -> spec.nonReheat(t.turbineTimeConstantS());
+                case REHEAT -> spec.reheat(t.steamChestTimeConstantS(), t.reheatTimeConstantS(), t.hpFraction());
+                case HYDRO -> spec.hydro(t.waterStartingTimeS(), t.transientDroopPct(), t.resetTimeS());
             }
         }
-        r.finish();
     }
 
-    private void readLoad(GridBuilder b, YamlNode n) {
-        MappingReader r = reader(n, "load");
-        b.load(r.requiredString("id"), r.requiredString("area"))
-                .baseMw(r.requiredDouble("baseMw"))
-                .dailyShapePu(r.optionalDoubles("dailyShapePu"))
-                .noise(r.optionalDouble("noiseSigmaMw", 0.0), r.optionalDouble("noiseTauS", 60.0))
-                .frequencySensitivityPctPerPct(r.optionalDouble("frequencySensitivityPctPerPct", 0.0));
-        r.finish();
+    private void load(GridBuilder b, SiteFile.Load l) {
+        placesBySubject.put("load " + l.id(), l.where());
+        b.load(l.id(), l.areaId()).baseMw(l.baseMw()).dailyShapePu(l.dailyShapePu())
+                .noise(l.noiseSigmaMw(), l.noiseTauS())
+                .frequencySensitivityPctPerPct(l.frequencySensitivityPctPerPct());
     }
 
-    private static void optional(MappingReader r, String key, java.util.function.DoubleConsumer setter) {
-        if (r.has(key)) {
-            setter.accept(r.optionalDouble(key, Double.NaN));
+    /** An absent figure (NaN) leaves the builder's own default, derived from the unit's other figures. */
+    private static void ifWritten(double v, DoubleConsumer setter) {
+        if (!Double.isNaN(v)) {
+            setter.accept(v);
         }
     }
-
 }

@@ -10,7 +10,7 @@ import java.util.Map;
 import org.junit.jupiter.api.Test;
 import org.loopstand.plant.fault.FaultSpec.Problem;
 import org.loopstand.plant.fault.TargetCatalog;
-import org.loopstand.plant.grid.AceConvention;
+import org.loopstand.protocol.site.AceConvention;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.grid.GridBuilder;
 import org.loopstand.plant.physics.GridSimulator;

@@ -10,7 +10,7 @@ import java.util.List;
 
 import org.hipparchus.complex.Complex;
 import org.junit.jupiter.api.Test;
-import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
 
 class SmallSignalStabilityTest {

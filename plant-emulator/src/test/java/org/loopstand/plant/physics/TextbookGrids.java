@@ -1,6 +1,6 @@
 package org.loopstand.plant.physics;
 
-import org.loopstand.plant.grid.AceConvention;
+import org.loopstand.protocol.site.AceConvention;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.grid.GridBuilder;
 

@@ -14,7 +14,7 @@ import org.loopstand.plant.check.CheckOutcome;
 import org.loopstand.plant.check.RunRecord;
 import org.loopstand.plant.fault.FaultObserver;
 import org.loopstand.plant.grid.Grid;
-import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.plant.study.RehearsalStudy;
 import org.loopstand.plant.study.StudyPlant;

@@ -15,7 +15,7 @@ import org.loopstand.plant.fault.FaultSpec;
 import org.loopstand.plant.fault.FaultTarget;
 import org.loopstand.plant.fault.TargetKind;
 import org.loopstand.plant.grid.Grid;
-import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
 
 class RunScenarioLoaderTest {

@@ -8,7 +8,7 @@ import java.nio.file.Path;
 import java.util.Optional;
 
 import org.loopstand.plant.grid.Grid;
-import org.loopstand.plant.site.ConfigFileException;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
 import org.junit.jupiter.api.Test;
 
@@ -44,6 +44,18 @@ class ScenarioLoaderTest {
                 .isInstanceOf(ConfigFileException.class)
                 .hasMessageContaining("s.yaml:1:1: the scenario is for site 'other-site' but the site file is 'demo-site'")
                 .hasMessageContaining("s.yaml:4:5: unitTrip event: unknown unit 'nowhere-1'");
+    }
+
+    @Test
+    void shouldNameTheSiteWithSiteIdAsTheSiteFileDoesAndStillTakeTheOldSpelling() throws Exception {
+        String now = "durationS: 10\nsiteId: demo-site\n";
+        assertThat(ScenarioLoader.load("n.yaml", new StringReader(now), EventTypeRegistry.physics(), demo()).siteId())
+                .isEqualTo("demo-site");
+        assertThat(ScenarioLoader.load("o.yaml", new StringReader("site: demo-site\ndurationS: 10\n"),
+                EventTypeRegistry.physics(), demo()).siteId()).isEqualTo("demo-site");
+        assertThatThrownBy(() -> ScenarioLoader.load("w.yaml", new StringReader(now.replace("demo-site", "elsewhere")),
+                EventTypeRegistry.physics(), demo()))
+                .hasMessage("w.yaml:2:1: the scenario is for site 'elsewhere' but the site file is 'demo-site'");
     }
 
     @Test

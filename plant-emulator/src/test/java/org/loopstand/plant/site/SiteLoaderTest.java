@@ -8,6 +8,7 @@ import java.io.StringReader;
 import java.nio.file.Path;
 
 import org.loopstand.plant.grid.Grid;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.junit.jupiter.api.Test;
 
 class SiteLoaderTest {

@@ -18,6 +18,7 @@ import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.RunScenario;
 import org.loopstand.plant.scenario.RunScenarioLoader;
 import org.loopstand.plant.site.SiteLoader;
+import org.loopstand.protocol.config.YamlNode;
 import org.loopstand.protocol.time.VirtualClock;
 
 /**
@@ -34,8 +35,7 @@ class OneScenarioFormatTest {
     }
 
     private static Grid siteOf(Path scenario) throws Exception {
-        String site = Files.readAllLines(scenario).stream().filter(l -> l.startsWith("site:")).findFirst().orElseThrow()
-                .substring("site:".length()).trim();
+        String site = YamlNode.topLevelText(scenario, "siteId").orElseThrow();
         return SiteLoader.load(CONFIG.resolve("sites/" + site + ".yaml"));
     }
 

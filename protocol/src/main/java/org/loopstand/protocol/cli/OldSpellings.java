@@ -24,14 +24,21 @@ public final class OldSpellings {
 
     /** @param oldAndNew pairs: old spelling, new spelling, … */
     public static OldSpellings of(String... oldAndNew) {
+        OldSpellings s = new OldSpellings();
+        s.newByOld.putAll(pairs(oldAndNew));
+        return s;
+    }
+
+    /** @return the new name by the old one, from pairs old, new, … (also for renamed keys of files) */
+    public static Map<String, String> pairs(String... oldAndNew) {
         if (oldAndNew.length % 2 != 0) {
             throw new IllegalArgumentException("old and new spellings come in pairs, got " + oldAndNew.length + " names");
         }
-        OldSpellings s = new OldSpellings();
+        Map<String, String> newByOld = new LinkedHashMap<>();
         for (int i = 0; i < oldAndNew.length; i += 2) {
-            s.newByOld.put(oldAndNew[i], oldAndNew[i + 1]);
+            newByOld.put(oldAndNew[i], oldAndNew[i + 1]);
         }
-        return s;
+        return newByOld;
     }
 
     /** @return one line per old spelling among {@code args} ({@code --old} or {@code --old=value}), in order */

@@ -2,7 +2,11 @@ package org.loopstand.controller.pulsetest.plan;
 
 import java.util.List;
 
-/** A test plan that cannot be used; lists every problem found, each as {@code file:line: what is wrong}. */
+/**
+ * A valid test plan that cannot be run on this unit from where it stands (a step would leave the
+ * regulating range); each problem names the plan step as {@code file:line:column}. A plan file that cannot be read is a
+ * {@link org.loopstand.protocol.config.ConfigFileException} instead.
+ */
 public final class PlanException extends RuntimeException {
     private final List<String> problems;
 
@@ -12,7 +16,7 @@ public final class PlanException extends RuntimeException {
         this.problems = List.copyOf(problems);
     }
 
-    /** @return each problem, {@code file:line: message} */
+    /** @return each problem, naming the plan step as {@code file:line:column} */
     public List<String> problems() {
         return problems;
     }

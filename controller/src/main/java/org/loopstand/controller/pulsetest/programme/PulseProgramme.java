@@ -41,7 +41,7 @@ public record PulseProgramme(UnitDeclaration unit, double startMw, List<Programm
      * @param plan    the plan
      * @param unit    the unit's declared data
      * @param startMw output when the test starts, MW (must lie in the regulating range)
-     * @throws PlanException when a step would leave the regulating range (naming the step's line)
+     * @throws PlanException when a step would leave the regulating range (naming the step as file:line:column)
      */
     public static PulseProgramme expand(TestPlan plan, UnitDeclaration unit, double startMw) {
         return new Expander(plan, unit, startMw).run();
@@ -187,7 +187,7 @@ public record PulseProgramme(UnitDeclaration unit, double startMw, List<Programm
         }
 
         private void problem(PlanStep step, String message) {
-            problems.add("plan step at line " + step.line() + " (" + step.label() + "): " + message);
+            problems.add(step.at() + ": plan step " + step.label() + ": " + message);
         }
 
         private static long totalMs(List<TimedPulse> pulses) {

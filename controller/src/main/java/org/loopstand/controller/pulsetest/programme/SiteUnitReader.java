@@ -1,20 +1,20 @@
 package org.loopstand.controller.pulsetest.programme;
 
-import com.fasterxml.jackson.databind.JsonNode;
-import com.fasterxml.jackson.databind.ObjectMapper;
-import com.fasterxml.jackson.dataformat.yaml.YAMLFactory;
-import java.io.IOException;
 import java.nio.file.Path;
 import org.loopstand.controller.following.GovernorResponse;
 import org.loopstand.controller.pulsetest.governor.GovernorSpec;
+import org.loopstand.protocol.config.ConfigFileException;
+import org.loopstand.protocol.config.KeyLocations;
+import org.loopstand.protocol.site.SiteFile;
+import org.loopstand.protocol.site.SiteReader;
+import org.loopstand.protocol.site.SiteUse;
 
 /**
- * Reads one unit's declared figures and the site id from a site file (docs/physics.md). Only the keys
- * the pulse test needs are read; the plant's own loader validates the rest of the file.
+ * The pulse test's view of a site file, read with the shared {@link SiteReader} (for
+ * {@link SiteUse#PHYSICS}: the test removes the governor's answer, so it needs the physics figures):
+ * one unit's declared figures, its governor and the site id.
  */
 public final class SiteUnitReader {
-    private static final ObjectMapper YAML = new ObjectMapper(new YAMLFactory());
-
     /**
      * @param siteId   the site's id (topic root)
      * @param unit     the unit's declaration; regulating limits default to the output limits when absent
@@ -26,33 +26,26 @@ public final class SiteUnitReader {
     private SiteUnitReader() {
     }
 
-    /** @throws IllegalArgumentException naming the file and what is missing */
+    /**
+     * @throws ConfigFileException      naming every problem of the site file with file:line:column
+     * @throws IllegalArgumentException when the site has no such unit
+     */
     public static SiteUnit read(Path siteFile, String unitId) {
-        JsonNode root;
-        try {
-            root = YAML.readTree(siteFile.toFile());
-        } catch (IOException e) {
-            throw new IllegalArgumentException(siteFile + ": cannot read the site file: " + e.getMessage(), e);
+        SiteFile site = SiteReader.read(siteFile, SiteUse.PHYSICS);
+        SiteFile.Unit u = site.unit(unitId).orElseThrow(() -> new IllegalArgumentException(siteFile
+                + ": no unit '" + unitId + "' in units (units: " + site.units().stream().map(SiteFile.Unit::id).toList()
+                + ")"));
+        SiteFile.Limits l = u.limits();
+        double min = l.regulatingLowMw(Double.NaN);
+        double max = l.regulatingHighMw(Double.NaN);
+        KeyLocations where = u.where();
+        if (Double.isNaN(min) || Double.isNaN(max) || Double.isNaN(l.rampMwPerMin()) || Double.isNaN(l.pulseRateMwPerMin())) {
+            throw new ConfigFileException(java.util.List.of(where.problem("needs regulatingMinMw (or minOutputMw), "
+                    + "regulatingMaxMw (or maxOutputMw), rampMwPerMin and pulseRateMwPerMin for a pulse test")));
         }
-        if (root == null || !root.path("siteId").isTextual()) {
-            throw new IllegalArgumentException(siteFile + ": no siteId");
-        }
-        for (JsonNode u : root.path("units")) {
-            if (unitId.equals(u.path("id").asText())) {
-                double min = number(u, "regulatingMinMw", number(u, "minOutputMw", Double.NaN, siteFile), siteFile);
-                double max = number(u, "regulatingMaxMw", number(u, "maxOutputMw", Double.NaN, siteFile), siteFile);
-                double ramp = number(u, "rampMwPerMin", Double.NaN, siteFile);
-                double pulse = number(u, "pulseRateMwPerMin", Double.NaN, siteFile);
-                if (Double.isNaN(min) || Double.isNaN(max) || Double.isNaN(ramp) || Double.isNaN(pulse)) {
-                    throw new IllegalArgumentException(siteFile + ": unit " + unitId + " lacks one of regulatingMinMw/"
-                            + "minOutputMw, regulatingMaxMw/maxOutputMw, rampMwPerMin, pulseRateMwPerMin");
-                }
-                return new SiteUnit(root.get("siteId").asText(),
-                        new UnitDeclaration(unitId, min, max, ramp, pulse, "site file " + siteFile),
-                        governor(root, u, siteFile));
-            }
-        }
-        throw new IllegalArgumentException(siteFile + ": no unit '" + unitId + "' in units");
+        return new SiteUnit(site.siteId(),
+                new UnitDeclaration(unitId, min, max, l.rampMwPerMin(), l.pulseRateMwPerMin(), "site file " + siteFile),
+                governor(site, u));
     }
 
     /**
@@ -60,54 +53,32 @@ public final class SiteUnitReader {
      * governor + steam chest, the rest also through the reheater; non-reheat = governor + turbine; hydro
      * = governor + the transient-droop lag (Rt/R × Tr), which holds the answer back at first.
      */
-    private static GovernorSpec governor(JsonNode root, JsonNode u, Path file) {
-        double droopPct = number(u, "droopPct", Double.NaN, file);
-        double ratingMw = number(u, "ratingMw", Double.NaN, file);
-        String area = u.path("area").asText("");
-        double nominalHz = Double.NaN;
-        for (JsonNode a : root.path("areas")) {
-            if (area.equals(a.path("id").asText())) {
-                nominalHz = number(a, "nominalFrequencyHz", 50, file);
-            }
-        }
-        if (!(droopPct > 0) || !(ratingMw > 0) || Double.isNaN(nominalHz)) {
+    private static GovernorSpec governor(SiteFile site, SiteFile.Unit u) {
+        double droopPct = u.droopPct();
+        double nominalHz = site.area(u.areaId()).map(SiteFile.Area::nominalFrequencyHz).orElse(Double.NaN);
+        if (!(droopPct > 0) || !(u.ratingMw() > 0) || Double.isNaN(nominalHz)) {
             return null;
         }
-        double gainMwPerHz = GovernorResponse.mwPerHz(ratingMw, droopPct, nominalHz);
-        double governorS = number(u, "governorTimeConstantS", 0, file);
-        String turbine = u.path("turbine").asText("");
+        double gainMwPerHz = GovernorResponse.mwPerHz(u.ratingMw(), droopPct, nominalHz);
+        SiteFile.Turbine t = u.turbine();
         double fastShare = 1;
-        double fastLagS = governorS;
+        double fastLagS = u.governorTimeConstantS();
         double slowLagS = 0;
-        switch (turbine) {
-            case "reheat" -> {
-                fastShare = number(u, "hpFraction", 0.3, file);
-                fastLagS += number(u, "steamChestTimeConstantS", 0, file);
-                slowLagS = number(u, "reheatTimeConstantS", 0, file);
+        switch (t.kind()) {
+            case REHEAT -> {
+                fastShare = t.hpFraction();
+                fastLagS += t.steamChestTimeConstantS();
+                slowLagS = t.reheatTimeConstantS();
             }
-            case "nonReheat" -> fastLagS += number(u, "turbineTimeConstantS", 0, file);
-            case "hydro" -> fastLagS += number(u, "transientDroopPct", 0, file) / droopPct
-                    * number(u, "resetTimeS", 0, file);
-            default -> {
-                // unknown turbine: governor lag only
-            }
+            case NON_REHEAT -> fastLagS += t.turbineTimeConstantS();
+            case HYDRO -> fastLagS += (Double.isNaN(t.transientDroopPct()) ? 0 : t.transientDroopPct()) / droopPct
+                    * t.resetTimeS();
         }
         try {
-            return new GovernorSpec(area, nominalHz, gainMwPerHz, number(u, "deadBandHz", 0, file), fastShare,
-                    fastLagS, slowLagS);
+            return new GovernorSpec(u.areaId(), nominalHz, gainMwPerHz, u.deadBandHz(), fastShare, fastLagS, slowLagS);
         } catch (IllegalArgumentException e) {
-            throw new IllegalArgumentException(file + ": unit " + u.path("id").asText() + ": " + e.getMessage(), e);
+            throw new ConfigFileException(java.util.List.of(u.where().problem("has a governor the pulse test cannot use: "
+                    + e.getMessage())));
         }
-    }
-
-    private static double number(JsonNode u, String key, double fallback, Path file) {
-        JsonNode n = u.get(key);
-        if (n == null) {
-            return fallback;
-        }
-        if (!n.isNumber()) {
-            throw new IllegalArgumentException(file + ": unit " + u.path("id").asText() + "." + key + " is not a number");
-        }
-        return n.asDouble();
     }
 }

@@ -5,6 +5,7 @@ import static org.assertj.core.api.Assertions.catchThrowableOfType;
 
 import java.nio.file.Path;
 import org.junit.jupiter.api.Test;
+import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.protocol.message.PulseDirection;
 
 class TestPlanLoaderTest {
@@ -37,8 +38,8 @@ class TestPlanLoaderTest {
                     stepMw: 2
                     cuont: 3
                 """;
-        PlanException e = catchThrowableOfType(PlanException.class, () -> TestPlanLoader.parse(yaml, "t.yaml"));
-        assertThat(e.problems()).singleElement().asString().startsWith("t.yaml:7: unknown key 'cuont' in steps[0]");
+        ConfigFileException e = catchThrowableOfType(ConfigFileException.class, () -> TestPlanLoader.parse(yaml, "t.yaml"));
+        assertThat(e.problems()).singleElement().asString().startsWith("t.yaml:7:5: unknown key 'cuont' in steps[0] (did you mean 'count'?)");
     }
 
     @Test
@@ -54,18 +55,20 @@ class TestPlanLoaderTest {
                     stepPct: 1
                   - kind: jump
                 """;
-        PlanException e = catchThrowableOfType(PlanException.class, () -> TestPlanLoader.parse(yaml, "t.yaml"));
-        assertThat(e.problems()).anyMatch(s -> s.startsWith("t.yaml:1: plan.limits is missing"))
-                .anyMatch(s -> s.startsWith("t.yaml:3: tolerances.gainPct = -3.0 is outside"))
-                .anyMatch(s -> s.startsWith("t.yaml:6: steps[0].direction 'up' must be raise or lower"))
-                .anyMatch(s -> s.startsWith("t.yaml:5: steps[0] needs exactly one of stepMw or stepPct"))
-                .anyMatch(s -> s.startsWith("t.yaml:9: steps[1].kind 'jump' is unknown"));
+        ConfigFileException e = catchThrowableOfType(ConfigFileException.class, () -> TestPlanLoader.parse(yaml, "t.yaml"));
+        assertThat(e.problems()).containsExactly(
+                "t.yaml:1:1: the plan is missing 'limits'",
+                "t.yaml:3:3: gainPct of tolerances = -3 is outside (0, 1000]",
+                "t.yaml:5:5: steps[0] needs exactly one of stepMw or stepPct",
+                "t.yaml:6:5: direction of steps[0] must be raise or lower, got 'up'",
+                "t.yaml:9:5: kind of steps[1] 'jump' is unknown (one of hold, staircase, rampToLimit, shortPulses,"
+                        + " reversal)");
     }
 
     @Test
     void shouldReportYamlSyntaxErrorsWithTheirLine() {
-        PlanException e = catchThrowableOfType(PlanException.class,
+        ConfigFileException e = catchThrowableOfType(ConfigFileException.class,
                 () -> TestPlanLoader.parse("name: t\nsteps: [\n  - a: b\n", "bad.yaml"));
-        assertThat(e.getMessage()).startsWith("bad.yaml:").contains("YAML syntax error");
+        assertThat(e.getMessage()).startsWith("bad.yaml:").contains("not valid YAML");
     }
 }

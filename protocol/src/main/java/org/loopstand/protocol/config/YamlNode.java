@@ -1,7 +1,11 @@
-package org.loopstand.plant.site;
+package org.loopstand.protocol.config;
 
 import java.io.IOException;
 import java.io.Reader;
+import java.io.StringReader;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -22,6 +26,22 @@ public sealed interface YamlNode permits YamlNode.Mapping, YamlNode.Sequence, Ya
 
     /** A mapping; keys keep file order. */
     record Mapping(SourceLocation location, Map<String, Entry> entries) implements YamlNode {
+        /** @return the text of a plain, non-null value under {@code key}, if there is one */
+        public java.util.Optional<String> text(String key) {
+            Entry e = entries.get(key);
+            return e != null && e.value() instanceof Scalar s && s.token() != JsonToken.VALUE_NULL
+                    ? java.util.Optional.of(s.text()) : java.util.Optional.empty();
+        }
+    }
+
+    /**
+     * The text of one top-level key of a YAML file, for a command that only needs to know which file
+     * to read next (the site a scenario names); the file itself is read and checked by its own reader.
+     *
+     * @throws ConfigFileException when the file cannot be read or is not valid YAML
+     */
+    static java.util.Optional<String> topLevelText(Path file, String key) {
+        return read(file) instanceof Mapping m ? m.text(key) : java.util.Optional.empty();
     }
 
     /** A key and its value; {@code keyLocation} is where the key is written. */
@@ -33,6 +53,33 @@ public sealed interface YamlNode permits YamlNode.Mapping, YamlNode.Sequence, Ya
 
     /** A plain value; {@code token} tells number, string, boolean or null apart. */
     record Scalar(SourceLocation location, String text, JsonToken token) implements YamlNode {
+    }
+
+    /**
+     * Reads one YAML file; the path as given is the file name in messages.
+     *
+     * @throws ConfigFileException when the file cannot be read, on a syntax error or a duplicate key
+     */
+    static YamlNode read(Path file) {
+        try (Reader r = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
+            return read(file.toString(), r);
+        } catch (IOException e) {
+            throw new ConfigFileException(List.of(file + ": cannot read: " + e));
+        }
+    }
+
+    /**
+     * Reads one YAML document from text.
+     *
+     * @param fileName shown in messages
+     * @throws ConfigFileException on a syntax error or a duplicate key, with the location
+     */
+    static YamlNode read(String fileName, String text) {
+        try {
+            return read(fileName, new StringReader(text));
+        } catch (IOException e) {
+            throw new ConfigFileException(List.of(fileName + ": cannot read: " + e));
+        }
     }
 
     /**
@@ -51,7 +98,7 @@ public sealed interface YamlNode permits YamlNode.Mapping, YamlNode.Sequence, Ya
         } catch (JsonProcessingException e) {
             JsonLocation l = e.getLocation();
             String where = l == null ? fileName : fileName + ":" + l.getLineNr() + ":" + l.getColumnNr();
-            throw new ConfigFileException(List.of(where + ": not valid YAML: " + e.getOriginalMessage()));
+            throw new ConfigFileException(List.of(where + ": not valid YAML: " + e.getOriginalMessage().replace("\n", "; ")));
         }
     }
 

@@ -1,3 +1,0 @@
-package org.loopstand.controller.pulse;
-
-public enum CommandKind { PULSE, SETPOINT }
