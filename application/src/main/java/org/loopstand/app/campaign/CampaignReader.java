@@ -58,7 +58,7 @@ public final class CampaignReader {
     private CampaignSpec read(Path file, YamlNode root) throws IOException {
         MappingReader top = new MappingReader(root, "campaign", problems);
         Path dir = file.toAbsolutePath().getParent();
-        String siteId = top.requiredString("site");
+        String siteId = top.requiredString("siteId");
         String siteFileText = top.optionalString("siteFile", null);
         String scenarioText = top.requiredString("scenario");
         long runs = top.optionalLong("runs", 100);
@@ -93,7 +93,7 @@ public final class CampaignReader {
         Path siteFile = siteFileText != null ? dir.resolve(siteFileText).normalize() : siteFileFor(dir, siteId);
         Path scenarioFile = dir.resolve(scenarioText).normalize();
         if (!Files.isRegularFile(siteFile)) {
-            problems.add(top.locationOf(siteFileText != null ? "siteFile" : "site") + ": site file " + siteFile + " does not exist");
+            problems.add(top.locationOf(siteFileText != null ? "siteFile" : "siteId") + ": site file " + siteFile + " does not exist");
         }
         if (!Files.isRegularFile(scenarioFile)) {
             problems.add(top.locationOf("scenario") + ": scenario file " + scenarioFile + " does not exist");
@@ -103,7 +103,7 @@ public final class CampaignReader {
         }
         Grid grid = SiteLoader.loadForRun(siteFile, w -> { });
         if (!grid.siteId().equals(siteId)) {
-            problems.add(top.locationOf("site") + ": site '" + siteId + "' but " + siteFile + " is site '" + grid.siteId() + "'");
+            problems.add(top.locationOf("siteId") + ": site '" + siteId + "' but " + siteFile + " is site '" + grid.siteId() + "'");
         }
         RunScenario base = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
         if (!base.scenario().siteId().equals(grid.siteId())) {

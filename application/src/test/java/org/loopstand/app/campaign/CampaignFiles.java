@@ -14,7 +14,7 @@ final class CampaignFiles {
      * area to move, the area's ACE stays tens of MW off to the end and both checks fail.
      */
     static final String SHORT_SCENARIO = """
-            site: demo-site
+            siteId: demo-site
             durationS: 150
             seed: 5
             startHourOfDay: 10
@@ -33,7 +33,7 @@ final class CampaignFiles {
     static Path campaign(Path dir, String name, String body) throws IOException {
         Files.writeString(dir.resolve("short.yaml"), SHORT_SCENARIO);
         Path file = dir.resolve(name);
-        Files.writeString(file, "site: demo-site\nsiteFile: " + SITE + "\nscenario: short.yaml\n" + body);
+        Files.writeString(file, "siteId: demo-site\nsiteFile: " + SITE + "\nscenario: short.yaml\n" + body);
         return file;
     }
 }
