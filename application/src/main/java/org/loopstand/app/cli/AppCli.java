@@ -2,6 +2,7 @@ package org.loopstand.app.cli;
 
 import org.loopstand.app.lockstep.LockstepStudyCommand;
 import org.loopstand.app.rehearsal.RehearsalCommand;
+import org.loopstand.app.replay.ReplayCommand;
 import org.loopstand.plant.cli.PlantCli;
 import picocli.CommandLine;
 import picocli.CommandLine.Command;
@@ -11,11 +12,12 @@ import picocli.CommandLine.Command;
  * processes of their own, the controller always started by a command line), and the report and CSV
  * export of a run folder. The plant ({@code PlantCli}) and the controller ({@code ControllerCli}) keep
  * their own process entry points; the {@code ./loopstand} script routes {@code rehearse},
- * {@code report}, {@code export} and {@code study --with-controller} here.
+ * {@code report}, {@code export}, {@code replay} and {@code study --with-controller} here.
  */
 @Command(name = "loopstand", mixinStandardHelpOptions = true, version = "loopstand " + PlantCli.VERSION,
-        description = "Loopstand application: rehearse a controller against the plant (in real time, or in lockstep with study --with-controller), report and export run folders.",
-        subcommands = {RehearsalCommand.class, LockstepStudyCommand.class, ReportCommand.class, ExportCommand.class})
+        description = "Loopstand application: rehearse a controller against the plant (in real time, or in lockstep with study --with-controller), replay, report and export run folders.",
+        subcommands = {RehearsalCommand.class, LockstepStudyCommand.class, ReplayCommand.class, ReportCommand.class,
+                ExportCommand.class})
 public final class AppCli implements Runnable {
     @CommandLine.Spec
     private CommandLine.Model.CommandSpec spec;

@@ -9,9 +9,9 @@ import picocli.CommandLine;
 /** The application holds the commands that put the parts together; the plant process keeps its own. */
 class AppCliTest {
     @Test
-    void shouldHoldRehearseReportExportAndTheLockstepStudyAndLeaveThemOutOfThePlantProcess() {
-        assertThat(new CommandLine(new AppCli()).getSubcommands()).containsOnlyKeys("rehearse", "study", "report", "export");
-        assertThat(new CommandLine(new PlantCli()).getSubcommands()).doesNotContainKeys("rehearse", "report", "export")
+    void shouldHoldRehearseReplayReportExportAndTheLockstepStudyAndLeaveThemOutOfThePlantProcess() {
+        assertThat(new CommandLine(new AppCli()).getSubcommands()).containsOnlyKeys("rehearse", "study", "replay", "report", "export");
+        assertThat(new CommandLine(new PlantCli()).getSubcommands()).doesNotContainKeys("rehearse", "replay", "report", "export")
                 .containsKeys("plant", "study", "broker", "unit", "fault", "check");
     }
 

@@ -4,7 +4,6 @@ import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
-import java.util.concurrent.atomic.LongAdder;
 import org.loopstand.controller.allocation.UnitState;
 import org.loopstand.controller.config.ControllerSiteConfig;
 import org.loopstand.controller.config.SiteArea;
@@ -15,7 +14,6 @@ import org.loopstand.controller.intake.SeqTracker;
 import org.loopstand.controller.intake.SourceValidator;
 import org.loopstand.controller.intake.ValidatedInput;
 import org.loopstand.controller.intake.ValidatedValue;
-import org.loopstand.protocol.bus.MessageListener;
 import org.loopstand.protocol.topic.ParsedTopic;
 import org.loopstand.protocol.topic.TopicKind;
 import org.loopstand.protocol.topic.TopicTree;
@@ -34,8 +32,10 @@ import org.loopstand.protocol.topic.TopicTree;
  *       skipped), {@code duplicates}, {@code outOfOrder}; plus {@code queueFull} (not per kind).</li>
  * </ul>
  * Meter sequence counters cover the sources the intake tracks: each area's primary meter and, under the
- * alternateSource policy, its alternate. Counting of received messages runs on the bus threads
- * ({@link #counting}); the rest on the agent thread.
+ * alternateSource policy, its alternate. A message is counted as received when the intake routes it
+ * (agent thread), not on the bus thread when it lands in the queue: so the counters of a cycle depend on
+ * the inputs routed before it alone, and a replay of the journal gives the same figures. A message
+ * refused for a full queue is counted in {@code queueFull} only.
  */
 final class InputUseJournal {
     static final String AREA_METER = "areaMeter";
@@ -43,8 +43,8 @@ final class InputUseJournal {
 
     private final ControllerSiteConfig site;
     private final IntakeRouter intake;
-    private final LongAdder metersReceived = new LongAdder();
-    private final LongAdder telemetryReceived = new LongAdder();
+    private long metersReceived;
+    private long telemetryReceived;
     private long metersRejected;
     private long telemetryRejected;
 
@@ -53,17 +53,14 @@ final class InputUseJournal {
         this.intake = intake;
     }
 
-    /** @return a listener that counts each meter and telemetry message, then hands it to {@code next} */
-    MessageListener counting(MessageListener next) {
-        return m -> {
-            TopicKind k = TopicTree.parse(m.topic()).map(ParsedTopic::kind).orElse(null);
-            if (k == TopicKind.AREA_METER) {
-                metersReceived.increment();
-            } else if (k == TopicKind.UNIT_TELEMETRY) {
-                telemetryReceived.increment();
-            }
-            next.onMessage(m);
-        };
+    /** Counts a message the intake routes, by the kind of its topic. */
+    void onRouted(String topic) {
+        TopicKind k = TopicTree.parse(topic).map(ParsedTopic::kind).orElse(null);
+        if (k == TopicKind.AREA_METER) {
+            metersReceived++;
+        } else if (k == TopicKind.UNIT_TELEMETRY) {
+            telemetryReceived++;
+        }
     }
 
     /** Counts a message the intake refused, by the kind of its topic. */
@@ -124,14 +121,14 @@ final class InputUseJournal {
             }
         }
         Map<String, Object> out = new LinkedHashMap<>();
-        out.put(AREA_METER, kind(metersReceived.sum(), metersRejected, meterSeqs));
-        out.put(UNIT_TELEMETRY, kind(telemetryReceived.sum(), telemetryRejected, unitSeqs));
+        out.put(AREA_METER, kind(metersReceived, metersRejected, meterSeqs));
+        out.put(UNIT_TELEMETRY, kind(telemetryReceived, telemetryRejected, unitSeqs));
         out.put("queueFull", intake.rejectedByReason().getOrDefault("queueFull", 0L));
         return out;
     }
 
     /**
-     * {@code received} counts every message of the kind that reached the intake (repeats, out-of-order
+     * {@code received} counts every message of the kind the intake routed (repeats, out-of-order
      * and forged ones included); {@code taken} only those of the tracked sources taken in sequence,
      * the same population as {@code seqMissing}, so loss = missing / (taken + missing) per kind.
      * Seq jumps are counted apart ({@code seqJumps}, of which {@code seqJumpsRevoked} were one bad
