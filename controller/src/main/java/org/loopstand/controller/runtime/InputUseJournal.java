@@ -27,7 +27,7 @@ import org.loopstand.protocol.topic.TopicTree;
  *       tie flow the cycle got as usable (an unusable value was not used and has no age here); for the
  *       units whose telemetry was good, their count and the max and median (nearest rank) age, ms.</li>
  *   <li>{@code intake}: running counters per message kind ({@code areaMeter}, {@code unitTelemetry}):
- *       {@code received} (handed over by the bus), {@code rejected} (refused by the intake, by topic),
+ *       {@code received} (routed by the intake), {@code rejected} (refused by the intake, by topic),
  *       and from the intake's sequence trackers {@code seqGaps} (jumps), {@code seqMissing} (numbers
  *       skipped), {@code duplicates}, {@code outOfOrder}; plus {@code queueFull} (not per kind).</li>
  * </ul>
