@@ -43,10 +43,10 @@ final class InputUseJournal {
 
     private final ControllerSiteConfig site;
     private final IntakeRouter intake;
-    private long metersReceived;
-    private long telemetryReceived;
-    private long metersRejected;
-    private long telemetryRejected;
+    /** messages routed: [area meters, unit telemetry] */
+    private final long[] received = new long[2];
+    /** messages refused by the intake: [area meters, unit telemetry] */
+    private final long[] rejected = new long[2];
 
     InputUseJournal(ControllerSiteConfig site, IntakeRouter intake) {
         this.site = site;
@@ -55,21 +55,20 @@ final class InputUseJournal {
 
     /** Counts a message the intake routes, by the kind of its topic. */
     void onRouted(String topic) {
-        TopicKind k = TopicTree.parse(topic).map(ParsedTopic::kind).orElse(null);
-        if (k == TopicKind.AREA_METER) {
-            metersReceived++;
-        } else if (k == TopicKind.UNIT_TELEMETRY) {
-            telemetryReceived++;
-        }
+        countByKind(received, topic);
     }
 
     /** Counts a message the intake refused, by the kind of its topic. */
     void onRejected(String topic) {
+        countByKind(rejected, topic);
+    }
+
+    private static void countByKind(long[] counters, String topic) {
         TopicKind k = TopicTree.parse(topic).map(ParsedTopic::kind).orElse(null);
         if (k == TopicKind.AREA_METER) {
-            metersRejected++;
+            counters[0]++;
         } else if (k == TopicKind.UNIT_TELEMETRY) {
-            telemetryRejected++;
+            counters[1]++;
         }
     }
 
@@ -121,8 +120,8 @@ final class InputUseJournal {
             }
         }
         Map<String, Object> out = new LinkedHashMap<>();
-        out.put(AREA_METER, kind(metersReceived, metersRejected, meterSeqs));
-        out.put(UNIT_TELEMETRY, kind(telemetryReceived, telemetryRejected, unitSeqs));
+        out.put(AREA_METER, kind(received[0], rejected[0], meterSeqs));
+        out.put(UNIT_TELEMETRY, kind(received[1], rejected[1], unitSeqs));
         out.put("queueFull", intake.rejectedByReason().getOrDefault("queueFull", 0L));
         return out;
     }
