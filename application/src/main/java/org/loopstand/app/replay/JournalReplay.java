@@ -59,7 +59,7 @@ final class JournalReplay {
         }
         ReplayClock clock = new ReplayClock();
         clock.setEpochMillis(recorded.startedAtMs());
-        ReplayBus bus = new ReplayBus(recorded.controllerId());
+        ReplayBus bus = new ReplayBus(recorded.controllerId(), linkUpAtStart());
         Path file = work.resolve(RecordedJournal.FILE_NAME);
         JournalWriter journal = JournalWriter.create(file, "controller", recorded.startedAtMs(), headerExtras(), clock,
                 JournalWriter.DEFAULT_FLUSH_INTERVAL);
@@ -127,6 +127,20 @@ final class JournalReplay {
         clock.setEpochMillis(e.tMs());
         agent.drainArrivals();
         return false;
+    }
+
+    /** @return false when the journal's first link change brings the link up: it was down at the start */
+    private boolean linkUpAtStart() {
+        for (JournalEntry e : recorded.entries()) {
+            String name = JournalFormat.KIND_EVENT.equals(e.kind()) ? e.text("event") : null;
+            if ("busLinkDown".equals(name)) {
+                return true;
+            }
+            if ("busConnected".equals(name) || "busReconnected".equals(name)) {
+                return false;
+            }
+        }
+        return true;
     }
 
     private Map<String, Object> headerExtras() {

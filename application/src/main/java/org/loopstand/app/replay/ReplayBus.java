@@ -26,11 +26,13 @@ final class ReplayBus implements MessageBus {
     private final Map<String, MessageListener> subscriptions = new LinkedHashMap<>();
     private final List<ConnectionListener> connectionListeners = new ArrayList<>();
     private final BusCounters counters = new BusCounters();
-    private boolean connected = true;
+    private boolean connected;
     private long published;
 
-    ReplayBus(String clientId) {
+    /** @param connected whether the link is up when the controller starts */
+    ReplayBus(String clientId, boolean connected) {
         this.clientId = clientId;
+        this.connected = connected;
     }
 
     /**

@@ -37,7 +37,7 @@ class LinkChangeReplayTest {
                 .filter(e -> e.kind().equals(InputEntries.KIND)).limit(300).toList();
         long startMs = inputs.get(0).get("at").asLong();
         VirtualClock clock = new VirtualClock(startMs);
-        ReplayBus bus = new ReplayBus("controller-1");
+        ReplayBus bus = new ReplayBus("controller-1", true);
         Path run = Files.createDirectory(dir.resolve("run"));
         JournalWriter journal = JournalWriter.create(run.resolve("controller.jsonl"), "controller", startMs,
                 java.util.Map.of("site", site.siteId(), "controllerId", "controller-1"), clock, JournalWriter.DEFAULT_FLUSH_INTERVAL);
