@@ -23,7 +23,7 @@ import org.loopstand.protocol.journal.JournalWriter;
  *
  * <p>The recorded entries that drive the replay, in file order:
  * <ul>
- *   <li>{@code input}: the clock is set to its arrival time {@code at} and the payload handed to the
+ *   <li>{@code input}: the clock is set to its arrival time {@code atMs} and the payload handed to the
  *       bus subscription it matches (the intake stamps and queues it), then to the entry's time and the
  *       first half of the duty cycle runs ({@link ControllerAgent#drainArrivals()}): the input is routed;</li>
  *   <li>{@code event} busLinkDown / busConnected / busReconnected: the link changes, then the same half;</li>
@@ -74,7 +74,7 @@ final class JournalReplay {
             }
             switch (e.kind()) {
                 case InputEntries.KIND -> {
-                    clock.setEpochMillis(e.get("at").asLong());
+                    clock.setEpochMillis(e.get("atMs").asLong());
                     if (!bus.deliver(e.text("topic"), InputEntries.payloadOf(e.fields()), clock.monotonicNanos())) {
                         throw new ReplayRefused(recorded.file() + ":" + e.lineNumber() + ": input on topic " + e.text("topic")
                                 + " that the controller of site " + site.siteId() + " does not subscribe to");

@@ -116,10 +116,10 @@ record RecordedJournal(Path file, ObjectNode header, List<JournalEntry> entries,
             switch (e.kind()) {
                 case InputEntries.KIND -> {
                     anyInput = true;
-                    if (e.text("topic") == null || e.get("at") == null || !e.get("at").canConvertToLong()
+                    if (e.text("topic") == null || e.get("atMs") == null || !e.get("atMs").canConvertToLong()
                             || (e.text("payload") == null && e.text("payloadBase64") == null)) {
                         throw new ReplayRefused(file + ":" + e.lineNumber()
-                                + ": input entry lacks 'topic', 'at' (epoch ms) or its payload");
+                                + ": input entry lacks 'topic', 'atMs' or its payload");
                     }
                 }
                 case InputEntries.KIND_CYCLE_CLOCK -> {

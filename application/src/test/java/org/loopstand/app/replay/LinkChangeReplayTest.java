@@ -35,7 +35,7 @@ class LinkChangeReplayTest {
         ControllerSiteConfig site = ControllerSiteReader.read(RECORDED.resolve("site.yaml"));
         List<JournalEntry> inputs = JournalReader.readAll(RECORDED.resolve("controller.jsonl")).entries().stream()
                 .filter(e -> e.kind().equals(InputEntries.KIND)).limit(300).toList();
-        long startMs = inputs.get(0).get("at").asLong();
+        long startMs = inputs.get(0).get("atMs").asLong();
         VirtualClock clock = new VirtualClock(startMs);
         ReplayBus bus = new ReplayBus("controller-1", true);
         Path run = Files.createDirectory(dir.resolve("run"));
@@ -45,7 +45,7 @@ class LinkChangeReplayTest {
         agent.onStart();
         for (int i = 0; i < inputs.size(); i++) {
             JournalEntry e = inputs.get(i);
-            clock.advanceMillis(Math.max(0, e.get("at").asLong() - clock.epochMillis()));
+            clock.advanceMillis(Math.max(0, e.get("atMs").asLong() - clock.epochMillis()));
             agent.doWork(); // cycles due before this arrival
             if (i == 100) {
                 bus.linkDown(CAUSE);

@@ -13,7 +13,7 @@ import java.util.Map;
 /**
  * The controller journal's {@code input} entry (schema version 2): one per message the intake took from
  * its queue, refused ones included, written before anything the message caused. Its time is the
- * controller's clock when the message was routed; {@code at} is the arrival stamp the intake put on
+ * controller's clock when the message was routed; {@code atMs} is the arrival stamp the intake put on
  * it (the time its ages and skews are reckoned from), {@code topic} the topic, and the payload exactly
  * as it came: {@code payload} as text when it is UTF-8 (every wire message is JSON), else
  * {@code payloadBase64}. Exact replay feeds these back (docs/replay.md).
@@ -31,7 +31,7 @@ public final class InputEntries {
     static Map<String, Object> fields(String topic, byte[] payload, long receivedAtMs) {
         Map<String, Object> f = new LinkedHashMap<>();
         f.put("topic", topic);
-        f.put("at", receivedAtMs);
+        f.put("atMs", receivedAtMs);
         String text = utf8(payload);
         if (text != null) {
             f.put("payload", text);

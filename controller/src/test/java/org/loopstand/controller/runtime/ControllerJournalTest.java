@@ -244,7 +244,7 @@ class ControllerJournalTest {
         for (int i : new int[] {text, binary}) {
             JournalEntry input = entries.get(i);
             JournalEntry refused = entries.get(i + 1);
-            assertThat(input.get("at").asLong()).isEqualTo(StudyLoop.START_MS + 30_000L);
+            assertThat(input.get("atMs").asLong()).isEqualTo(StudyLoop.START_MS + 30_000L);
             assertThat(refused.kind()).isEqualTo(JournalFormat.KIND_REFUSED);
             assertThat(refused.text("topic")).isEqualTo(meterTopic);
             assertThat(refused.tMs()).isEqualTo(input.tMs());
