@@ -72,42 +72,61 @@ final class JournalReplay {
             if (closed) {
                 break;
             }
-            switch (e.kind()) {
-                case InputEntries.KIND -> {
-                    clock.setEpochMillis(e.get("atMs").asLong());
-                    if (!bus.deliver(e.text("topic"), InputEntries.payloadOf(e.fields()), clock.monotonicNanos())) {
-                        throw new ReplayRefused(recorded.file() + ":" + e.lineNumber() + ": input on topic " + e.text("topic")
-                                + " that the controller of site " + site.siteId() + " does not subscribe to");
-                    }
-                    clock.setEpochMillis(e.tMs());
-                    agent.drainArrivals();
-                    inputs++;
-                }
-                case InputEntries.KIND_CYCLE_CLOCK -> {
-                    long periodNs = site.settings().cycleMs() * 1_000_000L;
-                    if (e.get("periodNs").asLong() != periodNs) {
-                        throw new ReplayRefused(recorded.file() + ":" + e.lineNumber() + ": cycle period "
-                                + e.get("periodNs").asLong() + " ns, the site file's cycleMs gives " + periodNs + " ns");
-                    }
-                    clock.setEpochMillis(e.tMs());
-                    clock.setMonotonicNanos(e.get("t0Ns").asLong() - 1);
-                    agent.doWork();
-                }
-                case JournalFormat.KIND_DECIDED -> {
-                    clock.setEpochMillis(e.tMs());
-                    clock.setMonotonicNanos(e.get("pollNs").asLong());
-                    agent.doWork();
-                }
-                case JournalFormat.KIND_EVENT -> closed = event(e, agent, bus, clock);
-                default -> {
-                    // an output: compared below
-                }
+            try {
+                closed = step(e, agent, bus, clock);
+            } catch (IllegalStateException | IllegalArgumentException bad) {
+                // a time that runs backwards, a payload that is no base64: the journal, not the controller, is wrong
+                throw new ReplayRefused(recorded.file() + ":" + e.lineNumber() + ": " + bad.getMessage());
+            }
+            if (InputEntries.KIND.equals(e.kind())) {
+                inputs++;
             }
         }
         if (!closed) {
             agent.onClose(); // a journal cut short: its entries are compared, the replay's closing ones are not
         }
         return compare(file, inputs);
+    }
+
+    /**
+     * Does what one recorded entry asks for (nothing for an output).
+     *
+     * @return true when the controller has stopped
+     */
+    private boolean step(JournalEntry e, ControllerAgent agent, ReplayBus bus, ReplayClock clock) throws ReplayRefused {
+        switch (e.kind()) {
+            case InputEntries.KIND -> {
+                clock.setEpochMillis(e.get("atMs").asLong());
+                if (!bus.deliver(e.text("topic"), InputEntries.payloadOf(e.fields()), clock.monotonicNanos())) {
+                    throw new ReplayRefused(recorded.file() + ":" + e.lineNumber() + ": input on topic " + e.text("topic")
+                            + " that the controller of site " + site.siteId() + " does not subscribe to");
+                }
+                clock.setEpochMillis(e.tMs());
+                agent.drainArrivals();
+            }
+            case InputEntries.KIND_CYCLE_CLOCK -> {
+                long periodNs = site.settings().cycleMs() * 1_000_000L;
+                if (e.get("periodNs").asLong() != periodNs) {
+                    throw new ReplayRefused(recorded.file() + ":" + e.lineNumber() + ": cycle period "
+                            + e.get("periodNs").asLong() + " ns, the site file's cycleMs gives " + periodNs + " ns");
+                }
+                clock.setEpochMillis(e.tMs());
+                clock.setMonotonicNanos(e.get("t0Ns").asLong() - 1);
+                agent.doWork();
+            }
+            case JournalFormat.KIND_DECIDED -> {
+                clock.setEpochMillis(e.tMs());
+                clock.setMonotonicNanos(e.get("pollNs").asLong());
+                agent.doWork();
+            }
+            case JournalFormat.KIND_EVENT -> {
+                return event(e, agent, bus, clock);
+            }
+            default -> {
+                // an output: compared, not fed
+            }
+        }
+        return false;
     }
 
     /** @return true when the event stopped the controller */

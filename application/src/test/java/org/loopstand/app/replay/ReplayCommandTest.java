@@ -23,8 +23,8 @@ import picocli.CommandLine;
 /**
  * {@code replay RUN} on a lockstep run folder made here ({@link LockstepRehearsal}, the process tests' short
  * unit-trip scenario, 120 s, with the built-in controller): every entry matches; a journal with one input value changed
- * diverges, and the first divergence names both values; a journal without inputs, of schema version 1, or
- * no run folder at all is refused with the file and line.
+ * diverges, and the first divergence names both values; a journal without inputs, of schema version 1, with
+ * a cycle time that runs backwards, or no run folder at all is refused with the file and line.
  */
 class ReplayCommandTest {
     static final Path CONFIG = Path.of("..", "config");
@@ -141,6 +141,27 @@ class ReplayCommandTest {
 
         assertThat(r.exitCode()).isEqualTo(2);
         assertThat(r.err()).contains(copy.resolve("controller.jsonl") + ":1: journal schemaVersion 1 holds no inputs");
+    }
+
+    @Test
+    void shouldRefuseAJournalWhoseCycleTimeRunsBackwardsNamingTheLine() throws Exception {
+        int[] line = {0};
+        Path copy = copyWith(lines -> {
+            int decided = 0;
+            for (int i = 0; i < lines.size(); i++) {
+                if (lines.get(i).contains("\"kind\":\"decided\"") && ++decided == 3) {
+                    lines.set(i, lines.get(i).replaceFirst("\"pollNs\":\\d+", "\"pollNs\":1"));
+                    line[0] = i + 1;
+                    break;
+                }
+            }
+            return lines;
+        });
+
+        Ran r = replay(copy);
+
+        assertThat(r.exitCode()).isEqualTo(2);
+        assertThat(r.err()).contains(copy.resolve("controller.jsonl") + ":" + line[0] + ": monotonic time set back");
     }
 
     @Test
