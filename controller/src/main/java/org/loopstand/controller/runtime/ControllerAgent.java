@@ -1,7 +1,6 @@
 package org.loopstand.controller.runtime;
 
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
@@ -43,7 +42,8 @@ import org.slf4j.LoggerFactory;
  * The controller as a process on the bus. On every tick of its {@link CycleScheduler} (fixed rate,
  * no drift) it builds the cycle inputs from the {@link IntakeRouter}, runs {@link ControlCycle#step},
  * publishes the planned commands as {@link UnitCommand}s (QoS 1, MQTT expiry from validUntil) and a
- * retained {@link ControllerStatus}, journals the decision and records the cycle start jitter.
+ * retained {@link ControllerStatus}, journals the decision and records the cycle start jitter. The
+ * journal also holds every input routed and the cycle timing, so that a run replays exactly (docs/replay.md).
  *
  * <p>Bus link: a {@link ConnectionListener} keeps {@code linkUp}; while it is down the cycle's
  * interlock suspends ({@code busLinkDown}) and nothing at all is published. Not thread-safe: one
@@ -212,11 +212,7 @@ public final class ControllerAgent implements Agent {
             }
             scheduler = CycleScheduler.alignedTo(clock, site.settings().cycleMs() * 1_000_000L);
             if (journal != null) {
-                // where cycle n starts on the monotonic time base: what a replay needs to number its cycles alike
-                Map<String, Object> f = new LinkedHashMap<>();
-                f.put("t0Ns", scheduler.t0Nanos());
-                f.put("periodNs", scheduler.periodNanos());
-                journal.append(clock.epochMillis(), InputEntries.KIND_CYCLE_CLOCK, f);
+                journal.append(clock.epochMillis(), InputEntries.KIND_CYCLE_CLOCK, CycleEntries.cycleClock(scheduler));
             }
         }
         Optional<CycleTick> tick = scheduler.poll();
@@ -307,7 +303,7 @@ public final class ControllerAgent implements Agent {
                     AreaSuspensionJournal.forStatus(o));
         }
         if (journal != null) {
-            journal.append(nowMs, JournalFormat.KIND_DECIDED, DecidedEntry.fields(tick, o, aces, link,
+            journal.append(nowMs, JournalFormat.KIND_DECIDED, CycleEntries.decided(tick, o, aces, link,
                     inputUse.used(areas, units, nowMs), inputUse.counters()));
         }
     }

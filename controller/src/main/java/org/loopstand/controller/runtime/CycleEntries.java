@@ -5,12 +5,24 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import org.loopstand.controller.cycle.CycleOutcome;
+import org.loopstand.controller.cycle.CycleScheduler;
 import org.loopstand.controller.cycle.CycleTick;
 import org.loopstand.protocol.message.AreaAce;
 
-/** The fields of the controller journal's {@code decided} entry, one per cycle, in a fixed order. */
-final class DecidedEntry {
-    private DecidedEntry() {
+/**
+ * The fields of the controller journal's cycle entries, in a fixed order: {@code decided}, one per cycle,
+ * and {@code cycleClock}, once when the schedule starts.
+ */
+final class CycleEntries {
+    private CycleEntries() {
+    }
+
+    /** @return where cycle n starts on the monotonic time base: what a replay needs to number its cycles alike */
+    static Map<String, Object> cycleClock(CycleScheduler scheduler) {
+        Map<String, Object> f = new LinkedHashMap<>();
+        f.put("t0Ns", scheduler.t0Nanos());
+        f.put("periodNs", scheduler.periodNanos());
+        return f;
     }
 
     /**
@@ -21,7 +33,7 @@ final class DecidedEntry {
      * @param used   ages of what the cycle used ({@link InputUseJournal#used})
      * @param intake the intake's running counters ({@link InputUseJournal#counters})
      */
-    static Map<String, Object> fields(CycleTick tick, CycleOutcome o, List<AreaAce> aces, boolean linkUp,
+    static Map<String, Object> decided(CycleTick tick, CycleOutcome o, List<AreaAce> aces, boolean linkUp,
                                       Map<String, Object> used, Map<String, Object> intake) {
         Map<String, Object> f = new LinkedHashMap<>();
         f.put("cycle", tick.cycleNumber());
