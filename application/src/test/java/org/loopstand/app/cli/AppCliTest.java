@@ -9,9 +9,9 @@ import picocli.CommandLine;
 /** The application holds the commands that put the parts together; the plant process keeps its own. */
 class AppCliTest {
     @Test
-    void shouldHoldRehearseReportExportTheLockstepStudyAndCampaignsAndLeaveThemOutOfThePlantProcess() {
-        assertThat(new CommandLine(new AppCli()).getSubcommands()).containsOnlyKeys("rehearse", "study", "campaign", "report", "export");
-        assertThat(new CommandLine(new PlantCli()).getSubcommands()).doesNotContainKeys("rehearse", "report", "export", "campaign")
+    void shouldHoldRehearseReplayReportExportTheLockstepStudyAndCampaignsAndLeaveThemOutOfThePlantProcess() {
+        assertThat(new CommandLine(new AppCli()).getSubcommands()).containsOnlyKeys("rehearse", "study", "campaign", "replay", "report", "export");
+        assertThat(new CommandLine(new PlantCli()).getSubcommands()).doesNotContainKeys("rehearse", "report", "export", "campaign", "replay")
                 .containsKeys("plant", "study", "broker", "unit", "fault", "check");
     }
 

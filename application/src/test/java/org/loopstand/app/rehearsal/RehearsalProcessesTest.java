@@ -83,6 +83,19 @@ class RehearsalProcessesTest {
         assertThat(out()).contains("report: " + o.report().toAbsolutePath());
         assertThat(o.runFolder().resolve("plant.log")).exists();
         assertThat(o.runFolder().resolve("controller.log")).exists();
+        // exact replay of the real-time run: the controller journal's inputs, at their arrival times, into a
+        // fresh controller on a virtual clock give every decision again, entry for entry
+        long decided = controller.entries().stream().filter(e -> e.kind().equals("decided")).count();
+        assertThat(replay(o.runFolder())).startsWith("0 replay: " + decided + " decisions matched (");
+    }
+
+    /** @return the exit code and what {@code replay RUN} printed */
+    static String replay(Path run) {
+        ByteArrayOutputStream buf = new ByteArrayOutputStream();
+        PrintStream ps = new PrintStream(buf, true, StandardCharsets.UTF_8);
+        int code = new picocli.CommandLine(new org.loopstand.app.replay.ReplayCommand(ps, ps))
+                .execute(run.toString(), "--site", SITE.toString());
+        return code + " " + buf.toString(StandardCharsets.UTF_8);
     }
 
     @Test
@@ -101,6 +114,9 @@ class RehearsalProcessesTest {
         JournalReader.Contents controller = JournalReader.readAll(o.runFolder().resolve("controller.jsonl"));
         assertThat(controller.summary().cutShort()).isTrue();
         assertThat(controller.entries()).anyMatch(e -> e.kind().equals("decided"));
+        // a journal cut short replays too, up to its last complete line
+        long decided = controller.entries().stream().filter(e -> e.kind().equals("decided")).count();
+        assertThat(replay(o.runFolder())).startsWith("0 replay: " + decided + " decisions matched (");
         // the plant was stopped by the rehearsal (SIGTERM): its journal is complete
         assertThat(JournalReader.readAll(o.runFolder().resolve("plant.jsonl")).summary().cutShort()).isFalse();
         String html = Files.readString(o.report());

@@ -21,9 +21,10 @@ final class IntakeDecoder {
     /**
      * A message as handed over by a bus thread: stamped with controller time on arrival, topic
      * parsed and payload decoded there. Either {@code value} is the decoded record or
-     * {@code rejectReason}/{@code rejectDetail} say why there is none.
+     * {@code rejectReason}/{@code rejectDetail} say why there is none. {@code payload} is kept as it
+     * came, for the journal's input entries (exact replay).
      */
-    record Arrival(InboundMessage message, String topic, ParsedTopic parsed, Object value,
+    record Arrival(InboundMessage message, String topic, byte[] payload, ParsedTopic parsed, Object value,
                    String rejectReason, String rejectDetail, long receivedAtMs) {
     }
 
@@ -43,7 +44,7 @@ final class IntakeDecoder {
     Arrival decode(InboundMessage m, String topic, byte[] payload, long receivedAtMs) {
         ParsedTopic p = TopicTree.parse(topic).orElse(null);
         if (p == null || !p.site().equals(siteId)) {
-            return new Arrival(m, topic, null, null, "unknownTopic", "not a topic of site " + siteId, receivedAtMs);
+            return new Arrival(m, topic, payload, null, null, "unknownTopic", "not a topic of site " + siteId, receivedAtMs);
         }
         Class<?> type = switch (p.kind()) {
             case AREA_METER -> AreaMeter.class;
@@ -54,14 +55,14 @@ final class IntakeDecoder {
             default -> null;
         };
         if (type == null) {
-            return new Arrival(m, topic, p, null, "unknownTopic", "the controller does not read " + p.kind() + " topics",
+            return new Arrival(m, topic, payload, p, null, "unknownTopic", "the controller does not read " + p.kind() + " topics",
                     receivedAtMs);
         }
         Decoded<?> d = codec.decode(payload, type);
         if (d instanceof Decoded.Ok<?> ok) {
-            return new Arrival(m, topic, p, ok.value(), null, null, receivedAtMs);
+            return new Arrival(m, topic, payload, p, ok.value(), null, null, receivedAtMs);
         }
         DecodeError e = d.rejection().orElseThrow();
-        return new Arrival(m, topic, p, null, e.kind().name(), e.toString(), receivedAtMs);
+        return new Arrival(m, topic, payload, p, null, e.kind().name(), e.toString(), receivedAtMs);
     }
 }

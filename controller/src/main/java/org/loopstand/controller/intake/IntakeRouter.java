@@ -187,6 +187,7 @@ public final class IntakeRouter {
     /** Stores a decoded message (stateful checks); cycle thread only. */
     private void apply(IntakeDecoder.Arrival a) {
         messagesRouted++;
+        observer.onInput(a.topic(), a.payload(), a.receivedAtMs());
         if (a.value() == null) {
             reject(a.topic(), a.rejectReason(), a.rejectDetail());
             return;

@@ -1,7 +1,6 @@
 package org.loopstand.controller.runtime;
 
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
@@ -43,7 +42,8 @@ import org.slf4j.LoggerFactory;
  * The controller as a process on the bus. On every tick of its {@link CycleScheduler} (fixed rate,
  * no drift) it builds the cycle inputs from the {@link IntakeRouter}, runs {@link ControlCycle#step},
  * publishes the planned commands as {@link UnitCommand}s (QoS 1, MQTT expiry from validUntil) and a
- * retained {@link ControllerStatus}, journals the decision and records the cycle start jitter.
+ * retained {@link ControllerStatus}, journals the decision and records the cycle start jitter. The
+ * journal also holds every input routed and the cycle timing, so that a run replays exactly (docs/replay.md).
  *
  * <p>Bus link: a {@link ConnectionListener} keeps {@code linkUp}; while it is down the cycle's
  * interlock suspends ({@code busLinkDown}) and nothing at all is published. Not thread-safe: one
@@ -114,7 +114,7 @@ public final class ControllerAgent implements Agent {
         this.sentCommands = new SentCommands(controllerId, journal);
         this.outcomes = new CommandOutcomes(cycle, sentCommands);
         this.intake = new IntakeRouter(site, clock, codec,
-                new IntakeJournal(clock, journal, sentCommands, outcomes, this::countRejected));
+                new IntakeJournal(clock, journal, sentCommands, outcomes, this::countRejected, this::countRouted));
         this.inputUse = new InputUseJournal(site, intake);
         this.sender = new CommandSender(bus, topics, codec, controllerId, epoch, sentCommands, outcomes, journal, metrics,
                 publishFailures);
@@ -191,7 +191,7 @@ public final class ControllerAgent implements Agent {
             }
         });
         for (String filter : intake.subscriptions()) {
-            bus.subscribe(filter, Qos.AT_LEAST_ONCE, inputUse.counting(intake.listener()));
+            bus.subscribe(filter, Qos.AT_LEAST_ONCE, intake.listener());
         }
         linkUp = bus.isConnected();
         if (linkUp) {
@@ -204,14 +204,16 @@ public final class ControllerAgent implements Agent {
 
     @Override
     public int doWork() {
-        int work = intake.drain();
-        drainEvents();
+        int work = drainArrivals();
         work += heartbeatWhileStill();
         if (scheduler == null) {
             if (busClock != null && !busClock.synced()) {
                 return work;
             }
             scheduler = CycleScheduler.alignedTo(clock, site.settings().cycleMs() * 1_000_000L);
+            if (journal != null) {
+                journal.append(clock.epochMillis(), InputEntries.KIND_CYCLE_CLOCK, CycleEntries.cycleClock(scheduler));
+            }
         }
         Optional<CycleTick> tick = scheduler.poll();
         if (tick.isPresent()) {
@@ -246,6 +248,19 @@ public final class ControllerAgent implements Agent {
         lastHeartbeatWallNanos = now;
         status.publish(ControllerState.SUSPENDED, List.of("waitingForClock"), 0, List.of(), List.of(), List.of());
         return 1;
+    }
+
+    /**
+     * The first half of {@link #doWork()}: routes every queued input and journals the queued bus link
+     * events and publish failures; no cycle runs. Exact replay (docs/replay.md) steps this half apart,
+     * one journaled input or event at a time.
+     *
+     * @return inputs routed
+     */
+    public int drainArrivals() {
+        int work = intake.drain();
+        drainEvents();
+        return work;
     }
 
     /** @return ns until the next cycle start (for a runner that waits its own way); 0 if unknown */
@@ -288,22 +303,8 @@ public final class ControllerAgent implements Agent {
                     AreaSuspensionJournal.forStatus(o));
         }
         if (journal != null) {
-            Map<String, Object> f = new LinkedHashMap<>();
-            f.put("cycle", tick.cycleNumber());
-            f.put("state", o.state().name().toLowerCase(java.util.Locale.ROOT));
-            f.put("reasons", o.reasons());
-            f.put("areas", aces);
-            f.put("commands", o.commands().size());
-            f.put("notes", o.notes());
-            f.put("excludedUnits", List.copyOf(o.excludedUnits()));
-            f.put("suspendedAreas", o.suspendedAreas().stream()
-                    .map(a -> Map.of("area", a.areaId(), "reasons", a.reasons())).toList());
-            f.put("jitterUs", tick.jitterNanos() / 1000);
-            f.put("missedBefore", tick.missedBefore());
-            f.put("linkUp", link);
-            f.put("used", inputUse.used(areas, units, nowMs));
-            f.put("intake", inputUse.counters());
-            journal.append(nowMs, JournalFormat.KIND_DECIDED, f);
+            journal.append(nowMs, JournalFormat.KIND_DECIDED, CycleEntries.decided(tick, o, aces, link,
+                    inputUse.used(areas, units, nowMs), inputUse.counters()));
         }
     }
 
@@ -350,11 +351,12 @@ public final class ControllerAgent implements Agent {
         try {
             drainEvents();
             if (journal != null && !journal.isClosed()) {
-                journal.append(clock.epochMillis(), JournalFormat.KIND_EVENT, Map.of("event", "summary",
+                long nowMs = clock.epochMillis(); // one reading: summary and end at the same instant, as a replay writes them
+                journal.append(nowMs, JournalFormat.KIND_EVENT, Map.of("event", "summary",
                         "cycles", cyclesRun, "commandsSent", sender.commandsSent(),
                         "areaSuspensions", areaSuspensions.suspensions(), "rejected", intake.rejectedByReason(),
                         "acks", intake.acksByOutcome(), "cyclesMissed", scheduler == null ? 0 : scheduler.cyclesMissed()));
-                journal.close(clock.epochMillis(), EndReason.STOPPED);
+                journal.close(nowMs, EndReason.STOPPED);
             }
         } catch (RuntimeException e) {
             LOG.error("controller journal could not be closed: {}", e.toString());
@@ -371,6 +373,10 @@ public final class ControllerAgent implements Agent {
 
     private void countRejected(String topic) {
         inputUse.onRejected(topic);
+    }
+
+    private void countRouted(String topic) {
+        inputUse.onRouted(topic);
     }
 
     // ---- for tests and the CLI

@@ -4,7 +4,6 @@ import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
-import java.util.concurrent.atomic.LongAdder;
 import org.loopstand.controller.allocation.UnitState;
 import org.loopstand.controller.config.ControllerSiteConfig;
 import org.loopstand.controller.config.SiteArea;
@@ -15,7 +14,6 @@ import org.loopstand.controller.intake.SeqTracker;
 import org.loopstand.controller.intake.SourceValidator;
 import org.loopstand.controller.intake.ValidatedInput;
 import org.loopstand.controller.intake.ValidatedValue;
-import org.loopstand.protocol.bus.MessageListener;
 import org.loopstand.protocol.topic.ParsedTopic;
 import org.loopstand.protocol.topic.TopicKind;
 import org.loopstand.protocol.topic.TopicTree;
@@ -29,13 +27,15 @@ import org.loopstand.protocol.topic.TopicTree;
  *       tie flow the cycle got as usable (an unusable value was not used and has no age here); for the
  *       units whose telemetry was good, their count and the max and median (nearest rank) age, ms.</li>
  *   <li>{@code intake}: running counters per message kind ({@code areaMeter}, {@code unitTelemetry}):
- *       {@code received} (handed over by the bus), {@code rejected} (refused by the intake, by topic),
+ *       {@code received} (routed by the intake), {@code rejected} (refused by the intake, by topic),
  *       and from the intake's sequence trackers {@code seqGaps} (jumps), {@code seqMissing} (numbers
  *       skipped), {@code duplicates}, {@code outOfOrder}; plus {@code queueFull} (not per kind).</li>
  * </ul>
  * Meter sequence counters cover the sources the intake tracks: each area's primary meter and, under the
- * alternateSource policy, its alternate. Counting of received messages runs on the bus threads
- * ({@link #counting}); the rest on the agent thread.
+ * alternateSource policy, its alternate. A message is counted as received when the intake routes it
+ * (agent thread), not on the bus thread when it lands in the queue: so the counters of a cycle depend on
+ * the inputs routed before it alone, and a replay of the journal gives the same figures. A message
+ * refused for a full queue is counted in {@code queueFull} only.
  */
 final class InputUseJournal {
     static final String AREA_METER = "areaMeter";
@@ -43,36 +43,32 @@ final class InputUseJournal {
 
     private final ControllerSiteConfig site;
     private final IntakeRouter intake;
-    private final LongAdder metersReceived = new LongAdder();
-    private final LongAdder telemetryReceived = new LongAdder();
-    private long metersRejected;
-    private long telemetryRejected;
+    /** messages routed: [area meters, unit telemetry] */
+    private final long[] received = new long[2];
+    /** messages refused by the intake: [area meters, unit telemetry] */
+    private final long[] rejected = new long[2];
 
     InputUseJournal(ControllerSiteConfig site, IntakeRouter intake) {
         this.site = site;
         this.intake = intake;
     }
 
-    /** @return a listener that counts each meter and telemetry message, then hands it to {@code next} */
-    MessageListener counting(MessageListener next) {
-        return m -> {
-            TopicKind k = TopicTree.parse(m.topic()).map(ParsedTopic::kind).orElse(null);
-            if (k == TopicKind.AREA_METER) {
-                metersReceived.increment();
-            } else if (k == TopicKind.UNIT_TELEMETRY) {
-                telemetryReceived.increment();
-            }
-            next.onMessage(m);
-        };
+    /** Counts a message the intake routes, by the kind of its topic. */
+    void onRouted(String topic) {
+        countByKind(received, topic);
     }
 
     /** Counts a message the intake refused, by the kind of its topic. */
     void onRejected(String topic) {
+        countByKind(rejected, topic);
+    }
+
+    private static void countByKind(long[] counters, String topic) {
         TopicKind k = TopicTree.parse(topic).map(ParsedTopic::kind).orElse(null);
         if (k == TopicKind.AREA_METER) {
-            metersRejected++;
+            counters[0]++;
         } else if (k == TopicKind.UNIT_TELEMETRY) {
-            telemetryRejected++;
+            counters[1]++;
         }
     }
 
@@ -124,14 +120,14 @@ final class InputUseJournal {
             }
         }
         Map<String, Object> out = new LinkedHashMap<>();
-        out.put(AREA_METER, kind(metersReceived.sum(), metersRejected, meterSeqs));
-        out.put(UNIT_TELEMETRY, kind(telemetryReceived.sum(), telemetryRejected, unitSeqs));
+        out.put(AREA_METER, kind(received[0], rejected[0], meterSeqs));
+        out.put(UNIT_TELEMETRY, kind(received[1], rejected[1], unitSeqs));
         out.put("queueFull", intake.rejectedByReason().getOrDefault("queueFull", 0L));
         return out;
     }
 
     /**
-     * {@code received} counts every message of the kind that reached the intake (repeats, out-of-order
+     * {@code received} counts every message of the kind the intake routed (repeats, out-of-order
      * and forged ones included); {@code taken} only those of the tracked sources taken in sequence,
      * the same population as {@code seqMissing}, so loss = missing / (taken + missing) per kind.
      * Seq jumps are counted apart ({@code seqJumps}, of which {@code seqJumpsRevoked} were one bad

@@ -17,7 +17,10 @@ import org.slf4j.LoggerFactory;
  * Journals what the intake reports, on the agent thread while it drains: refused inputs
  * ({@code refused} with topic, reason and detail), the acks of this controller's own commands
  * (matched in {@link SentCommands}, their outcome fed back through {@link CommandOutcomes}; an ack
- * for a command it never sent changes nothing) and clock skew once per source and direction.
+ * for a command it never sent changes nothing) and clock skew once per source and direction. Before
+ * all that, every message routed as an {@code input} entry ({@link InputEntries}). Everything one
+ * message causes is journaled at the one controller time read when it is routed, so that a replay
+ * that sets its clock to that time writes the same entries.
  */
 final class IntakeJournal implements IntakeObserver {
     private static final Logger LOG = LoggerFactory.getLogger(IntakeJournal.class);
@@ -27,25 +30,39 @@ final class IntakeJournal implements IntakeObserver {
     private final SentCommands sentCommands;
     private final CommandOutcomes outcomes;
     private final Consumer<String> rejectedTopic;
+    private final Consumer<String> routedTopic;
+    /** controller time when the message now being routed was taken from the queue, epoch ms */
+    private long routedAtMs;
 
     /**
      * @param journal       run journal, or null for none
      * @param rejectedTopic told the topic of every refused input (for the input-use counters)
+     * @param routedTopic   told the topic of every input routed (for the input-use counters)
      */
     IntakeJournal(Clock clock, JournalWriter journal, SentCommands sentCommands, CommandOutcomes outcomes,
-                  Consumer<String> rejectedTopic) {
+                  Consumer<String> rejectedTopic, Consumer<String> routedTopic) {
         this.clock = clock;
         this.journal = journal;
         this.sentCommands = sentCommands;
         this.outcomes = outcomes;
         this.rejectedTopic = rejectedTopic;
+        this.routedTopic = routedTopic;
+    }
+
+    @Override
+    public void onInput(String topic, byte[] payload, long receivedAtMs) {
+        routedAtMs = clock.epochMillis();
+        routedTopic.accept(topic);
+        if (journal != null) {
+            journal.append(routedAtMs, InputEntries.KIND, InputEntries.fields(topic, payload, receivedAtMs));
+        }
     }
 
     @Override
     public void onRejected(String topic, String reason, String detail) {
         rejectedTopic.accept(topic);
         if (journal != null) {
-            journal.append(clock.epochMillis(), JournalFormat.KIND_REFUSED,
+            journal.append(routedAtMs, JournalFormat.KIND_REFUSED,
                     Map.of("topic", topic, "reason", reason, "detail", detail));
         }
     }
@@ -74,7 +91,7 @@ final class IntakeJournal implements IntakeObserver {
     public void onClockSkew(String source, long skewMs) {
         LOG.warn("clock skew of {} ms from {}", skewMs, source);
         if (journal != null) {
-            journal.append(clock.epochMillis(), JournalFormat.KIND_EVENT,
+            journal.append(routedAtMs, JournalFormat.KIND_EVENT,
                     Map.of("event", "clockSkew", "source", source, "skewMs", skewMs));
         }
     }

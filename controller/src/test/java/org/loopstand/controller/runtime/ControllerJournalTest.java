@@ -205,4 +205,69 @@ class ControllerJournalTest {
         assertThat(tel.path("seqMissing").asLong()).isZero();
         assertThat(intake.path("queueFull").asLong()).isZero();
     }
+
+    /**
+     * Schema version 2, what exact replay feeds on: every message routed is an {@code input} entry (topic,
+     * arrival time, payload as it came) written before what it caused; a cycle's {@code received} counter is
+     * the number of input entries of the kind before it; the cycle schedule's start and each cycle's
+     * monotonic start are in the journal and give its number and jitter.
+     */
+    @Test
+    void shouldJournalEveryInputBeforeWhatItCausedAndTheCycleTimingToReplayIt(@TempDir Path dir) {
+        Path file = dir.resolve("controller.jsonl");
+        StudyLoop loop = journaledLoop(file);
+        TopicTree topics = TopicTree.forSite("two-area-textbook");
+        String meterTopic = topics.areaMeter("area1", "m-injected");
+        loop.runTo(30);
+        var injector = loop.broker.connect("injector");
+        injector.publish(org.loopstand.protocol.bus.OutboundMessage.of(meterTopic,
+                "{not json".getBytes(java.nio.charset.StandardCharsets.UTF_8), Qos.AT_MOST_ONCE));
+        injector.publish(org.loopstand.protocol.bus.OutboundMessage.of(meterTopic, new byte[] {(byte) 0xff, (byte) 0xfe},
+                Qos.AT_MOST_ONCE));
+        loop.runTo(50);
+        loop.agent.onClose();
+
+        List<JournalEntry> entries = JournalReader.readAll(file).entries();
+        int text = -1;
+        int binary = -1;
+        for (int i = 0; i < entries.size(); i++) {
+            if (meterTopic.equals(entries.get(i).text("topic")) && entries.get(i).kind().equals(InputEntries.KIND)) {
+                if ("{not json".equals(entries.get(i).text("payload"))) {
+                    text = i;
+                } else if ("//4=".equals(entries.get(i).text("payloadBase64"))) {
+                    binary = i;
+                }
+            }
+        }
+        assertThat(text).isPositive();
+        assertThat(binary).isPositive();
+        for (int i : new int[] {text, binary}) {
+            JournalEntry input = entries.get(i);
+            JournalEntry refused = entries.get(i + 1);
+            assertThat(input.get("atMs").asLong()).isEqualTo(StudyLoop.START_MS + 30_000L);
+            assertThat(refused.kind()).isEqualTo(JournalFormat.KIND_REFUSED);
+            assertThat(refused.text("topic")).isEqualTo(meterTopic);
+            assertThat(refused.tMs()).isEqualTo(input.tMs());
+        }
+        assertThat(InputEntries.payloadOf(entries.get(binary).fields())).containsExactly(0xff, 0xfe);
+
+        JournalEntry clock = entries.stream().filter(e -> e.kind().equals(InputEntries.KIND_CYCLE_CLOCK)).findFirst().orElseThrow();
+        long periodNs = clock.get("periodNs").asLong();
+        long t0Ns = clock.get("t0Ns").asLong();
+        assertThat(periodNs).isEqualTo(loop.agent.cycle().settings().cycleMs() * 1_000_000L);
+        long meterInputs = 0;
+        long cycles = 0;
+        for (JournalEntry e : entries) {
+            if (e.kind().equals(InputEntries.KIND) && e.text("topic").contains("/meter/")) {
+                meterInputs++;
+            } else if (e.kind().equals(JournalFormat.KIND_DECIDED)) {
+                cycles++;
+                assertThat(e.fields().path("intake").path("areaMeter").path("received").asLong()).isEqualTo(meterInputs);
+                long scheduledNs = t0Ns + e.get("cycle").asLong() * periodNs;
+                assertThat(e.get("jitterUs").asLong()).isEqualTo((e.get("pollNs").asLong() - scheduledNs) / 1000);
+            }
+        }
+        assertThat(cycles).isEqualTo(loop.agent.cyclesRun()).isGreaterThanOrEqualTo(12);
+        assertThat(meterInputs).isGreaterThan(40); // two meters every 2 s for 50 s, and the two injected
+    }
 }

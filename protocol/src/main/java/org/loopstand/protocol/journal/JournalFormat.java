@@ -7,8 +7,15 @@ import com.fasterxml.jackson.databind.SerializationFeature;
 public final class JournalFormat {
     /** Value of the header's {@code journal} field. */
     public static final String MAGIC = "loopstand";
-    /** Schema version this code writes and the highest it reads. */
-    public static final int SCHEMA_VERSION = 1;
+    /**
+     * Schema version this code writes and the highest it reads (it reads every version from 1).
+     * Version 2: the controller journal also holds every input it routed ({@code input} entries), the start
+     * of its cycle schedule ({@code cycleClock}) and each cycle's monotonic start ({@code pollNs} in
+     * {@code decided}), enough to replay it exactly; every version-1 entry is unchanged.
+     */
+    public static final int SCHEMA_VERSION = 2;
+    /** The first schema version whose controller journal can be replayed. */
+    public static final int FIRST_REPLAYABLE_VERSION = 2;
 
     /** Field holding the entry's scenario time, epoch ms. */
     public static final String FIELD_TIME = "t";

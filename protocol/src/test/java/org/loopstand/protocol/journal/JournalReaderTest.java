@@ -76,7 +76,7 @@ class JournalReaderTest {
     void shouldRefuseAForeignFileAndANewerSchema() throws Exception {
         Path foreign = write("a.jsonl", "{\"hello\":1}\n");
         assertThatThrownBy(() -> JournalReader.readAll(foreign)).hasMessageContaining("not a Loopstand journal");
-        Path newer = write("b.jsonl", "{\"journal\":\"loopstand\",\"schemaVersion\":2,\"process\":\"x\",\"startedAt\":0}\n");
-        assertThatThrownBy(() -> JournalReader.readAll(newer)).hasMessageContaining("schemaVersion 2");
+        Path newer = write("b.jsonl", "{\"journal\":\"loopstand\",\"schemaVersion\":3,\"process\":\"x\",\"startedAt\":0}\n");
+        assertThatThrownBy(() -> JournalReader.readAll(newer)).hasMessageContaining("schemaVersion 3");
     }
 }

@@ -34,7 +34,7 @@ class JournalWriterTest {
         List<String> lines = Files.readAllLines(file);
         assertThat(lines).hasSize(4);
         assertThat(lines.get(0)).isEqualTo(
-                "{\"journal\":\"loopstand\",\"schemaVersion\":1,\"process\":\"controller\",\"startedAt\":1700000000000,\"site\":\"demo-site\"}");
+                "{\"journal\":\"loopstand\",\"schemaVersion\":2,\"process\":\"controller\",\"startedAt\":1700000000000,\"site\":\"demo-site\"}");
         assertThat(lines.get(1)).isEqualTo(
                 "{\"t\":1700000004000,\"kind\":\"decided\",\"unit\":\"u1\",\"aceMw\":-12.5,\"pulseMs\":800}");
         assertThat(lines.get(3)).isEqualTo("{\"t\":1700000008000,\"kind\":\"end\",\"reason\":\"completed\",\"entries\":2}");
