@@ -134,11 +134,20 @@ public final class MappingReader {
         if (s == null) {
             return fallback;
         }
-        if (!isNumber(s) || Double.parseDouble(s.text()) != Math.rint(Double.parseDouble(s.text()))) {
+        if (isNumber(s) && s.text().matches("[+-]?\\d+")) {
+            try {
+                return Long.parseLong(s.text().startsWith("+") ? s.text().substring(1) : s.text()); // exact: seeds use all 64 bits
+            } catch (NumberFormatException e) {
+                fail(s, key, "must be a whole number within ±9223372036854775807, got '" + s.text() + "'");
+                return fallback;
+            }
+        }
+        if (!isNumber(s) || Double.parseDouble(s.text()) != Math.rint(Double.parseDouble(s.text()))
+                || Math.abs(Double.parseDouble(s.text())) > 9.007199254740992E15) {
             fail(s, key, "must be a whole number, got '" + s.text() + "'");
             return fallback;
         }
-        return (long) Double.parseDouble(s.text());
+        return (long) Double.parseDouble(s.text()); // written as 5.0: exact below 2^53
     }
 
     /** @return the whole number, or {@code fallback} when absent, wrong or outside the range */

@@ -40,6 +40,19 @@ class MappingReaderTest {
     }
 
     @Test
+    void shouldReadAWholeNumberExactlyAcrossAllSixtyFourBits() {
+        // a random seed of a campaign run uses all 64 bits; through a double it would lose its last digits
+        List<String> problems = new java.util.ArrayList<>();
+        MappingReader r = new MappingReader(YamlNode.read("s.yaml",
+                "seed: 2186024489510581814\nnegative: -9223372036854775808\nwritten: 5.0\nhuge: 9223372036854775808\n"), "the file", problems);
+        assertThat(r.optionalLong("seed", 0)).isEqualTo(2_186_024_489_510_581_814L);
+        assertThat(r.optionalLong("negative", 0)).isEqualTo(Long.MIN_VALUE);
+        assertThat(r.optionalLong("written", 0)).isEqualTo(5L);
+        assertThat(r.optionalLong("huge", 7)).isEqualTo(7L);
+        assertThat(problems).singleElement().asString().startsWith("s.yaml:4:").contains("huge", "9223372036854775808");
+    }
+
+    @Test
     void shouldNameTheMissingKeyAtTheMappingItBelongsTo() {
         double v = unit().requiredDouble("governorTimeConstantS");
         assertThat(v).isNaN();
