@@ -2,10 +2,8 @@ package org.loopstand.controller.config;
 
 import org.loopstand.controller.ace.AceMode;
 import org.loopstand.controller.following.FollowingSettings;
-import org.loopstand.controller.intake.FallbackPolicy;
 import org.loopstand.controller.pulse.PulseSettings;
 import org.loopstand.controller.regulation.RegulationSettings;
-import org.loopstand.controller.safety.InterlockSettings;
 
 /**
  * The optional {@code controller:} section of a site file. Every setting, its unit and default is

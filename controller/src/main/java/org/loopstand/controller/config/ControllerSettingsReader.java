@@ -3,10 +3,8 @@ package org.loopstand.controller.config;
 import java.util.function.Supplier;
 import org.loopstand.controller.ace.AceMode;
 import org.loopstand.controller.following.FollowingSettings;
-import org.loopstand.controller.intake.FallbackPolicy;
 import org.loopstand.controller.pulse.PulseSettings;
 import org.loopstand.controller.regulation.RegulationSettings;
-import org.loopstand.controller.safety.InterlockSettings;
 import org.loopstand.protocol.config.MappingReader;
 import org.loopstand.protocol.config.Range;
 

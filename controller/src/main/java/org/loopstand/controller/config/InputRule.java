@@ -1,7 +1,5 @@
 package org.loopstand.controller.config;
 
-import org.loopstand.controller.intake.FallbackPolicy;
-import org.loopstand.controller.intake.InputValidationSettings;
 
 /**
  * Validation rule for one kind of input (all frequencies, all tie flows), from the {@code

@@ -1,5 +1,7 @@
 package org.loopstand.controller.cycle;
 
+import org.loopstand.controller.schedule.AreaSchedule;
+
 import java.util.ArrayList;
 import java.util.HashMap;
 import java.util.LinkedHashMap;

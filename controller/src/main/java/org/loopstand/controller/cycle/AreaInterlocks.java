@@ -9,7 +9,7 @@ import java.util.Map;
 import java.util.Set;
 import org.loopstand.controller.safety.InterlockCheck;
 import org.loopstand.controller.safety.InterlockDecision;
-import org.loopstand.controller.safety.InterlockSettings;
+import org.loopstand.controller.config.InterlockSettings;
 import org.loopstand.controller.safety.InterlockState;
 import org.loopstand.controller.safety.RegulationInterlock;
 

@@ -1,13 +1,23 @@
 package org.loopstand.controller.cycle;
 
+import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.HashSet;
 import java.util.List;
 import java.util.Map;
 import java.util.Set;
+
+import org.loopstand.controller.ace.AreaControlSettings;
+import org.loopstand.controller.config.ControllerSettings;
+import org.loopstand.controller.config.ControllerSiteConfig;
+import org.loopstand.controller.config.SiteArea;
+import org.loopstand.controller.config.SiteUnit;
+import org.loopstand.controller.dispatch.QuadraticCostUnit;
 import org.loopstand.controller.following.FollowingSettings;
 import org.loopstand.controller.following.GovernorResponse;
 import org.loopstand.controller.pulse.PulseSettings;
-import org.loopstand.controller.safety.InterlockSettings;
+import org.loopstand.controller.config.InterlockSettings;
+import org.loopstand.protocol.site.AceConvention;
 
 /**
  * @param cycleMs          control cycle, ms, in [500, 60000] (default 4000); each area's
@@ -59,5 +69,34 @@ public record ControlCycleSettings(long cycleMs, List<AreaSetup> areas, PulseSet
     public static ControlCycleSettings of(long cycleMs, List<AreaSetup> areas) {
         return new ControlCycleSettings(cycleMs, areas, PulseSettings.DEFAULTS, InterlockSettings.DEFAULTS,
                 FollowingSettings.DEFAULTS, 500, Map.of());
+    }
+
+    /** @return the cycle settings a site's areas, units and controller settings describe */
+    public static ControlCycleSettings fromSite(ControllerSiteConfig site) {
+        ControllerSettings s = site.settings();
+        List<AreaSetup> setups = new ArrayList<>();
+        Map<String, GovernorResponse> primary = new HashMap<>();
+        for (SiteArea a : site.areas()) {
+            AreaControlSettings.Builder b = AreaControlSettings.builder(a.id()).mode(s.aceMode())
+                    .nominalFrequencyHz(a.nominalFrequencyHz());
+            if (a.convention() == AceConvention.NORTH_AMERICAN) {
+                b.northAmericanBias(a.bias());
+            } else {
+                b.europeanK(a.bias());
+            }
+            List<QuadraticCostUnit> costs = new ArrayList<>();
+            for (SiteUnit u : site.units()) {
+                if (u.area().equals(a.id())) {
+                    if (u.costC() > 0) {
+                        costs.add(new QuadraticCostUnit(u.id(), u.costA(), u.costB(), u.costC(), u.minMw(), u.maxMw()));
+                    }
+                    primary.put(u.id(), u.governor(a.nominalFrequencyHz()));
+                }
+            }
+            long redispatch = costs.isEmpty() ? 0 : s.redispatchPeriodMs();
+            setups.add(new AreaSetup(b.build(), s.regulation(), costs, redispatch, s.redispatchRampShare()));
+        }
+        return new ControlCycleSettings(s.cycleMs(), setups, s.pulses(), s.interlock(), s.following(),
+                s.commandSettleMs(), primary);
     }
 }

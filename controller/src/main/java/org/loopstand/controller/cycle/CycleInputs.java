@@ -1,5 +1,7 @@
 package org.loopstand.controller.cycle;
 
+import org.loopstand.controller.intake.AreaCycleInputs;
+
 import java.util.List;
 import org.loopstand.controller.allocation.UnitState;
 

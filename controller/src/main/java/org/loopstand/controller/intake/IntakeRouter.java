@@ -1,5 +1,9 @@
 package org.loopstand.controller.intake;
 
+import org.loopstand.controller.schedule.AreaSchedule;
+
+import org.loopstand.controller.config.InputValidationSettings;
+
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.LinkedHashMap;
@@ -19,8 +23,6 @@ import org.loopstand.controller.config.ControllerSiteConfig;
 import org.loopstand.controller.config.SiteArea;
 import org.loopstand.controller.config.SiteTie;
 import org.loopstand.controller.config.SiteUnit;
-import org.loopstand.controller.cycle.AreaCycleInputs;
-import org.loopstand.controller.cycle.AreaSchedule;
 import org.loopstand.protocol.bus.InboundMessage;
 import org.loopstand.protocol.bus.MessageListener;
 import org.loopstand.protocol.codec.MessageCodec;

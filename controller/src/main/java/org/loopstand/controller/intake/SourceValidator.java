@@ -1,5 +1,7 @@
 package org.loopstand.controller.intake;
 
+import org.loopstand.controller.config.InputValidationSettings;
+
 import java.util.EnumSet;
 import java.util.Set;
 

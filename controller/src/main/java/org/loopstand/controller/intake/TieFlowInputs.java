@@ -1,5 +1,7 @@
 package org.loopstand.controller.intake;
 
+import org.loopstand.controller.config.InputValidationSettings;
+
 import java.util.HashMap;
 import java.util.HashSet;
 import java.util.LinkedHashMap;

@@ -1,5 +1,9 @@
 package org.loopstand.controller.intake;
 
+import org.loopstand.controller.config.InputValidationSettings;
+
+import org.loopstand.controller.config.FallbackPolicy;
+
 import java.util.EnumSet;
 
 /**

@@ -7,8 +7,9 @@ import java.util.Optional;
 import java.util.concurrent.ConcurrentLinkedQueue;
 import org.loopstand.controller.config.ControllerSiteConfig;
 import org.loopstand.controller.config.SiteArea;
-import org.loopstand.controller.cycle.AreaCycleInputs;
+import org.loopstand.controller.intake.AreaCycleInputs;
 import org.loopstand.controller.cycle.ControlCycle;
+import org.loopstand.controller.cycle.ControlCycleSettings;
 import org.loopstand.controller.cycle.CycleInputs;
 import org.loopstand.controller.cycle.CycleOutcome;
 import org.loopstand.controller.cycle.CycleScheduler;
@@ -109,7 +110,7 @@ public final class ControllerAgent implements Agent {
         this.histograms = histograms;
         metrics.attach(this);
         this.topics = TopicTree.forSite(site.siteId());
-        this.cycle = new ControlCycle(site.toCycleSettings());
+        this.cycle = new ControlCycle(ControlCycleSettings.fromSite(site));
 
         this.sentCommands = new SentCommands(controllerId, journal);
         this.outcomes = new CommandOutcomes(cycle, sentCommands);

@@ -8,7 +8,7 @@ import org.loopstand.controller.allocation.UnitState;
 import org.loopstand.controller.config.ControllerSiteConfig;
 import org.loopstand.controller.config.SiteArea;
 import org.loopstand.controller.config.SiteUnit;
-import org.loopstand.controller.cycle.AreaCycleInputs;
+import org.loopstand.controller.intake.AreaCycleInputs;
 import org.loopstand.controller.intake.IntakeRouter;
 import org.loopstand.controller.intake.SeqTracker;
 import org.loopstand.controller.intake.SourceValidator;

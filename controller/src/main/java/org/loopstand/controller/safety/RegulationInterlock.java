@@ -1,5 +1,7 @@
 package org.loopstand.controller.safety;
 
+import org.loopstand.controller.config.InterlockSettings;
+
 import java.util.List;
 
 /**

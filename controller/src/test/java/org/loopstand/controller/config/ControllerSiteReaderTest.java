@@ -23,13 +23,13 @@ class ControllerSiteReaderTest {
         // regulating limits fall back to the output limits like the plant does
         assertThat(c.unit("ridge-steam-1").orElseThrow().maxMw()).isEqualTo(690);
         assertThat(c.settings().cycleMs()).isEqualTo(4000);
-        assertThat(c.toCycleSettings().areas()).hasSize(2);
+        assertThat(org.loopstand.controller.cycle.ControlCycleSettings.fromSite(c).areas()).hasSize(2);
     }
 
     @Test
     void shouldDeriveEachUnitsPrimaryResponseFromRatingDroopAndDeadBand() {
         ControllerSiteConfig c = ControllerSiteReader.read(Path.of("..", "config", "sites", "demo-site.yaml"));
-        var governors = c.toCycleSettings().governors();
+        var governors = org.loopstand.controller.cycle.ControlCycleSettings.fromSite(c).governors();
         // β_unit = ratingMw / (droopPct/100 · f0): 700 / (0.04 · 50) = 350 MW/Hz, 500 / (0.05 · 50) = 200 MW/Hz
         assertThat(governors.get("ridge-steam-1").mwPerHz()).isEqualTo(350);
         assertThat(governors.get("ridge-hydro-1").mwPerHz()).isEqualTo(200);

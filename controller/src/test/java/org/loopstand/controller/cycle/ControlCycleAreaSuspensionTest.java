@@ -1,5 +1,9 @@
 package org.loopstand.controller.cycle;
 
+import org.loopstand.controller.schedule.AreaSchedule;
+
+import org.loopstand.controller.intake.AreaCycleInputs;
+
 import static org.assertj.core.api.Assertions.assertThat;
 import static org.assertj.core.api.Assertions.within;
 
@@ -15,7 +19,7 @@ import org.loopstand.controller.intake.ValidationReason;
 import org.loopstand.controller.pulse.PlannedCommand;
 import org.loopstand.controller.pulse.PulseSettings;
 import org.loopstand.controller.regulation.RegulationSettings;
-import org.loopstand.controller.safety.InterlockSettings;
+import org.loopstand.controller.config.InterlockSettings;
 import org.loopstand.controller.safety.InterlockState;
 
 /** Only the area whose data are unusable is suspended; a bad tie suspends both its ends. */

@@ -1,5 +1,9 @@
 package org.loopstand.controller.cycle;
 
+import org.loopstand.controller.schedule.AreaSchedule;
+
+import org.loopstand.controller.intake.AreaCycleInputs;
+
 import static org.assertj.core.api.Assertions.assertThat;
 import static org.assertj.core.api.Assertions.within;
 
@@ -16,7 +20,7 @@ import org.loopstand.controller.intake.ValidatedValue;
 import org.loopstand.controller.pulse.PlannedCommand;
 import org.loopstand.controller.pulse.PulseSettings;
 import org.loopstand.controller.regulation.RegulationSettings;
-import org.loopstand.controller.safety.InterlockSettings;
+import org.loopstand.controller.config.InterlockSettings;
 
 /**
  * The following check in the closed loop with a quasi-static two-area plant: area A (one unit of

@@ -1,5 +1,9 @@
 package org.loopstand.controller.cycle;
 
+import org.loopstand.controller.schedule.AreaSchedule;
+
+import org.loopstand.controller.intake.AreaCycleInputs;
+
 import static org.assertj.core.api.Assertions.assertThat;
 
 import java.util.ArrayList;
@@ -16,7 +20,7 @@ import org.loopstand.controller.pulse.PlannedCommand;
 import org.loopstand.controller.pulse.PulseSettings;
 import org.loopstand.controller.regulation.AceBand;
 import org.loopstand.controller.regulation.RegulationSettings;
-import org.loopstand.controller.safety.InterlockSettings;
+import org.loopstand.controller.config.InterlockSettings;
 
 /**
  * The ramp anti-wind-up must stop the integrator from running ahead of ramp-bound units, never

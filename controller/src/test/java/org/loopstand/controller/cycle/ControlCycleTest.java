@@ -1,5 +1,9 @@
 package org.loopstand.controller.cycle;
 
+import org.loopstand.controller.schedule.AreaSchedule;
+
+import org.loopstand.controller.intake.AreaCycleInputs;
+
 import static org.assertj.core.api.Assertions.assertThat;
 import static org.assertj.core.api.Assertions.within;
 
@@ -17,7 +21,7 @@ import org.loopstand.protocol.message.PulseDirection;
 import org.loopstand.controller.pulse.PulseSettings;
 import org.loopstand.controller.regulation.AceBand;
 import org.loopstand.controller.regulation.RegulationSettings;
-import org.loopstand.controller.safety.InterlockSettings;
+import org.loopstand.controller.config.InterlockSettings;
 import org.loopstand.controller.safety.InterlockState;
 
 class ControlCycleTest {

@@ -8,7 +8,6 @@ import java.util.List;
 import org.junit.jupiter.api.Test;
 import org.loopstand.controller.config.ControllerSiteConfig;
 import org.loopstand.controller.config.ControllerSiteReader;
-import org.loopstand.controller.cycle.AreaCycleInputs;
 import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.AreaMeter;
 import org.loopstand.protocol.message.ClockTick;

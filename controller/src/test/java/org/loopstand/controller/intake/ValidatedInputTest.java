@@ -1,5 +1,7 @@
 package org.loopstand.controller.intake;
 
+import org.loopstand.controller.config.InputValidationSettings;
+
 import static org.assertj.core.api.Assertions.assertThat;
 import static org.assertj.core.api.Assertions.assertThatThrownBy;
 

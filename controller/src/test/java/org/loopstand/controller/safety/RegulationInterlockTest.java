@@ -1,5 +1,7 @@
 package org.loopstand.controller.safety;
 
+import org.loopstand.controller.config.InterlockSettings;
+
 import static org.assertj.core.api.Assertions.assertThat;
 
 import java.util.Set;

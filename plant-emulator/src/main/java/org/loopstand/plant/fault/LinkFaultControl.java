@@ -2,7 +2,7 @@ package org.loopstand.plant.fault;
 
 /**
  * What connection faults need from one bus connection. Implemented for MQTT links and in-memory
- * connections by {@code org.loopstand.plant.runtime.BusLinkFaults}; the
+ * connections by the plant runtime's BusLinkFaults; the
  * {@link FaultEngine} calls it on the agent thread when a connection fault starts and ends.
  */
 public interface LinkFaultControl {

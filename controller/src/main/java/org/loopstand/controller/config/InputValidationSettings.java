@@ -1,4 +1,4 @@
-package org.loopstand.controller.intake;
+package org.loopstand.controller.config;
 
 import java.util.ArrayList;
 import java.util.List;
@@ -13,7 +13,7 @@ import java.util.List;
  * @param maxRatePerS       largest plausible change per second between consecutive samples
  *                          (input unit/s), &gt; 0, default +∞ (off)
  * @param frozenAfterMs     source-time span (scenario time) of identical samples that makes the
- *                          input frozen, ms, 0 = off or &gt; 0, default 0 ({@link FrozenDetector})
+ *                          input frozen, ms, 0 = off or &gt; 0, default 0 (the intake's FrozenDetector)
  * @param frozenMinReadings fewest samples in that span, ≥ 2, default 2
  * @param frozenEpsilon     largest difference counted as identical (input unit), ≥ 0, default 0
  * @param policy            fallback when the latest value is not usable, default DECLARE_UNUSABLE

@@ -1,4 +1,4 @@
-package org.loopstand.controller.intake;
+package org.loopstand.controller.config;
 
 /** What an input gives when its own latest value is not usable. */
 public enum FallbackPolicy {

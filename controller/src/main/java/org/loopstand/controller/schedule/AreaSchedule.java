@@ -1,4 +1,4 @@
-package org.loopstand.controller.cycle;
+package org.loopstand.controller.schedule;
 
 /**
  * @param netInterchangeScheduledMw NIs, MW, + = export

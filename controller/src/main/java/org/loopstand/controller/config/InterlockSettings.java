@@ -1,4 +1,4 @@
-package org.loopstand.controller.safety;
+package org.loopstand.controller.config;
 
 /**
  * @param aceSanityLimitMw      |ACE| above this is treated as a measurement problem, not a real

@@ -1,4 +1,6 @@
-package org.loopstand.controller.cycle;
+package org.loopstand.controller.intake;
+
+import org.loopstand.controller.schedule.AreaSchedule;
 
 import java.util.Map;
 import org.loopstand.controller.intake.ValidatedValue;
