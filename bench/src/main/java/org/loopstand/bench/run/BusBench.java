@@ -25,7 +25,7 @@ import org.loopstand.plant.physics.GridSimulator;
 import org.loopstand.plant.runtime.LinkFactory;
 import org.loopstand.plant.runtime.PlantOptions;
 import org.loopstand.plant.runtime.PlantRunner;
-import org.loopstand.plant.runtime.UnitHost;
+import org.loopstand.plant.runtime.UnitDutyCycle;
 import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.plant.unit.InterfaceOptions;
 import org.loopstand.protocol.agent.AgentRunner;
@@ -88,7 +88,7 @@ public final class BusBench {
             GridSimulator sim = new GridSimulator(grid);
             PlantRunner plant = new PlantRunner(sim, loadSteps(grid, s), po, links, clock, say::accept)
                     .unitScanMs(s.unitScanMs());
-            List<UnitHost> hosts = plant.hosts();
+            List<UnitDutyCycle> hosts = plant.unitCycles();
             long periodNanos = s.telemetryScanMs() * 1_000_000L;
             for (int i = 0; i < hosts.size(); i++) {
                 hosts.get(i).unit().staggerTelemetry(i * periodNanos / hosts.size());

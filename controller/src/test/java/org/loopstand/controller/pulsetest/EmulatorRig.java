@@ -76,7 +76,7 @@ final class EmulatorRig implements AutoCloseable {
     }
 
     UnitPlantInterface unit() {
-        return plant.host(unitId).unit();
+        return plant.unitCycle(unitId).unit();
     }
 
     /** Runs the plant alone for {@code s} seconds of virtual time (lets the governors settle). */

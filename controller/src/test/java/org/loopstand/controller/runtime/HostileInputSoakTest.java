@@ -13,7 +13,7 @@ import java.util.TreeMap;
 
 import org.junit.jupiter.api.Test;
 import org.loopstand.plant.physics.GridSimulator;
-import org.loopstand.plant.runtime.UnitHost;
+import org.loopstand.plant.runtime.UnitDutyCycle;
 import org.loopstand.protocol.bus.ForwardingBus;
 import org.loopstand.protocol.bus.OutboundMessage;
 import org.loopstand.protocol.bus.Qos;
@@ -85,7 +85,7 @@ class HostileInputSoakTest {
                 });
         List<String> takenByUnits = new ArrayList<>();
         List<String> ownRefusedFencing = new ArrayList<>();
-        for (UnitHost h : loop.plant.hosts()) {
+        for (UnitDutyCycle h : loop.plant.unitCycles()) {
             h.unit().setCommandListener((nowMs, c, outcome, reason, acted) -> {
                 String key = c.unit() + "/" + c.seq();
                 if (outcome == AckOutcome.ACCEPTED) {
@@ -136,7 +136,7 @@ class HostileInputSoakTest {
         });
         // no unit fenced: none of the controller's own commands was refused for epoch, seq or controller
         assertThat(ownRefusedFencing).isEmpty();
-        for (UnitHost h : loop.plant.hosts()) {
+        for (UnitDutyCycle h : loop.plant.unitCycles()) {
             assertThat(h.unit().controlMode()).as(h.unit().unitId()).isEqualTo(ControlMode.REMOTE);
             assertThat(h.unit().activeController()).isEqualTo(CTRL);
         }
@@ -145,7 +145,7 @@ class HostileInputSoakTest {
         for (String area : List.of("area1", "area2")) {
             assertThat(loop.agent.intake().areaInputs(area, now).frequencyHz().usable()).as(area).isTrue();
         }
-        for (UnitHost h : loop.plant.hosts()) {
+        for (UnitDutyCycle h : loop.plant.unitCycles()) {
             assertThat(loop.agent.intake().telemetryCheck(h.unit().unitId()).evaluate(now).usable()).isTrue();
         }
         assertThat(loop.agent.lastOutcome().reasons()).isEmpty();

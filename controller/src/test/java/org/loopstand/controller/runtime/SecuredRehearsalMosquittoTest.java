@@ -22,7 +22,7 @@ import org.loopstand.plant.physics.GridSimulator;
 import org.loopstand.plant.runtime.ConnectionGrouping;
 import org.loopstand.plant.runtime.PlantOptions;
 import org.loopstand.plant.runtime.PlantRunner;
-import org.loopstand.plant.runtime.UnitHost;
+import org.loopstand.plant.runtime.UnitDutyCycle;
 import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.ScenarioLoader;
 import org.loopstand.plant.site.SiteLoader;
@@ -82,7 +82,7 @@ class SecuredRehearsalMosquittoTest {
                     : new org.loopstand.plant.physics.StepSizeRule(grid).defaultStepS(), scenario.seed(),
                     scenario.startHourOfDay()), scenario.events(), o,
                     MqttLinks.to(broker.sslUri(), clock, plantSecurity, site), clock, s -> { })) {
-                PlantSecurity.requireSignedCommands(plantSecurity, plant.hosts().stream().map(UnitHost::unit).toList(), clock);
+                PlantSecurity.requireSignedCommands(plantSecurity, plant.unitCycles().stream().map(UnitDutyCycle::unit).toList(), clock);
                 plant.start();
 
                 ControllerSiteConfig config = ControllerSiteReader.read(siteFile);
@@ -105,7 +105,7 @@ class SecuredRehearsalMosquittoTest {
                     assertThat(agent.unsignableCommands()).isZero();
                 }
                 assertThat(accepted(plant)).isGreaterThanOrEqualTo(1);
-                for (UnitHost h : plant.hosts()) {
+                for (UnitDutyCycle h : plant.unitCycles()) {
                     for (RefusalReason r : List.of(RefusalReason.BAD_SIGNATURE, RefusalReason.MISSING_SIGNATURE,
                             RefusalReason.UNKNOWN_KEY, RefusalReason.REPLAYED)) {
                         assertThat(h.unit().refusalCount(r)).as(h.unit().unitId() + " " + r).isZero();
@@ -116,6 +116,6 @@ class SecuredRehearsalMosquittoTest {
     }
 
     private static long accepted(PlantRunner plant) {
-        return plant.hosts().stream().mapToLong(h -> h.unit().acceptedCount()).sum();
+        return plant.unitCycles().stream().mapToLong(h -> h.unit().acceptedCount()).sum();
     }
 }

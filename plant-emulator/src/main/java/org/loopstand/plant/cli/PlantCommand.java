@@ -38,7 +38,7 @@ import org.loopstand.plant.check.RunRecord;
 import org.loopstand.plant.runtime.FaultHooks;
 import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
-import org.loopstand.plant.runtime.UnitHost;
+import org.loopstand.plant.runtime.UnitDutyCycle;
 import org.loopstand.protocol.security.AuthOptions;
 import org.loopstand.protocol.security.LinkSecurity;
 import org.loopstand.protocol.security.SecuritySetupException;
@@ -210,7 +210,7 @@ public final class PlantCommand implements Callable<Integer> {
         }
         PlantRunner runner = new PlantRunner(sim, events, options, loop.links(links::connect), clock, PlantCommand::say);
         start.pace(clock, runner);
-        PlantSecurity.requireSignedCommands(security, runner.hosts().stream().map(UnitHost::unit).toList(), clock);
+        PlantSecurity.requireSignedCommands(security, runner.unitCycles().stream().map(UnitDutyCycle::unit).toList(), clock);
         PlantRunJournal runJournal = null;
         if (journalDir != null) {
             if (!(truthIntervalS > 0)) {
@@ -279,7 +279,7 @@ public final class PlantCommand implements Callable<Integer> {
         }
         RunAnnouncer.publishSiteSchedules(grid, runner.agent().plant());
         run.announce(start.waitGo ? RunPhase.WAITING : RunPhase.RUNNING, 0, null);
-        int here = runner.hosts().size();
+        int here = runner.unitCycles().size();
         say(String.format(Locale.ROOT, "plant: site %s, broker %s%s, rate %s, %d unit interface(s) here (%s), %d elsewhere%s",
                 grid.siteId(), uri, embedded != null ? " (embedded)" : "", trim(rate), here,
                 options.grouping().cliName(), options.remoteUnits().size(),

@@ -76,7 +76,7 @@ public final class FieldGateway {
             if (bus.isConnected()) {
                 for (String u : units) {
                     FieldReading reading = new FieldReading(seq++, clock.epochMillis(), u, sim.outputMw(u),
-                            sim.loadReferenceMw(u), DirectUnitField.statusOf(sim, u));
+                            sim.loadReferenceMw(u), DirectTurbineField.statusOf(sim, u));
                     bus.publish(OutboundMessage.of(topics.fieldReading(u), codec.encode(reading), Qos.AT_MOST_ONCE));
                 }
             }

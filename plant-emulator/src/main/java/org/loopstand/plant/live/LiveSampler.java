@@ -19,7 +19,7 @@ import org.loopstand.plant.runtime.HeldStartClock;
 import org.loopstand.plant.runtime.PlantAgent;
 import org.loopstand.plant.runtime.PlantCounters;
 import org.loopstand.plant.runtime.StepLateness;
-import org.loopstand.plant.runtime.UnitHost;
+import org.loopstand.plant.runtime.UnitDutyCycle;
 import org.loopstand.plant.unit.UnitPlantInterface;
 import org.loopstand.protocol.message.AreaAce;
 import org.loopstand.protocol.message.ControllerStatus;
@@ -114,7 +114,7 @@ public final class LiveSampler implements Consumer<PlantAgent> {
             ties.add(new LiveSnapshot.TieView(t.id(), t.fromArea(), t.toArea(), sim.tieFlowMw(i)));
         }
         List<LiveSnapshot.UnitView> units = new ArrayList<>();
-        for (UnitHost h : agent.parts().units()) {
+        for (UnitDutyCycle h : agent.parts().units()) {
             UnitPlantInterface u = h.unit();
             int i = g.unitIndex(u.unitId());
             long refused = u.refusalCounts().values().stream().mapToLong(Long::longValue).sum();

@@ -21,10 +21,10 @@ final class BusPlantControls implements PlantControls {
     private final MessageBus plantBus;
     private final TopicTree topics;
     private final MessageCodec codec;
-    private final List<UnitHost> units;
+    private final List<UnitDutyCycle> units;
     private long scheduleSeq;
 
-    BusPlantControls(Clock clock, MessageBus plantBus, TopicTree topics, MessageCodec codec, List<UnitHost> units) {
+    BusPlantControls(Clock clock, MessageBus plantBus, TopicTree topics, MessageCodec codec, List<UnitDutyCycle> units) {
         this.clock = clock;
         this.plantBus = plantBus;
         this.topics = topics;
@@ -43,7 +43,7 @@ final class BusPlantControls implements PlantControls {
 
     @Override
     public void setControlMode(String unit, ControlMode mode, String why) {
-        for (UnitHost h : units) {
+        for (UnitDutyCycle h : units) {
             if (h.unit().unitId().equals(unit)) {
                 h.unit().setControlMode(mode, why);
             }

@@ -10,7 +10,7 @@ import org.loopstand.plant.grid.GeneratingUnit;
 
 /**
  * How the units' plant interfaces share MQTT connections. Whatever the grouping, each unit keeps its
- * own logical link ({@link UnitLink}) that a fault can take down alone.
+ * own logical link ({@link ControlCentreLink}) that a fault can take down alone.
  */
 public enum ConnectionGrouping {
     /** One connection per unit, own client id and last will on the unit's link topic. */

@@ -69,17 +69,17 @@ public final class FaultHooks {
         FaultHooks hooks = new FaultHooks(engine, meterStage, handler);
         registerLinks(plant, engine, clock);
         long n = 1;
-        for (UnitHost host : plant.hosts()) {
-            String unit = host.unit().unitId();
-            FaultyPublisher t = new FaultyPublisher(unit, host.link().bus(), plant.topics(), codec, engine, catalog, observer,
-                    clock, host.link().telemetryQos(), seed + n, DELAY_CAPACITY);
-            host.link().setTelemetryFaults(t);
+        for (UnitDutyCycle cycle : plant.unitCycles()) {
+            String unit = cycle.unit().unitId();
+            FaultyPublisher t = new FaultyPublisher(unit, cycle.link().bus(), plant.topics(), codec, engine, catalog, observer,
+                    clock, cycle.link().telemetryQos(), seed + n, DELAY_CAPACITY);
+            cycle.link().setTelemetryFaults(t);
             hooks.telemetry.add(t);
             hooks.commandStages.put(unit, new CommandFaultStage(unit, engine, clock,
-                    c -> host.unit().onCommand(c, clock.monotonicNanos()), observer, seed + 1000 + n, DELAY_CAPACITY));
-            host.unit().setFaultFlags(engine.plantFlags(unit));
-            host.unit().setCommandListener(commands);
-            host.attachFaults(hooks);
+                    c -> cycle.unit().onCommand(c, clock.monotonicNanos()), observer, seed + 1000 + n, DELAY_CAPACITY));
+            cycle.unit().setFaultFlags(engine.plantFlags(unit));
+            cycle.unit().setCommandListener(commands);
+            cycle.attachFaults(hooks);
             n++;
         }
         plant.agent().attachFaults(hooks);
@@ -98,11 +98,11 @@ public final class FaultHooks {
             byBus.put(plant.plantBus(), p);
             engine.registerLink(TargetCatalog.PLANT_CONNECTION, p);
         }
-        for (UnitHost host : plant.hosts()) {
-            var bus = host.link().bus();
+        for (UnitDutyCycle cycle : plant.unitCycles()) {
+            var bus = cycle.link().bus();
             BusLinkFaults c = byBus.computeIfAbsent(bus, b -> BusLinkFaults.forBus(b, clock));
             if (c != null) {
-                engine.registerLink(host.unit().unitId(), c);
+                engine.registerLink(cycle.unit().unitId(), c);
             }
         }
     }

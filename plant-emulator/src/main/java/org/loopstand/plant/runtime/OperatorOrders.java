@@ -29,14 +29,14 @@ import org.slf4j.LoggerFactory;
 public final class OperatorOrders {
     private static final Logger LOG = LoggerFactory.getLogger(OperatorOrders.class);
 
-    private final Map<String, UnitHost> hosts = new LinkedHashMap<>();
+    private final Map<String, UnitDutyCycle> cycles = new LinkedHashMap<>();
     private final MessageCodec codec;
     private final ArrayBlockingQueue<byte[]> queue = new ArrayBlockingQueue<>(256);
     private volatile org.loopstand.plant.journal.PlantRunJournal journal;
     private org.loopstand.protocol.time.Clock journalClock;
 
-    public OperatorOrders(List<UnitHost> units, MessageCodec codec) {
-        units.forEach(h -> hosts.put(h.unit().unitId(), h));
+    public OperatorOrders(List<UnitDutyCycle> units, MessageCodec codec) {
+        units.forEach(h -> cycles.put(h.unit().unitId(), h));
         this.codec = codec;
     }
 
@@ -73,7 +73,7 @@ public final class OperatorOrders {
     /** Applies one order now (owner thread). */
     public void apply(FaultOrder o) {
         for (String target : o.targets()) {
-            UnitHost h = hosts.get(target);
+            UnitDutyCycle h = cycles.get(target);
             if (h == null) {
                 continue;
             }

@@ -36,7 +36,7 @@ public final class PlantAgent implements Agent {
 
     /** What the agent runs. */
     public record Parts(GridSimulator sim, Clock clock, MessageBus plantBus, TopicTree topics, MessageCodec codec,
-                        List<AreaMeterPublisher> meters, List<UnitHost> units, FieldGateway field,
+                        List<AreaMeterPublisher> meters, List<UnitDutyCycle> units, FieldGateway field,
                         OperatorOrders orders, List<ScenarioEvent> events, double rate, StepLateness lateness) {
     }
 
@@ -238,7 +238,7 @@ public final class PlantAgent implements Agent {
     /** Runs the unit interfaces of one slice: unit i belongs to slice i mod unitSlices. */
     private int workUnits(int slice) {
         int work = 0;
-        List<UnitHost> units = p.units();
+        List<UnitDutyCycle> units = p.units();
         for (int i = slice; i < units.size(); i += unitSlices) {
             work += units.get(i).work();
         }

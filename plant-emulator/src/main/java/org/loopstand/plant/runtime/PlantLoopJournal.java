@@ -26,7 +26,7 @@ final class PlantLoopJournal implements ScenarioEngine.EventListener {
 
     private final Clock clock;
     private final GridSimulator sim;
-    private final List<UnitHost> units;
+    private final List<UnitDutyCycle> units;
     private final DoubleToLongFunction epochMsAt;
     private final ConcurrentLinkedQueue<Map<String, Object>> pendingEvents = new ConcurrentLinkedQueue<>();
     private volatile PlantRunJournal journal;
@@ -34,7 +34,7 @@ final class PlantLoopJournal implements ScenarioEngine.EventListener {
     private double nextTruthS;
 
     /** @param epochMsAt scenario epoch ms of a simulated time in s */
-    PlantLoopJournal(Clock clock, GridSimulator sim, List<UnitHost> units, DoubleToLongFunction epochMsAt) {
+    PlantLoopJournal(Clock clock, GridSimulator sim, List<UnitDutyCycle> units, DoubleToLongFunction epochMsAt) {
         this.clock = clock;
         this.sim = sim;
         this.units = units;
@@ -74,7 +74,7 @@ final class PlantLoopJournal implements ScenarioEngine.EventListener {
         }
         nextTruthS += truthIntervalS * (Math.floor((t - nextTruthS) / truthIntervalS + 1e-9) + 1);
         Map<String, String> modes = new HashMap<>();
-        for (UnitHost h : units) {
+        for (UnitDutyCycle h : units) {
             modes.put(h.unit().unitId(), h.unit().controlMode().wireName());
         }
         j.truth(epochMsAt.applyAsLong(t), sim, modes);

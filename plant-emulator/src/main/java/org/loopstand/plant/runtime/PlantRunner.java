@@ -6,7 +6,7 @@ import java.util.List;
 import java.util.Map;
 import java.util.function.Consumer;
 
-import org.loopstand.plant.field.DirectUnitField;
+import org.loopstand.plant.field.DirectTurbineField;
 import org.loopstand.plant.field.FieldGateway;
 import org.loopstand.plant.grid.GeneratingUnit;
 import org.loopstand.plant.meter.AreaMeterPublisher;
@@ -39,10 +39,10 @@ public final class PlantRunner implements AutoCloseable {
     private final Clock clock;
     private final TopicTree topics;
     private final MessageCodec codec = new MessageCodec();
-    private final UnitHost.StatusDecoding statusDecoding = new UnitHost.StatusDecoding(codec);
+    private final UnitDutyCycle.StatusDecoding statusDecoding = new UnitDutyCycle.StatusDecoding(codec);
     private final PlantJournal journal = new PlantJournal();
     private final List<MessageBus> buses = new ArrayList<>();
-    private final Map<String, UnitHost> hosts = new LinkedHashMap<>();
+    private final Map<String, UnitDutyCycle> cycles = new LinkedHashMap<>();
     private final MessageBus plantBus;
     private final PlantAgent agent;
     private final StepLateness lateness;
@@ -87,8 +87,8 @@ public final class PlantRunner implements AutoCloseable {
                 : new FieldGateway(sim, plantBus, topics, codec, clock,
                         sim.grid().units().stream().map(GeneratingUnit::id).filter(options.remoteUnits()::contains).toList(),
                         FieldGateway.DEFAULT_PERIOD_MS).start();
-        List<UnitHost> hostList = List.copyOf(hosts.values());
-        this.orders = new OperatorOrders(hostList, codec).subscribe(plantBus, topics);
+        List<UnitDutyCycle> cycleList = List.copyOf(cycles.values());
+        this.orders = new OperatorOrders(cycleList, codec).subscribe(plantBus, topics);
         this.lateness = new StepLateness(Math.round(options.lateWarnS() * 1e9), msg -> {
             warnings.accept(msg);
             PlantAgent a = this.agentOrNull();
@@ -96,26 +96,26 @@ public final class PlantRunner implements AutoCloseable {
                 a.noteEvent(Map.of("event", "fallingBehind", "lagS", lateness().currentNanos() / 1e9));
             }
         });
-        this.agent = new PlantAgent(new PlantAgent.Parts(sim, clock, plantBus, topics, codec, meters, hostList, field,
+        this.agent = new PlantAgent(new PlantAgent.Parts(sim, clock, plantBus, topics, codec, meters, cycleList, field,
                 orders, events, options.rate(), lateness));
         journal.tap(counters);
         agent.countInto(counters);
-        hostList.forEach(h -> h.link().countInto(counters));
+        cycleList.forEach(h -> h.link().countInto(counters));
     }
 
     private void openGroup(String clientId, List<String> unitIds, long seqStart) {
         OutboundMessage will = options.grouping() == ConnectionGrouping.PER_UNIT
-                ? UnitLink.lastWill(topics, codec, unitIds.get(0), clientId, seqStart, clock.epochMillis()) : null;
+                ? ControlCentreLink.lastWill(topics, codec, unitIds.get(0), clientId, seqStart, clock.epochMillis()) : null;
         MessageBus bus = track(links.connect(clientId, will));
-        List<UnitLink> groupLinks = new ArrayList<>();
+        List<ControlCentreLink> groupLinks = new ArrayList<>();
         for (String unitId : unitIds) {
-            UnitLink link = new UnitLink(unitId, bus, topics, codec, clock, options.telemetryQos(),
+            ControlCentreLink link = new ControlCentreLink(unitId, bus, topics, codec, clock, options.telemetryQos(),
                     options.commandQueueCapacity());
             UnitSettings s = UnitSettings.of(sim.grid().units().get(sim.grid().unitIndex(unitId)), options.interfaces());
-            UnitPlantInterface ui = new UnitPlantInterface(s, new DirectUnitField(sim, unitId), clock, link, journal, seqStart);
-            UnitHost host = new UnitHost(ui, link, codec);
-            host.shareStatusDecoding(statusDecoding);
-            hosts.put(unitId, host);
+            UnitPlantInterface ui = new UnitPlantInterface(s, new DirectTurbineField(sim, unitId), clock, link, journal, seqStart);
+            UnitDutyCycle cycle = new UnitDutyCycle(ui, link, codec);
+            cycle.shareStatusDecoding(statusDecoding);
+            cycles.put(unitId, cycle);
             groupLinks.add(link);
             bus.subscribe(topics.unitCommand(unitId), Qos.AT_LEAST_ONCE,
                     m -> link.offerCommand(m.payload(), clock.monotonicNanos()));
@@ -124,7 +124,7 @@ public final class PlantRunner implements AutoCloseable {
         bus.addConnectionListener(new ConnectionListener() {
             @Override
             public void onConnected(boolean reconnect) {
-                groupLinks.forEach(UnitLink::requestAnnounce);
+                groupLinks.forEach(ControlCentreLink::requestAnnounce);
             }
 
             @Override
@@ -134,7 +134,7 @@ public final class PlantRunner implements AutoCloseable {
     }
 
     /** One status subscription per connection, fanned out to the links it serves. */
-    static void subscribeStatus(MessageBus bus, List<UnitLink> groupLinks) {
+    static void subscribeStatus(MessageBus bus, List<ControlCentreLink> groupLinks) {
         // the filter is built from the kind, never by hand
         String filter = TopicTree.forSite(siteOf(groupLinks)).filterAll(TopicKind.CONTROLLER_STATUS);
         bus.subscribe(filter, Qos.AT_LEAST_ONCE, m -> {
@@ -144,7 +144,7 @@ public final class PlantRunner implements AutoCloseable {
         });
     }
 
-    private static String siteOf(List<UnitLink> links) {
+    private static String siteOf(List<ControlCentreLink> links) {
         return links.get(0).site();
     }
 
@@ -169,7 +169,7 @@ public final class PlantRunner implements AutoCloseable {
         agent.journalTo(j, truthIntervalS);
         journal.attach(j);
         orders.journalTo(j, clock);
-        for (UnitHost h : hosts.values()) {
+        for (UnitDutyCycle h : cycles.values()) {
             h.link().journalTo(j);
             h.unit().latency().listen((what, us) -> j.record("toReference".equals(what)
                     ? org.loopstand.plant.journal.PlantRunJournal.COMMAND_TO_REFERENCE_US
@@ -205,16 +205,16 @@ public final class PlantRunner implements AutoCloseable {
         return agent;
     }
 
-    public UnitHost host(String unitId) {
-        UnitHost h = hosts.get(unitId);
+    public UnitDutyCycle unitCycle(String unitId) {
+        UnitDutyCycle h = cycles.get(unitId);
         if (h == null) {
             throw new IllegalArgumentException("unit '" + unitId + "' has no plant interface in this process");
         }
         return h;
     }
 
-    public List<UnitHost> hosts() {
-        return List.copyOf(hosts.values());
+    public List<UnitDutyCycle> unitCycles() {
+        return List.copyOf(cycles.values());
     }
 
     public MessageBus plantBus() {

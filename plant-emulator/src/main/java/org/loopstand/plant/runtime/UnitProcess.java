@@ -2,7 +2,7 @@ package org.loopstand.plant.runtime;
 
 import java.util.List;
 
-import org.loopstand.plant.field.RemoteUnitField;
+import org.loopstand.plant.field.RemoteTurbineField;
 import org.loopstand.plant.grid.GeneratingUnit;
 import org.loopstand.plant.unit.InterfaceOptions;
 import org.loopstand.plant.unit.PlantJournal;
@@ -22,7 +22,7 @@ import org.loopstand.protocol.topic.TopicTree;
  */
 public final class UnitProcess implements AutoCloseable {
     private final MessageBus bus;
-    private final UnitAgent agent;
+    private final UnitProcessAgent agent;
     private final UnitPlantInterface unitInterface;
     private final PlantJournal journal = new PlantJournal();
     private AgentRunner runner;
@@ -33,12 +33,12 @@ public final class UnitProcess implements AutoCloseable {
         MessageCodec codec = new MessageCodec();
         String clientId = clientId(site, unit.id());
         long seqStart = clock.epochMillis();
-        this.bus = links.connect(clientId, UnitLink.lastWill(topics, codec, unit.id(), clientId, seqStart, seqStart));
-        RemoteUnitField field = new RemoteUnitField(unit.id(), bus, topics, codec, clock).start();
-        UnitLink link = new UnitLink(unit.id(), bus, topics, codec, clock, telemetryQos, 256);
+        this.bus = links.connect(clientId, ControlCentreLink.lastWill(topics, codec, unit.id(), clientId, seqStart, seqStart));
+        RemoteTurbineField field = new RemoteTurbineField(unit.id(), bus, topics, codec, clock).start();
+        ControlCentreLink link = new ControlCentreLink(unit.id(), bus, topics, codec, clock, telemetryQos, 256);
         UnitPlantInterface ui = new UnitPlantInterface(UnitSettings.of(unit, options), field, clock, link, journal, seqStart);
         this.unitInterface = ui;
-        UnitHost host = new UnitHost(ui, link, codec);
+        UnitDutyCycle cycle = new UnitDutyCycle(ui, link, codec);
         bus.subscribe(topics.unitCommand(unit.id()), Qos.AT_LEAST_ONCE, m -> link.offerCommand(m.payload(), clock.monotonicNanos()));
         PlantRunner.subscribeStatus(bus, List.of(link));
         bus.addConnectionListener(new org.loopstand.protocol.bus.ConnectionListener() {
@@ -51,8 +51,8 @@ public final class UnitProcess implements AutoCloseable {
             public void onDisconnected(Throwable cause) {
             }
         });
-        OperatorOrders orders = new OperatorOrders(List.of(host), codec).subscribe(bus, topics);
-        this.agent = new UnitAgent(host, field, orders);
+        OperatorOrders orders = new OperatorOrders(List.of(cycle), codec).subscribe(bus, topics);
+        this.agent = new UnitProcessAgent(cycle, field, orders);
     }
 
     /** @return the client id a unit's own connection uses */
@@ -70,7 +70,7 @@ public final class UnitProcess implements AutoCloseable {
         return unitInterface;
     }
 
-    public UnitAgent agent() {
+    public UnitProcessAgent agent() {
         return agent;
     }
 

@@ -4,7 +4,7 @@ import java.util.Map;
 
 import org.loopstand.plant.fault.CommandOutcomeListener;
 import org.loopstand.plant.fault.PlantFaultFlags;
-import org.loopstand.plant.field.UnitField;
+import org.loopstand.plant.field.TurbineField;
 import org.loopstand.protocol.message.AckOutcome;
 import org.loopstand.protocol.message.CommandKind;
 import org.loopstand.protocol.message.ControlMode;
@@ -38,7 +38,7 @@ import org.loopstand.protocol.time.Clock;
  */
 public final class UnitPlantInterface {
     private final UnitSettings settings;
-    private final UnitField field;
+    private final TurbineField field;
     private final Clock clock;
     private final UnitOutput output;
     private final PlantJournal journal;
@@ -65,7 +65,7 @@ public final class UnitPlantInterface {
      *                 count separately; use the start time in epoch ms so a restarted interface keeps
      *                 counting upward)
      */
-    public UnitPlantInterface(UnitSettings settings, UnitField field, Clock clock, UnitOutput output,
+    public UnitPlantInterface(UnitSettings settings, TurbineField field, Clock clock, UnitOutput output,
                               PlantJournal journal, long seqStart) {
         this.settings = settings;
         this.field = field;

@@ -22,7 +22,7 @@ import org.loopstand.plant.physics.GridSimulator;
 import org.loopstand.plant.runtime.ConnectionGrouping;
 import org.loopstand.plant.runtime.PlantOptions;
 import org.loopstand.plant.runtime.PlantRunner;
-import org.loopstand.plant.runtime.UnitHost;
+import org.loopstand.plant.runtime.UnitDutyCycle;
 import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.plant.unit.InterfaceOptions;
 import org.loopstand.plant.unit.PlantJournal;
@@ -95,7 +95,7 @@ class SecuredPlantMosquittoTest {
         plant = new PlantRunner(new GridSimulator(grid), List.of(), o,
                 MqttLinks.to(broker.sslUri(), clock, security, site), clock, s -> { });
         CommandVerifier v = PlantSecurity.requireSignedCommands(security,
-                plant.hosts().stream().map(UnitHost::unit).toList(), clock);
+                plant.unitCycles().stream().map(UnitDutyCycle::unit).toList(), clock);
         assertThat(v).isNotNull();
         plant.start();
         await().atMost(Duration.ofSeconds(20)).until(() -> plant.buses().stream().allMatch(b -> b.isConnected()));
@@ -127,7 +127,7 @@ class SecuredPlantMosquittoTest {
         controller.subscribe(topics.unitAck(UNIT), Qos.AT_LEAST_ONCE, acks);
         controller.subscribe(topics.unitTelemetry(UNIT), Qos.AT_MOST_ONCE, telemetry);
         await().atMost(Duration.ofSeconds(10)).until(() -> !telemetry.messages().isEmpty());
-        UnitPlantInterface unit = plant.host(UNIT).unit();
+        UnitPlantInterface unit = plant.unitCycle(UNIT).unit();
         double startMw = lastSetpoint(telemetry);
 
         CommandSigner signer = new CommandSigner(keys, clock, codec);
@@ -205,7 +205,7 @@ class SecuredPlantMosquittoTest {
                     1, clock.epochMillis() + 10_000, PulseDirection.LOWER, 100)));
             await().atMost(Duration.ofSeconds(10)).until(() -> !acks.messages().isEmpty());
             assertThat(decodedAcks(acks)).extracting(CommandAck::commandSeq).containsExactly(31L);
-            assertThat(plant.host(UNIT).unit().acceptedCount()).isEqualTo(1);
+            assertThat(plant.unitCycle(UNIT).unit().acceptedCount()).isEqualTo(1);
         }
     }
 

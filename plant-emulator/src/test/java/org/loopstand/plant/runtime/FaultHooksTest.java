@@ -182,7 +182,7 @@ class FaultHooksTest {
             List<AreaMeter> sent = base.decoded(topics.areaMeter("south-ridge", "main"), AreaMeter.class);
             AreaMeter lastSent = sent.get(sent.size() - 1);
             assertThat(lastSent).isEqualTo(touched.get(4).published());
-            assertThat(r.plant().host("basin-gas-1").unit().controlMode()).isEqualTo(ControlMode.OFF);
+            assertThat(r.plant().unitCycle("basin-gas-1").unit().controlMode()).isEqualTo(ControlMode.OFF);
             assertThat(refusals).singleElement().asString().contains("unknown target 'west-lake'");
             base.run(r.plant(), 10);
             assertThat(r.engine().active()).isEmpty();

@@ -142,7 +142,7 @@ class PlantAgentTest {
             assertThat(p.sim().loadReferenceMw("basin-steam-1") - before).isCloseTo(1.2, within(1e-9));
             assertThat(decoded(topics.unitAck("basin-steam-1"), CommandAck.class)).singleElement()
                     .extracting(CommandAck::outcome).isEqualTo(AckOutcome.ACCEPTED);
-            assertThat(p.host("basin-steam-1").unit().latency().toOutputUs().getTotalCount()).isEqualTo(1);
+            assertThat(p.unitCycle("basin-steam-1").unit().latency().toOutputUs().getTotalCount()).isEqualTo(1);
         }
     }
 
@@ -182,10 +182,10 @@ class PlantAgentTest {
             run(p, 1);
             // 1 s at the demo site's 20 ms step = 50 steps, as without the flood
             assertThat(p.sim().stepCount() - steps).isEqualTo(50);
-            UnitHost flooded = p.host("basin-gas-1");
+            UnitDutyCycle flooded = p.unitCycle("basin-gas-1");
             assertThat(flooded.link().overflowCount()).isEqualTo(10_000 - 256);
             assertThat(flooded.unit().acceptedCount()).isEqualTo(256);
-            assertThat(p.host("basin-steam-1").unit().acceptedCount()).isEqualTo(1);
+            assertThat(p.unitCycle("basin-steam-1").unit().acceptedCount()).isEqualTo(1);
             assertThat(p.journal().entries()).anyMatch(e -> e.kind().equals("overflow") && e.unit().equals("basin-gas-1"));
         }
     }

@@ -119,7 +119,7 @@ class PlantOverMqttTest {
     @MethodSource("brokers")
     void shouldMoveLoadReferenceByPulseRateTimesDuration(String uri) throws Exception {
         try (Rig r = rig(uri, Map.of(), 2_000)) {
-            UnitHost host = r.plant().host(UNIT);
+            UnitDutyCycle host = r.plant().unitCycle(UNIT);
             await().atMost(Duration.ofSeconds(10)).until(() -> !Double.isNaN(host.unit().loadReferenceMw()));
             double before = r.plant().sim().loadReferenceMw(UNIT);
             long now = WallClock.INSTANCE.epochMillis();
@@ -137,7 +137,7 @@ class PlantOverMqttTest {
     @MethodSource("brokers")
     void shouldRefuseEveryFaultyCommandAndNotMoveTheReference(String uri) throws Exception {
         try (Rig r = rig(uri, Map.of(), 2_000)) {
-            UnitHost host = r.plant().host(UNIT);
+            UnitDutyCycle host = r.plant().unitCycle(UNIT);
             await().atMost(Duration.ofSeconds(10)).until(() -> !Double.isNaN(host.unit().loadReferenceMw()));
             long now = WallClock.INSTANCE.epochMillis();
             long s = now;

@@ -95,7 +95,7 @@ class UnitProcessAndBrokerRestartTest {
         Inbox inbox = new Inbox();
         tester.subscribe(topics.filterEverything(), Qos.AT_LEAST_ONCE, inbox);
         plant = plant(grid, Set.of(UNIT));
-        assertThat(plant.hosts()).extracting(h -> h.unit().unitId()).doesNotContain(UNIT);
+        assertThat(plant.unitCycles()).extracting(h -> h.unit().unitId()).doesNotContain(UNIT);
 
         unitProcess = startUnit(site);
         String telemetry = topics.unitTelemetry(UNIT);

@@ -1,10 +1,10 @@
 package org.loopstand.plant.unit;
 
-import org.loopstand.plant.field.UnitField;
+import org.loopstand.plant.field.TurbineField;
 import org.loopstand.protocol.message.UnitStatus;
 
 /** A turbine stand-in: output follows the reference with a first-order lag of {@code lagS}, stepped by hand. */
-final class FakeField implements UnitField {
+final class FakeField implements TurbineField {
     double referenceMw;
     double outputMw;
     UnitStatus status = UnitStatus.ONLINE;

@@ -24,8 +24,13 @@ public final class FreePort {
 
     /** @return true when something accepts TCP connections on 127.0.0.1:port */
     public static boolean isOpen(int port) {
+        return isOpen(port, 500);
+    }
+
+    /** @return true when something accepts TCP connections on 127.0.0.1:port within timeoutMs (ms, &gt; 0) */
+    public static boolean isOpen(int port, int timeoutMs) {
         try (Socket s = new Socket()) {
-            s.connect(new InetSocketAddress(InetAddress.getLoopbackAddress(), port), 500);
+            s.connect(new InetSocketAddress(InetAddress.getLoopbackAddress(), port), timeoutMs);
             return true;
         } catch (IOException e) {
             return false;

@@ -7,7 +7,7 @@ import org.loopstand.protocol.message.UnitStatus;
  * writes, the governor's load reference. Implemented directly on the simulator (same process) or over
  * the {@code field/unit/{unit}/…} topics (plant interface in another process).
  */
-public interface UnitField {
+public interface TurbineField {
     /** @return false until the field has given a first reading (a remote field before its first message) */
     boolean ready();
 

@@ -23,8 +23,8 @@ import org.loopstand.protocol.topic.TopicTree;
  * bus and are dropped and counted while the link is down, never sent late. A link fault
  * ({@link #setFailed}) cuts this unit alone: nothing in, nothing out, link topic says offline.
  */
-public final class UnitLink implements UnitOutput {
-    private static final org.slf4j.Logger LOG = org.slf4j.LoggerFactory.getLogger(UnitLink.class);
+public final class ControlCentreLink implements UnitOutput {
+    private static final org.slf4j.Logger LOG = org.slf4j.LoggerFactory.getLogger(ControlCentreLink.class);
     /** A command as it came off the bus. */
     public record Received(byte[] payload, long receivedNanos) {
     }
@@ -47,7 +47,7 @@ public final class UnitLink implements UnitOutput {
     private org.loopstand.plant.fault.FaultyPublisher telemetryFaults;
     private final java.util.concurrent.atomic.AtomicBoolean announceDue = new java.util.concurrent.atomic.AtomicBoolean(true);
 
-    public UnitLink(String unitId, MessageBus bus, TopicTree topics, MessageCodec codec, Clock clock,
+    public ControlCentreLink(String unitId, MessageBus bus, TopicTree topics, MessageCodec codec, Clock clock,
                     Qos telemetryQos, int commandQueueCapacity) {
         this.unitId = unitId;
         this.bus = bus;

@@ -13,12 +13,12 @@ import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.topic.TopicTree;
 
 /**
- * The unit field of a plant interface running in another process than the physics: readings come in
+ * The turbine field of a plant interface running in another process than the physics: readings come in
  * on {@code field/unit/{unit}/reading}, the load reference goes out on {@code field/unit/{unit}/reference}
  * (QoS 1, sent on change and repeated every {@value #RESEND_MS} ms so a restarted broker or physics
  * gets it again). Not ready until the first reading has come.
  */
-public final class RemoteUnitField implements UnitField {
+public final class RemoteTurbineField implements TurbineField {
     public static final long RESEND_MS = 1_000;
 
     private final String unitId;
@@ -31,7 +31,7 @@ public final class RemoteUnitField implements UnitField {
     private double writtenMw = Double.NaN;
     private long lastSentNanos;
 
-    public RemoteUnitField(String unitId, MessageBus bus, TopicTree topics, MessageCodec codec, Clock clock) {
+    public RemoteTurbineField(String unitId, MessageBus bus, TopicTree topics, MessageCodec codec, Clock clock) {
         this.unitId = unitId;
         this.bus = bus;
         this.topics = topics;
@@ -41,7 +41,7 @@ public final class RemoteUnitField implements UnitField {
     }
 
     /** Subscribes to the unit's readings. */
-    public RemoteUnitField start() {
+    public RemoteTurbineField start() {
         bus.subscribe(topics.fieldReading(unitId), Qos.AT_MOST_ONCE,
                 m -> codec.decode(m.payload(), FieldReading.class).message()
                         .filter(r -> r.unit().equals(unitId)).ifPresent(r -> latest = r));

@@ -3,13 +3,13 @@ package org.loopstand.plant.field;
 import org.loopstand.plant.physics.GridSimulator;
 import org.loopstand.protocol.message.UnitStatus;
 
-/** A unit field wired straight to the simulator; only for the thread that owns the simulator. */
-public final class DirectUnitField implements UnitField {
+/** A turbine field wired straight to the simulator; only for the thread that owns the simulator. */
+public final class DirectTurbineField implements TurbineField {
     private final GridSimulator sim;
     private final int unit;
     private final String unitId;
 
-    public DirectUnitField(GridSimulator sim, String unitId) {
+    public DirectTurbineField(GridSimulator sim, String unitId) {
         this.sim = sim;
         this.unitId = unitId;
         this.unit = sim.grid().unitIndex(unitId);

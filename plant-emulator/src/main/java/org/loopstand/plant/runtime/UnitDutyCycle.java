@@ -7,15 +7,16 @@ import org.loopstand.protocol.message.ControllerStatus;
 import org.loopstand.protocol.message.UnitCommand;
 
 /**
- * Pairs a unit's plant interface with its link and does its share of a duty cycle on the owner
- * thread: decode what the link queued (bounded per cycle so a flood cannot hold the loop), then tick.
+ * One unit's share of a duty cycle on the owner thread, pairing its plant interface with its control-centre
+ * link: decode what the link queued (bounded per cycle so a flood cannot hold the loop), then tick the
+ * interface.
  */
-public final class UnitHost {
+public final class UnitDutyCycle {
     /** Most commands one unit handles per cycle; the rest wait in the bounded queue. */
     public static final int MAX_COMMANDS_PER_CYCLE = 64;
 
     private final UnitPlantInterface unit;
-    private final UnitLink link;
+    private final ControlCentreLink link;
     private final MessageCodec codec;
     private long overflowSeen;
     private FaultHooks faults;
@@ -55,7 +56,7 @@ public final class UnitHost {
         }
     }
 
-    public UnitHost(UnitPlantInterface unit, UnitLink link, MessageCodec codec) {
+    public UnitDutyCycle(UnitPlantInterface unit, ControlCentreLink link, MessageCodec codec) {
         this.unit = unit;
         this.link = link;
         this.codec = codec;
@@ -65,11 +66,11 @@ public final class UnitHost {
         return unit;
     }
 
-    public UnitLink link() {
+    public ControlCentreLink link() {
         return link;
     }
 
-    /** Owner thread, before start: decode controller statuses through a cache shared with other hosts. */
+    /** Owner thread, before start: decode controller statuses through a cache shared with the other units. */
     void shareStatusDecoding(StatusDecoding decoding) {
         this.statusDecoding = decoding;
     }
@@ -83,13 +84,13 @@ public final class UnitHost {
     public int work() {
         int work = 0;
         link.announceIfDue();
-        for (UnitLink.StatusArrival s; (s = link.pollStatus()) != null; work++) {
+        for (ControlCentreLink.StatusArrival s; (s = link.pollStatus()) != null; work++) {
             Decoded<ControllerStatus> d = statusDecoding != null ? statusDecoding.decode(s.payload())
                     : codec.decode(s.payload(), ControllerStatus.class);
             String topicId = s.topicControllerId() == null ? "?" : s.topicControllerId();
             d.message().ifPresent(status -> unit.onControllerStatus(status, topicId));
         }
-        UnitLink.Received r;
+        ControlCentreLink.Received r;
         for (int i = 0; i < MAX_COMMANDS_PER_CYCLE && (r = link.pollCommand()) != null; i++, work++) {
             Decoded<UnitCommand> d = codec.decode(r.payload(), UnitCommand.class);
             if (d instanceof Decoded.Ok<UnitCommand> ok) {
