@@ -81,6 +81,7 @@ final class FollowingStage {
         boolean newBaseline = monitor.idle(u.unitId());
         double corrected = responseMw(u);
         monitor.onCommand(u.unitId(), c.deltaMw(), nowMs, corrected, governorUncertaintyMw(u));
+        monitor.limitTarget(u.unitId(), u.regulatingMinMw(), u.regulatingMaxMw());
         if (newBaseline) {
             awaitFrequencyAt(u, corrected);
         }

@@ -191,6 +191,22 @@ public final class UnitFollowingMonitor {
                 t.flagged, flaggedNow, returnedNow, allowanceMw, probe, probeFailedNow);
     }
 
+    /**
+     * Keeps the unit's target within its regulating limits. The moves summed into the target are reckoned
+     * from the unit's last reported setpoint; while that report lags an earlier command a move is counted
+     * twice, and at a binding limit the target would climb past what the unit may give: a unit sitting on
+     * its limit, as told, would be flagged.
+     *
+     * @param minMw lowest regulating output, MW
+     * @param maxMw highest regulating output, MW, ≥ minMw
+     */
+    public void limitTarget(String unitId, double minMw, double maxMw) {
+        Track t = tracks.get(unitId);
+        if (t != null && t.commanded && minMw <= maxMw) {
+            t.targetMw = Math.max(minMw, Math.min(maxMw, t.targetMw));
+        }
+    }
+
     /** @return true when the unit is flagged, no probe is under way and its next probe is due at {@code nowMs} */
     public boolean probeDue(String unitId, long nowMs) {
         Track t = tracks.get(unitId);

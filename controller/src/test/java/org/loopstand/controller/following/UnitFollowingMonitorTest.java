@@ -25,6 +25,36 @@ class UnitFollowingMonitorTest {
         assertThat(m.flagged("U1")).isFalse();
     }
 
+    /**
+     * A unit at its 300 MW upper limit keeps receiving setpoint 300 while its reported setpoint still lags
+     * the command before (each move reckoned from the report: +1.5 MW a cycle); its output sits on 300 MW.
+     * With the target kept within the regulating limits it passes every check; without, the summed moves
+     * climb past the limit and the unit is flagged for staying where it was told to be. A unit that does not
+     * move below its limit is still flagged.
+     */
+    @Test
+    void shouldKeepTheTargetWithinTheUnitsLimitsSoAUnitOnItsLimitIsNotFlagged() {
+        UnitFollowingMonitor limited = new UnitFollowingMonitor(settings);
+        UnitFollowingMonitor unlimited = new UnitFollowingMonitor(settings);
+        UnitFollowingMonitor stuckBelow = new UnitFollowingMonitor(settings);
+        for (int k = 0; k <= 8; k++) {
+            long t = T0 + k * CYCLE;
+            if (k > 0) {
+                assertThat(limited.check("H1", t, 300, 60).following()).as("check %d", k).isTrue();
+                unlimited.check("H1", t, 300, 60);
+                stuckBelow.check("H1", t, 280, 60);
+            }
+            limited.onCommand("H1", 1.5, t, 300);
+            limited.limitTarget("H1", 50, 300);
+            unlimited.onCommand("H1", 1.5, t, 300);
+            stuckBelow.onCommand("H1", 1.5, t, 280);
+            stuckBelow.limitTarget("H1", 50, 300);
+        }
+        assertThat(limited.flagged("H1")).isFalse();
+        assertThat(unlimited.flagged("H1")).isTrue();
+        assertThat(stuckBelow.flagged("H1")).isTrue();
+    }
+
     @Test
     void shouldFlagUnitThatDoesNotMoveAndReturnItWhenItCatchesUp() {
         UnitFollowingMonitor m = new UnitFollowingMonitor(settings);
