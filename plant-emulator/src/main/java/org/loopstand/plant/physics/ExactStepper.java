@@ -41,6 +41,7 @@ final class ExactStepper {
     private final boolean[] active;
     private final double[] commandConstMw;
     private final double[] heldRateMwPerS;
+    private final double[] startRateMwPerS;
     private final double[] slope0;
     private final double[] knownIntegral;
     private final double[] knownEnd;
@@ -84,6 +85,7 @@ final class ExactStepper {
         active = new boolean[u];
         commandConstMw = new double[u];
         heldRateMwPerS = new double[u];
+        startRateMwPerS = new double[u];
         slope0 = new double[areas];
         knownIntegral = new double[areas];
         knownEnd = new double[areas];
@@ -175,6 +177,7 @@ final class ExactStepper {
         BlockPropagator p;
         double extraIntegral = 0;
         double extraEnd = 0;
+        startRateMwPerS[u] = rate;
         if (rate != free) {
             regime[u] = HELD;
             heldRateMwPerS[u] = rate;
@@ -335,11 +338,43 @@ final class ExactStepper {
             x[b + 2] *= tripDecay[u];
             return;
         }
-        boolean held = regime[u] == HELD;
-        BlockPropagator p = held ? blocks.held[u] : blocks.free[u];
+        double v0 = x[b];
+        double lo = Math.max(d.minMw[u], v0 - d.lowerMwPerS[u] * h);
+        double hi = Math.min(d.maxMw[u], v0 + d.raiseMwPerS[u] * h);
+        // The regime chosen at the start set the unit's power in the network equations; the end state takes the
+        // regime the servo actually ended in: free if its free valve stays within the limits, else held at the limit.
+        propagate(blocks.free[u], u, x, b, 0.0);
+        if (work[0] < lo || work[0] > hi) {
+            double limitedEnd = Math.max(lo, Math.min(hi, movedUntilLimit(u, v0, work[0] - v0, lo, hi)));
+            propagate(blocks.held[u], u, x, b, (limitedEnd - v0) / h);
+            work[0] = limitedEnd;
+        }
+        x[b] = work[0];
+        x[b + 1] = work[1];
+        x[b + 2] = work[2];
+    }
+
+    /**
+     * The valve's end position when its free motion reaches a rate limit inside the step: the free rate is taken as
+     * linear in time (its start value and the free movement fix the slope), limited, and integrated. Without this the
+     * valve would move at the limit for the whole step, a lead of up to one step at the limit's rate.
+     */
+    private double movedUntilLimit(int u, double v0, double freeMoveMw, double lo, double hi) {
+        double start = startRateMwPerS[u];
+        double slope = 2 * (freeMoveMw - start * h) / (h * h);
+        double limit = freeMoveMw > 0 ? d.raiseMwPerS[u] : -d.lowerMwPerS[u];
+        if (slope == 0 || !Double.isFinite(limit) || Math.abs(start) >= Math.abs(limit)
+                || Math.signum(start - limit) == Math.signum(slope)) {
+            return freeMoveMw > 0 ? hi : lo;
+        }
+        double switchS = Math.max(0, Math.min(h, (limit - start) / slope));
+        return v0 + start * switchS + slope * switchS * switchS / 2 + limit * (h - switchS);
+    }
+
+    /** Writes the block's end state into {@code work}; {@code rateMwPerS} is used by the held block only. */
+    private void propagate(BlockPropagator p, int u, double[] x, int b, double rateMwPerS) {
         int a = d.unitArea[u] * T;
         double k = active[u] ? d.gainMwPerHz[u] : 0.0;
-        double v0 = x[b];
         int cols = p.inputs * T;
         for (int i = 0; i < 3; i++) {
             int r = i * 3;
@@ -349,15 +384,10 @@ final class ExactStepper {
             for (int j = 0; j < T; j++) {
                 next -= p.gamma[g + j] * k * coef[a + j];
             }
-            if (held) {
-                next += p.gamma[g + T] * heldRateMwPerS[u];
+            if (p.inputs > 1) {
+                next += p.gamma[g + T] * rateMwPerS;
             }
             work[i] = next;
         }
-        double lo = Math.max(d.minMw[u], v0 - d.lowerMwPerS[u] * h);
-        double hi = Math.min(d.maxMw[u], v0 + d.raiseMwPerS[u] * h);
-        x[b] = Math.max(lo, Math.min(hi, work[0]));
-        x[b + 1] = work[1];
-        x[b + 2] = work[2];
     }
 }
