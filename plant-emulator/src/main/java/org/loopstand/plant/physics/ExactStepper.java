@@ -42,6 +42,9 @@ final class ExactStepper {
     private final double[] commandConstMw;
     private final double[] heldRateMwPerS;
     private final double[] startRateMwPerS;
+    /** regime·2 + active at the last step, to see when the gains must be summed again */
+    private final int[] regimeKey;
+    private boolean regimesChanged = true;
     private final double[] slope0;
     private final double[] knownIntegral;
     private final double[] knownEnd;
@@ -53,11 +56,8 @@ final class ExactStepper {
     private final double[] sensitivityEnd;
     private final double[] coef;
     private final double[][] matrix;
-    private double[][] factored;
-    private int[] pivot;
-    private double[][] lastMatrix;
     private final double[] rhs;
-    private final double[] scratch;
+    private final LinearSolve solver = new LinearSolve();
     private final double[] work = new double[3];
 
     ExactStepper(GridDynamics dynamics, double stepS) {
@@ -86,6 +86,8 @@ final class ExactStepper {
         commandConstMw = new double[u];
         heldRateMwPerS = new double[u];
         startRateMwPerS = new double[u];
+        regimeKey = new int[u];
+        Arrays.fill(regimeKey, -1);
         slope0 = new double[areas];
         knownIntegral = new double[areas];
         knownEnd = new double[areas];
@@ -98,15 +100,12 @@ final class ExactStepper {
         coef = new double[areas * T];
         matrix = new double[2 * areas][2 * areas];
         rhs = new double[2 * areas];
-        scratch = new double[2 * areas];
     }
 
     /** Advances {@code x} from {@code timeS} by one step (load noise already set for the step). */
     void step(double timeS, double[] x) {
         Arrays.fill(knownIntegral, 0);
         Arrays.fill(knownEnd, 0);
-        Arrays.fill(gainIntegral, 0);
-        Arrays.fill(gainEnd, 0);
         for (int a = 0; a < areas; a++) {
             slope0[a] = -d.dampingMwPerHz[a] * x[a] - d.schedule.offsetMw(a, timeS);
         }
@@ -116,7 +115,12 @@ final class ExactStepper {
                 chooseRegime(u, x);
             } else {
                 regime[u] = OFF;
+                regimeKey[u] = 2 * OFF;
             }
+        }
+        if (regimesChanged) {
+            sumGains();
+            regimesChanged = false;
         }
         loads(timeS, x);
         for (int t = 0; t < d.tieCount; t++) {
@@ -128,7 +132,7 @@ final class ExactStepper {
             slope0[a] /= d.inertiaMwSPerHz[a];
         }
         buildEquations(timeS, x);
-        solve();
+        solver.solve(matrix, rhs);
         for (int a = 0; a < areas; a++) {
             double f0 = x[a];
             double f1 = rhs[a];
@@ -153,6 +157,10 @@ final class ExactStepper {
         int b = d.unitOffset + GridDynamics.SLOTS_PER_UNIT * u;
         if (d.tripped[u]) {
             regime[u] = OFF;
+            if (regimeKey[u] != 2 * OFF) {
+                regimeKey[u] = 2 * OFF;
+                regimesChanged = true;
+            }
             double pm = d.mechanicalPowerMw(u, x);
             knownIntegral[d.unitArea[u]] += pm * tripIntegralS[u];
             knownEnd[d.unitArea[u]] += pm * tripDecay[u];
@@ -195,10 +203,27 @@ final class ExactStepper {
                 + p.outIntegralInput[0] * commandConstMw[u] + extraIntegral;
         knownEnd[a] += p.outEnd[0] * v + p.outEnd[1] * s1 + p.outEnd[2] * s2
                 + p.outEndInput[0] * commandConstMw[u] + extraEnd;
-        if (active[u]) {
+        int key = regime[u] * 2 + (active[u] ? 1 : 0);
+        if (key != regimeKey[u]) {
+            regimeKey[u] = key;
+            regimesChanged = true;
+        }
+    }
+
+    /** The units' frequency gains per area and polynomial term; they change only when a unit changes regime. */
+    private void sumGains() {
+        Arrays.fill(gainIntegral, 0);
+        Arrays.fill(gainEnd, 0);
+        for (int u = 0; u < d.unitCount; u++) {
+            if (regime[u] == OFF || !active[u]) {
+                continue;
+            }
+            BlockPropagator p = regime[u] == HELD ? blocks.held[u] : blocks.free[u];
+            int a = d.unitArea[u] * T;
+            double k = d.gainMwPerHz[u];
             for (int j = 0; j < T; j++) {
-                gainIntegral[a * T + j] -= k * p.outIntegralInput[j];
-                gainEnd[a * T + j] -= k * p.outEndInput[j];
+                gainIntegral[a + j] -= k * p.outIntegralInput[j];
+                gainEnd[a + j] -= k * p.outEndInput[j];
             }
         }
     }
@@ -289,32 +314,6 @@ final class ExactStepper {
         rhs[row] += value * known;
         matrix[row][area] += value * beta[j];
         matrix[row][areas + area] += value * gamma[j];
-    }
-
-    /** Solves matrix·z = rhs into rhs, refactoring only when the matrix changed since the last step. */
-    private void solve() {
-        int n = rhs.length;
-        if (factored == null || !sameAsFactored()) {
-            factored = new double[n][];
-            for (int i = 0; i < n; i++) {
-                factored[i] = matrix[i].clone();
-            }
-            pivot = LinearSolve.factor(factored);
-            lastMatrix = new double[n][];
-            for (int i = 0; i < n; i++) {
-                lastMatrix[i] = matrix[i].clone();
-            }
-        }
-        LinearSolve.solve(factored, pivot, rhs, scratch);
-    }
-
-    private boolean sameAsFactored() {
-        for (int i = 0; i < matrix.length; i++) {
-            if (!Arrays.equals(matrix[i], lastMatrix[i])) {
-                return false;
-            }
-        }
-        return true;
     }
 
     private double differenceIntegral(int t, double[] weights) {

@@ -1,8 +1,40 @@
 package org.loopstand.plant.physics;
 
-/** LU decomposition with partial pivoting of a small dense system, in place. */
+import java.util.Arrays;
+
+/**
+ * LU decomposition with partial pivoting of a small dense system. An instance keeps the last factorisation and
+ * reuses it while the matrix stays the same, so a step whose equations did not change costs one back substitution.
+ */
 final class LinearSolve {
-    private LinearSolve() {
+    private double[][] factored;
+    private double[][] lastMatrix;
+    private int[] pivot;
+    private double[] scratch;
+
+    /** Solves matrix·z = rhs into rhs, refactoring only when the matrix changed since the last call. */
+    void solve(double[][] matrix, double[] rhs) {
+        int n = rhs.length;
+        if (factored == null || !same(matrix)) {
+            factored = new double[n][];
+            lastMatrix = new double[n][];
+            for (int i = 0; i < n; i++) {
+                factored[i] = matrix[i].clone();
+                lastMatrix[i] = matrix[i].clone();
+            }
+            pivot = factor(factored);
+            scratch = new double[n];
+        }
+        solve(factored, pivot, rhs, scratch);
+    }
+
+    private boolean same(double[][] matrix) {
+        for (int i = 0; i < matrix.length; i++) {
+            if (!Arrays.equals(matrix[i], lastMatrix[i])) {
+                return false;
+            }
+        }
+        return true;
     }
 
     /** Factors {@code a} in place; @return the row permutation */
