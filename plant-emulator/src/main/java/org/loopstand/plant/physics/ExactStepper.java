@@ -27,6 +27,7 @@ final class ExactStepper {
     private final GridDynamics d;
     private final UnitBlocks blocks;
     private final double h;
+    private final double invH;
     private final int areas;
     /** h^{j+1}/(j+1)!: integral of s^j/j! over the step */
     private final double[] int1 = new double[T];
@@ -63,6 +64,7 @@ final class ExactStepper {
     ExactStepper(GridDynamics dynamics, double stepS) {
         d = dynamics;
         h = stepS;
+        invH = 1.0 / stepS;
         areas = d.areaCount;
         blocks = new UnitBlocks(d, stepS);
         double fact = 1;
@@ -178,7 +180,7 @@ final class ExactStepper {
         double target = d.kind[u] == GridDynamics.HYDRO ? x[b + 2] + d.param3[u] * (command - x[b + 2]) : command;
         double free = (target - valve) * d.invGovernorS[u];
         double rate = Math.max(-d.lowerMwPerS[u], Math.min(d.raiseMwPerS[u], free));
-        rate = Math.max((d.minMw[u] - valve) / h, Math.min((d.maxMw[u] - valve) / h, rate));
+        rate = Math.max((d.minMw[u] - valve) * invH, Math.min((d.maxMw[u] - valve) * invH, rate));
         if ((valve >= d.maxMw[u] && free > 0) || (valve <= d.minMw[u] && free < 0)) {
             rate = 0;
         }
