@@ -13,7 +13,7 @@ import java.util.Map;
  * <li>valve held on a limit: the valve moves at a constant rate r (a rate limit, or 0 at a position limit) and the
  *     stages follow it; inputs are the command (hydro compensator only) and r.</li>
  * </ul>
- * The equations are those of {@link GridDynamics#derivatives}; {@code ExactIntegratorTest} checks they agree.
+ * The equations are those of {@link GridDynamics#derivatives}; {@code UnitBlocksTest} checks they agree.
  */
 final class UnitBlocks {
     final BlockPropagator[] free;
