@@ -31,6 +31,10 @@ public record Scenario(String siteId, double durationS, long seed, double startH
         return new Scenario(siteId, durationS, v, startHourOfDay, traceIntervalS, stepS, integrator, events);
     }
 
+    public Scenario withIntegrator(Integrator v) {
+        return new Scenario(siteId, durationS, seed, startHourOfDay, traceIntervalS, stepS, v, events);
+    }
+
     public Scenario withTraceIntervalS(double v) {
         return new Scenario(siteId, durationS, seed, startHourOfDay, v, stepS, integrator, events);
     }
