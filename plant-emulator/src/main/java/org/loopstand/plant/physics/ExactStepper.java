@@ -12,11 +12,12 @@ import java.util.Arrays;
  * kept while the units' regimes stay the same). Like RK4 the method is of fourth order in the step; unlike RK4
  * it has no stability limit from the units' own time constants.
  *
- * <p>Nonlinear parts are decided at the step's start, as the issue's "at step boundaries" asks: dead band
+ * <p>Nonlinear parts are decided at step boundaries, as RK4 clamps its valves after each step: dead band
  * (a unit whose area's Δf is inside its band gets no frequency input for the step, otherwise
- * {@code db(Δf) = Δf ∓ ε}), rate and position limits (a valve whose servo rate at the start is limited moves at
- * the limited rate for the whole step, stopping at a position limit; a free valve is clamped to the rate and
- * position limits after the step), trips (every state decays on the trip time constant).
+ * {@code db(Δf) = Δf ∓ ε}), rate and position limits (the servo rate at the start sets whether the unit's power
+ * enters the network equations as free or as moving at the limit; the end state is the free step unless that would
+ * break a limit, else the held step with the limit's onset placed inside the step), trips (every state decays on
+ * the trip time constant).
  */
 final class ExactStepper {
     private static final int FREE = 0;
