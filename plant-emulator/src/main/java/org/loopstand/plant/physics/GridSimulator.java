@@ -51,7 +51,7 @@ public final class GridSimulator {
      */
     public GridSimulator(Grid grid, double stepS, long seed, double startHourOfDay, Integrator integrator) {
         new StepSizeRule(grid).check(stepS);
-        this.integrator = integrator;
+        this.integrator = java.util.Objects.requireNonNull(integrator, "integrator");
         this.grid = grid;
         this.stepS = stepS;
         this.dynamics = new GridDynamics(grid, startHourOfDay);
