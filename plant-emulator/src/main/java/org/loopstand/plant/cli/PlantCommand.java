@@ -169,7 +169,8 @@ public final class PlantCommand implements Callable<Integer> {
         }
         double stepS = scenario == null || Double.isNaN(scenario.stepS()) ? new StepSizeRule(grid).defaultStepS() : scenario.stepS();
         GridSimulator sim = scenario == null ? new GridSimulator(grid)
-                : new GridSimulator(grid, stepS, scenario.seed(), scenario.startHourOfDay());
+                : new GridSimulator(grid, stepS, scenario.seed(), scenario.startHourOfDay(),
+                        scenario.integrator());
         List<ScenarioEvent> events = scenario == null ? List.of() : scenario.events();
 
         LinkSecurity security;

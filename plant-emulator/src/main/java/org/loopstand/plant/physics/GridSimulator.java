@@ -5,7 +5,8 @@ import java.util.SplittableRandom;
 import org.loopstand.plant.grid.Grid;
 
 /**
- * Integrates a {@link Grid} with the classical fourth-order Runge–Kutta method at a fixed step. Time is
+ * Integrates a {@link Grid} at a fixed step, with the classical fourth-order Runge–Kutta method (default) or the
+ * exact discretisation of the units' linear blocks ({@link Integrator#EXACT}). Time is
  * the simulator's own ({@link #timeS()} = steps × step); it never reads a clock. Not thread-safe: one
  * owner thread calls {@link #step()} and the setters.
  *
@@ -24,6 +25,8 @@ public final class GridSimulator {
     private final double[] k4;
     private final double[] stage;
     private final OrnsteinUhlenbeckNoise[] noise;
+    private final Integrator integrator;
+    private final ExactStepper exact;
     private long steps;
 
     /** Default step for the grid, start at hour 0, seed 0. */
@@ -37,11 +40,23 @@ public final class GridSimulator {
      * @param startHourOfDay time of day at t = 0, h, for the loads' daily shapes
      */
     public GridSimulator(Grid grid, double stepS, long seed, double startHourOfDay) {
+        this(grid, stepS, seed, startHourOfDay, Integrator.RK4);
+    }
+
+    /**
+     * @param stepS          fixed step, s; refused with a message when too coarse for the grid
+     * @param seed           seeds every load's noise (each load gets its own stream split in site order)
+     * @param startHourOfDay time of day at t = 0, h, for the loads' daily shapes
+     * @param integrator     how a step is taken ({@link Integrator#RK4} unless asked otherwise)
+     */
+    public GridSimulator(Grid grid, double stepS, long seed, double startHourOfDay, Integrator integrator) {
         new StepSizeRule(grid).check(stepS);
+        this.integrator = java.util.Objects.requireNonNull(integrator, "integrator");
         this.grid = grid;
         this.stepS = stepS;
         this.dynamics = new GridDynamics(grid, startHourOfDay);
         this.x = dynamics.initialState();
+        this.exact = integrator == Integrator.EXACT ? new ExactStepper(dynamics, stepS) : null;
         int n = x.length;
         k1 = new double[n];
         k2 = new double[n];
@@ -62,6 +77,20 @@ public final class GridSimulator {
         for (int l = 0; l < noise.length; l++) {
             dynamics.loadNoiseMw[l] = noise[l].valueMw();
         }
+        if (exact != null) {
+            exact.step(t, x);
+        } else {
+            rungeKutta(t);
+        }
+        dynamics.clampValves(x);
+        steps++;
+        dynamics.schedule.settle(timeS());
+        for (OrnsteinUhlenbeckNoise nz : noise) {
+            nz.advance();
+        }
+    }
+
+    private void rungeKutta(double t) {
         int n = x.length;
         double h = stepS;
         dynamics.derivatives(t, x, k1);
@@ -81,12 +110,6 @@ public final class GridSimulator {
         for (int i = 0; i < n; i++) {
             x[i] += h6 * (k1[i] + 2.0 * (k2[i] + k3[i]) + k4[i]);
         }
-        dynamics.clampValves(x);
-        steps++;
-        dynamics.schedule.settle(timeS());
-        for (OrnsteinUhlenbeckNoise nz : noise) {
-            nz.advance();
-        }
     }
 
     /** Steps until {@link #timeS()} reaches {@code timeS} (to within half a step). */
@@ -104,6 +127,11 @@ public final class GridSimulator {
     /** @return simulated time since the start, s */
     public double timeS() {
         return steps * stepS;
+    }
+
+    /** @return how each step is taken */
+    public Integrator integrator() {
+        return integrator;
     }
 
     /** @return the fixed integration step, s */

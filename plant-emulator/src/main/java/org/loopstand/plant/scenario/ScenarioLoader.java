@@ -10,6 +10,7 @@ import java.util.List;
 import java.util.Optional;
 
 import org.loopstand.plant.grid.Grid;
+import org.loopstand.plant.physics.Integrator;
 import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.protocol.config.MappingReader;
 import org.loopstand.protocol.config.YamlNode;
@@ -17,7 +18,7 @@ import org.loopstand.protocol.config.YamlNode;
 /**
  * Reads a scenario file and checks it against the site: keys {@code siteId} (the old spelling
  * {@code site} still accepted, see {@link org.loopstand.protocol.config.OldKeys#SCENARIO}), {@code durationS, seed,
- * startHourOfDay, traceIntervalS, stepS, events}; each event has {@code atS}, {@code type} and the
+ * startHourOfDay, traceIntervalS, stepS, integrator, events}; each event has {@code atS}, {@code type} and the
  * type's own keys. Every problem is reported as {@code file:line:column: what}.
  */
 public final class ScenarioLoader {
@@ -73,6 +74,15 @@ public final class ScenarioLoader {
             problems.add(top.locationOf("traceIntervalS") + ": traceIntervalS must be greater than 0 s, got " + traceIntervalS);
         }
         double stepS = top.optionalDouble("stepS", Double.NaN);
+        Integrator integrator = Integrator.RK4;
+        String integratorName = top.optionalString("integrator", null);
+        if (integratorName != null) {
+            try {
+                integrator = Integrator.parse(integratorName);
+            } catch (IllegalArgumentException e) {
+                problems.add(top.locationOf("integrator") + ": " + e.getMessage());
+            }
+        }
         List<ScenarioEvent> events = new ArrayList<>();
         for (YamlNode n : top.sequence("events", false)) {
             MappingReader e = new MappingReader(n, "event", problems);
@@ -107,6 +117,6 @@ public final class ScenarioLoader {
         if (!problems.isEmpty()) {
             throw new ConfigFileException(problems);
         }
-        return new Scenario(site, durationS, seed, startHour, traceIntervalS, stepS, events);
+        return new Scenario(site, durationS, seed, startHour, traceIntervalS, stepS, integrator, events);
     }
 }

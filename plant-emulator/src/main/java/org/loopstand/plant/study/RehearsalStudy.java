@@ -67,7 +67,7 @@ public final class RehearsalStudy {
         this.scenario = scenario;
         var s = scenario.scenario();
         double stepS = Double.isNaN(s.stepS()) ? new StepSizeRule(grid).defaultStepS() : s.stepS();
-        GridSimulator sim = new GridSimulator(grid, stepS, s.seed(), s.startHourOfDay());
+        GridSimulator sim = new GridSimulator(grid, stepS, s.seed(), s.startHourOfDay(), s.integrator());
         this.faults = new FaultEngine(clock, START_EPOCH_MS, FaultObserver.all(List.of(record, extraObserver)));
         for (FaultSpec f : scenario.faults()) {
             faults.schedule(f).ifPresent(why -> {

@@ -58,7 +58,7 @@ public final class StudyRunner {
         this.wallClock = wallClock;
         this.progress = progress;
         double stepS = Double.isNaN(scenario.stepS()) ? new StepSizeRule(grid).defaultStepS() : scenario.stepS();
-        this.sim = new GridSimulator(grid, stepS, scenario.seed(), scenario.startHourOfDay());
+        this.sim = new GridSimulator(grid, stepS, scenario.seed(), scenario.startHourOfDay(), scenario.integrator());
         this.stepNanos = Math.round(stepS * 1e9);
         this.traceEverySteps = Math.round(scenario.traceIntervalS() / stepS);
         if (traceEverySteps < 1 || Math.abs(traceEverySteps * stepS - scenario.traceIntervalS()) > 1e-9) {

@@ -14,6 +14,7 @@ import org.hipparchus.ode.nonstiff.DormandPrince853Integrator;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.physics.GridDynamics;
 import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.plant.physics.Integrator;
 import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.protocol.time.SystemTime;
 import org.junit.jupiter.api.Tag;
@@ -76,20 +77,7 @@ class PhysicsBenchmarkTest {
         GridSimulator rk4 = new GridSimulator(grid);
         rk4.stepLoadMw(stepArea, 100);
         double[] x0 = rk4.stateCopy();
-        GridDynamics dynamics = rk4.dynamics();
-        OrdinaryDifferentialEquation ode = new OrdinaryDifferentialEquation() {
-            @Override
-            public int getDimension() {
-                return dynamics.dimension();
-            }
-
-            @Override
-            public double[] computeDerivatives(double t, double[] y) {
-                double[] dy = new double[y.length];
-                dynamics.derivatives(t, y, dy);
-                return dy;
-            }
-        };
+        OrdinaryDifferentialEquation ode = asOde(rk4.dynamics());
         double[] reference = dormandPrince(ode, x0, durationS, 1e-12);
         int areas = grid.areas().size();
 
@@ -118,6 +106,93 @@ class PhysicsBenchmarkTest {
         line(String.format(Locale.ROOT, "  %-22s RK4 h=%.3f s: error %.2e Hz, %.4f s wall | DP853 tol %.1e: error %.2e Hz, "
                         + "%.4f s wall | RK4 is %.1fx faster", name, rk4.stepS(), rk4ErrorHz, rk4WallS, tolerance,
                 maxFrequencyError(dp, reference, areas), dpWallS, dpWallS / rk4WallS));
+    }
+
+    private static OrdinaryDifferentialEquation asOde(GridDynamics dynamics) {
+        return new OrdinaryDifferentialEquation() {
+            @Override
+            public int getDimension() {
+                return dynamics.dimension();
+            }
+
+            @Override
+            public double[] computeDerivatives(double t, double[] y) {
+                double[] dy = new double[y.length];
+                dynamics.derivatives(t, y, dy);
+                return dy;
+            }
+        };
+    }
+
+    @Test
+    void shouldCompareTheExactIntegratorWithRk4AtEqualAccuracy() throws IOException {
+        Grid quiet = GeneratedSite.build(20, 50, 0, Double.POSITIVE_INFINITY);
+        double durationS = 60;
+        GridSimulator probe = new GridSimulator(quiet);
+        probe.stepLoadMw("area-0", 100);
+        double[] reference = dormandPrince(asOde(probe.dynamics()), probe.stateCopy(), durationS, 1e-12);
+        line("Exact discretisation against RK4, generated site (20 areas, 1000 units), linear configuration, 100 MW step"
+                + " in area-0, 60 s, error of the end state's frequencies against DP853 at 1e-12:");
+        for (Integrator integrator : Integrator.values()) {
+            // compiled code for both paths before any figure is taken (one run per timing is not enough warm-up)
+            timedRun(GeneratedSite.build(20, 50, 20, 60), 0.02, integrator, "area-0", 1500, durationS, null, 3);
+        }
+        double[] rk4 = timedRun(quiet, 0.02, Integrator.RK4, "area-0", 100, durationS, reference, 5);
+        line(String.format(Locale.ROOT, "  RK4   h=0.020 s: error %.2e Hz, %.4f s wall", rk4[0], rk4[1]));
+        double bestStepS = 0;
+        double bestWallS = Double.NaN;
+        for (double stepS : new double[] {0.05, 0.04, 0.025, 0.02}) {
+            double[] exact = timedRun(quiet, stepS, Integrator.EXACT, "area-0", 100, durationS, reference, 5);
+            line(String.format(Locale.ROOT, "  exact h=%.3f s: error %.2e Hz, %.4f s wall (%.1fx RK4's speed)", stepS,
+                    exact[0], exact[1], rk4[1] / exact[1]));
+            if (bestStepS == 0 && exact[0] <= rk4[0]) {
+                bestStepS = stepS;
+                bestWallS = exact[1];
+            }
+        }
+        line(String.format(Locale.ROOT, "  at equal accuracy (largest exact step no less accurate than RK4): h=%.3f s,"
+                + " %.1fx RK4's speed", bestStepS, rk4[1] / bestWallS));
+
+        Grid limited = GeneratedSite.build(20, 50, 0, 60);
+        GridSimulator fine = new GridSimulator(limited, 0.001, 0, 12, Integrator.RK4);
+        fine.stepLoadMw("area-0", 1500);
+        fine.advanceTo(durationS);
+        double[] fineEnd = fine.stateCopy();
+        line("Rate limits engaged (60 MW/min per unit, 1500 MW step in area-0, 60 s), error against RK4 at h = 1 ms:");
+        double[] rk4Limited = timedRun(limited, 0.02, Integrator.RK4, "area-0", 1500, durationS, fineEnd, 3);
+        line(String.format(Locale.ROOT, "  RK4   h=0.020 s: error %.2e Hz, %.4f s wall", rk4Limited[0], rk4Limited[1]));
+        for (double stepS : new double[] {0.05, 0.02}) {
+            double[] exact = timedRun(limited, stepS, Integrator.EXACT, "area-0", 1500, durationS, fineEnd, 3);
+            line(String.format(Locale.ROOT, "  exact h=%.3f s: error %.2e Hz, %.4f s wall (%.1fx RK4's speed)", stepS,
+                    exact[0], exact[1], rk4Limited[1] / exact[1]));
+        }
+        Grid noisy = GeneratedSite.build(20, 50, 20, 900);
+        line("Speed with load noise and rate limits (the site of the first benchmark), 600 s:");
+        for (Integrator integrator : Integrator.values()) {
+            double[] r = timedRun(noisy, 0.02, integrator, "area-0", 50, 600, null, 3);
+            line(String.format(Locale.ROOT, "  %-5s h=0.020 s: %,.0f simulated s per wall s", integrator.label(), 600 / r[1]));
+        }
+        Files.write(Path.of("target", "benchmark-exact.txt"), report, StandardCharsets.UTF_8);
+    }
+
+    /** @return {worst end-state frequency error against {@code reference} (0 without one), best wall time of the repeats, s} */
+    private static double[] timedRun(Grid grid, double stepS, Integrator integrator, String stepArea, double stepMw,
+            double durationS, double[] reference, int repeats) {
+        double bestWallS = Double.POSITIVE_INFINITY;
+        double[] end = null;
+        for (int r = 0; r < repeats + 1; r++) {
+            GridSimulator sim = new GridSimulator(grid, stepS, 1, 12, integrator);
+            sim.stepLoadMw(stepArea, stepMw);
+            long start = SystemTime.wallMonotonicNanos();
+            sim.advanceTo(durationS);
+            double wallS = (SystemTime.wallMonotonicNanos() - start) / 1e9;
+            if (r > 0) {
+                bestWallS = Math.min(bestWallS, wallS);
+            }
+            end = sim.stateCopy();
+        }
+        double error = reference == null ? 0 : maxFrequencyError(end, reference, grid.areas().size());
+        return new double[] {error, bestWallS};
     }
 
     private static double[] dormandPrince(OrdinaryDifferentialEquation ode, double[] x0, double durationS, double tolerance) {

@@ -7,7 +7,8 @@ import java.nio.file.Path;
 
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.site.SiteLoader;
-import org.junit.jupiter.api.Test;
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.EnumSource;
 
 /**
  * Power balance of every area at every step: generation − load − damping − export equals the inertial
@@ -16,10 +17,11 @@ import org.junit.jupiter.api.Test;
  */
 class PowerBalanceTest {
 
-    @Test
-    void shouldBalanceEveryAreaAtEveryStepOfTheMeshedSite() throws Exception {
+    @ParameterizedTest
+    @EnumSource(Integrator.class)
+    void shouldBalanceEveryAreaAtEveryStepOfTheMeshedSite(Integrator integrator) throws Exception {
         Grid grid = SiteLoader.load(Path.of("..", "config", "sites", "three-area.yaml"));
-        GridSimulator sim = new GridSimulator(grid);
+        GridSimulator sim = new GridSimulator(grid, new StepSizeRule(grid).defaultStepS(), 0, 0, integrator);
         sim.stepLoadMw("cedar-coast", 50);
         double worstMw = checkBalance(sim, 60, () -> {
             if (Math.abs(sim.timeS() - 20) < 1e-9) {
@@ -29,9 +31,11 @@ class PowerBalanceTest {
         assertThat(worstMw).isLessThan(0.05);
     }
 
-    @Test
-    void shouldBalanceTheTextbookTwoAreaSystemAfterItsLoadStep() {
-        GridSimulator sim = new GridSimulator(TextbookGrids.twoArea());
+    @ParameterizedTest
+    @EnumSource(Integrator.class)
+    void shouldBalanceTheTextbookTwoAreaSystemAfterItsLoadStep(Integrator integrator) {
+        Grid grid = TextbookGrids.twoArea();
+        GridSimulator sim = new GridSimulator(grid, new StepSizeRule(grid).defaultStepS(), 0, 0, integrator);
         sim.stepLoadMw("area1", 187.5);
         assertThat(checkBalance(sim, 30, () -> { })).isLessThan(0.05);
     }

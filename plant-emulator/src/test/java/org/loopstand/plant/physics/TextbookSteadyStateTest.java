@@ -5,14 +5,18 @@ import static org.assertj.core.api.Assertions.within;
 import static org.assertj.core.api.Assertions.withinPercentage;
 
 import org.junit.jupiter.api.Test;
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.EnumSource;
 
 class TextbookSteadyStateTest {
 
-    @Test
-    void shouldSettleSingleAreaAtMinusDeltaPOverDPlusOneOverR() {
+    @ParameterizedTest
+    @EnumSource(Integrator.class)
+    void shouldSettleSingleAreaAtMinusDeltaPOverDPlusOneOverR(Integrator integrator) {
         // Kundur, Power System Stability and Control, ch. 11; Saadat, ch. 12 (from memory):
         // Δf_ss = −ΔP_L / (D + 1/R) on a common base. Here in MW/Hz: 1/R = 1000 MW / 0.05 / 50 Hz = 400 MW/Hz.
-        GridSimulator sim = new GridSimulator(TextbookGrids.singleArea(5, 20));
+        var grid = TextbookGrids.singleArea(5, 20);
+        GridSimulator sim = new GridSimulator(grid, new StepSizeRule(grid).defaultStepS(), 0, 0, integrator);
         sim.stepLoadMw("solo", 100);
         sim.advanceTo(120);
         double expectedHz = -100.0 / (20.0 + 400.0);
@@ -20,14 +24,16 @@ class TextbookSteadyStateTest {
         assertThat(sim.outputMw("g")).isCloseTo(600 + 400 * -expectedHz, withinPercentage(0.5));
     }
 
-    @Test
-    void shouldReproduceTheTwoAreaWorkedExample() {
+    @ParameterizedTest
+    @EnumSource(Integrator.class)
+    void shouldReproduceTheTwoAreaWorkedExample(Integrator integrator) {
         // Saadat, Power System Analysis, ch. 12 worked example (from memory), re-derived:
         // β1 = 1/0.05 + 0.6 = 20.6, β2 = 1/0.0625 + 0.9 = 16.9 (pu on 1000 MVA);
         // Δf = −0.1875/(20.6 + 16.9) = −0.005 pu = −0.3 Hz; ΔP12 = Δf·β2 = −0.0845 pu = −84.5 MW;
         // ΔPm1 = −Δf/R1 = 0.1 pu = 100 MW; ΔPm2 = −Δf/R2 = 0.08 pu = 80 MW. Area 1 balance closes:
         // 100 − 187.5 + 0.6·0.005·1000 + 84.5 = 0.
-        GridSimulator sim = new GridSimulator(TextbookGrids.twoArea());
+        var grid = TextbookGrids.twoArea();
+        GridSimulator sim = new GridSimulator(grid, new StepSizeRule(grid).defaultStepS(), 0, 0, integrator);
         sim.stepLoadMw("area1", 187.5);
         sim.advanceTo(150);
         assertThat(sim.frequencyHz("area1") - 60).isCloseTo(-0.3, withinPercentage(1));

@@ -10,6 +10,8 @@ import org.loopstand.plant.grid.GeneratingUnit;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.site.SiteLoader;
 import org.junit.jupiter.api.Test;
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.EnumSource;
 
 /**
  * The simulator in a closed loop with a minimal integral tie-line bias controller written here (the real
@@ -18,11 +20,13 @@ import org.junit.jupiter.api.Test;
  */
 class TieLineBiasControlTest {
 
-    @Test
-    void shouldReturnFrequencyAndTieFlowToScheduleWithArea1PickingUpItsOwnLoad() {
+    @ParameterizedTest
+    @EnumSource(Integrator.class)
+    void shouldReturnFrequencyAndTieFlowToScheduleWithArea1PickingUpItsOwnLoad(Integrator integrator) {
         // Saadat, ch. 12; Kundur, ch. 11 (from memory): with tie-line bias control and bias = β,
         // Δf → 0, ΔP12 → 0 and area 1 alone picks up its 187.5 MW. β in MW/Hz: β1 = 20.6 pu·1000/60, β2 = 16.9 pu·1000/60.
-        GridSimulator sim = new GridSimulator(TextbookGrids.twoArea());
+        Grid grid = TextbookGrids.twoArea();
+        GridSimulator sim = new GridSimulator(grid, new StepSizeRule(grid).defaultStepS(), 0, 0, integrator);
         double[] betaMwPerHz = {20.6 * 1000 / 60, 16.9 * 1000 / 60};
         double integralGainPerS = 0.3; // common practice, no source: slow enough not to fight primary control
         sim.stepLoadMw("area1", 187.5);

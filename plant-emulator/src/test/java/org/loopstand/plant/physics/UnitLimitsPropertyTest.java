@@ -26,7 +26,8 @@ class UnitLimitsPropertyTest {
     @Property(tries = 40)
     void shouldStayInsideRateAndPositionLimits(@ForAll @Size(min = 1, max = 6) List<@DoubleRange(min = 0, max = 450) Double> setpointsMw,
                                                @ForAll @Size(min = 1, max = 6) List<@DoubleRange(min = -400, max = 400) Double> loadStepsMw,
-                                               @ForAll @IntRange(min = 0, max = 2) int turbineKind) {
+                                               @ForAll @IntRange(min = 0, max = 2) int turbineKind,
+                                               @ForAll Integrator integrator) {
         GridBuilder b = new GridBuilder("limits");
         b.area("a").ratingMva(6000).inertiaS(5).dampingMwPerHz(50).kMwPerHz(2000);
         UnitSpec tested = b.unit("tested", "a").ratingMw(400).droopPct(4).governorTimeConstantS(0.2)
@@ -40,7 +41,7 @@ class UnitLimitsPropertyTest {
         b.unit("system", "a").nonReheat(0.4).governorTimeConstantS(0.2).ratingMw(5000).droopPct(5).initialOutputMw(2300);
         b.load("l", "a").baseMw(2500);
         Grid grid = b.build();
-        GridSimulator sim = new GridSimulator(grid);
+        GridSimulator sim = new GridSimulator(grid, new StepSizeRule(grid).defaultStepS(), 0, 0, integrator);
         int unit = grid.unitIndex("tested");
         boolean steam = turbineKind != 2;
         double h = sim.stepS();

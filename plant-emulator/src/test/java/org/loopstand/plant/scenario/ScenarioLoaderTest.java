@@ -38,6 +38,17 @@ class ScenarioLoaderTest {
     }
 
     @Test
+    void shouldReadTheIntegratorAndRefuseAnUnknownOne() throws Exception {
+        String exact = "site: demo-site\ndurationS: 10\nintegrator: exact\n";
+        assertThat(ScenarioLoader.load("s.yaml", new StringReader(exact), EventTypeRegistry.physics(), demo()).integrator())
+                .isEqualTo(org.loopstand.plant.physics.Integrator.EXACT);
+        String wrong = "site: demo-site\ndurationS: 10\nintegrator: euler\n";
+        assertThatThrownBy(() -> ScenarioLoader.load("s.yaml", new StringReader(wrong), EventTypeRegistry.physics(), demo()))
+                .isInstanceOf(ConfigFileException.class)
+                .hasMessageContaining("s.yaml:3:1: unknown integrator 'euler'; known: [rk4, exact]");
+    }
+
+    @Test
     void shouldRefuseAnEventForAnUnknownUnitAndTheWrongSite() throws Exception {
         String yaml = "site: other-site\ndurationS: 10\nevents:\n  - {atS: 1, type: unitTrip, unit: nowhere-1}\n";
         assertThatThrownBy(() -> ScenarioLoader.load("s.yaml", new StringReader(yaml), EventTypeRegistry.physics(), demo()))
