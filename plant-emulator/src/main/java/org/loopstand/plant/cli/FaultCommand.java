@@ -182,7 +182,7 @@ public final class FaultCommand implements Runnable {
             System.err.println("interrupted before the order was sent");
             return false;
         } catch (Exception e) {
-            System.err.println("failed: fault order " + order.orderId() + " not sent: " + e.getMessage());
+            System.err.println("fault: failed: fault order " + order.orderId() + " not sent: " + e.getMessage());
             return false;
         }
     }

@@ -164,7 +164,7 @@ public final class PlantCommand implements Callable<Integer> {
         try {
             options = options(grid);
         } catch (IllegalArgumentException e) {
-            System.err.println("refused: " + e.getMessage());
+            System.err.println("plant: refused: " + e.getMessage());
             return 2;
         }
         double stepS = scenario == null || Double.isNaN(scenario.stepS()) ? new StepSizeRule(grid).defaultStepS() : scenario.stepS();
@@ -215,7 +215,7 @@ public final class PlantCommand implements Callable<Integer> {
         PlantRunJournal runJournal = null;
         if (journalDir != null) {
             if (!(truthIntervalS > 0)) {
-                System.err.println("refused: --truth-interval-s must be positive, got " + truthIntervalS);
+                System.err.println("plant: refused: --truth-interval-s must be positive, got " + truthIntervalS);
                 runner.close();
                 closeQuietly(embedded);
                 return 2;
@@ -235,7 +235,7 @@ public final class PlantCommand implements Callable<Integer> {
                     rehearsal == null ? List.of() : rehearsal.checks().stream().map(c -> c.name()).toList(),
                     journalDir == null ? null : journalDir.resolve("report.html"));
         } catch (IllegalArgumentException | java.io.IOException e) {
-            System.err.println("refused: live view: " + e.getMessage());
+            System.err.println("plant: refused: live view: " + e.getMessage());
             runner.close();
             closeQuietly(embedded);
             return 2;

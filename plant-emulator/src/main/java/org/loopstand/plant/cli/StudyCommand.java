@@ -83,7 +83,7 @@ public final class StudyCommand implements Callable<Integer> {
             System.err.println(e.getMessage());
             return 2;
         } catch (IllegalArgumentException e) {
-            System.err.println("refused: " + e.getMessage());
+            System.err.println("study: refused: " + e.getMessage());
             return 2;
         }
     }

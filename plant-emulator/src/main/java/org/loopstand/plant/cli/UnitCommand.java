@@ -70,7 +70,7 @@ public final class UnitCommand implements Callable<Integer> {
             return 2;
         }
         if (!grid.hasUnit(unit)) {
-            System.err.println("refused: unit '" + unit + "' is not in site " + grid.siteId());
+            System.err.println("unit: refused: unit '" + unit + "' is not in site " + grid.siteId());
             return 2;
         }
         LinkSecurity security;
@@ -88,7 +88,7 @@ public final class UnitCommand implements Callable<Integer> {
             clock = "bus".equals(clockMode) ? plantClock(links, grid.siteId()) : rate == 1.0 ? WallClock.INSTANCE
                     : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
         } catch (IllegalArgumentException e) {
-            System.err.println("refused: " + e.getMessage());
+            System.err.println("unit: refused: " + e.getMessage());
             return 2;
         }
         if (clock == null) {
@@ -102,7 +102,7 @@ public final class UnitCommand implements Callable<Integer> {
                     links, clock);
             PlantSecurity.requireSignedCommands(security, java.util.List.of(process.unitInterface()), clock);
         } catch (IllegalArgumentException e) {
-            System.err.println("refused: " + e.getMessage());
+            System.err.println("unit: refused: " + e.getMessage());
             return 2;
         }
         CountDownLatch stopped = new CountDownLatch(1);

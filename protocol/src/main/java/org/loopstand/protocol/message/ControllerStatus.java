@@ -9,7 +9,7 @@ import java.util.Objects;
  * @param seq          per-controller sequence number, ≥ 0
  * @param sourceTime   epoch ms at the controller, &gt; 0
  * @param controllerId controller id
- * @param epoch        controller epoch, ≥ 0
+ * @param epoch        controller epoch, epoch ms (its start time; a takeover raises it), ≥ 0
  * @param state        regulating, suspended, off or offline
  * @param reasons      why it is not regulating (free text, each 1 to 256 characters), may be empty
  * @param cycle        control cycle count, ≥ 0

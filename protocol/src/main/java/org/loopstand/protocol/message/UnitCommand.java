@@ -9,7 +9,7 @@ import java.util.Objects;
  * @param sourceTime   epoch ms at the controller, &gt; 0
  * @param unit         target unit id
  * @param controllerId sending controller id
- * @param epoch        controller epoch (raised on each takeover), ≥ 0
+ * @param epoch        controller epoch, epoch ms (its start time; raised on each takeover), ≥ 0
  * @param issuedAt     epoch ms the command was issued, &gt; 0
  * @param validUntil   epoch ms after which the unit must not act on it, &gt; issuedAt; also the
  *                     MQTT message expiry
