@@ -146,7 +146,7 @@ public final class PlantCommand implements Callable<Integer> {
                 scenario = rehearsal.scenario();
             }
         } catch (ConfigFileException e) {
-            System.err.println("refused:");
+            System.err.println("plant: refused:");
             System.err.println(e.getMessage());
             return 2;
         }
@@ -155,7 +155,7 @@ public final class PlantCommand implements Callable<Integer> {
             try {
                 profile = org.loopstand.plant.profile.WireProfileLoader.load(wireProfile, grid.siteId());
             } catch (ConfigFileException e) {
-                System.err.println("refused:");
+                System.err.println("plant: refused:");
                 System.err.println(e.getMessage());
                 return 2;
             }

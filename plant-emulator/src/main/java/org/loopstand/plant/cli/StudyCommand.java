@@ -79,7 +79,7 @@ public final class StudyCommand implements Callable<Integer> {
             }
             return 0;
         } catch (ConfigFileException e) {
-            System.err.println("refused:");
+            System.err.println("study: refused:");
             System.err.println(e.getMessage());
             return 2;
         } catch (IllegalArgumentException e) {

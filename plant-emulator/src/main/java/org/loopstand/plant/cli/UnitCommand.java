@@ -65,7 +65,7 @@ public final class UnitCommand implements Callable<Integer> {
         try {
             grid = SiteLoader.load(site);
         } catch (ConfigFileException e) {
-            System.err.println("refused:");
+            System.err.println("unit: refused:");
             System.err.println(e.getMessage());
             return 2;
         }
