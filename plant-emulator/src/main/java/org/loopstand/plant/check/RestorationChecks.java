@@ -145,7 +145,7 @@ final class RestorationChecks {
         return runStart; // in band from runStart to the last sample (or -1: out at the end)
     }
 
-    /** The detail's note on samples out of band after the hold: how many seconds and the worst deviation. */
+    /** The detail's note on samples out of band after the hold: from when, how many, the worst deviation. */
     private static String laterExcursion(RunRecord.Series s, Out out, int back, double holdS, IntToDoubleFunction deviation,
             String devUnit) {
         int outSamples = 0;
@@ -159,6 +159,6 @@ final class RestorationChecks {
             }
         }
         return outSamples == 0 ? "" : " (out of band again from " + CheckOutcome.format(firstOutS) + " s, " + outSamples
-                + " samples of 1 s, worst " + CheckOutcome.format(worst) + " " + devUnit + ")";
+                + " truth samples, worst " + CheckOutcome.format(worst) + " " + devUnit + ")";
     }
 }

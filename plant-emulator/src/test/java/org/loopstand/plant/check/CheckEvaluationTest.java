@@ -91,7 +91,7 @@ class CheckEvaluationTest {
                 "holdS", 30.0)).evaluate(recoveryThenLateExcursion(), grid);
         assertThat(held.passed()).isTrue();
         assertThat(held.decidingFigure()).isCloseTo(46, within(1e-9));
-        assertThat(held.detail()).contains("from 56 s on for 30 s").contains("out of band again from 90 s, 3 samples of 1 s, worst 30.000 mHz");
+        assertThat(held.detail()).contains("from 56 s on for 30 s").contains("out of band again from 90 s, 3 truth samples, worst 30.000 mHz");
         // a hold longer than the quiet stretch (56–89 s) starts again after the excursion: back at 93 s, 83 s after 10 s
         CheckOutcome longHold = check("frequencyRestored", Map.of("area", "north-basin", "afterS", 10.0, "withinS", 50.0,
                 "bandMhz", 23.0, "holdS", 40.0)).evaluate(recoveryThenLateExcursion(), grid);
