@@ -75,7 +75,7 @@ class ControllerUnderTestRehearsalTest {
     @Test
     void shouldRehearseTheExampleControllerByCommandAndJudgeItFromThePlantSide() throws Exception {
         assertThat(exampleClassPath().split(java.io.File.pathSeparator)).hasSize(6);
-        Rehearsal.Outcome o = rehearsal(UNIT_TRIP, 10, ControllerUnderTest.command("minimal-1", exampleCommand()), 90_000).run();
+        Rehearsal.Outcome o = rehearsal(UNIT_TRIP, 20, ControllerUnderTest.command("minimal-1", exampleCommand()), 90_000).run();
         assertThat(o.message()).as(out()).isNull();
         assertThat(out()).contains("controller minimal-1 started by the rig").contains("verdict: ")
                 .contains("report: " + o.report().toAbsolutePath());
@@ -120,7 +120,7 @@ class ControllerUnderTestRehearsalTest {
     @Test
     void shouldRehearseAControllerThatSpeaksAnotherLayoutThroughAWireProfile() throws Exception {
         Path profile = Path.of("..", "config", "profiles", "kilo-gateway.yaml");
-        Rehearsal.Outcome o = rehearsal(UNIT_TRIP, 20, ControllerUnderTest.command("gw-agc",
+        Rehearsal.Outcome o = rehearsal(UNIT_TRIP, 40, ControllerUnderTest.command("gw-agc",
                 "MINIMAL_LAYOUT=kilo-gateway " + exampleCommand()), 90_000, profile).run();
         assertThat(o.message()).as(out()).isNull();
         assertRestored(RunReportBuilder.build(RunFolder.read(o.runFolder()), java.util.Map.of(), List.of(), "test"), o);
