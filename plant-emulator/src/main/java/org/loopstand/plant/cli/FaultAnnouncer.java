@@ -33,6 +33,12 @@ public final class FaultAnnouncer implements FaultObserver {
     }
 
     @Override
+    public void networkFault(long tMs, FaultSpec spec, String action, java.util.List<String> links, String detail) {
+        out.accept("plant: network fault " + label(spec) + " " + action + " between " + spec.targets().stream()
+                .map(t -> t.id()).toList() + (detail.isEmpty() ? " on links " + links : ": " + detail));
+    }
+
+    @Override
     public void faultStopped(long tMs, FaultSpec spec, String source, String reason) {
         out.accept(STOPPED + label(spec) + " (" + reason + ")");
     }

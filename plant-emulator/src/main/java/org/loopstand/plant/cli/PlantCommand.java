@@ -14,7 +14,10 @@ import java.util.concurrent.CountDownLatch;
 import java.util.concurrent.TimeUnit;
 import java.util.concurrent.atomic.AtomicBoolean;
 
+import org.loopstand.plant.fault.HostLinks;
 import org.loopstand.plant.journal.PlantRunJournal;
+import org.loopstand.plant.network.CommandRunner;
+import org.loopstand.plant.network.NamespaceHostLinks;
 import org.loopstand.plant.live.LiveView;
 
 import org.loopstand.plant.broker.EmbeddedBroker;
@@ -109,6 +112,10 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--linger-s", defaultValue = "0", description = "after the scenario ends, keep the embedded broker up this many wall seconds (or until stopped) so the controller can stop cleanly")
     double lingerS;
 
+    @Option(names = "--hosts", paramLabel = "FILE", description = "hosts file (YAML): the hosts network faults may name"
+            + " and the interfaces that carry their links (docs/faults.md, \"Network faults\"); needs root")
+    Path hostsFile;
+
     @Option(names = "--wire-profile", paramLabel = "FILE", description = "speak another topic and payload layout to the"
             + " controller (YAML; docs/controller-contract.md, \"Wire profiles\"); the journal keeps the rig's own form")
     Path wireProfile;
@@ -135,14 +142,16 @@ public final class PlantCommand implements Callable<Integer> {
         Grid grid;
         Scenario scenario = null;
         RunScenario rehearsal = null;
+        HostLinks hostLinks = HostLinks.NONE;
         try {
+            hostLinks = hostsFile == null ? HostLinks.NONE : NamespaceHostLinks.read(hostsFile, CommandRunner.SYSTEM);
             grid = SiteLoader.loadForRun(site, System.err::println);
             if (quietLoads) {
                 grid = grid.withoutLoadNoise();
             }
             if (scenarioFile != null) {
                 org.loopstand.protocol.config.OldKeys.SCENARIO.warn(scenarioFile, System.err::println);
-                rehearsal = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
+                rehearsal = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid, hostLinks);
                 scenario = rehearsal.scenario();
             }
         } catch (ConfigFileException e) {
@@ -228,7 +237,8 @@ public final class PlantCommand implements Callable<Integer> {
             runner.journalTo(runJournal, truthIntervalS);
         }
         RunRecord record = new RunRecord(runner.agent().epochMsAt(0));
-        FaultHooks hooks = ScenarioFaults.wire(runner, rehearsal, record, runJournal, clock, scenario == null ? 0 : scenario.seed());
+        FaultHooks hooks = ScenarioFaults.wire(runner, rehearsal, record, runJournal, clock, scenario == null ? 0 : scenario.seed(),
+                hostLinks);
         LiveView liveView;
         try {
             liveView = live.startIfAsked(runner, hooks, clock, embedded != null,

@@ -7,6 +7,7 @@ import org.loopstand.plant.check.RunRecord;
 import org.loopstand.plant.fault.FaultEngine;
 import org.loopstand.plant.fault.FaultLog;
 import org.loopstand.plant.fault.FaultObserver;
+import org.loopstand.plant.fault.HostLinks;
 import org.loopstand.plant.journal.PlantRunJournal;
 import org.loopstand.plant.runtime.FaultHooks;
 import org.loopstand.plant.runtime.PlantRunner;
@@ -26,9 +27,10 @@ final class ScenarioFaults {
      * @param rehearsal the scenario's faults, or null without a rehearsal scenario
      * @param journal   the run journal, may be null
      * @param seed      seeds the fault stages' random draws
+     * @param hostLinks what network faults act on ({@link HostLinks#NONE} without a hosts file)
      */
     static FaultHooks wire(PlantRunner runner, RunScenario rehearsal, RunRecord record, PlantRunJournal journal, Clock clock,
-            long seed) {
+            long seed, HostLinks hostLinks) {
         List<FaultObserver> observers = new ArrayList<>(List.of(new FaultLog(), record, new FaultAnnouncer(PlantCommand::say)));
         if (journal != null) {
             observers.add(journal);
@@ -36,6 +38,7 @@ final class ScenarioFaults {
         observers.add(runner.counters()); // the metrics page counts what the fault stage kept off the wire
         FaultObserver observer = FaultObserver.all(observers);
         FaultEngine faults = new FaultEngine(clock, clock.epochMillis(), observer);
+        faults.useHostLinks(hostLinks);
         if (rehearsal != null) {
             for (var f : rehearsal.faults()) {
                 faults.schedule(f).ifPresent(why -> PlantCommand.say("plant: fault " + f.id() + " not scheduled: " + why));

@@ -15,5 +15,7 @@ public enum FaultCategory {
     /** Commands on their way into the unit plant interface: dropped, delayed, duplicated. */
     COMMAND,
     /** The unit plant interface misbehaves ({@link PlantFaultFlags}). */
-    PLANT
+    PLANT,
+    /** The network between two hosts: link cut, or delay and loss ({@link HostLinks}). */
+    NETWORK
 }

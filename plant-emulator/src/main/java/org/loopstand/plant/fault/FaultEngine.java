@@ -31,6 +31,7 @@ public final class FaultEngine {
     private long generation;
     private final List<FaultSpec> active = new ArrayList<>();
     private final java.util.Set<String> tripOrdered = new java.util.HashSet<>();
+    private HostLinks hostLinks = HostLinks.NONE;
 
     /**
      * @param clock           the run's scenario clock
@@ -49,6 +50,11 @@ public final class FaultEngine {
         if (!distinctLinks.contains(control)) {
             distinctLinks.add(control);
         }
+    }
+
+    /** Lets network faults act on the links between the run's hosts. */
+    public void useHostLinks(HostLinks links) {
+        this.hostLinks = links;
     }
 
     /** @return scenario seconds since the run start */
@@ -147,6 +153,9 @@ public final class FaultEngine {
         if (w.spec.behaviour() instanceof PlantFault pf && pf.tripsUnit()) {
             w.spec.targets().forEach(t -> tripOrdered.add(t.id()));
         }
+        if (w.spec.behaviour() instanceof NetworkFault nf) {
+            changeHostLink(w.spec, nf, true);
+        }
         if (w.spec.behaviour() instanceof LinkFault lf) {
             for (FaultTarget t : w.spec.targets()) {
                 LinkFaultControl link = links.get(t.id());
@@ -165,6 +174,9 @@ public final class FaultEngine {
         active.remove(w.spec);
         generation++;
         observer.faultStopped(nowMs(), w.spec, w.source, reason);
+        if (w.spec.behaviour() instanceof NetworkFault nf) {
+            changeHostLink(w.spec, nf, false);
+        }
         if (w.spec.behaviour() instanceof LinkFault lf && Double.isNaN(lf.refuseReconnectS())) {
             for (FaultTarget t : w.spec.targets()) {
                 LinkFaultControl link = links.get(t.id());
@@ -172,6 +184,21 @@ public final class FaultEngine {
                     link.refuseReconnectForS(0);
                 }
             }
+        }
+    }
+
+    /**
+     * Applies ({@code start}) or lifts a network fault through the host links and tells the observer
+     * what was done or why it could not be: a network fault never passes silently.
+     */
+    private void changeHostLink(FaultSpec spec, NetworkFault fault, boolean start) {
+        String a = spec.targets().get(0).id();
+        String b = spec.targets().get(1).id();
+        try {
+            List<String> changed = start ? hostLinks.apply(fault, a, b) : hostLinks.lift(fault, a, b);
+            observer.networkFault(nowMs(), spec, start ? fault.action() : fault.action() + "Lifted", changed, "");
+        } catch (HostLinks.HostLinkException e) {
+            observer.networkFault(nowMs(), spec, start ? "notApplied" : "notLifted", List.of(), e.getMessage());
         }
     }
 

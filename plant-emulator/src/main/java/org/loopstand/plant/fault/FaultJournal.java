@@ -18,6 +18,8 @@ import org.loopstand.protocol.message.UnitCommand;
 public final class FaultJournal implements FaultObserver {
     /** Entry kind of a command the command stage acted on. */
     public static final String KIND_COMMAND_FAULT = "commandFault";
+    /** Entry kind of a network fault's effect on the links between hosts (or why it had none). */
+    public static final String KIND_NETWORK_FAULT = "networkFault";
     /** Entry kind of what went on the wire in place of the truth. */
     public static final String KIND_PUBLISHED = "published";
 
@@ -79,6 +81,19 @@ public final class FaultJournal implements FaultObserver {
         f.put("fate", fate);
         f.put("faults", faultIds);
         writer.append(tMs, KIND_COMMAND_FAULT, f);
+    }
+
+    @Override
+    public void networkFault(long tMs, FaultSpec spec, String action, List<String> links, String detail) {
+        Map<String, Object> f = new LinkedHashMap<>();
+        f.put("faultId", spec.id());
+        f.put("type", spec.type().name());
+        f.put("action", action);
+        f.put("hosts", spec.targets().stream().map(FaultTarget::id).toList());
+        f.put("links", links);
+        f.put("windowS", spec.endS() - spec.startS());
+        f.put("detail", detail);
+        writer.append(tMs, KIND_NETWORK_FAULT, f);
     }
 
     private static Map<String, Object> describe(FaultSpec spec, String action, String source) {

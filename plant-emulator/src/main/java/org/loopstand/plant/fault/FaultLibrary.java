@@ -13,7 +13,7 @@ import java.util.Set;
 
 /**
  * Every fault type with its parameters and its behaviour record (a {@link StreamFault},
- * {@link ValueFault}, {@link CommandFault}, {@link PlantFault} or {@link LinkFault} whose components
+ * {@link ValueFault}, {@link CommandFault}, {@link PlantFault}, {@link LinkFault} or {@link NetworkFault} whose components
  * are the type's own parameters): the one list read by the scenario loader, the live fault order
  * handler, the fault stages, {@code loopstand fault list} and docs/faults.md.
  */
@@ -27,6 +27,7 @@ public final class FaultLibrary {
     private static final Set<TargetKind> STREAMS = Set.of(TargetKind.AREA, TargetKind.UNIT);
     private static final Set<TargetKind> UNITS = Set.of(TargetKind.UNIT);
     private static final Set<TargetKind> LINKS = Set.of(TargetKind.CONNECTION);
+    private static final Set<TargetKind> HOSTS = Set.of(TargetKind.HOST);
     private static final ParameterSpec METER = choice("meter", ALL_METERS, List.of(),
             "area targets: which meter of the area (\"*\" = every meter)");
     private static final ParameterSpec POINT = choice("point", POINT_FREQUENCY, List.of(),
@@ -146,6 +147,14 @@ public final class FaultLibrary {
         t.add(plant("swapRaiseLower", PlantFault.SwapRaiseLower.class, "raise and lower are swapped in the unit's wiring"));
         t.add(plant("plantTrip", PlantFault.PlantTrip.class, "the unit trips at the fault start (the physics truth trips too)"));
         t.add(plant("switchToLocal", PlantFault.SwitchToLocal.class, "the unit goes to local control: it refuses commands with notInRemote"));
+        // network between two hosts (HostLinks)
+        t.add(typeWith("partition", NetworkFault.Partition.class, FaultCategory.NETWORK, HOSTS, "network",
+                "the link between two hosts is cut (link down) for the window"));
+        t.add(typeWith("linkDelayLoss", NetworkFault.DelayLoss.class, FaultCategory.NETWORK, HOSTS, "network",
+                "packets between two hosts are delayed and lost (netem; refused where the kernel has none)",
+                number("delayMs", "ms", 0, 60_000, 100.0, "fixed delay each way"),
+                number("jitterMs", "ms", 0, 60_000, 0.0, "extra delay, up to this much"),
+                number("lossProbability", "", 0, 1, 0.0, "chance that one packet is lost")));
         return new FaultLibrary(t);
     }
 

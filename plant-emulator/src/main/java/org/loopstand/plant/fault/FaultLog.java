@@ -18,6 +18,15 @@ public final class FaultLog implements FaultObserver {
     }
 
     @Override
+    public void networkFault(long tMs, FaultSpec spec, String action, java.util.List<String> links, String detail) {
+        if (detail.isEmpty()) {
+            LOG.info("{} network fault {}: {} between {} on links {}", tMs, spec.id(), action, spec.targets(), links);
+        } else {
+            LOG.warn("{} network fault {}: {} between {}: {}", tMs, spec.id(), action, spec.targets(), detail);
+        }
+    }
+
+    @Override
     public void faultRefused(long tMs, String orderId, String reason) {
         LOG.warn("{} fault order {} refused: {}", tMs, orderId, reason);
     }

@@ -32,6 +32,17 @@ public interface FaultObserver {
     default void commandPassed(long tMs, UnitCommand command, String fate, List<String> faultIds) {
     }
 
+    /**
+     * A network fault acted on the links between hosts, or could not.
+     *
+     * @param action what was done: {@code partition}, {@code delayLoss}, {@code partitionLifted},
+     *               {@code delayLossLifted}, or {@code notApplied} / {@code notLifted} (see detail)
+     * @param links  the links changed, as the host links name them
+     * @param detail why it could not be done; empty when it was
+     */
+    default void networkFault(long tMs, FaultSpec spec, String action, List<String> links, String detail) {
+    }
+
     /** @return an observer telling each of {@code observers} in order */
     static FaultObserver all(List<FaultObserver> observers) {
         List<FaultObserver> list = List.copyOf(observers);
@@ -59,6 +70,11 @@ public interface FaultObserver {
             @Override
             public void commandPassed(long tMs, UnitCommand command, String fate, List<String> faultIds) {
                 list.forEach(o -> o.commandPassed(tMs, command, fate, faultIds));
+            }
+
+            @Override
+            public void networkFault(long tMs, FaultSpec spec, String action, List<String> links, String detail) {
+                list.forEach(o -> o.networkFault(tMs, spec, action, links, detail));
             }
         };
     }

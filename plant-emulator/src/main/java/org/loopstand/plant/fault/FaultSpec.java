@@ -202,6 +202,10 @@ public record FaultSpec(String id, FaultType type, List<FaultTarget> targets, Ma
                 TargetCatalog.Resolution r = catalog.resolve(t, type.targetKinds());
                 r.target().ifPresentOrElse(targets::add, () -> out.add(new Problem("targets", r.problem())));
             }
+            if (type.category() == FaultCategory.NETWORK && targetIds.size() != 2) {
+                out.add(new Problem("targets", "a " + type.name() + " names the two hosts at the ends of the link, got "
+                        + targetIds.size() + " target(s)"));
+            }
             return targets;
         }
 

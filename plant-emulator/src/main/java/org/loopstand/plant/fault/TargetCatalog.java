@@ -25,6 +25,7 @@ public final class TargetCatalog {
     private final Set<String> units;
     private final List<TieLine> tieLines;
     private final java.util.Map<String, Double> nominalHz = new java.util.HashMap<>();
+    private Set<String> hosts = Set.of();
 
     private TargetCatalog(String siteId, Set<String> areas, List<TieLine> tieLines, Set<String> units) {
         this.siteId = siteId;
@@ -43,6 +44,14 @@ public final class TargetCatalog {
         grid.units().stream().map(GeneratingUnit::id).forEach(u::add);
         TargetCatalog c = new TargetCatalog(grid.siteId(), a, grid.ties(), u);
         grid.areas().forEach(area -> c.nominalHz.put(area.id(), area.nominalFrequencyHz()));
+        return c;
+    }
+
+    /** @return this catalog with the host names network faults may name (from the run's {@link HostLinks}) */
+    public TargetCatalog withHosts(Set<String> hostNames) {
+        TargetCatalog c = new TargetCatalog(siteId, areas, tieLines, units);
+        c.nominalHz.putAll(nominalHz);
+        c.hosts = java.util.Collections.unmodifiableSet(new LinkedHashSet<>(hostNames));
         return c;
     }
 
@@ -67,12 +76,19 @@ public final class TargetCatalog {
         if (PLANT_CONNECTION.equals(id)) {
             matches.add(TargetKind.CONNECTION);
         }
+        if (hosts.contains(id)) {
+            matches.add(TargetKind.HOST);
+        }
         matches.removeIf(k -> !allowed.contains(k));
         if (matches.size() == 1) {
             return new Resolution(Optional.of(new FaultTarget(matches.get(0), id)), null);
         }
         if (matches.size() > 1) {
             return new Resolution(Optional.empty(), "target '" + id + "' is ambiguous: it names " + matches);
+        }
+        if (allowed.contains(TargetKind.HOST)) {
+            return new Resolution(Optional.empty(), "unknown host '" + id + "' (the run's hosts file names "
+                    + (hosts.isEmpty() ? "none: give the plant --hosts FILE" : hosts) + ")");
         }
         return new Resolution(Optional.empty(), "unknown target '" + id + "' for this fault type (it takes "
                 + kindsText(allowed) + "; site " + siteId + " has areas " + areas + ", units " + units

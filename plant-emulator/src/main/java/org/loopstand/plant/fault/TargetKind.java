@@ -10,7 +10,9 @@ public enum TargetKind {
     /** A unit: its telemetry, its command path or its plant interface, depending on the fault type. */
     UNIT,
     /** A bus connection: a unit interface's ({@code unit id}) or the plant process's own ({@link TargetCatalog#PLANT_CONNECTION}). */
-    CONNECTION;
+    CONNECTION,
+    /** A host of the rig's layout, named in the plant's hosts file ({@link HostLinks#hosts()}). */
+    HOST;
 
     public String wireName() {
         return name().toLowerCase(java.util.Locale.ROOT);

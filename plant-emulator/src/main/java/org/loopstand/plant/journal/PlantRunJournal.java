@@ -69,6 +69,14 @@ public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.p
     }
 
     @Override
+    public synchronized void networkFault(long tMs, org.loopstand.plant.fault.FaultSpec spec, String action,
+            List<String> links, String detail) {
+        if (!journal.isClosed()) {
+            faults.networkFault(tMs, spec, action, links, detail);
+        }
+    }
+
+    @Override
     public synchronized void faultRefused(long tMs, String orderId, String reason) {
         if (!journal.isClosed()) {
             faults.faultRefused(tMs, orderId, reason);

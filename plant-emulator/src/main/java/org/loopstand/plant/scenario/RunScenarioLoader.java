@@ -19,6 +19,8 @@ import org.loopstand.plant.check.CheckType;
 import org.loopstand.plant.fault.FaultCategory;
 import org.loopstand.plant.fault.FaultLibrary;
 import org.loopstand.plant.fault.FaultSpec;
+import org.loopstand.plant.fault.HostLinks;
+import org.loopstand.plant.fault.NetworkFault;
 import org.loopstand.plant.fault.TargetCatalog;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.protocol.config.MappingReader;
@@ -39,13 +41,26 @@ public final class RunScenarioLoader {
     }
 
     public static RunScenario load(Path file, EventTypeRegistry registry, Grid grid) throws IOException {
+        return load(file, registry, grid, HostLinks.NONE);
+    }
+
+    /**
+     * @param hostLinks the hosts network faults may name, and whether each can be applied here (a
+     *                  {@code linkDelayLoss} on a kernel without netem is refused at its file:line:column)
+     */
+    public static RunScenario load(Path file, EventTypeRegistry registry, Grid grid, HostLinks hostLinks) throws IOException {
         try (Reader r = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
-            return load(file.toString(), r, registry, grid);
+            return load(file.toString(), r, registry, grid, hostLinks);
         }
     }
 
     public static RunScenario load(String fileName, Reader reader, EventTypeRegistry registry, Grid grid) throws IOException {
-        Extras extras = new Extras(FaultLibrary.standard(), CheckLibrary.standard());
+        return load(fileName, reader, registry, grid, HostLinks.NONE);
+    }
+
+    public static RunScenario load(String fileName, Reader reader, EventTypeRegistry registry, Grid grid, HostLinks hostLinks)
+            throws IOException {
+        Extras extras = new Extras(FaultLibrary.standard(), CheckLibrary.standard(), hostLinks);
         Scenario s = ScenarioLoader.load(fileName, reader, registry, grid, extras);
         return new RunScenario(s, extras.rateX, extras.faults, extras.checks);
     }
@@ -57,9 +72,12 @@ public final class RunScenarioLoader {
         final List<FaultSpec> faults = new ArrayList<>();
         final List<CheckSpec> checks = new ArrayList<>();
 
-        Extras(FaultLibrary faultLibrary, CheckLibrary checkLibrary) {
+        final HostLinks hostLinks;
+
+        Extras(FaultLibrary faultLibrary, CheckLibrary checkLibrary, HostLinks hostLinks) {
             this.faultLibrary = faultLibrary;
             this.checkLibrary = checkLibrary;
+            this.hostLinks = hostLinks;
         }
 
         @Override
@@ -68,7 +86,7 @@ public final class RunScenarioLoader {
             if (!(rateX > 0 && rateX <= 1000)) {
                 problems.add(top.locationOf("rateX") + ": rateX must lie in (0, 1000], got " + rateX);
             }
-            TargetCatalog catalog = TargetCatalog.of(grid);
+            TargetCatalog catalog = TargetCatalog.of(grid).withHosts(hostLinks.hosts());
             List<SourceLocation> faultAt = new ArrayList<>();
             for (YamlNode n : top.sequence("faults", false)) {
                 readFault(n, durationS, catalog, problems, faultAt);
@@ -134,7 +152,12 @@ public final class RunScenarioLoader {
                     problems.add(r.locationOf("id") + ": fault id '" + id + "' is used twice");
                     return;
                 }
-                faults.add(b.build());
+                FaultSpec spec = b.build();
+                if (spec.behaviour() instanceof NetworkFault nf) {
+                    hostLinks.cannotApply(nf, spec.targets().get(0).id(), spec.targets().get(1).id()).ifPresent(why ->
+                            problems.add(r.locationOf("type") + ": fault " + id + " (" + type + ") cannot be applied here: " + why));
+                }
+                faults.add(spec);
                 faultAt.add(r.location());
             }
         }

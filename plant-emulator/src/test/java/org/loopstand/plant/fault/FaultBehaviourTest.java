@@ -37,10 +37,11 @@ class FaultBehaviourTest {
                 case COMMAND -> CommandFault.class;
                 case PLANT -> PlantFault.class;
                 case CONNECTION -> LinkFault.class;
+                case NETWORK -> NetworkFault.class;
             };
             assertThat(stage).as(t.name()).isAssignableFrom(t.behaviour());
         }
-        assertThat(FaultLibrary.standard().types()).hasSize(31);
+        assertThat(FaultLibrary.standard().types()).hasSize(33);
     }
 
     @Test
