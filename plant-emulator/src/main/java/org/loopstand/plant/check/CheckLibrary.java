@@ -74,6 +74,13 @@ public final class CheckLibrary {
                 AFTER, number("withinS", "s", 0, 3600, 8.0, "limit (two 4 s cycles)")), true, true,
                 "controller side: the controller published state suspended, or the area among its suspendedAreas, within withinS",
                 ControllerChecks::suspendedWithin));
+        t.add(new CheckType("noBumpAfterResume", List.of(choice("area", "*", List.of(), "area (* = every area)"),
+                number("windowS", "s", 1, 600, 8.0, "the first commands: issued within this long of the resume (two 4 s cycles)"),
+                number("gapS", "s", 1, 3600, 12.0, "a silence of the status this long, then regulating, is a resume too"),
+                number("toleranceMw", "MW", 0, 100_000, 10.0, "allowance beyond what the ACE calls for")), true, false,
+                "controller side: after it regulates an area again (suspension or silence), the change its commands ask of the "
+                        + "area's units in the first windowS lies between 0 and what the truth ACE at that moment calls for",
+                ResumeChecks::noBumpAfterResume));
         return new CheckLibrary(t);
     }
 }

@@ -1,0 +1,170 @@
+package org.loopstand.plant.check;
+
+import java.util.ArrayList;
+import java.util.Comparator;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+
+import org.loopstand.plant.grid.GeneratingUnit;
+import org.loopstand.plant.grid.Grid;
+import org.loopstand.protocol.message.CommandKind;
+import org.loopstand.protocol.message.ControllerState;
+import org.loopstand.protocol.message.ControllerStatus;
+import org.loopstand.protocol.message.PulseDirection;
+import org.loopstand.protocol.message.UnitCommand;
+
+/**
+ * Whether a controller resumes without a bump: after it regulates an area again (from a suspension, or
+ * after a silence in its status such as a node loss or a partition), what its first commands ask of the
+ * area's units is no more than the area's ACE at that moment calls for. Bumpless transfer is a standard
+ * rule of controller switching (from memory: Åström and Hägglund, Advanced PID Control, 2006, "bumpless
+ * transfer"); the bound by the ACE is common practice, no source.
+ */
+final class ResumeChecks {
+    private ResumeChecks() {
+    }
+
+    /** One area taken up again by a controller at {@code atS} (its own clock, scenario s). */
+    record Resume(String controller, String area, double atS, String after) {
+    }
+
+    /**
+     * For each resume of the area ({@code *} = every area): the change asked of the area's units by
+     * commands issued in [resume, resume + windowS) — a pulse asks ± its length × the unit's pulse rate,
+     * the last setpoint to a unit asks its distance from the unit's truth output at the resume — must lie
+     * between 0 and −ACE (truth ACE at the resume: a positive ACE calls for lowering), widened by
+     * toleranceMw. The figure is the worst excess beyond that range, MW. No resume: fails, nothing to judge.
+     */
+    static CheckOutcome noBumpAfterResume(CheckSpec spec, RunRecord run, Grid grid) {
+        String area = spec.text("area");
+        double windowS = spec.number("windowS");
+        double toleranceMw = spec.number("toleranceMw");
+        List<Resume> resumes = resumes(run, area, spec.number("gapS"));
+        if (resumes.isEmpty()) {
+            return new CheckOutcome(spec.name(), false, Double.NaN, "MW", toleranceMw, "no controller resumed regulating "
+                    + (area.equals("*") ? "any area" : area) + " after a suspension or a silence of its status ("
+                    + run.statuses().size() + " statuses received): nothing to judge", true);
+        }
+        double worstMw = 0;
+        List<String> seen = new ArrayList<>();
+        for (Resume r : resumes) {
+            double aceMw = truthAceAt(run, grid, r.area(), r.atS());
+            int[] commands = {0};
+            double askedMw = askedMw(run, grid, r, windowS, commands);
+            double calledForMw = -aceMw;
+            double excessMw = Math.max(0, Math.max(askedMw - Math.max(0, calledForMw), Math.min(0, calledForMw) - askedMw));
+            worstMw = Math.max(worstMw, excessMw);
+            seen.add(String.format(Locale.ROOT, "%s %s at %.1f s after %s: %d commands asked %+.1f MW in %.0f s, ACE %+.1f MW"
+                    + " calls for %+.1f MW (excess %.1f MW)", r.controller(), r.area(), r.atS(), r.after(), commands[0],
+                    askedMw, windowS, aceMw, calledForMw, excessMw));
+        }
+        return new CheckOutcome(spec.name(), worstMw <= toleranceMw, worstMw, "MW", toleranceMw,
+                resumes.size() + " resume(s): " + String.join("; ", seen), true);
+    }
+
+    /** @return every moment a controller took an area up again, in time order */
+    static List<Resume> resumes(RunRecord run, String area, double gapS) {
+        Map<String, List<ControllerStatus>> byController = new LinkedHashMap<>();
+        for (RunRecord.StatusRecord s : run.statuses()) {
+            byController.computeIfAbsent(s.status().controllerId(), k -> new ArrayList<>()).add(s.status());
+        }
+        List<Resume> out = new ArrayList<>();
+        for (List<ControllerStatus> list : byController.values()) {
+            list.sort(Comparator.comparingLong(ControllerStatus::sourceTime).thenComparingLong(ControllerStatus::seq));
+            Map<String, Double> lastRegulatedAtS = new HashMap<>();
+            Map<String, String> heldBy = new HashMap<>();
+            double previousS = Double.NaN;
+            for (ControllerStatus s : list) {
+                double atS = (s.sourceTime() - run.runStartEpochMs()) / 1000.0;
+                boolean silence = !Double.isNaN(previousS) && atS - previousS > gapS;
+                for (String a : areasOf(s)) {
+                    if (!area.equals("*") && !area.equals(a)) {
+                        continue;
+                    }
+                    boolean regulated = s.state() == ControllerState.REGULATING && (s.suspendedAreas() == null
+                            || s.suspendedAreas().stream().noneMatch(x -> x.area().equals(a)));
+                    if (!regulated) {
+                        heldBy.put(a, s.state() == ControllerState.REGULATING ? "suspension " + reasonsOf(s, a)
+                                : s.state().wireName() + " " + reasonsOf(s, a));
+                    } else if (heldBy.containsKey(a) || (silence && lastRegulatedAtS.containsKey(a))) {
+                        out.add(new Resume(s.controllerId(), a, atS, heldBy.containsKey(a) ? heldBy.get(a)
+                                : String.format(Locale.ROOT, "%.0f s without status", atS - previousS)));
+                        heldBy.remove(a);
+                    }
+                    if (regulated) {
+                        lastRegulatedAtS.put(a, atS);
+                    }
+                }
+                previousS = atS;
+            }
+        }
+        out.sort(Comparator.comparingDouble(Resume::atS));
+        return out;
+    }
+
+    private static List<String> areasOf(ControllerStatus s) {
+        List<String> areas = new ArrayList<>();
+        if (s.areas() != null) {
+            s.areas().forEach(a -> areas.add(a.area()));
+        }
+        if (s.suspendedAreas() != null) {
+            s.suspendedAreas().stream().map(x -> x.area()).filter(a -> !areas.contains(a)).forEach(areas::add);
+        }
+        return areas;
+    }
+
+    private static String reasonsOf(ControllerStatus s, String area) {
+        if (s.suspendedAreas() != null) {
+            for (var x : s.suspendedAreas()) {
+                if (x.area().equals(area)) {
+                    return x.reasons().toString();
+                }
+            }
+        }
+        return s.reasons() == null ? "[]" : s.reasons().toString();
+    }
+
+    private static double askedMw(RunRecord run, Grid grid, Resume r, double windowS, int[] counted) {
+        Map<String, GeneratingUnit> units = new HashMap<>();
+        grid.units().stream().filter(u -> u.area().equals(r.area())).forEach(u -> units.put(u.id(), u));
+        double pulsesMw = 0;
+        Map<String, Double> lastSetpointMw = new LinkedHashMap<>();
+        java.util.Set<String> once = new java.util.HashSet<>(); // a command that reached the unit twice asks once
+        for (RunRecord.CommandRecord c : run.commands()) {
+            UnitCommand cmd = c.command();
+            GeneratingUnit u = units.get(cmd.unit());
+            double issuedS = (cmd.issuedAt() - run.runStartEpochMs()) / 1000.0;
+            if (u == null || !once.add(cmd.unit() + "#" + cmd.seq()) || issuedS < r.atS() || issuedS >= r.atS() + windowS
+                    || !cmd.controllerId().equals(r.controller())) {
+                continue;
+            }
+            counted[0]++;
+            if (cmd.kind() == CommandKind.PULSE) {
+                double mw = cmd.durationMs() / 60_000.0 * u.pulseRateMwPerMin();
+                pulsesMw += cmd.direction() == PulseDirection.RAISE ? mw : -mw;
+            } else if (cmd.kind() == CommandKind.SETPOINT && cmd.setpointMw() != null) {
+                lastSetpointMw.put(u.id(), cmd.setpointMw() - valueAt(run.series("outputMw/" + u.id()), r.atS()));
+            }
+        }
+        return pulsesMw + lastSetpointMw.values().stream().mapToDouble(Double::doubleValue).sum();
+    }
+
+    private static double truthAceAt(RunRecord run, Grid grid, String area, double atS) {
+        return valueAt(TruthAce.of(run, grid, area), atS);
+    }
+
+    /** @return the last sample at or before {@code atS} (the first one if none is), NaN for an empty series */
+    private static double valueAt(RunRecord.Series s, double atS) {
+        double v = Double.NaN;
+        for (int i = 0; i < s.size(); i++) {
+            if (s.timeS(i) > atS && !Double.isNaN(v)) {
+                break;
+            }
+            v = s.value(i);
+        }
+        return v;
+    }
+}
