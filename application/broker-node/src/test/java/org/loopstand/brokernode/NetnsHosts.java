@@ -71,7 +71,8 @@ final class NetnsHosts implements AutoCloseable {
         return "10.231.0." + i;
     }
 
-    private String hubSide(int i) {
+    /** @return host i's port on the hub's bridge (the hub side of its veth pair) */
+    String hubSide(int i) {
         return prefix + "p" + i;
     }
 
@@ -83,6 +84,17 @@ final class NetnsHosts implements AutoCloseable {
     /** Heals {@link #cut}. */
     void heal(int i) {
         run("ip", "-n", hub(), "link", "set", hubSide(i), "up");
+    }
+
+    /**
+     * Writes a hosts file for the plant's network faults (docs/faults.md, "Network faults"): host i is
+     * {@code names.get(i - 1)}; the link between hosts a and b is host {@code port}'s port on the bridge,
+     * so cutting it cuts host {@code port} from every other host.
+     */
+    Path writeHostsFile(Path file, List<String> names, int a, int b, int port) throws IOException {
+        return java.nio.file.Files.writeString(file, "hosts: [" + String.join(", ", names) + "]\nlinks:\n  - {between: ["
+                + names.get(a - 1) + ", " + names.get(b - 1) + "], namespace: " + hub() + ", interfaces: [" + hubSide(port)
+                + "]}\n");
     }
 
     /** @return the command prefix that runs a program inside host i */

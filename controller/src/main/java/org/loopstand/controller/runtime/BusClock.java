@@ -8,7 +8,10 @@ import org.loopstand.protocol.time.Clock;
  * source time (the plant's scenario epoch ms) and rate, extrapolated between ticks with an
  * injected wall clock. A tick a little behind the extrapolation (up to
  * {@value #RESTART_BEHIND_MS} ms of scenario time) holds time until it catches up. A tick further
- * behind is a restarted plant: {@link #epochMillis()} follows it back to the plant's time, so
+ * behind is a restarted plant (the rig's plant numbers its ticks from its start, epoch ms, so a
+ * restarted plant's ticks number above the old ones), unless its seq is up to
+ * {@value #LATE_SEQ_WINDOW} below the last one taken: that is an old tick delivered late, e.g. from a
+ * broker's queue after a partition healed, and is ignored. On a restart {@link #epochMillis()} follows it back to the plant's time, so
  * commands and ages are reckoned on the plant's clock again, while {@link #monotonicNanos()} keeps
  * running forward (it moves on by the whole seconds it was ahead, rounded up, so cycle starts stay
  * on whole scenario seconds). A stopped scenario ({@code running = false}) holds time. Thread-safe.
@@ -19,6 +22,11 @@ public final class BusClock implements Clock {
 
     /** A tick further behind the extrapolation than this, scenario ms, is a restarted plant. */
     public static final long RESTART_BEHIND_MS = 10_000;
+    /**
+     * A tick at most this many numbers below the last one taken is a late copy; further below is a
+     * publisher restarted to a lower number (as the intake's sequence rule, docs/controller.md).
+     */
+    public static final long LATE_SEQ_WINDOW = 1000;
 
     private final Clock wall;
     private volatile Anchor anchor;
@@ -26,6 +34,8 @@ public final class BusClock implements Clock {
     /** monotonic − scenario time, ns: grows by whole seconds at each restart followed */
     private long offsetNanos;
     private long restartsFollowed;
+    private long lastSeq = Long.MIN_VALUE;
+    private long lateTicksIgnored;
 
     /** @param wall the wall clock used between ticks */
     public BusClock(Clock wall) {
@@ -35,6 +45,12 @@ public final class BusClock implements Clock {
     /** Takes a tick as the new anchor. */
     public synchronized void onTick(ClockTick tick) {
         Anchor a = anchor;
+        if (a != null && tick.seq() < lastSeq && lastSeq - tick.seq() <= LATE_SEQ_WINDOW) {
+            // an older tick delivered late (a broker's queue emptied after a partition healed): not a restart
+            lateTicksIgnored++;
+            return;
+        }
+        lastSeq = tick.seq();
         if (a != null) {
             long behindNanos = scenarioNanos(a) - tick.sourceTime() * 1_000_000L;
             if (behindNanos > RESTART_BEHIND_MS * 1_000_000L) {
@@ -43,6 +59,11 @@ public final class BusClock implements Clock {
             }
         }
         anchor = new Anchor(tick.sourceTime(), wall.monotonicNanos(), tick.running() ? tick.rate() : 0.0);
+    }
+
+    /** @return how many ticks were ignored because their seq was below one already taken (late copies) */
+    public synchronized long lateTicksIgnored() {
+        return lateTicksIgnored;
     }
 
     /** @return how many plant restarts (ticks far behind) this clock followed */

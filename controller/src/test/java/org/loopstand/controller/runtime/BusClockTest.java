@@ -72,4 +72,17 @@ class BusClockTest {
         assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 31_000);
         assertThat(clock.restartsFollowed()).isEqualTo(1);
     }
+
+    @Test
+    void shouldIgnoreOldTicksDeliveredLateAfterAPartitionRatherThanTakeThemForARestart() {
+        clock.onTick(tick(1_000, SCENARIO_MS, 20, true));
+        wall.advanceMillis(4_000); // 80 s of scenario time at rate 20, the ticks of the last 80 s queued at a broker
+        clock.onTick(tick(1_090, SCENARIO_MS + 80_000, 20, true));
+        clock.onTick(tick(1_010, SCENARIO_MS + 10_000, 20, true)); // the queue empties after the heal
+        clock.onTick(tick(1_011, SCENARIO_MS + 11_000, 20, true));
+
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 80_000);
+        assertThat(clock.restartsFollowed()).isZero();
+        assertThat(clock.lateTicksIgnored()).isEqualTo(2);
+    }
 }

@@ -67,13 +67,16 @@ final class ResumeChecks {
 
     /** @return every moment a controller took an area up again, in time order */
     static List<Resume> resumes(RunRecord run, String area, double gapS) {
+        // in the order each controller process published them (seq per epoch): statuses queued at a broker
+        // during a partition arrive late and out of order with the others
         Map<String, List<ControllerStatus>> byController = new LinkedHashMap<>();
         for (RunRecord.StatusRecord s : run.statuses()) {
-            byController.computeIfAbsent(s.status().controllerId(), k -> new ArrayList<>()).add(s.status());
+            byController.computeIfAbsent(s.status().controllerId() + "@" + s.status().epoch(), k -> new ArrayList<>())
+                    .add(s.status());
         }
         List<Resume> out = new ArrayList<>();
         for (List<ControllerStatus> list : byController.values()) {
-            list.sort(Comparator.comparingLong(ControllerStatus::sourceTime).thenComparingLong(ControllerStatus::seq));
+            list.sort(Comparator.comparingLong(ControllerStatus::seq));
             Map<String, Double> lastRegulatedAtS = new HashMap<>();
             Map<String, String> heldBy = new HashMap<>();
             double previousS = Double.NaN;
