@@ -38,7 +38,7 @@ import org.loopstand.protocol.topic.TopicTree;
 class ClusterRehearsalTest {
     private static final Path CONFIG = Path.of("../../config/broker/artemis/broker-node.xml");
     private static final Path SITE = Path.of("../../config/sites/demo-site.yaml");
-    private static final Path SCENARIO = Path.of("../../config/scenarios/unit-trip.yaml");
+    private static final Path SCENARIO = Path.of("../../config/scenarios/cluster-unit-trip.yaml");
     private static final long TRIP_AT_MS = 120_000;
     private static final long KILL_AT_MS = 60_000;
     private static final long SECOND_KILL_AT_MS = 90_000;
@@ -111,6 +111,8 @@ class ClusterRehearsalTest {
             long secondStopAtScenarioMs = lastTick().scenarioTimeMs();
             nodes.get(2).close(); // the controller's node (and the observer's: it follows to n1, gone, then n2)
             awaitScenarioMs(plant, controller, TRIP_AT_MS + WATCH_AFTER_TRIP_MS, 80);
+            // the plant decides the scenario's checks at its end (600 s, 4 s of wall time on)
+            assertThat(plant.waitFor(30, TimeUnit.SECONDS)).as("plant ends with its scenario").isTrue();
             controller.destroy();
             assertThat(controller.waitFor(20, TimeUnit.SECONDS)).isTrue();
             check(stoppedAtScenarioMs, secondStopAtScenarioMs);
@@ -177,12 +179,23 @@ class ClusterRehearsalTest {
         assertThat(lastMinute).isNotEmpty().allSatisfy(e -> assertThat(e.text("state")).isEqualTo("regulating"));
         assertThat(sent).hasSizeGreaterThan(20);
         assertThat(received.size()).isGreaterThanOrEqualTo((int) (0.9 * sent.size()));
+        // after each suspension and each silence of its status (its node stopped), the first commands asked
+        // no more of the units than the ACE then called for (noBumpAfterResume, decided by the plant)
+        JournalEntry noBump = of(plantJournal, "check").stream().filter(e -> "no-bump".equals(e.text("name"))).findFirst()
+                .orElseThrow();
+        String resumes = noBump.text("source");
+        System.out.println("no-bump " + noBump.get("passed") + ": " + resumes);
+        assertThat(noBump.get("passed").asBoolean()).as(resumes).isTrue();
+        long resumesAfterStop = java.util.regex.Pattern.compile(" at ([0-9.]+) s after ").matcher(resumes).results()
+                .mapToDouble(m -> Double.parseDouble(m.group(1))).filter(atS -> atS > secondStopAtScenarioMs / 1000.0)
+                .count();
+        assertThat(resumesAfterStop).as("resumes judged after the controller's node stopped: " + resumes).isPositive();
         String figures = String.format(Locale.ROOT, "rehearsal on the cluster: plant's node stopped at %d s, controller's"
                         + " node at %d s of scenario time, controller reconnects %d, longest south meter gap %d ms (scenario), min %.3f Hz, last outside ±50 mHz %d s after"
                         + " the trip, %d cycles (%d not regulating from the first stop to 30 s after the second: %s), %d commands, %d acked, %d refused expired, %d refused"
-                        + " duplicate", stoppedAtScenarioMs / 1000, secondStopAtScenarioMs / 1000, reconnects, meterGapMs, minHz, (lastOutsideMs - tripMs) / 1000,
+                        + " duplicate; no-bump %s (%d resumes after the second stop)", stoppedAtScenarioMs / 1000, secondStopAtScenarioMs / 1000, reconnects, meterGapMs, minHz, (lastOutsideMs - tripMs) / 1000,
                 decided.size(), suspendedCycles, afterStop.stream().filter(st -> !st.startsWith("regulating")).toList(),
-                sent.size(), received.size(), expired, duplicate);
+                sent.size(), received.size(), expired, duplicate, noBump.get("passed"), resumesAfterStop);
         System.out.println(figures);
         Files.writeString(Path.of("target", "cluster-rehearsal-figures.txt"), figures + "\n");
     }
