@@ -13,6 +13,8 @@ import org.loopstand.controller.config.ControllerSiteReader;
 import org.loopstand.controller.pulsetest.plan.TestPlanLoader;
 import org.loopstand.controller.pulsetest.programme.SiteUnitReader;
 import org.loopstand.plant.grid.Grid;
+import org.loopstand.plant.network.CommandRunner;
+import org.loopstand.plant.network.NamespaceHostLinks;
 import org.loopstand.plant.profile.WireProfileLoader;
 import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.RunScenarioLoader;
@@ -57,6 +59,18 @@ class ConfigErrorFormTest {
         Path site = demoSiteWith("droopPct: 5", "droopPct: five");
         assertThat(problems(site, () -> SiteLoader.load(site)))
                 .containsExactly(site + ":31:15: droopPct of unit basin-steam-1 must be a number, got 'five'");
+    }
+
+    @Test
+    void shouldNameAHostsFileProblemInTheOneForm() throws Exception {
+        Path hosts = write("hosts.yaml", """
+                hosts: [plant-host, control-host]
+                links:
+                  - {between: [plant-host], namespace: lab-hub, interfaces: [hub-p3], colour: red}
+                """);
+        assertThat(problems(hosts, () -> NamespaceHostLinks.read(hosts, CommandRunner.SYSTEM))).containsExactly(
+                hosts + ":3:6: link #1: between names two different hosts, got [plant-host]",
+                hosts + ":3:71: unknown key 'colour' in link #1; allowed here: [between, namespace, interfaces]");
     }
 
     @Test
