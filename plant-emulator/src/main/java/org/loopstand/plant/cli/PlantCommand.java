@@ -16,7 +16,6 @@ import java.util.concurrent.atomic.AtomicBoolean;
 
 import org.loopstand.plant.fault.HostLinks;
 import org.loopstand.plant.journal.PlantRunJournal;
-import org.loopstand.plant.network.CommandRunner;
 import org.loopstand.plant.network.NamespaceHostLinks;
 import org.loopstand.plant.live.LiveView;
 
@@ -112,8 +111,7 @@ public final class PlantCommand implements Callable<Integer> {
     @Option(names = "--linger-s", defaultValue = "0", description = "after the scenario ends, keep the embedded broker up this many wall seconds (or until stopped) so the controller can stop cleanly")
     double lingerS;
 
-    @Option(names = "--hosts", paramLabel = "FILE", description = "hosts file (YAML): the hosts network faults may name"
-            + " and the interfaces that carry their links (docs/faults.md, \"Network faults\"); needs root")
+    @Option(names = "--hosts", paramLabel = "FILE", description = "hosts file for network faults (YAML, docs/faults.md); needs root")
     Path hostsFile;
 
     @Option(names = "--wire-profile", paramLabel = "FILE", description = "speak another topic and payload layout to the"
@@ -142,9 +140,9 @@ public final class PlantCommand implements Callable<Integer> {
         Grid grid;
         Scenario scenario = null;
         RunScenario rehearsal = null;
-        HostLinks hostLinks = HostLinks.NONE;
+        HostLinks hostLinks;
         try {
-            hostLinks = hostsFile == null ? HostLinks.NONE : NamespaceHostLinks.read(hostsFile, CommandRunner.SYSTEM);
+            hostLinks = hostsFile == null ? HostLinks.NONE : NamespaceHostLinks.read(hostsFile);
             grid = SiteLoader.loadForRun(site, System.err::println);
             if (quietLoads) {
                 grid = grid.withoutLoadNoise();
@@ -237,8 +235,7 @@ public final class PlantCommand implements Callable<Integer> {
             runner.journalTo(runJournal, truthIntervalS);
         }
         RunRecord record = new RunRecord(runner.agent().epochMsAt(0));
-        FaultHooks hooks = ScenarioFaults.wire(runner, rehearsal, record, runJournal, clock, scenario == null ? 0 : scenario.seed(),
-                hostLinks);
+        FaultHooks hooks = ScenarioFaults.wire(runner, rehearsal, record, runJournal, clock, scenario == null ? 0 : scenario.seed(), hostLinks);
         LiveView liveView;
         try {
             liveView = live.startIfAsked(runner, hooks, clock, embedded != null,

@@ -50,6 +50,11 @@ public final class NamespaceHostLinks implements HostLinks {
         this.runner = runner;
     }
 
+    /** Reads a hosts file whose links are changed by running {@code ip} and {@code tc}. */
+    public static NamespaceHostLinks read(Path file) {
+        return read(file, CommandRunner.SYSTEM);
+    }
+
     /**
      * Reads a hosts file with the shared reader.
      *
