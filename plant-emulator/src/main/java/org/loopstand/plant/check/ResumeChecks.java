@@ -27,6 +27,10 @@ final class ResumeChecks {
     private ResumeChecks() {
     }
 
+    /** What the first commands after a resume asked: their number and the change, MW. */
+    private record Asked(int commands, double mw) {
+    }
+
     /** One area taken up again by a controller at {@code atS} (its own clock, scenario s). */
     record Resume(String controller, String area, double atS, String after) {
     }
@@ -52,13 +56,13 @@ final class ResumeChecks {
         List<String> seen = new ArrayList<>();
         for (Resume r : resumes) {
             double aceMw = truthAceAt(run, grid, r.area(), r.atS());
-            int[] commands = {0};
-            double askedMw = askedMw(run, grid, r, windowS, commands);
+            Asked asked = asked(run, grid, r, windowS);
+            double askedMw = asked.mw();
             double calledForMw = -aceMw;
             double excessMw = Math.max(0, Math.max(askedMw - Math.max(0, calledForMw), Math.min(0, calledForMw) - askedMw));
             worstMw = Math.max(worstMw, excessMw);
             seen.add(String.format(Locale.ROOT, "%s %s at %.1f s after %s: %d commands asked %+.1f MW in %.0f s, ACE %+.1f MW"
-                    + " calls for %+.1f MW (excess %.1f MW)", r.controller(), r.area(), r.atS(), r.after(), commands[0],
+                    + " calls for %+.1f MW (excess %.1f MW)", r.controller(), r.area(), r.atS(), r.after(), asked.commands(),
                     askedMw, windowS, aceMw, calledForMw, excessMw));
         }
         return new CheckOutcome(spec.name(), worstMw <= toleranceMw, worstMw, "MW", toleranceMw,
@@ -80,10 +84,16 @@ final class ResumeChecks {
             Map<String, Double> lastRegulatedAtS = new HashMap<>();
             Map<String, String> heldBy = new HashMap<>();
             double previousS = Double.NaN;
+            java.util.Set<String> known = new java.util.LinkedHashSet<>();
             for (ControllerStatus s : list) {
                 double atS = (s.sourceTime() - run.runStartEpochMs()) / 1000.0;
                 boolean silence = !Double.isNaN(previousS) && atS - previousS > gapS;
-                for (String a : areasOf(s)) {
+                List<String> areas = areasOf(s);
+                known.addAll(areas);
+                if (s.state() != ControllerState.REGULATING) {
+                    known.stream().filter(a -> !areas.contains(a)).forEach(areas::add); // a status without its areas holds all
+                }
+                for (String a : areas) {
                     if (!area.equals("*") && !area.equals(a)) {
                         continue;
                     }
@@ -130,7 +140,8 @@ final class ResumeChecks {
         return s.reasons() == null ? "[]" : s.reasons().toString();
     }
 
-    private static double askedMw(RunRecord run, Grid grid, Resume r, double windowS, int[] counted) {
+    private static Asked asked(RunRecord run, Grid grid, Resume r, double windowS) {
+        int counted = 0;
         Map<String, GeneratingUnit> units = new HashMap<>();
         grid.units().stream().filter(u -> u.area().equals(r.area())).forEach(u -> units.put(u.id(), u));
         double pulsesMw = 0;
@@ -144,7 +155,7 @@ final class ResumeChecks {
                     || !cmd.controllerId().equals(r.controller())) {
                 continue;
             }
-            counted[0]++;
+            counted++;
             if (cmd.kind() == CommandKind.PULSE) {
                 double mw = cmd.durationMs() / 60_000.0 * u.pulseRateMwPerMin();
                 pulsesMw += cmd.direction() == PulseDirection.RAISE ? mw : -mw;
@@ -152,7 +163,7 @@ final class ResumeChecks {
                 lastSetpointMw.put(u.id(), cmd.setpointMw() - valueAt(run.series("outputMw/" + u.id()), r.atS()));
             }
         }
-        return pulsesMw + lastSetpointMw.values().stream().mapToDouble(Double::doubleValue).sum();
+        return new Asked(counted, pulsesMw + lastSetpointMw.values().stream().mapToDouble(Double::doubleValue).sum());
     }
 
     private static double truthAceAt(RunRecord run, Grid grid, String area, double atS) {
