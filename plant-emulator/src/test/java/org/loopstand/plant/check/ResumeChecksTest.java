@@ -129,6 +129,20 @@ class ResumeChecksTest {
     }
 
     @Test
+    void shouldTakeALastWillWithoutAreasAsHoldingEveryAreaSeenBefore() {
+        RunRecord run = truth();
+        run.controllerStatus(ms(36), status(36, ControllerState.REGULATING));
+        run.controllerStatus(ms(40), new ControllerStatus(++seq, ms(40), "controller-1", 1, ControllerState.OFFLINE,
+                List.of(), 0, List.of(), null, null, null, null)); // the last will names no area
+        run.controllerStatus(ms(44), status(44, ControllerState.REGULATING));
+
+        CheckOutcome o = decide(run);
+
+        assertThat(o.passed()).isTrue();
+        assertThat(o.detail()).startsWith("1 resume(s): controller-1 north-basin at 44.0 s after offline []: 0 commands");
+    }
+
+    @Test
     void shouldFailWithNothingToJudgeWhenTheControllerNeverResumed() {
         RunRecord run = truth();
         for (int s = 0; s <= 200; s += 4) {
