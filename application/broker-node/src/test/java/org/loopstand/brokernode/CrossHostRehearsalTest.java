@@ -27,7 +27,9 @@ import org.loopstand.protocol.security.broker.TestPki;
  * as off loopback it must be: TLS on every node, a login per process, signed commands. Host 1: node n1 and
  * the plant with every unit's interface (list n1,n2,n3); host 2: node n2 only; host 3: node n3 and the
  * controller. Verdict from the journals: the plant's truth (frequency back inside ±50 mHz after the trip)
- * and the controller's (regulating at the end, commands acked, none executed twice).
+ * and the controller's (regulating at the end, commands acked, none executed twice). After the trip the
+ * scenario cuts the controller's host from the plant's for 80 s ({@code partition}, applied by the plant
+ * through a hosts file): see {@link #checkPartition}.
  *
  * <p>The units' interfaces stay in the plant process: a {@code unit} process started with {@code --rate 20}
  * runs its accelerated clock from its own start, so its scenario time trails the plant's by 19 times the
@@ -185,7 +187,7 @@ class CrossHostRehearsalTest {
     /**
      * The scripted partition (control-host cut from plant-host, 560–640 s): journaled with its link, the
      * units fell back per their watchdog while it lasted, the controller suspended, and after the heal it
-     * regulated again and the units (returned to remote at 680 s) took its commands; its first commands
+     * regulated again and the units (returned to remote at 730 s) took its commands; its first commands
      * after each resume did not bump the units (the plant's noBumpAfterResume verdict).
      */
     private void checkPartition(JournalReader.Contents plant, JournalReader.Contents controller) throws IOException {
