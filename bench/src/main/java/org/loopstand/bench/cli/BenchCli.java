@@ -4,7 +4,7 @@ import picocli.CommandLine;
 import picocli.CommandLine.Command;
 
 /** {@code ./loopstand bench ...}: measurement commands. */
-@Command(name = "bench", mixinStandardHelpOptions = true, subcommands = BusCommand.class,
+@Command(name = "bench", mixinStandardHelpOptions = true, subcommands = {BusCommand.class, BusPartCommand.class},
         description = "Measure the rig at scale (see docs/performance.md).")
 public final class BenchCli implements Runnable {
     public static void main(String[] args) {

@@ -8,6 +8,7 @@ import java.util.concurrent.Callable;
 import org.loopstand.bench.run.BenchResult;
 import org.loopstand.bench.run.BenchSettings;
 import org.loopstand.bench.run.BusBench;
+import org.loopstand.bench.run.ProcessesBench;
 import org.loopstand.plant.runtime.ConnectionGrouping;
 import org.loopstand.protocol.time.WallClock;
 import picocli.CommandLine.Command;
@@ -71,6 +72,18 @@ public final class BusCommand implements Callable<Integer> {
     @Option(names = "--load-step-mw", defaultValue = "100", description = "load step in the first area at 5 s and every 60 s, alternating sign, MW; 0 = none (default ${DEFAULT-VALUE})")
     double loadStepMw;
 
+    @Option(names = "--layout", defaultValue = "one-jvm", description = "one-jvm (plant, controller and raw loop in this JVM, one clock)"
+            + " or processes (plant and controller each in a JVM of their own, as in production) (default ${DEFAULT-VALUE})")
+    String layout;
+
+    @Option(names = "--raw-pacing", defaultValue = "spread", description = "raw loop: spread (1 ms slots) or burst (one burst per"
+            + " physics step, as the plant publishes) (default ${DEFAULT-VALUE})")
+    String rawPacing;
+
+    @Option(names = "--part-jvm-opts", defaultValue = "-Xss1m", description = "JVM options of the plant and controller processes"
+            + " (--layout processes); {role} is replaced by plant or controller (default ${DEFAULT-VALUE})")
+    String partJvmOpts;
+
     @Option(names = {"--run-dir", "--out"}, description = "run folder (default runs/bench-<time>)")
     Path out;
 
@@ -85,7 +98,8 @@ public final class BusCommand implements Callable<Integer> {
             System.err.println("bench: " + e.getMessage());
             return 2;
         }
-        BenchResult r = new BusBench(s, BusCommand::say).run();
+        BenchResult r = s.layout() == BenchSettings.Layout.PROCESSES ? new ProcessesBench(s, BusCommand::say).run()
+                : new BusBench(s, BusCommand::say).run();
         r.write(s.outDir());
         r.print(System.out);
         say("bench: table, samples.csv, bench.hlog and controller.hlog in " + s.outDir());
@@ -102,7 +116,8 @@ public final class BusCommand implements Callable<Integer> {
         Path dir = out != null ? out : Path.of("runs", "bench-" + DateTimeFormatter.ofPattern("yyyyMMdd-HHmmss")
                 .format(Instant.ofEpochMilli(WallClock.INSTANCE.epochMillis()).atZone(ZoneId.systemDefault())));
         return new BenchSettings(units, areas, durationS, warmupS, broker, brokerConfig, g, poolSize, intakeConnections,
-                telemetryMs, meterMs, cycleS, sampleS, !noRaw, !noWake, unitScanMs, loadStepMw, dir);
+                telemetryMs, meterMs, cycleS, sampleS, !noRaw, !noWake, unitScanMs, loadStepMw, dir,
+                BenchSettings.Layout.parse(layout), BenchSettings.RawPacing.parse(rawPacing), partJvmOpts);
     }
 
     private static void say(String line) {

@@ -11,7 +11,8 @@ import org.loopstand.protocol.time.Clock;
 
 /**
  * A plant connection with probes: stamps telemetry and meter publishes into {@link PublishStamps},
- * counts acks published and commands received. Otherwise passes everything through.
+ * counts acks published and commands received. Otherwise passes everything through. Without stamps
+ * (the controller in another process) the publishes are only counted.
  */
 public final class StampingBus extends ForwardingBus {
     private final PublishStamps stamps;
@@ -29,7 +30,10 @@ public final class StampingBus extends ForwardingBus {
     public CompletableFuture<Void> publish(OutboundMessage m) {
         String t = m.topic();
         if (t.endsWith("/telemetry") || t.contains("/meter/")) {
-            stamps.stamp(t, m.payload(), clock.monotonicNanos());
+            tally.measuredPublished.increment();
+            if (stamps != null) {
+                stamps.stamp(t, m.payload(), clock.monotonicNanos());
+            }
         } else if (t.endsWith("/ack")) {
             tally.acksPublished.increment();
         }
@@ -51,6 +55,7 @@ public final class StampingBus extends ForwardingBus {
 
     /** Counts along the command path, from both ends. */
     public static final class CommandTally {
+        public final LongAdder measuredPublished = new LongAdder();
         public final LongAdder commandsPublished = new LongAdder();
         public final LongAdder commandsPubacked = new LongAdder();
         public final LongAdder commandsFailed = new LongAdder();

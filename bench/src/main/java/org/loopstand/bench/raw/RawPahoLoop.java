@@ -24,7 +24,9 @@ import org.loopstand.protocol.time.Clock;
 /**
  * The yardstick: a bare Paho v5 publisher and subscriber (TCP_NODELAY, in-memory persistence, nothing
  * else) in the same JVM, publishing payloads of the rig's telemetry size at the rig's telemetry rate,
- * spread evenly in 1 ms slots, with the send time (monotonic ns) in the first 8 bytes. Latency =
+ * with the send time (monotonic ns) in the first 8 bytes. Messages go out in slots: at each slot
+ * boundary every message due by then is sent at once, so 1 ms slots spread them evenly and slots of
+ * the plant's physics step send them in the plant's own burst pattern (one burst per step). Latency =
  * messageArrived time − send time. The callback only records and returns.
  */
 public final class RawPahoLoop implements AutoCloseable {
@@ -33,6 +35,7 @@ public final class RawPahoLoop implements AutoCloseable {
     private final int payloadBytes;
     private final int qos;
     private final String topicPrefix;
+    private final long slotNanos;
     private final MqttAsyncClient publisher;
     private final MqttAsyncClient subscriber;
     private final Recorder roundTripUs = new Recorder(3);
@@ -46,12 +49,14 @@ public final class RawPahoLoop implements AutoCloseable {
      * @param ratePerS     messages per second, > 0
      * @param payloadBytes payload size, ≥ 8
      * @param qos          0 or 1
+     * @param slotNanos    time between bursts, ns, ≥ 100 µs (1 ms: spread; the physics step: as the plant)
      */
     public RawPahoLoop(String serverUri, String clientPrefix, String topicPrefix, double ratePerS, int payloadBytes,
-                       int qos, Clock clock) throws MqttException {
-        if (!(ratePerS > 0) || payloadBytes < 8 || qos < 0 || qos > 1) {
-            throw new IllegalArgumentException("rate > 0, payload ≥ 8 bytes, QoS 0 or 1 needed");
+                       int qos, long slotNanos, Clock clock) throws MqttException {
+        if (!(ratePerS > 0) || payloadBytes < 8 || qos < 0 || qos > 1 || slotNanos < 100_000) {
+            throw new IllegalArgumentException("rate > 0, payload ≥ 8 bytes, QoS 0 or 1, slot ≥ 100 µs needed");
         }
+        this.slotNanos = slotNanos;
         this.clock = clock;
         this.ratePerS = ratePerS;
         this.payloadBytes = payloadBytes;
@@ -59,6 +64,18 @@ public final class RawPahoLoop implements AutoCloseable {
         this.topicPrefix = topicPrefix;
         this.publisher = new MqttAsyncClient(serverUri, clientPrefix + "-pub", new MemoryPersistence());
         this.subscriber = new MqttAsyncClient(serverUri, clientPrefix + "-sub", new MemoryPersistence());
+    }
+
+    /**
+     * The bench's raw loop: the rig's telemetry rate and size, paced as {@code s.rawPacing()} says
+     * (1 ms slots, or one burst per physics step of {@code stepS} s), started.
+     */
+    public static RawPahoLoop forBench(org.loopstand.bench.run.BenchSettings s, String serverUri, int payloadBytes,
+                                       double stepS, Clock clock) throws MqttException {
+        long slot = s.rawPacing() == org.loopstand.bench.run.BenchSettings.RawPacing.BURST
+                ? Math.round(stepS * 1e9) : 1_000_000L;
+        return new RawPahoLoop(serverUri, "bench-raw", "bench/raw", s.units() * 1000.0 / s.telemetryScanMs(),
+                payloadBytes, 0, slot, clock).start();
     }
 
     public RawPahoLoop start() throws MqttException {
@@ -83,12 +100,15 @@ public final class RawPahoLoop implements AutoCloseable {
 
     private void publishLoop() {
         long start = clock.monotonicNanos();
+        long slotEnd = start + slotNanos;
         long done = 0;
         byte[] filler = new byte[payloadBytes];
         Arrays.fill(filler, (byte) 'x');
         while (running.get()) {
-            long now = clock.monotonicNanos();
-            long due = (long) ((now - start) / 1e9 * ratePerS);
+            for (long now = clock.monotonicNanos(); now < slotEnd && running.get(); now = clock.monotonicNanos()) {
+                LockSupport.parkNanos(slotEnd - now);
+            }
+            long due = (long) ((slotEnd - start) / 1e9 * ratePerS);
             while (done < due && running.get()) {
                 byte[] p = filler.clone();
                 ByteBuffer.wrap(p).putLong(clock.monotonicNanos());
@@ -100,7 +120,7 @@ public final class RawPahoLoop implements AutoCloseable {
                 }
                 done++;
             }
-            LockSupport.parkNanos(1_000_000L);
+            slotEnd += slotNanos;
         }
     }
 

@@ -10,7 +10,11 @@ import java.util.Map;
 import org.HdrHistogram.Histogram;
 import org.HdrHistogram.HistogramLogWriter;
 
-/** Figures of one bench run, the table they make and the HdrHistogram log they are written to. */
+/**
+ * Figures of one bench run, the table they make and the HdrHistogram log they are written to. With
+ * plant and controller in separate processes the publish → validated path is not measured (its stamps
+ * live in one JVM): the rig histograms are null and {@code stampsLost} is −1.
+ */
 public record BenchResult(BenchSettings settings, String broker, int plantConnections, int telemetryBytes,
                           double measuredS, BusBench.Counts before, BusBench.Counts after,
                           Histogram rigUs, Histogram rigArrivalUs, Histogram rawUs, Histogram unitAgeMs,
@@ -18,12 +22,13 @@ public record BenchResult(BenchSettings settings, String broker, int plantConnec
                           long commandsPublished, long commandsPubacked, long commandsFailed,
                           Map<String, Long> commandsFailedByReason, long commandsArrived, long acksPublished,
                           long acksReceived, long stampsLost, long controllerDropped, long plantDropped,
-                          long plantSendFailed, Map<String, Long> intakeRejected, List<ResourceSampler.Sample> samples,
+                          long plantSendFailed, Map<String, Long> intakeRejected,
+                          Map<String, List<ResourceSampler.Sample>> samplesByProcess,
                           Histogram stepLatenessUs, String plantFailure) {
 
     /** @return p99 of the rig path over p99 of the raw loop, NaN without a raw loop */
     public double ratioP99() {
-        return rawUs == null || rawUs.getTotalCount() == 0 ? Double.NaN
+        return rigUs == null || rawUs == null || rawUs.getTotalCount() == 0 ? Double.NaN
                 : (double) rigUs.getValueAtPercentile(99) / Math.max(1, rawUs.getValueAtPercentile(99));
     }
 
@@ -43,7 +48,8 @@ public record BenchResult(BenchSettings settings, String broker, int plantConnec
     /** Writes the table as Markdown. */
     public void print(PrintStream out) {
         BenchSettings s = settings;
-        out.printf(Locale.ROOT, "### %d units, %d areas, %s%n%n", s.units(), s.areas(), broker);
+        out.printf(Locale.ROOT, "### %d units, %d areas, %s, layout %s, raw loop %s%n%n", s.units(), s.areas(), broker,
+                s.layout().cliName(), s.raw() ? s.rawPacing().cliName() : "off");
         out.printf(Locale.ROOT, "grouping %s%s (%d plant connections), %d controller intake connection(s) ($share/ctl),"
                         + " telemetry %d ms (%d B, QoS 0), meters %d ms, cycle %d s, measured %.0f s after %.0f s warm-up;"
                         + " unit scan %d ms, controller woken by its intake: %s%n%n",
@@ -67,9 +73,9 @@ public record BenchResult(BenchSettings settings, String broker, int plantConnec
         out.printf(Locale.ROOT, "- ratio p99 rig / raw: **%.2f**%n", ratioP99());
         out.printf(Locale.ROOT, "- rates: plant measured values published %.0f msg/s, controller routed %.0f msg/s"
                 + " (all kinds), raw loop received %.0f msg/s%n", stampRate, rigRate, rawRate);
-        out.printf(Locale.ROOT, "- loss: measured values never validated %d (of %d stamped), dropped in controller links %d,"
+        out.printf(Locale.ROOT, "- loss: measured values never validated %s (of %d published), dropped in controller links %d,"
                         + " in plant links %d, plant publish failures %d, raw loop publish failures %d, raw sent − received %d%n",
-                stampsLost, after.stamped(), controllerDropped, plantDropped, plantSendFailed, after.rawFailed(),
+                stampsLost < 0 ? "not measured (separate processes)" : Long.toString(stampsLost), after.stamped(), controllerDropped, plantDropped, plantSendFailed, after.rawFailed(),
                 after.rawSent() - after.rawReceived());
         out.printf(Locale.ROOT, "- commands (QoS 1): published %d, PUBACKed %d, failed and reported %d %s, arrived at the"
                         + " plant %d, acks published %d, acks received %d, **unaccounted %d**%n",
@@ -77,17 +83,21 @@ public record BenchResult(BenchSettings settings, String broker, int plantConnec
                 acksPublished, acksReceived, commandsUnaccounted());
         out.printf(Locale.ROOT, "- intake rejections by reason: %s; cycles in the window %d%n", intakeRejected,
                 after.cycles() - before.cycles());
-        if (!samples.isEmpty()) {
+        samplesByProcess.forEach((process, samples) -> {
+            if (samples.isEmpty()) {
+                return;
+            }
             ResourceSampler.Sample first = samples.get(0);
             ResourceSampler.Sample last = samples.get(samples.size() - 1);
             double cpu = samples.stream().mapToDouble(ResourceSampler.Sample::jvmCpuPct).average().orElse(Double.NaN);
-            double bcpu = samples.stream().mapToDouble(ResourceSampler.Sample::brokerCpuPct).average().orElse(Double.NaN);
+            double bcpu = samples.stream().mapToDouble(ResourceSampler.Sample::brokerCpuPct).filter(d -> !Double.isNaN(d))
+                    .average().orElse(Double.NaN);
             long maxAfterGc = samples.stream().mapToLong(ResourceSampler.Sample::heapAfterGcBytes).max().orElse(0);
-            out.printf(Locale.ROOT, "- heap after GC: first %.0f MB, last %.0f MB, max %.0f MB (%d samples); CPU: JVM %.0f %%"
-                            + " of one core, broker process %s%n", first.heapAfterGcBytes() / 1e6,
+            out.printf(Locale.ROOT, "- %s: heap after GC first %.0f MB, last %.0f MB, max %.0f MB (%d samples); CPU: JVM %.0f %%"
+                            + " of one core%s%n", process, first.heapAfterGcBytes() / 1e6,
                     last.heapAfterGcBytes() / 1e6, maxAfterGc / 1e6, samples.size(), cpu,
-                    Double.isNaN(bcpu) ? "in the JVM" : String.format(Locale.ROOT, "%.0f %% of one core", bcpu));
-        }
+                    Double.isNaN(bcpu) ? "" : String.format(Locale.ROOT, ", broker process %.0f %% of one core", bcpu));
+        });
         if (plantFailure != null) {
             out.println("- plant loop stopped on: " + plantFailure);
         }
@@ -99,11 +109,13 @@ public record BenchResult(BenchSettings settings, String broker, int plantConnec
         try (PrintStream p = new PrintStream(Files.newOutputStream(dir.resolve("table.md")), true, "UTF-8")) {
             print(p);
         }
-        StringBuilder csv = new StringBuilder("tS,heapAfterGcBytes,heapUsedBytes,jvmCpuPct,brokerCpuPct\n");
-        for (ResourceSampler.Sample x : samples) {
-            csv.append(String.format(Locale.ROOT, "%.1f,%d,%d,%.1f,%.1f%n", x.tS(), x.heapAfterGcBytes(),
-                    x.heapUsedBytes(), x.jvmCpuPct(), x.brokerCpuPct()));
-        }
+        StringBuilder csv = new StringBuilder("process,tS,heapAfterGcBytes,heapUsedBytes,jvmCpuPct,brokerCpuPct\n");
+        samplesByProcess.forEach((process, samples) -> {
+            for (ResourceSampler.Sample x : samples) {
+                csv.append(String.format(Locale.ROOT, "%s,%.1f,%d,%d,%.1f,%.1f%n", process, x.tS(), x.heapAfterGcBytes(),
+                        x.heapUsedBytes(), x.jvmCpuPct(), x.brokerCpuPct()));
+            }
+        });
         Files.writeString(dir.resolve("samples.csv"), csv);
         try (PrintStream p = new PrintStream(Files.newOutputStream(dir.resolve("bench.hlog")), true, "UTF-8")) {
             HistogramLogWriter w = new HistogramLogWriter(p);
@@ -115,6 +127,7 @@ public record BenchResult(BenchSettings settings, String broker, int plantConnec
             put(w, "unitTelemetryAgeMs", unitAgeMs);
             put(w, "areaFrequencyAgeMs", meterAgeMs);
             put(w, "cycleStartJitterUs", jitterUs);
+            put(w, "stepLatenessUs", stepLatenessUs);
         }
     }
 

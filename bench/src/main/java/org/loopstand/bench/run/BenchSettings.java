@@ -25,11 +25,58 @@ import org.loopstand.plant.runtime.ConnectionGrouping;
  * @param unitScanMs         plant unit interface scan period, ms (0: every physics step)
  * @param loadStepMw         load step in the first area at 5 s and every 60 s, alternating sign, MW (0: none)
  * @param outDir             run folder (created)
+ * @param layout             plant and controller in the bench's JVM, or each in a process of its own
+ * @param rawPacing          how the raw loop spaces its messages
+ * @param partJvmOpts        JVM options of the plant and controller processes (layout processes), split
+ *                           on spaces; {@code {role}} is replaced by {@code plant} or {@code controller}
  */
 public record BenchSettings(int units, int areas, double durationS, double warmupS, String broker, Path brokerConfig,
                             ConnectionGrouping grouping, int poolSize, int intakeConnections, long telemetryScanMs,
                             long meterScanMs, int cycleS, double sampleS, boolean raw, boolean wakeOnInput,
-                            long unitScanMs, double loadStepMw, Path outDir) {
+                            long unitScanMs, double loadStepMw, Path outDir, Layout layout, RawPacing rawPacing,
+                            String partJvmOpts) {
+    /** Where plant and controller run. */
+    public enum Layout {
+        /** plant, controller, raw loop (and the embedded broker) share the bench's JVM and one clock */
+        ONE_JVM,
+        /** plant and controller each in a JVM of their own, as in production; the raw loop in the bench's */
+        PROCESSES;
+
+        public String cliName() {
+            return this == ONE_JVM ? "one-jvm" : "processes";
+        }
+
+        public static Layout parse(String text) {
+            for (Layout l : values()) {
+                if (l.cliName().equals(text)) {
+                    return l;
+                }
+            }
+            throw new IllegalArgumentException("--layout must be one-jvm or processes, got " + text);
+        }
+    }
+
+    /** How the raw loop spaces its messages. */
+    public enum RawPacing {
+        /** evenly, in 1 ms slots */
+        SPREAD,
+        /** as the plant publishes: all of a physics step's messages in one burst per step */
+        BURST;
+
+        public String cliName() {
+            return name().toLowerCase(java.util.Locale.ROOT);
+        }
+
+        public static RawPacing parse(String text) {
+            for (RawPacing p : values()) {
+                if (p.cliName().equals(text)) {
+                    return p;
+                }
+            }
+            throw new IllegalArgumentException("--raw-pacing must be spread or burst, got " + text);
+        }
+    }
+
     public BenchSettings {
         if (units < 1 || areas < 1 || units < areas) {
             throw new IllegalArgumentException("need units ≥ areas ≥ 1, got units " + units + ", areas " + areas);
@@ -39,6 +86,9 @@ public record BenchSettings(int units, int areas, double durationS, double warmu
         }
         if (poolSize < 1 || intakeConnections < 1) {
             throw new IllegalArgumentException("pool size and intake connections must be ≥ 1");
+        }
+        if (layout == null || rawPacing == null || partJvmOpts == null) {
+            throw new IllegalArgumentException("layout, raw pacing and part JVM options are required");
         }
     }
 

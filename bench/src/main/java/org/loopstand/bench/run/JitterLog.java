@@ -12,21 +12,18 @@ import org.loopstand.controller.runtime.ControllerAgent;
 
 /** Reads the controller's own cycle start jitter (µs) from its histogram log, warm-up intervals left out. */
 final class JitterLog {
-    private static final double INTERVAL_S = 10;
-
     private JitterLog() {
     }
 
-    /** @return jitter of every cycle after the first {@code floor(warmupS / 10 s)} log intervals */
-    static Histogram afterWarmup(Path hlog, double warmupS) {
+    /** @return jitter of every cycle in the log intervals that start at or after {@code fromEpochMs} */
+    static Histogram since(Path hlog, long fromEpochMs) {
         Histogram sum = new Histogram(3);
         sum.setAutoResize(true);
-        int skip = (int) Math.floor(warmupS / INTERVAL_S);
-        int seen = 0;
         try (InputStream in = Files.newInputStream(hlog); HistogramLogReader r = new HistogramLogReader(in)) {
             EncodableHistogram eh;
             while ((eh = r.nextIntervalHistogram()) != null) {
-                if (eh instanceof Histogram h && ControllerAgent.JITTER_TAG.equals(h.getTag()) && seen++ >= skip) {
+                if (eh instanceof Histogram h && ControllerAgent.JITTER_TAG.equals(h.getTag())
+                        && h.getStartTimeStamp() >= fromEpochMs) {
                     sum.add(h);
                 }
             }

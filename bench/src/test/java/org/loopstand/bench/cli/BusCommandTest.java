@@ -5,22 +5,41 @@ import static org.assertj.core.api.Assertions.assertThatThrownBy;
 
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.time.Duration;
+import org.junit.jupiter.api.AfterAll;
+import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.loopstand.bench.probe.SeqPeek;
 import org.loopstand.bench.run.BenchResult;
 import org.loopstand.bench.run.BenchSettings;
 import org.loopstand.bench.run.BusBench;
+import org.loopstand.bench.run.ProcessesBench;
 import org.loopstand.bench.site.SiteGenerator;
 import org.loopstand.controller.config.ControllerSiteReader;
+import org.loopstand.plant.broker.EmbeddedBroker;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.runtime.ConnectionGrouping;
 import org.loopstand.plant.site.SiteLoader;
 import picocli.CommandLine;
 
 class BusCommandTest {
+    /** One embedded broker for both layouts' runs (a HiveMQ start and stop costs seconds). */
+    private static EmbeddedBroker broker;
+
     @TempDir
     Path dir;
+
+    @BeforeAll
+    static void startBroker() throws Exception {
+        broker = new EmbeddedBroker(EmbeddedBroker.DEFAULT_BIND_ADDRESS, 0);
+        broker.start(Duration.ofSeconds(30));
+    }
+
+    @AfterAll
+    static void stopBroker() {
+        broker.close();
+    }
 
     @Test
     void shouldParseOptionsIntoSettings() {
@@ -33,6 +52,22 @@ class BusCommandTest {
         assertThat(s.intakeConnections()).isEqualTo(3);
         // 1000 units at 1 s + 20 meters at 2 s
         assertThat(s.plantRatePerS()).isEqualTo(1010.0);
+        assertThat(s.layout()).isEqualTo(BenchSettings.Layout.ONE_JVM);
+        assertThat(s.rawPacing()).isEqualTo(BenchSettings.RawPacing.SPREAD);
+    }
+
+    @Test
+    void shouldParseTheLayoutAndRawPacing() {
+        BusCommand c = new BusCommand();
+        new CommandLine(c).parseArgs("--units", "100", "--layout", "processes", "--raw-pacing", "burst",
+                "--part-jvm-opts", "-Xmx1g -Xss1m");
+        BenchSettings s = c.settings();
+        assertThat(s.layout()).isEqualTo(BenchSettings.Layout.PROCESSES);
+        assertThat(s.rawPacing()).isEqualTo(BenchSettings.RawPacing.BURST);
+        assertThat(s.partJvmOpts()).isEqualTo("-Xmx1g -Xss1m");
+        BusCommand bad = new BusCommand();
+        new CommandLine(bad).parseArgs("--units", "100", "--layout", "two-jvms");
+        assertThatThrownBy(bad::settings).hasMessageContaining("--layout must be one-jvm or processes, got two-jvms");
     }
 
     @Test
@@ -61,9 +96,10 @@ class BusCommandTest {
     }
 
     @Test
-    void shouldRunTenUnitsOnTheEmbeddedBroker() throws Exception {
-        BenchSettings s = new BenchSettings(10, 2, 6, 2, "embedded", Path.of("config/broker/mosquitto-bench.conf"),
-                ConnectionGrouping.POOLED, 2, 2, 1000, 2000, 1, 3, true, true, 100, 0, dir.resolve("run"));
+    void shouldRunTenUnitsInOneJvm() throws Exception {
+        BenchSettings s = new BenchSettings(10, 2, 4, 2, broker.serverUri(), Path.of("config/broker/mosquitto-bench.conf"),
+                ConnectionGrouping.POOLED, 2, 2, 1000, 2000, 1, 3, true, true, 100, 0, dir.resolve("run"),
+                BenchSettings.Layout.ONE_JVM, BenchSettings.RawPacing.SPREAD, "-Xss1m");
         BenchResult r = new BusBench(s, line -> { }).run();
         r.write(s.outDir());
         assertThat(r.plantFailure()).isNull();
@@ -72,5 +108,31 @@ class BusCommandTest {
         assertThat(r.rawUs().getTotalCount()).isGreaterThan(30);
         assertThat(r.commandsUnaccounted()).isZero();
         assertThat(Files.readString(s.outDir().resolve("table.md"))).contains("ratio p99 rig / raw");
+    }
+
+    @Test
+    void shouldMeasureTenUnitsWithPlantAndControllerInProcessesOfTheirOwn() throws Exception {
+        BenchSettings s = new BenchSettings(10, 2, 4, 2, broker.serverUri(), Path.of("config/broker/mosquitto-bench.conf"),
+                ConnectionGrouping.POOLED, 2, 2, 1000, 2000, 1, 2, true, true, 100, 0, dir.resolve("run"),
+                BenchSettings.Layout.PROCESSES, BenchSettings.RawPacing.BURST, "-Xss1m -Xmx128m");
+        BenchResult r = new ProcessesBench(s, line -> { }).run();
+        r.write(s.outDir());
+        assertThat(r.plantFailure()).isNull();
+        // the figures came from the two processes: the controller's cycles and input ages, the plant's steps
+        assertThat(r.jitterUs().getTotalCount()).isGreaterThan(0);
+        assertThat(r.meterAgeMs().getTotalCount()).isGreaterThan(0);
+        assertThat(r.unitAgeMs().getTotalCount()).isGreaterThan(0);
+        assertThat(r.stepLatenessUs().getTotalCount()).isGreaterThan(100);
+        assertThat(r.samplesByProcess().get("controller process")).isNotEmpty();
+        assertThat(r.samplesByProcess().get("plant process")).isNotEmpty();
+        assertThat(r.after().routed()).isGreaterThan(30);
+        // every command (if the cycles sent any) was acked or reported failed
+        assertThat(r.commandsUnaccounted()).isZero();
+        // plant and controller ran as their own processes, each writing its figures
+        assertThat(s.outDir().resolve("part-plant.properties")).exists();
+        assertThat(s.outDir().resolve("part-controller.properties")).exists();
+        assertThat(r.rigUs()).isNull();
+        assertThat(r.rawUs().getTotalCount()).isGreaterThan(30);
+        assertThat(Files.readString(s.outDir().resolve("table.md"))).contains("layout processes").contains("plant process: heap");
     }
 }

@@ -1,0 +1,104 @@
+package org.loopstand.bench.run;
+
+import java.io.IOException;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import org.loopstand.bench.probe.CommandCountingBus;
+import org.loopstand.bench.probe.PublishStamps;
+import org.loopstand.bench.probe.StampingBus;
+import org.loopstand.controller.config.ControllerSiteConfig;
+import org.loopstand.controller.runtime.ControllerAgent;
+import org.loopstand.protocol.agent.AgentRunner;
+import org.loopstand.protocol.bus.BusCounters;
+import org.loopstand.protocol.bus.MessageBus;
+import org.loopstand.protocol.bus.OutboundMessage;
+import org.loopstand.protocol.bus.mqtt.MqttLink;
+import org.loopstand.protocol.bus.mqtt.MqttLinkConfig;
+import org.loopstand.protocol.bus.mqtt.SharedSubscriptionBus;
+import org.loopstand.protocol.journal.HistogramLogs;
+import org.loopstand.protocol.time.Clock;
+
+/**
+ * The controller half of a bench run: the real {@link ControllerAgent} over a
+ * {@link SharedSubscriptionBus} of the intake connections, its commands and acks counted, its cycle
+ * start jitter in {@code controller.hlog}. Runs in the bench's JVM (layout one-jvm) or in a controller
+ * process of its own (layout processes).
+ */
+final class ControllerSide {
+    static final String CONTROLLER_ID = "controller-1";
+
+    private final List<MqttLink> links = new ArrayList<>();
+    private final SharedSubscriptionBus shared;
+    private final MessageBus bus;
+    private final ControllerAgent agent;
+    private final ProbedController probed;
+    private final AgentRunner runner;
+
+    /** @param stamps told of every routed message, null when the plant runs in another process */
+    ControllerSide(BenchSettings s, ControllerSiteConfig site, String siteId, String serverUri, PublishStamps stamps,
+                   StampingBus.CommandTally tally, Clock clock, Path hlogFile) throws IOException {
+        long epoch = clock.epochMillis();
+        OutboundMessage will = ControllerAgent.offlineStatus(siteId, CONTROLLER_ID, epoch, epoch);
+        for (int k = 0; k < s.intakeConnections(); k++) {
+            MqttLinkConfig.Builder b = MqttLinkConfig.builder().serverUri(serverUri)
+                    .clientId(CONTROLLER_ID + "-in" + k).receiveQueueCapacity(100_000);
+            if (k == 0) {
+                b.lastWill(will.topic(), will.payload(), will.qos(), will.retained());
+            }
+            links.add(new MqttLink(b.build(), clock));
+        }
+        shared = new SharedSubscriptionBus(links, "ctl",
+                f -> f.endsWith("/telemetry") || f.endsWith("/ack") || f.contains("/meter/"));
+        bus = new CommandCountingBus(shared, tally);
+        // intervals of two cycles: the measured window starts within two cycles of its mark
+        HistogramLogs hlog = HistogramLogs.create(hlogFile, clock, 60_000_000L, 3, 2_000L * s.cycleS());
+        agent = new ControllerAgent(site, bus, clock, null, CONTROLLER_ID, epoch, null, hlog);
+        if (stamps != null) {
+            agent.intake().setRouteProbe(stamps::routed);
+        }
+        probed = new ProbedController(agent, site.areas(), clock);
+        runner = new AgentRunner(probed, 1_000_000L);
+        if (s.wakeOnInput()) {
+            agent.wakeOnInput(runner::wake);
+        }
+    }
+
+    /** Starts the cycles, then the links (the first connect subscribes all), and waits for them. */
+    void start() throws InterruptedException {
+        runner.start();
+        for (MqttLink l : links) {
+            l.start();
+        }
+        for (MqttLink l : links) {
+            if (!l.awaitConnected(20_000)) {
+                throw new IllegalStateException("controller link " + l.clientId() + " did not connect");
+            }
+        }
+    }
+
+    ControllerAgent agent() {
+        return agent;
+    }
+
+    ProbedController probed() {
+        return probed;
+    }
+
+    boolean isRunning() {
+        return runner.isRunning();
+    }
+
+    /** Stops the cycles; the links stay up so that the last commands' acks still come back. */
+    void stopCycles() {
+        runner.close();
+    }
+
+    BusCounters counters() {
+        return shared.counters();
+    }
+
+    void closeBus() {
+        bus.close();
+    }
+}
