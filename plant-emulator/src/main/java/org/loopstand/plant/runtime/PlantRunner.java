@@ -200,6 +200,16 @@ public final class PlantRunner implements AutoCloseable {
         return this;
     }
 
+    /**
+     * Before {@link #start}: every command that comes off the bus to a unit of this process is told to
+     * {@code watch} on the loop's thread, before any command fault stage (the pace keeper's
+     * {@link PlantPacing#onCommandArrived}).
+     */
+    public PlantRunner watchCommandArrivals(UnitDutyCycle.CommandArrivals watch) {
+        cycles.values().forEach(c -> c.watchCommandArrivals(watch));
+        return this;
+    }
+
     /** Starts the loop on its own thread (parks 1 ms when idle). */
     public PlantRunner start() {
         runner = new AgentRunner(agent, 1_000_000L).start();
