@@ -25,7 +25,7 @@ import org.loopstand.protocol.time.Clock;
  * asked one and says {@code RATE NOT KEPT} beyond {@link Settings#notKeptFactor()}.
  *
  * <p>It watches the command path too ({@link #onCommandArrived}): a command that arrives from the bus
- * with more than {@value #COMMAND_AGE_SHARE} of its validity already gone (scenario time from its
+ * with more than a share (default {@value #COMMAND_AGE_SHARE}) of its validity already gone (scenario time from its
  * {@code issuedAt} to its arrival) shows that controller, broker or link were held up for longer than the
  * rate allows, in wall time; holding the clock would not make it younger, so the clock runs on slower
  * ({@code paceSlowed} with {@code reason: commandPath}), at most once per {@value #COMMAND_PATH_SETTLE_WALL_S}
@@ -63,7 +63,7 @@ public final class PlantPacing {
     /** A catch-up faster than this many times the rate is a one-off hold-up: the rate is kept. */
     public static final double CATCH_UP_MARGIN = 2.0;
 
-    /** Share of a command's validity gone on its way beyond which the command path is too slow for the rate. */
+    /** Default share of a command's validity gone on its way beyond which the command path is too slow for the rate. */
     public static final double COMMAND_AGE_SHARE = 0.5;
 
     /** Wall seconds after a rate change in which an old command does not slow the clock again. */
@@ -89,6 +89,7 @@ public final class PlantPacing {
     private long holds;
     private long raises;
     private long commandPathSlowdowns;
+    private double commandAgeShare = COMMAND_AGE_SHARE;
     private long maxCommandAgeMs;
     private long heldWallNanos;
     private double lowestRate;
@@ -190,6 +191,20 @@ public final class PlantPacing {
     }
 
     /**
+     * Owner thread, before start: a command slows the clock when more than {@code share} of its validity
+     * was gone when it arrived.
+     *
+     * @param share (0, 1]
+     */
+    public PlantPacing watchCommandsBeyond(double share) {
+        if (!(share > 0 && share <= 1)) {
+            throw new IllegalArgumentException("command age share must be in (0, 1], got " + share);
+        }
+        this.commandAgeShare = share;
+        return this;
+    }
+
+    /**
      * Loop thread, for each command as it came off the bus, before any command fault stage (a delay the
      * scenario injects on purpose is not the machine's).
      *
@@ -201,7 +216,7 @@ public final class PlantPacing {
         long ageMs = arrivedMs - c.issuedAt();
         long validityMs = c.validUntil() - c.issuedAt();
         maxCommandAgeMs = Math.max(maxCommandAgeMs, ageMs);
-        double limitMs = COMMAND_AGE_SHARE * validityMs;
+        double limitMs = commandAgeShare * validityMs;
         if (validityMs <= 0 || ageMs <= limitMs || holding || !clock.running()) {
             return;
         }

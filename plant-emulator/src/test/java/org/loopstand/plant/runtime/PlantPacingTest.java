@@ -126,6 +126,20 @@ class PlantPacingTest {
                 .containsEntry("lowestRate", 25.6);
     }
 
+    @Test
+    void shouldTakeTheCommandAgeShareAsGiven() {
+        pacing.watchCommandsBeyond(0.8);
+        wall.advanceMillis(2_000);
+        long now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(1, now - 3_000, now + 1_000), clock.monotonicNanos()); // 75 % of 4 s gone
+        assertThat(clock.currentRate()).isEqualTo(40.0);
+        pacing.onCommandArrived(pulse(2, now - 3_500, now + 500), clock.monotonicNanos()); // 87.5 % gone
+        assertThat(clock.currentRate()).isEqualTo(32.0);
+        assertThat(journal).singleElement().satisfies(e -> assertThat(e).containsEntry("limitS", 3.2));
+        org.assertj.core.api.Assertions.assertThatThrownBy(() -> pacing.watchCommandsBeyond(1.5))
+                .hasMessageContaining("command age share");
+    }
+
     static UnitCommand pulse(long seq, long issuedAtMs, long validUntilMs) {
         return UnitCommand.pulse(seq, issuedAtMs, "basin-steam-1", "controller-1", 0, validUntilMs, PulseDirection.RAISE,
                 2_000);
