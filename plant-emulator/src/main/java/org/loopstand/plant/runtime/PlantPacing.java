@@ -91,6 +91,7 @@ public final class PlantPacing {
     private long commandPathSlowdowns;
     private double commandAgeShare = COMMAND_AGE_SHARE;
     private long maxCommandAgeMs;
+    private long commandsSeen;
     private long heldWallNanos;
     private double lowestRate;
     private long goWallNanos = -1;
@@ -215,7 +216,7 @@ public final class PlantPacing {
         long arrivedMs = clock.epochMillis() - (clock.monotonicNanos() - receivedNanos) / 1_000_000L;
         long ageMs = arrivedMs - c.issuedAt();
         long validityMs = c.validUntil() - c.issuedAt();
-        maxCommandAgeMs = Math.max(maxCommandAgeMs, ageMs);
+        maxCommandAgeMs = commandsSeen++ == 0 ? ageMs : Math.max(maxCommandAgeMs, ageMs);
         double limitMs = commandAgeShare * validityMs;
         if (validityMs <= 0 || ageMs <= limitMs || holding || !clock.running()) {
             return;
@@ -271,7 +272,7 @@ public final class PlantPacing {
         e.put("wallS", Double.isNaN(wallS) ? null : wallS);
         e.put("slowdowns", slowdowns);
         e.put("commandPathSlowdowns", commandPathSlowdowns);
-        e.put("maxCommandAgeS", maxCommandAgeMs / 1000.0);
+        e.put("maxCommandAgeS", commandsSeen == 0 ? null : maxCommandAgeMs / 1000.0); // null: none watched
         e.put("holds", holds);
         e.put("raises", raises);
         e.put("heldWallMs", heldWallNanos / 1e6);
