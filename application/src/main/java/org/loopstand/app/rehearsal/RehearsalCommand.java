@@ -77,6 +77,11 @@ public final class RehearsalCommand implements Callable<Integer> {
             + " physics falls more than S scenario seconds behind, 0 = never (default: the plant's, 1 s; docs/plant.md, \"Pacing\")")
     Double paceLagS;
 
+    @Option(names = "--pace-command-share", paramLabel = "F", description = "the plant slows the scenario clock when a"
+            + " command arrives with more than this share of its validity gone, 0 = never (default: the plant's, 0.5;"
+            + " docs/plant.md, \"Pacing\")")
+    Double paceCommandShare;
+
     @Option(names = "--controller-wait-s", paramLabel = "S", description = "how long to wait for the controller's first"
             + " status, wall s (default 90; 300 for --external-controller)")
     Double controllerWaitS;
@@ -89,6 +94,9 @@ public final class RehearsalCommand implements Callable<Integer> {
         }
         if (paceLagS != null) {
             a.addAll(List.of("--pace-lag-s", Double.toString(paceLagS))); // the plant checks the value
+        }
+        if (paceCommandShare != null) {
+            a.addAll(List.of("--pace-command-share", Double.toString(paceCommandShare)));
         }
         return a;
     }

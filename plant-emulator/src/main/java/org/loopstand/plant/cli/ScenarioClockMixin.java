@@ -35,6 +35,11 @@ public final class ScenarioClockMixin {
             + " paceSlowed); 0 = never slow the clock (default ${DEFAULT-VALUE})")
     double paceLagS;
 
+    @Option(names = "--pace-command-share", defaultValue = "0.5", description = "with the pace keeper on: a command that"
+            + " arrives with more than this share of its validity gone slows the clock too (paceSlowed, reason"
+            + " commandPath); 0 = never, 0 – 1 (default ${DEFAULT-VALUE})")
+    double paceCommandShare;
+
     @Option(names = "--pace-factor", defaultValue = "1.1", description = "say RATE NOT KEPT at the end when the asked rate"
             + " over the rate kept exceeds this factor (default ${DEFAULT-VALUE})")
     double paceFactor;
@@ -72,6 +77,10 @@ public final class ScenarioClockMixin {
             pacing = new PlantPacing(held, WallClock.INSTANCE, Math.round(runner.sim().stepS() * 1e9),
                     new PlantPacing.Settings(paceLagS, paceFactor, 0.8, 5.0), runner.agent()::noteEvent)
                     .watch(runner.lateness());
+            if (paceCommandShare != 0) {
+                pacing.watchCommandsBeyond(paceCommandShare);
+                runner.watchCommandArrivals(pacing::onCommandArrived);
+            }
             if (!waitGo) {
                 pacing.started();
             }

@@ -1,16 +1,20 @@
 package org.loopstand.plant.field;
 
 import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.plant.physics.PhysicsEpoch;
 import org.loopstand.protocol.message.UnitStatus;
 
 /** A turbine field wired straight to the simulator; only for the thread that owns the simulator. */
 public final class DirectTurbineField implements TurbineField {
     private final GridSimulator sim;
+    private final PhysicsEpoch physicsEpoch;
     private final int unit;
     private final String unitId;
 
-    public DirectTurbineField(GridSimulator sim, String unitId) {
+    /** @param physicsEpoch gives the readings their time (the simulator's, not the clock's) */
+    public DirectTurbineField(GridSimulator sim, PhysicsEpoch physicsEpoch, String unitId) {
         this.sim = sim;
+        this.physicsEpoch = physicsEpoch;
         this.unitId = unitId;
         this.unit = sim.grid().unitIndex(unitId);
     }
@@ -28,6 +32,11 @@ public final class DirectTurbineField implements TurbineField {
     @Override
     public double loadReferenceMw() {
         return sim.loadReferenceMw(unit);
+    }
+
+    @Override
+    public long readingTimeMs() {
+        return physicsEpoch.nowEpochMs();
     }
 
     @Override

@@ -5,6 +5,7 @@ import java.util.Map;
 import java.util.concurrent.ConcurrentHashMap;
 
 import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.plant.physics.PhysicsEpoch;
 import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.OutboundMessage;
 import org.loopstand.protocol.bus.Qos;
@@ -18,13 +19,16 @@ import org.loopstand.protocol.topic.TopicTree;
  * Physics side of the field topics for units whose plant interface runs in another process: applies
  * the latest load reference each one sent and publishes each unit's reading on a fixed period. When
  * a unit's interface goes away nothing arrives and the turbine simply keeps its last load reference,
- * its governor still acting, as on a real lost plant link.
+ * its governor still acting, as on a real lost plant link. Readings fall due on the clock and carry the
+ * time of the physics state they were read from ({@link PhysicsEpoch}), so the interface's telemetry
+ * can pass that time on.
  */
 public final class FieldGateway {
     /** Default reading period, ms of scenario time. */
     public static final long DEFAULT_PERIOD_MS = 200;
 
     private final GridSimulator sim;
+    private final PhysicsEpoch physicsEpoch;
     private final MessageBus bus;
     private final TopicTree topics;
     private final MessageCodec codec;
@@ -36,9 +40,10 @@ public final class FieldGateway {
     private long seq;
     private long applied;
 
-    public FieldGateway(GridSimulator sim, MessageBus bus, TopicTree topics, MessageCodec codec, Clock clock,
-                        List<String> units, long periodMs) {
+    public FieldGateway(GridSimulator sim, PhysicsEpoch physicsEpoch, MessageBus bus, TopicTree topics, MessageCodec codec,
+                        Clock clock, List<String> units, long periodMs) {
         this.sim = sim;
+        this.physicsEpoch = physicsEpoch;
         this.bus = bus;
         this.topics = topics;
         this.codec = codec;
@@ -75,7 +80,7 @@ public final class FieldGateway {
             nextReadingNanos += ((now - nextReadingNanos) / periodNanos + 1) * periodNanos;
             if (bus.isConnected()) {
                 for (String u : units) {
-                    FieldReading reading = new FieldReading(seq++, clock.epochMillis(), u, sim.outputMw(u),
+                    FieldReading reading = new FieldReading(seq++, physicsEpoch.nowEpochMs(), u, sim.outputMw(u),
                             sim.loadReferenceMw(u), DirectTurbineField.statusOf(sim, u));
                     bus.publish(OutboundMessage.of(topics.fieldReading(u), codec.encode(reading), Qos.AT_MOST_ONCE));
                 }

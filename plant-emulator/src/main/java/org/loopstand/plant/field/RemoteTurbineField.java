@@ -65,6 +65,13 @@ public final class RemoteTurbineField implements TurbineField {
         return r == null ? Double.NaN : r.loadReferenceMw();
     }
 
+    /** @return the source time of the latest reading (the physics' time when it was read), 0 before the first */
+    @Override
+    public long readingTimeMs() {
+        FieldReading r = latest;
+        return r == null ? 0 : r.sourceTime();
+    }
+
     @Override
     public UnitStatus status() {
         FieldReading r = latest;

@@ -17,6 +17,14 @@ public interface TurbineField {
     /** @return load reference in effect at the turbine, MW */
     double loadReferenceMw();
 
+    /**
+     * @return scenario epoch ms of the turbine state the readings ({@link #outputMw()}, {@link #loadReferenceMw()},
+     *         {@link #status()}) come from: the physics' time, older than the clock's now while the physics
+     *         lags it (or, for a field in another process, by the reading's way over the bus); meaningful
+     *         once {@link #ready()}
+     */
+    long readingTimeMs();
+
     /** @return online, offline or tripped */
     UnitStatus status();
 

@@ -2,6 +2,7 @@ package org.loopstand.plant.runtime;
 
 import java.util.List;
 
+import org.loopstand.plant.physics.PhysicsEpoch;
 import org.loopstand.plant.scenario.PlantControls;
 import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.OutboundMessage;
@@ -15,17 +16,23 @@ import org.loopstand.protocol.topic.TopicTree;
 /**
  * The plant's controls as scenario events see them: a schedule change goes out retained on the
  * area's schedule topic, a control mode change reaches the unit's plant interface. Loop thread only.
+ *
+ * <p>A schedule change is a scenario event: it fires when the physics reaches its time, and from that
+ * time on the plant's truth ACE uses it. So it is stamped (and effective) at the physics' time, the
+ * time base of the meter readings it is compared with, not at the clock's now, which is later while
+ * the physics lags.
  */
 final class BusPlantControls implements PlantControls {
-    private final Clock clock;
+    private final PhysicsEpoch physicsEpoch;
     private final MessageBus plantBus;
     private final TopicTree topics;
     private final MessageCodec codec;
     private final List<UnitDutyCycle> units;
     private long scheduleSeq;
 
-    BusPlantControls(Clock clock, MessageBus plantBus, TopicTree topics, MessageCodec codec, List<UnitDutyCycle> units) {
-        this.clock = clock;
+    BusPlantControls(Clock clock, PhysicsEpoch physicsEpoch, MessageBus plantBus, TopicTree topics, MessageCodec codec,
+                     List<UnitDutyCycle> units) {
+        this.physicsEpoch = physicsEpoch;
         this.plantBus = plantBus;
         this.topics = topics;
         this.codec = codec;
@@ -35,7 +42,7 @@ final class BusPlantControls implements PlantControls {
 
     @Override
     public void publishSchedule(String area, double scheduledNetInterchangeMw, double scheduledFrequencyHz) {
-        long now = clock.epochMillis();
+        long now = physicsEpoch.nowEpochMs();
         Schedule s = new Schedule(scheduleSeq++, now, area, scheduledNetInterchangeMw, scheduledFrequencyHz, now);
         // retained: a controller that connects later still finds the schedule in force
         plantBus.publish(new OutboundMessage(topics.areaSchedule(area), codec.encode(s), Qos.AT_LEAST_ONCE, true, 0));

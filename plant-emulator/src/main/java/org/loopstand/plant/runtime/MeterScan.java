@@ -5,6 +5,7 @@ import java.util.List;
 import org.loopstand.plant.journal.PlantRunJournal;
 import org.loopstand.plant.meter.AreaMeterPublisher;
 import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.plant.physics.PhysicsEpoch;
 import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.OutboundMessage;
 import org.loopstand.protocol.bus.Qos;
@@ -18,10 +19,16 @@ import org.loopstand.protocol.topic.TopicTree;
  * stage when faults are wired), or is dropped, never buffered, while the plant link is down (a late
  * reading would pass for a fresh one). Every reading is counted and journaled. Loop thread only;
  * the counts may be read from any thread.
+ *
+ * <p>Scans fall due on the clock (a meter's scan does not wait for the physics), but a reading's
+ * {@code sourceTime} is the time of the physics state it was read from ({@link PhysicsEpoch}): while
+ * the physics lags the clock by N s the reading is N s old, and says so. The journal entry keeps the
+ * clock's time: it records when the reading went out.
  */
 final class MeterScan {
     private final List<AreaMeterPublisher> meters;
     private final GridSimulator sim;
+    private final PhysicsEpoch physicsEpoch;
     private final Clock clock;
     private final MessageBus plantBus;
     private final TopicTree topics;
@@ -30,10 +37,11 @@ final class MeterScan {
     private volatile long sent;
     private volatile long dropped;
 
-    MeterScan(List<AreaMeterPublisher> meters, GridSimulator sim, Clock clock, MessageBus plantBus, TopicTree topics,
-              MessageCodec codec) {
+    MeterScan(List<AreaMeterPublisher> meters, GridSimulator sim, PhysicsEpoch physicsEpoch, Clock clock,
+              MessageBus plantBus, TopicTree topics, MessageCodec codec) {
         this.meters = meters;
         this.sim = sim;
+        this.physicsEpoch = physicsEpoch;
         this.clock = clock;
         this.plantBus = plantBus;
         this.topics = topics;
@@ -56,7 +64,7 @@ final class MeterScan {
             if (!m.due(nowNanos)) {
                 continue;
             }
-            AreaMeter reading = m.scan(sim, nowNanos, clock.epochMillis());
+            AreaMeter reading = m.scan(sim, nowNanos, physicsEpoch.nowEpochMs());
             n++;
             String topic = topics.areaMeter(reading.area(), reading.meter());
             byte[] payload = codec.encode(reading);
@@ -78,7 +86,7 @@ final class MeterScan {
                 note = null;
             }
             if (journal != null) {
-                journal.published(reading.sourceTime(), topic, "AreaMeter", reading.seq(), connected, note, payload, null);
+                journal.published(clock.epochMillis(), topic, "AreaMeter", reading.seq(), connected, note, payload, null);
             }
         }
         return n;

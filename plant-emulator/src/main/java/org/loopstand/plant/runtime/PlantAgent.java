@@ -12,6 +12,7 @@ import org.loopstand.plant.field.FieldGateway;
 import org.loopstand.plant.journal.PlantRunJournal;
 import org.loopstand.plant.meter.AreaMeterPublisher;
 import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.plant.physics.PhysicsEpoch;
 import org.loopstand.plant.scenario.PlantControls;
 import org.loopstand.plant.scenario.ScenarioEvent;
 import org.loopstand.protocol.agent.Agent;
@@ -29,7 +30,9 @@ import org.loopstand.protocol.topic.TopicTree;
  * reaches it through bounded queues, so nothing on a bus thread can hold it up. In a lockstep study
  * the study's engine steps the physics and this agent only follows ({@link #followSteps}).
  *
- * <p>Simulated time 0 is the clock's reading when the agent is built.
+ * <p>Simulated time 0 is the clock's reading when the agent is built (it sets the parts'
+ * {@link PhysicsEpoch} to it). Meter readings carry the time of the physics state they were read from, not
+ * the clock's: while the physics lags the clock they are as old as that state.
  */
 public final class PlantAgent implements Agent {
     public static final int MAX_STEPS_PER_CYCLE = 250;
@@ -37,12 +40,12 @@ public final class PlantAgent implements Agent {
     /** What the agent runs. */
     public record Parts(GridSimulator sim, Clock clock, MessageBus plantBus, TopicTree topics, MessageCodec codec,
                         List<AreaMeterPublisher> meters, List<UnitDutyCycle> units, FieldGateway field,
-                        OperatorOrders orders, List<ScenarioEvent> events, double rate, StepLateness lateness) {
+                        OperatorOrders orders, List<ScenarioEvent> events, double rate, StepLateness lateness,
+                        PhysicsEpoch physicsEpoch) {
     }
 
     private final Parts p;
     private final long stepNanos;
-    private final long startEpochMs;
     private final BusPlantControls controls;
     private final PlantClockPublisher clockPublisher;
     private final MeterScan meterScan;
@@ -73,13 +76,15 @@ public final class PlantAgent implements Agent {
 
     public PlantAgent(Parts parts) {
         this.p = parts;
+        // simulated time 0 = the clock's now, the instant the engine below counts its steps from
+        parts.physicsEpoch().startAt(parts.clock().epochMillis());
         this.stepNanos = Math.round(parts.sim().stepS() * 1e9);
-        this.startEpochMs = parts.clock().epochMillis();
-        this.controls = new BusPlantControls(parts.clock(), parts.plantBus(), parts.topics(), parts.codec(), parts.units());
+        this.controls = new BusPlantControls(parts.clock(), parts.physicsEpoch(), parts.plantBus(), parts.topics(),
+                parts.codec(), parts.units());
         this.clockPublisher = new PlantClockPublisher(parts.clock(), parts.plantBus(), parts.topics(), parts.codec(),
                 parts.rate());
-        this.meterScan = new MeterScan(parts.meters(), parts.sim(), parts.clock(), parts.plantBus(), parts.topics(),
-                parts.codec());
+        this.meterScan = new MeterScan(parts.meters(), parts.sim(), parts.physicsEpoch(), parts.clock(), parts.plantBus(),
+                parts.topics(), parts.codec());
         this.journal = new PlantLoopJournal(parts.clock(), parts.sim(), parts.units(), this::epochMsAt);
         this.engine = new ScenarioEngine(parts.sim(), parts.clock(), parts.events()).listen(journal);
         engine.plantControls(controls);
@@ -136,7 +141,7 @@ public final class PlantAgent implements Agent {
 
     /** @return scenario epoch ms of simulated time {@code timeS} (time 0 = the agent's start) */
     public long epochMsAt(double timeS) {
-        return startEpochMs + Math.round(timeS * 1000);
+        return p.physicsEpoch().epochMsAt(timeS);
     }
 
     /**

@@ -8,6 +8,7 @@ import java.util.function.Consumer;
 import java.util.function.Supplier;
 
 import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.time.Clock;
 
 /**
@@ -22,6 +23,14 @@ import org.loopstand.protocol.time.Clock;
  * ticks, so both see the same, slower time) instead of running the physics late and reaching a
  * different verdict. At the end {@link #finish(double)} compares the rate kept over the run with the
  * asked one and says {@code RATE NOT KEPT} beyond {@link Settings#notKeptFactor()}.
+ *
+ * <p>It watches the command path too ({@link #onCommandArrived}): a command that arrives from the bus
+ * with more than a share (default {@value #COMMAND_AGE_SHARE}) of its validity already gone (scenario time from its
+ * {@code issuedAt} to its arrival) shows that controller, broker or link were held up for longer than the
+ * rate allows, in wall time; holding the clock would not make it younger, so the clock runs on slower
+ * ({@code paceSlowed} with {@code reason: commandPath}), at most once per {@value #COMMAND_PATH_SETTLE_WALL_S}
+ * wall second (one hold-up delays a burst of commands). The physics' holds and slow-downs say
+ * {@code reason: physicsLag}.
  *
  * <p>{@link #onStep(long)} runs on the plant loop's thread (every step, through
  * {@link StepLateness#watchSteps}); it allocates only when it changes the clock. The other methods run
@@ -54,6 +63,12 @@ public final class PlantPacing {
     /** A catch-up faster than this many times the rate is a one-off hold-up: the rate is kept. */
     public static final double CATCH_UP_MARGIN = 2.0;
 
+    /** Default share of a command's validity gone on its way beyond which the command path is too slow for the rate. */
+    public static final double COMMAND_AGE_SHARE = 0.5;
+
+    /** Wall seconds after a rate change in which an old command does not slow the clock again. */
+    public static final double COMMAND_PATH_SETTLE_WALL_S = 1.0;
+
     /** Lowest rate the pace keeper slows to, scenario seconds per wall second. */
     public static final double MIN_RATE = 0.05;
 
@@ -73,6 +88,10 @@ public final class PlantPacing {
     private long slowdowns;
     private long holds;
     private long raises;
+    private long commandPathSlowdowns;
+    private double commandAgeShare = COMMAND_AGE_SHARE;
+    private long maxCommandAgeMs;
+    private long commandsSeen;
     private long heldWallNanos;
     private double lowestRate;
     private long goWallNanos = -1;
@@ -164,10 +183,62 @@ public final class PlantPacing {
             holds++;
         }
         Map<String, Object> e = entry(slow ? "paceSlowed" : "paceHeld", from, to);
+        e.put("reason", "physicsLag");
         e.put("catchUpRate", rounded(catchUpRate));
         e.put("behindS", holdMaxLateNanos / 1e9);
         e.put("limitS", settings.lagS());
         e.put("heldWallMs", (w - holdStartWallNanos) / 1e6);
+        journal.accept(e);
+    }
+
+    /**
+     * Owner thread, before start: a command slows the clock when more than {@code share} of its validity
+     * was gone when it arrived.
+     *
+     * @param share (0, 1]
+     */
+    public PlantPacing watchCommandsBeyond(double share) {
+        if (!(share > 0 && share <= 1)) {
+            throw new IllegalArgumentException("command age share must be in (0, 1], got " + share);
+        }
+        this.commandAgeShare = share;
+        return this;
+    }
+
+    /**
+     * Loop thread, for each command as it came off the bus, before any command fault stage (a delay the
+     * scenario injects on purpose is not the machine's).
+     *
+     * @param c             the command
+     * @param receivedNanos the scenario clock's monotonic reading when it arrived, ns
+     */
+    public void onCommandArrived(UnitCommand c, long receivedNanos) {
+        long arrivedMs = clock.epochMillis() - (clock.monotonicNanos() - receivedNanos) / 1_000_000L;
+        long ageMs = arrivedMs - c.issuedAt();
+        long validityMs = c.validUntil() - c.issuedAt();
+        maxCommandAgeMs = commandsSeen++ == 0 ? ageMs : Math.max(maxCommandAgeMs, ageMs);
+        double limitMs = commandAgeShare * validityMs;
+        if (validityMs <= 0 || ageMs <= limitMs || holding || !clock.running()) {
+            return;
+        }
+        long w = wall.monotonicNanos();
+        double from = clock.currentRate();
+        if (w - lastChangeWallNanos < Math.round(COMMAND_PATH_SETTLE_WALL_S * 1e9) || from <= MIN_RATE) {
+            return;
+        }
+        double to = Math.max(MIN_RATE, rounded(from * settings.slowFactor()));
+        clock.runAt(to);
+        lastChangeWallNanos = w;
+        slowdowns++;
+        commandPathSlowdowns++;
+        lowestRate = Math.min(lowestRate, to);
+        Map<String, Object> e = entry("paceSlowed", from, to);
+        e.put("reason", "commandPath");
+        e.put("unit", c.unit());
+        e.put("commandSeq", c.seq());
+        e.put("commandAgeS", ageMs / 1000.0);
+        e.put("validityS", validityMs / 1000.0);
+        e.put("limitS", limitMs / 1000.0);
         journal.accept(e);
     }
 
@@ -200,6 +271,8 @@ public final class PlantPacing {
         e.put("keptRate", Double.isNaN(kept) ? null : kept);
         e.put("wallS", Double.isNaN(wallS) ? null : wallS);
         e.put("slowdowns", slowdowns);
+        e.put("commandPathSlowdowns", commandPathSlowdowns);
+        e.put("maxCommandAgeS", commandsSeen == 0 ? null : maxCommandAgeMs / 1000.0); // null: none watched
         e.put("holds", holds);
         e.put("raises", raises);
         e.put("heldWallMs", heldWallNanos / 1e6);

@@ -12,6 +12,7 @@ import org.loopstand.plant.grid.GeneratingUnit;
 import org.loopstand.plant.meter.AreaMeterPublisher;
 import org.loopstand.plant.meter.MeterSettings;
 import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.plant.physics.PhysicsEpoch;
 import org.loopstand.plant.scenario.ScenarioEvent;
 import org.loopstand.plant.unit.PlantJournal;
 import org.loopstand.plant.unit.UnitPlantInterface;
@@ -46,6 +47,7 @@ public final class PlantRunner implements AutoCloseable {
     private final MessageBus plantBus;
     private final PlantAgent agent;
     private final StepLateness lateness;
+    private final PhysicsEpoch physicsEpoch;
     private final PlantCounters counters = new PlantCounters();
     private AgentRunner runner;
     private OperatorOrders orders;
@@ -69,6 +71,8 @@ public final class PlantRunner implements AutoCloseable {
                 throw new IllegalArgumentException("unit '" + u + "' is not in site " + site);
             }
         }
+        // every measurement is stamped with the physics' time; the agent sets its time 0
+        this.physicsEpoch = new PhysicsEpoch(sim);
         this.plantBus = track(links.connect(site + "-plant", null));
         List<GeneratingUnit> local = sim.grid().units().stream()
                 .filter(u -> !options.remoteUnits().contains(u.id())).toList();
@@ -84,7 +88,7 @@ public final class PlantRunner implements AutoCloseable {
             meters.add(new AreaMeterPublisher(m, sim.grid(), options.seed() * 1_000 + i, start, seqStart));
         }
         FieldGateway field = options.remoteUnits().isEmpty() ? null
-                : new FieldGateway(sim, plantBus, topics, codec, clock,
+                : new FieldGateway(sim, physicsEpoch, plantBus, topics, codec, clock,
                         sim.grid().units().stream().map(GeneratingUnit::id).filter(options.remoteUnits()::contains).toList(),
                         FieldGateway.DEFAULT_PERIOD_MS).start();
         List<UnitDutyCycle> cycleList = List.copyOf(cycles.values());
@@ -97,7 +101,7 @@ public final class PlantRunner implements AutoCloseable {
             }
         });
         this.agent = new PlantAgent(new PlantAgent.Parts(sim, clock, plantBus, topics, codec, meters, cycleList, field,
-                orders, events, options.rate(), lateness));
+                orders, events, options.rate(), lateness, physicsEpoch));
         journal.tap(counters);
         agent.countInto(counters);
         cycleList.forEach(h -> h.link().countInto(counters));
@@ -112,7 +116,8 @@ public final class PlantRunner implements AutoCloseable {
             ControlCentreLink link = new ControlCentreLink(unitId, bus, topics, codec, clock, options.telemetryQos(),
                     options.commandQueueCapacity());
             UnitSettings s = UnitSettings.of(sim.grid().units().get(sim.grid().unitIndex(unitId)), options.interfaces());
-            UnitPlantInterface ui = new UnitPlantInterface(s, new DirectTurbineField(sim, unitId), clock, link, journal, seqStart);
+            UnitPlantInterface ui = new UnitPlantInterface(s, new DirectTurbineField(sim, physicsEpoch, unitId), clock, link, journal,
+                    seqStart);
             UnitDutyCycle cycle = new UnitDutyCycle(ui, link, codec);
             cycle.shareStatusDecoding(statusDecoding);
             cycles.put(unitId, cycle);
@@ -192,6 +197,16 @@ public final class PlantRunner implements AutoCloseable {
     /** Before {@link #start}: unit interface scan period, see {@link PlantAgent#setUnitScanMs}. */
     public PlantRunner unitScanMs(long unitScanMs) {
         agent.setUnitScanMs(unitScanMs);
+        return this;
+    }
+
+    /**
+     * Before {@link #start}: every command that comes off the bus to a unit of this process is told to
+     * {@code watch} on the loop's thread, before any command fault stage (the pace keeper's
+     * {@link PlantPacing#onCommandArrived}).
+     */
+    public PlantRunner watchCommandArrivals(UnitDutyCycle.CommandArrivals watch) {
+        cycles.values().forEach(c -> c.watchCommandArrivals(watch));
         return this;
     }
 

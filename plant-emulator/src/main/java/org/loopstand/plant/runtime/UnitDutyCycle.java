@@ -21,6 +21,13 @@ public final class UnitDutyCycle {
     private long overflowSeen;
     private FaultHooks faults;
     private StatusDecoding statusDecoding;
+    private CommandArrivals arrivals;
+
+    /** Told of every command that came off the bus, decoded, before any command fault stage (owner thread). */
+    public interface CommandArrivals {
+        /** @param receivedNanos the clock's monotonic reading when it arrived, ns */
+        void arrived(UnitCommand c, long receivedNanos);
+    }
 
     /**
      * One decode of a controller status for every unit that got the same payload: a connection
@@ -75,6 +82,11 @@ public final class UnitDutyCycle {
         this.statusDecoding = decoding;
     }
 
+    /** Owner thread, before start: every decoded command is told to {@code watch} first (e.g. the pace keeper). */
+    void watchCommandArrivals(CommandArrivals watch) {
+        this.arrivals = watch;
+    }
+
     /** Owner thread, before start: inbound commands pass the command-path fault stage. */
     void attachFaults(FaultHooks hooks) {
         this.faults = hooks;
@@ -94,6 +106,9 @@ public final class UnitDutyCycle {
         for (int i = 0; i < MAX_COMMANDS_PER_CYCLE && (r = link.pollCommand()) != null; i++, work++) {
             Decoded<UnitCommand> d = codec.decode(r.payload(), UnitCommand.class);
             if (d instanceof Decoded.Ok<UnitCommand> ok) {
+                if (arrivals != null) {
+                    arrivals.arrived(ok.value(), r.receivedNanos());
+                }
                 if (faults == null || !faults.interceptCommand(unit.unitId(), ok.value())) {
                     unit.onCommand(ok.value(), r.receivedNanos());
                 }

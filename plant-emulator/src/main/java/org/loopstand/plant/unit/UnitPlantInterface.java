@@ -129,6 +129,8 @@ public final class UnitPlantInterface {
 
     /** Handles a command as received; {@code receivedNanos} on this interface's clock. */
     public void onCommand(UnitCommand c, long receivedNanos) {
+        // the clock's time, not the physics': validUntil was set on the controller's scenario clock, which
+        // follows the plant's clock ticks, and expiry bounds the command's way here, not the data's age
         long nowMs = clock.epochMillis();
         if (verifier != null) {
             VerificationResult v = verifier.verify(settings.unitId(), c);
@@ -278,12 +280,18 @@ public final class UnitPlantInterface {
         return 0;
     }
 
-    /** @return the telemetry as it would be published now */
+    /**
+     * @return the telemetry as it would be published now: its {@code sourceTime} is the time of the turbine
+     *         reading it carries ({@link TurbineField#readingTimeMs()}: the physics' time, older than the
+     *         clock's now while the physics lags), so a controller sees the data's true age; the clock's now
+     *         only while the field has no reading yet (the output is then marked invalid anyway)
+     */
     public UnitTelemetry telemetry() {
         boolean ready = field.ready();
         Quality q = ready ? Quality.GOOD : Quality.of(Validity.INVALID, QualityFlag.FAILURE);
         double setpoint = motion != null ? motion.referenceMw() : ready ? field.loadReferenceMw() : 0.0;
-        return new UnitTelemetry(seq++, clock.epochMillis(), settings.unitId(), ready ? field.outputMw() : 0.0, q,
+        long sourceTimeMs = ready ? field.readingTimeMs() : clock.epochMillis();
+        return new UnitTelemetry(seq++, sourceTimeMs, settings.unitId(), ready ? field.outputMw() : 0.0, q,
                 setpoint, ready ? field.status() : UnitStatus.OFFLINE, mode, settings.regulatingMinMw(),
                 settings.regulatingMaxMw(), settings.rampMwPerMin(), settings.pulseRateMwPerMin(),
                 settings.acceptsSetpoints(), answers.lastAcceptedSeq());

@@ -111,12 +111,17 @@ class FaultHooksTest {
         try (Rig r = rig(fault("d1", "commandDelay", "basin-steam-1", 200, 400).parameter("delayMs", 12_000),
                 fault("d2", "commandDelay", "basin-steam-2", 200, 400).parameter("delayMs", 12_000),
                 fault("x2", "applyExpired", "basin-steam-2", 200, 400))) {
+            // the pace keeper's watch sees each command as it came off the bus: the injected delay is not the path's
+            List<Long> agesAtArrivalMs = new ArrayList<>();
+            r.plant().watchCommandArrivals((c, receivedNanos) -> agesAtArrivalMs.add(clock.epochMillis()
+                    - (clock.monotonicNanos() - receivedNanos) / 1_000_000L - c.issuedAt()));
             base.run(r.plant(), 240);
             double ref1 = r.plant().sim().loadReferenceMw("basin-steam-2");
             base.send(pulse(1, "basin-steam-1", PulseDirection.RAISE));
             base.send(pulse(1, "basin-steam-2", PulseDirection.RAISE));
             base.run(r.plant(), 10);
             assertThat(base.on(topics.unitAck("basin-steam-1"))).isEmpty(); // still on its way
+            assertThat(agesAtArrivalMs).containsExactly(0L, 0L);
             base.run(r.plant(), 10);
             CommandAck a1 = base.decoded(topics.unitAck("basin-steam-1"), CommandAck.class).get(0);
             CommandAck a2 = base.decoded(topics.unitAck("basin-steam-2"), CommandAck.class).get(0);

@@ -9,6 +9,8 @@ import java.util.Map;
 import java.util.Optional;
 
 import org.junit.jupiter.api.Test;
+import org.loopstand.protocol.message.PulseDirection;
+import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.time.VirtualClock;
 
 /** The pace keeper against a scenario clock over a virtual wall clock. */
@@ -89,6 +91,58 @@ class PlantPacingTest {
         Optional<String> line = pacing.finish(300);
         assertThat(line).hasValueSatisfying(l -> assertThat(l).startsWith("RATE NOT KEPT: asked 40x, kept 30.0x over 10.0 s wall"));
         assertThat(journal.get(1)).containsEntry("rateKept", false);
+    }
+
+    @Test
+    void shouldSlowTheClockWhenCommandsArriveWithMoreThanHalfTheirValidityGone() {
+        wall.advanceMillis(2_000); // 80 s of scenario time at 40x
+        long now = clock.epochMillis();
+        // issued 1.5 s before it arrived, valid 4 s: 37.5 % gone on the way, the path keeps up
+        pacing.onCommandArrived(pulse(1, now - 1_500, now + 2_500), clock.monotonicNanos());
+        assertThat(clock.currentRate()).isEqualTo(40.0);
+        assertThat(journal).isEmpty();
+        // issued 3 s (75 ms of wall time at 40x) before it arrived: 75 % of its 4 s gone
+        long arrivedNanos = clock.monotonicNanos();
+        wall.advanceMillis(5); // taken off the queue 5 ms later: the plant's own wait is not the path's
+        pacing.onCommandArrived(pulse(2, now - 3_000, now + 1_000), arrivedNanos);
+        assertThat(clock.currentRate()).isEqualTo(32.0); // 40 × 0.8
+        assertThat(journal).singleElement().satisfies(e -> assertThat(e).containsEntry("event", "paceSlowed")
+                .containsEntry("reason", "commandPath").containsEntry("commandAgeS", 3.0).containsEntry("validityS", 4.0)
+                .containsEntry("limitS", 2.0).containsEntry("fromRate", 40.0).containsEntry("toRate", 32.0)
+                .containsEntry("unit", "basin-steam-1").containsEntry("commandSeq", 2L));
+        // the same hold-up's next old command, 0.5 wall s later: no second slow-down
+        wall.advanceMillis(500);
+        now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(3, now - 3_000, now + 1_000), clock.monotonicNanos());
+        assertThat(clock.currentRate()).isEqualTo(32.0);
+        // 1.1 wall s after the change the path is still slow: slowed again
+        wall.advanceMillis(600);
+        now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(4, now - 2_500, now + 1_500), clock.monotonicNanos());
+        assertThat(clock.currentRate()).isEqualTo(25.6); // 32 × 0.8
+        pacing.finish(100);
+        assertThat(journal.get(2)).containsEntry("event", "paceSummary").containsEntry("slowdowns", 2L)
+                .containsEntry("commandPathSlowdowns", 2L).containsEntry("maxCommandAgeS", 3.0)
+                .containsEntry("lowestRate", 25.6);
+    }
+
+    @Test
+    void shouldTakeTheCommandAgeShareAsGiven() {
+        pacing.watchCommandsBeyond(0.8);
+        wall.advanceMillis(2_000);
+        long now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(1, now - 3_000, now + 1_000), clock.monotonicNanos()); // 75 % of 4 s gone
+        assertThat(clock.currentRate()).isEqualTo(40.0);
+        pacing.onCommandArrived(pulse(2, now - 3_500, now + 500), clock.monotonicNanos()); // 87.5 % gone
+        assertThat(clock.currentRate()).isEqualTo(32.0);
+        assertThat(journal).singleElement().satisfies(e -> assertThat(e).containsEntry("limitS", 3.2));
+        org.assertj.core.api.Assertions.assertThatThrownBy(() -> pacing.watchCommandsBeyond(1.5))
+                .hasMessageContaining("command age share");
+    }
+
+    static UnitCommand pulse(long seq, long issuedAtMs, long validUntilMs) {
+        return UnitCommand.pulse(seq, issuedAtMs, "basin-steam-1", "controller-1", 0, validUntilMs, PulseDirection.RAISE,
+                2_000);
     }
 
     @Test

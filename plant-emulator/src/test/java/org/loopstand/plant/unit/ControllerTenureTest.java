@@ -29,7 +29,7 @@ class ControllerTenureTest {
     private static final String UNIT = "basin-steam-1";
 
     private final VirtualClock clock = new VirtualClock(T0);
-    private final FakeField field = new FakeField(700);
+    private final FakeField field = new FakeField(700, clock::epochMillis);
     private final RecordingOutput out = new RecordingOutput();
     private final PlantJournal journal = new PlantJournal();
     private final long epoch = T0 - 60_000; // the controller started a minute ago, epoch ms

@@ -10,8 +10,11 @@ final class FakeField implements TurbineField {
     UnitStatus status = UnitStatus.ONLINE;
     boolean ready = true;
     int writes;
+    /** source time of the readings, epoch ms (the test's clock, unless a test makes the field lag) */
+    java.util.function.LongSupplier readingTimeMs;
 
-    FakeField(double mw) {
+    FakeField(double mw, java.util.function.LongSupplier readingTimeMs) {
+        this.readingTimeMs = readingTimeMs;
         referenceMw = mw;
         outputMw = mw;
     }
@@ -24,6 +27,7 @@ final class FakeField implements TurbineField {
     @Override public boolean ready() { return ready; }
     @Override public double outputMw() { return outputMw; }
     @Override public double loadReferenceMw() { return referenceMw; }
+    @Override public long readingTimeMs() { return readingTimeMs.getAsLong(); }
     @Override public UnitStatus status() { return status; }
 
     @Override

@@ -22,7 +22,7 @@ class UnitPlantInterfaceTest {
     private static final String CTRL = "controller-1";
 
     private final VirtualClock clock = new VirtualClock(T0);
-    private final FakeField field = new FakeField(700);
+    private final FakeField field = new FakeField(700, clock::epochMillis);
     private final RecordingOutput out = new RecordingOutput();
     private final PlantJournal journal = new PlantJournal();
     private long seq = 1;
@@ -247,7 +247,7 @@ class UnitPlantInterfaceTest {
         assertThat(u.controlMode()).isEqualTo(ControlMode.LOCAL);
         assertThat(field.referenceMw).isCloseTo(702, within(1e-9));
 
-        FakeField other = new FakeField(700);
+        FakeField other = new FakeField(700, clock::epochMillis);
         UnitPlantInterface b = new UnitPlantInterface(settings(true, WatchdogAction.BASE_POINT), other, clock, out, journal, 0);
         b.onControllerStatus(status(0, ControllerState.OFFLINE));
         for (int i = 0; i < 50 * 200; i++) {

@@ -7,7 +7,8 @@ import java.util.Objects;
  * One scan of an area's meters: frequency, tie flows and net interchange.
  *
  * @param seq                   per-publisher sequence number, ≥ 0, increasing
- * @param sourceTime            epoch ms at the source, &gt; 0
+ * @param sourceTime            epoch ms of the state the reading was taken from (the physics' time, older than
+ *                              the clock's while the physics lags), &gt; 0
  * @param area                  area id
  * @param meter                 meter id
  * @param frequencyHz           measured frequency, Hz, in [40, 70]

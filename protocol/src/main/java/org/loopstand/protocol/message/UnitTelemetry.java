@@ -6,7 +6,8 @@ import java.util.Objects;
  * One scan of a unit's state as its plant interface reports it.
  *
  * @param seq                per-publisher sequence number, ≥ 0
- * @param sourceTime         epoch ms at the source, &gt; 0
+ * @param sourceTime         epoch ms of the state the reading was taken from (the physics' time, older than
+ *                           the clock's while the physics lags), &gt; 0
  * @param unit               unit id
  * @param outputMw           measured electrical output, MW
  * @param outputQuality      quality of the output
