@@ -35,7 +35,7 @@ public final class ScenarioClockMixin {
             + " paceSlowed); 0 = never slow the clock (default ${DEFAULT-VALUE})")
     double paceLagS;
 
-    @Option(names = "--pace-command-share", defaultValue = "0.5", description = "with the pace keeper on: a command that"
+    @Option(names = "--pace-command-share", defaultValue = "0", description = "with the pace keeper on: a command that"
             + " arrives with more than this share of its validity gone slows the clock too (paceSlowed, reason"
             + " commandPath); 0 = never, 0 – 1 (default ${DEFAULT-VALUE})")
     double paceCommandShare;

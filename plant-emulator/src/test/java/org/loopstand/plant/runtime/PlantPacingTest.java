@@ -94,7 +94,17 @@ class PlantPacingTest {
     }
 
     @Test
+    void shouldLeaveTheClockAloneForOldCommandsWhenTheWatchIsOffAsByDefault() {
+        wall.advanceMillis(2_000);
+        long now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(1, now - 3_900, now + 100), clock.monotonicNanos()); // 97.5 % of 4 s gone
+        assertThat(clock.currentRate()).isEqualTo(40.0);
+        assertThat(journal).isEmpty();
+    }
+
+    @Test
     void shouldSlowTheClockWhenCommandsArriveWithMoreThanHalfTheirValidityGone() {
+        pacing.watchCommandsBeyond(0.5);
         wall.advanceMillis(2_000); // 80 s of scenario time at 40x
         long now = clock.epochMillis();
         // issued 1.5 s before it arrived, valid 4 s: 37.5 % gone on the way, the path keeps up
