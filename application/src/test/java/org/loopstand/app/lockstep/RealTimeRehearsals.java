@@ -33,7 +33,7 @@ import org.loopstand.report.run.RunReportBuilder;
  * (the lockstep runs) while they go.
  */
 final class RealTimeRehearsals implements AutoCloseable {
-    /** What one rehearsal gave: its outcome, the report read back from its run folder, what it printed. */
+    /** What one rehearsal gave: its outcome, the report read back from its run folder (null if none), what it printed. */
     record Rehearsed(Rehearsal.Outcome outcome, ReportModel report, String printed) {
     }
 
@@ -77,9 +77,16 @@ final class RealTimeRehearsals implements AutoCloseable {
                     throw new java.util.concurrent.CancellationException("closed before it started");
                 }
                 started.add(r);
+                long startNanos = WallClock.INSTANCE.monotonicNanos();
                 Rehearsal.Outcome o = r.run();
-                ReportModel report = RunReportBuilder.build(RunFolder.read(o.runFolder()), Map.of(), List.of(), "test");
-                return new Rehearsed(o, report, printed.toString(StandardCharsets.UTF_8));
+                long wallS = (WallClock.INSTANCE.monotonicNanos() - startNanos) / 1_000_000_000L;
+                String out = printed.toString(StandardCharsets.UTF_8);
+                // one line per rehearsal in the test output: what CI time and a changed verdict are judged by
+                System.out.println("real-time rehearsal " + s.scenarioName() + " at rate " + rate + ": " + wallS + " s wall, "
+                        + out.lines().filter(l -> l.startsWith("verdict:") || l.contains("RATE NOT KEPT")).map(String::trim).toList());
+                ReportModel report = o.report() == null ? null
+                        : RunReportBuilder.build(RunFolder.read(o.runFolder()), Map.of(), List.of(), "test");
+                return new Rehearsed(o, report, out);
             }, pool));
         }
     }
