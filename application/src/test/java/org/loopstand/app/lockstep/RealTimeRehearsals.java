@@ -14,10 +14,14 @@ import java.util.Comparator;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import java.util.concurrent.CancellationException;
 import java.util.concurrent.CompletableFuture;
+import java.util.concurrent.CopyOnWriteArrayList;
 import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
+import java.util.concurrent.Semaphore;
 import java.util.concurrent.TimeUnit;
+import java.util.concurrent.locks.LockSupport;
 
 import org.loopstand.app.rehearsal.Rehearsal;
 import org.loopstand.app.rehearsal.RehearsalSettings;
@@ -29,8 +33,8 @@ import org.loopstand.report.run.RunReportBuilder;
 /**
  * Real-time rehearsals of several scenarios, a few at a time: each a plant and a built-in controller as
  * child JVMs of this one (its class path holds both), its own embedded broker on its own loopback port,
- * its own run folder. Started at once, longest scenario first, so the test thread can do other work
- * (the lockstep runs) while they go.
+ * its own run folder. Queued at once, longest scenario first, one starting at a time, so the test thread
+ * can do other work (the lockstep runs) while they go.
  */
 final class RealTimeRehearsals implements AutoCloseable {
     /** What one rehearsal gave: its outcome, the report read back from its run folder (null if none), what it printed. */
@@ -43,9 +47,14 @@ final class RealTimeRehearsals implements AutoCloseable {
 
     private final ExecutorService pool;
     private final List<Rehearsal> planned = new ArrayList<>();
-    private final List<Rehearsal> started = new java.util.concurrent.CopyOnWriteArrayList<>();
+    private final List<Rehearsal> started = new CopyOnWriteArrayList<>();
     private final Map<Path, CompletableFuture<Rehearsed>> results = new LinkedHashMap<>();
     private volatile boolean closing;
+    /**
+     * One rehearsal starting at a time: four plants starting their embedded brokers at once on a busy
+     * 2-core machine took more than the plant's 30 s broker start limit (3 of 11 in one run).
+     */
+    private final Semaphore startGate = new Semaphore(1);
 
     /**
      * Starts every planned rehearsal on a pool of {@code atOnce} threads.
@@ -74,11 +83,11 @@ final class RealTimeRehearsals implements AutoCloseable {
             this.planned.add(r);
             results.put(p.scenarioFile(), CompletableFuture.supplyAsync(() -> {
                 if (closing) {
-                    throw new java.util.concurrent.CancellationException("closed before it started");
+                    throw new CancellationException("closed before it started");
                 }
                 started.add(r);
                 long startNanos = WallClock.INSTANCE.monotonicNanos();
-                Rehearsal.Outcome o = r.run();
+                Rehearsal.Outcome o = runThroughTheStartGate(r);
                 long wallS = (WallClock.INSTANCE.monotonicNanos() - startNanos) / 1_000_000_000L;
                 String out = printed.toString(StandardCharsets.UTF_8);
                 // one line per rehearsal in the test output: what CI time and a changed verdict are judged by
@@ -88,6 +97,29 @@ final class RealTimeRehearsals implements AutoCloseable {
                         : RunReportBuilder.build(RunFolder.read(o.runFolder()), Map.of(), List.of(), "test");
                 return new Rehearsed(o, report, out);
             }, pool));
+        }
+    }
+
+    /** Runs the rehearsal, holding the start gate until its controller runs (the plant and its broker are up) or it ended. */
+    private Rehearsal.Outcome runThroughTheStartGate(Rehearsal r) {
+        startGate.acquireUninterruptibly();
+        boolean released = false;
+        try {
+            CompletableFuture<Rehearsal.Outcome> run = CompletableFuture.supplyAsync(r::run, runnable -> {
+                Thread t = new Thread(runnable, "rehearsal");
+                t.setDaemon(true);
+                t.start();
+            });
+            while (!run.isDone() && r.pidOf("controller").isEmpty()) {
+                LockSupport.parkNanos(100_000_000L);
+            }
+            startGate.release();
+            released = true;
+            return run.join();
+        } finally {
+            if (!released) {
+                startGate.release();
+            }
         }
     }
 
