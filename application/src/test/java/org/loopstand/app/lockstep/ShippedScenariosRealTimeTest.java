@@ -24,7 +24,7 @@ import org.loopstand.protocol.journal.JournalReader;
  * same in both, name → pass/fail.
  *
  * <p>The rehearsals run {@link #AT_ONCE} at a time at rate {@link #RATE} while the test thread does the lockstep
- * runs. Minutes of wall time on a 2-core machine (docs/campaigns.md, "Tests"), so it is tagged
+ * runs. Minutes of wall time on a 2-core machine (docs/performance.md, "Lockstep against real time"), so it is tagged
  * {@code realtime-comparison} and kept out of the normal build:
  * {@code ./mvnw -pl application -am test -Dtest=ShippedScenariosRealTimeTest -Drealtime.excludedGroups=none
  * -Dsurefire.failIfNoSpecifiedTests=false}. A verdict must not depend on the rate; where the machine cannot
