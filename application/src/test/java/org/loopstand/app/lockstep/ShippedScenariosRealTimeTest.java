@@ -74,6 +74,7 @@ class ShippedScenariosRealTimeTest {
         assertThat(real.outcome().message()).as(real.printed()).isNull();
         assertThat(JournalReader.readAll(real.outcome().runFolder().resolve("plant.jsonl")).summary().endReason())
                 .as(real.printed()).contains(EndReason.COMPLETED);
+        assertThat(real.report()).as(real.printed()).isNotNull();
         // both sides' figures in the message: a changed verdict is a finding to explain, not to loosen
         assertThat(ShippedScenariosLockstepTest.passed(lockstep.checks()))
                 .as("lockstep %s%nagainst real time at rate %s:%n%s%n%s", lockstep.checks(), RATE, real.report().checks(), real.printed())
