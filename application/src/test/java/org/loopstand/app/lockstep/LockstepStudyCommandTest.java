@@ -24,6 +24,8 @@ import picocli.CommandLine;
 class LockstepStudyCommandTest {
     static final Path CONFIG = Path.of("..", "config");
     static final Path UNIT_TRIP = CONFIG.resolve("scenarios/rehearse-unit-trip.yaml");
+    /** 300 s with a load step and faults that draw at random (noise, loss, jitter, lost commands). */
+    static final Path RANDOM_FAULTS = Path.of("src", "test", "resources", "lockstep", "random-faults.yaml");
     /** Names the run folders only (2026-03-01T10:00:00Z); the runs are on the study's virtual clock. */
     static final long WALL_MS = 1_772_359_200_000L;
 
@@ -34,9 +36,13 @@ class LockstepStudyCommandTest {
     }
 
     private Ran study(String... extra) throws Exception {
+        return study(UNIT_TRIP, extra);
+    }
+
+    private Ran study(Path scenario, String... extra) throws Exception {
         ByteArrayOutputStream buf = new ByteArrayOutputStream();
         PrintStream ps = new PrintStream(buf, true, StandardCharsets.UTF_8);
-        List<String> args = new java.util.ArrayList<>(List.of(UNIT_TRIP.toString(), "--with-controller",
+        List<String> args = new java.util.ArrayList<>(List.of(scenario.toString(), "--with-controller",
                 "--site", CONFIG.resolve("sites/demo-site.yaml").toString(), "--runs-dir", runs.toString()));
         args.addAll(List.of(extra));
         int code = new CommandLine(new LockstepStudyCommand(ps, ps, new VirtualClock(WALL_MS))).execute(args.toArray(String[]::new));
@@ -73,7 +79,7 @@ class LockstepStudyCommandTest {
         Path log = runs.resolve("child-" + seed + ".log");
         Process p = new ProcessBuilder(Path.of(System.getProperty("java.home"), "bin", "java").toString(), "-cp",
                 System.getProperty("java.class.path"), org.loopstand.app.cli.AppCli.class.getName(), "study",
-                UNIT_TRIP.toString(), "--with-controller", "--site", CONFIG.resolve("sites/demo-site.yaml").toString(),
+                RANDOM_FAULTS.toString(), "--with-controller", "--site", CONFIG.resolve("sites/demo-site.yaml").toString(),
                 "--runs-dir", runs.resolve("child").toString(), "--seed", seed)
                 .redirectErrorStream(true).redirectOutput(log.toFile()).start();
         assertThat(p.waitFor(120, java.util.concurrent.TimeUnit.SECONDS)).as("child study finished").isTrue();
@@ -85,10 +91,15 @@ class LockstepStudyCommandTest {
 
     @Test
     void shouldGiveByteIdenticalJournalsForTheSameScenarioAndRandomSeedAndOthersForAnotherSeed() throws Exception {
-        Ran first = study("--seed", "7");
-        Ran second = study("--seed", "7");
+        Ran first = study(RANDOM_FAULTS, "--seed", "7");
+        Ran second = study(RANDOM_FAULTS, "--seed", "7");
         Path inOwnJvm = studyInOwnJvm("7");
-        Ran other = study("--seed", "8");
+        Ran other = study(RANDOM_FAULTS, "--seed", "8");
+        // the faults drew: scans lost at random, commands lost at random, so the comparison covers the fault draws too
+        JournalReader.Contents plant = JournalReader.readAll(first.folder().resolve("plant.jsonl"));
+        assertThat(plant.entries()).anyMatch(e -> e.kind().equals("published") && "dropped".equals(e.text("fate")));
+        assertThat(plant.entries()).anyMatch(e -> e.kind().equals(org.loopstand.plant.fault.FaultJournal.KIND_COMMAND_FAULT)
+                && "dropped".equals(e.text("fate")));
 
         assertThat(second.folder()).isNotEqualTo(first.folder());
         // no field is left out of the comparison: every journal time is scenario time on the virtual clock and
@@ -98,7 +109,7 @@ class LockstepStudyCommandTest {
             assertThat(Files.readAllBytes(second.folder().resolve(file))).as(file).isEqualTo(expected);
             assertThat(Files.readAllBytes(inOwnJvm.resolve(file))).as(file + " from another JVM").isEqualTo(expected);
         }
-        // not vacuous: the random seed reaches the load noise, so another seed gives another plant journal
+        // not vacuous: the random seed reaches the load noise and the fault draws, so another seed gives another journal
         assertThat(Files.readAllBytes(other.folder().resolve("plant.jsonl")))
                 .isNotEqualTo(Files.readAllBytes(first.folder().resolve("plant.jsonl")));
     }
