@@ -67,7 +67,8 @@ public final class CheckLibrary {
                 CommandChecks::noPulseWhileStale));
         t.add(new CheckType("expiredCommandsRefused", List.of(choice("unit", null, List.of(), "unit id"),
                 number("minExpired", "commands", 0, 1_000_000, 1.0, "fewest expired commands that must arrive for a verdict")),
-                false, false, "every command reaching the unit after validUntil was refused with reason expired",
+                false, false, "every command reaching the unit after validUntil was refused: as expired, or by a rule the"
+                        + " unit applies first (seq, epoch, signature)",
                 CommandChecks::expiredCommandsRefused));
         t.add(new CheckType("suspendedWithin", List.of(choice("controller", "*", List.of(), "controller id (* = any)"),
                 choice("area", "*", List.of(), "area whose suspension counts (* = any)"), AFTER_S,

@@ -61,12 +61,27 @@ final class CommandChecks {
                 + CheckOutcome.format(detectS) + " s to notice)", false);
     }
 
-    /** Every command that reached the unit after its validUntil was refused as expired and not acted on. */
+    /**
+     * Refusals a unit decides before it looks at validUntil (CommandGate's order: controller, epoch, seq,
+     * lifetime and issue time; the signature before all of them): an expired command refused for one of
+     * these was refused by the rule the unit applies first, not let through. A delayed command overtaken by a
+     * newer one is refused as out of order, for instance.
+     */
+    static final java.util.Set<RefusalReason> DECIDED_BEFORE_EXPIRY = java.util.EnumSet.of(RefusalReason.WRONG_CONTROLLER,
+            RefusalReason.WRONG_EPOCH, RefusalReason.DUPLICATE, RefusalReason.OUT_OF_ORDER, RefusalReason.BAD_LIFETIME,
+            RefusalReason.NOT_YET_VALID, RefusalReason.BAD_SIGNATURE, RefusalReason.MISSING_SIGNATURE,
+            RefusalReason.UNKNOWN_KEY, RefusalReason.REPLAYED);
+
+    /**
+     * Every command that reached the unit after its validUntil was refused and not acted on: as expired, or
+     * by a rule the unit applies before the expiry ({@link #DECIDED_BEFORE_EXPIRY}, counted in the detail).
+     */
     static CheckOutcome expiredCommandsRefused(CheckSpec spec, RunRecord run, Grid grid) {
         String unit = spec.text("unit");
         long start = run.runStartEpochMs();
         int expired = 0;
         int wrong = 0;
+        java.util.Map<RefusalReason, Integer> earlier = new java.util.EnumMap<>(RefusalReason.class);
         for (RunRecord.CommandRecord c : run.commands()) {
             if (!c.command().unit().equals(unit) || c.outcome() == null) {
                 continue;
@@ -74,17 +89,22 @@ final class CommandChecks {
             long receivedMs = start + Math.round(c.receivedS() * 1000);
             if (receivedMs > c.command().validUntil()) {
                 expired++;
-                if (c.acted() || c.outcome() == AckOutcome.ACCEPTED || c.reason() != RefusalReason.EXPIRED) {
+                boolean refused = !c.acted() && c.outcome() != AckOutcome.ACCEPTED;
+                if (refused && DECIDED_BEFORE_EXPIRY.contains(c.reason())) {
+                    earlier.merge(c.reason(), 1, Integer::sum);
+                } else if (!refused || c.reason() != RefusalReason.EXPIRED) {
                     wrong++;
                 }
             }
         }
+        String earlierText = earlier.isEmpty() ? "" : "; refused by a rule the unit applies before the expiry: "
+                + earlier.entrySet().stream().map(e -> e.getValue() + " " + e.getKey().wireName()).collect(Collectors.joining(", "));
         double minExpired = spec.number("minExpired");
         if (expired < minExpired) {
             return new CheckOutcome(spec.name(), false, Double.NaN, "commands", 0, "only " + expired
                     + " expired commands reached " + unit + "; the check needs at least " + CheckOutcome.format(minExpired), false);
         }
         return new CheckOutcome(spec.name(), wrong == 0, wrong, "commands", 0, wrong + " of " + expired
-                + " expired commands to " + unit + " were accepted, acted on or refused for another reason", false);
+                + " expired commands to " + unit + " were accepted, acted on or refused for another reason" + earlierText, false);
     }
 }

@@ -186,6 +186,22 @@ class CheckEvaluationTest {
     }
 
     @Test
+    void shouldCountAnExpiredCommandRefusedAsOutOfOrderAsRefusedButNotOneRefusedForNotBeingInRemote() {
+        RunRecord run = new RunRecord(T0);
+        // a delayed command (seq 2) overtaken by seq 3: the unit's seq rule, applied before the expiry, refuses it
+        run.commandHandled(T0 + 20_000, pulse(3, "basin-steam-1", 19, 8000), AckOutcome.ACCEPTED, null, true);
+        run.commandHandled(T0 + 25_000, pulse(2, "basin-steam-1", 10, 8000), AckOutcome.REJECTED, RefusalReason.OUT_OF_ORDER, false);
+        CheckOutcome out = check("expiredCommandsRefused", Map.of("unit", "basin-steam-1")).evaluate(run, grid);
+        assertThat(out.passed()).isTrue();
+        assertThat(out.detail()).contains("0 of 1 expired commands").contains("before the expiry: 1 outOfOrder");
+        // notInRemote is decided after the expiry: an expired command refused for it slipped past the expiry rule
+        run.commandHandled(T0 + 40_000, pulse(4, "basin-steam-1", 30, 8000), AckOutcome.REJECTED, RefusalReason.NOT_IN_REMOTE, false);
+        CheckOutcome bad = check("expiredCommandsRefused", Map.of("unit", "basin-steam-1")).evaluate(run, grid);
+        assertThat(bad.passed()).isFalse();
+        assertThat(bad.detail()).contains("1 of 2 expired commands");
+    }
+
+    @Test
     void shouldTimeTheControllersSuspensionAsAControllerSideCheck() {
         RunRecord run = new RunRecord(T0);
         run.controllerStatus(T0 + 96_000, status(ControllerState.REGULATING));
