@@ -4,6 +4,7 @@ import java.nio.file.Path;
 import java.time.Instant;
 import java.time.ZoneId;
 import java.time.format.DateTimeFormatter;
+import java.util.List;
 import java.util.concurrent.Callable;
 import org.loopstand.bench.run.BenchResult;
 import org.loopstand.bench.run.BenchSettings;
@@ -98,7 +99,8 @@ public final class BusCommand implements Callable<Integer> {
             System.err.println("bench: " + e.getMessage());
             return 2;
         }
-        BenchResult r = s.layout() == BenchSettings.Layout.PROCESSES ? new ProcessesBench(s, BusCommand::say).run()
+        BenchResult r = s.layout() == BenchSettings.Layout.PROCESSES
+                ? new ProcessesBench(s, BusCommand::say, List.of(BenchCli.class.getName(), "bus-part")).run()
                 : new BusBench(s, BusCommand::say).run();
         r.write(s.outDir());
         r.print(System.out);

@@ -66,18 +66,6 @@ public final class RawPahoLoop implements AutoCloseable {
         this.subscriber = new MqttAsyncClient(serverUri, clientPrefix + "-sub", new MemoryPersistence());
     }
 
-    /**
-     * The bench's raw loop: the rig's telemetry rate and size, paced as {@code s.rawPacing()} says
-     * (1 ms slots, or one burst per physics step of {@code stepS} s), started.
-     */
-    public static RawPahoLoop forBench(org.loopstand.bench.run.BenchSettings s, String serverUri, int payloadBytes,
-                                       double stepS, Clock clock) throws MqttException {
-        long slot = s.rawPacing() == org.loopstand.bench.run.BenchSettings.RawPacing.BURST
-                ? Math.round(stepS * 1e9) : 1_000_000L;
-        return new RawPahoLoop(serverUri, "bench-raw", "bench/raw", s.units() * 1000.0 / s.telemetryScanMs(),
-                payloadBytes, 0, slot, clock).start();
-    }
-
     public RawPahoLoop start() throws MqttException {
         subscriber.setCallback(new Callback());
         subscriber.connect(options()).waitForCompletion(10_000);

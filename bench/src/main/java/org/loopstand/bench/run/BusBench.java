@@ -18,6 +18,7 @@ import org.loopstand.controller.runtime.ControllerAgent;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.protocol.bus.BusCounters;
+import org.eclipse.paho.mqttv5.common.MqttException;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.WallClock;
 
@@ -59,7 +60,7 @@ public final class BusBench {
                     + " (" + plant.connections() + " plant connections), " + s.intakeConnections()
                     + " controller intake connection(s), telemetry " + telemetryBytes + " B");
             plant.start();
-            RawPahoLoop raw = s.raw() ? RawPahoLoop.forBench(s, broker.serverUri(), telemetryBytes, plant.stepS(), clock) : null;
+            RawPahoLoop raw = s.raw() ? rawLoop(s, broker.serverUri(), telemetryBytes, plant.stepS(), clock) : null;
             ResourceSampler sampler = new ResourceSampler(clock, broker.pid());
 
             sleepS(s.warmupS(), stamps);
@@ -148,5 +149,16 @@ public final class BusBench {
             LockSupport.parkNanos(200_000_000L);
             stamps.expire(clock.monotonicNanos());
         }
+    }
+
+    /**
+     * The bench's raw loop: the rig's telemetry rate and size, paced as {@code s.rawPacing()} says
+     * (1 ms slots, or one burst per physics step of {@code stepS} s), started.
+     */
+    static RawPahoLoop rawLoop(BenchSettings s, String serverUri, int payloadBytes, double stepS, Clock clock)
+            throws MqttException {
+        long slot = s.rawPacing() == BenchSettings.RawPacing.BURST ? Math.round(stepS * 1e9) : 1_000_000L;
+        return new RawPahoLoop(serverUri, "bench-raw", "bench/raw", s.units() * 1000.0 / s.telemetryScanMs(),
+                payloadBytes, 0, slot, clock).start();
     }
 }

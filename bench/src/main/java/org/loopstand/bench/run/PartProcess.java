@@ -34,7 +34,8 @@ final class PartProcess implements AutoCloseable {
         t.start();
     }
 
-    static PartProcess start(String role, BenchSettings s, Path settingsFile, String siteId, String serverUri)
+    static PartProcess start(String role, List<String> partMain, BenchSettings s, Path settingsFile, String siteId,
+                             String serverUri)
             throws IOException {
         List<String> cmd = new ArrayList<>();
         cmd.add(ProcessHandle.current().info().command().orElse("java"));
@@ -43,8 +44,9 @@ final class PartProcess implements AutoCloseable {
                 cmd.add(o.replace("{role}", role));
             }
         }
-        cmd.addAll(List.of("-cp", System.getProperty("java.class.path"), "org.loopstand.bench.cli.BenchCli", "bus-part",
-                "--role", role, "--settings", settingsFile.toString(), "--site-id", siteId, "--broker-uri", serverUri));
+        cmd.addAll(List.of("-cp", System.getProperty("java.class.path")));
+        cmd.addAll(partMain);
+        cmd.addAll(List.of("--role", role, "--settings", settingsFile.toString(), "--site-id", siteId, "--broker-uri", serverUri));
         Process p = new ProcessBuilder(cmd).redirectErrorStream(true).start();
         return new PartProcess(role, p, s.outDir().resolve("part-" + role + ".log"));
     }

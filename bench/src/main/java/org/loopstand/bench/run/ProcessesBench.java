@@ -27,11 +27,17 @@ public final class ProcessesBench {
 
     private final BenchSettings s;
     private final Consumer<String> say;
+    private final List<String> partMain;
     private final Clock clock = WallClock.INSTANCE;
 
-    public ProcessesBench(BenchSettings settings, Consumer<String> say) {
+    /**
+     * @param partMain the main class and sub-command that run one part ({@link BusPart}) in a JVM of its own;
+     *                 given by the command line, which owns the entry point
+     */
+    public ProcessesBench(BenchSettings settings, Consumer<String> say, List<String> partMain) {
         this.s = settings;
         this.say = say;
+        this.partMain = List.copyOf(partMain);
     }
 
     public BenchResult run() throws Exception {
@@ -41,10 +47,10 @@ public final class ProcessesBench {
         Path settingsFile = s.outDir().resolve("bench-settings.properties");
         SettingsFile.write(s, settingsFile);
         try (BenchBroker broker = BenchBroker.start(s.broker(), s.brokerConfig(), s.outDir());
-             PartProcess ctl = PartProcess.start("controller", s, settingsFile, siteId, broker.serverUri())) {
+             PartProcess ctl = PartProcess.start("controller", partMain, s, settingsFile, siteId, broker.serverUri())) {
             say.accept("bench: broker " + broker.kind() + " at " + broker.serverUri() + "; controller process " + ctl.pid());
             ctl.awaitReady(120);
-            try (PartProcess plant = PartProcess.start("plant", s, settingsFile, siteId, broker.serverUri())) {
+            try (PartProcess plant = PartProcess.start("plant", partMain, s, settingsFile, siteId, broker.serverUri())) {
                 Matcher m = READY_LINE.matcher(plant.awaitReady(180));
                 if (!m.find()) {
                     throw new IllegalStateException("plant process's ready line without telemetry size and step");
@@ -53,7 +59,7 @@ public final class ProcessesBench {
                 double stepS = Double.parseDouble(m.group(2));
                 say.accept("bench: layout processes, " + s.units() + " units, " + s.areas() + " areas; plant process "
                         + plant.pid() + ", telemetry " + telemetryBytes + " B");
-                RawPahoLoop raw = s.raw() ? RawPahoLoop.forBench(s, broker.serverUri(), telemetryBytes, stepS, clock) : null;
+                RawPahoLoop raw = s.raw() ? BusBench.rawLoop(s, broker.serverUri(), telemetryBytes, stepS, clock) : null;
                 ResourceSampler sampler = new ResourceSampler(clock, broker.pid());
                 LockSupport.parkNanos(Math.round(s.warmupS() * 1e9));
                 if (raw != null) {

@@ -115,7 +115,7 @@ class BusCommandTest {
         BenchSettings s = new BenchSettings(10, 2, 4, 2, broker.serverUri(), Path.of("config/broker/mosquitto-bench.conf"),
                 ConnectionGrouping.POOLED, 2, 2, 1000, 2000, 1, 2, true, true, 100, 0, dir.resolve("run"),
                 BenchSettings.Layout.PROCESSES, BenchSettings.RawPacing.BURST, "-Xss1m -Xmx128m");
-        BenchResult r = new ProcessesBench(s, line -> { }).run();
+        BenchResult r = new ProcessesBench(s, line -> { }, java.util.List.of(BenchCli.class.getName(), "bus-part")).run();
         r.write(s.outDir());
         assertThat(r.plantFailure()).isNull();
         // the figures came from the two processes: the controller's cycles and input ages, the plant's steps

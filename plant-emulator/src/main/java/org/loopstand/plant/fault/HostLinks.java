@@ -7,7 +7,7 @@ import java.util.Set;
 /**
  * What network faults need from the rig's hosts: which hosts there are, and a way to cut, impair and
  * restore the link between two of them. Implemented for hosts that are network namespaces on one
- * machine ({@code org.loopstand.plant.network.NamespaceHostLinks}); a deployment on real machines
+ * machine ({@code NamespaceHostLinks} in the plant's network package); a deployment on real machines
  * plugs in its own (e.g. one that asks each host's agent to filter the other's address). Called on
  * the plant agent's thread when a fault starts and ends.
  */
