@@ -7,6 +7,7 @@ import java.util.stream.Collectors;
 
 import org.loopstand.plant.grid.GeneratingUnit;
 import org.loopstand.plant.grid.Grid;
+import org.loopstand.plant.unit.CommandGate;
 import org.loopstand.protocol.message.AckOutcome;
 import org.loopstand.protocol.message.RefusalReason;
 
@@ -62,19 +63,9 @@ final class CommandChecks {
     }
 
     /**
-     * Refusals a unit decides before it looks at validUntil (CommandGate's order: controller, epoch, seq,
-     * lifetime and issue time; the signature before all of them): an expired command refused for one of
-     * these was refused by the rule the unit applies first, not let through. A delayed command overtaken by a
-     * newer one is refused as out of order, for instance.
-     */
-    static final java.util.Set<RefusalReason> DECIDED_BEFORE_EXPIRY = java.util.EnumSet.of(RefusalReason.WRONG_CONTROLLER,
-            RefusalReason.WRONG_EPOCH, RefusalReason.DUPLICATE, RefusalReason.OUT_OF_ORDER, RefusalReason.BAD_LIFETIME,
-            RefusalReason.NOT_YET_VALID, RefusalReason.BAD_SIGNATURE, RefusalReason.MISSING_SIGNATURE,
-            RefusalReason.UNKNOWN_KEY, RefusalReason.REPLAYED);
-
-    /**
      * Every command that reached the unit after its validUntil was refused and not acted on: as expired, or
-     * by a rule the unit applies before the expiry ({@link #DECIDED_BEFORE_EXPIRY}, counted in the detail).
+     * by a rule the unit applies before the expiry ({@link CommandGate#DECIDED_BEFORE_EXPIRY}, counted in the
+     * detail; a delayed command overtaken by a newer one is refused as out of order, for instance).
      */
     static CheckOutcome expiredCommandsRefused(CheckSpec spec, RunRecord run, Grid grid) {
         String unit = spec.text("unit");
@@ -90,7 +81,7 @@ final class CommandChecks {
             if (receivedMs > c.command().validUntil()) {
                 expired++;
                 boolean refused = !c.acted() && c.outcome() != AckOutcome.ACCEPTED;
-                if (refused && DECIDED_BEFORE_EXPIRY.contains(c.reason())) {
+                if (refused && CommandGate.DECIDED_BEFORE_EXPIRY.contains(c.reason())) {
                     earlier.merge(c.reason(), 1, Integer::sum);
                 } else if (!refused || c.reason() != RefusalReason.EXPIRED) {
                     wrong++;

@@ -35,6 +35,16 @@ public final class CommandGate {
      */
     static final long MAX_SEQ_STEP = 1_000;
 
+    /**
+     * Refusals decided before the expiry rule in the order above (the signature, checked before the gate,
+     * included): an expired command refused for one of these was not let through, it met an earlier rule.
+     */
+    public static final java.util.Set<RefusalReason> DECIDED_BEFORE_EXPIRY = java.util.Collections.unmodifiableSet(
+            java.util.EnumSet.of(RefusalReason.WRONG_CONTROLLER, RefusalReason.WRONG_EPOCH, RefusalReason.DUPLICATE,
+                    RefusalReason.OUT_OF_ORDER, RefusalReason.BAD_LIFETIME, RefusalReason.NOT_YET_VALID,
+                    RefusalReason.BAD_SIGNATURE, RefusalReason.MISSING_SIGNATURE, RefusalReason.UNKNOWN_KEY,
+                    RefusalReason.REPLAYED));
+
     private final UnitSettings settings;
     private final ControllerTenure tenure;
     private final Map<String, Long> lastSeqByController = new HashMap<>();
