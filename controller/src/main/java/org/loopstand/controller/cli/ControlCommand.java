@@ -9,7 +9,7 @@ import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.controller.config.ControllerSiteConfig;
 import org.loopstand.controller.config.ControllerSiteReader;
 import org.loopstand.controller.pulsetest.safety.SafetyGate;
-import org.loopstand.controller.runtime.BusClock;
+import org.loopstand.protocol.time.BusClock;
 import org.loopstand.controller.runtime.ControllerAgent;
 import org.loopstand.protocol.agent.AgentRunner;
 import org.loopstand.protocol.bus.MessageBus;

@@ -34,6 +34,7 @@ import org.loopstand.protocol.security.CommandSigner;
 import org.loopstand.protocol.security.LinkSecurity;
 import org.loopstand.protocol.security.CommandTimeRules;
 import org.loopstand.protocol.security.SecuritySetupException;
+import org.loopstand.protocol.time.BusClock;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.PlantClockFollower;
 import org.loopstand.protocol.time.WallClock;
@@ -144,7 +145,7 @@ public final class PulseTestCommand implements Callable<Integer> {
                 return 4;
             }
             if (followPlantClock) {
-                Optional<Clock> plantClock = PlantClockFollower.await(link, topics, WallClock.INSTANCE, 10_000);
+                Optional<BusClock> plantClock = PlantClockFollower.follow(link, topics, WallClock.INSTANCE, 10_000);
                 if (plantClock.isEmpty()) {
                     System.err.println("pulse-test: no tick on " + topics.clock() + " within 10 s (is the plant "
                             + "running with --rate other than 1?)");

@@ -34,6 +34,7 @@ import org.loopstand.protocol.message.ControllerStatus;
 import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.security.CommandSigner;
 import org.loopstand.protocol.security.StatusSeal;
+import org.loopstand.protocol.time.BusClock;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.topic.TopicTree;
 import org.slf4j.Logger;

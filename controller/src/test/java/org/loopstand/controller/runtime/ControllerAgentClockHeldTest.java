@@ -13,6 +13,7 @@ import org.loopstand.protocol.bus.memory.InMemoryBus;
 import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.ClockTick;
 import org.loopstand.protocol.message.ControllerStatus;
+import org.loopstand.protocol.time.BusClock;
 import org.loopstand.protocol.time.VirtualClock;
 import org.loopstand.protocol.topic.TopicTree;
 

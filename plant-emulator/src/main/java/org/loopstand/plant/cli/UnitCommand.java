@@ -15,6 +15,7 @@ import org.loopstand.protocol.security.AuthOptions;
 import org.loopstand.protocol.security.LinkSecurity;
 import org.loopstand.protocol.security.SecuritySetupException;
 import org.loopstand.protocol.time.AcceleratedClock;
+import org.loopstand.protocol.time.BusClock;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.PlantClockFollower;
 import org.loopstand.protocol.time.SystemTime;
@@ -42,8 +43,8 @@ public final class UnitCommand implements Callable<Integer> {
     double rate;
 
     @Option(names = "--clock", defaultValue = "own", paramLabel = "own|bus", description = "own: scenario time runs at --rate"
-            + " from this process's start; bus: scenario time and rate from a fresh tick on the plant's clock topic, so"
-            + " the unit's times agree with the plant's (default ${DEFAULT-VALUE})")
+            + " from this process's start; bus: scenario time follows the plant's clock ticks (from the first fresh"
+            + " tick on, holds and slow-downs included), so the unit's times agree with the plant's (default ${DEFAULT-VALUE})")
     String clockMode;
 
     /** How long --clock bus waits for the plant's first fresh tick, wall ms (tests shorten it). */
@@ -83,9 +84,13 @@ public final class UnitCommand implements Callable<Integer> {
         System.err.println(security.startMessage());
         LinkFactory links;
         Clock clock;
+        BusClock plantClock = null;
         try {
             links = MqttLinks.to(broker, WallClock.INSTANCE, security, grid.siteId());
-            clock = "bus".equals(clockMode) ? plantClock(links, grid.siteId()) : rate == 1.0 ? WallClock.INSTANCE
+            if ("bus".equals(clockMode)) {
+                plantClock = plantClock(links, grid.siteId());
+            }
+            clock = "bus".equals(clockMode) ? plantClock : rate == 1.0 ? WallClock.INSTANCE
                     : new AcceleratedClock(WallClock.INSTANCE, rate, SystemTime.wallEpochMillis());
         } catch (IllegalArgumentException e) {
             System.err.println("unit: refused: " + e.getMessage());
@@ -101,6 +106,10 @@ public final class UnitCommand implements Callable<Integer> {
             process = new UnitProcess(grid.siteId(), grid.units().get(grid.unitIndex(unit)), iface.options(), iface.qos(),
                     links, clock);
             PlantSecurity.requireSignedCommands(security, java.util.List.of(process.unitInterface()), clock);
+            if (plantClock != null) {
+                // from here on every tick on the unit's own connection moves its clock (the pace keeper's holds too)
+                PlantClockFollower.feed(process.bus(), TopicTree.forSite(grid.siteId()), plantClock);
+            }
         } catch (IllegalArgumentException e) {
             System.err.println("unit: refused: " + e.getMessage());
             return 2;
@@ -118,12 +127,13 @@ public final class UnitCommand implements Callable<Integer> {
     }
 
     /**
-     * Follows the plant's clock: connects as the unit (same client id and identity, no last will), waits
-     * for a fresh running tick and disconnects before the unit's own connection opens.
+     * Takes the plant's clock: connects as the unit (same client id and identity, no last will), waits
+     * for a fresh running tick and disconnects before the unit's own connection opens (which then feeds
+     * the clock every later tick).
      *
      * @return the plant's scenario time, or null when no fresh tick came in time
      */
-    private Clock plantClock(LinkFactory links, String siteId) throws InterruptedException {
+    private BusClock plantClock(LinkFactory links, String siteId) throws InterruptedException {
         MessageBus bus = links.connect(UnitProcess.clientId(siteId, unit), null);
         try {
             return PlantClockFollower.await(bus, TopicTree.forSite(siteId), WallClock.INSTANCE, plantTickTimeoutMs)

@@ -1,10 +1,9 @@
-package org.loopstand.controller.runtime;
+package org.loopstand.protocol.time;
 
 import static org.assertj.core.api.Assertions.assertThat;
 
 import org.junit.jupiter.api.Test;
 import org.loopstand.protocol.message.ClockTick;
-import org.loopstand.protocol.time.VirtualClock;
 
 /** {@code --clock bus}: scenario time from the plant's clock ticks, extrapolated at their rate. */
 class BusClockTest {

@@ -1,7 +1,6 @@
-package org.loopstand.controller.runtime;
+package org.loopstand.protocol.time;
 
 import org.loopstand.protocol.message.ClockTick;
-import org.loopstand.protocol.time.Clock;
 
 /**
  * Scenario time followed from the plant's clock ticks ({@code --clock bus}): the latest tick's
