@@ -2,11 +2,13 @@ package org.loopstand.plant.cli;
 
 import java.nio.file.Path;
 import java.util.Locale;
+import java.util.Map;
 import java.util.concurrent.Callable;
 import java.util.concurrent.CountDownLatch;
 
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.runtime.LinkFactory;
+import org.loopstand.plant.journal.PlantRunJournal;
 import org.loopstand.plant.runtime.UnitProcess;
 import org.loopstand.protocol.config.ConfigFileException;
 import org.loopstand.plant.site.SiteLoader;
@@ -14,6 +16,7 @@ import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.security.AuthOptions;
 import org.loopstand.protocol.security.LinkSecurity;
 import org.loopstand.protocol.security.SecuritySetupException;
+import org.loopstand.protocol.journal.EndReason;
 import org.loopstand.protocol.time.AcceleratedClock;
 import org.loopstand.protocol.time.BusClock;
 import org.loopstand.protocol.time.Clock;
@@ -46,6 +49,10 @@ public final class UnitCommand implements Callable<Integer> {
             + " from this process's start; bus: scenario time follows the plant's clock ticks (from the first fresh"
             + " tick on, holds and slow-downs included), so the unit's times agree with the plant's (default ${DEFAULT-VALUE})")
     String clockMode;
+
+    @Option(names = "--journal", paramLabel = "DIR", description = "run folder for unit-UNIT.jsonl and unit-UNIT.hlog: the"
+            + " unit's command fates, decisions with their reason codes, telemetry and acks (none if absent)")
+    Path journalDir;
 
     /** How long --clock bus waits for the plant's first fresh tick, wall ms (tests shorten it). */
     long plantTickTimeoutMs = 10_000;
@@ -114,9 +121,26 @@ public final class UnitCommand implements Callable<Integer> {
             System.err.println("unit: refused: " + e.getMessage());
             return 2;
         }
+        PlantRunJournal journal;
+        try {
+            journal = journalDir == null ? null : PlantRunJournal.create(journalDir, "unit-" + unit, clock.epochMillis(),
+                    Map.of("site", grid.siteId(), "unit", unit, "broker", broker, "clock", clockMode), clock,
+                    WallClock.INSTANCE, 0);
+        } catch (RuntimeException e) {
+            System.err.println("unit: refused: journal in " + journalDir + ": " + e.getMessage());
+            process.close();
+            return 2;
+        }
+        if (journal != null) {
+            process.journalTo(journal);
+        }
         CountDownLatch stopped = new CountDownLatch(1);
+        Clock journalClock = clock;
         Runtime.getRuntime().addShutdownHook(new Thread(() -> {
             process.close();
+            if (journal != null) {
+                journal.close(journalClock.epochMillis(), EndReason.STOPPED);
+            }
             stopped.countDown();
         }, "unit-shutdown"));
         process.start();

@@ -143,12 +143,27 @@ public final class PlantRunJournal implements PlantJournal.Sink, org.loopstand.p
      */
     public static PlantRunJournal create(Path dir, long startedAtMs, Map<String, ?> header, Clock scenarioClock,
                                          Clock wallClock, int queueCapacity) {
+        return create(dir, "plant", startedAtMs, header, scenarioClock, wallClock, queueCapacity);
+    }
+
+    /**
+     * As {@link #create(Path, long, Map, Clock, Clock, int)} under another name: {@code NAME.jsonl} and
+     * {@code NAME.hlog}, process {@code NAME} in the header (a unit interface in a process of its own
+     * journals as {@code unit-{unit}}, beside the plant's journal in the same run folder).
+     *
+     * @param name file and process name, letters, digits, '-' and '_' only
+     */
+    public static PlantRunJournal create(Path dir, String name, long startedAtMs, Map<String, ?> header,
+                                         Clock scenarioClock, Clock wallClock, int queueCapacity) {
         if (queueCapacity < 0 || queueCapacity > 10_000_000) {
             throw new IllegalArgumentException("journal queue capacity must be in [0, 10000000], got " + queueCapacity);
         }
-        JournalWriter w = JournalWriter.create(dir.resolve("plant.jsonl"), "plant", startedAtMs, header, wallClock,
+        if (name == null || !name.matches("[A-Za-z0-9_-]+")) {
+            throw new IllegalArgumentException("journal name must be letters, digits, '-' and '_', got '" + name + "'");
+        }
+        JournalWriter w = JournalWriter.create(dir.resolve(name + ".jsonl"), name, startedAtMs, header, wallClock,
                 JournalWriter.DEFAULT_FLUSH_INTERVAL);
-        HistogramLogs h = HistogramLogs.create(dir.resolve("plant.hlog"), scenarioClock, 3_600_000_000L, 3, 10_000);
+        HistogramLogs h = HistogramLogs.create(dir.resolve(name + ".hlog"), scenarioClock, 3_600_000_000L, 3, 10_000);
         return new PlantRunJournal(w, queueCapacity == 0 ? null : new QueuedJournal(w, queueCapacity, "plant-journal"), h);
     }
 

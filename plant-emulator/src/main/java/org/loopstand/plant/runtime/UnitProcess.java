@@ -4,6 +4,7 @@ import java.util.List;
 
 import org.loopstand.plant.field.RemoteTurbineField;
 import org.loopstand.plant.grid.GeneratingUnit;
+import org.loopstand.plant.journal.PlantRunJournal;
 import org.loopstand.plant.unit.InterfaceOptions;
 import org.loopstand.plant.unit.PlantJournal;
 import org.loopstand.plant.unit.UnitPlantInterface;
@@ -24,6 +25,9 @@ public final class UnitProcess implements AutoCloseable {
     private final MessageBus bus;
     private final UnitProcessAgent agent;
     private final UnitPlantInterface unitInterface;
+    private final ControlCentreLink link;
+    private final OperatorOrders orders;
+    private final Clock clock;
     private final PlantJournal journal = new PlantJournal();
     private AgentRunner runner;
 
@@ -35,7 +39,7 @@ public final class UnitProcess implements AutoCloseable {
         long seqStart = clock.epochMillis();
         this.bus = links.connect(clientId, ControlCentreLink.lastWill(topics, codec, unit.id(), clientId, seqStart, seqStart));
         RemoteTurbineField field = new RemoteTurbineField(unit.id(), bus, topics, codec, clock).start();
-        ControlCentreLink link = new ControlCentreLink(unit.id(), bus, topics, codec, clock, telemetryQos, 256);
+        this.link = new ControlCentreLink(unit.id(), bus, topics, codec, clock, telemetryQos, 256);
         UnitPlantInterface ui = new UnitPlantInterface(UnitSettings.of(unit, options), field, clock, link, journal, seqStart);
         this.unitInterface = ui;
         UnitDutyCycle cycle = new UnitDutyCycle(ui, link, codec);
@@ -51,7 +55,8 @@ public final class UnitProcess implements AutoCloseable {
             public void onDisconnected(Throwable cause) {
             }
         });
-        OperatorOrders orders = new OperatorOrders(List.of(cycle), codec).subscribe(bus, topics);
+        this.orders = new OperatorOrders(List.of(cycle), codec).subscribe(bus, topics);
+        this.clock = clock;
         this.agent = new UnitProcessAgent(cycle, field, orders);
     }
 
@@ -62,6 +67,20 @@ public final class UnitProcess implements AutoCloseable {
 
     public UnitProcess start() {
         runner = new AgentRunner(agent, 1_000_000L).start();
+        return this;
+    }
+
+    /**
+     * Journals the unit's side from now on (call before {@link #start()}): every command's fate, each
+     * decision (watchdog, mode, refusal codes, status refusals) with its reason, telemetry and acks sent,
+     * command-to-reference latency; the caller closes the journal.
+     */
+    public UnitProcess journalTo(PlantRunJournal j) {
+        journal.attach(j);
+        link.journalTo(j);
+        orders.journalTo(j, clock);
+        unitInterface.latency().listen((what, us) -> j.record("toReference".equals(what)
+                ? PlantRunJournal.COMMAND_TO_REFERENCE_US : PlantRunJournal.COMMAND_TO_OUTPUT_US, us));
         return this;
     }
 

@@ -3,9 +3,13 @@ package org.loopstand.plant.runtime;
 import static org.assertj.core.api.Assertions.assertThat;
 
 import java.nio.file.Path;
+import java.util.List;
+import java.util.Map;
 
 import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
 import org.loopstand.plant.grid.Grid;
+import org.loopstand.plant.journal.PlantRunJournal;
 import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.plant.unit.InterfaceOptions;
 import org.loopstand.plant.unit.UnitPlantInterface;
@@ -15,6 +19,9 @@ import org.loopstand.protocol.bus.memory.DeliveryMode;
 import org.loopstand.protocol.bus.memory.InMemoryBroker;
 import org.loopstand.protocol.bus.memory.InMemoryBus;
 import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.journal.EndReason;
+import org.loopstand.protocol.journal.JournalEntry;
+import org.loopstand.protocol.journal.JournalReader;
 import org.loopstand.protocol.message.ClockTick;
 import org.loopstand.protocol.message.FieldReading;
 import org.loopstand.protocol.message.PulseDirection;
@@ -29,7 +36,8 @@ import org.loopstand.protocol.topic.TopicTree;
 /**
  * A unit interface in a process of its own ({@code unit --clock bus}) keeps to the plant's scenario time
  * after the first tick: while the plant's pace keeper holds its clock or runs it slower, the unit judges
- * a command's validUntil on the plant's time, not on the wall clock at the first tick's rate.
+ * a command's validUntil on the plant's time, not on the wall clock at the first tick's rate, and journals
+ * each command's fate in its own journal.
  */
 class UnitProcessPlantClockTest {
     private static final String UNIT = "basin-steam-1";
@@ -41,6 +49,9 @@ class UnitProcessPlantClockTest {
     private final InMemoryBus plant = broker.connect("demo-site-plant");
     private final TopicTree topics = TopicTree.forSite("demo-site");
     private long tickSeq = 100;
+
+    @TempDir
+    Path dir;
 
     private void tick(long scenarioMs, double rate, boolean running) {
         plant.publish(new OutboundMessage(topics.clock(), codec.encode(new ClockTick(++tickSeq, scenarioMs, scenarioMs - SCENARIO_MS,
@@ -60,6 +71,8 @@ class UnitProcessPlantClockTest {
         UnitProcess unit = new UnitProcess("demo-site", grid.units().get(grid.unitIndex(UNIT)), InterfaceOptions.defaults(),
                 Qos.AT_MOST_ONCE, broker::connect, clock);
         PlantClockFollower.feed(unit.bus(), topics, clock);
+        PlantRunJournal journal = PlantRunJournal.create(dir, "unit-" + UNIT, clock.epochMillis(), Map.of(), clock, wall, 0);
+        unit.journalTo(journal);
         UnitPlantInterface ui = unit.unitInterface();
         plant.publish(new OutboundMessage(topics.fieldReading(UNIT), codec.encode(new FieldReading(1, SCENARIO_MS, UNIT, 600,
                 600, UnitStatus.ONLINE)), Qos.AT_MOST_ONCE, false, 0)); // the plant's physics serves the unit's turbine
@@ -76,5 +89,13 @@ class UnitProcessPlantClockTest {
         ui.onCommand(pulse(2, SCENARIO_MS + 6_000, 4_000), clock.monotonicNanos()); // valid to +10 s: expired at +13 s
         assertThat(ui.refusalCount(RefusalReason.EXPIRED)).as("expired on the plant's slowed time").isEqualTo(1);
         unit.close();
+        journal.close(clock.epochMillis(), EndReason.STOPPED);
+
+        // the unit process's own journal keeps both fates, the refusal with its reason code and figures
+        List<JournalEntry> commands = JournalReader.readAll(dir.resolve("unit-" + UNIT + ".jsonl")).entries().stream()
+                .filter(e -> e.kind().equals("command")).toList();
+        assertThat(commands).extracting(e -> e.get("commandSeq").asLong() + " " + e.text("outcome") + " " + e.text("reason"))
+                .containsExactly("1 accepted null", "2 rejected expired");
+        assertThat(commands.get(1).text("detail")).contains("validUntil " + (SCENARIO_MS + 10_000));
     }
 }

@@ -161,7 +161,8 @@ public final class BrokerAccessModel {
                     // the rig's plant process emulates every area's meters on its own connection
                     new AclRule(Access.WRITE, t.filterAll(TopicKind.AREA_METER)),
                     new AclRule(Access.READ, t.filterAll(TopicKind.FIELD_REFERENCE)),
-                    new AclRule(Access.READ, t.faults()))));
+                    // READWRITE: a scenario's modeChange reaches a unit running elsewhere as an operator order
+                    new AclRule(Access.READWRITE, t.faults()))));
             put(ids, new BrokerIdentity(FAULT_TOOL_USER, Role.FAULT_TOOL, List.of(
                     new AclRule(Access.READWRITE, t.faults()))));
             for (String a : areas) {
