@@ -25,16 +25,17 @@ import org.loopstand.protocol.security.broker.TestPki;
 /**
  * The unit-trip rehearsal (rate 20) across hosts (network namespaces) on the three-node cluster, secured
  * as off loopback it must be: TLS on every node, a login per process, signed commands. Host 1: node n1 and
- * the plant with every unit's interface (list n1,n2,n3); host 2: node n2 only; host 3: node n3 and the
- * controller. Verdict from the journals: the plant's truth (frequency back inside ±50 mHz after the trip)
+ * the plant with four units' interfaces (list n1,n2,n3); host 2: node n2 and two units' interfaces as
+ * processes of their own, one per area ({@code unit --clock bus --journal}, list n2,n1,n3); host 3: node n3
+ * and the controller. Verdict from the journals: the plant's truth (frequency back inside ±50 mHz after the trip)
  * and the controller's (regulating at the end, commands acked, none executed twice). After the trip the
  * scenario cuts the controller's host from the plant's for 80 s ({@code partition}, applied by the plant
  * through a hosts file): see {@link #checkPartition}.
  *
- * <p>The units' interfaces stay in the plant process: a {@code unit} process started with {@code --rate 20}
- * runs its accelerated clock from its own start, so its scenario time trails the plant's by 19 times the
- * gap between the two starts and the controller finds its telemetry too old (seen in a first version of
- * this test: no command went to the units on host 2).
+ * <p>The unit processes follow the plant's clock ticks ({@code --clock bus}): a {@code unit} process started
+ * with {@code --rate 20} runs its accelerated clock from its own start, so its scenario time trails the
+ * plant's by 19 times the gap between the two starts and the controller finds its telemetry too old (seen
+ * in a first version of this test: no command went to the units on host 2).
  */
 class CrossHostRehearsalTest {
     private static final Path CONFIG = Path.of("../../config/broker/artemis/broker-node.xml");
@@ -42,6 +43,8 @@ class CrossHostRehearsalTest {
     private static final Path SCENARIO = Path.of("../../config/scenarios/cross-host-partition.yaml");
     private static final List<String> UNITS = List.of("basin-steam-1", "basin-steam-2", "basin-gas-1", "ridge-hydro-1",
             "ridge-hydro-2", "ridge-steam-1");
+    /** run as {@code unit} processes on host 2, one per area; the plant runs the others */
+    private static final List<String> ELSEWHERE = List.of("basin-gas-1", "ridge-steam-1");
     private static final int MQTT_PORT = 8883;
     private static final long TRIP_AT_MS = 120_000;
     private static final String STORE_PASSWORD = "store-password-0123";
@@ -58,7 +61,8 @@ class CrossHostRehearsalTest {
         if (hosts != null) {
             hosts.close();
         }
-        children.keepOutput("cross-host-run", "run/plant.jsonl", "run/controller.jsonl");
+        children.keepOutput("cross-host-run", "run/plant.jsonl", "run/controller.jsonl", "run/unit-basin-gas-1.jsonl",
+                "run/unit-ridge-steam-1.jsonl");
     }
 
     @Test
@@ -109,9 +113,20 @@ class CrossHostRehearsalTest {
                 1, 3, 3);
         plant.addAll(List.of("plant", "--site", SITE.toString(), "--scenario", SCENARIO.toString(), "--rate", "20",
                 "--broker", list(1, 2, 3), "--duration", "70", "--journal", run.toString(), "--credentials-file",
-                usersFile.toString(), "--hosts", hostsFile.toString()));
+                usersFile.toString(), "--hosts", hostsFile.toString(), "--units",
+                String.join(",", UNITS.stream().filter(u -> !ELSEWHERE.contains(u)).toList())));
         plant.addAll(tls);
         Process plantProcess = launch(plant, "plant");
+        awaitStarted(dir.resolve("plant.out"), "plant: site demo-site", 40_000); // its clock ticks from here on
+        List<Process> unitProcesses = new ArrayList<>();
+        for (String u : ELSEWHERE) {
+            List<String> unit = hosts.java(2, "-Xmx128m", "org.loopstand.plant.cli.PlantCli");
+            unit.addAll(List.of("unit", "--site", SITE.toString(), "--unit", u, "--broker", list(2, 1, 3), "--clock", "bus",
+                    "--journal", run.toString(), "--username", "unit-" + u, "--password-file",
+                    dir.resolve("unit-" + u + ".password").toString()));
+            unit.addAll(tls);
+            unitProcesses.add(launch(unit, "unit-" + u));
+        }
         Path controllerSite = children.pulsesOnlySite(SITE);
         List<String> control = hosts.java(3, "-Xmx256m", "org.loopstand.controller.cli.ControllerCli");
         control.addAll(List.of("control", "--site", controllerSite.toString(), "--broker",
@@ -129,6 +144,11 @@ class CrossHostRehearsalTest {
         assertThat(plantProcess.waitFor(125, TimeUnit.SECONDS)).as("plant ends with its scenario").isTrue();
         controller.destroy();
         assertThat(controller.waitFor(20, TimeUnit.SECONDS)).isTrue();
+        for (Process u : unitProcesses) {
+            assertThat(u.isAlive()).as("unit process still running at the end").isTrue();
+            u.destroy(); // SIGTERM: its shutdown hook closes its journal
+            assertThat(u.waitFor(20, TimeUnit.SECONDS)).isTrue();
+        }
         check(run);
     }
 
@@ -183,7 +203,7 @@ class CrossHostRehearsalTest {
         List<JournalEntry> lastMinute = decided.stream().filter(e -> e.tMs() > lastMs - 60_000 && e.tMs() < lastMs)
                 .toList();
         assertThat(lastMinute).isNotEmpty().allSatisfy(e -> assertThat(e.text("state")).isEqualTo("regulating"));
-        checkPartition(plant, j);
+        checkPartition(plant, j, run);
     }
 
     /**
@@ -192,17 +212,28 @@ class CrossHostRehearsalTest {
      * regulated again and the units (returned to remote at 730 s) took its commands; its first commands
      * after each resume did not bump the units (the plant's noBumpAfterResume verdict).
      */
-    private void checkPartition(JournalReader.Contents plant, JournalReader.Contents controller) throws IOException {
+    private void checkPartition(JournalReader.Contents plant, JournalReader.Contents controller, Path run)
+            throws IOException {
         List<JournalEntry> networkFaults = of(plant, "networkFault");
         String link = "[\"" + hosts.hub() + "/" + hosts.hubSide(3) + "\"] 80.0";
         assertThat(networkFaults.stream().map(e -> e.text("action") + " " + e.get("links") + " " + e.get("windowS")))
                 .containsExactly("partition " + link, "partitionLifted " + link);
         long cutMs = networkFaults.get(0).tMs();
         long healMs = networkFaults.get(1).tMs();
-        List<JournalEntry> fellBack = of(plant, JournalFormat.KIND_EVENT).stream()
+        List<JournalEntry> events = new ArrayList<>(of(plant, JournalFormat.KIND_EVENT));
+        for (String u : ELSEWHERE) { // the unit processes on host 2 journal their own decisions
+            JournalReader.Contents unit = JournalReader.readAll(run.resolve("unit-" + u + ".jsonl"));
+            assertThat(unit.summary().damagedLines()).isEmpty();
+            assertThat(of(unit, "command")).as(u + " took commands from the controller across the cluster")
+                    .anySatisfy(e -> assertThat(e.text("outcome")).isEqualTo("accepted"));
+            events.addAll(of(unit, JournalFormat.KIND_EVENT));
+        }
+        List<JournalEntry> fellBack = events.stream()
                 .filter(e -> "watchdog".equals(e.text("event")) && e.tMs() > cutMs && e.tMs() < healMs).toList();
-        // the demo site's units: 30 s watchdog (site file), so each left remote inside the 80 s cut
-        assertThat(fellBack.stream().map(e -> e.text("unit")).distinct()).hasSize(UNITS.size() - 1); // ridge-hydro-2 tripped
+        // the demo site's units: 30 s watchdog (site file), so each left remote inside the 80 s cut, on host 1
+        // and on host 2 alike
+        assertThat(fellBack.stream().map(e -> e.text("unit")).distinct()).hasSize(UNITS.size() - 1) // ridge-hydro-2 tripped
+                .containsAll(ELSEWHERE);
         List<JournalEntry> decided = of(controller, JournalFormat.KIND_DECIDED);
         // blind during the cut, the controller extrapolates the plant's clock at the last tick's rate; a plant
         // that slowed its pace meanwhile (a loaded machine) is found far behind after the heal and followed back
