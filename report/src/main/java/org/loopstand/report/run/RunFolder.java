@@ -79,6 +79,35 @@ public record RunFolder(Path folder, Map<String, JournalReader.Contents> journal
         return new RunFolder(folder, journals, skipped);
     }
 
+    /** Journal name prefix of a unit interface that ran as a process of its own ({@code unit --journal}). */
+    public static final String UNIT_JOURNAL_PREFIX = "unit-";
+
+    /**
+     * The plant side of the run: the plant's journal with those of the unit interfaces that ran as
+     * processes of their own ({@code unit-*.jsonl}, the same entry kinds), merged by entry time (stable:
+     * entries of equal time keep the plant's first, then file name order).
+     *
+     * @return the merged entries; empty when there is no plant journal and no unit journal
+     */
+    public List<JournalEntry> plantSideEntries() {
+        List<JournalEntry> all = new ArrayList<>();
+        JournalReader.Contents plant = journals.get("plant");
+        if (plant != null) {
+            all.addAll(plant.entries());
+        }
+        boolean units = false;
+        for (Map.Entry<String, JournalReader.Contents> j : journals.entrySet()) {
+            if (j.getKey().startsWith(UNIT_JOURNAL_PREFIX)) {
+                all.addAll(j.getValue().entries());
+                units = true;
+            }
+        }
+        if (units) {
+            all.sort(java.util.Comparator.comparingLong(JournalEntry::tMs));
+        }
+        return all;
+    }
+
     /** @return true when any journal lacks its end entry */
     public boolean cutShort() {
         return journals.values().stream().anyMatch(c -> c.summary().cutShort());

@@ -74,7 +74,8 @@ public final class RunReportBuilder {
         if (!(epsilon1Hz > 0)) {
             throw new IllegalArgumentException("epsilon1Hz must be positive, got " + epsilon1Hz);
         }
-        List<JournalEntry> plant = entries(run, "plant");
+        // units that ran as processes of their own journal their part of the plant side beside plant.jsonl
+        List<JournalEntry> plant = run.plantSideEntries();
         List<JournalEntry> ctl = entries(run, "controller");
         ObjectNode ph = header(run, "plant");
         ObjectNode ch = header(run, "controller");

@@ -63,4 +63,26 @@ class RunFolderTest {
                         + " is not a Loopstand journal: first line has no \"journal\":\"loopstand\")");
         assertThat(run.cutShort()).isFalse();
     }
+
+    @Test
+    void shouldMergeTheJournalsOfUnitProcessesIntoThePlantSideByTime() {
+        VirtualClock wall = new VirtualClock(0);
+        try (JournalWriter plant = JournalWriter.create(dir.resolve("plant.jsonl"), "plant", 1000, wall);
+                JournalWriter unit = JournalWriter.create(dir.resolve("unit-gas-2.jsonl"), "unit-gas-2", 1000, wall);
+                JournalWriter controller = JournalWriter.create(dir.resolve("controller.jsonl"), "controller", 1000, wall)) {
+            plant.append(1010, "command", Map.of("unit", "steam-1", "outcome", "accepted"));
+            unit.append(1005, "command", Map.of("unit", "gas-2", "outcome", "rejected", "reason", "expired"));
+            unit.append(1030, "event", Map.of("event", "watchdog", "unit", "gas-2"));
+            controller.append(1020, "decided", Map.of("aceMw", -4.0));
+            plant.append(1030, "truth", Map.of("area", "north", "frequencyHz", 59.99));
+            plant.close(1060, EndReason.COMPLETED);
+            unit.close(1050, EndReason.STOPPED);
+            controller.close(1060, EndReason.COMPLETED);
+        }
+
+        RunFolder run = RunFolder.read(dir);
+        assertThat(run.journals()).containsOnlyKeys("controller", "plant", "unit-gas-2");
+        assertThat(run.plantSideEntries()).extracting(e -> e.tMs() + " " + e.kind())
+                .containsExactly("1005 command", "1010 command", "1030 truth", "1030 event");
+    }
 }
