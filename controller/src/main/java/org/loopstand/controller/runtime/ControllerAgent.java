@@ -77,6 +77,7 @@ public final class ControllerAgent implements Agent {
     private final CommandSender sender;
     private final StatusPublisher status;
     private final AreaSuspensionJournal areaSuspensions;
+    private final ClockSilenceWatch clockSilence;
     private volatile boolean linkUp;
     private CycleScheduler scheduler;
     private CycleOutcome lastOutcome;
@@ -124,6 +125,7 @@ public final class ControllerAgent implements Agent {
         if (busClock != null) {
             intake.onClockTick(busClock::onTick);
         }
+        this.clockSilence = busClock == null ? null : new ClockSilenceWatch(busClock, journalEvents::add);
     }
 
     /**
@@ -205,7 +207,8 @@ public final class ControllerAgent implements Agent {
 
     @Override
     public int doWork() {
-        int work = drainArrivals();
+        int work = clockSilence == null ? 0 : clockSilence.poll();
+        work += drainArrivals();
         work += heartbeatWhileStill();
         if (scheduler == null) {
             if (busClock != null && !busClock.synced()) {
@@ -300,7 +303,8 @@ public final class ControllerAgent implements Agent {
             }
             ControllerState state = o.state() == InterlockState.REGULATING ? ControllerState.REGULATING
                     : ControllerState.SUSPENDED;
-            status.publish(state, o.reasons(), tick.cycleNumber(), aces, excluded.units(),
+            status.publish(state, clockSilence == null ? o.reasons() : clockSilence.withSilence(o.reasons()),
+                    tick.cycleNumber(), aces, excluded.units(),
                     AreaSuspensionJournal.forStatus(o));
         }
         if (journal != null) {
