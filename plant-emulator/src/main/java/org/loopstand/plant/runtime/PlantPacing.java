@@ -113,6 +113,7 @@ public final class PlantPacing {
     /** the current hold is the leash's (a stall), not one this keeper made */
     private boolean leashHold;
     private long slips;
+    private long slipSlowdowns;
     private long slipWallNanos;
     private double notRunS;
 
@@ -238,6 +239,7 @@ public final class PlantPacing {
         if (slow) {
             lastChangeWallNanos = w;
             slowdowns++;
+            slipSlowdowns++;
             lowestRate = Math.min(lowestRate, to);
         }
         Map<String, Object> e = entry("paceSlipped", from, to);
@@ -351,7 +353,7 @@ public final class PlantPacing {
                         + " (clock held %d times and slowed %d times, held %.0f ms in all, slipped %d times on stalls of the"
                         + " loop (%.0f ms in all, %.1f s of scenario not run), lowest rate %.1fx, physics at most"
                         + " %.2f s behind; limit %.2f s); rehearse at a lower --rate for this machine",
-                trim(clock.rate()), kept, wallS, holds + slowdowns, slowdowns, heldWallNanos / 1e6, slips,
+                trim(clock.rate()), kept, wallS, keeperHolds(), slowdowns, heldWallNanos / 1e6, slips,
                 slipWallNanos / 1e6, notRunS, lowestRate, maxLateNanos / 1e9, settings.lagS()));
     }
 
@@ -361,8 +363,13 @@ public final class PlantPacing {
         return String.format(Locale.ROOT, "pace: asked %sx, kept %.1fx, clock held %d times (%.0f ms in all), slowed %d"
                         + " times, raised %d times, slipped %d times (stalls %.0f ms in all, %.1f s of scenario not run),"
                         + " physics at most %.3f s behind (limit %.2f s)",
-                trim(clock.rate()), simulatedS / wallS, holds + slowdowns, heldWallNanos / 1e6, slowdowns, raises, slips,
+                trim(clock.rate()), simulatedS / wallS, keeperHolds(), heldWallNanos / 1e6, slowdowns, raises, slips,
                 slipWallNanos / 1e6, notRunS, maxLateNanos / 1e9, settings.lagS());
+    }
+
+    /** @return holds this keeper made on the physics' lag (kept or slowed after), the leash's slips apart */
+    private long keeperHolds() {
+        return holds + slowdowns - commandPathSlowdowns - slipSlowdowns;
     }
 
     private static String trim(double v) {
