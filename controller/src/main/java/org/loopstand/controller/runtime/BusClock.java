@@ -50,6 +50,10 @@ public final class BusClock implements Clock {
     private long lastSeq = Long.MIN_VALUE;
     private long lateTicksIgnored;
     private long silences;
+    /** wall ns the controller's own bus link went down (no tick can come), {@link Long#MAX_VALUE} while up */
+    private volatile long linkDownWallNanos = Long.MAX_VALUE;
+    /** the source was found silent since the current anchor (so the next tick ends a silence) */
+    private volatile boolean silentSeen;
     /** wall ns the latest silence lasted, up to the tick that ended it */
     private long lastSilenceWallNanos;
 
@@ -67,10 +71,11 @@ public final class BusClock implements Clock {
             return;
         }
         lastSeq = tick.seq();
-        if (a != null && silentWallNanos(a) > 0) {
+        if (a != null && (silentWallNanos(a) > 0 || silentSeen)) {
             silences++;
             lastSilenceWallNanos = wall.monotonicNanos() - a.wallNanos();
         }
+        silentSeen = false;
         if (a != null) {
             long behindNanos = scenarioNanos(a) - tick.sourceTime() * 1_000_000L;
             if (behindNanos > RESTART_BEHIND_MS * 1_000_000L) {
@@ -106,22 +111,46 @@ public final class BusClock implements Clock {
         if (a.rate() <= 0) {
             return base;
         }
-        long elapsed = wall.monotonicNanos() - a.wallNanos();
+        long w = wall.monotonicNanos();
+        long elapsed = w - a.wallNanos();
         long capWall = EXTRAPOLATED_TICK_PERIODS * tickPeriodWallNanos(a.rate());
         if (elapsed <= capWall) {
             return base + (long) (elapsed * a.rate());
         }
-        long silentAfter = silentAfterWallNanos(a.rate());
-        // stands at the cap until the silence limit, then runs on blind from there (never a jump)
-        return base + (long) ((capWall + Math.max(0, elapsed - silentAfter)) * a.rate());
+        // stands at the cap until the source is silent, then runs on blind from there (never a jump)
+        return base + (long) ((capWall + Math.max(0, w - silentAtWallNanos(a, capWall))) * a.rate());
+    }
+
+    /** @return wall ns from which the source behind anchor {@code a} is silent: the limit, or at once when the link is down */
+    private long silentAtWallNanos(Anchor a, long capWall) {
+        long silentAt = a.wallNanos() + silentAfterWallNanos(a.rate());
+        long down = linkDownWallNanos;
+        return down == Long.MAX_VALUE ? silentAt : Math.min(silentAt, Math.max(down, a.wallNanos() + capWall));
     }
 
     private long silentWallNanos(Anchor a) {
         if (a == null || a.rate() <= 0) {
             return 0;
         }
-        long elapsed = wall.monotonicNanos() - a.wallNanos();
-        return elapsed >= silentAfterWallNanos(a.rate()) ? elapsed : 0;
+        long w = wall.monotonicNanos();
+        long capWall = EXTRAPOLATED_TICK_PERIODS * tickPeriodWallNanos(a.rate());
+        if (w < silentAtWallNanos(a, capWall)) {
+            return 0;
+        }
+        silentSeen = true;
+        return w - a.wallNanos();
+    }
+
+    /**
+     * Any thread: the controller's own bus link went down ({@code up} false) or came back. While it is down
+     * no tick can come, so the source counts as silent at once (after the two tick periods' extrapolation)
+     * instead of after the silence limit: cycles run on blind and suspend for the link ({@code busLinkDown}).
+     */
+    public void linkUp(boolean up) {
+        if (up) {
+            silentWallNanos(anchor); // a silence while it was down ends with the next tick, not with the link
+        }
+        linkDownWallNanos = up ? Long.MAX_VALUE : wall.monotonicNanos();
     }
 
     /**

@@ -184,12 +184,18 @@ public final class ControllerAgent implements Agent {
             @Override
             public void onConnected(boolean reconnect) {
                 linkUp = true;
+                if (busClock != null) {
+                    busClock.linkUp(true);
+                }
                 journalEvents.add(Map.of("event", reconnect ? "busReconnected" : "busConnected"));
             }
 
             @Override
             public void onDisconnected(Throwable cause) {
                 linkUp = false;
+                if (busClock != null) {
+                    busClock.linkUp(false); // no tick can come: the clock runs on blind, cycles suspend for the link
+                }
                 journalEvents.add(Map.of("event", "busLinkDown", "cause", String.valueOf(cause)));
             }
         });

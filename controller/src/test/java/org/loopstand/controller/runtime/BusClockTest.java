@@ -115,4 +115,23 @@ class BusClockTest {
         assertThat(BusClock.silentAfterWallNanos(0.5)).isEqualTo(3_000_000_000L);
         assertThat(BusClock.tickPeriodWallNanos(40)).isEqualTo(25_000_000L);
     }
+
+    @Test
+    void shouldRunOnBlindAtOnceWhenItsOwnLinkIsDownAndWaitAgainOnceItIsBack() {
+        clock.onTick(tick(1, SCENARIO_MS, 20, true)); // a tick every 50 ms of wall at rate 20
+        wall.advanceMillis(300); // stands at 2 s
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 2_000);
+        clock.linkUp(false); // the controller's broker connection dropped: no tick can come
+        assertThat(clock.silentWallNanos()).isEqualTo(300_000_000L);
+        wall.advanceMillis(500); // blind from where it stood, at 20x
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 12_000);
+        clock.linkUp(true);
+        clock.onTick(tick(2, SCENARIO_MS + 16_000, 20, true));
+        assertThat(clock.silencesEnded()).isEqualTo(1);
+        wall.advanceMillis(100);
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 18_000);
+        wall.advanceMillis(500); // link up: stands at two tick periods past the tick again
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 18_000);
+        assertThat(clock.silentWallNanos()).isZero();
+    }
 }
