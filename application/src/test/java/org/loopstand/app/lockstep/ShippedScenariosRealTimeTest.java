@@ -23,7 +23,8 @@ import org.loopstand.protocol.journal.JournalReader;
  * embedded broker) and the lockstep run of {@code study --with-controller}. Each check must come out the
  * same in both, name → pass/fail.
  *
- * <p>The rehearsals run {@link #AT_ONCE} at a time at rate {@link #RATE} while the test thread does the lockstep
+ * <p>The rehearsals run {@link #AT_ONCE} at a time (system property {@code realtime.parallel} to change it, e.g.
+ * {@code -Drealtime.parallel=1} for one at a time) at rate {@link #RATE} while the test thread does the lockstep
  * runs. Minutes of wall time on a 2-core machine (docs/performance.md, "Lockstep against real time"), so it is tagged
  * {@code realtime-comparison} and kept out of the normal build:
  * {@code ./mvnw -pl application -am test -Dtest=ShippedScenariosRealTimeTest -Drealtime.excludedGroups=none
@@ -36,8 +37,25 @@ import org.loopstand.protocol.journal.JournalReader;
 class ShippedScenariosRealTimeTest {
     /** Scenario seconds per wall second of the real-time rehearsals. */
     static final double RATE = 40;
-    /** Real-time rehearsals at the same time (two JVMs each). */
+    /** Real-time rehearsals at the same time (two JVMs each), unless {@code -Drealtime.parallel=N} says otherwise. */
     static final int AT_ONCE = 4;
+
+    /** @return how many rehearsals run at once: {@code realtime.parallel} when set, else {@link #AT_ONCE} */
+    static int atOnce() {
+        String v = System.getProperty("realtime.parallel", "").trim();
+        if (v.isEmpty()) {
+            return AT_ONCE;
+        }
+        try {
+            int n = Integer.parseInt(v);
+            if (n >= 1) {
+                return n;
+            }
+        } catch (NumberFormatException e) {
+            // falls through to the message below
+        }
+        throw new IllegalArgumentException("realtime.parallel must be a whole number ≥ 1, got '" + v + "'");
+    }
 
     @TempDir
     static Path runs;
@@ -52,7 +70,7 @@ class ShippedScenariosRealTimeTest {
             planned.add(new RealTimeRehearsals.Planned(scenario, ShippedScenariosLockstepTest.siteOf(scenario),
                     ShippedScenariosLockstepTest.load(scenario).scenario().durationS()));
         }
-        rehearsals = new RealTimeRehearsals(planned, RATE, AT_ONCE, Files.createDirectory(runs.resolve("real-time")));
+        rehearsals = new RealTimeRehearsals(planned, RATE, atOnce(), Files.createDirectory(runs.resolve("real-time")));
     }
 
     @AfterAll

@@ -78,6 +78,7 @@ public final class ControllerAgent implements Agent {
     private final CommandSender sender;
     private final StatusPublisher status;
     private final AreaSuspensionJournal areaSuspensions;
+    private final ClockSilenceWatch clockSilence;
     private volatile boolean linkUp;
     private CycleScheduler scheduler;
     private CycleOutcome lastOutcome;
@@ -125,6 +126,7 @@ public final class ControllerAgent implements Agent {
         if (busClock != null) {
             intake.onClockTick(busClock::onTick);
         }
+        this.clockSilence = busClock == null ? null : new ClockSilenceWatch(busClock, journalEvents::add);
     }
 
     /**
@@ -183,12 +185,18 @@ public final class ControllerAgent implements Agent {
             @Override
             public void onConnected(boolean reconnect) {
                 linkUp = true;
+                if (busClock != null) {
+                    busClock.linkUp(true);
+                }
                 journalEvents.add(Map.of("event", reconnect ? "busReconnected" : "busConnected"));
             }
 
             @Override
             public void onDisconnected(Throwable cause) {
                 linkUp = false;
+                if (busClock != null) {
+                    busClock.linkUp(false); // no tick can come: the clock runs on blind, cycles suspend for the link
+                }
                 journalEvents.add(Map.of("event", "busLinkDown", "cause", String.valueOf(cause)));
             }
         });
@@ -206,7 +214,8 @@ public final class ControllerAgent implements Agent {
 
     @Override
     public int doWork() {
-        int work = drainArrivals();
+        int work = clockSilence == null ? 0 : clockSilence.poll();
+        work += drainArrivals();
         work += heartbeatWhileStill();
         if (scheduler == null) {
             if (busClock != null && !busClock.synced()) {
@@ -301,7 +310,8 @@ public final class ControllerAgent implements Agent {
             }
             ControllerState state = o.state() == InterlockState.REGULATING ? ControllerState.REGULATING
                     : ControllerState.SUSPENDED;
-            status.publish(state, o.reasons(), tick.cycleNumber(), aces, excluded.units(),
+            status.publish(state, clockSilence == null ? o.reasons() : clockSilence.withSilence(o.reasons()),
+                    tick.cycleNumber(), aces, excluded.units(),
                     AreaSuspensionJournal.forStatus(o));
         }
         if (journal != null) {

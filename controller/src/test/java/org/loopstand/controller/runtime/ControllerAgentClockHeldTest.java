@@ -52,19 +52,25 @@ class ControllerAgentClockHeldTest {
         assertThat(statuses).filteredOn(s -> s.reasons().equals(List.of("waitingForClock"))).hasSizeGreaterThanOrEqualTo(4); // at 200, 400, 600, 800 ms
         long cyclesWhileHeld = agent.cyclesRun();
         assertThat(cyclesWhileHeld).isLessThanOrEqualTo(1);
-        // the go: the clock runs at rate 40, cycles run and take over the heartbeat
-        plant.publish(new OutboundMessage(topics.clock(), codec.encode(new ClockTick(2, WALL0, 0, 40, true)),
-                Qos.AT_MOST_ONCE, true, 0));
+        // the go: the clock runs at rate 40 (a tick every 100 ms of wall here, 4 s of scenario), cycles run and
+        // take over the heartbeat
         for (int i = 0; i < 10; i++) {
+            tick(plant, 2 + i, i * 4_000L);
             agent.doWork();
             wall.advanceMillis(100);
         }
         assertThat(agent.cyclesRun()).isGreaterThan(cyclesWhileHeld + 5); // 1 s of wall = 40 s of scenario = 10 cycles
         int atFirstCycle = statuses.size();
         for (int i = 0; i < 2; i++) { // 200 ms of wall = 8 s of scenario time at rate 40: two cycles
+            tick(plant, 12 + i, (10 + i) * 4_000L);
             agent.doWork();
             wall.advanceMillis(100);
         }
         assertThat(statuses.subList(atFirstCycle, statuses.size())).noneMatch(s -> s.reasons().contains("waitingForClock"));
+    }
+
+    private void tick(InMemoryBus plant, long seq, long scenarioMs) {
+        plant.publish(new OutboundMessage(topics.clock(), codec.encode(new ClockTick(seq, WALL0 + scenarioMs, scenarioMs, 40,
+                true)), Qos.AT_MOST_ONCE, true, 0));
     }
 }

@@ -157,6 +157,11 @@ public final class ScenarioEngine implements ScenarioContext {
         return stepNanos;
     }
 
+    /** @return the time the physics has reached on the engine's clock scale: its start reading + steps × step, ns */
+    public long physicsClockNanos() {
+        return startNanos + sim.stepCount() * stepNanos;
+    }
+
     /** @return the run record, or null when none is kept */
     public RunRecord record() {
         return record;

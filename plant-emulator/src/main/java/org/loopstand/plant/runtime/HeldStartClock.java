@@ -9,6 +9,14 @@ import org.loopstand.protocol.time.Clock;
  * run on at another rate ({@link #runAt(double)}); scenario time never jumps and never goes back.
  * Lets a plant connect everything and a controller join before scenario time starts to run, and
  * lets a plant that cannot keep the asked rate slow its clock instead of falling behind it.
+ *
+ * <p><b>Leash.</b> With {@link #leashTo(long)} the clock never reads more than the limit ahead of the
+ * physics' time, which the plant loop tells it after every step ({@link #physicsAt(long)}). A reading
+ * that would pass physics + limit (the loop stalled: a GC pause, a busy machine) holds the clock at
+ * physics + limit, dated back to the wall instant it reached that point ({@link #leashHolds()}); the
+ * pace keeper lets it run on once the physics has caught up. So every reader (clock ticks, command
+ * arrival stamps, expiry checks, journal) sees a time the physics is at most the limit behind, and a
+ * stall costs scenario time (the clock stood still) instead of a stretch of physics run open loop.
  * Thread-safe.
  */
 public final class HeldStartClock implements Clock {
@@ -22,6 +30,13 @@ public final class HeldStartClock implements Clock {
     private volatile Segment segment;
     /** rate of the latest running segment (the asked rate until the pace keeper changes it) */
     private volatile double lastRunningRate;
+    /** longest lead of the clock over the physics, ns; {@link Long#MAX_VALUE} = no leash */
+    private volatile long leashNanos = Long.MAX_VALUE;
+    /** the physics' time on this clock's scale, ns; {@link Long#MIN_VALUE} until the loop tells it */
+    private volatile long physicsNanos = Long.MIN_VALUE;
+    private volatile long leashHolds;
+    /** wall instant the latest leash hold began (the clock reached physics + limit), ns */
+    private volatile long leashHoldWallNanos;
 
     /**
      * @param wall the wall clock underneath
@@ -64,7 +79,7 @@ public final class HeldStartClock implements Clock {
         Segment s = segment;
         if (s != null && s.rate() > 0) {
             long w = wall.monotonicNanos();
-            segment = new Segment(scenarioNanos(s, w), w, 0.0);
+            segment = new Segment(Math.min(scenarioNanos(s, w), leashCap()), w, 0.0);
         }
     }
 
@@ -79,9 +94,47 @@ public final class HeldStartClock implements Clock {
         Segment s = segment;
         if (s != null) {
             long w = wall.monotonicNanos();
-            segment = new Segment(scenarioNanos(s, w), w, newRate);
+            segment = new Segment(Math.min(scenarioNanos(s, w), leashCap()), w, newRate);
             lastRunningRate = newRate;
         }
+    }
+
+    /**
+     * From now on the clock reads at most {@code limitNanos} ahead of the physics' time (once the loop
+     * has told it, {@link #physicsAt}).
+     *
+     * @param limitNanos scenario ns, &gt; 0
+     */
+    public void leashTo(long limitNanos) {
+        if (limitNanos <= 0) {
+            throw new IllegalArgumentException("leash must be a positive number of scenario ns, got " + limitNanos);
+        }
+        this.leashNanos = limitNanos;
+    }
+
+    /**
+     * Loop thread, after every step: the time the physics has reached, on this clock's scale (the
+     * monotonic reading the step was due at).
+     *
+     * @param nanos scenario ns
+     */
+    public void physicsAt(long nanos) {
+        physicsNanos = nanos;
+    }
+
+    /** @return how many times the clock reached the leash and held (a count the pace keeper watches) */
+    public long leashHolds() {
+        return leashHolds;
+    }
+
+    /** @return wall ns at which the latest leash hold began (the clock reached physics + limit) */
+    public long leashHoldWallNanos() {
+        return leashHoldWallNanos;
+    }
+
+    /** @return the leash, scenario ns ({@link Long#MAX_VALUE} when none) */
+    public long leashNanos() {
+        return leashNanos;
     }
 
     /** @return the asked rate, scenario seconds per wall second */
@@ -103,9 +156,41 @@ public final class HeldStartClock implements Clock {
         return startEpochMs + Math.floorDiv(monotonicNanos(), 1_000_000L);
     }
 
+    /** @return physics + leash, scenario ns ({@link Long#MAX_VALUE} without a leash or before the physics told) */
+    private long leashCap() {
+        long p = physicsNanos;
+        long l = leashNanos;
+        return p == Long.MIN_VALUE || l == Long.MAX_VALUE ? Long.MAX_VALUE : p + l;
+    }
+
     @Override
     public long monotonicNanos() {
         Segment s = segment;
-        return s == null ? 0L : scenarioNanos(s, wall.monotonicNanos());
+        if (s == null) {
+            return 0L;
+        }
+        long n = scenarioNanos(s, wall.monotonicNanos());
+        long cap = leashCap();
+        return n <= cap ? n : holdAtLeash();
+    }
+
+    /** The clock passed physics + limit: it holds there, dated back to the wall instant it got there. */
+    private synchronized long holdAtLeash() {
+        Segment s = segment;
+        long w = wall.monotonicNanos();
+        long n = scenarioNanos(s, w);
+        long cap = leashCap();
+        if (n <= cap) {
+            return n; // another reader held it, or the physics moved on meanwhile
+        }
+        // never back: a clock already held (rate 0) beyond the cap stays where it stands
+        long at = Math.max(cap, s.scenarioNanos());
+        long reachedWall = s.rate() > 0 ? s.wallNanos() + (long) ((at - s.scenarioNanos()) / s.rate()) : w;
+        if (s.rate() > 0) {
+            segment = new Segment(at, Math.min(w, Math.max(s.wallNanos(), reachedWall)), 0.0);
+            leashHoldWallNanos = segment.wallNanos();
+            leashHolds++;
+        }
+        return at;
     }
 }

@@ -60,10 +60,15 @@ public final class PlantAgent implements Agent {
     private int unitSlices = 1;
     private Consumer<PlantAgent> sampler;
     private int unitWork;
+    /** the scenario clock the physics' time is told to after every step (its leash), or null */
+    private final HeldStartClock leashed;
 
     private final ScenarioEngine.StepHook stepHook = new ScenarioEngine.StepHook() {
         @Override
         public void stepped(long latenessNanos) {
+            if (leashed != null) {
+                leashed.physicsAt(engine.physicsClockNanos()); // before the pace keeper looks at the step
+            }
             p.lateness().record(latenessNanos);
             journal.stepped(latenessNanos);
         }
@@ -88,6 +93,10 @@ public final class PlantAgent implements Agent {
         this.journal = new PlantLoopJournal(parts.clock(), parts.sim(), parts.units(), this::epochMsAt);
         this.engine = new ScenarioEngine(parts.sim(), parts.clock(), parts.events()).listen(journal);
         engine.plantControls(controls);
+        this.leashed = parts.clock() instanceof HeldStartClock h ? h : null;
+        if (leashed != null) {
+            leashed.physicsAt(engine.physicsClockNanos());
+        }
     }
 
     /**

@@ -24,6 +24,15 @@ import org.loopstand.protocol.time.Clock;
  * different verdict. At the end {@link #finish(double)} compares the rate kept over the run with the
  * asked one and says {@code RATE NOT KEPT} beyond {@link Settings#notKeptFactor()}.
  *
+ * <p>It also puts the clock on a leash of {@link Settings#lagS()} ({@link HeldStartClock#leashTo}): the
+ * clock never reads more than that ahead of the physics, so a stall of the loop (a GC pause, a busy
+ * machine) holds the clock the moment the limit is reached, not after the next step ran with the
+ * physics already far behind (at rate 40 a 0.5 s stall is 20 s of scenario time, which the physics
+ * would otherwise run open loop while the controller's inputs went stale). When the physics has caught
+ * up, the clock runs on from where it stood (it never jumps), at the same rate when the catch-up was
+ * fast and slower when not, as after a hold; journaled as {@code paceSlipped} with the stall's wall ms,
+ * the scenario seconds not run, the limit and the rates, counted in {@code paceSummary} and the end line.
+ *
  * <p>It watches the command path too ({@link #onCommandArrived}): a command that arrives from the bus
  * with more than a share (default {@value #COMMAND_AGE_SHARE}) of its validity already gone (scenario time from its
  * {@code issuedAt} to its arrival) shows that controller, broker or link were held up for longer than the
@@ -99,6 +108,14 @@ public final class PlantPacing {
     private long heldWallNanos;
     private double lowestRate;
     private long goWallNanos = -1;
+    /** leash holds of the clock already taken up */
+    private long leashHoldsSeen;
+    /** the current hold is the leash's (a stall), not one this keeper made */
+    private boolean leashHold;
+    private long slips;
+    private long slipSlowdowns;
+    private long slipWallNanos;
+    private double notRunS;
 
     /**
      * @param clock     the scenario clock it holds and slows
@@ -118,6 +135,8 @@ public final class PlantPacing {
         this.lagNanos = Math.round(settings.lagS() * 1e9);
         this.calmNanos = Math.round(settings.calmWallS() * 1e9);
         this.lowestRate = clock.rate();
+        clock.leashTo(lagNanos);
+        this.leashHoldsSeen = clock.leashHolds();
     }
 
     /** Watches the loop's steps from now on. */
@@ -140,6 +159,16 @@ public final class PlantPacing {
     public void onStep(long lateNanos) {
         if (lateNanos > maxLateNanos) {
             maxLateNanos = lateNanos;
+        }
+        if (!holding && clock.leashHolds() != leashHoldsSeen) {
+            // the clock reached the leash (the loop stalled): it stands still until the physics caught up
+            leashHoldsSeen = clock.leashHolds();
+            if (!clock.running()) {
+                holding = true;
+                leashHold = true;
+                holdStartWallNanos = wall.monotonicNanos(); // the loop steps again from here: the catch-up's start
+                holdMaxLateNanos = lateNanos;
+            }
         }
         if (holding) {
             holdMaxLateNanos = Math.max(holdMaxLateNanos, lateNanos);
@@ -178,6 +207,11 @@ public final class PlantPacing {
         double to = slow ? Math.max(MIN_RATE, rounded(from * settings.slowFactor())) : from;
         clock.runAt(to);
         holding = false;
+        if (leashHold) {
+            leashHold = false;
+            slipped(w, from, to, slow, catchUpRate);
+            return;
+        }
         heldWallNanos += w - holdStartWallNanos;
         if (slow) {
             lastChangeWallNanos = w;
@@ -192,6 +226,29 @@ public final class PlantPacing {
         e.put("behindS", holdMaxLateNanos / 1e9);
         e.put("limitS", settings.lagS());
         e.put("heldWallMs", (w - holdStartWallNanos) / 1e6);
+        journal.accept(e);
+    }
+
+    /** Journals a stall the leash caught: the clock stood from the instant it reached the leash until now. */
+    private void slipped(long w, double from, double to, boolean slow, double catchUpRate) {
+        long stoodWallNanos = Math.max(0, w - clock.leashHoldWallNanos());
+        double notRun = stoodWallNanos / 1e9 * from;
+        slips++;
+        slipWallNanos += stoodWallNanos;
+        notRunS += notRun;
+        if (slow) {
+            lastChangeWallNanos = w;
+            slowdowns++;
+            slipSlowdowns++;
+            lowestRate = Math.min(lowestRate, to);
+        }
+        Map<String, Object> e = entry("paceSlipped", from, to);
+        e.put("reason", "physicsLag");
+        e.put("stallWallMs", stoodWallNanos / 1e6);
+        e.put("notRunS", Math.round(notRun * 1000) / 1000.0);
+        e.put("limitS", settings.lagS());
+        e.put("behindS", holdMaxLateNanos / 1e9);
+        e.put("catchUpRate", rounded(catchUpRate));
         journal.accept(e);
     }
 
@@ -280,6 +337,9 @@ public final class PlantPacing {
         e.put("holds", holds);
         e.put("raises", raises);
         e.put("heldWallMs", heldWallNanos / 1e6);
+        e.put("slips", slips);
+        e.put("slipWallMs", slipWallNanos / 1e6);
+        e.put("notRunS", Math.round(notRunS * 1000) / 1000.0);
         e.put("lowestRate", lowestRate);
         e.put("maxBehindS", maxLateNanos / 1e9);
         e.put("lagLimitS", settings.lagS());
@@ -290,20 +350,26 @@ public final class PlantPacing {
             return Optional.empty();
         }
         return Optional.of(String.format(Locale.ROOT, "RATE NOT KEPT: asked %sx, kept %.1fx over %.1f s wall"
-                        + " (clock held %d times and slowed %d times, held %.0f ms in all, lowest rate %.1fx, physics at most"
+                        + " (clock held %d times and slowed %d times, held %.0f ms in all, slipped %d times on stalls of the"
+                        + " loop (%.0f ms in all, %.1f s of scenario not run), lowest rate %.1fx, physics at most"
                         + " %.2f s behind; limit %.2f s); rehearse at a lower --rate for this machine",
-                trim(clock.rate()), kept, wallS, holds + slowdowns, slowdowns, heldWallNanos / 1e6, lowestRate, maxLateNanos / 1e9,
-                settings.lagS()));
+                trim(clock.rate()), kept, wallS, keeperHolds(), slowdowns, heldWallNanos / 1e6, slips,
+                slipWallNanos / 1e6, notRunS, lowestRate, maxLateNanos / 1e9, settings.lagS()));
     }
 
     /** @return a one-line account of the pacing so far, for the plant's last lines */
     public String describe(double simulatedS) {
         double wallS = goWallNanos < 0 ? Double.NaN : (wall.monotonicNanos() - goWallNanos) / 1e9;
         return String.format(Locale.ROOT, "pace: asked %sx, kept %.1fx, clock held %d times (%.0f ms in all), slowed %d"
-                        + " times, raised %d times, physics at most %.3f s behind (limit %.2f s)",
-                trim(clock.rate()), simulatedS / wallS, holds + slowdowns, heldWallNanos / 1e6, slowdowns, raises,
-                maxLateNanos / 1e9,
-                settings.lagS());
+                        + " times, raised %d times, slipped %d times (stalls %.0f ms in all, %.1f s of scenario not run),"
+                        + " physics at most %.3f s behind (limit %.2f s)",
+                trim(clock.rate()), simulatedS / wallS, keeperHolds(), heldWallNanos / 1e6, slowdowns, raises, slips,
+                slipWallNanos / 1e6, notRunS, maxLateNanos / 1e9, settings.lagS());
+    }
+
+    /** @return holds this keeper made on the physics' lag (kept or slowed after), the leash's slips apart */
+    private long keeperHolds() {
+        return holds + slowdowns - commandPathSlowdowns - slipSlowdowns;
     }
 
     private static String trim(double v) {

@@ -268,7 +268,7 @@ class PlantAgentTest {
     }
 
     @Test
-    void shouldHoldTheScenarioClockRatherThanRunThePhysicsLate() throws Exception {
+    void shouldHoldTheScenarioClockAtTheLeashWhenTheLoopStallsRatherThanRunThePhysicsLate() throws Exception {
         HeldStartClock scenario = new HeldStartClock(clock, 40);
         try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of(), 40, scenario)) {
             List<Map<String, Object>> paceEntries = new java.util.ArrayList<>();
@@ -279,26 +279,35 @@ class PlantAgentTest {
             pacing.started();
             run(p, 0.1); // 4 scenario s, on time
             assertThat(paceEntries).isEmpty();
-            clock.advanceMillis(1_000); // the loop misses a wall second: the clock is 40 s ahead of the physics
+            clock.advanceMillis(1_000); // the loop misses a wall second: unleashed, the clock would be 40 s ahead
+            // every reader sees at most the physics + the 1 s limit: the clock stood there from 25 ms into the stall
+            assertThat(scenario.monotonicNanos() / 1e9).isCloseTo(p.sim().timeS() + 1.0, within(1e-9));
+            long stoodAtNanos = scenario.monotonicNanos();
             for (int i = 0; i < 20; i++) {
-                p.agent().doWork(); // at most 250 steps (5 s) a pass: the clock is held while the physics catches up
+                p.agent().doWork(); // the physics catches up the 1 s (50 steps) in the first pass, the clock runs on
                 clock.advanceMillis(10);
             }
             assertThat(paceEntries).singleElement().satisfies(e -> {
-                // caught up 40 s in about 80 ms of wall time: a one-off hold-up, so the rate is kept
-                assertThat(e).containsEntry("event", "paceHeld").containsEntry("fromRate", 40.0).containsEntry("toRate", 40.0);
-                // held at the first late step: the clock stood at 44 s, the physics at 4 s
-                assertThat((Double) e.get("behindS")).isCloseTo(40.0, within(p.sim().stepS()));
-                assertThat((Double) e.get("atS")).isCloseTo(44.0, within(p.sim().stepS()));
+                // one stall: the rate is kept, the scenario seconds not run are said
+                assertThat(e).containsEntry("event", "paceSlipped").containsEntry("fromRate", 40.0)
+                        .containsEntry("toRate", 40.0).containsEntry("limitS", 1.0)
+                        .containsEntry("stallWallMs", 975.0) // 1000 ms of stall less the 25 ms the clock ran to the leash
+                        .containsEntry("notRunS", 39.0); // 975 ms at 40x
+                assertThat((Double) e.get("behindS")).isCloseTo(1.0, within(p.sim().stepS()));
+                assertThat((Double) e.get("atS")).isCloseTo(5.0, within(p.sim().stepS())); // 4 s + the 1 s limit
             });
-            // the physics caught up with the held clock and both run on at 40x
+            // no jump, no going back: from where it stood the clock ran on 200 ms of wall at 40x
+            assertThat(scenario.monotonicNanos() - stoodAtNanos).isEqualTo(8_000_000_000L);
             p.agent().doWork();
             assertThat(scenario.running()).isTrue();
             assertThat(p.sim().timeS()).isCloseTo(scenario.monotonicNanos() / 1e9, within(p.sim().stepS()));
             List<ClockTick> ticks = decoded(topics.clock(), ClockTick.class);
-            assertThat(ticks).extracting(ClockTick::running).contains(false);
+            assertThat(ticks).extracting(ClockTick::scenarioTimeMs).isSorted();
             assertThat(ticks.get(ticks.size() - 1).rate()).isEqualTo(40.0);
             assertThat(ticks.get(ticks.size() - 1).running()).isTrue();
+            pacing.finish(p.sim().timeS());
+            assertThat(paceEntries.get(1)).containsEntry("event", "paceSummary").containsEntry("slips", 1L)
+                    .containsEntry("slipWallMs", 975.0).containsEntry("notRunS", 39.0).containsEntry("holds", 0L);
         }
     }
 }

@@ -80,6 +80,93 @@ class PlantPacingTest {
     }
 
     @Test
+    void shouldHoldTheClockAtTheLeashDuringAStallAndRunOnFromThereAtTheSameRateAfterAFastCatchUp() {
+        // the physics keeps pace for 2 s of wall (80 scenario s at 40x), step by step
+        for (int i = 0; i < 100; i++) {
+            wall.advanceMillis(20);
+            clock.physicsAt(clock.monotonicNanos());
+            pacing.onStep(0);
+        }
+        assertThat(clock.monotonicNanos()).isEqualTo(80_000_000_000L);
+        // a stall of 600 wall ms (a GC pause): unleashed the clock would read 104 s, the physics stands at 80 s
+        wall.advanceMillis(600);
+        assertThat(clock.monotonicNanos()).isEqualTo(81_000_000_000L); // physics + the 1 s limit
+        assertThat(clock.running()).isFalse();
+        assertThat(clock.leashHolds()).isEqualTo(1);
+        wall.advanceMillis(100);
+        assertThat(clock.monotonicNanos()).isEqualTo(81_000_000_000L); // stands still, never beyond
+        // the loop steps again: 1 s to catch up, in 50 steps of 20 ms over 5 ms of wall
+        long physics = 80_000_000_000L;
+        for (int i = 0; i < 50; i++) {
+            physics += 20_000_000L;
+            if (i % 10 == 9) {
+                wall.advanceMillis(1);
+            }
+            clock.physicsAt(physics);
+            pacing.onStep(81_000_000_000L - physics); // how late this step ran against the clock standing at 81 s
+        }
+        assertThat(clock.running()).isTrue();
+        assertThat(clock.currentRate()).isEqualTo(40.0); // 1 s caught up in 5 ms: a one-off stall, the rate is kept
+        long resumedAt = clock.monotonicNanos();
+        assertThat(resumedAt).isEqualTo(81_000_000_000L); // runs on from where it stood: no jump
+        wall.advanceMillis(10);
+        assertThat(clock.monotonicNanos()).isEqualTo(81_400_000_000L); // then at 40x
+        assertThat(journal).singleElement().satisfies(e -> {
+            assertThat(e).containsEntry("event", "paceSlipped").containsEntry("fromRate", 40.0).containsEntry("toRate", 40.0)
+                    .containsEntry("limitS", 1.0).containsEntry("atS", 81.0)
+                    // the clock reached the leash 25 ms into the stall (1 s at 40x) and stood until the catch-up: 680 ms
+                    .containsEntry("stallWallMs", 680.0).containsEntry("notRunS", 27.2)
+                    .containsEntry("behindS", 0.98).containsEntry("catchUpRate", 196.0); // 0.98 s in 5 ms
+        });
+        pacing.finish(81.4);
+        assertThat(journal.get(1)).containsEntry("slips", 1L).containsEntry("slipWallMs", 680.0)
+                .containsEntry("notRunS", 27.2).containsEntry("slowdowns", 0L).containsEntry("holds", 0L);
+        assertThat(pacing.describe(81.4)).contains("slipped 1 times (stalls 680 ms in all, 27.2 s of scenario not run)");
+    }
+
+    @Test
+    void shouldSlowTheRateAfterASlipWhenTheLoopCaughtUpSlowerThanTwiceTheRate() {
+        wall.advanceMillis(100);
+        clock.physicsAt(3_000_000_000L); // the loop trails: the physics at 3 s when the clock reads 4 s
+        pacing.onStep(980_000_000L);
+        wall.advanceMillis(30); // the clock would read 5.2 s: it holds at 4 s, reached at 100 ms
+        assertThat(clock.monotonicNanos()).isEqualTo(4_000_000_000L);
+        clock.physicsAt(3_020_000_000L);
+        pacing.onStep(960_000_000L);
+        wall.advanceMillis(40); // 1 s caught up over 40 ms of wall: 25x, below twice the rate
+        clock.physicsAt(4_000_000_000L);
+        pacing.onStep(0);
+        assertThat(clock.running()).isTrue();
+        assertThat(clock.currentRate()).isEqualTo(32.0);
+        assertThat(journal).singleElement().satisfies(e -> assertThat(e).containsEntry("event", "paceSlipped")
+                .containsEntry("toRate", 32.0).containsEntry("stallWallMs", 70.0).containsEntry("catchUpRate", 24.0)); // 0.96 s in 40 ms
+        wall.advanceMillis(100);
+        clock.physicsAt(7_000_000_000L); // the physics keeps up with the slower clock
+        assertThat(clock.monotonicNanos()).isEqualTo(7_200_000_000L); // 4 s + 100 ms at 32x
+        pacing.finish(7.2);
+        assertThat(journal.get(1)).containsEntry("slips", 1L).containsEntry("slowdowns", 1L).containsEntry("lowestRate", 32.0);
+    }
+
+    @Test
+    void shouldNeverReadMoreThanTheLeashAheadOfThePhysicsNorGoBack() {
+        long physics = 0;
+        long last = 0;
+        for (int i = 0; i < 40; i++) {
+            wall.advanceMillis(7);
+            physics += 210_000_000L; // the loop keeps 30x of the 40x asked: the clock gains 70 ms a pass
+            clock.physicsAt(physics);
+            long n = clock.monotonicNanos();
+            assertThat(n).isGreaterThanOrEqualTo(last).isLessThanOrEqualTo(physics + 1_000_000_000L);
+            last = n;
+        }
+        // it reached the leash on the 15th pass (15 × 70 ms > 1 s) and stands there until a pace keeper lets it run
+        assertThat(clock.leashHolds()).isEqualTo(1);
+        assertThat(last).isEqualTo(15 * 210_000_000L + 1_000_000_000L);
+        org.assertj.core.api.Assertions.assertThatThrownBy(() -> clock.leashTo(0))
+                .hasMessageContaining("leash must be a positive number");
+    }
+
+    @Test
     void shouldSayRateNotKeptOnlyBeyondTheFactor() {
         wall.advanceMillis(10_000);
         // 390 scenario s in 10 wall s = 39x kept of 40x asked: 40 / 39 = 1.026 ≤ 1.1

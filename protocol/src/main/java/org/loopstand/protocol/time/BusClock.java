@@ -5,7 +5,14 @@ import org.loopstand.protocol.message.ClockTick;
 /**
  * Scenario time followed from the plant's clock ticks ({@code --clock bus}): the latest tick's
  * source time (the plant's scenario epoch ms) and rate, extrapolated between ticks with an
- * injected wall clock. A tick a little behind the extrapolation (up to
+ * injected wall clock, but at most {@value #EXTRAPOLATED_TICK_PERIODS} tick periods past the last
+ * tick (the plant ticks every scenario second, or every wall second below rate 1): a plant whose
+ * loop stalled holds its own clock (docs/plant.md, "Pacing"), so a controller running on far past
+ * the last tick would only find its inputs stale and its commands ahead of the plant. Time then
+ * stands still until the next tick. When no tick came for {@link #silentAfterWallNanos(double)} of
+ * wall time (at least {@value #SILENT_AFTER_WALL_MS} ms) the time source is silent
+ * ({@link #silentWallNanos()}: a partition, a plant gone): time runs on blind at the last tick's rate
+ * from where it stood, so inputs age and the areas suspend on their own staleness rules. A tick a little behind the extrapolation (up to
  * {@value #RESTART_BEHIND_MS} ms of scenario time) holds time until it catches up. A tick further
  * behind is a restarted plant (the rig's plant numbers its ticks from its start, epoch ms, so a
  * restarted plant's ticks number above the old ones), unless its seq is up to
@@ -26,6 +33,12 @@ public final class BusClock implements Clock {
      * publisher restarted to a lower number (as the intake's sequence rule, docs/controller.md).
      */
     public static final long LATE_SEQ_WINDOW = 1000;
+    /** How far past the last tick time is extrapolated, in tick periods. */
+    public static final int EXTRAPOLATED_TICK_PERIODS = 2;
+    /** Shortest wall time without a tick (while the last said running) that makes the time source silent, ms. */
+    public static final long SILENT_AFTER_WALL_MS = 2_000;
+    /** The silence limit is at least this many tick periods (rate 1: 3 s of wall). */
+    public static final int SILENT_AFTER_TICK_PERIODS = 3;
 
     private final Clock wall;
     private volatile Anchor anchor;
@@ -35,6 +48,13 @@ public final class BusClock implements Clock {
     private long restartsFollowed;
     private long lastSeq = Long.MIN_VALUE;
     private long lateTicksIgnored;
+    private long silences;
+    /** wall ns the controller's own bus link went down (no tick can come), {@link Long#MAX_VALUE} while up */
+    private volatile long linkDownWallNanos = Long.MAX_VALUE;
+    /** the source was found silent since the current anchor (so the next tick ends a silence) */
+    private volatile boolean silentSeen;
+    /** wall ns the latest silence lasted, up to the tick that ended it */
+    private long lastSilenceWallNanos;
 
     /** @param wall the wall clock used between ticks */
     public BusClock(Clock wall) {
@@ -50,6 +70,11 @@ public final class BusClock implements Clock {
             return;
         }
         lastSeq = tick.seq();
+        if (a != null && (silentWallNanos(a) > 0 || silentSeen)) {
+            silences++;
+            lastSilenceWallNanos = wall.monotonicNanos() - a.wallNanos();
+        }
+        silentSeen = false;
         if (a != null) {
             long behindNanos = scenarioNanos(a) - tick.sourceTime() * 1_000_000L;
             if (behindNanos > RESTART_BEHIND_MS * 1_000_000L) {
@@ -70,8 +95,85 @@ public final class BusClock implements Clock {
         return restartsFollowed;
     }
 
+    /** @return wall ns between two ticks of a plant at {@code rate} (one scenario second, at most one wall second) */
+    public static long tickPeriodWallNanos(double rate) {
+        return rate >= 1 ? Math.round(1e9 / rate) : 1_000_000_000L;
+    }
+
+    /** @return wall ns without a tick after which the time source at {@code rate} is silent */
+    public static long silentAfterWallNanos(double rate) {
+        return Math.max(SILENT_AFTER_WALL_MS * 1_000_000L, SILENT_AFTER_TICK_PERIODS * tickPeriodWallNanos(rate));
+    }
+
     private long scenarioNanos(Anchor a) {
-        return a.scenarioEpochMs() * 1_000_000L + (long) ((wall.monotonicNanos() - a.wallNanos()) * a.rate());
+        long base = a.scenarioEpochMs() * 1_000_000L;
+        if (a.rate() <= 0) {
+            return base;
+        }
+        long w = wall.monotonicNanos();
+        long elapsed = w - a.wallNanos();
+        long capWall = EXTRAPOLATED_TICK_PERIODS * tickPeriodWallNanos(a.rate());
+        if (elapsed <= capWall) {
+            return base + (long) (elapsed * a.rate());
+        }
+        // stands at the cap until the source is silent, then runs on blind from there (never a jump)
+        return base + (long) ((capWall + Math.max(0, w - silentAtWallNanos(a, capWall))) * a.rate());
+    }
+
+    /** @return wall ns from which the source behind anchor {@code a} is silent: the limit, or at once when the link is down */
+    private long silentAtWallNanos(Anchor a, long capWall) {
+        long silentAt = a.wallNanos() + silentAfterWallNanos(a.rate());
+        long down = linkDownWallNanos;
+        return down == Long.MAX_VALUE ? silentAt : Math.min(silentAt, Math.max(down, a.wallNanos() + capWall));
+    }
+
+    private long silentWallNanos(Anchor a) {
+        if (a == null || a.rate() <= 0) {
+            return 0;
+        }
+        long w = wall.monotonicNanos();
+        long capWall = EXTRAPOLATED_TICK_PERIODS * tickPeriodWallNanos(a.rate());
+        if (w < silentAtWallNanos(a, capWall)) {
+            return 0;
+        }
+        silentSeen = true;
+        return w - a.wallNanos();
+    }
+
+    /**
+     * Any thread: the controller's own bus link went down ({@code up} false) or came back. While it is down
+     * no tick can come, so the source counts as silent at once (after the two tick periods' extrapolation)
+     * instead of after the silence limit: cycles run on blind and suspend for the link ({@code busLinkDown}).
+     */
+    public void linkUp(boolean up) {
+        if (up) {
+            silentWallNanos(anchor); // a silence while it was down ends with the next tick, not with the link
+        }
+        linkDownWallNanos = up ? Long.MAX_VALUE : wall.monotonicNanos();
+    }
+
+    /**
+     * @return wall ns since the last tick when the time source is silent (no tick for the silence limit while
+     *         the last one said running), else 0
+     */
+    public long silentWallNanos() {
+        return silentWallNanos(anchor);
+    }
+
+    /** @return how many silences a tick has ended */
+    public synchronized long silencesEnded() {
+        return silences;
+    }
+
+    /** @return wall ns the latest ended silence lasted (from the tick before it to the tick that ended it) */
+    public synchronized long lastSilenceWallNanos() {
+        return lastSilenceWallNanos;
+    }
+
+    /** @return the latest tick's scenario time, epoch ms (0 before the first) */
+    public long lastTickEpochMs() {
+        Anchor a = anchor;
+        return a == null ? 0 : a.scenarioEpochMs();
     }
 
     /** @return true once a tick has been received; before that the time is not known */

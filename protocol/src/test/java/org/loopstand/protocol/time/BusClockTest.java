@@ -27,8 +27,8 @@ class BusClockTest {
         clock.onTick(tick(1, SCENARIO_MS, 20, true));
         assertThat(clock.synced()).isTrue();
         assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS);
-        wall.advanceMillis(250); // a quarter wall second at rate 20 = 5 scenario seconds
-        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 5_000);
+        wall.advanceMillis(75); // 75 ms of wall at rate 20 = 1.5 scenario seconds (ticks come every 50 ms)
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 1_500);
         clock.onTick(tick(2, SCENARIO_MS + 20_000, 20, true));
         wall.advanceMillis(100);
         assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 22_000);
@@ -38,14 +38,14 @@ class BusClockTest {
     @Test
     void shouldNeverRunBackwardsWhenATickIsBehindTheExtrapolation() {
         clock.onTick(tick(1, SCENARIO_MS, 10, true));
-        wall.advanceMillis(1_000);
-        long ahead = clock.monotonicNanos(); // 10 s extrapolated
-        clock.onTick(tick(2, SCENARIO_MS + 9_000, 10, true)); // the plant only got to 9 s
+        wall.advanceMillis(150);
+        long ahead = clock.monotonicNanos(); // 1.5 s extrapolated
+        clock.onTick(tick(2, SCENARIO_MS + 1_000, 10, true)); // the plant only got to 1 s
         assertThat(clock.monotonicNanos()).isEqualTo(ahead);
-        wall.advanceMillis(50); // 9.5 s: still behind, time holds
+        wall.advanceMillis(25); // 1.25 s: still behind, time holds
         assertThat(clock.monotonicNanos()).isEqualTo(ahead);
-        wall.advanceMillis(150); // 11 s: moves on from the new anchor
-        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 11_000);
+        wall.advanceMillis(35); // 1.6 s: moves on from the new anchor
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 1_600);
     }
 
     @Test
@@ -59,9 +59,9 @@ class BusClockTest {
     @Test
     void shouldFollowARestartedPlantsClockBackWhileMonotonicTimeRunsOn() {
         clock.onTick(tick(1, SCENARIO_MS, 10, true));
-        wall.advanceMillis(60_000); // 600 s of scenario time at rate 10
+        wall.advanceMillis(60_000); // no tick for a wall minute: 2 s extrapolated, then silent after 2 s, blind for 58 s
         long monotonicBefore = clock.monotonicNanos();
-        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 600_000);
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 582_000);
         // the plant restarted: its scenario clock starts again from its new start
         clock.onTick(tick(1, SCENARIO_MS + 30_000, 10, true));
         assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 30_000);
@@ -83,5 +83,54 @@ class BusClockTest {
         assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 80_000);
         assertThat(clock.restartsFollowed()).isZero();
         assertThat(clock.lateTicksIgnored()).isEqualTo(2);
+    }
+
+    @Test
+    void shouldStandStillTwoTickPeriodsPastTheLastTickUntilTheSourceIsSilentThenRunOnBlindFromThere() {
+        clock.onTick(tick(1, SCENARIO_MS, 40, true)); // at rate 40 the plant ticks every 25 ms of wall
+        wall.advanceMillis(30);
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 1_200);
+        wall.advanceMillis(500); // the plant's loop stalls: no tick; the controller's time stands at 2 tick periods
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 2_000);
+        assertThat(clock.silentWallNanos()).isZero();
+        wall.advanceMillis(1_469); // 1999 ms without a tick: not yet silent
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 2_000);
+        assertThat(clock.silentWallNanos()).isZero();
+        wall.advanceMillis(101); // 2.1 s without a tick: silent, time runs on blind from where it stood, at 40x
+        assertThat(clock.silentWallNanos()).isEqualTo(2_100_000_000L);
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 6_000);
+        clock.onTick(tick(2, SCENARIO_MS + 3_000, 40, true)); // the plant back, behind the blind time: time holds
+        assertThat(clock.silentWallNanos()).isZero();
+        assertThat(clock.silencesEnded()).isEqualTo(1);
+        assertThat(clock.lastSilenceWallNanos()).isEqualTo(2_100_000_000L);
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 6_000);
+        assertThat(clock.restartsFollowed()).isZero();
+    }
+
+    @Test
+    void shouldTakeTheSilenceLimitAsThreeTickPeriodsWhenLongerThanTwoSeconds() {
+        assertThat(BusClock.silentAfterWallNanos(40)).isEqualTo(2_000_000_000L);
+        assertThat(BusClock.silentAfterWallNanos(1)).isEqualTo(3_000_000_000L); // a tick every wall second
+        assertThat(BusClock.silentAfterWallNanos(0.5)).isEqualTo(3_000_000_000L);
+        assertThat(BusClock.tickPeriodWallNanos(40)).isEqualTo(25_000_000L);
+    }
+
+    @Test
+    void shouldRunOnBlindAtOnceWhenItsOwnLinkIsDownAndWaitAgainOnceItIsBack() {
+        clock.onTick(tick(1, SCENARIO_MS, 20, true)); // a tick every 50 ms of wall at rate 20
+        wall.advanceMillis(300); // stands at 2 s
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 2_000);
+        clock.linkUp(false); // the controller's broker connection dropped: no tick can come
+        assertThat(clock.silentWallNanos()).isEqualTo(300_000_000L);
+        wall.advanceMillis(500); // blind from where it stood, at 20x
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 12_000);
+        clock.linkUp(true);
+        clock.onTick(tick(2, SCENARIO_MS + 16_000, 20, true));
+        assertThat(clock.silencesEnded()).isEqualTo(1);
+        wall.advanceMillis(100);
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 18_000);
+        wall.advanceMillis(500); // link up: stands at two tick periods past the tick again
+        assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 18_000);
+        assertThat(clock.silentWallNanos()).isZero();
     }
 }
