@@ -11,7 +11,7 @@ import java.util.List;
 import java.util.Map;
 import java.util.Set;
 import java.util.TreeMap;
-import java.util.concurrent.ArrayBlockingQueue;
+import java.util.concurrent.LinkedBlockingQueue;
 import java.util.concurrent.BlockingQueue;
 import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.atomic.AtomicLong;
@@ -99,7 +99,8 @@ public final class IntakeRouter {
         this.clock = clock;
         this.codec = codec;
         this.observer = observer == null ? new IntakeObserver() { } : observer;
-        this.queue = new ArrayBlockingQueue<>(settings.intakeQueueCapacity());
+        // polled empty on every pass of the agent: a LinkedBlockingQueue takes no lock for that
+        this.queue = new LinkedBlockingQueue<>(settings.intakeQueueCapacity());
         this.decoder = new IntakeDecoder(site.siteId(), codec);
         long skew = settings.clockSkewLimitMs();
         for (SiteArea a : site.areas()) {

@@ -1,6 +1,6 @@
 package org.loopstand.plant.runtime;
 
-import java.util.concurrent.ArrayBlockingQueue;
+import java.util.concurrent.LinkedBlockingQueue;
 import java.util.concurrent.atomic.AtomicLong;
 import java.util.concurrent.atomic.LongAdder;
 
@@ -35,8 +35,9 @@ public final class ControlCentreLink implements UnitOutput {
     private final MessageCodec codec;
     private final Clock clock;
     private final Qos telemetryQos;
-    private final ArrayBlockingQueue<Received> commands;
-    private final ArrayBlockingQueue<StatusArrival> statuses = new ArrayBlockingQueue<>(64);
+    // Bounded; polled empty on every loop pass of every unit, which takes no lock in a LinkedBlockingQueue.
+    private final LinkedBlockingQueue<Received> commands;
+    private final LinkedBlockingQueue<StatusArrival> statuses = new LinkedBlockingQueue<>(64);
     private final AtomicLong linkSeq;
     private final LongAdder overflow = new LongAdder();
     private final LongAdder dropped = new LongAdder();
@@ -55,7 +56,7 @@ public final class ControlCentreLink implements UnitOutput {
         this.codec = codec;
         this.clock = clock;
         this.telemetryQos = telemetryQos;
-        this.commands = new ArrayBlockingQueue<>(commandQueueCapacity);
+        this.commands = new LinkedBlockingQueue<>(commandQueueCapacity);
         this.linkSeq = new AtomicLong(clock.epochMillis());
     }
 

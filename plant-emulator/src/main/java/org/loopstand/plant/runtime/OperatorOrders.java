@@ -4,7 +4,7 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
-import java.util.concurrent.ArrayBlockingQueue;
+import java.util.concurrent.LinkedBlockingQueue;
 
 import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.Qos;
@@ -31,7 +31,8 @@ public final class OperatorOrders {
 
     private final Map<String, UnitDutyCycle> cycles = new LinkedHashMap<>();
     private final MessageCodec codec;
-    private final ArrayBlockingQueue<byte[]> queue = new ArrayBlockingQueue<>(256);
+    // polled empty on every loop pass: a LinkedBlockingQueue takes no lock for that
+    private final LinkedBlockingQueue<byte[]> queue = new LinkedBlockingQueue<>(256);
     private volatile org.loopstand.plant.journal.PlantRunJournal journal;
     private org.loopstand.protocol.time.Clock journalClock;
 

@@ -14,6 +14,7 @@ import org.loopstand.plant.physics.GridSimulator;
 import org.loopstand.plant.physics.StepSizeRule;
 import org.loopstand.plant.scenario.RunScenario;
 import org.loopstand.protocol.agent.Agent;
+import org.loopstand.protocol.codec.RecentEncodings;
 import org.loopstand.protocol.time.VirtualClock;
 
 /**
@@ -90,16 +91,20 @@ public final class RehearsalStudy {
 
     /** Runs the scenario to its end and evaluates its checks. */
     public Result run() {
-        participants.forEach(Agent::onStart);
-        engine.runToEnd(clock, new ScenarioEngine.StepHook() {
-            @Override
-            public void stepped(long latenessNanos) {
-                for (Agent a : participants) {
-                    a.doWork();
+        // Publisher and subscriber share this thread: a decode of bytes just encoded returns the
+        // encoded record instead of parsing it again (docs/lockstep.md, "What the bus carries").
+        try (RecentEncodings recent = RecentEncodings.openOnThisThread()) {
+            participants.forEach(Agent::onStart);
+            engine.runToEnd(clock, new ScenarioEngine.StepHook() {
+                @Override
+                public void stepped(long latenessNanos) {
+                    for (Agent a : participants) {
+                        a.doWork();
+                    }
                 }
-            }
-        });
-        participants.forEach(Agent::onClose);
+            });
+            participants.forEach(Agent::onClose);
+        }
         return new Result(engine.decideChecks(scenario.checks()), record);
     }
 }

@@ -141,7 +141,9 @@ final class FieldChecks {
 
     static void quality(String field, Quality quality) {
         present(field, quality);
-        present(at(field, "validity"), quality.validity());
+        if (quality.validity() == null) { // the path is built only when it is needed: checked on every reading
+            throw fail(DecodeErrorKind.MISSING_FIELD, at(field, "validity"), "required field is missing");
+        }
     }
 
     static <T> void list(String field, List<T> items, ItemCheck<T> check) {

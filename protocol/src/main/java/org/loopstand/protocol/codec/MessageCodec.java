@@ -26,7 +26,8 @@ import java.util.concurrent.ConcurrentHashMap;
  * <p>Decoding never throws: anything wrong (too large, not JSON, a missing, unknown, mistyped or
  * out-of-range field) comes back as {@link Decoded.Rejected} naming the field. Encoding is
  * deterministic: fields in record component order, absent optional fields omitted, map keys sorted,
- * no whitespace, so that the bytes can be signed.
+ * no whitespace, so that the bytes can be signed. On a thread with {@link RecentEncodings} open
+ * (lockstep runs), decoding bytes this thread just encoded returns the encoded record.
  */
 public final class MessageCodec {
     /** Default payload limit: 64 KiB. */
@@ -70,7 +71,12 @@ public final class MessageCodec {
             throw new IllegalArgumentException("refusing to encode invalid message: " + error.get());
         }
         try {
-            return WRITER.writeValueAsBytes(message);
+            byte[] payload = WRITER.writeValueAsBytes(message);
+            RecentEncodings recent = RecentEncodings.onThisThread();
+            if (recent != null) {
+                recent.remember(payload, message);
+            }
+            return payload;
         } catch (JsonProcessingException e) {
             throw new IllegalStateException("could not encode " + message.getClass().getSimpleName(), e);
         }
@@ -92,6 +98,11 @@ public final class MessageCodec {
             if (payload.length > maxPayloadBytes) {
                 return rejected(DecodeErrorKind.OVERSIZED,
                         "payload is " + payload.length + " bytes, limit " + maxPayloadBytes);
+            }
+            RecentEncodings recent = RecentEncodings.onThisThread();
+            Decoded<T> known = recent == null ? null : recent.find(payload, type);
+            if (known != null) {
+                return known;
             }
             T value = reader(type).readValue(payload);
             if (value == null) {

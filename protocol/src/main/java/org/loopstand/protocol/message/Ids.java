@@ -10,9 +10,31 @@ public final class Ids {
     private Ids() {
     }
 
-    /** @return whether the text is a valid id (false for null) */
+    /** Longest id, characters ({@link #PATTERN}'s 1 + 63). */
+    static final int MAX_LENGTH = 64;
+
+    /**
+     * Accepts exactly what {@link #PATTERN} matches, checked character by character: ids are
+     * checked on every topic and message field, and the regular expression was a measurable part
+     * of a lockstep run.
+     *
+     * @return whether the text is a valid id (false for null)
+     */
     public static boolean isValid(String id) {
-        return id != null && PATTERN.matcher(id).matches();
+        if (id == null || id.isEmpty() || id.length() > MAX_LENGTH || !isAsciiLetterOrDigit(id.charAt(0))) {
+            return false;
+        }
+        for (int i = 1; i < id.length(); i++) {
+            char c = id.charAt(i);
+            if (!isAsciiLetterOrDigit(c) && c != '_' && c != '-') {
+                return false;
+            }
+        }
+        return true;
+    }
+
+    private static boolean isAsciiLetterOrDigit(char c) {
+        return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9');
     }
 
     /**

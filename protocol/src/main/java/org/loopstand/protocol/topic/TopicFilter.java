@@ -24,24 +24,52 @@ public final class TopicFilter {
         String plainFilter = stripShare(filter);
         validateFilter(plainFilter);
         validateTopic(topic);
-        if (topic.startsWith("$") && (plainFilter.startsWith("+") || plainFilter.startsWith("#"))) {
+        return levelsMatch(plainFilter, topic);
+    }
+
+    /**
+     * The matching rule alone, for callers that validated filter and topic when they were
+     * subscribed or published (the in-memory broker matches every publish against every
+     * subscription). Walks both strings level by level without splitting them: no allocation.
+     *
+     * @param filter a valid filter without share prefix
+     * @param topic  a valid concrete topic name
+     * @return whether the filter matches the topic
+     */
+    public static boolean levelsMatch(String filter, String topic) {
+        if (topic.startsWith("$") && (filter.startsWith("+") || filter.startsWith("#"))) {
             return false;
         }
-        String[] filterLevels = plainFilter.split("/", -1);
-        String[] topicLevels = topic.split("/", -1);
-        for (int i = 0; i < filterLevels.length; i++) {
-            String level = filterLevels[i];
-            if (level.equals("#")) {
+        int filterStart = 0;
+        int topicStart = 0;
+        boolean topicUsedUp = false;
+        while (true) {
+            int filterEnd = levelEnd(filter, filterStart);
+            int filterLevelLength = filterEnd - filterStart;
+            if (filterLevelLength == 1 && filter.charAt(filterStart) == '#') {
                 return true; // also matches the parent level alone: "a/#" matches "a"
             }
-            if (i >= topicLevels.length) {
+            if (topicUsedUp) {
                 return false;
             }
-            if (!level.equals("+") && !level.equals(topicLevels[i])) {
+            int topicEnd = levelEnd(topic, topicStart);
+            boolean plus = filterLevelLength == 1 && filter.charAt(filterStart) == '+';
+            if (!plus && (filterLevelLength != topicEnd - topicStart
+                    || !filter.regionMatches(filterStart, topic, topicStart, filterLevelLength))) {
                 return false;
             }
+            if (filterEnd == filter.length()) {
+                return topicEnd == topic.length(); // as many levels on both sides
+            }
+            topicUsedUp = topicEnd == topic.length();
+            topicStart = topicEnd + 1;
+            filterStart = filterEnd + 1;
         }
-        return filterLevels.length == topicLevels.length;
+    }
+
+    private static int levelEnd(String text, int levelStart) {
+        int slash = text.indexOf('/', levelStart);
+        return slash < 0 ? text.length() : slash;
     }
 
     /**

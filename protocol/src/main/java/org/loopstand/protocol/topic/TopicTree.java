@@ -2,7 +2,9 @@ package org.loopstand.protocol.topic;
 
 import java.util.ArrayList;
 import java.util.List;
+import java.util.Map;
 import java.util.Optional;
+import java.util.concurrent.ConcurrentHashMap;
 import org.loopstand.protocol.message.Ids;
 
 /**
@@ -15,6 +17,14 @@ import org.loopstand.protocol.message.Ids;
 public final class TopicTree {
     /** First two levels of every topic. */
     public static final String PREFIX = "loopstand/v1";
+
+    /**
+     * Topics already taken apart: a site has a few hundred topics and every received message is
+     * parsed. Parsing is a pure function and the result immutable, so one cache serves every
+     * thread; only valid topics are kept, and no more than {@link #MAX_PARSED_KEPT} of them.
+     */
+    private static final Map<String, Optional<ParsedTopic>> PARSED = new ConcurrentHashMap<>();
+    private static final int MAX_PARSED_KEPT = 4096;
 
     private final String site;
     private final String root;
@@ -155,6 +165,18 @@ public final class TopicTree {
         if (topic == null) {
             return Optional.empty();
         }
+        Optional<ParsedTopic> known = PARSED.get(topic);
+        if (known != null) {
+            return known;
+        }
+        Optional<ParsedTopic> parsed = parseLevels(topic);
+        if (parsed.isPresent() && PARSED.size() < MAX_PARSED_KEPT) {
+            PARSED.put(topic, parsed);
+        }
+        return parsed;
+    }
+
+    private static Optional<ParsedTopic> parseLevels(String topic) {
         String[] levels = topic.split("/", -1);
         if (levels.length < 4 || !levels[0].equals("loopstand") || !levels[1].equals("v1")
                 || !Ids.isValid(levels[2])) {

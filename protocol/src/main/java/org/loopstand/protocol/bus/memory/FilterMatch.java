@@ -1,9 +1,11 @@
 package org.loopstand.protocol.bus.memory;
 
+import org.loopstand.protocol.topic.TopicFilter;
+
 /**
  * MQTT topic filter matching for the in-memory broker: {@code +} matches one level, a trailing
  * {@code #} matches the parent level and everything below it; filters starting with a wildcard do not
- * match topics starting with {@code $}. Small on purpose; to be unified with the topic package's filter.
+ * match topics starting with {@code $}. The matching itself is the topic package's.
  */
 final class FilterMatch {
     private FilterMatch() {
@@ -33,23 +35,8 @@ final class FilterMatch {
         }
     }
 
+    /** Filter and topic validated beforehand (on subscribe and on publish). */
     static boolean matches(String filter, String topic) {
-        if (topic.startsWith("$") && (filter.startsWith("+") || filter.startsWith("#"))) {
-            return false;
-        }
-        String[] f = filter.split("/", -1);
-        String[] t = topic.split("/", -1);
-        for (int i = 0; i < f.length; i++) {
-            if (f[i].equals("#")) {
-                return true; // also matches the parent level: "a/#" matches "a"
-            }
-            if (i >= t.length) {
-                return false;
-            }
-            if (!f[i].equals("+") && !f[i].equals(t[i])) {
-                return false;
-            }
-        }
-        return f.length == t.length;
+        return TopicFilter.levelsMatch(filter, topic);
     }
 }
