@@ -41,7 +41,7 @@ final class PlantSide implements AutoCloseable {
     PlantSide(BenchSettings s, Grid grid, String serverUri, PublishStamps stamps, StampingBus.CommandTally tally,
               Clock clock, Consumer<String> say) {
         LinkFactory factory = (clientId, will) -> {
-            MqttLinkConfig.Builder b = MqttLinkConfig.builder().serverUri(serverUri).clientId(clientId);
+            MqttLinkConfig.Builder b = BrokerLogin.apply(MqttLinkConfig.builder().serverUri(serverUri).clientId(clientId), s);
             if (will != null) {
                 b.lastWill(will.topic(), will.payload(), will.qos(), will.retained());
             }
@@ -54,7 +54,10 @@ final class PlantSide implements AutoCloseable {
             meters.add(MeterSettings.defaults(a.id()).withScanPeriodMs(s.meterScanMs()));
         }
         InterfaceOptions iface = InterfaceOptions.defaults().withTelemetryScanMs(s.telemetryScanMs(), Map.of());
-        PlantOptions po = new PlantOptions(1.0, Set.of(), s.grouping(), s.poolSize(), meters, iface,
+        // layout hosts: every unit's interface runs on a unit host, the plant serves their turbines over the field topics
+        Set<String> remote = s.layout() == BenchSettings.Layout.HOSTS
+                ? grid.units().stream().map(u -> u.id()).collect(java.util.stream.Collectors.toSet()) : Set.of();
+        PlantOptions po = new PlantOptions(1.0, remote, s.grouping(), s.poolSize(), meters, iface,
                 Qos.AT_MOST_ONCE, 256, 1, 1.0);
         sim = new GridSimulator(grid);
         plant = new PlantRunner(sim, loadSteps(grid, s), po, factory, clock, say::accept).unitScanMs(s.unitScanMs());
@@ -63,7 +66,7 @@ final class PlantSide implements AutoCloseable {
         for (int i = 0; i < hosts.size(); i++) {
             hosts.get(i).unit().staggerTelemetry(i * periodNanos / hosts.size());
         }
-        telemetryBytes = new MessageCodec().encode(hosts.get(0).unit().telemetry()).length;
+        telemetryBytes = hosts.isEmpty() ? 0 : new MessageCodec().encode(hosts.get(0).unit().telemetry()).length;
     }
 
     /**
