@@ -85,6 +85,10 @@ public final class BusCommand implements Callable<Integer> {
             + " needs root and iproute2; --broker and the raw loop do not apply) (default ${DEFAULT-VALUE})")
     String layout;
 
+    @Option(names = "--field-scan-ms", defaultValue = "200", description = "--layout hosts: period of the plant's field"
+            + " readings to the units' interfaces on the unit hosts, ms (default ${DEFAULT-VALUE}, as the plant's)")
+    long fieldScanMs;
+
     @Option(names = "--node-config", defaultValue = "config/broker/artemis/broker-node.xml", description = "--layout hosts:"
             + " the broker node file (default ${DEFAULT-VALUE})")
     Path nodeConfig;
@@ -152,7 +156,8 @@ public final class BusCommand implements Callable<Integer> {
         BenchSettings.Layout l = BenchSettings.Layout.parse(layout);
         return new BenchSettings(units, areas, durationS, warmupS, broker, brokerConfig, g, poolSize, intakeConnections,
                 telemetryMs, meterMs, cycleS, sampleS, !noRaw, !noWake, unitScanMs, loadStepMw, dir,
-                l, BenchSettings.RawPacing.parse(rawPacing), partJvmOpts, l == BenchSettings.Layout.HOSTS ? "bench" : "");
+                l, BenchSettings.RawPacing.parse(rawPacing), partJvmOpts, l == BenchSettings.Layout.HOSTS ? "bench" : "",
+                fieldScanMs);
     }
 
     private static void say(String line) {

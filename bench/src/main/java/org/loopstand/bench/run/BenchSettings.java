@@ -31,12 +31,15 @@ import org.loopstand.plant.runtime.ConnectionGrouping;
  *                           on spaces; {@code {role}} is replaced by {@code plant} or {@code controller}
  * @param brokerUser         MQTT login of every bench connection, empty for none; its password is in
  *                           {@link #BROKER_PASSWORD_FILE} of the run folder (layout hosts)
+ * @param fieldScanMs        layout hosts: period of the plant's field readings to the unit hosts, ms, ≥ 1 (the
+ *                           plant's default is 200)
  */
 public record BenchSettings(int units, int areas, double durationS, double warmupS, String broker, Path brokerConfig,
                             ConnectionGrouping grouping, int poolSize, int intakeConnections, long telemetryScanMs,
                             long meterScanMs, int cycleS, double sampleS, boolean raw, boolean wakeOnInput,
                             long unitScanMs, double loadStepMw, Path outDir, Layout layout, RawPacing rawPacing,
-                            String partJvmOpts, String brokerUser) {
+                            String partJvmOpts, String brokerUser,
+                            long fieldScanMs) {
     /** The file in the run folder whose first line is the password of {@link #brokerUser}. */
     public static final String BROKER_PASSWORD_FILE = "broker-login.password";
 
@@ -93,6 +96,9 @@ public record BenchSettings(int units, int areas, double durationS, double warmu
         }
         if (!(durationS > 0) || warmupS < 0 || !(sampleS > 0)) {
             throw new IllegalArgumentException("duration and sample period must be > 0, warm-up ≥ 0");
+        }
+        if (fieldScanMs < 1) {
+            throw new IllegalArgumentException("field scan period must be ≥ 1 ms, got " + fieldScanMs);
         }
         if (poolSize < 1 || intakeConnections < 1) {
             throw new IllegalArgumentException("pool size and intake connections must be ≥ 1");

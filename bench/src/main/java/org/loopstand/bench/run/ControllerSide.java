@@ -35,15 +35,17 @@ final class ControllerSide {
     private final ProbedController probed;
     private final AgentRunner runner;
     private final ControllerSiteConfig site;
+    private final long connectWaitMs;
 
     /** @param stamps told of every routed message, null when the plant runs in another process */
     ControllerSide(BenchSettings s, ControllerSiteConfig site, String siteId, String serverUri, PublishStamps stamps,
                    StampingBus.CommandTally tally, Clock clock, Path hlogFile) throws IOException {
+        this.connectWaitMs = BenchLinks.connectWaitMs(s, 20_000);
         this.site = site;
         long epoch = clock.epochMillis();
         OutboundMessage will = ControllerAgent.offlineStatus(siteId, CONTROLLER_ID, epoch, epoch);
         for (int k = 0; k < s.intakeConnections(); k++) {
-            MqttLinkConfig.Builder b = BrokerLogin.apply(MqttLinkConfig.builder().serverUri(serverUri), s)
+            MqttLinkConfig.Builder b = BenchLinks.configure(MqttLinkConfig.builder().serverUri(serverUri), s)
                     .clientId(CONTROLLER_ID + "-in" + k).receiveQueueCapacity(100_000);
             if (k == 0) {
                 b.lastWill(will.topic(), will.payload(), will.qos(), will.retained());
@@ -73,7 +75,7 @@ final class ControllerSide {
             l.start();
         }
         for (MqttLink l : links) {
-            if (!l.awaitConnected(20_000)) {
+            if (!l.awaitConnected(connectWaitMs)) {
                 throw new IllegalStateException("controller link " + l.clientId() + " did not connect");
             }
         }

@@ -96,14 +96,16 @@ public final class HostsBench {
                 awaitLine(s.outDir().resolve("node-n" + i + ".log"), "broker node n" + i + " listening", nodes.get(i - 1));
             }
             say.accept("bench: three broker nodes up on hosts A, B, C (" + hosts.address(1) + ".." + hosts.address(3) + ")");
-            // all four start at once (the warm-up covers the order in which they connect)
+            // one after the other: each subscribes thousands of topics, which the nodes set up one queue at a time
             PartProcess ctl = part(parts, hosts, 4, "controller", "controller", uris(hosts, 3, 1, 2), settingsFile, siteId);
+            say.accept("bench: " + ctl.awaitReady(300));
             PartProcess plant = part(parts, hosts, 1, "plant", "plant", uris(hosts, 1, 2, 3), settingsFile, siteId);
+            say.accept("bench: " + plant.awaitReady(300));
             List<PartProcess> unitHosts = List.of(
                     part(parts, hosts, 2, "units-0", "units", uris(hosts, 2, 3, 1), settingsFile, siteId, "--unit-share", "0/2"),
                     part(parts, hosts, 3, "units-1", "units", uris(hosts, 3, 1, 2), settingsFile, siteId, "--unit-share", "1/2"));
-            for (PartProcess p : parts) {
-                say.accept("bench: " + p.awaitReady(300));
+            for (PartProcess u : unitHosts) {
+                say.accept("bench: " + u.awaitReady(600));
             }
             Map<String, Long> pids = new LinkedHashMap<>();
             for (int i = 1; i <= 3; i++) {

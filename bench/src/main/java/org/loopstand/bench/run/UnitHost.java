@@ -43,6 +43,7 @@ final class UnitHost implements AutoCloseable {
     private final AgentRunner runner;
     private final MessageCodec codec = new MessageCodec();
     private final Clock clock;
+    private final long connectWaitMs;
     final StampingBus.CommandTally tally = new StampingBus.CommandTally();
     /** command arrival minus its issuedAt, ms */
     final Recorder commandLatencyMs = new Recorder(3);
@@ -55,6 +56,7 @@ final class UnitHost implements AutoCloseable {
      * @param shares unit hosts in the run, ≥ 1
      */
     UnitHost(BenchSettings s, Grid grid, String serverUri, int share, int shares, Clock clock) {
+        this.connectWaitMs = BenchLinks.connectWaitMs(s, 60_000);
         this.clock = clock;
         List<GeneratingUnit> mine = new ArrayList<>();
         for (int i = share; i < grid.units().size(); i += shares) {
@@ -65,7 +67,7 @@ final class UnitHost implements AutoCloseable {
         }
         List<MessageBus> pool = new ArrayList<>();
         for (int k = 0; k < Math.min(s.poolSize(), mine.size()); k++) {
-            MqttLink l = new MqttLink(BrokerLogin.apply(MqttLinkConfig.builder().serverUri(serverUri)
+            MqttLink l = new MqttLink(BenchLinks.configure(MqttLinkConfig.builder().serverUri(serverUri)
                     .clientId(grid.siteId() + "-unithost" + share + "-" + k).receiveQueueCapacity(100_000), s).build(), clock);
             links.add(l);
             pool.add(new Probe(new StampingBus(l, null, clock, tally)));
@@ -89,7 +91,7 @@ final class UnitHost implements AutoCloseable {
             l.start();
         }
         for (MqttLink l : links) {
-            if (!l.awaitConnected(60_000)) {
+            if (!l.awaitConnected(connectWaitMs)) {
                 throw new IllegalStateException("unit host link " + l.clientId() + " did not connect");
             }
         }

@@ -31,7 +31,7 @@ class HostsBenchTest {
     void shouldMeasureFortyUnitsOnTwoUnitHostsOverTheThreeNodeCluster() throws Exception {
         BenchSettings s = new BenchSettings(40, 2, 12, 8, "cluster", NODE_CONFIG, ConnectionGrouping.POOLED, 4, 1, 1000,
                 2000, 4, 4, false, true, 100, 100, dir.resolve("run"), BenchSettings.Layout.HOSTS,
-                BenchSettings.RawPacing.SPREAD, "-Xss1m -Xmx256m -XX:TieredStopAtLevel=1", "bench");
+                BenchSettings.RawPacing.SPREAD, "-Xss1m -Xmx256m -XX:TieredStopAtLevel=1", "bench", 200);
         HostsResult r;
         try {
             r = new HostsBench(s, NODE_CONFIG, line -> System.out.println(java.time.LocalTime.now() + " " + line), List.of(BenchCli.class.getName(), "bus-part")).run();
