@@ -71,14 +71,7 @@ final class ControllerSide {
     /** Starts the cycles, then the links (the first connect subscribes all), and waits for them. */
     void start() throws InterruptedException {
         runner.start();
-        for (MqttLink l : links) {
-            l.start();
-        }
-        for (MqttLink l : links) {
-            if (!l.awaitConnected(connectWaitMs)) {
-                throw new IllegalStateException("controller link " + l.clientId() + " did not connect");
-            }
-        }
+        BenchLinks.startAndAwait(links, connectWaitMs, "controller");
     }
 
     /**

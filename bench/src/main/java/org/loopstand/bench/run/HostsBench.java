@@ -34,6 +34,8 @@ public final class HostsBench {
     static final int MQTT_PORT = 1883;
     static final int CLUSTER_PORT = 61616;
     static final String NODE_HEAP = "-Xmx1g";
+    /** How long a part may take to connect and have its subscriptions acknowledged, s (see {@link BenchLinks}). */
+    static final long PART_READY_S = 1_200;
 
     /** Thrown when the hosts cannot be made (not root, no iproute2): the run cannot happen on this machine. */
     public static final class NamespacesUnavailable extends IllegalStateException {
@@ -98,14 +100,14 @@ public final class HostsBench {
             say.accept("bench: three broker nodes up on hosts A, B, C (" + hosts.address(1) + ".." + hosts.address(3) + ")");
             // one after the other: each subscribes thousands of topics, which the nodes set up one queue at a time
             PartProcess ctl = part(parts, hosts, 4, "controller", "controller", uris(hosts, 3, 1, 2), settingsFile, siteId);
-            say.accept("bench: " + ctl.awaitReady(300));
+            say.accept("bench: " + ctl.awaitReady(PART_READY_S));
             PartProcess plant = part(parts, hosts, 1, "plant", "plant", uris(hosts, 1, 2, 3), settingsFile, siteId);
-            say.accept("bench: " + plant.awaitReady(300));
+            say.accept("bench: " + plant.awaitReady(PART_READY_S));
             List<PartProcess> unitHosts = List.of(
                     part(parts, hosts, 2, "units-0", "units", uris(hosts, 2, 3, 1), settingsFile, siteId, "--unit-share", "0/2"),
                     part(parts, hosts, 3, "units-1", "units", uris(hosts, 3, 1, 2), settingsFile, siteId, "--unit-share", "1/2"));
             for (PartProcess u : unitHosts) {
-                say.accept("bench: " + u.awaitReady(600));
+                say.accept("bench: " + u.awaitReady(PART_READY_S));
             }
             Map<String, Long> pids = new LinkedHashMap<>();
             for (int i = 1; i <= 3; i++) {

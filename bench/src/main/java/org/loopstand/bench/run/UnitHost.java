@@ -87,14 +87,7 @@ final class UnitHost implements AutoCloseable {
     /** Starts the scan, then the links (the first connect subscribes all), and waits for them. */
     void start() throws InterruptedException {
         runner.start();
-        for (MqttLink l : links) {
-            l.start();
-        }
-        for (MqttLink l : links) {
-            if (!l.awaitConnected(connectWaitMs)) {
-                throw new IllegalStateException("unit host link " + l.clientId() + " did not connect");
-            }
-        }
+        BenchLinks.startAndAwait(links, connectWaitMs, "unit host");
     }
 
     int unitCount() {
