@@ -16,6 +16,7 @@ import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
 import org.junit.jupiter.api.io.TempDir;
+import org.loopstand.brokernode.hosts.NamespaceHosts;
 import org.loopstand.protocol.journal.JournalEntry;
 import org.loopstand.protocol.journal.JournalFormat;
 import org.loopstand.protocol.journal.JournalReader;
@@ -48,7 +49,7 @@ class CrossHostRehearsalTest {
     private static final int MQTT_PORT = 8883;
     private static final long TRIP_AT_MS = 120_000;
     private static final String STORE_PASSWORD = "store-password-0123";
-    private NetnsHosts hosts;
+    private NamespaceHosts hosts;
 
     @TempDir
     Path dir;

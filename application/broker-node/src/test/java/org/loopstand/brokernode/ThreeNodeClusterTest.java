@@ -17,6 +17,7 @@ import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
 import org.junit.jupiter.api.io.TempDir;
+import org.loopstand.brokernode.hosts.NamespaceHosts;
 import org.loopstand.protocol.time.WallClock;
 
 /**
@@ -40,7 +41,7 @@ class ThreeNodeClusterTest {
     private final WallClock clock = WallClock.INSTANCE;
     private TestProcesses children;
     private final Map<String, Long> figures = new LinkedHashMap<>();
-    private NetnsHosts hosts;
+    private NamespaceHosts hosts;
 
     @TempDir
     Path dir;

@@ -9,13 +9,19 @@ import java.util.concurrent.Callable;
 import org.loopstand.bench.run.BenchResult;
 import org.loopstand.bench.run.BenchSettings;
 import org.loopstand.bench.run.BusBench;
+import org.loopstand.bench.run.HostsBench;
+import org.loopstand.bench.run.HostsResult;
 import org.loopstand.bench.run.ProcessesBench;
 import org.loopstand.plant.runtime.ConnectionGrouping;
 import org.loopstand.protocol.time.WallClock;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
 
-/** {@code ./loopstand bench bus}: plant + controller + raw Paho loop at a chosen size, one JVM, one clock. */
+/**
+ * {@code ./loopstand bench bus}: plant + controller + raw Paho loop at a chosen size, one JVM, one clock; or
+ * plant and controller in processes of their own; or the whole rig across network-namespace hosts on a
+ * three-node broker cluster ({@code --layout hosts}).
+ */
 @Command(name = "bus", mixinStandardHelpOptions = true,
         description = "Generate a site, run plant and controller over a broker beside a raw Paho loop, and write the figures.")
 public final class BusCommand implements Callable<Integer> {
@@ -28,7 +34,7 @@ public final class BusCommand implements Callable<Integer> {
     @Option(names = "--areas", defaultValue = "50", description = "areas (default ${DEFAULT-VALUE})")
     int areas;
 
-    @Option(names = {"--wall-duration-s", "--duration"}, defaultValue = "60", description = "measured wall seconds after the warm-up (default ${DEFAULT-VALUE})")
+    @Option(names = {"--wall-duration-s", "--duration-s", "--duration"}, defaultValue = "60", description = "measured wall seconds after the warm-up (default ${DEFAULT-VALUE})")
     double durationS;
 
     @Option(names = "--warmup", defaultValue = "20", description = "wall seconds before measuring (default ${DEFAULT-VALUE})")
@@ -73,9 +79,19 @@ public final class BusCommand implements Callable<Integer> {
     @Option(names = "--load-step-mw", defaultValue = "100", description = "load step in the first area at 5 s and every 60 s, alternating sign, MW; 0 = none (default ${DEFAULT-VALUE})")
     double loadStepMw;
 
-    @Option(names = "--layout", defaultValue = "one-jvm", description = "one-jvm (plant, controller and raw loop in this JVM, one clock)"
-            + " or processes (plant and controller each in a JVM of their own, as in production) (default ${DEFAULT-VALUE})")
+    @Option(names = "--layout", defaultValue = "one-jvm", description = "one-jvm (plant, controller and raw loop in this JVM, one clock),"
+            + " processes (plant and controller each in a JVM of their own, as in production) or hosts (a three-node"
+            + " Artemis cluster on network-namespace hosts, the plant, two unit hosts and the controller each on a host;"
+            + " needs root and iproute2; --broker and the raw loop do not apply) (default ${DEFAULT-VALUE})")
     String layout;
+
+    @Option(names = "--field-scan-ms", defaultValue = "200", description = "--layout hosts: period of the plant's field"
+            + " readings to the units' interfaces on the unit hosts, ms (default ${DEFAULT-VALUE}, as the plant's)")
+    long fieldScanMs;
+
+    @Option(names = "--node-config", defaultValue = "config/broker/artemis/broker-node.xml", description = "--layout hosts:"
+            + " the broker node file (default ${DEFAULT-VALUE})")
+    Path nodeConfig;
 
     @Option(names = "--raw-pacing", defaultValue = "spread", description = "raw loop: spread (1 ms slots) or burst (one burst per"
             + " physics step, as the plant publishes) (default ${DEFAULT-VALUE})")
@@ -99,12 +115,32 @@ public final class BusCommand implements Callable<Integer> {
             System.err.println("bench: " + e.getMessage());
             return 2;
         }
+        if (s.layout() == BenchSettings.Layout.HOSTS) {
+            return runHosts(s);
+        }
         BenchResult r = s.layout() == BenchSettings.Layout.PROCESSES
                 ? new ProcessesBench(s, BusCommand::say, List.of(BenchCli.class.getName(), "bus-part")).run()
                 : new BusBench(s, BusCommand::say).run();
         r.write(s.outDir());
         r.print(System.out);
         say("bench: table, samples.csv, bench.hlog and controller.hlog in " + s.outDir());
+        return r.plantFailure() == null ? 0 : 1;
+    }
+
+    private Integer runHosts(BenchSettings s) throws Exception {
+        HostsResult r;
+        try {
+            r = new HostsBench(s, nodeConfig, BusCommand::say, List.of(BenchCli.class.getName(), "bus-part")).run();
+        } catch (HostsBench.NamespacesUnavailable e) {
+            System.err.println("bench: --layout hosts: " + e.getMessage());
+            return 3;
+        } catch (IllegalArgumentException e) {
+            System.err.println("bench: " + e.getMessage());
+            return 2;
+        }
+        r.write(s.outDir());
+        r.print(System.out);
+        say("bench: hosts-table.txt, hosts-result.json and every process's log in " + s.outDir());
         return r.plantFailure() == null ? 0 : 1;
     }
 
@@ -117,9 +153,11 @@ public final class BusCommand implements Callable<Integer> {
         }
         Path dir = out != null ? out : Path.of("runs", "bench-" + DateTimeFormatter.ofPattern("yyyyMMdd-HHmmss")
                 .format(Instant.ofEpochMilli(WallClock.INSTANCE.epochMillis()).atZone(ZoneId.systemDefault())));
+        BenchSettings.Layout l = BenchSettings.Layout.parse(layout);
         return new BenchSettings(units, areas, durationS, warmupS, broker, brokerConfig, g, poolSize, intakeConnections,
                 telemetryMs, meterMs, cycleS, sampleS, !noRaw, !noWake, unitScanMs, loadStepMw, dir,
-                BenchSettings.Layout.parse(layout), BenchSettings.RawPacing.parse(rawPacing), partJvmOpts);
+                l, BenchSettings.RawPacing.parse(rawPacing), partJvmOpts, l == BenchSettings.Layout.HOSTS ? "bench" : "",
+                fieldScanMs);
     }
 
     private static void say(String line) {

@@ -10,7 +10,10 @@ import org.loopstand.protocol.bus.MessageListener;
 import org.loopstand.protocol.bus.OutboundMessage;
 import org.loopstand.protocol.bus.Qos;
 
-/** The controller's bus with probes: counts commands published, PUBACKed or failed (by reason), acks received. */
+/**
+ * The controller's bus with probes: counts commands published, PUBACKed or failed (by reason), acks, unit
+ * telemetry and area meter messages received.
+ */
 public final class CommandCountingBus extends ForwardingBus {
     private final StampingBus.CommandTally tally;
 
@@ -46,7 +49,14 @@ public final class CommandCountingBus extends ForwardingBus {
                 listener.onMessage(msg);
             });
         } else {
-            inner.subscribe(topicFilter, qos, listener);
+            inner.subscribe(topicFilter, qos, msg -> {
+                if (msg.topic().endsWith("/telemetry")) {
+                    tally.telemetryReceived.increment();
+                } else if (msg.topic().contains("/meter/")) {
+                    tally.metersReceived.increment();
+                }
+                listener.onMessage(msg);
+            });
         }
     }
 

@@ -36,6 +36,8 @@ public final class StampingBus extends ForwardingBus {
             }
         } else if (t.endsWith("/ack")) {
             tally.acksPublished.increment();
+        } else if (t.contains("/field/")) {
+            tally.fieldPublished.increment();
         }
         return inner.publish(m);
     }
@@ -62,6 +64,11 @@ public final class StampingBus extends ForwardingBus {
         public final LongAdder commandsArrived = new LongAdder();
         public final LongAdder acksPublished = new LongAdder();
         public final LongAdder acksReceived = new LongAdder();
+        /** field readings (plant) or references (unit hosts) published, layout hosts */
+        public final LongAdder fieldPublished = new LongAdder();
+        /** unit telemetry and area meter messages the controller's bus delivered */
+        public final LongAdder telemetryReceived = new LongAdder();
+        public final LongAdder metersReceived = new LongAdder();
         public final java.util.Map<String, LongAdder> failedByReason = new java.util.concurrent.ConcurrentHashMap<>();
     }
 }

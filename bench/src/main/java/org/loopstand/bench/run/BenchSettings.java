@@ -29,21 +29,34 @@ import org.loopstand.plant.runtime.ConnectionGrouping;
  * @param rawPacing          how the raw loop spaces its messages
  * @param partJvmOpts        JVM options of the plant and controller processes (layout processes), split
  *                           on spaces; {@code {role}} is replaced by {@code plant} or {@code controller}
+ * @param brokerUser         MQTT login of every bench connection, empty for none; its password is in
+ *                           {@link #BROKER_PASSWORD_FILE} of the run folder (layout hosts)
+ * @param fieldScanMs        layout hosts: period of the plant's field readings to the unit hosts, ms, ≥ 1 (the
+ *                           plant's default is 200)
  */
 public record BenchSettings(int units, int areas, double durationS, double warmupS, String broker, Path brokerConfig,
                             ConnectionGrouping grouping, int poolSize, int intakeConnections, long telemetryScanMs,
                             long meterScanMs, int cycleS, double sampleS, boolean raw, boolean wakeOnInput,
                             long unitScanMs, double loadStepMw, Path outDir, Layout layout, RawPacing rawPacing,
-                            String partJvmOpts) {
+                            String partJvmOpts, String brokerUser,
+                            long fieldScanMs) {
+    /** The file in the run folder whose first line is the password of {@link #brokerUser}. */
+    public static final String BROKER_PASSWORD_FILE = "broker-login.password";
+
     /** Where plant and controller run. */
     public enum Layout {
         /** plant, controller, raw loop (and the embedded broker) share the bench's JVM and one clock */
         ONE_JVM,
         /** plant and controller each in a JVM of their own, as in production; the raw loop in the bench's */
-        PROCESSES;
+        PROCESSES,
+        /**
+         * three-node broker cluster on network-namespace hosts, the plant, the units' interfaces on two unit
+         * hosts and the controller each on a host ({@link HostsBench}); no raw loop
+         */
+        HOSTS;
 
         public String cliName() {
-            return this == ONE_JVM ? "one-jvm" : "processes";
+            return this == ONE_JVM ? "one-jvm" : name().toLowerCase(java.util.Locale.ROOT);
         }
 
         public static Layout parse(String text) {
@@ -52,7 +65,7 @@ public record BenchSettings(int units, int areas, double durationS, double warmu
                     return l;
                 }
             }
-            throw new IllegalArgumentException("--layout must be one-jvm or processes, got " + text);
+            throw new IllegalArgumentException("--layout must be one-jvm, processes or hosts, got " + text);
         }
     }
 
@@ -84,11 +97,14 @@ public record BenchSettings(int units, int areas, double durationS, double warmu
         if (!(durationS > 0) || warmupS < 0 || !(sampleS > 0)) {
             throw new IllegalArgumentException("duration and sample period must be > 0, warm-up ≥ 0");
         }
+        if (fieldScanMs < 1) {
+            throw new IllegalArgumentException("field scan period must be ≥ 1 ms, got " + fieldScanMs);
+        }
         if (poolSize < 1 || intakeConnections < 1) {
             throw new IllegalArgumentException("pool size and intake connections must be ≥ 1");
         }
-        if (layout == null || rawPacing == null || partJvmOpts == null) {
-            throw new IllegalArgumentException("layout, raw pacing and part JVM options are required");
+        if (layout == null || rawPacing == null || partJvmOpts == null || brokerUser == null) {
+            throw new IllegalArgumentException("layout, raw pacing, part JVM options and broker user are required");
         }
     }
 

@@ -21,10 +21,12 @@ import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.WallClock;
 
 /**
- * One half of a bench run in a process of its own (layout processes): the plant or the controller,
- * told by the bench on its standard input when the measured window starts ({@code mark}) and ends
- * ({@code stop}). It prints {@code part: ready} once connected and running, {@code part: done} once
- * its figures ({@link PartFigures}) are written.
+ * One part of a bench run in a process of its own (layouts processes and hosts): the plant, the controller
+ * or a unit host ({@link UnitHost}), told by the bench on its standard input when the measured window starts
+ * ({@code mark}) and ends ({@code stop}; or {@code end}, after which the plant and a unit host keep serving
+ * until {@code stop}, so that the controller's last commands still find their units). It prints
+ * {@code part: ready} once connected and running, {@code part: done} once its figures ({@link PartFigures})
+ * are written.
  */
 public final class BusPart {
     public static final String READY = "part: ready";
@@ -36,6 +38,9 @@ public final class BusPart {
     private final String serverUri;
     private final Consumer<String> say;
     private final LinkedBlockingQueue<String> orders = new LinkedBlockingQueue<>();
+    private String lastOrder = "";
+    private int unitShare;
+    private int unitShares = 1;
 
     public BusPart(Path settingsFile, String siteId, String serverUri, Consumer<String> say) throws IOException {
         this.s = SettingsFile.read(settingsFile);
@@ -44,7 +49,14 @@ public final class BusPart {
         this.say = say;
     }
 
-    /** @param role {@code plant} or {@code controller}; @return exit code */
+    /** For role {@code units}: this host serves the units whose index modulo {@code shares} is {@code share}. */
+    public BusPart unitShare(int share, int shares) {
+        this.unitShare = share;
+        this.unitShares = shares;
+        return this;
+    }
+
+    /** @param role {@code plant}, {@code controller} or {@code units}; @return exit code */
     public int run(String role, InputStream orderStream) throws Exception {
         Thread reader = new Thread(() -> readOrders(orderStream), "bench-part-orders");
         reader.setDaemon(true);
@@ -64,12 +76,15 @@ public final class BusPart {
             waitFor("mark", sampler, null);
             Histogram atMark = plant.latenessUs();
             long publishedAtMark = tally.measuredPublished.sum();
+            long fieldAtMark = tally.fieldPublished.sum();
             sampler.reset();
-            waitFor("stop", sampler, plant::failure);
+            waitFor("end", sampler, plant::failure);
             Histogram lateness = plant.latenessUs();
             lateness.subtract(atMark);
             histograms.put("stepLatenessUs", lateness);
             counters.put("measuredPublishedInWindow", tally.measuredPublished.sum() - publishedAtMark);
+            counters.put("fieldPublishedInWindow", tally.fieldPublished.sum() - fieldAtMark);
+            keepServingUntilStop(sampler, plant::failure);
             counters.put("measuredPublished", tally.measuredPublished.sum());
             counters.put("commandsArrived", tally.commandsArrived.sum());
             counters.put("acksPublished", tally.acksPublished.sum());
@@ -91,6 +106,8 @@ public final class BusPart {
             probed.cycleWorkUs.getIntervalHistogram();
             long routedAtMark = ctl.agent().intake().messagesRouted();
             long cyclesAtMark = ctl.agent().cyclesRun();
+            long[] atMark = {tally.telemetryReceived.sum(), tally.metersReceived.sum(), tally.commandsPublished.sum(),
+                    tally.acksReceived.sum()};
             counters.put("markEpochMs", clock.epochMillis());
             sampler.reset();
             waitFor("stop", sampler, () -> ctl.isRunning() ? null : new IllegalStateException("controller stopped"));
@@ -99,7 +116,12 @@ public final class BusPart {
             histograms.put("cycleWorkUs", probed.cycleWorkUs.getIntervalHistogram());
             counters.put("routedInWindow", ctl.agent().intake().messagesRouted() - routedAtMark);
             counters.put("cyclesInWindow", ctl.agent().cyclesRun() - cyclesAtMark);
+            counters.put("telemetryReceivedInWindow", tally.telemetryReceived.sum() - atMark[0]);
+            counters.put("metersReceivedInWindow", tally.metersReceived.sum() - atMark[1]);
+            counters.put("commandsPublishedInWindow", tally.commandsPublished.sum() - atMark[2]);
+            counters.put("acksReceivedInWindow", tally.acksReceived.sum() - atMark[3]);
             ctl.stopCycles();
+            counters.putAll(ctl.inputSeqCounts());
             LockSupport.parkNanos(3_000_000_000L); // the last commands' acks come back
             counters.put("commandsPublished", tally.commandsPublished.sum());
             counters.put("commandsPubacked", tally.commandsPubacked.sum());
@@ -110,13 +132,62 @@ public final class BusPart {
             ctl.agent().intake().rejectedByReason().forEach((k, v) -> counters.put("rejected." + k, ((Number) v).longValue()));
             failure = null;
             ctl.closeBus();
+        } else if ("units".equals(role)) {
+            failure = runUnits(site, sampler, counters, histograms);
         } else {
-            say.accept("bench: --role must be plant or controller, got " + role);
+            say.accept("bench: --role must be plant, controller or units, got " + role);
             return 2;
         }
-        new PartFigures(counters, histograms, sampler.samples(), failure).write(s.outDir(), role);
+        new PartFigures(counters, histograms, sampler.samples(), failure).write(s.outDir(), partName(role, unitShare));
         say.accept(DONE);
         return failure == null ? 0 : 1;
+    }
+
+    private String runUnits(Path site, ResourceSampler sampler, Map<String, Long> counters,
+                            Map<String, Histogram> histograms) throws Exception {
+        try (UnitHost host = new UnitHost(s, SiteLoader.load(site), serverUri, unitShare, unitShares, clock)) {
+            StampingBus.CommandTally t = host.tally;
+            host.start();
+            say.accept(READY + " units " + unitShare + "/" + unitShares + ", " + host.unitCount() + " units on "
+                    + host.connections() + " connections");
+            waitFor("mark", sampler, null);
+            host.latencyIntervalMs();
+            long[] atMark = {t.measuredPublished.sum(), t.acksPublished.sum(), t.commandsArrived.sum(),
+                    t.fieldPublished.sum(), host.fieldReadingsReceived.sum()};
+            sampler.reset();
+            java.util.function.Supplier<Throwable> stopped = () -> host.isRunning() ? null
+                    : new IllegalStateException("unit host scan stopped");
+            waitFor("end", sampler, stopped);
+            histograms.put("commandLatencyMs", host.latencyIntervalMs());
+            counters.put("telemetryPublishedInWindow", t.measuredPublished.sum() - atMark[0]);
+            counters.put("acksPublishedInWindow", t.acksPublished.sum() - atMark[1]);
+            counters.put("commandsArrivedInWindow", t.commandsArrived.sum() - atMark[2]);
+            counters.put("fieldReferencesPublishedInWindow", t.fieldPublished.sum() - atMark[3]);
+            counters.put("fieldReadingsReceivedInWindow", host.fieldReadingsReceived.sum() - atMark[4]);
+            keepServingUntilStop(sampler, stopped);
+            Histogram tail = host.latencyIntervalMs();
+            histograms.put("commandLatencyAfterWindowMs", tail);
+            counters.put("units", (long) host.unitCount());
+            counters.put("connections", (long) host.connections());
+            counters.put("unitsCommanded", (long) host.unitsCommanded.size());
+            counters.put("commandsArrived", t.commandsArrived.sum());
+            counters.put("acksPublished", t.acksPublished.sum());
+            host.acksRejectedByReason.forEach((k, v) -> counters.put("acksRejected." + k, v.sum()));
+            return host.isRunning() ? null : "unit host scan stopped";
+        }
+    }
+
+    /** @return the name of a part's figures files: its role, a unit host's with its share ({@code units-0}) */
+    static String partName(String role, int unitShare) {
+        return "units".equals(role) ? "units-" + unitShare : role;
+    }
+
+    /** After {@code end}: waits for {@code stop} unless {@code stop} already came. */
+    private void keepServingUntilStop(ResourceSampler sampler, java.util.function.Supplier<Throwable> failure)
+            throws InterruptedException {
+        if (!"stop".equals(lastOrder)) {
+            waitFor("stop", sampler, failure);
+        }
     }
 
     private void readOrders(InputStream in) {
@@ -138,10 +209,12 @@ public final class BusPart {
         while (true) {
             String o = orders.poll(200, TimeUnit.MILLISECONDS);
             if (o != null && (o.equals(order) || o.equals("stop"))) {
+                lastOrder = o;
                 return;
             }
             if (failure != null && failure.get() != null) {
                 say.accept("bench: part failed: " + failure.get());
+                lastOrder = "stop";
                 return;
             }
             if (clock.monotonicNanos() >= next) {

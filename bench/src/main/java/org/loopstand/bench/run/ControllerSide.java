@@ -34,14 +34,18 @@ final class ControllerSide {
     private final ControllerAgent agent;
     private final ProbedController probed;
     private final AgentRunner runner;
+    private final ControllerSiteConfig site;
+    private final long connectWaitMs;
 
     /** @param stamps told of every routed message, null when the plant runs in another process */
     ControllerSide(BenchSettings s, ControllerSiteConfig site, String siteId, String serverUri, PublishStamps stamps,
                    StampingBus.CommandTally tally, Clock clock, Path hlogFile) throws IOException {
+        this.connectWaitMs = BenchLinks.connectWaitMs(s, 20_000);
+        this.site = site;
         long epoch = clock.epochMillis();
         OutboundMessage will = ControllerAgent.offlineStatus(siteId, CONTROLLER_ID, epoch, epoch);
         for (int k = 0; k < s.intakeConnections(); k++) {
-            MqttLinkConfig.Builder b = MqttLinkConfig.builder().serverUri(serverUri)
+            MqttLinkConfig.Builder b = BenchLinks.configure(MqttLinkConfig.builder().serverUri(serverUri), s)
                     .clientId(CONTROLLER_ID + "-in" + k).receiveQueueCapacity(100_000);
             if (k == 0) {
                 b.lastWill(will.topic(), will.payload(), will.qos(), will.retained());
@@ -67,14 +71,34 @@ final class ControllerSide {
     /** Starts the cycles, then the links (the first connect subscribes all), and waits for them. */
     void start() throws InterruptedException {
         runner.start();
-        for (MqttLink l : links) {
-            l.start();
-        }
-        for (MqttLink l : links) {
-            if (!l.awaitConnected(20_000)) {
-                throw new IllegalStateException("controller link " + l.clientId() + " did not connect");
+        BenchLinks.startAndAwait(links, connectWaitMs, "controller");
+    }
+
+    /**
+     * Call after {@link #stopCycles()} (the trackers belong to the cycle's thread).
+     *
+     * @return unit telemetry and area meter messages taken in sequence and missing by sequence number (gaps), per
+     *         kind, since start: {@code telemetryTaken}, {@code telemetryMissing}, {@code metersTaken}, {@code metersMissing}
+     */
+    java.util.Map<String, Long> inputSeqCounts() {
+        long[] t = new long[4];
+        for (var u : site.units()) {
+            var v = agent.intake().telemetryCheck(u.id());
+            if (v != null) {
+                t[0] += v.seqTracker().takenCount();
+                t[1] += v.seqTracker().missingCount();
             }
         }
+        for (var a : site.areas()) {
+            var f = agent.intake().frequencyInput(a.id());
+            for (var v : java.util.Arrays.asList(f.primary(), f.alternate())) {
+                if (v != null) {
+                    t[2] += v.seqTracker().takenCount();
+                    t[3] += v.seqTracker().missingCount();
+                }
+            }
+        }
+        return java.util.Map.of("telemetryTaken", t[0], "telemetryMissing", t[1], "metersTaken", t[2], "metersMissing", t[3]);
     }
 
     ControllerAgent agent() {

@@ -37,18 +37,31 @@ final class PartProcess implements AutoCloseable {
     static PartProcess start(String role, List<String> partMain, BenchSettings s, Path settingsFile, String siteId,
                              String serverUri)
             throws IOException {
-        List<String> cmd = new ArrayList<>();
+        return start(List.of(), role, role, partMain, s, settingsFile, siteId, serverUri, List.of());
+    }
+
+    /**
+     * @param prefix   what the java command is run under (e.g. {@code ip netns exec HOST}: it execs java, so the
+     *                 process's pid is the JVM's), may be empty
+     * @param name     the part's name (its log and figures files), e.g. {@code units-b}
+     * @param role     plant, controller or units
+     * @param moreArgs further arguments of the part's command line
+     */
+    static PartProcess start(List<String> prefix, String name, String role, List<String> partMain, BenchSettings s,
+                             Path settingsFile, String siteId, String serverUri, List<String> moreArgs) throws IOException {
+        List<String> cmd = new ArrayList<>(prefix);
         cmd.add(ProcessHandle.current().info().command().orElse("java"));
         for (String o : s.partJvmOpts().trim().split("\\s+")) {
             if (!o.isEmpty()) {
-                cmd.add(o.replace("{role}", role));
+                cmd.add(o.replace("{role}", name));
             }
         }
         cmd.addAll(List.of("-cp", System.getProperty("java.class.path")));
         cmd.addAll(partMain);
         cmd.addAll(List.of("--role", role, "--settings", settingsFile.toString(), "--site-id", siteId, "--broker-uri", serverUri));
+        cmd.addAll(moreArgs);
         Process p = new ProcessBuilder(cmd).redirectErrorStream(true).start();
-        return new PartProcess(role, p, s.outDir().resolve("part-" + role + ".log"));
+        return new PartProcess(name, p, s.outDir().resolve("part-" + name + ".log"));
     }
 
     private void pump(Path log) {

@@ -36,12 +36,14 @@ final class PlantSide implements AutoCloseable {
     private final PlantRunner plant;
     private final GridSimulator sim;
     private final int telemetryBytes;
+    private final long connectWaitMs;
 
     /** @param stamps where publishes are stamped, null when the controller runs in another process */
     PlantSide(BenchSettings s, Grid grid, String serverUri, PublishStamps stamps, StampingBus.CommandTally tally,
               Clock clock, Consumer<String> say) {
+        this.connectWaitMs = BenchLinks.connectWaitMs(s, 60_000);
         LinkFactory factory = (clientId, will) -> {
-            MqttLinkConfig.Builder b = MqttLinkConfig.builder().serverUri(serverUri).clientId(clientId);
+            MqttLinkConfig.Builder b = BenchLinks.configure(MqttLinkConfig.builder().serverUri(serverUri).clientId(clientId), s);
             if (will != null) {
                 b.lastWill(will.topic(), will.payload(), will.qos(), will.retained());
             }
@@ -54,16 +56,20 @@ final class PlantSide implements AutoCloseable {
             meters.add(MeterSettings.defaults(a.id()).withScanPeriodMs(s.meterScanMs()));
         }
         InterfaceOptions iface = InterfaceOptions.defaults().withTelemetryScanMs(s.telemetryScanMs(), Map.of());
-        PlantOptions po = new PlantOptions(1.0, Set.of(), s.grouping(), s.poolSize(), meters, iface,
+        // layout hosts: every unit's interface runs on a unit host, the plant serves their turbines over the field topics
+        Set<String> remote = s.layout() == BenchSettings.Layout.HOSTS
+                ? grid.units().stream().map(u -> u.id()).collect(java.util.stream.Collectors.toSet()) : Set.of();
+        PlantOptions po = new PlantOptions(1.0, remote, s.grouping(), s.poolSize(), meters, iface,
                 Qos.AT_MOST_ONCE, 256, 1, 1.0);
         sim = new GridSimulator(grid);
-        plant = new PlantRunner(sim, loadSteps(grid, s), po, factory, clock, say::accept).unitScanMs(s.unitScanMs());
+        plant = new PlantRunner(sim, loadSteps(grid, s), po, factory, clock, say::accept).unitScanMs(s.unitScanMs())
+                .fieldPeriodMs(s.fieldScanMs());
         List<UnitDutyCycle> hosts = plant.unitCycles();
         long periodNanos = s.telemetryScanMs() * 1_000_000L;
         for (int i = 0; i < hosts.size(); i++) {
             hosts.get(i).unit().staggerTelemetry(i * periodNanos / hosts.size());
         }
-        telemetryBytes = new MessageCodec().encode(hosts.get(0).unit().telemetry()).length;
+        telemetryBytes = hosts.isEmpty() ? 0 : new MessageCodec().encode(hosts.get(0).unit().telemetry()).length;
     }
 
     /**
@@ -86,7 +92,7 @@ final class PlantSide implements AutoCloseable {
 
     void awaitConnected() throws InterruptedException {
         for (MqttLink l : links) {
-            if (!l.awaitConnected(60_000)) {
+            if (!l.awaitConnected(connectWaitMs)) {
                 throw new IllegalStateException("plant link " + l.clientId() + " did not connect");
             }
         }

@@ -1,12 +1,9 @@
 package org.loopstand.bench.run;
 
-import java.io.IOException;
 import java.lang.management.ManagementFactory;
 import java.lang.management.MemoryPoolMXBean;
 import java.lang.management.MemoryType;
 import java.lang.management.MemoryUsage;
-import java.nio.file.Files;
-import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.OptionalLong;
@@ -20,8 +17,6 @@ import org.loopstand.protocol.time.Clock;
 final class ResourceSampler {
     record Sample(double tS, long heapAfterGcBytes, long heapUsedBytes, double jvmCpuPct, double brokerCpuPct) {
     }
-
-    private static final long CLOCK_TICKS_PER_S = 100; // USER_HZ on Linux
 
     private final Clock clock;
     private final OptionalLong brokerPid;
@@ -56,7 +51,7 @@ final class ResourceSampler {
         long ticks = brokerTicks();
         double wall = Math.max(1, now - lastNanos);
         double jvmPct = 100.0 * (cpu - lastJvmCpuNanos) / wall;
-        double brokerPct = ticks < 0 ? Double.NaN : 100.0 * (ticks - lastBrokerTicks) * (1e9 / CLOCK_TICKS_PER_S) / wall;
+        double brokerPct = ticks < 0 ? Double.NaN : 100.0 * (ticks - lastBrokerTicks) * (1e9 / ProcStat.CLOCK_TICKS_PER_S) / wall;
         lastNanos = now;
         lastJvmCpuNanos = cpu;
         lastBrokerTicks = ticks;
@@ -80,15 +75,6 @@ final class ResourceSampler {
     }
 
     private long brokerTicks() {
-        if (brokerPid.isEmpty()) {
-            return -1;
-        }
-        try {
-            String stat = Files.readString(Path.of("/proc/" + brokerPid.getAsLong() + "/stat"));
-            String[] f = stat.substring(stat.lastIndexOf(')') + 2).split(" ");
-            return Long.parseLong(f[11]) + Long.parseLong(f[12]); // utime + stime (fields 14, 15)
-        } catch (IOException | RuntimeException e) {
-            return -1;
-        }
+        return brokerPid.isEmpty() ? -1 : ProcStat.cpuTicks(brokerPid.getAsLong());
     }
 }

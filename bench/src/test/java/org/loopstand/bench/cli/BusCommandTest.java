@@ -99,7 +99,7 @@ class BusCommandTest {
     void shouldRunTenUnitsInOneJvm() throws Exception {
         BenchSettings s = new BenchSettings(10, 2, 4, 2, broker.serverUri(), Path.of("config/broker/mosquitto-bench.conf"),
                 ConnectionGrouping.POOLED, 2, 2, 1000, 2000, 1, 3, true, true, 100, 0, dir.resolve("run"),
-                BenchSettings.Layout.ONE_JVM, BenchSettings.RawPacing.SPREAD, "-Xss1m");
+                BenchSettings.Layout.ONE_JVM, BenchSettings.RawPacing.SPREAD, "-Xss1m", "", 200);
         BenchResult r = new BusBench(s, line -> { }).run();
         r.write(s.outDir());
         assertThat(r.plantFailure()).isNull();
@@ -114,7 +114,7 @@ class BusCommandTest {
     void shouldMeasureTenUnitsWithPlantAndControllerInProcessesOfTheirOwn() throws Exception {
         BenchSettings s = new BenchSettings(10, 2, 4, 2, broker.serverUri(), Path.of("config/broker/mosquitto-bench.conf"),
                 ConnectionGrouping.POOLED, 2, 2, 1000, 2000, 1, 2, true, true, 100, 0, dir.resolve("run"),
-                BenchSettings.Layout.PROCESSES, BenchSettings.RawPacing.BURST, "-Xss1m -Xmx128m");
+                BenchSettings.Layout.PROCESSES, BenchSettings.RawPacing.BURST, "-Xss1m -Xmx128m", "", 200);
         BenchResult r = new ProcessesBench(s, line -> { }, java.util.List.of(BenchCli.class.getName(), "bus-part")).run();
         r.write(s.outDir());
         assertThat(r.plantFailure()).isNull();

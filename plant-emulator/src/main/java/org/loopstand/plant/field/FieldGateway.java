@@ -34,7 +34,7 @@ public final class FieldGateway {
     private final MessageCodec codec;
     private final Clock clock;
     private final List<String> units;
-    private final long periodNanos;
+    private long periodNanos;
     private final Map<String, FieldReference> pending = new ConcurrentHashMap<>();
     private long nextReadingNanos;
     private long seq;
@@ -88,6 +88,15 @@ public final class FieldGateway {
             work++;
         }
         return work;
+    }
+
+    /** Before the first {@link #work}: the reading period, ms of scenario time, ≥ 1. */
+    public FieldGateway periodMs(long periodMs) {
+        if (periodMs < 1) {
+            throw new IllegalArgumentException("field reading period must be ≥ 1 ms, got " + periodMs);
+        }
+        this.periodNanos = periodMs * 1_000_000L;
+        return this;
     }
 
     /** @return load references applied since start */

@@ -49,6 +49,8 @@ public final class PlantRunner implements AutoCloseable {
     private final StepLateness lateness;
     private final PhysicsEpoch physicsEpoch;
     private final PlantCounters counters = new PlantCounters();
+    /** the physics side of the field topics, null when every unit interface runs in this process */
+    private final FieldGateway field;
     private AgentRunner runner;
     private OperatorOrders orders;
     private org.loopstand.plant.journal.PlantRunJournal runJournal;
@@ -87,7 +89,7 @@ public final class PlantRunner implements AutoCloseable {
             MeterSettings m = options.meters().get(i);
             meters.add(new AreaMeterPublisher(m, sim.grid(), options.seed() * 1_000 + i, start, seqStart));
         }
-        FieldGateway field = options.remoteUnits().isEmpty() ? null
+        this.field = options.remoteUnits().isEmpty() ? null
                 : new FieldGateway(sim, physicsEpoch, plantBus, topics, codec, clock,
                         sim.grid().units().stream().map(GeneratingUnit::id).filter(options.remoteUnits()::contains).toList(),
                         FieldGateway.DEFAULT_PERIOD_MS).start();
@@ -191,6 +193,17 @@ public final class PlantRunner implements AutoCloseable {
                 agent.noteEvent(Map.of("event", "linkDown", "clientId", plantBus.clientId(), "cause", String.valueOf(cause)));
             }
         });
+        return this;
+    }
+
+    /**
+     * Before {@link #start}: the period of the field readings sent to units whose interface runs in another
+     * process, ms of scenario time (default {@link FieldGateway#DEFAULT_PERIOD_MS}); no effect without such units.
+     */
+    public PlantRunner fieldPeriodMs(long periodMs) {
+        if (field != null) {
+            field.periodMs(periodMs);
+        }
         return this;
     }
 
