@@ -5,6 +5,8 @@ import java.util.List;
 import java.util.Map;
 import java.util.function.Consumer;
 
+import org.loopstand.protocol.time.BusClock;
+
 /**
  * Names a silent time source ({@code --clock bus}): when no clock tick came for the {@link BusClock}'s
  * silence limit while the last one said running, journals {@code clockSilent} (wall ms silent, the

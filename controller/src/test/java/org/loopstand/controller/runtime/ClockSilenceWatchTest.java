@@ -8,6 +8,7 @@ import java.util.Map;
 
 import org.junit.jupiter.api.Test;
 import org.loopstand.protocol.message.ClockTick;
+import org.loopstand.protocol.time.BusClock;
 import org.loopstand.protocol.time.VirtualClock;
 
 /** A silent time source named in the journal and the status, a stall of the plant not. */
