@@ -2,6 +2,7 @@ package org.loopstand.protocol.bus.memory;
 
 import java.util.ArrayDeque;
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -20,12 +21,18 @@ import org.loopstand.protocol.time.Clock;
 public final class InMemoryBroker {
     /** Largest number of deliveries one {@link #deliverPending()} may make (guards publish loops). */
     public static final int MAX_DELIVERIES_PER_ROUND = 1_000_000;
+    /** Most topics whose subscriptions are kept (a site has a few hundred). */
+    private static final int MAX_TOPICS_KEPT = 10_000;
 
     /** A message held by the broker with the time it was published. */
     private record Stored(OutboundMessage message, long publishedNanos) {
         boolean expiredAt(long nowNanos) {
             return message.expirySeconds() > 0 && nowNanos - publishedNanos >= message.expirySeconds() * 1_000_000_000L;
         }
+    }
+
+    /** One subscription a topic reaches. */
+    private record Target(InMemoryBus client, InMemoryBus.Subscription subscription) {
     }
 
     /** A message on its way to one subscription. */
@@ -37,6 +44,12 @@ public final class InMemoryBroker {
     private final Map<String, InMemoryBus> clients = new LinkedHashMap<>();
     private final Map<String, Stored> retained = new LinkedHashMap<>();
     private final ArrayDeque<Pending> pending = new ArrayDeque<>();
+    /**
+     * The subscriptions each published topic reaches, in delivery order (clients in connection order,
+     * then their subscriptions): a lockstep run publishes on a few hundred topics thousands of times.
+     * Emptied whenever a client connects or leaves or a subscription changes.
+     */
+    private final Map<String, List<Target>> targetsByTopic = new HashMap<>();
     private final LongAdder expired = new LongAdder();
 
     public InMemoryBroker(Clock clock, DeliveryMode mode) {
@@ -65,6 +78,7 @@ public final class InMemoryBroker {
         }
         InMemoryBus bus = new InMemoryBus(this, clientId, lastWill);
         clients.put(clientId, bus);
+        targetsByTopic.clear();
         return bus;
     }
 
@@ -74,6 +88,12 @@ public final class InMemoryBroker {
             throw new IllegalStateException("client id '" + bus.clientId() + "' is already connected");
         }
         clients.put(bus.clientId(), bus);
+        targetsByTopic.clear();
+    }
+
+    /** A client's subscriptions changed (called after the change, without the client's lock held). */
+    synchronized void subscriptionsChanged() {
+        targetsByTopic.clear();
     }
 
     public DeliveryMode mode() {
@@ -139,12 +159,9 @@ public final class InMemoryBroker {
                     retained.put(message.topic(), stored);
                 }
             }
-            for (InMemoryBus client : clients.values()) {
-                for (InMemoryBus.Subscription sub : client.subscriptionsSnapshot()) {
-                    if (FilterMatch.matches(sub.filter(), message.topic())) {
-                        targets.add(new Pending(client, sub.filter(), stored, lower(message.qos(), sub.qos()), false));
-                    }
-                }
+            for (Target t : targetsOf(message.topic())) {
+                InMemoryBus.Subscription sub = t.subscription();
+                targets.add(new Pending(t.client(), sub.filter(), stored, lower(message.qos(), sub.qos()), false));
             }
             if (mode == DeliveryMode.LOCKSTEP) {
                 pending.addAll(targets);
@@ -152,6 +169,27 @@ public final class InMemoryBroker {
             }
         }
         targets.forEach(this::deliver);
+    }
+
+    /** Caller holds this broker's lock. */
+    private List<Target> targetsOf(String topic) {
+        List<Target> known = targetsByTopic.get(topic);
+        if (known != null) {
+            return known;
+        }
+        List<Target> found = new ArrayList<>();
+        for (InMemoryBus client : clients.values()) {
+            for (InMemoryBus.Subscription sub : client.subscriptionsSnapshot()) {
+                if (FilterMatch.matches(sub.filter(), topic)) {
+                    found.add(new Target(client, sub));
+                }
+            }
+        }
+        if (targetsByTopic.size() >= MAX_TOPICS_KEPT) {
+            targetsByTopic.clear();
+        }
+        targetsByTopic.put(topic, found);
+        return found;
     }
 
     /** Queues (LOCKSTEP) or delivers (DIRECT) the retained messages matching a new subscription. */
@@ -173,6 +211,7 @@ public final class InMemoryBroker {
 
     synchronized void disconnect(InMemoryBus client, boolean publishWill) {
         clients.remove(client.clientId(), client);
+        targetsByTopic.clear();
         pending.removeIf(p -> p.subscriber() == client);
         if (publishWill && client.lastWill() != null) {
             // publish() takes the lock again (reentrant); DIRECT delivery then runs under it: wills are rare.

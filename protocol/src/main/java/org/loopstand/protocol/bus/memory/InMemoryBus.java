@@ -97,12 +97,16 @@ public final class InMemoryBus implements MessageBus {
             }
             subscriptions = List.copyOf(next);
         }
+        broker.subscriptionsChanged();
         broker.onSubscribed(this, topicFilter, qos);
     }
 
     @Override
-    public synchronized void unsubscribe(String topicFilter) {
-        subscriptions = subscriptions.stream().filter(s -> !s.filter().equals(topicFilter)).toList();
+    public void unsubscribe(String topicFilter) {
+        synchronized (this) {
+            subscriptions = subscriptions.stream().filter(s -> !s.filter().equals(topicFilter)).toList();
+        }
+        broker.subscriptionsChanged(); // not under this bus's lock: the broker's lock is taken before it elsewhere
     }
 
     void deliver(String filter, InboundMessage message) {

@@ -48,6 +48,34 @@ class InMemoryBusTest {
     }
 
     @Test
+    void shouldReachExactlyTheSubscriptionsOfTheMomentWhenTheSameTopicIsPublishedAgain() {
+        // The broker keeps each topic's subscriptions between publishes: every change must show at once.
+        InMemoryBroker broker = new InMemoryBroker(clock, DeliveryMode.DIRECT);
+        InMemoryBus plant = broker.connect("plant");
+        InMemoryBus ctl = broker.connect("controller");
+        Inbox first = new Inbox();
+        Inbox second = new Inbox();
+        Inbox late = new Inbox();
+        ctl.subscribe("rig/area/+/freq", Qos.AT_LEAST_ONCE, first);
+        plant.publish(msg("rig/area/north/freq", "1"));
+        ctl.subscribe("rig/#", Qos.AT_LEAST_ONCE, second);
+        plant.publish(msg("rig/area/north/freq", "2"));
+        InMemoryBus other = broker.connect("other");
+        other.subscribe("rig/area/north/freq", Qos.AT_LEAST_ONCE, late);
+        plant.publish(msg("rig/area/north/freq", "3"));
+        ctl.unsubscribe("rig/area/+/freq");
+        plant.publish(msg("rig/area/north/freq", "4"));
+        other.drop(false);
+        plant.publish(msg("rig/area/north/freq", "5"));
+        other.reconnect();
+        plant.publish(msg("rig/area/north/freq", "6"));
+
+        assertThat(first.payloads()).containsExactly("1", "2", "3");
+        assertThat(second.payloads()).containsExactly("2", "3", "4", "5", "6");
+        assertThat(late.payloads()).containsExactly("3", "4", "6");
+    }
+
+    @Test
     void shouldDeliverRetainedValueOnSubscribeAndClearItWithEmptyPayload() {
         InMemoryBroker broker = new InMemoryBroker(clock, DeliveryMode.DIRECT);
         InMemoryBus plant = broker.connect("plant");
