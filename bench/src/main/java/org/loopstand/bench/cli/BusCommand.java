@@ -49,7 +49,8 @@ public final class BusCommand implements Callable<Integer> {
     @Option(names = "--grouping", defaultValue = "pooled", description = "per-unit, per-plant or pooled (default ${DEFAULT-VALUE})")
     String grouping;
 
-    @Option(names = "--pool-size", defaultValue = "8", description = "plant connections for pooled (default ${DEFAULT-VALUE})")
+    @Option(names = "--pool-size", defaultValue = "8", description = "plant connections for pooled; --layout hosts:"
+            + " connections of each unit host (default ${DEFAULT-VALUE})")
     int poolSize;
 
     @Option(names = "--intake-connections", defaultValue = "2", description = "controller connections sharing the intake (default ${DEFAULT-VALUE})")

@@ -65,9 +65,24 @@ class BusCommandTest {
         assertThat(s.layout()).isEqualTo(BenchSettings.Layout.PROCESSES);
         assertThat(s.rawPacing()).isEqualTo(BenchSettings.RawPacing.BURST);
         assertThat(s.partJvmOpts()).isEqualTo("-Xmx1g -Xss1m");
+        assertThat(s.brokerUser()).as("no login off the cluster").isEmpty();
         BusCommand bad = new BusCommand();
         new CommandLine(bad).parseArgs("--units", "100", "--layout", "two-jvms");
-        assertThatThrownBy(bad::settings).hasMessageContaining("--layout must be one-jvm or processes, got two-jvms");
+        assertThatThrownBy(bad::settings).hasMessageContaining("--layout must be one-jvm, processes or hosts, got two-jvms");
+    }
+
+    @Test
+    void shouldParseTheHostsLayoutWithItsLoginAndFieldPeriod() {
+        BusCommand c = new BusCommand();
+        new CommandLine(c).parseArgs("--units", "1000", "--layout", "hosts", "--duration-s", "180", "--field-scan-ms", "1000");
+        BenchSettings s = c.settings();
+        assertThat(s.layout()).isEqualTo(BenchSettings.Layout.HOSTS);
+        assertThat(s.brokerUser()).as("the cluster's nodes ask every client to log in").isEqualTo("bench");
+        assertThat(s.fieldScanMs()).isEqualTo(1000);
+        assertThat(s.durationS()).isEqualTo(180);
+        BusCommand bad = new BusCommand();
+        new CommandLine(bad).parseArgs("--units", "100", "--layout", "hosts", "--field-scan-ms", "0");
+        assertThatThrownBy(bad::settings).hasMessageContaining("field scan period must be ≥ 1 ms, got 0");
     }
 
     @Test
