@@ -83,8 +83,11 @@ class UnitProcessPlantClockTest {
         ui.onCommand(pulse(1, SCENARIO_MS + 4_000, 4_000), clock.monotonicNanos()); // valid to +8 s: still valid
         assertThat(ui.acceptedCount()).as("accepted: only 5 s of scenario time went by " + ui.refusalCounts()).isEqualTo(1);
 
-        tick(SCENARIO_MS + 5_000, 32.0, true); // runs on at 0.8 × 40
-        wall.advanceMillis(250); // 8 s more at rate 32: +13 s
+        tick(SCENARIO_MS + 5_000, 20.0, true); // runs on at half the rate
+        for (int s = 1; s <= 8; s++) { // the plant's tick every scenario second: 50 wall ms apart at rate 20
+            wall.advanceMillis(50);
+            tick(SCENARIO_MS + 5_000 + s * 1_000L, 20.0, true);
+        }
         assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 13_000);
         ui.onCommand(pulse(2, SCENARIO_MS + 6_000, 4_000), clock.monotonicNanos()); // valid to +10 s: expired at +13 s
         assertThat(ui.refusalCount(RefusalReason.EXPIRED)).as("expired on the plant's slowed time").isEqualTo(1);
