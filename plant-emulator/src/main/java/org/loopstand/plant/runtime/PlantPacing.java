@@ -185,7 +185,7 @@ public final class PlantPacing {
             return;
         }
         double rate = clock.currentRate();
-        if (rate < clock.rate() && lateNanos < lagNanos / 4) {
+        if (rate < clock.rate() && lateNanos < lagNanos / 4 && clock.running()) { // not while another holds it
             long w = wall.monotonicNanos();
             if (w - lastChangeWallNanos >= calmNanos) {
                 double to = Math.min(clock.rate(), rounded(rate / settings.slowFactor()));
