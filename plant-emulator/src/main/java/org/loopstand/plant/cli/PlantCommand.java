@@ -217,7 +217,7 @@ public final class PlantCommand implements Callable<Integer> {
             say("plant: wire profile " + profile.name() + " from " + wireProfile + " on the controller's side of the bus");
         }
         PlantRunner runner = new PlantRunner(sim, events, options, loop.links(links::connect), clock, PlantCommand::say);
-        start.pace(clock, runner);
+        start.pace(clock, runner, iface.watchdogS);
         PlantSecurity.requireSignedCommands(security, runner.unitCycles().stream().map(UnitDutyCycle::unit).toList(), clock);
         PlantRunJournal runJournal = null;
         if (journalDir != null) {

@@ -9,6 +9,7 @@ import java.util.function.Consumer;
 import java.util.function.Supplier;
 
 import org.loopstand.plant.physics.GridSimulator;
+import org.loopstand.plant.runtime.HeartbeatPacing;
 import org.loopstand.plant.runtime.HeldStartClock;
 import org.loopstand.plant.runtime.PlantPacing;
 import org.loopstand.plant.runtime.PlantRunner;
@@ -45,6 +46,12 @@ public final class ScenarioClockMixin {
     double paceFactor;
 
     private PlantPacing pacing;
+    private HeartbeatPacing heartbeats;
+
+    /** Share of the units' watchdog a controller status may be late before the clock is held for it. */
+    static final double STATUS_LATE_SHARE = 0.5;
+    /** Longest hold for a late controller status, wall ns (as the controller's own silence limit). */
+    static final long STATUS_HOLD_WALL_NANOS = 2_000_000_000L;
 
     /** @throws IllegalArgumentException naming a wrong pace option */
     void check() {
@@ -72,7 +79,7 @@ public final class ScenarioClockMixin {
     }
 
     /** Before {@code runner.start()}: the pace keeper watches the loop's steps (when the clock can be slowed). */
-    void pace(Clock clock, PlantRunner runner) {
+    void pace(Clock clock, PlantRunner runner, double watchdogS) {
         if (clock instanceof HeldStartClock held && paceLagS > 0) {
             pacing = new PlantPacing(held, WallClock.INSTANCE, Math.round(runner.sim().stepS() * 1e9),
                     new PlantPacing.Settings(paceLagS, paceFactor, 0.8, 5.0), runner.agent()::noteEvent)
@@ -84,6 +91,10 @@ public final class ScenarioClockMixin {
             if (!waitGo) {
                 pacing.started();
             }
+            heartbeats = new HeartbeatPacing(held, WallClock.INSTANCE,
+                    HeartbeatPacing.freshestStatusAge(runner.unitCycles()),
+                    Math.round(STATUS_LATE_SHARE * watchdogS * 1e9), STATUS_HOLD_WALL_NANOS, runner.agent()::noteEvent);
+            runner.agent().watchCycles(heartbeats::onCycle);
         }
     }
 
@@ -117,6 +128,7 @@ public final class ScenarioClockMixin {
     void end(double simulatedS, Consumer<String> say) {
         if (pacing != null) {
             say.accept("plant: " + pacing.describe(simulatedS));
+            say.accept("plant: " + heartbeats.describe());
             pacing.finish(simulatedS).ifPresent(line -> say.accept("plant: " + line));
         }
     }

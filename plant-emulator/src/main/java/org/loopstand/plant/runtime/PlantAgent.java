@@ -59,6 +59,7 @@ public final class PlantAgent implements Agent {
     /** Steps between two passes over one unit interface (1 = every unit after every step). */
     private int unitSlices = 1;
     private Consumer<PlantAgent> sampler;
+    private Runnable cycleWatcher;
     private int unitWork;
     /** the scenario clock the physics' time is told to after every step (its leash), or null */
     private final HeldStartClock leashed;
@@ -171,6 +172,11 @@ public final class PlantAgent implements Agent {
         this.unitSlices = (int) Math.max(1, unitScanMs * 1_000_000L / stepNanos);
     }
 
+    /** Before start: {@code watcher} runs on the loop's thread after every cycle of a running scenario (cheap). */
+    public void watchCycles(Runnable watcher) {
+        this.cycleWatcher = watcher;
+    }
+
     /** Before start: every meter message sent or dropped is counted into {@code c} as the journal records it. */
     public void countInto(PlantCounters c) {
         meterScan.countInto(c);
@@ -243,6 +249,9 @@ public final class PlantAgent implements Agent {
         work += meterScan.scanDue(now, journal.journal(), faults);
         work += clockPublisher.publishIfDue(now, p.sim().timeS());
         work += journal.drainAndFlush();
+        if (cycleWatcher != null) {
+            cycleWatcher.run();
+        }
         if (sampler != null) {
             sampler.accept(this);
         }

@@ -185,7 +185,7 @@ public final class PlantPacing {
             return;
         }
         double rate = clock.currentRate();
-        if (rate < clock.rate() && lateNanos < lagNanos / 4) {
+        if (rate < clock.rate() && lateNanos < lagNanos / 4 && clock.running()) { // not while another holds it
             long w = wall.monotonicNanos();
             if (w - lastChangeWallNanos >= calmNanos) {
                 double to = Math.min(clock.rate(), rounded(rate / settings.slowFactor()));
@@ -214,9 +214,7 @@ public final class PlantPacing {
         }
         heldWallNanos += w - holdStartWallNanos;
         if (slow) {
-            lastChangeWallNanos = w;
-            slowdowns++;
-            lowestRate = Math.min(lowestRate, to);
+            slowedAt(w, to);
         } else {
             holds++;
         }
@@ -229,6 +227,13 @@ public final class PlantPacing {
         journal.accept(e);
     }
 
+    /** Counts a slow-down to {@code to} made at wall ns {@code w}. */
+    private void slowedAt(long w, double to) {
+        lastChangeWallNanos = w;
+        slowdowns++;
+        lowestRate = Math.min(lowestRate, to);
+    }
+
     /** Journals a stall the leash caught: the clock stood from the instant it reached the leash until now. */
     private void slipped(long w, double from, double to, boolean slow, double catchUpRate) {
         long stoodWallNanos = Math.max(0, w - clock.leashHoldWallNanos());
@@ -237,10 +242,8 @@ public final class PlantPacing {
         slipWallNanos += stoodWallNanos;
         notRunS += notRun;
         if (slow) {
-            lastChangeWallNanos = w;
-            slowdowns++;
+            slowedAt(w, to);
             slipSlowdowns++;
-            lowestRate = Math.min(lowestRate, to);
         }
         Map<String, Object> e = entry("paceSlipped", from, to);
         e.put("reason", "physicsLag");
@@ -289,10 +292,8 @@ public final class PlantPacing {
         }
         double to = Math.max(MIN_RATE, rounded(from * settings.slowFactor()));
         clock.runAt(to);
-        lastChangeWallNanos = w;
-        slowdowns++;
+        slowedAt(w, to);
         commandPathSlowdowns++;
-        lowestRate = Math.min(lowestRate, to);
         Map<String, Object> e = entry("paceSlowed", from, to);
         e.put("reason", "commandPath");
         e.put("unit", c.unit());

@@ -233,6 +233,15 @@ public final class UnitPlantInterface {
         return gate.tenure().active(clock.monotonicNanos());
     }
 
+    /**
+     * @param nowNanos the clock's monotonic reading, ns
+     * @return scenario ns since the last controller status while the watchdog is armed and the unit in remote
+     *         (what the watchdog counts), else -1
+     */
+    public long heartbeatAgeNanos(long nowNanos) {
+        return watchdogArmed && mode == ControlMode.REMOTE ? nowNanos - lastHeartbeatNanos : -1;
+    }
+
     /** Operator order: sets the control mode (the only way back to remote after the watchdog). */
     public void setControlMode(ControlMode newMode, String why) {
         if (newMode == mode) {
