@@ -21,7 +21,9 @@ import org.loopstand.protocol.message.UnitCommand;
  * after a silence in its status such as a node loss or a partition), what its first commands ask of the
  * area's units is no more than the area's ACE at that moment calls for. Bumpless transfer is a standard
  * rule of controller switching (from memory: Åström and Hägglund, Advanced PID Control, 2006, "bumpless
- * transfer"); the bound by the ACE is common practice, no source.
+ * transfer"); the bound by the ACE is common practice, no source. A status that only says the plant's
+ * scenario time stands still ({@value #WAITING_FOR_CLOCK}: the pace keeper holds the clock) hands nothing
+ * over and is not a suspension here; a silence of the status still is.
  */
 final class ResumeChecks {
     private ResumeChecks() {
@@ -86,6 +88,11 @@ final class ResumeChecks {
             double previousS = Double.NaN;
             java.util.Set<String> known = new java.util.LinkedHashSet<>();
             for (ControllerStatus s : list) {
+                if (heldClock(s)) {
+                    // the plant held scenario time (pace keeper, or before the go): no control was handed over,
+                    // the controller takes up where it stood when time runs on
+                    continue;
+                }
                 double atS = (s.sourceTime() - run.runStartEpochMs()) / 1000.0;
                 boolean silence = !Double.isNaN(previousS) && atS - previousS > gapS;
                 List<String> areas = areasOf(s);
@@ -116,6 +123,15 @@ final class ResumeChecks {
         }
         out.sort(Comparator.comparingDouble(Resume::atS));
         return out;
+    }
+
+    /** Reason a controller gives while the plant's scenario time stands still (docs/controller.md). */
+    static final String WAITING_FOR_CLOCK = "waitingForClock";
+
+    /** @return true for a status that says only that scenario time stands still */
+    private static boolean heldClock(ControllerStatus s) {
+        return s.state() == ControllerState.SUSPENDED && s.reasons().equals(List.of(WAITING_FOR_CLOCK))
+                && (s.suspendedAreas() == null || s.suspendedAreas().isEmpty());
     }
 
     private static List<String> areasOf(ControllerStatus s) {

@@ -129,6 +129,24 @@ class ResumeChecksTest {
     }
 
     @Test
+    void shouldNotTakeAHeldScenarioClockForASuspension() {
+        RunRecord run = truth();
+        for (int s = 0; s <= 200; s += 4) {
+            run.controllerStatus(ms(s), s == 60 || s == 64 // the plant's pace keeper held its clock: time stood still
+                    ? new ControllerStatus(++seq, ms(s), "controller-1", 1, ControllerState.SUSPENDED,
+                            List.of("waitingForClock"), 0, List.of(), null, null, null, null)
+                    : status(s, s == 36 ? ControllerState.SUSPENDED : ControllerState.REGULATING));
+        }
+        pulse(run, 69, "basin-gas-1", PulseDirection.LOWER, 40_000); // −20 MW, judged only after a real suspension
+
+        CheckOutcome o = decide(run);
+
+        assertThat(o.detail()).startsWith("1 resume(s): controller-1 north-basin at 40.0 s after suspended")
+                .doesNotContain("waitingForClock");
+        assertThat(o.passed()).isTrue();
+    }
+
+    @Test
     void shouldTakeALastWillWithoutAreasAsHoldingEveryAreaSeenBefore() {
         RunRecord run = truth();
         run.controllerStatus(ms(36), status(36, ControllerState.REGULATING));
