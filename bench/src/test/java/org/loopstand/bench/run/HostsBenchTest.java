@@ -59,7 +59,10 @@ class HostsBenchTest {
         // 40 units at 1 s telemetry: about 40 per second reached the controller over the 12 s window
         assertThat(r.ratesPerS().get("telemetry received (controller)")).isBetween(30.0, 50.0);
         assertThat(r.inputSeq().get("telemetryTaken")).isPositive();
-        assertThat(r.latencyMs().getTotalCount()).isPositive();
+        // one latency per command that reached a unit host in the window (the controller commands when the ACE asks:
+        // in a 12 s window that may be none, so the count is matched, not required)
+        long arrivedInWindow = Math.round(r.ratesPerS().get("commands arrived (unit hosts)") * r.windowS());
+        assertThat(r.latencyMs().getTotalCount()).isBetween(Math.max(0, arrivedInWindow - 1), arrivedInWindow + 1);
         assertThat(r.latencyMs().getValueAtPercentile(99)).isGreaterThanOrEqualTo(r.latencyMs().getValueAtPercentile(50));
         assertThat(Files.readString(s.outDir().resolve("hosts-table.txt"))).contains("command latency issuedAt");
     }
