@@ -43,7 +43,11 @@ final class ExactStepper {
     private final boolean[] active;
     private final double[] commandConstMw;
     private final double[] heldRateMwPerS;
-    private final double[] startRateMwPerS;
+    /** the servo's unlimited rate at the step's start, MW/s */
+    private final double[] freeStartRateMwPerS;
+    /** e^{−h/T_g}: the free valve rate's own decay over a step */
+    private final double[] servoDecay;
+    private final ValveRatePath valvePath = new ValveRatePath();
     /** regime·2 + active at the last step, to see when the gains must be summed again */
     private final int[] regimeKey;
     private boolean regimesChanged = true;
@@ -88,7 +92,11 @@ final class ExactStepper {
         active = new boolean[u];
         commandConstMw = new double[u];
         heldRateMwPerS = new double[u];
-        startRateMwPerS = new double[u];
+        freeStartRateMwPerS = new double[u];
+        servoDecay = new double[u];
+        for (int i = 0; i < u; i++) {
+            servoDecay[i] = Math.exp(-h * d.invGovernorS[i]);
+        }
         regimeKey = new int[u];
         Arrays.fill(regimeKey, -1);
         slope0 = new double[areas];
@@ -188,7 +196,7 @@ final class ExactStepper {
         BlockPropagator p;
         double extraIntegral = 0;
         double extraEnd = 0;
-        startRateMwPerS[u] = rate;
+        freeStartRateMwPerS[u] = free;
         if (rate != free) {
             regime[u] = HELD;
             heldRateMwPerS[u] = rate;
@@ -341,13 +349,20 @@ final class ExactStepper {
             return;
         }
         double v0 = x[b];
-        double lo = Math.max(d.minMw[u], v0 - d.lowerMwPerS[u] * h);
-        double hi = Math.min(d.maxMw[u], v0 + d.raiseMwPerS[u] * h);
-        // The regime chosen at the start set the unit's power in the network equations; the end state takes the
-        // regime the servo actually ended in: free if its free valve stays within the limits, else held at the limit.
+        double raise = d.raiseMwPerS[u];
+        double lower = d.lowerMwPerS[u];
+        double lo = Math.max(d.minMw[u], v0 - lower * h);
+        double hi = Math.min(d.maxMw[u], v0 + raise * h);
+        double w0 = freeStartRateMwPerS[u];
+        // The regime chosen at the start set the unit's power in the network equations; the end state is the free
+        // step only if the free valve keeps its rate at every instant of the step (then the stages, lags of the valve,
+        // keep it too) and stays inside its range; else the valve moves at the constant rate that brings it where the
+        // free rate, clamped to the limits, would have, and the stages follow that.
         propagate(blocks.free[u], u, x, b, 0.0);
-        if (work[0] < lo || work[0] > hi) {
-            double limitedEnd = Math.max(lo, Math.min(hi, movedUntilLimit(u, v0, work[0] - v0, lo, hi)));
+        setValvePath(u, x, b);
+        if (work[0] < lo || work[0] > hi || (v0 >= d.maxMw[u] && w0 > 0) || (v0 <= d.minMw[u] && w0 < 0)
+                || !valvePath.staysWithin(raise, lower)) {
+            double limitedEnd = Math.max(lo, Math.min(hi, v0 + valvePath.clampedMoveMw(raise, lower)));
             propagate(blocks.held[u], u, x, b, (limitedEnd - v0) / h);
             work[0] = limitedEnd;
         }
@@ -357,20 +372,27 @@ final class ExactStepper {
     }
 
     /**
-     * The valve's end position when its free motion reaches a rate limit inside the step: the free rate is taken as
-     * linear in time (its start value and the free movement fix the slope), limited, and integrated. Without this the
-     * valve would move at the limit for the whole step, a lead of up to one step at the limit's rate.
+     * The free valve rate's path over the step: the target's rate is −K·Δf'(s) for the cubic Δf (exact); a hydro
+     * compensator's state enters by its second-order Taylor expansion (its time constant is seconds).
      */
-    private double movedUntilLimit(int u, double v0, double freeMoveMw, double lo, double hi) {
-        double start = startRateMwPerS[u];
-        double slope = 2 * (freeMoveMw - start * h) / (h * h);
-        double limit = freeMoveMw > 0 ? d.raiseMwPerS[u] : -d.lowerMwPerS[u];
-        if (slope == 0 || !Double.isFinite(limit) || Math.abs(start) >= Math.abs(limit)
-                || Math.signum(start - limit) == Math.signum(slope)) {
-            return freeMoveMw > 0 ? hi : lo;
+    private void setValvePath(int u, double[] x, int b) {
+        int a = d.unitArea[u] * T;
+        double k = active[u] ? d.gainMwPerHz[u] : 0.0;
+        double q0 = -k * coef[a + 1];
+        double q1 = -k * coef[a + 2];
+        double q2 = -k * coef[a + 3];
+        if (d.kind[u] == GridDynamics.HYDRO && d.param2[u] > 0) {
+            // target = p3·command + (1 − p3)·s2 with ds2/dt = p2·(command − s2)
+            double p2 = d.param2[u];
+            double p3 = d.param3[u];
+            double e0 = commandConstMw[u] - k * coef[a] - x[b + 2];
+            double e1 = q0 - p2 * e0;
+            double e2 = q1 - p2 * e1;
+            q0 = p3 * q0 + (1 - p3) * p2 * e0;
+            q1 = p3 * q1 + (1 - p3) * p2 * e1;
+            q2 = p3 * q2 + (1 - p3) * p2 * e2;
         }
-        double switchS = Math.max(0, Math.min(h, (limit - start) / slope));
-        return v0 + start * switchS + slope * switchS * switchS / 2 + limit * (h - switchS);
+        valvePath.set(d.invGovernorS[u], h, servoDecay[u], freeStartRateMwPerS[u], q0, q1, q2);
     }
 
     /** Writes the block's end state into {@code work}; {@code rateMwPerS} is used by the held block only. */

@@ -7,6 +7,7 @@ import java.util.List;
 import org.loopstand.plant.grid.Grid;
 import org.loopstand.plant.grid.GridBuilder;
 import org.loopstand.plant.grid.UnitSpec;
+import net.jqwik.api.Example;
 import net.jqwik.api.ForAll;
 import net.jqwik.api.Property;
 import net.jqwik.api.constraints.DoubleRange;
@@ -15,20 +16,36 @@ import net.jqwik.api.constraints.Size;
 
 /**
  * A rate-limited unit never moves faster than its limit and never leaves [min, max], whatever sequence of
- * load-reference changes and load steps it is given (tolerance 1e-6 MW for round-off on the valve; a steam stage's
- * rate to 0.1 % of a step's allowance, see below).
+ * load-reference changes and load steps it is given (definition of a rate limit; tolerance {@value #ROUND_OFF_MW} MW
+ * for round-off, the step's allowance being 0.01 MW raising and 0.02 MW lowering at the default 20 ms step).
  */
 class UnitLimitsPropertyTest {
     private static final double RAISE_MW_PER_MIN = 30;
     private static final double LOWER_MW_PER_MIN = 60;
     private static final double MIN_MW = 100;
     private static final double MAX_MW = 350;
+    private static final double ROUND_OFF_MW = 1e-9;
 
     @Property(tries = 40)
     void shouldStayInsideRateAndPositionLimits(@ForAll @Size(min = 1, max = 6) List<@DoubleRange(min = 0, max = 450) Double> setpointsMw,
                                                @ForAll @Size(min = 1, max = 6) List<@DoubleRange(min = -400, max = 400) Double> loadStepsMw,
                                                @ForAll @IntRange(min = 0, max = 2) int turbineKind,
                                                @ForAll Integrator integrator) {
+        runAndCheck(setpointsMw, loadStepsMw, turbineKind, integrator);
+    }
+
+    /**
+     * A case the property found: after the third segment's 251.6 MW load rise the exact stepper's free valve path passed
+     * the lowering rate inside a step whose end stayed within it, and the turbine stage fell 0.020079 MW in a step that
+     * allows 0.02 MW (7.9e-5 MW too fast, before the free step was kept only for a path inside the rate).
+     */
+    @Example
+    void shouldKeepSteamStageWithinRateWhenFreeValvePathPassesItInsideStep() {
+        runAndCheck(List.of(150.6494, 112.0282, 204.5203), List.of(-219.6152, -81.7221, 251.5889), 0, Integrator.EXACT);
+    }
+
+    private static void runAndCheck(List<Double> setpointsMw, List<Double> loadStepsMw, int turbineKind,
+                                    Integrator integrator) {
         GridBuilder b = new GridBuilder("limits");
         b.area("a").ratingMva(6000).inertiaS(5).dampingMwPerHz(50).kMwPerHz(2000);
         UnitSpec tested = b.unit("tested", "a").ratingMw(400).droopPct(4).governorTimeConstantS(0.2)
@@ -56,13 +73,11 @@ class UnitLimitsPropertyTest {
                 sim.step();
                 double valve = sim.valvePositionMw(unit);
                 double output = sim.outputMw(unit);
-                assertInside(valve, prevValve, h, 1e-6);
+                assertInside(valve, prevValve, h);
                 if (steam) {
-                    // a steam turbine's stages are lags of the valve: they inherit its range and rate. The valve is held
-                    // to its limits at step boundaries; inside a step its free path may pass the rate for part of the step
-                    // and the stage integrates that: up to 5.8e-6 MW on a 0.02 MW step seen with the exact stepper
-                    // (0.03 %), so the stage's rate is checked to 0.1 % of a step's allowance
-                    assertInside(output, prevOutput, h, 1e-3 * RAISE_MW_PER_MIN / 60 * h);
+                    // a steam turbine's stages are lags of the valve: if the valve keeps its rate at every instant of
+                    // the step, the stages cannot move faster either (a lag's rate is a lag of its input's rate)
+                    assertInside(output, prevOutput, h);
                 }
                 prevValve = valve;
                 prevOutput = output;
@@ -70,9 +85,9 @@ class UnitLimitsPropertyTest {
         }
     }
 
-    private static void assertInside(double nowMw, double beforeMw, double stepS, double rateToleranceMw) {
-        assertThat(nowMw).isBetween(MIN_MW - 1e-6, MAX_MW + 1e-6);
-        assertThat(nowMw - beforeMw).isBetween(-LOWER_MW_PER_MIN / 60 * stepS - rateToleranceMw,
-                RAISE_MW_PER_MIN / 60 * stepS + rateToleranceMw);
+    private static void assertInside(double nowMw, double beforeMw, double stepS) {
+        assertThat(nowMw).isBetween(MIN_MW - ROUND_OFF_MW, MAX_MW + ROUND_OFF_MW);
+        assertThat(nowMw - beforeMw).isBetween(-LOWER_MW_PER_MIN / 60 * stepS - ROUND_OFF_MW,
+                RAISE_MW_PER_MIN / 60 * stepS + ROUND_OFF_MW);
     }
 }
