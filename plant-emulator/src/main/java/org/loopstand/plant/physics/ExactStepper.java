@@ -15,9 +15,9 @@ import java.util.Arrays;
  * <p>Nonlinear parts are decided at step boundaries, as RK4 clamps its valves after each step: dead band
  * (a unit whose area's Δf is inside its band gets no frequency input for the step, otherwise
  * {@code db(Δf) = Δf ∓ ε}), rate and position limits (the servo rate at the start sets whether the unit's power
- * enters the network equations as free or as moving at the limit; the end state is the free step unless that would
- * break a limit, else the held step with the limit's onset placed inside the step), trips (every state decays on
- * the trip time constant).
+ * enters the network equations as free or as moving at the limit; the end state is the free step only if the free
+ * valve keeps its rate at every instant of the step ({@link ValveRatePath}) and its range, else the held step),
+ * trips (every state decays on the trip time constant).
  */
 final class ExactStepper {
     private static final int FREE = 0;
@@ -371,28 +371,14 @@ final class ExactStepper {
         x[b + 2] = work[2];
     }
 
-    /**
-     * The free valve rate's path over the step: the target's rate is −K·Δf'(s) for the cubic Δf (exact); a hydro
-     * compensator's state enters by its second-order Taylor expansion (its time constant is seconds).
-     */
+    /** The free valve rate's path over the step; the target's rate is −K·Δf'(s) for the step's cubic Δf. */
     private void setValvePath(int u, double[] x, int b) {
         int a = d.unitArea[u] * T;
         double k = active[u] ? d.gainMwPerHz[u] : 0.0;
-        double q0 = -k * coef[a + 1];
-        double q1 = -k * coef[a + 2];
-        double q2 = -k * coef[a + 3];
-        if (d.kind[u] == GridDynamics.HYDRO && d.param2[u] > 0) {
-            // target = p3·command + (1 − p3)·s2 with ds2/dt = p2·(command − s2)
-            double p2 = d.param2[u];
-            double p3 = d.param3[u];
-            double e0 = commandConstMw[u] - k * coef[a] - x[b + 2];
-            double e1 = q0 - p2 * e0;
-            double e2 = q1 - p2 * e1;
-            q0 = p3 * q0 + (1 - p3) * p2 * e0;
-            q1 = p3 * q1 + (1 - p3) * p2 * e1;
-            q2 = p3 * q2 + (1 - p3) * p2 * e2;
-        }
-        valvePath.set(d.invGovernorS[u], h, servoDecay[u], freeStartRateMwPerS[u], q0, q1, q2);
+        boolean compensated = d.kind[u] == GridDynamics.HYDRO && d.param2[u] > 0;
+        valvePath.set(d.invGovernorS[u], h, servoDecay[u], freeStartRateMwPerS[u], -k * coef[a + 1], -k * coef[a + 2],
+                -k * coef[a + 3], compensated ? commandConstMw[u] - k * coef[a] - x[b + 2] : 0.0,
+                compensated ? d.param2[u] : 0.0, compensated ? d.param3[u] : 1.0);
     }
 
     /** Writes the block's end state into {@code work}; {@code rateMwPerS} is used by the held block only. */

@@ -27,19 +27,28 @@ final class ValveRatePath {
     private double endRate;
 
     /**
-     * @param gPerS       1 / governor time constant, 1/s (> 0)
-     * @param stepS       step h, s
-     * @param decayH      e^{−g·h}
-     * @param rateMwPerS  free rate at the step's start, MW/s
-     * @param q0          the target's rate at the start, MW/s, and its first two derivatives q1 (MW/s²), q2 (MW/s³)
+     * @param gPerS        1 / governor time constant, 1/s (> 0)
+     * @param stepS        step h, s
+     * @param decayH       e^{−g·h}
+     * @param rateMwPerS   free rate at the step's start, MW/s
+     * @param command1     the command's first three derivatives at the start, MW/s, MW/s², MW/s³
+     * @param lagGapMw     a hydro compensator's command − s2 at the start, MW (0 without one)
+     * @param lagPerS      its 1/time constant p2, 1/s (0 without one)
+     * @param commandShare the command's share p3 of the target, the rest being s2 (1 without a compensator). With a
+     *                     compensator the target's rate {@code p3·command' + (1 − p3)·p2·(command − s2)} enters by its
+     *                     second-order Taylor expansion over the step (exact otherwise; the lag is seconds long)
      */
-    void set(double gPerS, double stepS, double decayH, double rateMwPerS, double q0, double q1, double q2) {
+    void set(double gPerS, double stepS, double decayH, double rateMwPerS, double command1, double command2,
+             double command3, double lagGapMw, double lagPerS, double commandShare) {
         g = gPerS;
         h = stepS;
         this.decayH = decayH;
-        this.q0 = q0;
-        this.q1 = q1;
-        this.q2 = q2;
+        double gap1 = command1 - lagPerS * lagGapMw;
+        double gap2 = command2 - lagPerS * gap1;
+        double lagShare = (1 - commandShare) * lagPerS;
+        q0 = commandShare * command1 + lagShare * lagGapMw;
+        q1 = commandShare * command2 + lagShare * gap1;
+        q2 = commandShare * command3 + lagShare * gap2;
         p2 = q2;
         p1 = q1 - q2 / g;
         p0 = q0 - q1 / g + q2 / (g * g);
