@@ -61,6 +61,9 @@ final class ExactStepper {
     private final double[] sensitivityMid;
     private final double[] sensitivityEnd;
     private final double[] coef;
+    /** per area, the least and greatest Δf'(s) over the step, Hz/s: bounds every uncompensated unit's target rate */
+    private final double[] slopeMin;
+    private final double[] slopeMax;
     private final double[][] matrix;
     private final double[] rhs;
     private final LinearSolve solver = new LinearSolve();
@@ -109,6 +112,8 @@ final class ExactStepper {
         sensitivityMid = new double[areas];
         sensitivityEnd = new double[areas];
         coef = new double[areas * T];
+        slopeMin = new double[areas];
+        slopeMax = new double[areas];
         matrix = new double[2 * areas][2 * areas];
         rhs = new double[2 * areas];
     }
@@ -152,6 +157,8 @@ final class ExactStepper {
             coef[a * T + 1] = slope0[a];
             coef[a * T + 2] = (-6 * f0 - 4 * h * slope0[a]) / (h * h) + beta[2] * f1 + gamma[2] * s1;
             coef[a * T + 3] = (12 * f0 + 6 * h * slope0[a]) / (h * h * h) + beta[3] * f1 + gamma[3] * s1;
+            slopeMin[a] = ValveRatePath.quadraticExtreme(slope0[a], coef[a * T + 2], coef[a * T + 3], h, -1);
+            slopeMax[a] = ValveRatePath.quadraticExtreme(slope0[a], coef[a * T + 2], coef[a * T + 3], h, 1);
         }
         for (int t = 0; t < d.tieCount; t++) {
             x[areas + t] += d.tieTwoPiT[t] * differenceIntegral(t, int1);
@@ -359,9 +366,14 @@ final class ExactStepper {
         // keep it too) and stays inside its range; else the valve moves at the constant rate that brings it where the
         // free rate, clamped to the limits, would have, and the stages follow that.
         propagate(blocks.free[u], u, x, b, 0.0);
-        setValvePath(u, x, b);
-        if (work[0] < lo || work[0] > hi || (v0 >= d.maxMw[u] && w0 > 0) || (v0 <= d.minMw[u] && w0 < 0)
-                || !valvePath.staysWithin(raise, lower)) {
+        boolean free = work[0] >= lo && work[0] <= hi && !(v0 >= d.maxMw[u] && w0 > 0) && !(v0 <= d.minMw[u] && w0 < 0);
+        boolean compensated = d.kind[u] == GridDynamics.HYDRO && d.param2[u] > 0;
+        if (free && (compensated || !withinByArea(u, w0, raise, lower))) {
+            setValvePath(u, x, b);
+            free = valvePath.staysWithin(raise, lower);
+        }
+        if (!free) {
+            setValvePath(u, x, b);
             double limitedEnd = Math.max(lo, Math.min(hi, v0 + valvePath.clampedMoveMw(raise, lower)));
             propagate(blocks.held[u], u, x, b, (limitedEnd - v0) / h);
             work[0] = limitedEnd;
@@ -369,6 +381,13 @@ final class ExactStepper {
         x[b] = work[0];
         x[b + 1] = work[1];
         x[b + 2] = work[2];
+    }
+
+    /** Most steps: the free rate, a lag of −K·Δf', stays between its start and −K times the area's Δf' range. */
+    private boolean withinByArea(int u, double w0, double raise, double lower) {
+        int a = d.unitArea[u];
+        double k = active[u] ? d.gainMwPerHz[u] : 0.0;
+        return Math.max(w0, -k * slopeMin[a]) <= raise && Math.min(w0, -k * slopeMax[a]) >= -lower;
     }
 
     /** The free valve rate's path over the step; the target's rate is −K·Δf'(s) for the step's cubic Δf. */

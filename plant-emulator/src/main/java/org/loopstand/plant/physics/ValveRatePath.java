@@ -13,6 +13,7 @@ final class ValveRatePath {
     private final double[] knots = new double[4];
     private int knotCount;
     private boolean knotsFound;
+    private boolean solved;
     private double g;
     private double h;
     private double decayH;
@@ -49,34 +50,37 @@ final class ValveRatePath {
         q0 = commandShare * command1 + lagShare * lagGapMw;
         q1 = commandShare * command2 + lagShare * gap1;
         q2 = commandShare * command3 + lagShare * gap2;
-        p2 = q2;
-        p1 = q1 - q2 / g;
-        p0 = q0 - q1 / g + q2 / (g * g);
-        c = rateMwPerS - p0;
         startRate = rateMwPerS;
-        endRate = p0 + h * (p1 + 0.5 * p2 * h) + c * decayH;
+        solved = false;
         knotsFound = false;
+    }
+
+    /** The closed form, needed only when the cheap bound does not settle the step. */
+    private void solve() {
+        if (solved) {
+            return;
+        }
+        solved = true;
+        double lagS = 1.0 / g;
+        p2 = q2;
+        p1 = q1 - q2 * lagS;
+        p0 = q0 - (q1 - q2 * lagS) * lagS;
+        c = startRate - p0;
+        endRate = p0 + h * (p1 + 0.5 * p2 * h) + c * decayH;
     }
 
     /** True when the free rate stays inside [−lowerMwPerS, raiseMwPerS] for the whole step. */
     boolean staysWithin(double raiseMwPerS, double lowerMwPerS) {
-        if (startRate > raiseMwPerS || startRate < -lowerMwPerS || endRate > raiseMwPerS || endRate < -lowerMwPerS) {
+        if (startRate > raiseMwPerS || startRate < -lowerMwPerS) {
             return false;
         }
-        // a lag never leaves the range of its start value and its input
-        double qEnd = q0 + h * (q1 + 0.5 * q2 * h);
-        double qMax = Math.max(q0, qEnd);
-        double qMin = Math.min(q0, qEnd);
-        if (q2 != 0) {
-            double vertexS = -q1 / q2;
-            if (vertexS > 0 && vertexS < h) {
-                double qVertex = q0 + vertexS * (q1 + 0.5 * q2 * vertexS);
-                qMax = Math.max(qMax, qVertex);
-                qMin = Math.min(qMin, qVertex);
-            }
-        }
-        if (qMax <= raiseMwPerS && qMin >= -lowerMwPerS) {
+        // a lag never leaves the range of its start value and its input: settles most steps without the closed form
+        if (quadraticExtreme(q0, q1, q2, h, 1) <= raiseMwPerS && quadraticExtreme(q0, q1, q2, h, -1) >= -lowerMwPerS) {
             return true;
+        }
+        solve();
+        if (endRate > raiseMwPerS || endRate < -lowerMwPerS) {
+            return false;
         }
         // both ends are inside: an inside extreme passes them by at most h²/8·max|w''| (w'' is monotone)
         double bulge = h * h / 8 * Math.max(Math.abs(p2 + g * g * c), Math.abs(p2 + g * g * c * decayH));
@@ -95,6 +99,7 @@ final class ValveRatePath {
 
     /** The valve's movement over the step with the free rate clamped to [−lowerMwPerS, raiseMwPerS], MW. */
     double clampedMoveMw(double raiseMwPerS, double lowerMwPerS) {
+        solve();
         double bulge = h * h / 8 * Math.max(Math.abs(p2 + g * g * c), Math.abs(p2 + g * g * c * decayH));
         if (Math.min(startRate, endRate) - bulge >= raiseMwPerS) {
             return raiseMwPerS * h;
@@ -197,7 +202,18 @@ final class ValveRatePath {
         return 0.5 * (lo + hi);
     }
 
+    /** The greatest (sign 1) or least (sign −1) of {@code c0 + c1·s + c2·s²/2} over 0 ≤ s ≤ h. */
+    static double quadraticExtreme(double c0, double c1, double c2, double h, int sign) {
+        double best = sign * Math.max(sign * c0, sign * (c0 + h * (c1 + 0.5 * c2 * h)));
+        double vertexS = c2 == 0 ? -1 : -c1 / c2;
+        if (vertexS > 0 && vertexS < h) {
+            best = sign * Math.max(sign * best, sign * (c0 + vertexS * (c1 + 0.5 * c2 * vertexS)));
+        }
+        return best;
+    }
+
     double rate(double s) {
+        solve();
         return p0 + s * (p1 + 0.5 * p2 * s) + c * Math.exp(-g * s);
     }
 
