@@ -42,7 +42,6 @@ final class ExactStepper {
     private final int[] regime;
     private final boolean[] active;
     private final double[] commandConstMw;
-    private final double[] heldRateMwPerS;
     /** the servo's unlimited rate at the step's start, MW/s */
     private final double[] freeStartRateMwPerS;
     /** e^{−h/T_g}: the free valve rate's own decay over a step */
@@ -94,7 +93,6 @@ final class ExactStepper {
         regime = new int[u];
         active = new boolean[u];
         commandConstMw = new double[u];
-        heldRateMwPerS = new double[u];
         freeStartRateMwPerS = new double[u];
         servoDecay = new double[u];
         for (int i = 0; i < u; i++) {
@@ -206,7 +204,6 @@ final class ExactStepper {
         freeStartRateMwPerS[u] = free;
         if (rate != free) {
             regime[u] = HELD;
-            heldRateMwPerS[u] = rate;
             p = blocks.held[u];
             extraIntegral = p.outIntegralInput[T] * rate;
             extraEnd = p.outEndInput[T] * rate;
