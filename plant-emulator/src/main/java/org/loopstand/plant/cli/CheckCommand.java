@@ -53,8 +53,16 @@ public final class CheckCommand implements Callable<Integer> {
                 e.problems().forEach(out::println);
                 out.println(file + ": refused");
                 refused = true;
+            } catch (java.nio.file.NoSuchFileException e) {
+                out.println(e.getFile() + ": no such file (relative paths start at " + Path.of("").toAbsolutePath() + ")");
+                out.println(file + ": refused");
+                refused = true;
             } catch (IOException e) {
                 out.println(file + ": cannot read: " + e.getMessage());
+                refused = true;
+            } catch (IllegalArgumentException e) {
+                out.println(file + ": " + e.getMessage());
+                out.println(file + ": refused");
                 refused = true;
             }
         }
@@ -74,9 +82,14 @@ public final class CheckCommand implements Callable<Integer> {
         if (isScenario) {
             OldKeys.SCENARIO.warn(file, out::println);
             String siteId = top.getOrDefault("siteId", top.get("site"));
-            Path siteFile = site != null ? site : Path.of("config", "sites", siteId + ".yaml");
+            if (site == null && siteId == null) {
+                out.println(file + ":1:1: the scenario names no site (top-level siteId:); give --site FILE");
+                return false;
+            }
+            Path siteFile = site != null ? site : org.loopstand.protocol.config.InstallFolder.fromEnvironment().siteFor(file, siteId);
             Grid grid = SiteLoader.loadForRun(siteFile, out::println);
             RunScenario scenario = RunScenarioLoader.load(file, EventTypeRegistry.physics(), grid);
+            RunScenarioLoader.startWarnings(file, scenario, grid).forEach(out::println);
             out.println(file + ": scenario ok against " + siteFile + " (" + scenario.scenario().events().size()
                     + " events, " + scenario.faults().size() + " faults, " + scenario.checks().size() + " checks)");
             return true;
