@@ -76,7 +76,7 @@ public final class CampaignCommand implements Callable<Integer> {
         CampaignSpec spec;
         List<RunPlan> plans;
         try {
-            spec = CampaignReader.read(file, Path.of(System.getenv().getOrDefault("LOOPSTAND_HOME", ".")));
+            spec = CampaignReader.read(file, org.loopstand.protocol.config.InstallFolder.fromEnvironment().home());
             spec = runs == null ? spec : spec.withRuns(runs);
             plans = CampaignExpander.of(spec).expand();
         } catch (ConfigFileException e) {

@@ -61,6 +61,7 @@ public final class LockstepRehearsal {
     private final Path siteFile;
     private final Path scenarioFile;
     private final Long seedOverride;
+    private java.util.function.Consumer<String> warnings = w -> { };
 
     /**
      * @param siteFile     the site (YAML), also read for the controller's settings
@@ -73,6 +74,12 @@ public final class LockstepRehearsal {
         this.seedOverride = seedOverride;
     }
 
+    /** @param sink receives the site's and the start's warnings as {@code file: warning: what}; none by default */
+    public LockstepRehearsal warningsTo(java.util.function.Consumer<String> sink) {
+        this.warnings = java.util.Objects.requireNonNull(sink, "sink");
+        return this;
+    }
+
     /**
      * Runs the scenario to its end into {@code run} (an existing, empty folder) and writes the report.
      *
@@ -80,8 +87,9 @@ public final class LockstepRehearsal {
      * @throws IllegalArgumentException on a refused site, scenario or fault (the message names it)
      */
     public Outcome run(Path run) throws IOException {
-        Grid grid = SiteLoader.loadForRun(siteFile, w -> { });
+        Grid grid = SiteLoader.loadForRun(siteFile, warnings);
         RunScenario rs = scenario(grid);
+        RunScenarioLoader.startWarnings(scenarioFile, rs, grid).forEach(warnings);
         Scenario scenario = rs.scenario();
         ControllerSiteConfig controllerSite = ControllerSiteReader.read(siteFile);
         JournalForwarder plantFaults = new JournalForwarder();

@@ -64,8 +64,8 @@ public final class LockstepStudyCommand implements Callable<Integer> {
 
     @Override
     public Integer call() throws Exception {
-        Path home = Path.of(System.getenv().getOrDefault("LOOPSTAND_HOME", "."));
-        Path scenarioFile = scenario != null ? scenario : home.resolve(DEFAULT_SCENARIO);
+        org.loopstand.protocol.config.InstallFolder install = org.loopstand.protocol.config.InstallFolder.fromEnvironment();
+        Path scenarioFile = scenario != null ? scenario : install.shipped(DEFAULT_SCENARIO);
         if (!Files.isRegularFile(scenarioFile)) {
             err.println("study: scenario file " + scenarioFile + " does not exist");
             return 2;
@@ -78,7 +78,12 @@ public final class LockstepStudyCommand implements Callable<Integer> {
                 err.println("study: scenario " + scenarioFile + " names no site (top-level 'siteId:'); give --site FILE");
                 return 2;
             }
-            siteFile = home.resolve("config/sites/" + id + ".yaml");
+            try {
+                siteFile = install.siteFor(scenarioFile, id);
+            } catch (IllegalArgumentException e) {
+                err.println("study: " + e.getMessage());
+                return 2;
+            }
         }
         String name = scenarioFile.getFileName().toString().replaceFirst("\\.ya?ml$", "") + "-lockstep";
         Path run = Rehearsal.newRunFolder(runsDir, name, wall);
@@ -87,14 +92,14 @@ public final class LockstepStudyCommand implements Callable<Integer> {
         out.println("study: run folder " + run);
         LockstepRehearsal.Outcome o;
         try {
-            o = new LockstepRehearsal(siteFile, scenarioFile, seed).run(run);
+            o = new LockstepRehearsal(siteFile, scenarioFile, seed).warningsTo(err::println).run(run);
         } catch (ConfigFileException e) {
             err.println("study: refused:");
             err.println(e.getMessage());
-            return 2;
+            return refusedBeforeRunning(run);
         } catch (IllegalArgumentException e) {
             err.println("study: refused: " + e.getMessage());
-            return 2;
+            return refusedBeforeRunning(run);
         }
         for (CheckOutcome c : o.checks()) {
             out.println("check " + c);
@@ -103,5 +108,18 @@ public final class LockstepStudyCommand implements Callable<Integer> {
         VerdictLines.of(model).forEach(out::println);
         out.println("report: " + run.resolve("report.html").toAbsolutePath());
         return model.verdict() == ReportModel.Verdict.FAIL || model.verdict() == ReportModel.Verdict.CUT_SHORT ? 1 : 0;
+    }
+
+    /** Refused before anything ran: the run folder holds nothing, so it does not stay behind. @return exit code 2 */
+    private int refusedBeforeRunning(Path run) {
+        try (var entries = java.nio.file.Files.list(run)) {
+            if (entries.findAny().isEmpty()) {
+                java.nio.file.Files.delete(run);
+                err.println("study: nothing ran; run folder " + run + " removed");
+            }
+        } catch (java.io.IOException e) {
+            err.println("study: run folder " + run + " left as it is: " + e.getMessage());
+        }
+        return 2;
     }
 }

@@ -59,12 +59,12 @@ final class ControllerLaunch {
     }
 
     /**
-     * Starts the command through {@code sh -c} in the project root, in a process group of its own
+     * Starts the command through {@code sh -c} in the directory the rehearsal was started from, in a process group of its own
      * ({@code setsid}), so stopping it reaches every process the command started, even after the shell
      * itself died.
      */
     ChildProcess start(RehearsalSettings s, String siteId, Path run) {
-        ProcessBuilder pb = new ProcessBuilder("setsid", "sh", "-c", controller.commandLine()).directory(s.projectRoot().toFile());
+        ProcessBuilder pb = new ProcessBuilder("setsid", "sh", "-c", controller.commandLine()).directory(s.commandDir().toFile());
         pb.environment().putAll(environment(s, siteId, run));
         return ChildProcess.start("controller", pb, run.resolve("controller.log"), l -> false, l -> { }).ownGroup();
     }

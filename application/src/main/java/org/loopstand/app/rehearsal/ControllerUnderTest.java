@@ -16,7 +16,7 @@ public record ControllerUnderTest(String controllerId, String commandLine, boole
     /** The id the built-in controller runs under, and the default for a command. */
     public static final String DEFAULT_ID = "controller-1";
     /** The built-in controller, started through the launcher like any user's command. */
-    public static final String BUILT_IN_COMMAND = "./loopstand control --site \"$LOOPSTAND_SITE_FILE\""
+    public static final String BUILT_IN_COMMAND = "\"${LOOPSTAND_HOME:-.}/loopstand\" control --site \"$LOOPSTAND_SITE_FILE\""
             + " --broker \"$LOOPSTAND_BROKER_URL\" --clock bus --controller-id \"$LOOPSTAND_CONTROLLER_ID\""
             + " --journal \"$LOOPSTAND_RUN_DIR\"";
     private static final Pattern ID = Pattern.compile("[A-Za-z0-9][A-Za-z0-9_-]{0,63}");

@@ -123,8 +123,8 @@ public final class RehearsalCommand implements Callable<Integer> {
     public Integer call() throws Exception {
         org.loopstand.protocol.cli.OldSpellings.of("--port", "--broker-port")
                 .warn(spec.commandLine().getParseResult().originalArgs(), System.err::println);
-        Path home = Path.of(System.getenv().getOrDefault("LOOPSTAND_HOME", "."));
-        Path scenarioFile = scenario != null ? scenario : home.resolve(DEFAULT_SCENARIO);
+        org.loopstand.protocol.config.InstallFolder install = org.loopstand.protocol.config.InstallFolder.fromEnvironment();
+        Path scenarioFile = scenario != null ? scenario : install.shipped(DEFAULT_SCENARIO);
         if (!Files.isRegularFile(scenarioFile)) {
             System.err.println("rehearse: scenario file " + scenarioFile + " does not exist");
             return 2;
@@ -137,7 +137,12 @@ public final class RehearsalCommand implements Callable<Integer> {
                 System.err.println("rehearse: scenario " + scenarioFile + " names no site (top-level 'siteId:'); give --site FILE");
                 return 2;
             }
-            siteFile = home.resolve("config/sites/" + id + ".yaml");
+            try {
+                siteFile = install.siteFor(scenarioFile, id);
+            } catch (IllegalArgumentException e) {
+                System.err.println("rehearse: " + e.getMessage());
+                return 2;
+            }
         }
         double r;
         if (rate != null) {
@@ -158,7 +163,7 @@ public final class RehearsalCommand implements Callable<Integer> {
             settings = new RehearsalSettings(scenarioFile, siteFile, broker, r, runsDir,
                     Path.of(System.getProperty("java.home"), "bin", "java").toString(),
                     System.getenv("LOOPSTAND_PLANT_CP"), System.getenv("LOOPSTAND_CONTROLLER_CP"),
-                    port, 90_000, plantArgs(), home, controller,
+                    port, 90_000, plantArgs(), Path.of("").toAbsolutePath(), controller,
                     Math.round(waitS * 1000), wireProfile);
             if (wireProfile != null) {
                 // refused here, before anything starts, with every problem at its line

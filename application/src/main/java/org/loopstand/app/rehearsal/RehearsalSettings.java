@@ -19,31 +19,31 @@ import java.util.Objects;
  * @param embeddedPort  the embedded broker's port (checked free before start)
  * @param readyTimeoutMs how long a child may take to say it is ready, ms
  * @param extraPlantArgs extra arguments for the plant process (tests), may be empty
- * @param projectRoot   where a controller command runs (the launcher's folder)
+ * @param commandDir    where a controller command runs: the working directory the user gave the command in
  * @param controller    the controller under test
  * @param controllerWaitMs how long to wait for the controller's first status, ms, &gt; 0
  * @param wireProfile   a wire profile the plant speaks to the controller (docs/controller-contract.md), or null
  */
 public record RehearsalSettings(Path scenarioFile, Path siteFile, String brokerUrl, double rate, Path runsDir,
                                 String javaCommand, String plantClassPath, String controllerClassPath, int embeddedPort,
-                                long readyTimeoutMs, List<String> extraPlantArgs, Path projectRoot,
+                                long readyTimeoutMs, List<String> extraPlantArgs, Path commandDir,
                                 ControllerUnderTest controller, long controllerWaitMs, Path wireProfile) {
     public static final int EMBEDDED_PORT = 1884;
 
     /** Without a wire profile. */
     public RehearsalSettings(Path scenarioFile, Path siteFile, String brokerUrl, double rate, Path runsDir, String javaCommand,
                              String plantClassPath, String controllerClassPath, int embeddedPort, long readyTimeoutMs,
-                             List<String> extraPlantArgs, Path projectRoot, ControllerUnderTest controller, long controllerWaitMs) {
+                             List<String> extraPlantArgs, Path commandDir, ControllerUnderTest controller, long controllerWaitMs) {
         this(scenarioFile, siteFile, brokerUrl, rate, runsDir, javaCommand, plantClassPath, controllerClassPath, embeddedPort,
-                readyTimeoutMs, extraPlantArgs, projectRoot, controller, controllerWaitMs, null);
+                readyTimeoutMs, extraPlantArgs, commandDir, controller, controllerWaitMs, null);
     }
 
-    /** The built-in controller, run from {@code projectRoot}, waited for as long as a child's ready line. */
+    /** The built-in controller, waited for as long as a child's ready line. */
     public RehearsalSettings(Path scenarioFile, Path siteFile, String brokerUrl, double rate, Path runsDir, String javaCommand,
                              String plantClassPath, String controllerClassPath, int embeddedPort, long readyTimeoutMs,
-                             List<String> extraPlantArgs, Path projectRoot) {
+                             List<String> extraPlantArgs, Path commandDir) {
         this(scenarioFile, siteFile, brokerUrl, rate, runsDir, javaCommand, plantClassPath, controllerClassPath, embeddedPort,
-                readyTimeoutMs, extraPlantArgs, projectRoot, ControllerUnderTest.builtInController(), readyTimeoutMs, null);
+                readyTimeoutMs, extraPlantArgs, commandDir, ControllerUnderTest.builtInController(), readyTimeoutMs, null);
     }
 
     public RehearsalSettings {
@@ -51,7 +51,7 @@ public record RehearsalSettings(Path scenarioFile, Path siteFile, String brokerU
         Objects.requireNonNull(siteFile, "siteFile");
         Objects.requireNonNull(runsDir, "runsDir");
         extraPlantArgs = List.copyOf(extraPlantArgs);
-        Objects.requireNonNull(projectRoot, "projectRoot");
+        Objects.requireNonNull(commandDir, "commandDir");
         Objects.requireNonNull(controller, "controller");
         if (controllerWaitMs <= 0) {
             throw new IllegalArgumentException("the wait for the controller must be positive, got " + controllerWaitMs + " ms");

@@ -55,8 +55,8 @@ public final class ReplayCommand implements Callable<Integer> {
         ControllerSiteConfig config;
         try {
             recorded = RecordedJournal.read(run);
-            Path siteFile = site != null ? site : Path.of(System.getenv().getOrDefault("LOOPSTAND_HOME", "."))
-                    .resolve("config/sites/" + recorded.siteId() + ".yaml");
+            Path siteFile = site != null ? site : org.loopstand.protocol.config.InstallFolder.fromEnvironment()
+                    .shipped("config/sites/" + recorded.siteId() + ".yaml");
             if (!Files.isRegularFile(siteFile)) {
                 throw new ReplayRefused("site file " + siteFile + " does not exist (the journal's site is '"
                         + recorded.siteId() + "'); give --site FILE");

@@ -113,4 +113,20 @@ class LockstepStudyCommandTest {
         assertThat(Files.readAllBytes(other.folder().resolve("plant.jsonl")))
                 .isNotEqualTo(Files.readAllBytes(first.folder().resolve("plant.jsonl")));
     }
+
+    @Test
+    void shouldRefuseABadScenarioAtItsLineAndLeaveNoEmptyRunFolder() throws Exception {
+        Path bad = java.nio.file.Files.writeString(runs.resolve("bad.yaml"), """
+                siteId: demo-site
+                durationS: 300
+                checks:
+                  - {name: freq-back, type: frequencyRestored, area: north-basin, afterS: 30, withinS: 900}
+                """);
+        Ran ran = study(bad);
+
+        assertThat(ran.exitCode()).isEqualTo(2);
+        assertThat(ran.out()).contains("bad.yaml:4:5: check freq-back: its window ends at 930.0 s");
+        assertThat(ran.folder()).doesNotExist();
+        assertThat(ran.out()).contains("nothing ran; run folder " + ran.folder() + " removed");
+    }
 }

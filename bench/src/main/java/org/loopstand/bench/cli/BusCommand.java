@@ -43,7 +43,7 @@ public final class BusCommand implements Callable<Integer> {
     @Option(names = "--broker", defaultValue = "embedded", description = "embedded, mosquitto (started here on a free port) or a tcp:// URL (default ${DEFAULT-VALUE})")
     String broker;
 
-    @Option(names = "--broker-config", defaultValue = "config/broker/mosquitto-bench.conf", description = "config for --broker mosquitto (default ${DEFAULT-VALUE})")
+    @Option(names = "--broker-config", defaultValue = "${env:LOOPSTAND_HOME:-.}/config/broker/mosquitto-bench.conf", description = "config for --broker mosquitto (default ${DEFAULT-VALUE})")
     Path brokerConfig;
 
     @Option(names = "--grouping", defaultValue = "pooled", description = "per-unit, per-plant or pooled (default ${DEFAULT-VALUE})")
@@ -90,7 +90,7 @@ public final class BusCommand implements Callable<Integer> {
             + " readings to the units' interfaces on the unit hosts, ms (default ${DEFAULT-VALUE}, as the plant's)")
     long fieldScanMs;
 
-    @Option(names = "--node-config", defaultValue = "config/broker/artemis/broker-node.xml", description = "--layout hosts:"
+    @Option(names = "--node-config", defaultValue = "${env:LOOPSTAND_HOME:-.}/config/broker/artemis/broker-node.xml", description = "--layout hosts:"
             + " the broker node file (default ${DEFAULT-VALUE})")
     Path nodeConfig;
 

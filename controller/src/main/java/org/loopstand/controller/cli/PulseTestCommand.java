@@ -56,7 +56,7 @@ public final class PulseTestCommand implements Callable<Integer> {
     Path site;
     @Option(names = "--broker", defaultValue = "tcp://127.0.0.1:1884", description = "MQTT broker URL (default ${DEFAULT-VALUE})")
     String broker;
-    @Option(names = "--plan", defaultValue = "config/plans/standard.yaml", description = "test plan (default ${DEFAULT-VALUE})")
+    @Option(names = "--plan", defaultValue = "${env:LOOPSTAND_HOME:-.}/config/plans/standard.yaml", description = "test plan (default ${DEFAULT-VALUE})")
     Path planFile;
     @Option(names = {"--runs-dir", "--out"}, defaultValue = "runs", description = "folder for run folders (default ${DEFAULT-VALUE})")
     Path out;

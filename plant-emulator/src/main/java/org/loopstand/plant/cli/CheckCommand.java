@@ -8,7 +8,9 @@ import java.util.List;
 import java.util.Map;
 import java.util.concurrent.Callable;
 
+import org.loopstand.plant.fault.HostLinks;
 import org.loopstand.plant.grid.Grid;
+import org.loopstand.plant.network.NamespaceHostLinks;
 import org.loopstand.plant.physics.SmallSignalStability;
 import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.RunScenario;
@@ -36,8 +38,14 @@ public final class CheckCommand implements Callable<Integer> {
     @Parameters(arity = "1..*", paramLabel = "FILE", description = "site or scenario files (YAML)")
     private List<Path> files;
 
-    @Option(names = "--site", description = "site file for the scenarios (default: config/sites/<the scenario's site>.yaml)")
+    @Option(names = "--site", description = "site file for the scenarios (default: <siteId>.yaml beside the scenario,"
+            + " in a sites/ folder next to its own, or in the shipped config/sites/)")
     private Path site;
+
+    @Option(names = "--hosts", paramLabel = "FILE", description = "hosts file that a scenario's network faults name hosts"
+            + " of (docs/faults.md, \"Network faults\"): checked as the plant checks it, so the links' interfaces must"
+            + " exist on this machine and a delay/loss fault probes netem (needs root)")
+    private Path hostsFile;
 
     @Spec
     private CommandSpec spec;
@@ -53,8 +61,16 @@ public final class CheckCommand implements Callable<Integer> {
                 e.problems().forEach(out::println);
                 out.println(file + ": refused");
                 refused = true;
+            } catch (java.nio.file.NoSuchFileException e) {
+                out.println(e.getFile() + ": no such file (relative paths start at " + Path.of("").toAbsolutePath() + ")");
+                out.println(file + ": refused");
+                refused = true;
             } catch (IOException e) {
                 out.println(file + ": cannot read: " + e.getMessage());
+                refused = true;
+            } catch (IllegalArgumentException e) {
+                out.println(file + ": " + e.getMessage());
+                out.println(file + ": refused");
                 refused = true;
             }
         }
@@ -74,9 +90,15 @@ public final class CheckCommand implements Callable<Integer> {
         if (isScenario) {
             OldKeys.SCENARIO.warn(file, out::println);
             String siteId = top.getOrDefault("siteId", top.get("site"));
-            Path siteFile = site != null ? site : Path.of("config", "sites", siteId + ".yaml");
+            if (site == null && siteId == null) {
+                out.println(file + ":1:1: the scenario names no site (top-level siteId:); give --site FILE");
+                return false;
+            }
+            Path siteFile = site != null ? site : org.loopstand.protocol.config.InstallFolder.fromEnvironment().siteFor(file, siteId);
             Grid grid = SiteLoader.loadForRun(siteFile, out::println);
-            RunScenario scenario = RunScenarioLoader.load(file, EventTypeRegistry.physics(), grid);
+            HostLinks hosts = hostsFile == null ? HostLinks.NONE : NamespaceHostLinks.read(hostsFile);
+            RunScenario scenario = RunScenarioLoader.load(file, EventTypeRegistry.physics(), grid, hosts);
+            RunScenarioLoader.startWarnings(file, scenario, grid).forEach(out::println);
             out.println(file + ": scenario ok against " + siteFile + " (" + scenario.scenario().events().size()
                     + " events, " + scenario.faults().size() + " faults, " + scenario.checks().size() + " checks)");
             return true;

@@ -150,6 +150,7 @@ public final class PlantCommand implements Callable<Integer> {
             if (scenarioFile != null) {
                 org.loopstand.protocol.config.OldKeys.SCENARIO.warn(scenarioFile, System.err::println);
                 rehearsal = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid, hostLinks);
+                RunScenarioLoader.startWarnings(scenarioFile, rehearsal, grid).forEach(System.err::println);
                 scenario = rehearsal.scenario();
             }
         } catch (ConfigFileException e) {

@@ -53,6 +53,7 @@ public final class StudyCommand implements Callable<Integer> {
             // one scenario format for every run: a rehearsal scenario's rate is unused here, its checks decided on the physics
             org.loopstand.protocol.config.OldKeys.SCENARIO.warn(scenarioFile, System.err::println);
             RunScenario rehearsal = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid);
+            RunScenarioLoader.startWarnings(scenarioFile, rehearsal, grid).forEach(System.err::println);
             Scenario scenario = rehearsal.scenario();
             if (durationS != null) {
                 if (!(durationS > 0)) {

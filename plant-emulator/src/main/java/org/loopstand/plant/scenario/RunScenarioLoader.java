@@ -54,6 +54,15 @@ public final class RunScenarioLoader {
         }
     }
 
+    /**
+     * @return {@code file: warning: …} for each area that starts out of balance by more than its tolerance but
+     *         less than runs refuse ({@link org.loopstand.plant.physics.StartBalance})
+     */
+    public static List<String> startWarnings(Path file, RunScenario scenario, Grid grid) {
+        return org.loopstand.plant.physics.StartBalance.of(grid, scenario.scenario().startHourOfDay()).warnings().stream()
+                .map(w -> file + ": warning: " + w).toList();
+    }
+
     public static RunScenario load(String fileName, Reader reader, EventTypeRegistry registry, Grid grid) throws IOException {
         return load(fileName, reader, registry, grid, HostLinks.NONE);
     }
@@ -103,6 +112,11 @@ public final class RunScenarioLoader {
             Set<String> names = new HashSet<>();
             for (YamlNode n : top.sequence("checks", false)) {
                 readCheck(n, durationS, events, catalog, problems, names);
+            }
+            double startHour = top.optionalDouble("startHourOfDay", 0.0);
+            if (startHour >= 0 && startHour < 24) {
+                String at = (top.has("siteId") ? top.locationOf("siteId") : top.location()).toString();
+                org.loopstand.plant.physics.StartBalance.of(grid, startHour).problems().forEach(p -> problems.add(at + ": " + p));
             }
         }
 

@@ -39,6 +39,13 @@ public final class SiteLoader {
         return new SiteLoader().build(YamlNode.read(file));
     }
 
+    /** @return ids of hydro units whose governor has no transient droop compensation (Rt = Rp) */
+    static List<String> uncompensatedHydroUnits(Grid grid) {
+        return grid.units().stream()
+                .filter(u -> u.turbine() instanceof org.loopstand.plant.grid.Turbine.Hydro h && !(h.transientDroopPct() > u.droopPct()))
+                .map(u -> u.id()).toList();
+    }
+
     /**
      * Loads a site for a run: {@link #load(Path)} and then the small-signal screen
      * ({@link SmallSignalStability}, docs/physics.md). An unstable site is refused in the
@@ -50,7 +57,14 @@ public final class SiteLoader {
         Grid grid = load(file);
         SmallSignalStability.Report report = SmallSignalStability.assess(grid);
         if (report.refused()) {
-            throw new ConfigFileException(List.of(file + ": site refused by the stability screen: " + report.describe()));
+            List<String> problems = new ArrayList<>(List.of(file + ": site refused by the stability screen: " + report.describe()));
+            List<String> plain = uncompensatedHydroUnits(grid);
+            if (!plain.isEmpty()) {
+                problems.add(file + ": hint: hydro unit(s) " + String.join(", ", plain) + " have no transient droop compensation"
+                        + " (transientDroopPct not set or equal to droopPct); a plain hydro governor is often unstable:"
+                        + " set transientDroopPct and resetTimeS (docs/physics.md, hydro turbine)");
+            }
+            throw new ConfigFileException(problems);
         }
         if (report.verdict() != SmallSignalStability.Verdict.STABLE) {
             warnings.accept(file + ": warning: " + report.describe());

@@ -67,4 +67,26 @@ class CheckCommandTest {
         assertThat(code).isEqualTo(2);
         assertThat(out.toString()).contains("quick.yaml: looks like a unit test plan", "./loopstand pulse-test --plan FILE");
     }
+
+    @Test
+    void shouldCheckAScenariosNetworkFaultsAgainstTheHostsFileAndTheLinksOnThisMachine(@org.junit.jupiter.api.io.TempDir java.nio.file.Path dir)
+            throws Exception {
+        java.nio.file.Path hosts = java.nio.file.Files.writeString(dir.resolve("hosts.yaml"), """
+                hosts: [plant-host, unit-host, control-host]
+                links:
+                  - {between: [plant-host, control-host], namespace: lab-hub, interfaces: [hub-p3]}
+                """);
+        String scenario = "../config/scenarios/cross-host-partition.yaml";
+
+        assertThat(check(scenario)).isEqualTo(2);
+        assertThat(out.toString()).contains("fault control-cut: unknown host 'plant-host'");
+
+        // with the hosts file the names are known, and the link is checked where the plant would run: this
+        // machine has no namespace lab-hub, so the fault cannot be applied and the check says so
+        out.getBuffer().setLength(0);
+        assertThat(check("--hosts", hosts.toString(), scenario)).isEqualTo(2);
+        assertThat(out.toString()).doesNotContain("unknown host")
+                .contains("cross-host-partition.yaml:23:23: fault control-cut (partition) cannot be applied here:"
+                        + " interface lab-hub/hub-p3 not found");
+    }
 }

@@ -133,4 +133,25 @@ class SiteLoaderTest {
         assertThatThrownBy(() -> load("siteId: [unclosed\nareas: 3\n")).isInstanceOf(ConfigFileException.class)
                 .hasMessageStartingWith("test.yaml:").hasMessageContaining("not valid YAML");
     }
+
+    @Test
+    void shouldPointAtAHydroUnitWithoutTransientDroopWhenTheScreenRefusesTheSite() throws Exception {
+        // A hydro governor needs transient droop compensation against the water column's non-minimum-phase
+        // response (from memory: Kundur, Power System Stability and Control, 1994, hydraulic turbine governors)
+        Path site = Path.of("src", "test", "resources", "sites", "plain-hydro-three-area.yaml");
+        assertThatThrownBy(() -> SiteLoader.loadForRun(site, w -> { }))
+                .isInstanceOf(ConfigFileException.class)
+                .satisfies(e -> assertThat(((ConfigFileException) e).problems()).hasSize(2)
+                        .anySatisfy(p -> assertThat(p).contains("refused by the stability screen: unstable"))
+                        .anySatisfy(p -> assertThat(p).contains("hint: hydro unit(s) e-hydro have no transient droop compensation")));
+
+        Path compensated = java.nio.file.Files.createTempFile("compensated", ".yaml");
+        try {
+            java.nio.file.Files.writeString(compensated, java.nio.file.Files.readString(site).replace("waterStartingTimeS: 1.8,",
+                    "waterStartingTimeS: 1.8, transientDroopPct: 33, resetTimeS: 8.2,"));
+            assertThat(SiteLoader.loadForRun(compensated, w -> { }).units()).hasSize(5);
+        } finally {
+            java.nio.file.Files.deleteIfExists(compensated);
+        }
+    }
 }

@@ -105,6 +105,11 @@ public final class BusClock implements Clock {
         return Math.max(SILENT_AFTER_WALL_MS * 1_000_000L, SILENT_AFTER_TICK_PERIODS * tickPeriodWallNanos(rate));
     }
 
+    /** @return wall ns past the last tick that the time is extrapolated at {@code rate} */
+    private static long extrapolationCapWallNanos(double rate) {
+        return EXTRAPOLATED_TICK_PERIODS * tickPeriodWallNanos(rate);
+    }
+
     private long scenarioNanos(Anchor a) {
         long base = a.scenarioEpochMs() * 1_000_000L;
         if (a.rate() <= 0) {
@@ -112,7 +117,7 @@ public final class BusClock implements Clock {
         }
         long w = wall.monotonicNanos();
         long elapsed = w - a.wallNanos();
-        long capWall = EXTRAPOLATED_TICK_PERIODS * tickPeriodWallNanos(a.rate());
+        long capWall = extrapolationCapWallNanos(a.rate());
         if (elapsed <= capWall) {
             return base + (long) (elapsed * a.rate());
         }
@@ -132,8 +137,7 @@ public final class BusClock implements Clock {
             return 0;
         }
         long w = wall.monotonicNanos();
-        long capWall = EXTRAPOLATED_TICK_PERIODS * tickPeriodWallNanos(a.rate());
-        if (w < silentAtWallNanos(a, capWall)) {
+        if (w < silentAtWallNanos(a, extrapolationCapWallNanos(a.rate()))) {
             return 0;
         }
         silentSeen = true;

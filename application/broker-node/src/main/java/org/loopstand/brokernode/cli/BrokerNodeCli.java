@@ -34,7 +34,7 @@ public final class BrokerNodeCli implements Callable<Integer> {
     @Option(names = "--peer", description = "host:cluster-port of another node; give it twice")
     List<String> peers = new ArrayList<>();
 
-    @Option(names = "--config", defaultValue = "config/broker/artemis/broker-node.xml",
+    @Option(names = "--config", defaultValue = "${env:LOOPSTAND_HOME:-.}/config/broker/artemis/broker-node.xml",
             description = "broker file with placeholders (default ${DEFAULT-VALUE})")
     Path config;
 

@@ -2,6 +2,8 @@ package org.loopstand.protocol.security.broker;
 
 import java.util.Objects;
 
+import org.loopstand.protocol.topic.TopicFilter;
+
 /**
  * One permission: an access on an MQTT topic filter ({@code +} and {@code #} wildcards).
  *
@@ -15,24 +17,12 @@ public record AclRule(Access access, String topicFilter) {
     }
 
     /**
-     * @return whether a concrete topic falls under this rule's filter (MQTT matching: {@code +} one
-     *         level, {@code #} the rest, including the parent level)
+     * @return whether a concrete topic falls under this rule's filter: the same MQTT matching as a
+     *         subscription ({@link TopicFilter#levelsMatch}: {@code +} one level, {@code #} the rest including
+     *         the parent level, a {@code $} topic never under a leading wildcard)
      */
     public boolean matchesTopic(String topic) {
-        String[] f = topicFilter.split("/", -1);
-        String[] t = topic.split("/", -1);
-        for (int i = 0; i < f.length; i++) {
-            if (f[i].equals("#")) {
-                return true;
-            }
-            if (i >= t.length) {
-                return false;
-            }
-            if (!f[i].equals("+") && !f[i].equals(t[i])) {
-                return false;
-            }
-        }
-        return f.length == t.length;
+        return TopicFilter.levelsMatch(topicFilter, topic);
     }
 
     /**

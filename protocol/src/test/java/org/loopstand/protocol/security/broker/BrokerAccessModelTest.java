@@ -102,4 +102,18 @@ class BrokerAccessModelTest {
                 .hasMessageContaining("TWO");
         assertThat(MosquittoFiles.renderTemplate("port ${P}$", Map.of("P", "8883"))).isEqualTo("port 8883$");
     }
+
+    @Test
+    void shouldMatchAnAclRuleAsASubscriptionWouldIncludingDollarTopics() {
+        // MQTT 5.0 (OASIS, 2019) 4.7: '#' also matches the parent level; 4.7.2: a topic starting with '$'
+        // does not match a filter starting with a wildcard
+        AclRule all = new AclRule(Access.READWRITE, "#");
+        AclRule units = new AclRule(Access.READ, "loopstand/v1/rig1/unit/+/command");
+        assertThat(all.matchesTopic("loopstand/v1/rig1/run")).isTrue();
+        assertThat(all.matchesTopic("$SYS/broker/uptime")).isFalse();
+        assertThat(units.matchesTopic("loopstand/v1/rig1/unit/g1/command")).isTrue();
+        assertThat(units.matchesTopic("loopstand/v1/rig1/unit/g1/command/extra")).isFalse();
+        assertThat(units.matchesTopic("loopstand/v1/rig1/unit/command")).isFalse();
+        assertThat(new AclRule(Access.READ, "loopstand/v1/rig1/#").matchesTopic("loopstand/v1/rig1")).isTrue();
+    }
 }

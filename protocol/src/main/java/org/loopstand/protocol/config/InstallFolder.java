@@ -1,0 +1,90 @@
+package org.loopstand.protocol.config;
+
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * Where shipped configuration is read from. The launcher exports the folder it lives in as
+ * {@code LOOPSTAND_HOME} and keeps the user's working directory, so a path the user types resolves
+ * against where they stand (as with any command-line tool), while the defaults the commands fall back
+ * on (the default scenario, test plan, broker configurations, a site named only by its id) come from
+ * the install folder. Without {@code LOOPSTAND_HOME} (tests, a bare {@code java} call) the install
+ * folder is the working directory.
+ */
+public final class InstallFolder {
+    /** Environment variable the launcher sets to its own folder. */
+    public static final String HOME_VARIABLE = "LOOPSTAND_HOME";
+
+    private final Path home;
+
+    private InstallFolder(Path home) {
+        this.home = home;
+    }
+
+    /** @return the install folder named by {@value #HOME_VARIABLE}, else the working directory */
+    public static InstallFolder fromEnvironment() {
+        return of(System.getenv());
+    }
+
+    /** @param environment variables as {@link System#getenv()} gives them */
+    public static InstallFolder of(Map<String, String> environment) {
+        String v = environment.get(HOME_VARIABLE);
+        return new InstallFolder(Path.of(v == null || v.isBlank() ? "." : v));
+    }
+
+    /** @return the install folder itself */
+    public Path home() {
+        return home;
+    }
+
+    /** @param relative a path inside the install folder, e.g. {@code config/plans/standard.yaml} */
+    public Path shipped(String relative) {
+        return home.resolve(relative);
+    }
+
+    /**
+     * The site file of a scenario that names its site only by id: beside the scenario (same folder, then a
+     * {@code sites/} folder next to the scenario's folder, as in {@code config/scenarios} and
+     * {@code config/sites}), then the shipped {@code config/sites/}.
+     *
+     * @param scenarioFile the scenario file
+     * @param siteId       the scenario's {@code siteId:}
+     * @return the first of those that exists
+     * @throws IllegalArgumentException naming every place looked in when none does
+     */
+    public Path siteFor(Path scenarioFile, String siteId) {
+        List<Path> candidates = siteCandidates(scenarioFile, siteId);
+        for (Path p : candidates) {
+            if (Files.isRegularFile(p)) {
+                return p;
+            }
+        }
+        throw new IllegalArgumentException("no site file for siteId '" + siteId + "' of " + scenarioFile + " (looked for "
+                + String.join(", ", candidates.stream().map(Path::toString).toList()) + "); give --site FILE");
+    }
+
+    /** @return the places {@link #siteFor} looks, in order, without repeats */
+    public List<Path> siteCandidates(Path scenarioFile, String siteId) {
+        String name = siteId + ".yaml";
+        Path dir = scenarioFile.toAbsolutePath().normalize().getParent();
+        List<Path> out = new ArrayList<>();
+        if (dir != null) {
+            addOnce(out, dir.resolve(name));
+            if (dir.getParent() != null) {
+                addOnce(out, dir.getParent().resolve("sites").resolve(name));
+            }
+        }
+        addOnce(out, home.resolve("config").resolve("sites").resolve(name));
+        return out;
+    }
+
+    private static void addOnce(List<Path> out, Path p) {
+        Path n = p.toAbsolutePath().normalize();
+        if (out.stream().noneMatch(q -> q.toAbsolutePath().normalize().equals(n))) {
+            out.add(p);
+        }
+    }
+}
