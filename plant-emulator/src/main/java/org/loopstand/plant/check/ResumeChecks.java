@@ -40,7 +40,8 @@ final class ResumeChecks {
     /**
      * For each resume of the area ({@code *} = every area): the change asked of the area's units by
      * commands issued in [resume, resume + windowS) — a pulse asks ± its length × the unit's pulse rate,
-     * the last setpoint to a unit asks its distance from the unit's truth output at the resume — must lie
+     * the last setpoint to a unit asks its distance from the unit's truth load reference before the resume
+     * (or before the first of those setpoints reached the unit, if earlier) — must lie
      * between 0 and −ACE (truth ACE at the resume: a positive ACE calls for lowering), widened by
      * toleranceMw. The figure is the worst excess beyond that range, MW. No resume: fails, nothing to judge.
      */
@@ -162,6 +163,7 @@ final class ResumeChecks {
         grid.units().stream().filter(u -> u.area().equals(r.area())).forEach(u -> units.put(u.id(), u));
         double pulsesMw = 0;
         Map<String, Double> lastSetpointMw = new LinkedHashMap<>();
+        Map<String, Double> firstReceivedS = new HashMap<>();
         java.util.Set<String> once = new java.util.HashSet<>(); // a command that reached the unit twice asks once
         for (RunRecord.CommandRecord c : run.commands()) {
             UnitCommand cmd = c.command();
@@ -176,10 +178,41 @@ final class ResumeChecks {
                 double mw = cmd.durationMs() / 60_000.0 * u.pulseRateMwPerMin();
                 pulsesMw += cmd.direction() == PulseDirection.RAISE ? mw : -mw;
             } else if (cmd.kind() == CommandKind.SETPOINT && cmd.setpointMw() != null) {
-                lastSetpointMw.put(u.id(), cmd.setpointMw() - valueAt(run.series("outputMw/" + u.id()), r.atS()));
+                lastSetpointMw.put(u.id(), cmd.setpointMw());
+                firstReceivedS.merge(u.id(), c.receivedS(), Math::min);
             }
         }
-        return new Asked(counted, pulsesMw + lastSetpointMw.values().stream().mapToDouble(Double::doubleValue).sum());
+        double setpointsMw = 0;
+        for (Map.Entry<String, Double> e : lastSetpointMw.entrySet()) {
+            // before the resume's commands reached the unit: the controller's clock may run ahead of the plant's
+            double beforeS = Math.min(r.atS(), firstReceivedS.get(e.getKey()));
+            setpointsMw += e.getValue() - loadReferenceBefore(run, e.getKey(), beforeS);
+        }
+        return new Asked(counted, pulsesMw + setpointsMw);
+    }
+
+    /**
+     * @return the unit's truth load reference at the last sample before {@code beforeS}, MW: a setpoint
+     *         moves the load reference, while the output also carries the governor's primary response to
+     *         the frequency (a resume right after a load step would otherwise count that response, tens of
+     *         MW, as a lowering asked). A record without load references (read from an older journal)
+     *         falls back to the output.
+     */
+    private static double loadReferenceBefore(RunRecord run, String unit, double beforeS) {
+        RunRecord.Series ref = run.series("loadReferenceMw/" + unit);
+        return valueBefore(ref.size() > 0 ? ref : run.series("outputMw/" + unit), beforeS);
+    }
+
+    /** @return the last sample strictly before {@code tS} (the first one if none is), NaN for an empty series */
+    private static double valueBefore(RunRecord.Series s, double tS) {
+        double v = Double.NaN;
+        for (int i = 0; i < s.size(); i++) {
+            if (s.timeS(i) >= tS && !Double.isNaN(v)) {
+                break;
+            }
+            v = s.value(i);
+        }
+        return v;
     }
 
     private static double truthAceAt(RunRecord run, Grid grid, String area, double atS) {
