@@ -33,13 +33,19 @@ final class ResumeChecks {
     private record Asked(int commands, double mw) {
     }
 
-    /** One area taken up again by a controller at {@code atS} (its own clock, scenario s). */
-    record Resume(String controller, String area, double atS, String after) {
+    /**
+     * One area taken up again by a controller at {@code atS} (its own clock, scenario s); its commands count
+     * from after {@code fromS}: the area's last status before the resume when that one held it (the controller
+     * sends a held area nothing, and the cycle that resumes sends its commands before it publishes the status
+     * saying so: 0.4 s of scenario time earlier at rate 40, at the same instant in lockstep), else from {@code atS}.
+     */
+    record Resume(String controller, String area, double atS, String after, double fromS) {
     }
 
     /**
      * For each resume of the area ({@code *} = every area): the change asked of the area's units by
-     * commands issued in [resume, resume + windowS) — a pulse asks ± its length × the unit's pulse rate,
+     * commands issued before resume + windowS and after the status before it that held the area (after a
+     * silence: from the resume; see {@link Resume}) — a pulse asks ± its length × the unit's pulse rate,
      * the last setpoint to a unit asks its distance from the unit's truth load reference before the resume
      * (or before the first of those setpoints reached the unit, if earlier) — must lie
      * between 0 and −ACE (truth ACE at the resume: a positive ACE calls for lowering), widened by
@@ -86,6 +92,7 @@ final class ResumeChecks {
             list.sort(Comparator.comparingLong(ControllerStatus::seq));
             Map<String, Double> lastRegulatedAtS = new HashMap<>();
             Map<String, String> heldBy = new HashMap<>();
+            Map<String, Double> heldAtS = new HashMap<>();
             double previousS = Double.NaN;
             java.util.Set<String> known = new java.util.LinkedHashSet<>();
             for (ControllerStatus s : list) {
@@ -110,10 +117,13 @@ final class ResumeChecks {
                     if (!regulated) {
                         heldBy.put(a, s.state() == ControllerState.REGULATING ? "suspension " + reasonsOf(s, a)
                                 : s.state().wireName() + " " + reasonsOf(s, a));
-                    } else if (heldBy.containsKey(a) || (silence && lastRegulatedAtS.containsKey(a))) {
-                        out.add(new Resume(s.controllerId(), a, atS, heldBy.containsKey(a) ? heldBy.get(a)
-                                : String.format(Locale.ROOT, "%.0f s without status", atS - previousS)));
-                        heldBy.remove(a);
+                        // not before its last regulating status: a last will carries the time the connection was made
+                        heldAtS.put(a, Math.max(atS, lastRegulatedAtS.getOrDefault(a, Double.NEGATIVE_INFINITY)));
+                    } else if (heldBy.containsKey(a)) {
+                        out.add(new Resume(s.controllerId(), a, atS, heldBy.remove(a), Math.min(atS, heldAtS.get(a))));
+                    } else if (silence && lastRegulatedAtS.containsKey(a)) {
+                        out.add(new Resume(s.controllerId(), a, atS,
+                                String.format(Locale.ROOT, "%.0f s without status", atS - previousS), atS));
                     }
                     if (regulated) {
                         lastRegulatedAtS.put(a, atS);
@@ -169,8 +179,8 @@ final class ResumeChecks {
             UnitCommand cmd = c.command();
             GeneratingUnit u = units.get(cmd.unit());
             double issuedS = (cmd.issuedAt() - run.runStartEpochMs()) / 1000.0;
-            if (u == null || !once.add(cmd.unit() + "#" + cmd.seq()) || issuedS < r.atS() || issuedS >= r.atS() + windowS
-                    || !cmd.controllerId().equals(r.controller())) {
+            boolean inWindow = (issuedS > r.fromS() || issuedS >= r.atS()) && issuedS < r.atS() + windowS;
+            if (u == null || !inWindow || !cmd.controllerId().equals(r.controller()) || !once.add(cmd.unit() + "#" + cmd.seq())) {
                 continue;
             }
             counted++;

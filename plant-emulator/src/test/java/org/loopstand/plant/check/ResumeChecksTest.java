@@ -180,6 +180,21 @@ class ResumeChecksTest {
     }
 
     @Test
+    void shouldCountTheResumingCyclesCommandsIssuedBeforeTheStatusSayingSo() {
+        // in real time the cycle that resumes sends its commands, then publishes its status: at rate 40 the
+        // status's sourceTime came 0.4 s of scenario time after them (seen in a rehearsal of cluster-unit-trip.yaml)
+        RunRecord run = suspendedFrom40To100();
+        pulse(run, 99.6, "basin-gas-1", PulseDirection.LOWER, 40_000); // −20 MW where +19 are called for
+        pulse(run, 95.9, "basin-gas-1", PulseDirection.LOWER, 40_000); // before the last suspended status: not this resume's
+
+        CheckOutcome o = decide(run);
+
+        assertThat(o.detail()).contains("at 100.0 s after suspended [frequencyUnusable:north-basin]: 1 commands asked -20.0 MW");
+        assertThat(o.passed()).isFalse();
+        assertThat(o.decidingFigure()).isCloseTo(20, org.assertj.core.data.Offset.offset(1e-6));
+    }
+
+    @Test
     void shouldFailFirstCommandsAgainstTheAceAfterASilenceOfTheStatus() {
         RunRecord run = truth();
         for (int s = 0; s <= 200; s += 4) {
