@@ -33,14 +33,21 @@ final class ResumeChecks {
     private record Asked(int commands, double mw) {
     }
 
-    /** One area taken up again by a controller at {@code atS} (its own clock, scenario s). */
-    record Resume(String controller, String area, double atS, String after) {
+    /**
+     * One area taken up again by a controller at {@code atS} (its own clock, scenario s); its commands count
+     * from after {@code fromS}: the area's last status before the resume when that one held it (the controller
+     * sends a held area nothing, and the cycle that resumes sends its commands before it publishes the status
+     * saying so: 0.4 s of scenario time earlier at rate 40, at the same instant in lockstep), else from {@code atS}.
+     */
+    record Resume(String controller, String area, double atS, String after, double fromS) {
     }
 
     /**
      * For each resume of the area ({@code *} = every area): the change asked of the area's units by
-     * commands issued in [resume, resume + windowS) — a pulse asks ± its length × the unit's pulse rate,
-     * the last setpoint to a unit asks its distance from the unit's truth output at the resume — must lie
+     * commands issued before resume + windowS and after the status before it that held the area (after a
+     * silence: from the resume; see {@link Resume}) — a pulse asks ± its length × the unit's pulse rate,
+     * the last setpoint to a unit asks its distance from the unit's truth load reference before the resume
+     * (or before the first of those setpoints reached the unit, if earlier) — must lie
      * between 0 and −ACE (truth ACE at the resume: a positive ACE calls for lowering), widened by
      * toleranceMw. The figure is the worst excess beyond that range, MW. No resume: fails, nothing to judge.
      */
@@ -85,6 +92,7 @@ final class ResumeChecks {
             list.sort(Comparator.comparingLong(ControllerStatus::seq));
             Map<String, Double> lastRegulatedAtS = new HashMap<>();
             Map<String, String> heldBy = new HashMap<>();
+            Map<String, Double> heldAtS = new HashMap<>();
             double previousS = Double.NaN;
             java.util.Set<String> known = new java.util.LinkedHashSet<>();
             for (ControllerStatus s : list) {
@@ -109,10 +117,13 @@ final class ResumeChecks {
                     if (!regulated) {
                         heldBy.put(a, s.state() == ControllerState.REGULATING ? "suspension " + reasonsOf(s, a)
                                 : s.state().wireName() + " " + reasonsOf(s, a));
-                    } else if (heldBy.containsKey(a) || (silence && lastRegulatedAtS.containsKey(a))) {
-                        out.add(new Resume(s.controllerId(), a, atS, heldBy.containsKey(a) ? heldBy.get(a)
-                                : String.format(Locale.ROOT, "%.0f s without status", atS - previousS)));
-                        heldBy.remove(a);
+                        // not before its last regulating status: a last will carries the time the connection was made
+                        heldAtS.put(a, Math.max(atS, lastRegulatedAtS.getOrDefault(a, Double.NEGATIVE_INFINITY)));
+                    } else if (heldBy.containsKey(a)) {
+                        out.add(new Resume(s.controllerId(), a, atS, heldBy.remove(a), Math.min(atS, heldAtS.get(a))));
+                    } else if (silence && lastRegulatedAtS.containsKey(a)) {
+                        out.add(new Resume(s.controllerId(), a, atS,
+                                String.format(Locale.ROOT, "%.0f s without status", atS - previousS), atS));
                     }
                     if (regulated) {
                         lastRegulatedAtS.put(a, atS);
@@ -162,13 +173,14 @@ final class ResumeChecks {
         grid.units().stream().filter(u -> u.area().equals(r.area())).forEach(u -> units.put(u.id(), u));
         double pulsesMw = 0;
         Map<String, Double> lastSetpointMw = new LinkedHashMap<>();
+        Map<String, Double> firstReceivedS = new HashMap<>();
         java.util.Set<String> once = new java.util.HashSet<>(); // a command that reached the unit twice asks once
         for (RunRecord.CommandRecord c : run.commands()) {
             UnitCommand cmd = c.command();
             GeneratingUnit u = units.get(cmd.unit());
             double issuedS = (cmd.issuedAt() - run.runStartEpochMs()) / 1000.0;
-            if (u == null || !once.add(cmd.unit() + "#" + cmd.seq()) || issuedS < r.atS() || issuedS >= r.atS() + windowS
-                    || !cmd.controllerId().equals(r.controller())) {
+            boolean inWindow = (issuedS > r.fromS() || issuedS >= r.atS()) && issuedS < r.atS() + windowS;
+            if (u == null || !inWindow || !cmd.controllerId().equals(r.controller()) || !once.add(cmd.unit() + "#" + cmd.seq())) {
                 continue;
             }
             counted++;
@@ -176,10 +188,41 @@ final class ResumeChecks {
                 double mw = cmd.durationMs() / 60_000.0 * u.pulseRateMwPerMin();
                 pulsesMw += cmd.direction() == PulseDirection.RAISE ? mw : -mw;
             } else if (cmd.kind() == CommandKind.SETPOINT && cmd.setpointMw() != null) {
-                lastSetpointMw.put(u.id(), cmd.setpointMw() - valueAt(run.series("outputMw/" + u.id()), r.atS()));
+                lastSetpointMw.put(u.id(), cmd.setpointMw());
+                firstReceivedS.merge(u.id(), c.receivedS(), Math::min);
             }
         }
-        return new Asked(counted, pulsesMw + lastSetpointMw.values().stream().mapToDouble(Double::doubleValue).sum());
+        double setpointsMw = 0;
+        for (Map.Entry<String, Double> e : lastSetpointMw.entrySet()) {
+            // before the resume's commands reached the unit: the controller's clock may run ahead of the plant's
+            double beforeS = Math.min(r.atS(), firstReceivedS.get(e.getKey()));
+            setpointsMw += e.getValue() - loadReferenceBefore(run, e.getKey(), beforeS);
+        }
+        return new Asked(counted, pulsesMw + setpointsMw);
+    }
+
+    /**
+     * @return the unit's truth load reference at the last sample before {@code beforeS}, MW: a setpoint
+     *         moves the load reference, while the output also carries the governor's primary response to
+     *         the frequency (a resume right after a load step would otherwise count that response, tens of
+     *         MW, as a lowering asked). A record without load references (read from an older journal)
+     *         falls back to the output.
+     */
+    private static double loadReferenceBefore(RunRecord run, String unit, double beforeS) {
+        RunRecord.Series ref = run.series("loadReferenceMw/" + unit);
+        return valueBefore(ref.size() > 0 ? ref : run.series("outputMw/" + unit), beforeS);
+    }
+
+    /** @return the last sample strictly before {@code tS} (the first one if none is), NaN for an empty series */
+    private static double valueBefore(RunRecord.Series s, double tS) {
+        double v = Double.NaN;
+        for (int i = 0; i < s.size(); i++) {
+            if (s.timeS(i) >= tS && !Double.isNaN(v)) {
+                break;
+            }
+            v = s.value(i);
+        }
+        return v;
     }
 
     private static double truthAceAt(RunRecord run, Grid grid, String area, double atS) {

@@ -101,7 +101,10 @@ public final class RunRecord implements FaultObserver, org.loopstand.plant.fault
         return (tMs - runStartEpochMs) / 1000.0;
     }
 
-    /** Samples the physics truth: every area's frequency and net interchange and every tie's flow. */
+    /**
+     * Samples the physics truth: every area's frequency and net interchange, every tie's flow and every
+     * unit's output and load reference.
+     */
     public void sampleTruth(double tS, GridSimulator sim) {
         var grid = sim.grid();
         for (int a = 0; a < grid.areas().size(); a++) {
@@ -114,6 +117,8 @@ public final class RunRecord implements FaultObserver, org.loopstand.plant.fault
         }
         for (int u = 0; u < grid.units().size(); u++) {
             series("outputMw/" + grid.units().get(u).id()).add(tS, sim.outputMw(u));
+            // what a setpoint moves; the output adds the governor's primary response on top
+            series("loadReferenceMw/" + grid.units().get(u).id()).add(tS, sim.loadReferenceMw(u));
         }
         endS = Math.max(endS, tS);
         if (mirror != null) {

@@ -22,6 +22,8 @@ import org.loopstand.protocol.time.Clock;
  * {@code heldWallMs}, {@code statusCame}. Loop thread only ({@link #onCycle()} once per loop cycle).
  */
 public final class HeartbeatPacing {
+    /** Name of its hold on the scenario clock ({@link HeldStartClock#hold(String)}). */
+    public static final String HOLD = "controllerLate";
     private final HeldStartClock clock;
     private final Clock wall;
     private final LongUnaryOperator statusAgeNanos;
@@ -79,7 +81,7 @@ public final class HeartbeatPacing {
         if (holding) {
             long w = wall.monotonicNanos();
             if (!late || w - holdStartWallNanos >= maxHoldWallNanos) {
-                clock.runAt(clock.currentRate());
+                clock.letGo(HOLD);
                 holding = false;
                 waitForFreshStatus = late;
                 holds++;
@@ -99,7 +101,7 @@ public final class HeartbeatPacing {
         if (!late) {
             waitForFreshStatus = false;
         } else if (!waitForFreshStatus && clock.running()) {
-            clock.hold();
+            clock.hold(HOLD);
             holding = true;
             holdStartWallNanos = wall.monotonicNanos();
             holdAgeNanos = age;

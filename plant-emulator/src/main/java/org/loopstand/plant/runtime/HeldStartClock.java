@@ -1,25 +1,34 @@
 package org.loopstand.plant.runtime;
 
+import java.util.List;
+import java.util.Set;
+import java.util.TreeSet;
+
 import org.loopstand.protocol.time.AcceleratedClock;
 import org.loopstand.protocol.time.Clock;
 
 /**
  * The scenario clock of a run: stands still at its start until {@link #release()}, then runs at its
- * rate (scenario time 0 is the release). A pace keeper may {@link #hold()} it mid-run and let it
- * run on at another rate ({@link #runAt(double)}); scenario time never jumps and never goes back.
+ * rate (scenario time 0 is the release). A pace keeper may {@link #hold(String)} it mid-run under its
+ * own name and {@link #letGo(String)} that hold; the clock runs only while no hold is in force, so one
+ * holder letting go never lifts another's hold. {@link #runAt(double)} sets the rate it runs at (at
+ * once when nothing holds it, else from the last hold's end); scenario time never jumps and never goes back.
  * Lets a plant connect everything and a controller join before scenario time starts to run, and
  * lets a plant that cannot keep the asked rate slow its clock instead of falling behind it.
  *
  * <p><b>Leash.</b> With {@link #leashTo(long)} the clock never reads more than the limit ahead of the
  * physics' time, which the plant loop tells it after every step ({@link #physicsAt(long)}). A reading
  * that would pass physics + limit (the loop stalled: a GC pause, a busy machine) holds the clock at
- * physics + limit, dated back to the wall instant it reached that point ({@link #leashHolds()}); the
- * pace keeper lets it run on once the physics has caught up. So every reader (clock ticks, command
+ * physics + limit, dated back to the wall instant it reached that point ({@link #leashHolds()}), as a
+ * hold named {@value #LEASH}; the pace keeper lets go of it once the physics has caught up. So every reader (clock ticks, command
  * arrival stamps, expiry checks, journal) sees a time the physics is at most the limit behind, and a
  * stall costs scenario time (the clock stood still) instead of a stretch of physics run open loop.
  * Thread-safe.
  */
 public final class HeldStartClock implements Clock {
+    /** Name of the hold the clock takes itself when it reaches the leash. */
+    public static final String LEASH = "leash";
+
     /** From {@code wallNanos} on, scenario time runs at {@code rate} from {@code scenarioNanos}; rate 0 = held. */
     private record Segment(long scenarioNanos, long wallNanos, double rate) {
     }
@@ -37,6 +46,8 @@ public final class HeldStartClock implements Clock {
     private volatile long leashHolds;
     /** wall instant the latest leash hold began (the clock reached physics + limit), ns */
     private volatile long leashHoldWallNanos;
+    /** names of the holds in force; guarded by this */
+    private final Set<String> holds = new TreeSet<>();
 
     /**
      * @param wall the wall clock underneath
@@ -56,10 +67,10 @@ public final class HeldStartClock implements Clock {
         }
     }
 
-    /** Starts scenario time at the asked rate (later calls do nothing). */
+    /** Starts scenario time at the asked rate, held if a hold is already in force (later calls do nothing). */
     public synchronized void release() {
         if (segment == null) {
-            segment = new Segment(0L, wall.monotonicNanos(), rate);
+            segment = new Segment(0L, wall.monotonicNanos(), holds.isEmpty() ? lastRunningRate : 0.0);
         }
     }
 
@@ -74,8 +85,44 @@ public final class HeldStartClock implements Clock {
         return s != null && s.rate() > 0;
     }
 
-    /** Holds scenario time where it is now (does nothing before the release or while held). */
-    public synchronized void hold() {
+    /**
+     * Holds scenario time where it is now under {@code holder}'s name, until that holder lets go (a hold
+     * already in force under that name stays as it is). Before the release the hold is kept for it.
+     *
+     * @param holder who holds, e.g. the pace keeper's name; not {@value #LEASH}
+     */
+    public synchronized void hold(String holder) {
+        if (holder == null || holder.isEmpty() || holder.equals(LEASH)) {
+            throw new IllegalArgumentException("a hold needs a name of its own, got " + holder);
+        }
+        holds.add(holder);
+        freeze();
+    }
+
+    /**
+     * {@code holder}'s hold ends (nothing if it holds none); the clock runs on from where it stands at the
+     * rate in force once no other hold is left. The pace keeper also lets go of {@value #LEASH}.
+     */
+    public synchronized void letGo(String holder) {
+        if (holds.remove(holder) && holds.isEmpty()) {
+            Segment s = segment;
+            if (s != null && s.rate() == 0) {
+                segment = new Segment(s.scenarioNanos(), wall.monotonicNanos(), lastRunningRate);
+            }
+        }
+    }
+
+    /** @return the names of the holds in force, in name order (empty while nothing holds the clock) */
+    public synchronized List<String> holdsInForce() {
+        return List.copyOf(holds);
+    }
+
+    /** @return true while {@code holder}'s hold is in force */
+    public synchronized boolean heldBy(String holder) {
+        return holds.contains(holder);
+    }
+
+    private void freeze() {
         Segment s = segment;
         if (s != null && s.rate() > 0) {
             long w = wall.monotonicNanos();
@@ -84,18 +131,18 @@ public final class HeldStartClock implements Clock {
     }
 
     /**
-     * Lets scenario time run on from where it is at {@code newRate} (from a hold or at another
-     * rate); does nothing before the release.
+     * Scenario time runs on at {@code newRate}: from where it is now when no hold is in force, else from
+     * the end of the last hold; does nothing to the time before the release.
      *
      * @param newRate scenario seconds per wall second, (0, {@value AcceleratedClock#MAX_RATE}]
      */
     public synchronized void runAt(double newRate) {
         checkRate(newRate);
+        lastRunningRate = newRate;
         Segment s = segment;
-        if (s != null) {
+        if (s != null && holds.isEmpty()) {
             long w = wall.monotonicNanos();
             segment = new Segment(Math.min(scenarioNanos(s, w), leashCap()), w, newRate);
-            lastRunningRate = newRate;
         }
     }
 
@@ -187,6 +234,7 @@ public final class HeldStartClock implements Clock {
         long at = Math.max(cap, s.scenarioNanos());
         long reachedWall = s.rate() > 0 ? s.wallNanos() + (long) ((at - s.scenarioNanos()) / s.rate()) : w;
         if (s.rate() > 0) {
+            holds.add(LEASH);
             segment = new Segment(at, Math.min(w, Math.max(s.wallNanos(), reachedWall)), 0.0);
             leashHoldWallNanos = segment.wallNanos();
             leashHolds++;

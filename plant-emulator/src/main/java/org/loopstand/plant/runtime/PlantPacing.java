@@ -46,6 +46,9 @@ import org.loopstand.protocol.time.Clock;
  * on the owner's thread.
  */
 public final class PlantPacing {
+    /** Name of its own hold on the scenario clock ({@link HeldStartClock#hold(String)}); a leash hold it lets go of as {@link HeldStartClock#LEASH}. */
+    public static final String HOLD = "physicsLag";
+
     /**
      * @param lagS          scenario seconds the physics may fall behind the clock before the clock is held, &gt; 0
      * @param notKeptFactor asked rate / kept rate beyond which the run says RATE NOT KEPT, ≥ 1
@@ -163,7 +166,7 @@ public final class PlantPacing {
         if (!holding && clock.leashHolds() != leashHoldsSeen) {
             // the clock reached the leash (the loop stalled): it stands still until the physics caught up
             leashHoldsSeen = clock.leashHolds();
-            if (!clock.running()) {
+            if (clock.heldBy(HeldStartClock.LEASH)) {
                 holding = true;
                 leashHold = true;
                 holdStartWallNanos = wall.monotonicNanos(); // the loop steps again from here: the catch-up's start
@@ -178,7 +181,7 @@ public final class PlantPacing {
             return;
         }
         if (lateNanos > lagNanos && clock.running()) {
-            clock.hold();
+            clock.hold(HOLD);
             holding = true;
             holdStartWallNanos = wall.monotonicNanos();
             holdMaxLateNanos = lateNanos;
@@ -206,6 +209,7 @@ public final class PlantPacing {
         boolean slow = catchUpRate < CATCH_UP_MARGIN * from;
         double to = slow ? Math.max(MIN_RATE, rounded(from * settings.slowFactor())) : from;
         clock.runAt(to);
+        clock.letGo(leashHold ? HeldStartClock.LEASH : HOLD);
         holding = false;
         if (leashHold) {
             leashHold = false;

@@ -62,6 +62,26 @@ class ResumeChecksTest {
             run.series("frequencyHz/" + AREA).add(s, 49.98);
             run.series("netInterchangeMw/" + AREA).add(s, 100);
             run.series("outputMw/basin-steam-1").add(s, 200);
+            run.series("loadReferenceMw/basin-steam-1").add(s, 200);
+        }
+        return run;
+    }
+
+    /**
+     * As {@link #suspendedFrom40To100()}, but a load step at 90 s: basin-steam-1's governor has raised its
+     * output 30 MW above its load reference of 200 MW by the resume (primary response on top of the load
+     * reference, which only the controller's commands move).
+     */
+    private static RunRecord governorRaisedOutputAtResume() {
+        RunRecord run = new RunRecord(T0);
+        for (int s = 0; s <= 200; s++) {
+            run.series("frequencyHz/" + AREA).add(s, 49.98);
+            run.series("netInterchangeMw/" + AREA).add(s, 100);
+            run.series("outputMw/basin-steam-1").add(s, s < 90 ? 200 : 230);
+            run.series("loadReferenceMw/basin-steam-1").add(s, 200);
+        }
+        for (int s = 0; s <= 200; s += 4) {
+            run.controllerStatus(ms(s), status(s, s >= 40 && s < 100 ? ControllerState.SUSPENDED : ControllerState.REGULATING));
         }
         return run;
     }
@@ -109,6 +129,69 @@ class ResumeChecksTest {
 
         assertThat(o.passed()).isFalse();
         assertThat(o.decidingFigure()).isCloseTo(60 - 19.08, org.assertj.core.data.Offset.offset(1e-6));
+    }
+
+    @Test
+    void shouldJudgeASetpointByTheLoadReferenceItMovesNotByTheGovernorsShareOfTheOutput() {
+        // A unit's output is its load reference plus the governor's droop response to the frequency; secondary
+        // control moves only the load reference (from memory: Kundur, Power System Stability and Control, 1994,
+        // ch. 11, speed governor with load reference set point). A setpoint 5 MW above the load reference asks
+        // +5 MW, although it lies 25 MW below the output the governor holds after the load step.
+        RunRecord run = governorRaisedOutputAtResume();
+        UnitCommand raise = UnitCommand.setpoint(++seq, ms(101), "basin-steam-1", "controller-1", 1, ms(105), 205);
+        run.commandHandled(ms(101.1), raise, AckOutcome.ACCEPTED, null, true);
+
+        CheckOutcome o = decide(run);
+
+        assertThat(o.detail()).contains("1 commands asked +5.0 MW in 8 s, ACE -19.1 MW calls for +19.1 MW (excess 0.0 MW)");
+        assertThat(o.passed()).isTrue();
+    }
+
+    @Test
+    void shouldTakeTheLoadReferenceFromBeforeTheSetpointArrivedWhenTheControllersClockRunsAhead() {
+        // the controller's clock ahead of the plant's: its setpoint issued at the resume (100 s on its clock)
+        // reached the unit at 98.6 s of plant time and moved the load reference to 215 MW from the 99 s sample
+        RunRecord run = governorRaisedOutputAtResume();
+        RunRecord.Series ref = run.series("loadReferenceMw/basin-steam-1");
+        for (int i = 0; i < ref.size(); i++) {
+            if (ref.timeS(i) >= 99) {
+                ref.values.set(i, 215.0);
+            }
+        }
+        UnitCommand raise = UnitCommand.setpoint(++seq, ms(100), "basin-steam-1", "controller-1", 1, ms(104), 215);
+        run.commandHandled(ms(98.6), raise, AckOutcome.ACCEPTED, null, true);
+
+        CheckOutcome o = decide(run);
+
+        assertThat(o.detail()).contains("1 commands asked +15.0 MW in 8 s");
+        assertThat(o.passed()).isTrue();
+    }
+
+    @Test
+    void shouldStillFailASetpointBelowTheLoadReferenceWhenTheAceCallsForRaising() {
+        RunRecord run = governorRaisedOutputAtResume();
+        UnitCommand lower = UnitCommand.setpoint(++seq, ms(101), "basin-steam-1", "controller-1", 1, ms(105), 180);
+        run.commandHandled(ms(101.1), lower, AckOutcome.ACCEPTED, null, true);
+
+        CheckOutcome o = decide(run);
+
+        assertThat(o.passed()).isFalse();
+        assertThat(o.decidingFigure()).isCloseTo(20, org.assertj.core.data.Offset.offset(1e-6));
+    }
+
+    @Test
+    void shouldCountTheResumingCyclesCommandsIssuedBeforeTheStatusSayingSo() {
+        // in real time the cycle that resumes sends its commands, then publishes its status: at rate 40 the
+        // status's sourceTime came 0.4 s of scenario time after them (seen in a rehearsal of cluster-unit-trip.yaml)
+        RunRecord run = suspendedFrom40To100();
+        pulse(run, 99.6, "basin-gas-1", PulseDirection.LOWER, 40_000); // −20 MW where +19 are called for
+        pulse(run, 95.9, "basin-gas-1", PulseDirection.LOWER, 40_000); // before the last suspended status: not this resume's
+
+        CheckOutcome o = decide(run);
+
+        assertThat(o.detail()).contains("at 100.0 s after suspended [frequencyUnusable:north-basin]: 1 commands asked -20.0 MW");
+        assertThat(o.passed()).isFalse();
+        assertThat(o.decidingFigure()).isCloseTo(20, org.assertj.core.data.Offset.offset(1e-6));
     }
 
     @Test

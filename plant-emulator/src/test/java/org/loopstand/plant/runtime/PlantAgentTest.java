@@ -249,14 +249,15 @@ class PlantAgentTest {
             ticks = decoded(topics.clock(), ClockTick.class);
             assertThat(ticks.subList(2, ticks.size())).extracting(ClockTick::scenarioTimeMs)
                     .containsExactly(1_200L, 2_000L, 3_200L, 4_000L, 5_200L, 6_000L, 7_200L, 8_000L, 9_200L, 10_000L);
-            scenario.hold();
+            scenario.hold("test");
             clock.advanceMillis(10);
             p.agent().doWork();
             ticks = decoded(topics.clock(), ClockTick.class);
             assertThat(ticks).hasSize(13);
             assertThat(ticks.get(12).running()).isFalse();
             assertThat(ticks.get(12).scenarioTimeMs()).isEqualTo(10_400); // stands where the hold caught it
-            scenario.runAt(20);
+            scenario.runAt(20); // the rate for when the hold ends
+            scenario.letGo("test");
             clock.advanceMillis(10);
             p.agent().doWork();
             ticks = decoded(topics.clock(), ClockTick.class);
