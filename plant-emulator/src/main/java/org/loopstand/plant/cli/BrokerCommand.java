@@ -35,7 +35,7 @@ public final class BrokerCommand implements Callable<Integer> {
         CountDownLatch stopped = new CountDownLatch(1);
         EmbeddedBroker broker = new EmbeddedBroker(bindAddress, port);
         try {
-            broker.start(Duration.ofSeconds(30));
+            broker.start(Duration.ofSeconds(75));
         } catch (IllegalStateException e) {
             System.err.println("broker: " + e.getMessage());
             return 1;

@@ -203,7 +203,8 @@ public final class PlantCommand implements Callable<Integer> {
         String uri = broker;
         if (uri == null) {
             try {
-                embedded.start(Duration.ofSeconds(30));
+                // a busy 2-core machine has taken over 30 s to start it; the rehearsal waits 90 s for the ready line
+                embedded.start(Duration.ofSeconds(75));
             } catch (IllegalStateException e) {
                 System.err.println("plant: embedded broker did not start: " + e.getMessage());
                 return 1;
