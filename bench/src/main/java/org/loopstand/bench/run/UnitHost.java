@@ -23,7 +23,6 @@ import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.MessageListener;
 import org.loopstand.protocol.bus.OutboundMessage;
 import org.loopstand.protocol.bus.Qos;
-import org.loopstand.protocol.bus.UnitTopicRouter;
 import org.loopstand.protocol.bus.mqtt.MqttLink;
 import org.loopstand.protocol.bus.mqtt.MqttLinkConfig;
 import org.loopstand.protocol.codec.MessageCodec;
@@ -32,6 +31,7 @@ import org.loopstand.protocol.message.CommandAck;
 import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.topic.TopicKind;
+import org.loopstand.protocol.topic.UnitTopicRouter;
 
 /**
  * A unit host of the hosts bench: the real plant interfaces ({@link UnitProcess}) of a share of the site's units,

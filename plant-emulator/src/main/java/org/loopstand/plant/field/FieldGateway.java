@@ -9,12 +9,12 @@ import org.loopstand.plant.physics.PhysicsEpoch;
 import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.OutboundMessage;
 import org.loopstand.protocol.bus.Qos;
-import org.loopstand.protocol.bus.UnitTopicRouter;
 import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.FieldReading;
 import org.loopstand.protocol.message.FieldReference;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.topic.TopicKind;
+import org.loopstand.protocol.topic.UnitTopicRouter;
 import org.loopstand.protocol.topic.TopicTree;
 
 /**

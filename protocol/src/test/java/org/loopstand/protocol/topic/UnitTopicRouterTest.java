@@ -1,17 +1,18 @@
-package org.loopstand.protocol.bus;
+package org.loopstand.protocol.topic;
 
 import static java.nio.charset.StandardCharsets.UTF_8;
 import static org.assertj.core.api.Assertions.assertThat;
 import static org.assertj.core.api.Assertions.assertThatThrownBy;
 
 import org.junit.jupiter.api.Test;
+import org.loopstand.protocol.bus.MessageBus;
+import org.loopstand.protocol.bus.OutboundMessage;
+import org.loopstand.protocol.bus.Qos;
 import org.loopstand.protocol.bus.memory.DeliveryMode;
 import org.loopstand.protocol.bus.memory.InMemoryBroker;
 import org.loopstand.protocol.bus.memory.InMemoryBus;
 import org.loopstand.protocol.testing.Inbox;
 import org.loopstand.protocol.time.VirtualClock;
-import org.loopstand.protocol.topic.TopicKind;
-import org.loopstand.protocol.topic.TopicTree;
 
 class UnitTopicRouterTest {
     private final VirtualClock clock = new VirtualClock(1_700_000_000_000L);

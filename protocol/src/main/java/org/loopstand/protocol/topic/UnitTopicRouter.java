@@ -1,4 +1,4 @@
-package org.loopstand.protocol.bus;
+package org.loopstand.protocol.topic;
 
 import java.util.EnumMap;
 import java.util.Map;
@@ -6,9 +6,11 @@ import java.util.Objects;
 import java.util.Optional;
 import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.atomic.LongAdder;
-import org.loopstand.protocol.topic.ParsedTopic;
-import org.loopstand.protocol.topic.TopicKind;
-import org.loopstand.protocol.topic.TopicTree;
+import org.loopstand.protocol.bus.ForwardingBus;
+import org.loopstand.protocol.bus.InboundMessage;
+import org.loopstand.protocol.bus.MessageBus;
+import org.loopstand.protocol.bus.MessageListener;
+import org.loopstand.protocol.bus.Qos;
 
 /**
  * One wildcard subscription per topic kind for the many units a process serves, each message handed to its
