@@ -18,6 +18,14 @@ class UnitTopicRouterTest {
     private final VirtualClock clock = new VirtualClock(1_700_000_000_000L);
     private final InMemoryBroker broker = new InMemoryBroker(clock, DeliveryMode.DIRECT);
     private final TopicTree site = TopicTree.forSite("north-grid");
+    /** the unit host's connection, the one the wildcards are subscribed on */
+    private final InMemoryBus host = broker.connect("unit-host");
+    /** the other side, publishing commands */
+    private final InMemoryBus controller = broker.connect("controller");
+    /** commands routed over one wildcard on the host's connection */
+    private final UnitTopicRouter router = new UnitTopicRouter("north-grid").route(TopicKind.UNIT_COMMAND, host, Qos.AT_LEAST_ONCE);
+    /** what the units subscribe through */
+    private final MessageBus view = router.view(host);
 
     private static OutboundMessage msg(String topic, String payload) {
         return OutboundMessage.of(topic, payload.getBytes(UTF_8), Qos.AT_LEAST_ONCE);
@@ -25,10 +33,6 @@ class UnitTopicRouterTest {
 
     @Test
     void shouldHandEachCommandToItsOwnUnitOverOneWildcardSubscription() {
-        InMemoryBus host = broker.connect("unit-host");
-        InMemoryBus controller = broker.connect("controller");
-        UnitTopicRouter router = new UnitTopicRouter("north-grid").route(TopicKind.UNIT_COMMAND, host, Qos.AT_LEAST_ONCE);
-        MessageBus view = router.view(host);
         Inbox g1 = new Inbox();
         Inbox g2 = new Inbox();
         view.subscribe(site.unitCommand("g1"), Qos.AT_LEAST_ONCE, g1);
@@ -48,11 +52,10 @@ class UnitTopicRouterTest {
 
     @Test
     void shouldCountAndDropMessagesForUnitsThisHostDoesNotServe() {
-        InMemoryBus host = broker.connect("unit-host-0");
         InMemoryBus plant = broker.connect("plant");
-        UnitTopicRouter router = new UnitTopicRouter("north-grid").route(TopicKind.FIELD_READING, host, Qos.AT_MOST_ONCE);
+        router.route(TopicKind.FIELD_READING, host, Qos.AT_MOST_ONCE);
         Inbox g1 = new Inbox();
-        router.view(host).subscribe(site.fieldReading("g1"), Qos.AT_MOST_ONCE, g1);
+        view.subscribe(site.fieldReading("g1"), Qos.AT_MOST_ONCE, g1);
 
         plant.publish(msg(site.fieldReading("g1"), "g1 at 101.5 MW"));
         plant.publish(msg(site.fieldReading("g3"), "g3 at 80.0 MW"));
@@ -65,10 +68,6 @@ class UnitTopicRouterTest {
 
     @Test
     void shouldPassOtherSubscriptionsAndPublishesToTheConnection() {
-        InMemoryBus host = broker.connect("unit-host");
-        InMemoryBus controller = broker.connect("controller");
-        UnitTopicRouter router = new UnitTopicRouter("north-grid").route(TopicKind.UNIT_COMMAND, host, Qos.AT_LEAST_ONCE);
-        MessageBus view = router.view(host);
         Inbox status = new Inbox();
         Inbox acks = new Inbox();
         view.subscribe(site.filterAll(TopicKind.CONTROLLER_STATUS), Qos.AT_LEAST_ONCE, status);
@@ -84,15 +83,12 @@ class UnitTopicRouterTest {
 
     @Test
     void shouldNotRouteAnotherSitesTopicsNorTakeASecondListenerForOneUnit() {
-        InMemoryBus host = broker.connect("unit-host");
-        UnitTopicRouter router = new UnitTopicRouter("north-grid").route(TopicKind.UNIT_COMMAND, host, Qos.AT_LEAST_ONCE);
-        MessageBus view = router.view(host);
         Inbox g1 = new Inbox();
         Inbox otherSite = new Inbox();
         view.subscribe(site.unitCommand("g1"), Qos.AT_LEAST_ONCE, g1);
         // another site's command topic is no routed topic: it is subscribed on the connection as given
         view.subscribe(TopicTree.forSite("south-grid").unitCommand("g1"), Qos.AT_LEAST_ONCE, otherSite);
-        broker.connect("controller").publish(msg(TopicTree.forSite("south-grid").unitCommand("g1"), "south"));
+        controller.publish(msg(TopicTree.forSite("south-grid").unitCommand("g1"), "south"));
 
         assertThat(g1.payloads()).isEmpty();
         assertThat(otherSite.payloads()).containsExactly("south");
@@ -104,10 +100,6 @@ class UnitTopicRouterTest {
 
     @Test
     void shouldStopHandingMessagesToAUnitAfterItUnsubscribes() {
-        InMemoryBus host = broker.connect("unit-host");
-        InMemoryBus controller = broker.connect("controller");
-        UnitTopicRouter router = new UnitTopicRouter("north-grid").route(TopicKind.UNIT_COMMAND, host, Qos.AT_LEAST_ONCE);
-        MessageBus view = router.view(host);
         Inbox g1 = new Inbox();
         view.subscribe(site.unitCommand("g1"), Qos.AT_LEAST_ONCE, g1);
         controller.publish(msg(site.unitCommand("g1"), "first"));
