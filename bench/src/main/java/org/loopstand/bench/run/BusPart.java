@@ -172,6 +172,9 @@ public final class BusPart {
             counters.put("unitsCommanded", (long) host.unitsCommanded.size());
             counters.put("commandsArrived", t.commandsArrived.sum());
             counters.put("acksPublished", t.acksPublished.sum());
+            counters.put("routedToUnits", host.router.routedCount());
+            counters.put("droppedNotServed", host.router.notServedCount());
+            counters.put("droppedNotParsed", host.router.notParsedCount());
             host.acksRejectedByReason.forEach((k, v) -> counters.put("acksRejected." + k, v.sum()));
             return host.isRunning() ? null : "unit host scan stopped";
         }

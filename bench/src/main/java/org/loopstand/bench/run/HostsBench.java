@@ -36,6 +36,12 @@ public final class HostsBench {
     static final String NODE_HEAP = "-Xmx1g";
     /** How long a part may take to connect and have its subscriptions acknowledged, s (see {@link BenchLinks}). */
     static final long PART_READY_S = 1_200;
+    /**
+     * How long a part may take from its stop order to its figures written, s. When the controller stops, its
+     * offline status makes every unit leave remote and journal it: 1,500 units per host took more than 60 s
+     * at load 28 (3,000 units), and the unit host writes its figures only after that.
+     */
+    static final long PART_DONE_S = 300;
 
     /** Thrown when the hosts cannot be made (not root, no iproute2): the run cannot happen on this machine. */
     public static final class NamespacesUnavailable extends IllegalStateException {
@@ -98,16 +104,20 @@ public final class HostsBench {
                 awaitLine(s.outDir().resolve("node-n" + i + ".log"), "broker node n" + i + " listening", nodes.get(i - 1));
             }
             say.accept("bench: three broker nodes up on hosts A, B, C (" + hosts.address(1) + ".." + hosts.address(3) + ")");
-            // one after the other: each subscribes thousands of topics, which the nodes set up one queue at a time
+            // one after the other: each subscribes what it needs, which the nodes set up one queue at a time
+            Map<String, Double> readyS = new LinkedHashMap<>();
+            long started = clock.monotonicNanos();
             PartProcess ctl = part(parts, hosts, 4, "controller", "controller", uris(hosts, 3, 1, 2), settingsFile, siteId);
-            say.accept("bench: " + ctl.awaitReady(PART_READY_S));
+            say.accept("bench: " + ctl.awaitReady(PART_READY_S) + readyAfter(readyS, "controller", started));
+            started = clock.monotonicNanos();
             PartProcess plant = part(parts, hosts, 1, "plant", "plant", uris(hosts, 1, 2, 3), settingsFile, siteId);
-            say.accept("bench: " + plant.awaitReady(PART_READY_S));
+            say.accept("bench: " + plant.awaitReady(PART_READY_S) + readyAfter(readyS, "plant", started));
+            started = clock.monotonicNanos();
             List<PartProcess> unitHosts = List.of(
                     part(parts, hosts, 2, "units-0", "units", uris(hosts, 2, 3, 1), settingsFile, siteId, "--unit-share", "0/2"),
                     part(parts, hosts, 3, "units-1", "units", uris(hosts, 3, 1, 2), settingsFile, siteId, "--unit-share", "1/2"));
-            for (PartProcess u : unitHosts) {
-                say.accept("bench: " + u.awaitReady(PART_READY_S));
+            for (int i = 0; i < unitHosts.size(); i++) {
+                say.accept("bench: " + unitHosts.get(i).awaitReady(PART_READY_S) + readyAfter(readyS, "units-" + i, started));
             }
             Map<String, Long> pids = new LinkedHashMap<>();
             for (int i = 1; i <= 3; i++) {
@@ -130,18 +140,18 @@ public final class HostsBench {
             plant.order("end");
             unitHosts.forEach(u -> u.order("end"));
             ctl.order("stop");
-            ctl.awaitDone(60);
+            ctl.awaitDone(PART_DONE_S);
             for (PartProcess u : unitHosts) {
                 u.order("stop");
-                u.awaitDone(60);
+                u.awaitDone(PART_DONE_S);
             }
             plant.order("stop");
-            plant.awaitDone(60);
+            plant.awaitDone(PART_DONE_S);
             say.accept("bench: every part wrote its figures");
             Map<String, Double> cpuPct = new LinkedHashMap<>();
             pids.keySet().forEach(name -> cpuPct.put(name, ticksAtEnd.get(name) < 0 || ticksAtMark.get(name) < 0 ? Double.NaN
                     : 100.0 * (ticksAtEnd.get(name) - ticksAtMark.get(name)) / ProcStat.CLOCK_TICKS_PER_S / windowS));
-            return HostsResult.of(s, windowS, cpuPct, resident, loadBefore, ProcStat.loadAverage1Min(),
+            return HostsResult.of(s, windowS, cpuPct, resident, readyS, loadBefore, ProcStat.loadAverage1Min(),
                     PartFigures.read(s.outDir(), "plant"), PartFigures.read(s.outDir(), "controller"),
                     List.of(PartFigures.read(s.outDir(), "units-0"), PartFigures.read(s.outDir(), "units-1")));
         } finally {
@@ -158,6 +168,13 @@ public final class HostsBench {
             }
             hosts.close();
         }
+    }
+
+    /** Notes how long a part took from its start to ready (JVM start, connect, every SUBACK); @return it, said */
+    private String readyAfter(Map<String, Double> readyS, String name, long startedNanos) {
+        double secs = (clock.monotonicNanos() - startedNanos) / 1e9;
+        readyS.put(name, secs);
+        return String.format(Locale.ROOT, " (ready %.1f s after its start)", secs);
     }
 
     /** Users file of the nodes (the one bench login), the cluster password and the bench's password file. */

@@ -28,6 +28,8 @@ import org.HdrHistogram.Histogram;
  * @param unitsPerHost  units each unit host served, and how many of them received at least one command
  * @param cpuPct        each process's CPU over the window, % of one core
  * @param residentBytes each process's resident memory at the end of the window
+ * @param readyS        each part's set-up: from its process start to ready (connected, every subscription
+ *                      acknowledged), wall s; the unit hosts start together, after the plant is ready
  * @param heapAfterGcBytes the largest heap after GC each part sampled (not the broker nodes)
  * @param load1MinBefore machine's 1-minute load average before the run
  * @param load1MinAfter  and after the window
@@ -35,10 +37,12 @@ import org.HdrHistogram.Histogram;
 public record HostsResult(BenchSettings settings, double windowS, Map<String, Double> ratesPerS, Map<String, Long> commands,
                           Map<String, Long> acksRejected, Map<String, Long> inputSeq, Histogram latencyMs,
                           Map<String, Map<String, Long>> unitsPerHost, Map<String, Double> cpuPct,
-                          Map<String, Long> residentBytes, Map<String, Long> heapAfterGcBytes, double load1MinBefore,
+                          Map<String, Long> residentBytes, Map<String, Double> readyS, Map<String, Long> heapAfterGcBytes,
+                          double load1MinBefore,
                           double load1MinAfter, String plantFailure) {
 
     static HostsResult of(BenchSettings s, double windowS, Map<String, Double> cpuPct, Map<String, Long> resident,
+                          Map<String, Double> readyS,
                           double loadBefore, double loadAfter, PartFigures plant, PartFigures ctl, List<PartFigures> units) {
         Map<String, Double> rates = new LinkedHashMap<>();
         rates.put("telemetry published (unit hosts)", sum(units, "telemetryPublishedInWindow") / windowS);
@@ -82,11 +86,12 @@ public record HostsResult(BenchSettings settings, double windowS, Map<String, Do
             PartFigures u = units.get(i);
             latency.add(u.histogram("commandLatencyMs"));
             perHost.put("units-" + i, Map.of("units", u.counter("units"), "unitsCommanded", u.counter("unitsCommanded"),
-                    "connections", u.counter("connections")));
+                    "connections", u.counter("connections"), "routedToUnits", u.counter("routedToUnits"),
+                    "droppedNotServed", u.counter("droppedNotServed"), "droppedNotParsed", u.counter("droppedNotParsed")));
             heap.put("units-" + i, maxHeap(u));
         }
         heap.put("controller", maxHeap(ctl));
-        return new HostsResult(s, windowS, rates, commands, rejected, seq, latency, perHost, cpuPct, resident, heap,
+        return new HostsResult(s, windowS, rates, commands, rejected, seq, latency, perHost, cpuPct, resident, readyS, heap,
                 loadBefore, loadAfter, plant.failure());
     }
 
@@ -133,6 +138,7 @@ public record HostsResult(BenchSettings settings, double windowS, Map<String, Do
         json.put("unitsPerHost", unitsPerHost);
         json.put("cpuPctOfOneCore", cpuPct);
         json.put("residentBytes", residentBytes);
+        json.put("readyS", readyS);
         json.put("heapAfterGcBytes", heapAfterGcBytes);
         json.put("load1MinBefore", load1MinBefore);
         json.put("load1MinAfter", load1MinAfter);
@@ -160,6 +166,9 @@ public record HostsResult(BenchSettings settings, double windowS, Map<String, Do
                 latencyMs.getValueAtPercentile(50), latencyMs.getValueAtPercentile(99), latencyMs.getMaxValue(),
                 latencyMs.getTotalCount());
         out.println("unit hosts: " + unitsPerHost);
+        out.print("set-up, process start to ready (every SUBACK), s:");
+        readyS.forEach((name, secs) -> out.printf(Locale.ROOT, " %s %.1f", name, secs));
+        out.println();
         out.println("process          CPU % of a core   resident MB   heap after GC MB");
         cpuPct.forEach((name, pctCore) -> {
             Long heap = heapAfterGcBytes.get(name);

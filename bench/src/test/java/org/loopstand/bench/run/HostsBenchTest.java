@@ -55,7 +55,15 @@ class HostsBenchTest {
         assertThat(r.unitsPerHost().values()).hasSize(2).allSatisfy(h -> {
             assertThat(h.get("units")).isEqualTo(20);
             assertThat(h.get("unitsCommanded")).as("units of this host that got commands").isPositive();
+            // one wildcard per kind for the site: the other host's units' field readings arrive too, counted and dropped
+            assertThat(h.get("routedToUnits")).isPositive();
+            assertThat(h.get("droppedNotServed")).as("the other host's units' messages").isPositive();
+            assertThat(h.get("droppedNotParsed")).isZero();
         });
+        // each field reading goes to the one unit it names: received by the unit hosts' units about as often as published
+        assertThat(r.ratesPerS().get("field readings received (unit hosts)"))
+                .isBetween(0.8 * r.ratesPerS().get("field readings published (plant)"),
+                        1.05 * r.ratesPerS().get("field readings published (plant)"));
         // 40 units at 1 s telemetry: about 40 per second reached the controller over the 12 s window
         assertThat(r.ratesPerS().get("telemetry received (controller)")).isBetween(30.0, 50.0);
         assertThat(r.inputSeq().get("telemetryTaken")).isPositive();

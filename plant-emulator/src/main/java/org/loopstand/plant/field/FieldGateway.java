@@ -13,6 +13,8 @@ import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.FieldReading;
 import org.loopstand.protocol.message.FieldReference;
 import org.loopstand.protocol.time.Clock;
+import org.loopstand.protocol.topic.TopicKind;
+import org.loopstand.protocol.topic.UnitTopicRouter;
 import org.loopstand.protocol.topic.TopicTree;
 
 /**
@@ -39,6 +41,7 @@ public final class FieldGateway {
     private long nextReadingNanos;
     private long seq;
     private long applied;
+    private final UnitTopicRouter router;
 
     public FieldGateway(GridSimulator sim, PhysicsEpoch physicsEpoch, MessageBus bus, TopicTree topics, MessageCodec codec,
                         Clock clock, List<String> units, long periodMs) {
@@ -52,11 +55,18 @@ public final class FieldGateway {
         this.periodNanos = periodMs * 1_000_000L;
         this.nextReadingNanos = clock.monotonicNanos();
         this.seq = clock.epochMillis();
+        this.router = new UnitTopicRouter(topics.site());
     }
 
+    /**
+     * Subscribes the field references: one wildcard filter for the site, routed to each unit by its topic
+     * ({@link UnitTopicRouter}), since a broker node that makes a queue per subscription needed minutes for one
+     * per unit at 10,000 units (docs/broker.md). The plant's login may read every unit's reference.
+     */
     public FieldGateway start() {
+        MessageBus view = router.route(TopicKind.FIELD_REFERENCE, bus, Qos.AT_LEAST_ONCE).view(bus);
         for (String u : units) {
-            bus.subscribe(topics.fieldReference(u), Qos.AT_LEAST_ONCE,
+            view.subscribe(topics.fieldReference(u), Qos.AT_LEAST_ONCE,
                     m -> codec.decode(m.payload(), FieldReference.class).message()
                             .filter(r -> r.unit().equals(u) && Double.isFinite(r.loadReferenceMw()))
                             .ifPresent(r -> pending.put(u, r)));
@@ -97,6 +107,11 @@ public final class FieldGateway {
         }
         this.periodNanos = periodMs * 1_000_000L;
         return this;
+    }
+
+    /** @return field references dropped because their unit's interface is not served here (counted, not silent) */
+    public long referencesNotServedCount() {
+        return router.notServedCount();
     }
 
     /** @return load references applied since start */

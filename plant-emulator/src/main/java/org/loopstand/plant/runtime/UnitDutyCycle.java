@@ -34,9 +34,9 @@ public final class UnitDutyCycle {
      * fans one status message out to all its units as the same array, and decoding a status with
      * every area's ACE once per unit was the plant loop's largest cost at 10,000 units. Keyed by
      * array identity (payloads are never changed after receipt), one entry per connection's copy;
-     * safe across threads.
+     * safe across threads. Shared by the plant's own units and by a unit host's {@link UnitProcess}es.
      */
-    static final class StatusDecoding {
+    public static final class StatusDecoding {
         /** One entry per connection is enough; a few spare for a status that follows quickly. */
         private static final int ENTRIES = 64;
         private final MessageCodec codec;
@@ -45,7 +45,7 @@ public final class UnitDutyCycle {
         private final Decoded<ControllerStatus>[] decoded = new Decoded[ENTRIES];
         private int next;
 
-        StatusDecoding(MessageCodec codec) {
+        public StatusDecoding(MessageCodec codec) {
             this.codec = codec;
         }
 
@@ -78,7 +78,7 @@ public final class UnitDutyCycle {
     }
 
     /** Owner thread, before start: decode controller statuses through a cache shared with the other units. */
-    void shareStatusDecoding(StatusDecoding decoding) {
+    public void shareStatusDecoding(StatusDecoding decoding) {
         this.statusDecoding = decoding;
     }
 
