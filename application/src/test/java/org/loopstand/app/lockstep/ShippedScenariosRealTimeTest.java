@@ -11,6 +11,7 @@ import java.util.List;
 import org.junit.jupiter.api.AfterAll;
 import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Tag;
+import org.junit.jupiter.api.io.CleanupMode;
 import org.junit.jupiter.api.io.TempDir;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.MethodSource;
@@ -57,7 +58,8 @@ class ShippedScenariosRealTimeTest {
         throw new IllegalArgumentException("realtime.parallel must be a whole number ≥ 1, got '" + v + "'");
     }
 
-    @TempDir
+    /** Kept when a comparison fails, so the differing run's journals can be read (the failure message names its folder). */
+    @TempDir(cleanup = CleanupMode.ON_SUCCESS)
     static Path runs;
 
     static RealTimeRehearsals rehearsals;
