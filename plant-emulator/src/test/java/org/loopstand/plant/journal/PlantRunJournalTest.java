@@ -41,6 +41,11 @@ class PlantRunJournalTest {
     static final Path SITE = Path.of("..", "config", "sites", "demo-site.yaml");
     final MessageCodec codec = new MessageCodec();
     final VirtualClock clock = new VirtualClock(1_700_000_000_000L);
+    /**
+     * The journal's flush clock, moved with the scenario clock: a writer thread that lags behind the whole run
+     * has seen every flush fall due before it wrote the last entries, so the wait below moves it on too.
+     */
+    final VirtualClock flushClock = new VirtualClock(1_700_000_000_000L);
     final InMemoryBroker broker = new InMemoryBroker(clock, DeliveryMode.DIRECT);
     final TopicTree topics = TopicTree.forSite("demo-site");
     final InMemoryBus tester = broker.connect("tester");
@@ -59,8 +64,8 @@ class PlantRunJournalTest {
                 InterfaceOptions.defaults(), Qos.AT_MOST_ONCE, 256, 7, 1.0);
         PlantRunner p = new PlantRunner(new GridSimulator(grid), List.of(new PhysicsEvents.LoadStep(2, "north-basin", 50)),
                 o, broker::connect, clock, w -> { });
-        p.journalTo(PlantRunJournal.create(dir, p.agent().epochMsAt(0), Map.of("site", "demo-site", "rate", 1.0), clock, clock,
-                journalQueue), 1.0);
+        p.journalTo(PlantRunJournal.create(dir, p.agent().epochMsAt(0), Map.of("site", "demo-site", "rate", 1.0), clock,
+                flushClock, journalQueue), 1.0);
         p.agent().endAt(10);
         return p;
     }
@@ -68,6 +73,7 @@ class PlantRunJournalTest {
     void run(PlantRunner p, double s) {
         for (long i = 0, n = Math.round(s / 0.01); i < n; i++) {
             clock.advanceMillis(10);
+            flushClock.advanceMillis(10);
             p.agent().doWork();
         }
     }
@@ -92,8 +98,10 @@ class PlantRunJournalTest {
         assertThat(p.sim().timeS()).isCloseTo(10.0, within(1e-9));
 
         // flushed while running (flush clock = the virtual clock, 1 s interval): readable, not yet ended
-        org.awaitility.Awaitility.await().atMost(java.time.Duration.ofSeconds(10)).until(() -> // the writer thread's pace
-                JournalReader.readAll(dir.resolve("plant.jsonl")).entries().stream().anyMatch(e -> e.kind().equals("truth")));
+        org.awaitility.Awaitility.await().atMost(java.time.Duration.ofSeconds(10)).until(() -> { // the writer thread's pace
+            flushClock.advanceMillis(1_000);
+            return JournalReader.readAll(dir.resolve("plant.jsonl")).entries().stream().anyMatch(e -> e.kind().equals("truth"));
+        });
         assertThat(JournalReader.readAll(dir.resolve("plant.jsonl")).summary().cutShort()).isTrue();
 
         p.close();
