@@ -22,6 +22,7 @@ import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.RunScenario;
 import org.loopstand.plant.scenario.RunScenarioLoader;
 import org.loopstand.protocol.config.ConfigFileException;
+import org.loopstand.protocol.config.InstallFolder;
 import org.loopstand.protocol.config.MappingReader;
 import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.protocol.config.SourceLocation;
@@ -46,7 +47,7 @@ public final class CampaignReader {
 
     /**
      * @param file the campaign file; {@code scenario} and {@code siteFile} in it are relative to its folder
-     * @param home where {@code config/sites/<site>.yaml} is looked for when the campaign names the site by id
+     * @param home the install folder: a site named only by id is looked for as {@link InstallFolder#siteFor} does
      * @throws ConfigFileException listing every problem of the campaign (or of its site or base scenario)
      */
     public static CampaignSpec read(Path file, Path home) throws IOException {
@@ -90,10 +91,13 @@ public final class CampaignReader {
         if (siteId == null || scenarioText == null) {
             throw new ConfigFileException(problems);
         }
-        Path siteFile = siteFileText != null ? dir.resolve(siteFileText).normalize() : siteFileFor(dir, siteId);
+        InstallFolder install = InstallFolder.of(Map.of(InstallFolder.HOME_VARIABLE, home.toString()));
+        Path siteFile = siteFileText != null ? dir.resolve(siteFileText).normalize() : install.findSite(file, siteId).orElse(null);
         Path scenarioFile = dir.resolve(scenarioText).normalize();
-        if (!Files.isRegularFile(siteFile)) {
-            problems.add(top.locationOf(siteFileText != null ? "siteFile" : "siteId") + ": site file " + siteFile + " does not exist");
+        if (siteFile == null) {
+            problems.add(top.locationOf("siteId") + ": " + install.noSite(file, siteId) + "; give siteFile");
+        } else if (!Files.isRegularFile(siteFile)) {
+            problems.add(top.locationOf("siteFile") + ": site file " + siteFile + " does not exist");
         }
         if (!Files.isRegularFile(scenarioFile)) {
             problems.add(top.locationOf("scenario") + ": scenario file " + scenarioFile + " does not exist");
@@ -126,11 +130,6 @@ public final class CampaignReader {
         String name = file.getFileName().toString().replaceFirst("\\.ya?ml$", "");
         return new CampaignSpec(name, file, siteFile, scenarioFile, durationS, (int) runs, masterSeed, "perRun".equals(scenarioSeed),
                 faultsPerRun, faults, loadEventsPerRun, loads, shrink);
-    }
-
-    private Path siteFileFor(Path dir, String siteId) {
-        Path beside = dir.resolve("../sites/" + siteId + ".yaml").normalize();
-        return Files.isRegularFile(beside) ? beside : home.resolve("config/sites/" + siteId + ".yaml");
     }
 
     private CampaignSpec.IntRange intRange(MappingReader top, String key, CampaignSpec.IntRange fallback) {

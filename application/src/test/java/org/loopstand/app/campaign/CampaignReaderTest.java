@@ -129,4 +129,18 @@ class CampaignReaderTest {
                 .isInstanceOf(ConfigFileException.class)
                 .hasMessageContaining("bad.yaml:5:").hasMessageContaining("faults of campaign is empty");
     }
+
+    @Test
+    void shouldFindASiteNamedByIdAsTheOtherCommandsDoAndNameThePlacesWhenNoneIsThere() throws Exception {
+        // the shipped campaign names only siteId: its site is in config/sites, next to config/campaigns
+        CampaignSpec shipped = CampaignReader.read(Path.of("..", "config", "campaigns", "demo-unit-trip.yaml"), dir);
+        assertThat(shipped.siteFile().toAbsolutePath().normalize()).isEqualTo(CampaignFiles.SITE);
+
+        java.nio.file.Files.writeString(dir.resolve("lost.yaml"), java.nio.file.Files.readString(
+                Path.of("..", "config", "campaigns", "demo-unit-trip.yaml")).replace("siteId: demo-site", "siteId: nowhere"));
+        assertThatThrownBy(() -> CampaignReader.read(dir.resolve("lost.yaml"), dir))
+                .isInstanceOf(ConfigFileException.class)
+                .hasMessageContaining("lost.yaml:5:").hasMessageContaining("no site file for siteId 'nowhere'")
+                .hasMessageContaining(dir.resolve("config/sites/nowhere.yaml").toString());
+    }
 }

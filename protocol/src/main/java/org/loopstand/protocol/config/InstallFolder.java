@@ -5,6 +5,7 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;
+import java.util.Optional;
 
 /**
  * Where shipped configuration is read from. The launcher exports the folder it lives in as
@@ -56,14 +57,19 @@ public final class InstallFolder {
      * @throws IllegalArgumentException naming every place looked in when none does
      */
     public Path siteFor(Path scenarioFile, String siteId) {
-        List<Path> candidates = siteCandidates(scenarioFile, siteId);
-        for (Path p : candidates) {
-            if (Files.isRegularFile(p)) {
-                return p;
-            }
-        }
-        throw new IllegalArgumentException("no site file for siteId '" + siteId + "' of " + scenarioFile + " (looked for "
-                + String.join(", ", candidates.stream().map(Path::toString).toList()) + "); give --site FILE");
+        return findSite(scenarioFile, siteId).orElseThrow(() -> new IllegalArgumentException(noSite(scenarioFile, siteId)
+                + "; give --site FILE"));
+    }
+
+    /** @return the first place of {@link #siteCandidates} that holds a file, empty when none does */
+    public Optional<Path> findSite(Path file, String siteId) {
+        return siteCandidates(file, siteId).stream().filter(Files::isRegularFile).findFirst();
+    }
+
+    /** @return "no site file for siteId … of FILE (looked for …)", for a refusal when {@link #findSite} found none */
+    public String noSite(Path file, String siteId) {
+        return "no site file for siteId '" + siteId + "' of " + file + " (looked for "
+                + String.join(", ", siteCandidates(file, siteId).stream().map(Path::toString).toList()) + ")";
     }
 
     /** @return the places {@link #siteFor} looks, in order, without repeats */
