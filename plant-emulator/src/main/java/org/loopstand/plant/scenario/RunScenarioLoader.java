@@ -113,11 +113,6 @@ public final class RunScenarioLoader {
             for (YamlNode n : top.sequence("checks", false)) {
                 readCheck(n, durationS, events, catalog, problems, names);
             }
-            double startHour = top.optionalDouble("startHourOfDay", 0.0);
-            if (startHour >= 0 && startHour < 24) {
-                String at = (top.has("siteId") ? top.locationOf("siteId") : top.location()).toString();
-                org.loopstand.plant.physics.StartBalance.of(grid, startHour).problems().forEach(p -> problems.add(at + ": " + p));
-            }
         }
 
         private void readFault(YamlNode n, double durationS, TargetCatalog catalog, List<String> problems,

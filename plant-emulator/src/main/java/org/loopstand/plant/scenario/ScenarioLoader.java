@@ -68,6 +68,10 @@ public final class ScenarioLoader {
         double startHour = top.optionalDouble("startHourOfDay", 0.0);
         if (!(startHour >= 0 && startHour < 24)) {
             problems.add(top.locationOf("startHourOfDay") + ": startHourOfDay must lie in [0, 24), got " + startHour);
+        } else {
+            // a start far out of balance judges the file, not the controller (StartBalance)
+            org.loopstand.plant.physics.StartBalance.of(grid, startHour).problems()
+                    .forEach(p -> problems.add(top.locationOf(siteKey) + ": " + p));
         }
         double traceIntervalS = top.optionalDouble("traceIntervalS", 1.0);
         if (!(traceIntervalS > 0)) {
