@@ -18,7 +18,7 @@ import org.loopstand.protocol.topic.TopicTree;
 
 /**
  * Starts the controller under test and waits for it: one path for the built-in controller and any
- * user's command (a shell command in the project root, connection facts in {@code LOOPSTAND_*}
+ * user's command (a shell command run in the folder the rehearsal was started from, connection facts in {@code LOOPSTAND_*}
  * environment variables, output to {@code controller.log}), or, for an external controller, the exact
  * facts it must connect with. Ready means: the controller's first status with the accepted id arrived
  * on the bus after the rehearsal subscribed (a retained status left by an earlier run does not count).

@@ -4,7 +4,7 @@ import java.util.regex.Pattern;
 
 /**
  * The controller a rehearsal runs against: the built-in reference controller (the default), a command
- * line the rig starts as a child process (through the shell, in the project root, with the connection
+ * line the rig starts as a child process (through the shell, in the folder the rehearsal was started from, with the connection
  * facts in {@code LOOPSTAND_*} environment variables), or an external controller the user starts
  * themselves. The built-in one is started exactly like any other command.
  *

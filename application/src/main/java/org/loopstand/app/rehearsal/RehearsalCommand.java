@@ -56,7 +56,7 @@ public final class RehearsalCommand implements Callable<Integer> {
     boolean noLiveView;
 
     @Option(names = "--controller-command", paramLabel = "CMD", description = "rehearse this controller: a command line the"
-            + " rig starts through the shell in the project root, with LOOPSTAND_BROKER_URL, LOOPSTAND_SITE_ID,"
+            + " rig starts through the shell in the folder you run rehearse from, with LOOPSTAND_BROKER_URL, LOOPSTAND_SITE_ID,"
             + " LOOPSTAND_SITE_FILE, LOOPSTAND_TOPIC_ROOT, LOOPSTAND_CONTROLLER_ID, LOOPSTAND_RATE and LOOPSTAND_RUN_DIR set"
             + " (docs/controller-contract.md); its output goes to controller.log in the run folder")
     String controllerCommand;
@@ -78,7 +78,7 @@ public final class RehearsalCommand implements Callable<Integer> {
     Double paceLagS;
 
     @Option(names = "--pace-command-share", paramLabel = "F", description = "the plant slows the scenario clock when a"
-            + " command arrives with more than this share of its validity gone, 0 = never (default: the plant's, 0 = off; 0.5 was measured;"
+            + " command arrives with more than this share of its validity gone, 0 = never (default: the plant's, 0.25;"
             + " docs/plant.md, \"Pacing\")")
     Double paceCommandShare;
 

@@ -92,13 +92,46 @@ final class RealTimeRehearsals implements AutoCloseable {
                 String out = printed.toString(StandardCharsets.UTF_8);
                 // one line per rehearsal in the test output: what CI time and a changed verdict are judged by
                 System.out.println("real-time rehearsal " + s.scenarioName() + " at rate " + rate + ": " + wallS + " s wall, "
-                        + out.lines().filter(l -> l.startsWith("verdict:") || l.contains("RATE NOT KEPT")).map(String::trim).toList());
+                        + out.lines().filter(l -> l.startsWith("verdict:") || l.contains("RATE NOT KEPT")).map(String::trim).toList()
+                        + commandPath(o.runFolder()));
                 ReportModel report = o.report() == null ? null
                         : RunReportBuilder.build(RunFolder.read(o.runFolder()), Map.of(), List.of(), "test");
                 return new Rehearsed(o, report, out);
             }, pool));
         }
     }
+
+    /**
+     * @return the plant's account of the command path, for the line printed per rehearsal: command outcomes,
+     *         the pace keeper's command-path slow-downs and the oldest command on arrival (scenario s)
+     */
+    private static String commandPath(Path runFolder) {
+        Path journal = runFolder == null ? null : runFolder.resolve("plant.jsonl");
+        if (journal == null || !Files.isRegularFile(journal)) {
+            return "";
+        }
+        Map<String, Integer> outcomes = new java.util.TreeMap<>();
+        Object slowdowns = null;
+        Object maxAgeS = null;
+        try (var lines = Files.lines(journal)) {
+            for (String line : (Iterable<String>) lines::iterator) {
+                if (line.contains("\"kind\":\"command\"") || line.contains("\"paceSummary\"")) {
+                    Map<?, ?> e = JSON.readValue(line, Map.class);
+                    if ("command".equals(e.get("kind"))) {
+                        outcomes.merge(String.valueOf(e.get("outcome")), 1, Integer::sum);
+                    } else if ("paceSummary".equals(e.get("event"))) {
+                        slowdowns = e.get("commandPathSlowdowns");
+                        maxAgeS = e.get("maxCommandAgeS");
+                    }
+                }
+            }
+        } catch (IOException e) {
+            return " (plant journal not read: " + e + ")";
+        }
+        return " commands " + outcomes + ", command-path slow-downs " + slowdowns + ", oldest command " + maxAgeS + " s";
+    }
+
+    private static final com.fasterxml.jackson.databind.ObjectMapper JSON = new com.fasterxml.jackson.databind.ObjectMapper();
 
     /** Runs the rehearsal, holding the start gate until its controller runs (the plant and its broker are up) or it ended. */
     private Rehearsal.Outcome runThroughTheStartGate(Rehearsal r) {

@@ -36,9 +36,9 @@ public final class ScenarioClockMixin {
             + " paceSlowed); 0 = never slow the clock (default ${DEFAULT-VALUE})")
     double paceLagS;
 
-    @Option(names = "--pace-command-share", defaultValue = "0", description = "with the pace keeper on: a command that"
-            + " arrives with more than this share of its validity gone slows the clock too (paceSlowed, reason"
-            + " commandPath); 0 = never, 0 – 1 (default ${DEFAULT-VALUE})")
+    @Option(names = "--pace-command-share", defaultValue = "" + PlantPacing.COMMAND_AGE_SHARE, description = "with the"
+            + " pace keeper on: a command that arrives with more than this share of its validity gone slows the clock in"
+            + " proportion (paceSlowed, reason commandPath); 0 = never, 0 – 1 (default ${DEFAULT-VALUE})")
     double paceCommandShare;
 
     @Option(names = "--pace-factor", defaultValue = "1.1", description = "say RATE NOT KEPT at the end when the asked rate"
@@ -57,6 +57,10 @@ public final class ScenarioClockMixin {
     void check() {
         if (!(paceLagS >= 0) || Double.isInfinite(paceLagS)) {
             throw new IllegalArgumentException("--pace-lag-s must be 0 (off) or a positive number of scenario seconds, got " + paceLagS);
+        }
+        if (!(paceCommandShare >= 0 && paceCommandShare <= 1)) {
+            throw new IllegalArgumentException("--pace-command-share must be 0 (off) or a share of a command's validity in (0, 1], got "
+                    + paceCommandShare);
         }
         if (!(paceFactor >= 1) || Double.isInfinite(paceFactor)) {
             throw new IllegalArgumentException("--pace-factor must be at least 1, got " + paceFactor);

@@ -38,8 +38,12 @@ import org.loopstand.protocol.time.Clock;
  * {@code issuedAt} to its arrival) shows that controller, broker or link were held up for longer than the
  * rate allows, in wall time; holding the clock would not make it younger, so the clock runs on slower
  * ({@code paceSlowed} with {@code reason: commandPath}), at most once per {@value #COMMAND_PATH_SETTLE_WALL_S}
- * wall second (one hold-up delays a burst of commands). The physics' holds and slow-downs say
- * {@code reason: physicsLag}.
+ * wall second (one hold-up delays a burst of commands). The cut is in proportion: the same wall time on
+ * the way at the new rate would leave the command half the share's age ({@code from × share/2 × validity
+ * / age}), at most {@value #MAX_COMMAND_PATH_CUT} × at once, so a machine that is slow for the rate is met
+ * within a cycle or two, before the controller counts several commands in a row as not executed (a
+ * verdict the rate would have changed). The rate is not raised again while commands still arrive older
+ * than half the share. The physics' holds and slow-downs say {@code reason: physicsLag}.
  *
  * <p>{@link #onStep(long)} runs on the plant loop's thread (every step, through
  * {@link StepLateness#watchSteps}); it allocates only when it changes the clock. The other methods run
@@ -77,10 +81,13 @@ public final class PlantPacing {
 
     /**
      * Default share of a command's validity gone on its way beyond which the command path is too slow for the
-     * rate: 0 = the command path watch is off by default, its effect on the refusals is not established
-     * (docs/performance.md); 0.5 is the value measured.
+     * rate (0 = off). Half: at 4 s of validity, 2 s of scenario time, which at rate 40 is 50 ms of wall
+     * time on the way; common practice, no source (docs/performance.md has the runs it was chosen by).
      */
-    public static final double COMMAND_AGE_SHARE = 0.0;
+    public static final double COMMAND_AGE_SHARE = 0.5;
+
+    /** Deepest cut of the rate at one old command: to no less than this share of the rate it ran at. */
+    public static final double MAX_COMMAND_PATH_CUT = 0.25;
 
     /** Wall seconds after a rate change in which an old command does not slow the clock again. */
     public static final double COMMAND_PATH_SETTLE_WALL_S = 1.0;
@@ -105,9 +112,7 @@ public final class PlantPacing {
     private long holds;
     private long raises;
     private long commandPathSlowdowns;
-    private double commandAgeShare = COMMAND_AGE_SHARE;
-    private long maxCommandAgeMs;
-    private long commandsSeen;
+    private final CommandPathWatch commandPath = new CommandPathWatch(COMMAND_AGE_SHARE);
     private long heldWallNanos;
     private double lowestRate;
     private long goWallNanos = -1;
@@ -190,7 +195,7 @@ public final class PlantPacing {
         double rate = clock.currentRate();
         if (rate < clock.rate() && lateNanos < lagNanos / 4 && clock.running()) { // not while another holds it
             long w = wall.monotonicNanos();
-            if (w - lastChangeWallNanos >= calmNanos) {
+            if (w - lastChangeWallNanos >= calmNanos && commandPath.calmFor(w, calmNanos)) {
                 double to = Math.min(clock.rate(), rounded(rate / settings.slowFactor()));
                 clock.runAt(to);
                 lastChangeWallNanos = w;
@@ -261,15 +266,12 @@ public final class PlantPacing {
 
     /**
      * Owner thread, before start: a command slows the clock when more than {@code share} of its validity
-     * was gone when it arrived.
+     * was gone when it arrived (default {@value #COMMAND_AGE_SHARE}).
      *
-     * @param share (0, 1]
+     * @param share [0, 1], 0 = never
      */
     public PlantPacing watchCommandsBeyond(double share) {
-        if (!(share > 0 && share <= 1)) {
-            throw new IllegalArgumentException("command age share must be in (0, 1], got " + share);
-        }
-        this.commandAgeShare = share;
+        commandPath.share(share);
         return this;
     }
 
@@ -282,19 +284,16 @@ public final class PlantPacing {
      */
     public void onCommandArrived(UnitCommand c, long receivedNanos) {
         long arrivedMs = clock.epochMillis() - (clock.monotonicNanos() - receivedNanos) / 1_000_000L;
-        long ageMs = arrivedMs - c.issuedAt();
-        long validityMs = c.validUntil() - c.issuedAt();
-        maxCommandAgeMs = commandsSeen++ == 0 ? ageMs : Math.max(maxCommandAgeMs, ageMs);
-        double limitMs = commandAgeShare * validityMs;
-        if (commandAgeShare <= 0 || validityMs <= 0 || ageMs <= limitMs || holding || !clock.running()) {
+        long w = wall.monotonicNanos();
+        CommandPathWatch.OldCommand old = commandPath.observe(c, arrivedMs, w);
+        if (old == null || holding || !clock.running()) {
             return;
         }
-        long w = wall.monotonicNanos();
         double from = clock.currentRate();
         if (w - lastChangeWallNanos < Math.round(COMMAND_PATH_SETTLE_WALL_S * 1e9) || from <= MIN_RATE) {
             return;
         }
-        double to = Math.max(MIN_RATE, rounded(from * settings.slowFactor()));
+        double to = Math.max(MIN_RATE, rounded(old.rateFrom(from, MAX_COMMAND_PATH_CUT)));
         clock.runAt(to);
         slowedAt(w, to);
         commandPathSlowdowns++;
@@ -302,9 +301,9 @@ public final class PlantPacing {
         e.put("reason", "commandPath");
         e.put("unit", c.unit());
         e.put("commandSeq", c.seq());
-        e.put("commandAgeS", ageMs / 1000.0);
-        e.put("validityS", validityMs / 1000.0);
-        e.put("limitS", limitMs / 1000.0);
+        e.put("commandAgeS", old.ageMs() / 1000.0);
+        e.put("validityS", old.validityMs() / 1000.0);
+        e.put("limitS", old.limitMs() / 1000.0);
         journal.accept(e);
     }
 
@@ -338,7 +337,7 @@ public final class PlantPacing {
         e.put("wallS", Double.isNaN(wallS) ? null : wallS);
         e.put("slowdowns", slowdowns);
         e.put("commandPathSlowdowns", commandPathSlowdowns);
-        e.put("maxCommandAgeS", commandsSeen == 0 ? null : maxCommandAgeMs / 1000.0); // null: none watched
+        e.put("maxCommandAgeS", commandPath.maxAgeS()); // null: none watched
         e.put("holds", holds);
         e.put("raises", raises);
         e.put("heldWallMs", heldWallNanos / 1e6);
@@ -355,10 +354,10 @@ public final class PlantPacing {
             return Optional.empty();
         }
         return Optional.of(String.format(Locale.ROOT, "RATE NOT KEPT: asked %sx, kept %.1fx over %.1f s wall"
-                        + " (clock held %d times and slowed %d times, held %.0f ms in all, slipped %d times on stalls of the"
+                        + " (clock held %d times and slowed %d times (%d for old commands), held %.0f ms in all, slipped %d times on stalls of the"
                         + " loop (%.0f ms in all, %.1f s of scenario not run), lowest rate %.1fx, physics at most"
                         + " %.2f s behind; limit %.2f s); rehearse at a lower --rate for this machine",
-                trim(clock.rate()), kept, wallS, keeperHolds(), slowdowns, heldWallNanos / 1e6, slips,
+                trim(clock.rate()), kept, wallS, keeperHolds(), slowdowns, commandPathSlowdowns, heldWallNanos / 1e6, slips,
                 slipWallNanos / 1e6, notRunS, lowestRate, maxLateNanos / 1e9, settings.lagS()));
     }
 

@@ -181,7 +181,8 @@ class PlantPacingTest {
     }
 
     @Test
-    void shouldLeaveTheClockAloneForOldCommandsWhenTheWatchIsOffAsByDefault() {
+    void shouldLeaveTheClockAloneForOldCommandsWhenTheWatchIsOff() {
+        pacing.watchCommandsBeyond(0);
         wall.advanceMillis(2_000);
         long now = clock.epochMillis();
         pacing.onCommandArrived(pulse(1, now - 3_900, now + 100), clock.monotonicNanos()); // 97.5 % of 4 s gone
@@ -190,37 +191,68 @@ class PlantPacingTest {
     }
 
     @Test
-    void shouldSlowTheClockWhenCommandsArriveWithMoreThanHalfTheirValidityGone() {
-        pacing.watchCommandsBeyond(0.5);
+    void shouldCutTheRateInProportionWhenCommandsArriveOlderThanHalfTheirValidityAsByDefault() {
         wall.advanceMillis(2_000); // 80 s of scenario time at 40x
         long now = clock.epochMillis();
-        // issued 1.5 s before it arrived, valid 4 s: 37.5 % gone on the way, the path keeps up
-        pacing.onCommandArrived(pulse(1, now - 1_500, now + 2_500), clock.monotonicNanos());
+        // issued 1.9 s before it arrived, valid 4 s: 47.5 % gone on the way, the path keeps up
+        pacing.onCommandArrived(pulse(1, now - 1_900, now + 2_100), clock.monotonicNanos());
         assertThat(clock.currentRate()).isEqualTo(40.0);
         assertThat(journal).isEmpty();
-        // issued 3 s (75 ms of wall time at 40x) before it arrived: 75 % of its 4 s gone
+        // issued 3.2 s (80 ms of wall time at 40x) before it arrived: 80 % gone; the same 80 ms at 12.5x
+        // are 1 s, half the 2 s limit: 40 × 1 / 3.2
         long arrivedNanos = clock.monotonicNanos();
         wall.advanceMillis(5); // taken off the queue 5 ms later: the plant's own wait is not the path's
-        pacing.onCommandArrived(pulse(2, now - 3_000, now + 1_000), arrivedNanos);
-        assertThat(clock.currentRate()).isEqualTo(32.0); // 40 × 0.8
+        pacing.onCommandArrived(pulse(2, now - 3_200, now + 800), arrivedNanos);
+        assertThat(clock.currentRate()).isEqualTo(12.5);
         assertThat(journal).singleElement().satisfies(e -> assertThat(e).containsEntry("event", "paceSlowed")
-                .containsEntry("reason", "commandPath").containsEntry("commandAgeS", 3.0).containsEntry("validityS", 4.0)
-                .containsEntry("limitS", 2.0).containsEntry("fromRate", 40.0).containsEntry("toRate", 32.0)
+                .containsEntry("reason", "commandPath").containsEntry("commandAgeS", 3.2).containsEntry("validityS", 4.0)
+                .containsEntry("limitS", 2.0).containsEntry("fromRate", 40.0).containsEntry("toRate", 12.5)
                 .containsEntry("unit", "basin-steam-1").containsEntry("commandSeq", 2L));
         // the same hold-up's next old command, 0.5 wall s later: no second slow-down
         wall.advanceMillis(500);
         now = clock.epochMillis();
         pacing.onCommandArrived(pulse(3, now - 3_000, now + 1_000), clock.monotonicNanos());
-        assertThat(clock.currentRate()).isEqualTo(32.0);
-        // 1.1 wall s after the change the path is still slow: slowed again
+        assertThat(clock.currentRate()).isEqualTo(12.5);
+        // 1.1 wall s after the change the path is still slow (2.2 s old): 12.5 × 1 / 2.2 = 5.68
         wall.advanceMillis(600);
         now = clock.epochMillis();
-        pacing.onCommandArrived(pulse(4, now - 2_500, now + 1_500), clock.monotonicNanos());
-        assertThat(clock.currentRate()).isEqualTo(25.6); // 32 × 0.8
+        pacing.onCommandArrived(pulse(4, now - 2_200, now + 1_800), clock.monotonicNanos());
+        assertThat(clock.currentRate()).isEqualTo(5.68);
+        // 5 s old (expired) at 5.68x: the proportional 1.14x is below the deepest cut, a quarter of the rate
+        wall.advanceMillis(1_100);
+        now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(5, now - 5_000, now - 1_000), clock.monotonicNanos());
+        assertThat(clock.currentRate()).isEqualTo(1.42);
+        // just over the limit (2.2 s at 1.42x): 1.42 × 1 / 2.2, to 0.01
+        wall.advanceMillis(1_100);
+        now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(6, now - 2_200, now + 1_800), clock.monotonicNanos());
+        assertThat(clock.currentRate()).isEqualTo(0.65);
         pacing.finish(100);
-        assertThat(journal.get(2)).containsEntry("event", "paceSummary").containsEntry("slowdowns", 2L)
-                .containsEntry("commandPathSlowdowns", 2L).containsEntry("maxCommandAgeS", 3.0)
-                .containsEntry("lowestRate", 25.6);
+        assertThat(journal.get(4)).containsEntry("event", "paceSummary").containsEntry("slowdowns", 4L)
+                .containsEntry("commandPathSlowdowns", 4L).containsEntry("maxCommandAgeS", 5.0)
+                .containsEntry("lowestRate", 0.65);
+    }
+
+    @Test
+    void shouldNotRaiseTheRateWhileCommandsStillArriveOlderThanHalfTheLimit() {
+        wall.advanceMillis(2_000);
+        long now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(1, now - 2_500, now + 1_500), clock.monotonicNanos()); // 62.5 % gone
+        assertThat(clock.currentRate()).isEqualTo(16.0); // 40 × 1 / 2.5
+        wall.advanceMillis(4_000);
+        now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(2, now - 1_400, now + 2_600), clock.monotonicNanos()); // 1.4 s: under 2 s, over 1 s
+        assertThat(clock.currentRate()).isEqualTo(16.0);
+        wall.advanceMillis(1_500); // 5.5 s after the cut, 1.5 s after the strained command
+        pacing.onStep(0);
+        assertThat(clock.currentRate()).isEqualTo(16.0);
+        wall.advanceMillis(3_600); // 5.1 s after the last strained command
+        now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(3, now - 600, now + 3_400), clock.monotonicNanos()); // 0.6 s: calm
+        pacing.onStep(0);
+        assertThat(clock.currentRate()).isEqualTo(20.0); // 16 / 0.8
+        assertThat(journal.get(1)).containsEntry("event", "paceRaised");
     }
 
     @Test
@@ -231,7 +263,7 @@ class PlantPacingTest {
         pacing.onCommandArrived(pulse(1, now - 3_000, now + 1_000), clock.monotonicNanos()); // 75 % of 4 s gone
         assertThat(clock.currentRate()).isEqualTo(40.0);
         pacing.onCommandArrived(pulse(2, now - 3_500, now + 500), clock.monotonicNanos()); // 87.5 % gone
-        assertThat(clock.currentRate()).isEqualTo(32.0);
+        assertThat(clock.currentRate()).isEqualTo(18.29); // 40 × 1.6 / 3.5
         assertThat(journal).singleElement().satisfies(e -> assertThat(e).containsEntry("limitS", 3.2));
         org.assertj.core.api.Assertions.assertThatThrownBy(() -> pacing.watchCommandsBeyond(1.5))
                 .hasMessageContaining("command age share");
