@@ -74,24 +74,24 @@ class TwoProcessClosedLoopTest {
     }
 
     @Test
-    @Timeout(value = 120, unit = TimeUnit.SECONDS)
+    @Timeout(value = 200, unit = TimeUnit.SECONDS)
     void shouldRestoreFrequencyByPulsesAcrossTwoProcessesOverTheEmbeddedBroker(@TempDir Path dir) throws Exception {
         int port = FreePort.find();
         Process plant = launch(dir, "plant", "org.loopstand.plant.cli.PlantCli", "plant", "--site", SITE.toString(),
                 "--scenario", SCENARIO.toString(), "--rate", fmt(RATE), "--broker-port", Integer.toString(port),
-                "--duration", "90");
+                "--duration", "160");
         String uri = "tcp://127.0.0.1:" + port;
         runControllerAndCheck(dir, uri, plant);
     }
 
     @Test
-    @Timeout(value = 120, unit = TimeUnit.SECONDS)
+    @Timeout(value = 200, unit = TimeUnit.SECONDS)
     void shouldRestoreFrequencyByPulsesAcrossTwoProcessesOverAPrivateMosquitto(@TempDir Path dir) throws Exception {
         Assumptions.assumeTrue(Files.isExecutable(MosquittoProcess.BINARY), "mosquitto is not installed");
         try (MosquittoProcess mosquitto = MosquittoProcess.start(dir)) {
             Process plant = launch(dir, "plant", "org.loopstand.plant.cli.PlantCli", "plant", "--site", SITE.toString(),
                     "--scenario", SCENARIO.toString(), "--rate", fmt(RATE), "--broker", mosquitto.serverUri(),
-                    "--duration", "90");
+                    "--duration", "160");
             runControllerAndCheck(dir, mosquitto.serverUri(), plant);
         }
     }
@@ -132,7 +132,9 @@ class TwoProcessClosedLoopTest {
                 m -> codec.decode(m.payload(), ClockTick.class).message().ifPresent(ticks::add));
         assertThat(observer.awaitConnected(30_000)).as("observer connected to " + uri).isTrue();
 
-        await().atMost(Duration.ofSeconds(90)).pollInterval(Duration.ofMillis(250)).until(() -> {
+        // 580 s of scenario time at rate 20 are 29 s of wall time; a busy machine makes the plant's pace keeper
+        // slow the clock (journaled, the rate is a speed), so the watch allows five times that
+        await().atMost(Duration.ofSeconds(150)).pollInterval(Duration.ofMillis(250)).until(() -> {
             assertThat(plant.isAlive()).as("plant process alive (see plant.err)").isTrue();
             assertThat(controller.isAlive()).as("controller process alive (see controller.err)").isTrue();
             return !ticks.isEmpty() && ticks.get(ticks.size() - 1).scenarioTimeMs() >= TRIP_AT_MS + WATCH_AFTER_TRIP_MS;
@@ -144,7 +146,8 @@ class TwoProcessClosedLoopTest {
         ClockTick tick = ticks.get(ticks.size() - 1);
         long plantStartMs = tick.sourceTime() - tick.scenarioTimeMs();
         long tripMs = plantStartMs + TRIP_AT_MS;
-        assertThat(tick.rate()).isEqualTo(RATE);
+        // the asked rate, or lower where the pace keeper slowed the clock for a busy machine (never faster)
+        assertThat(tick.rate()).isPositive().isLessThanOrEqualTo(RATE);
 
         double minHz = 99;
         long lastOutsideMs = tripMs;
