@@ -1,5 +1,6 @@
 package org.loopstand.app.lockstep;
 
+import org.loopstand.controller.runtime.OfflineStatus;
 import java.io.IOException;
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -115,7 +116,7 @@ public final class LockstepRehearsal {
             JournalWriter controllerJournal = JournalWriter.create(run.resolve("controller.jsonl"), "controller", now,
                     controllerHeader, c.clock(), JournalWriter.DEFAULT_FLUSH_INTERVAL);
             HistogramLogs controllerHistograms = HistogramLogs.create(run.resolve("controller.hlog"), c.clock(), 60_000_000L, 3, 10_000);
-            InMemoryBus link = broker.connect(CONTROLLER_ID, ControllerAgent.offlineStatus(grid.siteId(), CONTROLLER_ID, now, now));
+            InMemoryBus link = broker.connect(CONTROLLER_ID, OfflineStatus.will(grid.siteId(), CONTROLLER_ID, now, now));
             ControllerAgent controller = new ControllerAgent(controllerSite, link, c.clock(), null, CONTROLLER_ID, now,
                     controllerJournal, controllerHistograms);
             List<Agent> agents = new ArrayList<>();
@@ -147,7 +148,7 @@ public final class LockstepRehearsal {
             InMemoryBroker broker = new InMemoryBroker(c.clock(), DeliveryMode.DIRECT);
             StudyPlant plant = StudyPlant.on(c, broker, StudyPlant.defaultOptions(c), false);
             long now = c.clock().epochMillis();
-            InMemoryBus link = broker.connect(CONTROLLER_ID, ControllerAgent.offlineStatus(grid.siteId(), CONTROLLER_ID, now, now));
+            InMemoryBus link = broker.connect(CONTROLLER_ID, OfflineStatus.will(grid.siteId(), CONTROLLER_ID, now, now));
             ControllerAgent controller = new ControllerAgent(controllerSite, link, c.clock(), null, CONTROLLER_ID, now, null, null);
             return List.<Agent>of(plant, controller);
         }, org.loopstand.plant.fault.FaultObserver.NONE).run().outcomes();

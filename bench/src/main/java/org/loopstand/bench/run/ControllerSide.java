@@ -1,5 +1,6 @@
 package org.loopstand.bench.run;
 
+import org.loopstand.controller.runtime.OfflineStatus;
 import java.io.IOException;
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -43,7 +44,7 @@ final class ControllerSide {
         this.connectWaitMs = BenchLinks.connectWaitMs(s, 20_000);
         this.site = site;
         long epoch = clock.epochMillis();
-        OutboundMessage will = ControllerAgent.offlineStatus(siteId, CONTROLLER_ID, epoch, epoch);
+        OutboundMessage will = OfflineStatus.will(siteId, CONTROLLER_ID, epoch, epoch);
         for (int k = 0; k < s.intakeConnections(); k++) {
             MqttLinkConfig.Builder b = BenchLinks.configure(MqttLinkConfig.builder().serverUri(serverUri), s)
                     .clientId(CONTROLLER_ID + "-in" + k).receiveQueueCapacity(100_000);

@@ -1,5 +1,6 @@
 package org.loopstand.controller.cli;
 
+import org.loopstand.controller.runtime.OfflineStatus;
 import org.loopstand.protocol.security.AuthPolicy;
 import java.nio.file.Path;
 import java.util.Map;
@@ -116,7 +117,7 @@ public final class ControlCommand implements Callable<Integer> {
                     + controllerId + ".<keyId> = <base64>); statuses go out unsigned");
             seal = null;
         }
-        OutboundMessage will = ControllerAgent.offlineStatus(config.siteId(), controllerId, epoch, epoch, seal);
+        OutboundMessage will = OfflineStatus.will(config.siteId(), controllerId, epoch, epoch, seal);
         MessageBus bus;
         try {
             bus = BusConnector.connect(broker, controllerId, will, security);

@@ -21,7 +21,6 @@ import org.loopstand.controller.safety.InterlockState;
 import org.loopstand.protocol.agent.Agent;
 import org.loopstand.protocol.bus.ConnectionListener;
 import org.loopstand.protocol.bus.MessageBus;
-import org.loopstand.protocol.bus.OutboundMessage;
 import org.loopstand.protocol.bus.Qos;
 import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.journal.EndReason;
@@ -88,7 +87,7 @@ public final class ControllerAgent implements Agent {
     /**
      * @param site         the controller's site configuration
      * @param bus          the bus (MQTT link or in-memory); its last will should be this
-     *                     controller's offline status ({@link #offlineStatus})
+     *                     controller's offline status ({@link OfflineStatus#will})
      * @param clock        the controller's clock (wall, accelerated, virtual, or {@code busClock})
      * @param busClock     when following the plant's clock: the same object as {@code clock}, fed
      *                     from clock ticks; cycles wait for its first tick. Null otherwise
@@ -160,23 +159,6 @@ public final class ControllerAgent implements Agent {
     /** @return commands not sent because no key was valid for their unit */
     public long unsignableCommands() {
         return sender.unsignable();
-    }
-
-    /** @return the retained status to register as the bus connection's last will */
-    public static OutboundMessage offlineStatus(String siteId, String controllerId, long epoch, long nowMs) {
-        return offlineStatus(siteId, controllerId, epoch, nowMs, null);
-    }
-
-    /** As {@link #offlineStatus(String, String, long, long)}, signed with {@code seal} when given. */
-    public static OutboundMessage offlineStatus(String siteId, String controllerId, long epoch, long nowMs,
-                                                StatusSeal seal) {
-        ControllerStatus s = new ControllerStatus(0, Math.max(1, nowMs), controllerId, epoch, ControllerState.OFFLINE,
-                List.of("connectionLost"), 0, List.of());
-        if (seal != null) {
-            s = seal.sign(s, Math.max(1, nowMs));
-        }
-        return new OutboundMessage(TopicTree.forSite(siteId).controllerStatus(controllerId),
-                new MessageCodec().encode(s), Qos.AT_LEAST_ONCE, true, 0);
     }
 
     @Override

@@ -87,7 +87,7 @@ class SecuredRehearsalMosquittoTest {
 
                 ControllerSiteConfig config = ControllerSiteReader.read(siteFile);
                 long epoch = clock.epochMillis();
-                var will = ControllerAgent.offlineStatus(site, "controller-1", epoch, epoch);
+                var will = OfflineStatus.will(site, "controller-1", epoch, epoch);
                 MqttLinkConfig.Builder b = MqttLinkConfig.builder().serverUri(broker.sslUri()).clientId("controller-1")
                         .lastWill(will.topic(), will.payload(), will.qos(), will.retained());
                 try (MqttLink bus = new MqttLink(controllerSecurity.applyTo(b, null).build(), clock).start()) {

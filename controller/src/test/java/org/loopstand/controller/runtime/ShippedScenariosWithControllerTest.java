@@ -86,7 +86,7 @@ class ShippedScenariosWithControllerTest {
                     });
             long now = c.clock().epochMillis();
             InMemoryBus link = broker.connect(CONTROLLER_ID,
-                    ControllerAgent.offlineStatus(grid.siteId(), CONTROLLER_ID, now, now));
+                    OfflineStatus.will(grid.siteId(), CONTROLLER_ID, now, now));
             controller[0] = new ControllerAgent(site, link, c.clock(), null, CONTROLLER_ID, now, null, null);
             List<Agent> agents = new ArrayList<>();
             agents.add(plant);

@@ -99,7 +99,7 @@ final class StudyLoop {
         }, clock, w -> { });
         this.tap = tapHolder[0];
         this.operator = broker.connect(OPERATOR);
-        this.controllerLink = broker.connect("controller", ControllerAgent.offlineStatus(sim.grid().siteId(),
+        this.controllerLink = broker.connect("controller", OfflineStatus.will(sim.grid().siteId(),
                 "controller-1", START_MS, START_MS));
         this.agent = new ControllerAgent(config, controllerBus.apply(controllerLink), clock, null, "controller-1",
                 START_MS, journal, null);
