@@ -16,14 +16,14 @@ import org.junit.jupiter.api.Test;
 class BlockPropagatorTest {
     @Test
     void shouldMatchTheReferenceIntegratorForEachBlockExponential() {
-        // A reheat-like block with a cubic input: x(h) = Φ·x0 + Σ Γ_j·w_j and ∫p·x ds, against DP853 on the same ODE.
+        // A reheat-like block with a quintic input: x(h) = Φ·x0 + Σ Γ_j·w_j and ∫p·x ds, against DP853 on the same ODE.
         double[][] a = {{-5, 0, 0}, {3.3, -3.3, 0}, {0, 0.14, -0.14}};
         double[][] b = {{5}, {0}, {0}};
         double[] p = {0, 0.3, 0.7};
         double stepS = 0.05;
         BlockPropagator block = new BlockPropagator(a, b, p, stepS);
         double[] x0 = {100, 90, 80};
-        double[] w = {110, -40, 300, -2000};
+        double[] w = {110, -40, 300, -2000, 9000, -1.5e5};
         OrdinaryDifferentialEquation ode = new OrdinaryDifferentialEquation() {
             @Override
             public int getDimension() {
@@ -32,7 +32,8 @@ class BlockPropagatorTest {
 
             @Override
             public double[] computeDerivatives(double s, double[] y) {
-                double input = w[0] + w[1] * s + w[2] * s * s / 2 + w[3] * s * s * s / 6;
+                double input = w[0] + w[1] * s + w[2] * s * s / 2 + w[3] * s * s * s / 6 + w[4] * s * s * s * s / 24
+                        + w[5] * s * s * s * s * s / 120;
                 double[] dy = new double[4];
                 for (int i = 0; i < 3; i++) {
                     for (int j = 0; j < 3; j++) {
