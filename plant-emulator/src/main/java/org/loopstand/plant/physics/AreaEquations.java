@@ -50,6 +50,9 @@ final class AreaEquations {
     /** the polynomial's coefficients per area and term: the known part, then (after solve) all of it */
     private final double[] knownCoef;
     final double[] coef;
+    /** per area: bounds of Δf'(s) over the step, Hz/s (they bound every uncompensated unit's target rate) */
+    final double[] slopeMin;
+    final double[] slopeMax;
     private final double[][] matrix;
     private final double[] rhs;
     private final double[] scratch;
@@ -92,6 +95,8 @@ final class AreaEquations {
         lastSensitivity = new double[3 * areas];
         knownCoef = new double[areas * T];
         coef = new double[areas * T];
+        slopeMin = new double[areas];
+        slopeMax = new double[areas];
         matrix = new double[3 * areas][3 * areas];
         rhs = new double[3 * areas];
         scratch = new double[3 * areas];
@@ -194,6 +199,8 @@ final class AreaEquations {
                 coef[o + j] = knownCoef[o + j] + hermite[j][3] * rhs[a] + hermite[j][4] * rhs[areas + a]
                         + hermite[j][5] * rhs[2 * areas + a];
             }
+            slopeMin[a] = ValveRatePath.polynomialExtreme(coef, o + 1, o + T, h, -1);
+            slopeMax[a] = ValveRatePath.polynomialExtreme(coef, o + 1, o + T, h, 1);
         }
         for (int t = 0; t < d.tieCount; t++) {
             int from = d.tieFrom[t] * T;
@@ -207,11 +214,6 @@ final class AreaEquations {
         for (int a = 0; a < areas; a++) {
             x[a] = rhs[a];
         }
-    }
-
-    /** The least (sign −1) or greatest (sign 1) Δf'(s) of the area over the step, a bound, Hz/s. */
-    double slopeBound(int area, int sign) {
-        return ValveRatePath.polynomialExtreme(coef, area * T + 1, area * T + T, h, sign);
     }
 
     /**

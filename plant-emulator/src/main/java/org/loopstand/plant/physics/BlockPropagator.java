@@ -19,6 +19,10 @@ final class BlockPropagator {
 
     final int n;
     final int inputs;
+    /** index among the distinct blocks of one {@link UnitBlocks}, for per-step caches of the input's response */
+    int id;
+    /** p: the block's power from its state */
+    final double[] out;
     /** Φ, row-major n×n */
     final double[] phi;
     /** Γ, row-major n×(inputs·TERMS), column c·TERMS + j */
@@ -49,6 +53,7 @@ final class BlockPropagator {
     BlockPropagator(double[][] a, double[][] b, double[] p, double stepS) {
         n = a.length;
         inputs = b[0].length;
+        out = p.clone();
         int cols = inputs * TERMS;
         int size = n + cols + n;
         double[][] z = new double[size][size];

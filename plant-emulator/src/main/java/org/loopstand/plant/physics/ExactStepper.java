@@ -44,6 +44,19 @@ final class ExactStepper {
     private final int[] regimeKey;
     private boolean regimesChanged = true;
     private final double[] work = new double[3];
+    /**
+     * per distinct block and area: Σ_j Γ_ij·c_j, the block's response to the area's Δf polynomial over this step (the
+     * same for every unit of that block in that area), and the step it was computed for
+     */
+    private final double[] response;
+    private final long[] responseStep;
+    private long stepIndex;
+    /**
+     * per distinct block and area, summed over its units at the step's start: state (3), constant command, held rate,
+     * command. The blocks are linear, so the areas' known parts are computed once per such group, not per unit.
+     */
+    private final double[] groupSums;
+    private static final int SUMS = 6;
 
     ExactStepper(GridDynamics dynamics, double stepS) {
         d = dynamics;
@@ -67,20 +80,25 @@ final class ExactStepper {
         freeStartRateMwPerS = new double[u];
         regimeKey = new int[u];
         Arrays.fill(regimeKey, -1);
+        response = new double[blocks.distinct * d.areaCount * 3];
+        responseStep = new long[blocks.distinct * d.areaCount];
+        Arrays.fill(responseStep, -1);
+        groupSums = new double[blocks.distinct * d.areaCount * SUMS];
     }
 
     /** Advances {@code x} from {@code timeS} by one step (load noise already set for the step). */
     void step(double timeS, double[] x) {
         net.begin(timeS, x);
+        Arrays.fill(groupSums, 0);
         for (int u = 0; u < d.unitCount; u++) {
             if (d.online[u]) {
-                net.slope0[d.unitArea[u]] += d.mechanicalPowerMw(u, x);
                 chooseRegime(u, x);
             } else {
                 regime[u] = OFF;
                 regimeKey[u] = 2 * OFF;
             }
         }
+        addGroups();
         if (regimesChanged) {
             sumGains();
             net.gainsChanged();
@@ -88,6 +106,7 @@ final class ExactStepper {
         }
         net.finishStart(x);
         net.solve(x);
+        stepIndex++;
         for (int u = 0; u < d.unitCount; u++) {
             advanceUnit(u, x);
         }
@@ -103,6 +122,7 @@ final class ExactStepper {
                 regimesChanged = true;
             }
             double pm = d.mechanicalPowerMw(u, x);
+            net.slope0[a] += pm;
             net.knownIntegral[a] += pm * tripIntegralS[u];
             net.knownEnd[a] += pm * tripDecay[u];
             net.knownSlopeEnd[a] -= pm * tripDecay[u] * d.invTripS[u];
@@ -124,32 +144,55 @@ final class ExactStepper {
         if ((valve >= d.maxMw[u] && free > 0) || (valve <= d.minMw[u] && free < 0)) {
             rate = 0;
         }
-        BlockPropagator p;
         freeStartRateMwPerS[u] = free;
-        double v = x[b];
-        double s1 = x[b + 1];
-        double s2 = x[b + 2];
+        BlockPropagator p;
         if (rate != free) {
             regime[u] = HELD;
             p = blocks.held[u];
-            net.knownIntegral[a] += p.outIntegralInput[T] * rate;
-            net.knownEnd[a] += p.outEndInput[T] * rate;
-            net.knownSlopeEnd[a] += p.outSlopeEndInput[T] * rate;
-            net.curve0[a] += p.outSlopeInput[1] * rate;
         } else {
             regime[u] = FREE;
             p = blocks.free[u];
         }
-        net.knownIntegral[a] += p.outIntegral[0] * v + p.outIntegral[1] * s1 + p.outIntegral[2] * s2
-                + p.outIntegralInput[0] * commandConstMw[u];
-        net.knownEnd[a] += p.outEnd[0] * v + p.outEnd[1] * s1 + p.outEnd[2] * s2 + p.outEndInput[0] * commandConstMw[u];
-        net.knownSlopeEnd[a] += p.outSlopeEnd[0] * v + p.outSlopeEnd[1] * s1 + p.outSlopeEnd[2] * s2
-                + p.outSlopeEndInput[0] * commandConstMw[u];
-        net.curve0[a] += p.outSlope[0] * v + p.outSlope[1] * s1 + p.outSlope[2] * s2 + p.outSlopeInput[0] * command;
+        int g = (p.id * d.areaCount + a) * SUMS;
+        groupSums[g] += x[b];
+        groupSums[g + 1] += x[b + 1];
+        groupSums[g + 2] += x[b + 2];
+        groupSums[g + 3] += commandConstMw[u];
+        groupSums[g + 4] += regime[u] == HELD ? rate : 0.0;
+        groupSums[g + 5] += command;
         int key = regime[u] * 2 + (active[u] ? 1 : 0);
         if (key != regimeKey[u]) {
             regimeKey[u] = key;
             regimesChanged = true;
+        }
+    }
+
+    /** Each group's power, and its energy, power and power's rate at the end from all but Δf, into its area's sums. */
+    private void addGroups() {
+        for (int id = 0; id < blocks.distinct; id++) {
+            BlockPropagator p = blocks.byId[id];
+            for (int a = 0; a < d.areaCount; a++) {
+                int g = (id * d.areaCount + a) * SUMS;
+                double v = groupSums[g];
+                double s1 = groupSums[g + 1];
+                double s2 = groupSums[g + 2];
+                double constant = groupSums[g + 3];
+                double rate = groupSums[g + 4];
+                net.slope0[a] += p.out[0] * v + p.out[1] * s1 + p.out[2] * s2;
+                net.knownIntegral[a] += p.outIntegral[0] * v + p.outIntegral[1] * s1 + p.outIntegral[2] * s2
+                        + p.outIntegralInput[0] * constant;
+                net.knownEnd[a] += p.outEnd[0] * v + p.outEnd[1] * s1 + p.outEnd[2] * s2 + p.outEndInput[0] * constant;
+                net.knownSlopeEnd[a] += p.outSlopeEnd[0] * v + p.outSlopeEnd[1] * s1 + p.outSlopeEnd[2] * s2
+                        + p.outSlopeEndInput[0] * constant;
+                net.curve0[a] += p.outSlope[0] * v + p.outSlope[1] * s1 + p.outSlope[2] * s2
+                        + p.outSlopeInput[0] * groupSums[g + 5];
+                if (p.inputs > 1) {
+                    net.knownIntegral[a] += p.outIntegralInput[T] * rate;
+                    net.knownEnd[a] += p.outEndInput[T] * rate;
+                    net.knownSlopeEnd[a] += p.outSlopeEndInput[T] * rate;
+                    net.curve0[a] += p.outSlopeInput[1] * rate;
+                }
+            }
         }
     }
 
@@ -197,7 +240,8 @@ final class ExactStepper {
         propagate(blocks.free[u], u, x, b, 0.0);
         boolean free = work[0] >= lo && work[0] <= hi && !(v0 >= d.maxMw[u] && w0 > 0) && !(v0 <= d.minMw[u] && w0 < 0);
         boolean compensated = d.kind[u] == GridDynamics.HYDRO && d.param2[u] > 0;
-        if (free && (compensated || !withinByArea(u, w0, raise, lower))) {
+        boolean rateLimited = raise != Double.POSITIVE_INFINITY || lower != Double.POSITIVE_INFINITY;
+        if (free && rateLimited && (compensated || !withinByArea(u, w0, raise, lower))) {
             setValvePath(u, x, b);
             free = valvePath.staysWithin(raise, lower);
         }
@@ -216,7 +260,7 @@ final class ExactStepper {
     private boolean withinByArea(int u, double w0, double raise, double lower) {
         int a = d.unitArea[u];
         double k = active[u] ? d.gainMwPerHz[u] : 0.0;
-        return Math.max(w0, -k * net.slopeBound(a, -1)) <= raise && Math.min(w0, -k * net.slopeBound(a, 1)) >= -lower;
+        return Math.max(w0, -k * net.slopeMin[a]) <= raise && Math.min(w0, -k * net.slopeMax[a]) >= -lower;
     }
 
     /** The free valve rate's path over the step; the target's rate is −K·Δf'(s) for the step's quintic Δf. */
@@ -234,16 +278,27 @@ final class ExactStepper {
 
     /** Writes the block's end state into {@code work}; {@code rateMwPerS} is used by the held block only. */
     private void propagate(BlockPropagator p, int u, double[] x, int b, double rateMwPerS) {
-        int a = d.unitArea[u] * T;
         double k = active[u] ? d.gainMwPerHz[u] : 0.0;
         int cols = p.inputs * T;
+        int at = p.id * d.areaCount + d.unitArea[u];
+        if (k != 0 && responseStep[at] != stepIndex) {
+            int a = d.unitArea[u] * T;
+            for (int i = 0; i < 3; i++) {
+                double sum = 0;
+                for (int j = 0; j < T; j++) {
+                    sum += p.gamma[i * cols + j] * net.coef[a + j];
+                }
+                response[3 * at + i] = sum;
+            }
+            responseStep[at] = stepIndex;
+        }
         for (int i = 0; i < 3; i++) {
             int r = i * 3;
             int g = i * cols;
             double next = p.phi[r] * x[b] + p.phi[r + 1] * x[b + 1] + p.phi[r + 2] * x[b + 2]
                     + p.gamma[g] * commandConstMw[u];
-            for (int j = 0; j < T; j++) {
-                next -= p.gamma[g + j] * k * net.coef[a + j];
+            if (k != 0) {
+                next -= k * response[3 * at + i];
             }
             if (p.inputs > 1) {
                 next += p.gamma[g + T] * rateMwPerS;

@@ -87,7 +87,9 @@ final class ValveRatePath {
             return false;
         }
         // a lag never leaves the range of its start value and its input: settles most steps without the closed form
-        if (polynomialExtreme(q, 0, q.length, h, 1) <= raiseMwPerS && polynomialExtreme(q, 0, q.length, h, -1) >= -lowerMwPerS) {
+        double tail = Math.abs(q[3]) * h * h * h / 6 + Math.abs(q[4]) * h * h * h * h / 24;
+        if (quadraticExtreme(q[0], q[1], q[2], h, 1) + tail <= raiseMwPerS
+                && quadraticExtreme(q[0], q[1], q[2], h, -1) - tail >= -lowerMwPerS) {
             return true;
         }
         solve();

@@ -70,5 +70,35 @@ class BlockPropagatorTest {
         }
         assertThat(integral).isCloseTo(ref[3], within(1e-9));
         assertThat(end).isCloseTo(p[0] * ref[0] + p[1] * ref[1] + p[2] * ref[2], within(1e-9));
+        // the power's rate p·(A·x + B·w) at both ends, for the areas' curvature equations
+        double inputEnd = 0;
+        double term = 1;
+        for (int k = 0; k < BlockPropagator.TERMS; k++) {
+            inputEnd += w[k] * term;
+            term *= stepS / (k + 1);
+        }
+        double rateStart = block.outSlopeInput[0] * w[0];
+        double rateEnd = 0;
+        double rateEndRef = 0;
+        for (int j = 0; j < 3; j++) {
+            rateStart += block.outSlope[j] * x0[j];
+            rateEnd += block.outSlopeEnd[j] * x0[j];
+        }
+        for (int k = 0; k < BlockPropagator.TERMS; k++) {
+            rateEnd += block.outSlopeEndInput[k] * w[k];
+        }
+        double rateStartRef = 0;
+        for (int i = 0; i < 3; i++) {
+            double dxStart = b[i][0] * w[0];
+            double dxEnd = b[i][0] * inputEnd;
+            for (int j = 0; j < 3; j++) {
+                dxStart += a[i][j] * x0[j];
+                dxEnd += a[i][j] * ref[j];
+            }
+            rateStartRef += p[i] * dxStart;
+            rateEndRef += p[i] * dxEnd;
+        }
+        assertThat(rateStart).isCloseTo(rateStartRef, within(1e-9));
+        assertThat(rateEnd).isCloseTo(rateEndRef, within(1e-7));
     }
 }
