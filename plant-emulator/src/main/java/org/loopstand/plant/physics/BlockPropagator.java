@@ -19,8 +19,6 @@ final class BlockPropagator {
 
     final int n;
     final int inputs;
-    /** index among the distinct blocks of one {@link UnitBlocks}, for per-step caches of the input's response */
-    int id;
     /** p: the block's power from its state */
     final double[] out;
     /** Φ, row-major n×n */

@@ -1,6 +1,9 @@
 package org.loopstand.plant.physics;
 
 import java.util.Arrays;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
 
 /**
  * One fixed step of the grid with each unit's linear block integrated exactly ({@link UnitBlocks}) and the network
@@ -45,15 +48,21 @@ final class ExactStepper {
     private boolean regimesChanged = true;
     private final double[] work = new double[3];
     /**
-     * per distinct block and area: Σ_j Γ_ij·c_j, the block's response to the area's Δf polynomial over this step (the
-     * same for every unit of that block in that area), and the step it was computed for
+     * A group is a block (free or held) in an area with at least one unit of that block: each unit's group in either
+     * regime, and each group's block and area. Sites of many equal units have few groups; a site of all different
+     * units has two per unit.
      */
+    private final int[] freeGroup;
+    private final int[] heldGroup;
+    private final BlockPropagator[] groupBlock;
+    private final int[] groupArea;
+    /** per group: Σ_j Γ_ij·c_j, the block's response to the area's Δf polynomial this step, and the step it is for */
     private final double[] response;
     private final long[] responseStep;
     private long stepIndex;
     /**
-     * per distinct block and area, summed over its units at the step's start: state (3), constant command, held rate,
-     * command. The blocks are linear, so the areas' known parts are computed once per such group, not per unit.
+     * per group, summed over its units at the step's start: state (3), constant command, held rate, command. The
+     * blocks are linear, so the areas' known parts are computed once per group, not per unit.
      */
     private final double[] groupSums;
     private static final int SUMS = 6;
@@ -80,10 +89,24 @@ final class ExactStepper {
         freeStartRateMwPerS = new double[u];
         regimeKey = new int[u];
         Arrays.fill(regimeKey, -1);
-        response = new double[blocks.distinct * d.areaCount * 3];
-        responseStep = new long[blocks.distinct * d.areaCount];
+        freeGroup = new int[u];
+        heldGroup = new int[u];
+        Map<List<Object>, Integer> groups = new LinkedHashMap<>();
+        for (int i = 0; i < u; i++) {
+            Integer area = d.unitArea[i];
+            freeGroup[i] = groups.computeIfAbsent(List.of(blocks.free[i], area), k -> groups.size());
+            heldGroup[i] = groups.computeIfAbsent(List.of(blocks.held[i], area), k -> groups.size());
+        }
+        groupBlock = new BlockPropagator[groups.size()];
+        groupArea = new int[groups.size()];
+        groups.forEach((key, g) -> {
+            groupBlock[g] = (BlockPropagator) key.get(0);
+            groupArea[g] = (Integer) key.get(1);
+        });
+        response = new double[groups.size() * 3];
+        responseStep = new long[groups.size()];
         Arrays.fill(responseStep, -1);
-        groupSums = new double[blocks.distinct * d.areaCount * SUMS];
+        groupSums = new double[groups.size() * SUMS];
     }
 
     /** Advances {@code x} from {@code timeS} by one step (load noise already set for the step). */
@@ -153,7 +176,7 @@ final class ExactStepper {
             regime[u] = FREE;
             p = blocks.free[u];
         }
-        int g = (p.id * d.areaCount + a) * SUMS;
+        int g = (regime[u] == HELD ? heldGroup[u] : freeGroup[u]) * SUMS;
         groupSums[g] += x[b];
         groupSums[g + 1] += x[b + 1];
         groupSums[g + 2] += x[b + 2];
@@ -169,29 +192,28 @@ final class ExactStepper {
 
     /** Each group's power, and its energy, power and power's rate at the end from all but Δf, into its area's sums. */
     private void addGroups() {
-        for (int id = 0; id < blocks.distinct; id++) {
-            BlockPropagator p = blocks.byId[id];
-            for (int a = 0; a < d.areaCount; a++) {
-                int g = (id * d.areaCount + a) * SUMS;
-                double v = groupSums[g];
-                double s1 = groupSums[g + 1];
-                double s2 = groupSums[g + 2];
-                double constant = groupSums[g + 3];
-                double rate = groupSums[g + 4];
-                net.slope0[a] += p.out[0] * v + p.out[1] * s1 + p.out[2] * s2;
-                net.knownIntegral[a] += p.outIntegral[0] * v + p.outIntegral[1] * s1 + p.outIntegral[2] * s2
-                        + p.outIntegralInput[0] * constant;
-                net.knownEnd[a] += p.outEnd[0] * v + p.outEnd[1] * s1 + p.outEnd[2] * s2 + p.outEndInput[0] * constant;
-                net.knownSlopeEnd[a] += p.outSlopeEnd[0] * v + p.outSlopeEnd[1] * s1 + p.outSlopeEnd[2] * s2
-                        + p.outSlopeEndInput[0] * constant;
-                net.curve0[a] += p.outSlope[0] * v + p.outSlope[1] * s1 + p.outSlope[2] * s2
-                        + p.outSlopeInput[0] * groupSums[g + 5];
-                if (p.inputs > 1) {
-                    net.knownIntegral[a] += p.outIntegralInput[T] * rate;
-                    net.knownEnd[a] += p.outEndInput[T] * rate;
-                    net.knownSlopeEnd[a] += p.outSlopeEndInput[T] * rate;
-                    net.curve0[a] += p.outSlopeInput[1] * rate;
-                }
+        for (int group = 0; group < groupBlock.length; group++) {
+            BlockPropagator p = groupBlock[group];
+            int a = groupArea[group];
+            int g = group * SUMS;
+            double v = groupSums[g];
+            double s1 = groupSums[g + 1];
+            double s2 = groupSums[g + 2];
+            double constant = groupSums[g + 3];
+            double rate = groupSums[g + 4];
+            net.slope0[a] += p.out[0] * v + p.out[1] * s1 + p.out[2] * s2;
+            net.knownIntegral[a] += p.outIntegral[0] * v + p.outIntegral[1] * s1 + p.outIntegral[2] * s2
+                    + p.outIntegralInput[0] * constant;
+            net.knownEnd[a] += p.outEnd[0] * v + p.outEnd[1] * s1 + p.outEnd[2] * s2 + p.outEndInput[0] * constant;
+            net.knownSlopeEnd[a] += p.outSlopeEnd[0] * v + p.outSlopeEnd[1] * s1 + p.outSlopeEnd[2] * s2
+                    + p.outSlopeEndInput[0] * constant;
+            net.curve0[a] += p.outSlope[0] * v + p.outSlope[1] * s1 + p.outSlope[2] * s2
+                    + p.outSlopeInput[0] * groupSums[g + 5];
+            if (p.inputs > 1) {
+                net.knownIntegral[a] += p.outIntegralInput[T] * rate;
+                net.knownEnd[a] += p.outEndInput[T] * rate;
+                net.knownSlopeEnd[a] += p.outSlopeEndInput[T] * rate;
+                net.curve0[a] += p.outSlopeInput[1] * rate;
             }
         }
     }
@@ -237,7 +259,7 @@ final class ExactStepper {
         // step only if the free valve keeps its rate at every instant of the step (then the stages, lags of the valve,
         // keep it too) and stays inside its range; else the valve moves at the constant rate that brings it where the
         // free rate, clamped to the limits, would have, and the stages follow that.
-        propagate(blocks.free[u], u, x, b, 0.0);
+        propagate(blocks.free[u], freeGroup[u], u, x, b, 0.0);
         boolean free = work[0] >= lo && work[0] <= hi && !(v0 >= d.maxMw[u] && w0 > 0) && !(v0 <= d.minMw[u] && w0 < 0);
         boolean compensated = d.kind[u] == GridDynamics.HYDRO && d.param2[u] > 0;
         boolean rateLimited = raise != Double.POSITIVE_INFINITY || lower != Double.POSITIVE_INFINITY;
@@ -248,7 +270,7 @@ final class ExactStepper {
         if (!free) {
             setValvePath(u, x, b);
             double limitedEnd = Math.max(lo, Math.min(hi, v0 + valvePath.clampedMoveMw(raise, lower)));
-            propagate(blocks.held[u], u, x, b, (limitedEnd - v0) / h);
+            propagate(blocks.held[u], heldGroup[u], u, x, b, (limitedEnd - v0) / h);
             work[0] = limitedEnd;
         }
         x[b] = work[0];
@@ -277,10 +299,9 @@ final class ExactStepper {
     }
 
     /** Writes the block's end state into {@code work}; {@code rateMwPerS} is used by the held block only. */
-    private void propagate(BlockPropagator p, int u, double[] x, int b, double rateMwPerS) {
+    private void propagate(BlockPropagator p, int at, int u, double[] x, int b, double rateMwPerS) {
         double k = active[u] ? d.gainMwPerHz[u] : 0.0;
         int cols = p.inputs * T;
-        int at = p.id * d.areaCount + d.unitArea[u];
         if (k != 0 && responseStep[at] != stepIndex) {
             int a = d.unitArea[u] * T;
             for (int i = 0; i < 3; i++) {

@@ -18,10 +18,6 @@ import java.util.Map;
 final class UnitBlocks {
     final BlockPropagator[] free;
     final BlockPropagator[] held;
-    /** number of distinct blocks (free and held); each has its {@link BlockPropagator#id} below this */
-    final int distinct;
-    /** the distinct blocks by {@link BlockPropagator#id} */
-    final BlockPropagator[] byId;
 
     UnitBlocks(GridDynamics d, double stepS) {
         free = new BlockPropagator[d.unitCount];
@@ -29,20 +25,10 @@ final class UnitBlocks {
         Map<List<Double>, BlockPropagator[]> cache = new HashMap<>();
         for (int u = 0; u < d.unitCount; u++) {
             List<Double> key = List.of((double) d.kind[u], d.invGovernorS[u], d.param1[u], d.param2[u], d.param3[u]);
-            BlockPropagator[] pair = cache.computeIfAbsent(key, k -> {
-                BlockPropagator[] built = build(d, k.get(0).intValue(), k.get(1), k.get(2), k.get(3), k.get(4), stepS);
-                built[0].id = 2 * cache.size();
-                built[1].id = 2 * cache.size() + 1;
-                return built;
-            });
+            BlockPropagator[] pair = cache.computeIfAbsent(key, k -> build(d, k.get(0).intValue(), k.get(1), k.get(2),
+                    k.get(3), k.get(4), stepS));
             free[u] = pair[0];
             held[u] = pair[1];
-        }
-        distinct = 2 * cache.size();
-        byId = new BlockPropagator[distinct];
-        for (BlockPropagator[] pair : cache.values()) {
-            byId[pair[0].id] = pair[0];
-            byId[pair[1].id] = pair[1];
         }
     }
 

@@ -21,6 +21,8 @@ final class ValveRatePath {
     private final double[] q = new double[DEGREE + 1];
     /** P in the basis s^j/j! */
     private final double[] p = new double[DEGREE + 1];
+    /** (−g)^k·c, k = 0..DEGREE: the exponential part's factor in w^(k) */
+    private final double[] expFactor = new double[DEGREE + 1];
     private int knotCount;
     private boolean knotsFound;
     private boolean solved;
@@ -78,6 +80,11 @@ final class ValveRatePath {
             p[j] = sum;
         }
         c = startRate - p[0];
+        double factor = c;
+        for (int k = 0; k <= DEGREE; k++) {
+            expFactor[k] = factor;
+            factor *= -g;
+        }
         endRate = polynomial(0, h) + c * decayH;
     }
 
@@ -211,13 +218,22 @@ final class ValveRatePath {
         knotCount = pieceCount;
     }
 
-    /** Bisection to round-off (rare: only near a limit) of w^(k) − level. */
+    /**
+     * The root of w^(k) − level in [a, b], where it is monotone and changes sign, to round-off (rare: only near a
+     * limit): regula falsi with the Illinois halving of a stale end's value, and every third try a bisection, so the
+     * bracket at least halves every three tries (usually a handful of tries in all).
+     */
     private double bisect(double a, double b, double fa, int k, double level) {
         double lo = a;
         double hi = b;
         double flo = fa;
-        for (int i = 0; i < 100 && hi - lo > 1e-15 * h; i++) {
-            double mid = 0.5 * (lo + hi);
+        double fhi = derivative(k, b) - level;
+        int side = 0;
+        for (int i = 0; i < 200 && hi - lo > 1e-15 * h; i++) {
+            double mid = i % 3 == 2 ? 0.5 * (lo + hi) : lo - flo * (hi - lo) / (fhi - flo);
+            if (!(mid > lo && mid < hi)) {
+                mid = 0.5 * (lo + hi);
+            }
             double f = derivative(k, mid) - level;
             if (f == 0) {
                 return mid;
@@ -225,8 +241,13 @@ final class ValveRatePath {
             if ((f > 0) == (flo > 0)) {
                 lo = mid;
                 flo = f;
+                fhi = side == 1 ? 0.5 * fhi : fhi;
+                side = 1;
             } else {
                 hi = mid;
+                fhi = f;
+                flo = side == -1 ? 0.5 * flo : flo;
+                side = -1;
             }
         }
         return 0.5 * (lo + hi);
@@ -265,7 +286,7 @@ final class ValveRatePath {
 
     /** w^(k)(s) = P^(k)(s) + (−g)^k·c·e^{−g·s} */
     private double derivative(int k, double s) {
-        return polynomial(k, s) + Math.pow(-g, k) * c * Math.exp(-g * s);
+        return polynomial(k, s) + expFactor[k] * Math.exp(-g * s);
     }
 
     /** P^(k)(s) */
