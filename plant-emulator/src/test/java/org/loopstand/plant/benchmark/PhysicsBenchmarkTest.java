@@ -161,6 +161,25 @@ class PhysicsBenchmarkTest {
         line(String.format(Locale.ROOT, "  at equal accuracy (largest exact step no less accurate than RK4): h=%.3f s,"
                 + " %.1fx RK4's speed", bestStepS, rk4[1] / bestWallS));
 
+        Grid different = GeneratedSite.build(20, 50, 0, Double.POSITIVE_INFINITY, true);
+        GridSimulator differentProbe = new GridSimulator(different);
+        differentProbe.stepLoadMw("area-0", 100);
+        double[] differentReference = dormandPrince(asOde(differentProbe.dynamics()), differentProbe.stateCopy(), durationS,
+                1e-12);
+        line("The same with no two units alike in an area (governor time constants and droops spread), best of 5 rounds:");
+        double[] differentSteps = {0.02, 0.2, 0.16, 0.12, 0.02};
+        Integrator[] differentIntegrators = new Integrator[differentSteps.length];
+        Arrays.fill(differentIntegrators, Integrator.EXACT);
+        differentIntegrators[0] = Integrator.RK4;
+        double[][] differentRuns = interleaved(different, differentSteps, differentIntegrators, "area-0", 100, durationS,
+                differentReference, 5);
+        line(String.format(Locale.ROOT, "  RK4   h=0.020 s: error %.2e Hz, %.4f s wall", differentRuns[0][0],
+                differentRuns[0][1]));
+        for (int i = 1; i < differentSteps.length; i++) {
+            line(String.format(Locale.ROOT, "  exact h=%.3f s: error %.2e Hz, %.4f s wall (%.1fx RK4's speed)",
+                    differentSteps[i], differentRuns[i][0], differentRuns[i][1], differentRuns[0][1] / differentRuns[i][1]));
+        }
+
         Grid limited = GeneratedSite.build(20, 50, 0, 60);
         GridSimulator fine = new GridSimulator(limited, 0.001, 0, 12, Integrator.RK4);
         fine.stepLoadMw("area-0", 1500);
