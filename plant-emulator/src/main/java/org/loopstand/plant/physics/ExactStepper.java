@@ -66,6 +66,10 @@ final class ExactStepper {
      */
     private final double[] groupSums;
     private static final int SUMS = 6;
+    /** the groups with a unit in them this step, so a site of all-different units touches only those */
+    private final int[] touched;
+    private int touchedCount;
+    private final boolean[] isTouched;
 
     ExactStepper(GridDynamics dynamics, double stepS) {
         d = dynamics;
@@ -107,12 +111,13 @@ final class ExactStepper {
         responseStep = new long[groups.size()];
         Arrays.fill(responseStep, -1);
         groupSums = new double[groups.size() * SUMS];
+        touched = new int[groups.size()];
+        isTouched = new boolean[groups.size()];
     }
 
     /** Advances {@code x} from {@code timeS} by one step (load noise already set for the step). */
     void step(double timeS, double[] x) {
         net.begin(timeS, x);
-        Arrays.fill(groupSums, 0);
         for (int u = 0; u < d.unitCount; u++) {
             if (d.online[u]) {
                 chooseRegime(u, x);
@@ -176,7 +181,12 @@ final class ExactStepper {
             regime[u] = FREE;
             p = blocks.free[u];
         }
-        int g = (regime[u] == HELD ? heldGroup[u] : freeGroup[u]) * SUMS;
+        int group = regime[u] == HELD ? heldGroup[u] : freeGroup[u];
+        if (!isTouched[group]) {
+            isTouched[group] = true;
+            touched[touchedCount++] = group;
+        }
+        int g = group * SUMS;
         groupSums[g] += x[b];
         groupSums[g + 1] += x[b + 1];
         groupSums[g + 2] += x[b + 2];
@@ -192,7 +202,9 @@ final class ExactStepper {
 
     /** Each group's power, and its energy, power and power's rate at the end from all but Δf, into its area's sums. */
     private void addGroups() {
-        for (int group = 0; group < groupBlock.length; group++) {
+        for (int i = 0; i < touchedCount; i++) {
+            int group = touched[i];
+            isTouched[group] = false;
             BlockPropagator p = groupBlock[group];
             int a = groupArea[group];
             int g = group * SUMS;
@@ -215,7 +227,9 @@ final class ExactStepper {
                 net.knownSlopeEnd[a] += p.outSlopeEndInput[T] * rate;
                 net.curve0[a] += p.outSlopeInput[1] * rate;
             }
+            Arrays.fill(groupSums, g, g + SUMS, 0.0);
         }
+        touchedCount = 0;
     }
 
     /** The units' frequency gains per area and polynomial term; they change only when a unit changes regime. */
