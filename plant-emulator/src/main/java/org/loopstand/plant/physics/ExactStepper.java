@@ -1,19 +1,20 @@
 package org.loopstand.plant.physics;
 
 import java.util.Arrays;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
 
 /**
- * One fixed step of the grid with each unit's linear block integrated exactly ({@link UnitBlocks}) and the
- * network (area frequencies, tie flows) solved with it. Over the step each area's Δf is taken as the cubic
- * Hermite polynomial through its value and slope at both ends; the slope at the start comes from the power
- * balance, the end value and slope are the unknowns. Given that polynomial, unit states, their power and its
- * integral, tie flows and their integral are exact, so the area's energy balance over the step and its power
- * balance at the end give 2 linear equations per area, solved together (a 2·areas square system; its LU is
- * kept while the units' regimes stay the same). Like RK4 the method is of fourth order in the step; unlike RK4
- * it has no stability limit from the units' own time constants.
+ * One fixed step of the grid with each unit's linear block integrated exactly ({@link UnitBlocks}) and the network
+ * (area frequencies, tie flows, loads) solved with it ({@link AreaEquations}: each area's Δf is a quintic over the step,
+ * matched at both ends in value, slope and curvature). Given that polynomial, unit states, their power, its integral and
+ * its rate at the end are exact, so the step is closed by three linear equations per area. For a linear system the
+ * method is the (3,3) Padé approximant of the exponential: sixth order in the step and A-stable, so unlike RK4 it has
+ * no stability limit from the units' own time constants (the step rule asks only the swing limit of it).
  *
- * <p>Nonlinear parts are decided at step boundaries, as RK4 clamps its valves after each step: dead band
- * (a unit whose area's Δf is inside its band gets no frequency input for the step, otherwise
+ * <p>This class is the units' half. Nonlinear parts are decided at step boundaries, as RK4 clamps its valves after
+ * each step: dead band (a unit whose area's Δf is inside its band gets no frequency input for the step, otherwise
  * {@code db(Δf) = Δf ∓ ε}), rate and position limits (the servo rate at the start sets whether the unit's power
  * enters the network equations as free or as moving at the limit; the end state is the free step only if the free
  * valve keeps its rate at every instant of the step ({@link ValveRatePath}) and its range, else the held step),
@@ -27,16 +28,9 @@ final class ExactStepper {
 
     private final GridDynamics d;
     private final UnitBlocks blocks;
+    private final AreaEquations net;
     private final double h;
     private final double invH;
-    private final int areas;
-    /** h^{j+1}/(j+1)!: integral of s^j/j! over the step */
-    private final double[] int1 = new double[T];
-    /** h^{j+2}/(j+2)!: double integral of s^j/j! over the step */
-    private final double[] int2 = new double[T];
-    /** Hermite coefficients of the unknown end value (β) and end slope (γ) in the s^j/j! basis */
-    private final double[] beta;
-    private final double[] gamma;
     private final double[] tripDecay;
     private final double[] tripIntegralS;
     private final int[] regime;
@@ -47,123 +41,100 @@ final class ExactStepper {
     /** e^{−h/T_g}: the free valve rate's own decay over a step */
     private final double[] servoDecay;
     private final ValveRatePath valvePath = new ValveRatePath();
+    /** the command's derivatives at the step's start for {@link ValveRatePath}, index k = k-th (1..5) */
+    private final double[] commandTerms = new double[T];
     /** regime·2 + active at the last step, to see when the gains must be summed again */
     private final int[] regimeKey;
     private boolean regimesChanged = true;
-    private final double[] slope0;
-    private final double[] knownIntegral;
-    private final double[] knownEnd;
-    private final double[] gainIntegral;
-    private final double[] gainEnd;
-    private final double[] loadIntegral;
-    private final double[] loadEnd;
-    private final double[] sensitivityMid;
-    private final double[] sensitivityEnd;
-    private final double[] coef;
-    /** per area, the least and greatest Δf'(s) over the step, Hz/s: bounds every uncompensated unit's target rate */
-    private final double[] slopeMin;
-    private final double[] slopeMax;
-    private final double[][] matrix;
-    private final double[] rhs;
-    private final LinearSolve solver = new LinearSolve();
     private final double[] work = new double[3];
+    /**
+     * A group is a block (free or held) in an area with at least one unit of that block: each unit's group in either
+     * regime, and each group's block and area. Sites of many equal units have few groups; a site of all different
+     * units has two per unit.
+     */
+    private final int[] freeGroup;
+    private final int[] heldGroup;
+    private final BlockPropagator[] groupBlock;
+    private final int[] groupArea;
+    /** per group: Σ_j Γ_ij·c_j, the block's response to the area's Δf polynomial this step, and the step it is for */
+    private final double[] response;
+    private final long[] responseStep;
+    private long stepIndex;
+    /**
+     * per group, summed over its units at the step's start: state (3), constant command, held rate, command. The
+     * blocks are linear, so the areas' known parts are computed once per group, not per unit.
+     */
+    private final double[] groupSums;
+    private static final int SUMS = 6;
+    /** the groups with a unit in them this step, so a site of all-different units touches only those */
+    private final int[] touched;
+    private int touchedCount;
+    private final boolean[] isTouched;
 
     ExactStepper(GridDynamics dynamics, double stepS) {
         d = dynamics;
         h = stepS;
         invH = 1.0 / stepS;
-        areas = d.areaCount;
         blocks = new UnitBlocks(d, stepS);
-        double fact = 1;
-        for (int j = 0; j < T; j++) {
-            fact *= j + 1;
-            int1[j] = Math.pow(h, j + 1) / fact;
-            int2[j] = Math.pow(h, j + 2) / (fact * (j + 2));
-        }
-        beta = new double[] {0, 0, 6 / (h * h), -12 / (h * h * h)};
-        gamma = new double[] {0, 0, -2 / h, 6 / (h * h)};
+        net = new AreaEquations(d, stepS);
         int u = d.unitCount;
         tripDecay = new double[u];
         tripIntegralS = new double[u];
+        servoDecay = new double[u];
         for (int i = 0; i < u; i++) {
             double tau = 1.0 / d.invTripS[i];
             tripDecay[i] = Math.exp(-h / tau);
             tripIntegralS[i] = tau * -Math.expm1(-h / tau);
+            servoDecay[i] = Math.exp(-h * d.invGovernorS[i]);
         }
         regime = new int[u];
         active = new boolean[u];
         commandConstMw = new double[u];
         freeStartRateMwPerS = new double[u];
-        servoDecay = new double[u];
-        for (int i = 0; i < u; i++) {
-            servoDecay[i] = Math.exp(-h * d.invGovernorS[i]);
-        }
         regimeKey = new int[u];
         Arrays.fill(regimeKey, -1);
-        slope0 = new double[areas];
-        knownIntegral = new double[areas];
-        knownEnd = new double[areas];
-        gainIntegral = new double[areas * T];
-        gainEnd = new double[areas * T];
-        loadIntegral = new double[areas];
-        loadEnd = new double[areas];
-        sensitivityMid = new double[areas];
-        sensitivityEnd = new double[areas];
-        coef = new double[areas * T];
-        slopeMin = new double[areas];
-        slopeMax = new double[areas];
-        matrix = new double[2 * areas][2 * areas];
-        rhs = new double[2 * areas];
+        freeGroup = new int[u];
+        heldGroup = new int[u];
+        Map<List<Object>, Integer> groups = new LinkedHashMap<>();
+        for (int i = 0; i < u; i++) {
+            Integer area = d.unitArea[i];
+            freeGroup[i] = groups.computeIfAbsent(List.of(blocks.free[i], area), k -> groups.size());
+            heldGroup[i] = groups.computeIfAbsent(List.of(blocks.held[i], area), k -> groups.size());
+        }
+        groupBlock = new BlockPropagator[groups.size()];
+        groupArea = new int[groups.size()];
+        groups.forEach((key, g) -> {
+            groupBlock[g] = (BlockPropagator) key.get(0);
+            groupArea[g] = (Integer) key.get(1);
+        });
+        response = new double[groups.size() * 3];
+        responseStep = new long[groups.size()];
+        Arrays.fill(responseStep, -1);
+        groupSums = new double[groups.size() * SUMS];
+        touched = new int[groups.size()];
+        isTouched = new boolean[groups.size()];
     }
 
     /** Advances {@code x} from {@code timeS} by one step (load noise already set for the step). */
     void step(double timeS, double[] x) {
-        Arrays.fill(knownIntegral, 0);
-        Arrays.fill(knownEnd, 0);
-        for (int a = 0; a < areas; a++) {
-            slope0[a] = -d.dampingMwPerHz[a] * x[a] - d.schedule.offsetMw(a, timeS);
-        }
+        net.begin(timeS, x);
         for (int u = 0; u < d.unitCount; u++) {
             if (d.online[u]) {
-                slope0[d.unitArea[u]] += d.mechanicalPowerMw(u, x);
                 chooseRegime(u, x);
             } else {
                 regime[u] = OFF;
                 regimeKey[u] = 2 * OFF;
             }
         }
+        addGroups();
         if (regimesChanged) {
             sumGains();
+            net.gainsChanged();
             regimesChanged = false;
         }
-        loads(timeS, x);
-        for (int t = 0; t < d.tieCount; t++) {
-            double flow = d.tieScheduledMw[t] + x[areas + t];
-            slope0[d.tieFrom[t]] -= flow;
-            slope0[d.tieTo[t]] += flow;
-        }
-        for (int a = 0; a < areas; a++) {
-            slope0[a] /= d.inertiaMwSPerHz[a];
-        }
-        buildEquations(timeS, x);
-        solver.solve(matrix, rhs);
-        for (int a = 0; a < areas; a++) {
-            double f0 = x[a];
-            double f1 = rhs[a];
-            double s1 = rhs[areas + a];
-            coef[a * T] = f0;
-            coef[a * T + 1] = slope0[a];
-            coef[a * T + 2] = (-6 * f0 - 4 * h * slope0[a]) / (h * h) + beta[2] * f1 + gamma[2] * s1;
-            coef[a * T + 3] = (12 * f0 + 6 * h * slope0[a]) / (h * h * h) + beta[3] * f1 + gamma[3] * s1;
-            slopeMin[a] = ValveRatePath.quadraticExtreme(slope0[a], coef[a * T + 2], coef[a * T + 3], h, -1);
-            slopeMax[a] = ValveRatePath.quadraticExtreme(slope0[a], coef[a * T + 2], coef[a * T + 3], h, 1);
-        }
-        for (int t = 0; t < d.tieCount; t++) {
-            x[areas + t] += d.tieTwoPiT[t] * differenceIntegral(t, int1);
-        }
-        for (int a = 0; a < areas; a++) {
-            x[a] = rhs[a];
-        }
+        net.finishStart(x);
+        net.solve(x);
+        stepIndex++;
         for (int u = 0; u < d.unitCount; u++) {
             advanceUnit(u, x);
         }
@@ -171,6 +142,7 @@ final class ExactStepper {
 
     private void chooseRegime(int u, double[] x) {
         int b = d.unitOffset + GridDynamics.SLOTS_PER_UNIT * u;
+        int a = d.unitArea[u];
         if (d.tripped[u]) {
             regime[u] = OFF;
             if (regimeKey[u] != 2 * OFF) {
@@ -178,11 +150,13 @@ final class ExactStepper {
                 regimesChanged = true;
             }
             double pm = d.mechanicalPowerMw(u, x);
-            knownIntegral[d.unitArea[u]] += pm * tripIntegralS[u];
-            knownEnd[d.unitArea[u]] += pm * tripDecay[u];
+            net.slope0[a] += pm;
+            net.knownIntegral[a] += pm * tripIntegralS[u];
+            net.knownEnd[a] += pm * tripDecay[u];
+            net.knownSlopeEnd[a] -= pm * tripDecay[u] * d.invTripS[u];
+            net.curve0[a] -= pm * d.invTripS[u];
             return;
         }
-        int a = d.unitArea[u];
         double f = x[a];
         double eps = d.deadBandHz[u];
         double k = d.gainMwPerHz[u];
@@ -198,26 +172,27 @@ final class ExactStepper {
         if ((valve >= d.maxMw[u] && free > 0) || (valve <= d.minMw[u] && free < 0)) {
             rate = 0;
         }
-        BlockPropagator p;
-        double extraIntegral = 0;
-        double extraEnd = 0;
         freeStartRateMwPerS[u] = free;
+        BlockPropagator p;
         if (rate != free) {
             regime[u] = HELD;
             p = blocks.held[u];
-            extraIntegral = p.outIntegralInput[T] * rate;
-            extraEnd = p.outEndInput[T] * rate;
         } else {
             regime[u] = FREE;
             p = blocks.free[u];
         }
-        double v = x[b];
-        double s1 = x[b + 1];
-        double s2 = x[b + 2];
-        knownIntegral[a] += p.outIntegral[0] * v + p.outIntegral[1] * s1 + p.outIntegral[2] * s2
-                + p.outIntegralInput[0] * commandConstMw[u] + extraIntegral;
-        knownEnd[a] += p.outEnd[0] * v + p.outEnd[1] * s1 + p.outEnd[2] * s2
-                + p.outEndInput[0] * commandConstMw[u] + extraEnd;
+        int group = regime[u] == HELD ? heldGroup[u] : freeGroup[u];
+        if (!isTouched[group]) {
+            isTouched[group] = true;
+            touched[touchedCount++] = group;
+        }
+        int g = group * SUMS;
+        groupSums[g] += x[b];
+        groupSums[g + 1] += x[b + 1];
+        groupSums[g + 2] += x[b + 2];
+        groupSums[g + 3] += commandConstMw[u];
+        groupSums[g + 4] += regime[u] == HELD ? rate : 0.0;
+        groupSums[g + 5] += command;
         int key = regime[u] * 2 + (active[u] ? 1 : 0);
         if (key != regimeKey[u]) {
             regimeKey[u] = key;
@@ -225,10 +200,43 @@ final class ExactStepper {
         }
     }
 
+    /** Each group's power, and its energy, power and power's rate at the end from all but Δf, into its area's sums. */
+    private void addGroups() {
+        for (int i = 0; i < touchedCount; i++) {
+            int group = touched[i];
+            isTouched[group] = false;
+            BlockPropagator p = groupBlock[group];
+            int a = groupArea[group];
+            int g = group * SUMS;
+            double v = groupSums[g];
+            double s1 = groupSums[g + 1];
+            double s2 = groupSums[g + 2];
+            double constant = groupSums[g + 3];
+            double rate = groupSums[g + 4];
+            net.slope0[a] += p.out[0] * v + p.out[1] * s1 + p.out[2] * s2;
+            net.knownIntegral[a] += p.outIntegral[0] * v + p.outIntegral[1] * s1 + p.outIntegral[2] * s2
+                    + p.outIntegralInput[0] * constant;
+            net.knownEnd[a] += p.outEnd[0] * v + p.outEnd[1] * s1 + p.outEnd[2] * s2 + p.outEndInput[0] * constant;
+            net.knownSlopeEnd[a] += p.outSlopeEnd[0] * v + p.outSlopeEnd[1] * s1 + p.outSlopeEnd[2] * s2
+                    + p.outSlopeEndInput[0] * constant;
+            net.curve0[a] += p.outSlope[0] * v + p.outSlope[1] * s1 + p.outSlope[2] * s2
+                    + p.outSlopeInput[0] * groupSums[g + 5];
+            if (p.inputs > 1) {
+                net.knownIntegral[a] += p.outIntegralInput[T] * rate;
+                net.knownEnd[a] += p.outEndInput[T] * rate;
+                net.knownSlopeEnd[a] += p.outSlopeEndInput[T] * rate;
+                net.curve0[a] += p.outSlopeInput[1] * rate;
+            }
+            Arrays.fill(groupSums, g, g + SUMS, 0.0);
+        }
+        touchedCount = 0;
+    }
+
     /** The units' frequency gains per area and polynomial term; they change only when a unit changes regime. */
     private void sumGains() {
-        Arrays.fill(gainIntegral, 0);
-        Arrays.fill(gainEnd, 0);
+        Arrays.fill(net.gainIntegral, 0);
+        Arrays.fill(net.gainEnd, 0);
+        Arrays.fill(net.gainSlopeEnd, 0);
         for (int u = 0; u < d.unitCount; u++) {
             if (regime[u] == OFF || !active[u]) {
                 continue;
@@ -237,108 +245,11 @@ final class ExactStepper {
             int a = d.unitArea[u] * T;
             double k = d.gainMwPerHz[u];
             for (int j = 0; j < T; j++) {
-                gainIntegral[a + j] -= k * p.outIntegralInput[j];
-                gainEnd[a + j] -= k * p.outEndInput[j];
+                net.gainIntegral[a + j] -= k * p.outIntegralInput[j];
+                net.gainEnd[a + j] -= k * p.outEndInput[j];
+                net.gainSlopeEnd[a + j] -= k * p.outSlopeEndInput[j];
             }
         }
-    }
-
-    private void loads(double timeS, double[] x) {
-        Arrays.fill(loadIntegral, 0);
-        Arrays.fill(loadEnd, 0);
-        Arrays.fill(sensitivityMid, 0);
-        Arrays.fill(sensitivityEnd, 0);
-        double hourMid = d.startHourOfDay + (timeS + 0.5 * h) / 3600.0;
-        double hourEnd = d.startHourOfDay + (timeS + h) / 3600.0;
-        for (int l = 0; l < d.loadArea.length; l++) {
-            int a = d.loadArea[l];
-            double mid = d.loadMw(l, hourMid, 0.0);
-            double end = d.loadMw(l, hourEnd, 0.0);
-            double perHz = d.loadSensitivity[l] / d.nominalHz[a];
-            loadIntegral[a] += mid * h;
-            loadEnd[a] += end;
-            sensitivityMid[a] += mid * perHz;
-            sensitivityEnd[a] += end * perHz;
-            slope0[a] -= d.loadMw(l, d.startHourOfDay + timeS / 3600.0, x[a]);
-        }
-        for (int a = 0; a < areas; a++) {
-            // Simpson's rule: exact for the schedule's steps and ramps inside the step
-            loadIntegral[a] += h / 6 * (d.schedule.offsetMw(a, timeS) + 4 * d.schedule.offsetMw(a, timeS + 0.5 * h)
-                    + d.schedule.offsetMw(a, timeS + h));
-            loadEnd[a] += d.schedule.offsetMw(a, timeS + h);
-        }
-    }
-
-    /**
-     * Row a: energy balance over the step, M(f1 − f0) = ∫(Pm − load − D·Δf − export) ds; row areas + a: power balance at
-     * the end, M·f1' = Pm(h) − load(h) − D·f1 − export(h). Unknowns: f1 of every area, then f1' of every area.
-     */
-    private void buildEquations(double timeS, double[] x) {
-        for (double[] row : matrix) {
-            Arrays.fill(row, 0);
-        }
-        Arrays.fill(rhs, 0);
-        for (int a = 0; a < areas; a++) {
-            double m = d.inertiaMwSPerHz[a];
-            matrix[a][a] += m;
-            rhs[a] += -m * x[a] - knownIntegral[a] + loadIntegral[a];
-            matrix[areas + a][areas + a] += m;
-            matrix[areas + a][a] += d.dampingMwPerHz[a] + sensitivityEnd[a];
-            rhs[areas + a] += loadEnd[a] - knownEnd[a];
-            double dampMid = d.dampingMwPerHz[a] + sensitivityMid[a];
-            for (int j = 0; j < T; j++) {
-                addCoefficient(a, a, j, -gainIntegral[a * T + j] + dampMid * int1[j], x);
-                addCoefficient(areas + a, a, j, -gainEnd[a * T + j], x);
-            }
-        }
-        for (int t = 0; t < d.tieCount; t++) {
-            int from = d.tieFrom[t];
-            int to = d.tieTo[t];
-            double flow = d.tieScheduledMw[t] + x[areas + t];
-            double k = d.tieTwoPiT[t];
-            rhs[from] += flow * h;
-            rhs[to] -= flow * h;
-            rhs[areas + from] += flow;
-            rhs[areas + to] -= flow;
-            for (int j = 0; j < T; j++) {
-                addCoefficient(from, from, j, k * int2[j], x);
-                addCoefficient(from, to, j, -k * int2[j], x);
-                addCoefficient(to, from, j, -k * int2[j], x);
-                addCoefficient(to, to, j, k * int2[j], x);
-                addCoefficient(areas + from, from, j, k * int1[j], x);
-                addCoefficient(areas + from, to, j, -k * int1[j], x);
-                addCoefficient(areas + to, from, j, -k * int1[j], x);
-                addCoefficient(areas + to, to, j, k * int1[j], x);
-            }
-        }
-        for (int i = 0; i < rhs.length; i++) {
-            rhs[i] = -rhs[i];
-        }
-    }
-
-    /** Adds {@code value}·c_j(area) to equation {@code row}, c_j being linear in the area's unknown end value and slope. */
-    private void addCoefficient(int row, int area, int j, double value, double[] x) {
-        double f0 = x[area];
-        double s0 = slope0[area];
-        double known = switch (j) {
-            case 0 -> f0;
-            case 1 -> s0;
-            case 2 -> (-6 * f0 - 4 * h * s0) / (h * h);
-            default -> (12 * f0 + 6 * h * s0) / (h * h * h);
-        };
-        rhs[row] += value * known;
-        matrix[row][area] += value * beta[j];
-        matrix[row][areas + area] += value * gamma[j];
-    }
-
-    private double differenceIntegral(int t, double[] weights) {
-        int from = d.tieFrom[t] * T;
-        int to = d.tieTo[t] * T;
-        double sum = 0;
-        for (int j = 0; j < T; j++) {
-            sum += (coef[from + j] - coef[to + j]) * weights[j];
-        }
-        return sum;
     }
 
     private void advanceUnit(int u, double[] x) {
@@ -362,17 +273,18 @@ final class ExactStepper {
         // step only if the free valve keeps its rate at every instant of the step (then the stages, lags of the valve,
         // keep it too) and stays inside its range; else the valve moves at the constant rate that brings it where the
         // free rate, clamped to the limits, would have, and the stages follow that.
-        propagate(blocks.free[u], u, x, b, 0.0);
+        propagate(blocks.free[u], freeGroup[u], u, x, b, 0.0);
         boolean free = work[0] >= lo && work[0] <= hi && !(v0 >= d.maxMw[u] && w0 > 0) && !(v0 <= d.minMw[u] && w0 < 0);
         boolean compensated = d.kind[u] == GridDynamics.HYDRO && d.param2[u] > 0;
-        if (free && (compensated || !withinByArea(u, w0, raise, lower))) {
+        boolean rateLimited = raise != Double.POSITIVE_INFINITY || lower != Double.POSITIVE_INFINITY;
+        if (free && rateLimited && (compensated || !withinByArea(u, w0, raise, lower))) {
             setValvePath(u, x, b);
             free = valvePath.staysWithin(raise, lower);
         }
         if (!free) {
             setValvePath(u, x, b);
             double limitedEnd = Math.max(lo, Math.min(hi, v0 + valvePath.clampedMoveMw(raise, lower)));
-            propagate(blocks.held[u], u, x, b, (limitedEnd - v0) / h);
+            propagate(blocks.held[u], heldGroup[u], u, x, b, (limitedEnd - v0) / h);
             work[0] = limitedEnd;
         }
         x[b] = work[0];
@@ -384,31 +296,44 @@ final class ExactStepper {
     private boolean withinByArea(int u, double w0, double raise, double lower) {
         int a = d.unitArea[u];
         double k = active[u] ? d.gainMwPerHz[u] : 0.0;
-        return Math.max(w0, -k * slopeMin[a]) <= raise && Math.min(w0, -k * slopeMax[a]) >= -lower;
+        return Math.max(w0, -k * net.slopeMin[a]) <= raise && Math.min(w0, -k * net.slopeMax[a]) >= -lower;
     }
 
-    /** The free valve rate's path over the step; the target's rate is −K·Δf'(s) for the step's cubic Δf. */
+    /** The free valve rate's path over the step; the target's rate is −K·Δf'(s) for the step's quintic Δf. */
     private void setValvePath(int u, double[] x, int b) {
         int a = d.unitArea[u] * T;
         double k = active[u] ? d.gainMwPerHz[u] : 0.0;
+        for (int j = 1; j < T; j++) {
+            commandTerms[j] = -k * net.coef[a + j];
+        }
         boolean compensated = d.kind[u] == GridDynamics.HYDRO && d.param2[u] > 0;
-        valvePath.set(d.invGovernorS[u], h, servoDecay[u], freeStartRateMwPerS[u], -k * coef[a + 1], -k * coef[a + 2],
-                -k * coef[a + 3], compensated ? commandConstMw[u] - k * coef[a] - x[b + 2] : 0.0,
+        valvePath.set(d.invGovernorS[u], h, servoDecay[u], freeStartRateMwPerS[u], commandTerms,
+                compensated ? commandConstMw[u] - k * net.coef[a] - x[b + 2] : 0.0,
                 compensated ? d.param2[u] : 0.0, compensated ? d.param3[u] : 1.0);
     }
 
     /** Writes the block's end state into {@code work}; {@code rateMwPerS} is used by the held block only. */
-    private void propagate(BlockPropagator p, int u, double[] x, int b, double rateMwPerS) {
-        int a = d.unitArea[u] * T;
+    private void propagate(BlockPropagator p, int at, int u, double[] x, int b, double rateMwPerS) {
         double k = active[u] ? d.gainMwPerHz[u] : 0.0;
         int cols = p.inputs * T;
+        if (k != 0 && responseStep[at] != stepIndex) {
+            int a = d.unitArea[u] * T;
+            for (int i = 0; i < 3; i++) {
+                double sum = 0;
+                for (int j = 0; j < T; j++) {
+                    sum += p.gamma[i * cols + j] * net.coef[a + j];
+                }
+                response[3 * at + i] = sum;
+            }
+            responseStep[at] = stepIndex;
+        }
         for (int i = 0; i < 3; i++) {
             int r = i * 3;
             int g = i * cols;
             double next = p.phi[r] * x[b] + p.phi[r + 1] * x[b + 1] + p.phi[r + 2] * x[b + 2]
                     + p.gamma[g] * commandConstMw[u];
-            for (int j = 0; j < T; j++) {
-                next -= p.gamma[g + j] * k * coef[a + j];
+            if (k != 0) {
+                next -= k * response[3 * at + i];
             }
             if (p.inputs > 1) {
                 next += p.gamma[g + T] * rateMwPerS;

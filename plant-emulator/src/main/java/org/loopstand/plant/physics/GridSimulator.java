@@ -44,14 +44,14 @@ public final class GridSimulator {
     }
 
     /**
-     * @param stepS          fixed step, s; refused with a message when too coarse for the grid
+     * @param stepS          fixed step, s; refused with a message when too coarse for the grid and the integrator
      * @param seed           seeds every load's noise (each load gets its own stream split in site order)
      * @param startHourOfDay time of day at t = 0, h, for the loads' daily shapes
      * @param integrator     how a step is taken ({@link Integrator#RK4} unless asked otherwise)
      */
     public GridSimulator(Grid grid, double stepS, long seed, double startHourOfDay, Integrator integrator) {
-        new StepSizeRule(grid).check(stepS);
         this.integrator = java.util.Objects.requireNonNull(integrator, "integrator");
+        new StepSizeRule(grid).check(stepS, integrator);
         this.grid = grid;
         this.stepS = stepS;
         this.dynamics = new GridDynamics(grid, startHourOfDay);

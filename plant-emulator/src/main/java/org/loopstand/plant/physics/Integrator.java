@@ -9,7 +9,8 @@ public enum Integrator {
     RK4,
     /**
      * each unit's governor and turbine stepped exactly by its precomputed matrix exponential, the areas' frequencies
-     * taken as cubic Hermite polynomials over the step, solved together with the ties (see {@code ExactStepper})
+     * taken as quintic Hermite polynomials over the step, solved together with the ties (see {@code ExactStepper} and
+     * {@code AreaEquations}); sixth order, and no step limit from the units' time constants
      */
     EXACT;
 

@@ -14,6 +14,10 @@ import org.loopstand.plant.grid.Turbine;
  * <p>Accepted: {@code h ≤ τ/4} and {@code ω·h ≤ 0.5} (RK4 then stays well inside its stability region,
  * local error per step ≤ (0.5)^5/120 ≈ 3e-4 of the mode). Default: the largest of 50, 20, 10, 5, 2, 1,
  * 0.5, 0.2, 0.1 ms with {@code h ≤ 20 ms}, {@code h ≤ τ/10} and {@code ω·h ≤ 0.2}.
+ *
+ * <p>The exact discretisation ({@link Integrator#EXACT}) propagates the units' blocks by their matrix exponentials, so
+ * τ sets no limit for it; its areas' coupling is A-stable but resolves the swing with a polynomial over the step, so
+ * {@code ω·h ≤ 0.5} is kept for it.
  */
 public final class StepSizeRule {
     private static final double[] LADDER_S = {0.05, 0.02, 0.01, 0.005, 0.002, 0.001, 0.0005, 0.0002, 0.0001};
@@ -83,10 +87,29 @@ public final class StepSizeRule {
         return LADDER_S[LADDER_S.length - 1];
     }
 
-    /** @throws IllegalArgumentException naming the fastest dynamics when {@code stepS} is too coarse */
+    /** @return the largest step this rule accepts for the exact discretisation (the swing limit only), s */
+    public double maxExactStepS() {
+        return fastestSwingRadPerS > 0 ? 0.5 / fastestSwingRadPerS : Double.POSITIVE_INFINITY;
+    }
+
+    /** @throws IllegalArgumentException naming the fastest dynamics when {@code stepS} is too coarse for RK4 */
     public void check(double stepS) {
+        check(stepS, Integrator.RK4);
+    }
+
+    /** @throws IllegalArgumentException naming the fastest dynamics when {@code stepS} is too coarse for the integrator */
+    public void check(double stepS, Integrator integrator) {
         if (!(stepS > 0) || !Double.isFinite(stepS)) {
             throw new IllegalArgumentException("stepS must be a positive number of seconds, got " + stepS);
+        }
+        if (integrator == Integrator.EXACT) {
+            if (stepS > maxExactStepS() * (1 + 1e-12)) {
+                throw new IllegalArgumentException(String.format(java.util.Locale.ROOT,
+                        "step %.6g s is too coarse for this site: the fastest inter-area swing is %.4g rad/s (%s); the "
+                                + "exact integrator's step must be at most %.6g s (0.5/ω)",
+                        stepS, fastestSwingRadPerS, fastestSwingWhere, maxExactStepS()));
+            }
+            return;
         }
         if (stepS > maxAccurateStepS() * (1 + 1e-12)) {
             throw new IllegalArgumentException(String.format(java.util.Locale.ROOT,

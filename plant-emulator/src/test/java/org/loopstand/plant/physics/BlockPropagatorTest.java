@@ -16,14 +16,14 @@ import org.junit.jupiter.api.Test;
 class BlockPropagatorTest {
     @Test
     void shouldMatchTheReferenceIntegratorForEachBlockExponential() {
-        // A reheat-like block with a cubic input: x(h) = Φ·x0 + Σ Γ_j·w_j and ∫p·x ds, against DP853 on the same ODE.
+        // A reheat-like block with a quintic input: x(h) = Φ·x0 + Σ Γ_j·w_j and ∫p·x ds, against DP853 on the same ODE.
         double[][] a = {{-5, 0, 0}, {3.3, -3.3, 0}, {0, 0.14, -0.14}};
         double[][] b = {{5}, {0}, {0}};
         double[] p = {0, 0.3, 0.7};
         double stepS = 0.05;
         BlockPropagator block = new BlockPropagator(a, b, p, stepS);
         double[] x0 = {100, 90, 80};
-        double[] w = {110, -40, 300, -2000};
+        double[] w = {110, -40, 300, -2000, 9000, -1.5e5};
         OrdinaryDifferentialEquation ode = new OrdinaryDifferentialEquation() {
             @Override
             public int getDimension() {
@@ -32,7 +32,8 @@ class BlockPropagatorTest {
 
             @Override
             public double[] computeDerivatives(double s, double[] y) {
-                double input = w[0] + w[1] * s + w[2] * s * s / 2 + w[3] * s * s * s / 6;
+                double input = w[0] + w[1] * s + w[2] * s * s / 2 + w[3] * s * s * s / 6 + w[4] * s * s * s * s / 24
+                        + w[5] * s * s * s * s * s / 120;
                 double[] dy = new double[4];
                 for (int i = 0; i < 3; i++) {
                     for (int j = 0; j < 3; j++) {
@@ -69,5 +70,35 @@ class BlockPropagatorTest {
         }
         assertThat(integral).isCloseTo(ref[3], within(1e-9));
         assertThat(end).isCloseTo(p[0] * ref[0] + p[1] * ref[1] + p[2] * ref[2], within(1e-9));
+        // the power's rate p·(A·x + B·w) at both ends, for the areas' curvature equations
+        double inputEnd = 0;
+        double term = 1;
+        for (int k = 0; k < BlockPropagator.TERMS; k++) {
+            inputEnd += w[k] * term;
+            term *= stepS / (k + 1);
+        }
+        double rateStart = block.outSlopeInput[0] * w[0];
+        double rateEnd = 0;
+        double rateEndRef = 0;
+        for (int j = 0; j < 3; j++) {
+            rateStart += block.outSlope[j] * x0[j];
+            rateEnd += block.outSlopeEnd[j] * x0[j];
+        }
+        for (int k = 0; k < BlockPropagator.TERMS; k++) {
+            rateEnd += block.outSlopeEndInput[k] * w[k];
+        }
+        double rateStartRef = 0;
+        for (int i = 0; i < 3; i++) {
+            double dxStart = b[i][0] * w[0];
+            double dxEnd = b[i][0] * inputEnd;
+            for (int j = 0; j < 3; j++) {
+                dxStart += a[i][j] * x0[j];
+                dxEnd += a[i][j] * ref[j];
+            }
+            rateStartRef += p[i] * dxStart;
+            rateEndRef += p[i] * dxEnd;
+        }
+        assertThat(rateStart).isCloseTo(rateStartRef, within(1e-9));
+        assertThat(rateEnd).isCloseTo(rateEndRef, within(1e-7));
     }
 }

@@ -52,4 +52,24 @@ class TextbookSteadyStateTest {
                 .hasMessageContaining("too coarse")
                 .hasMessageContaining("unit gen1 governor time constant");
     }
+
+    @Test
+    void shouldLetTheExactIntegratorPassTheTimeConstantLimitButNotTheSwingLimit() {
+        // the exact integrator's unit blocks have no step limit; its area coupling keeps ω·h ≤ 0.5 (docs/physics.md).
+        // With a 50 MW/rad tie: ω = √(2π·50·(1/M1 + 1/M2)), M = 2·H·S/f0 = 2·5·1000/60 and 2·4·1000/60 MW·s/Hz, so
+        // h ≤ 0.5/ω ≈ 0.243 s.
+        var grid = TextbookGrids.twoArea(50);
+        double omega = Math.sqrt(2 * Math.PI * 50 * (60 / (2 * 5 * 1000.0) + 60 / (2 * 4 * 1000.0)));
+        GridSimulator exact = new GridSimulator(grid, 0.24, 0, 0, Integrator.EXACT);
+        exact.stepLoadMw("area1", 18.75);
+        exact.advanceTo(60);
+        assertThat(exact.stepS()).isEqualTo(0.24);
+        assertThat(Double.isFinite(exact.frequencyHz("area1"))).isTrue();
+        org.assertj.core.api.Assertions.assertThatThrownBy(() -> new GridSimulator(grid, 0.24, 0, 0, Integrator.RK4))
+                .hasMessageContaining("unit gen1 governor time constant");
+        org.assertj.core.api.Assertions.assertThatThrownBy(() -> new GridSimulator(grid, 0.25, 0, 0, Integrator.EXACT))
+                .isInstanceOf(IllegalArgumentException.class)
+                .hasMessageContaining("tie tie12")
+                .hasMessageContaining(String.format(java.util.Locale.ROOT, "at most %.6g s", 0.5 / omega));
+    }
 }

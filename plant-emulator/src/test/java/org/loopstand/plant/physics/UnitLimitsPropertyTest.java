@@ -31,7 +31,16 @@ class UnitLimitsPropertyTest {
                                                @ForAll @Size(min = 1, max = 6) List<@DoubleRange(min = -400, max = 400) Double> loadStepsMw,
                                                @ForAll @IntRange(min = 0, max = 2) int turbineKind,
                                                @ForAll Integrator integrator) {
-        runAndCheck(setpointsMw, loadStepsMw, turbineKind, integrator);
+        runAndCheck(setpointsMw, loadStepsMw, turbineKind, integrator, Double.NaN);
+    }
+
+    /** The exact integrator at a step past RK4's τ/4 (0.05 s here), which its step rule accepts: the same limits hold. */
+    @Property(tries = 20)
+    void shouldStayInsideRateAndPositionLimitsAtALargeExactStep(
+            @ForAll @Size(min = 1, max = 6) List<@DoubleRange(min = 0, max = 450) Double> setpointsMw,
+            @ForAll @Size(min = 1, max = 6) List<@DoubleRange(min = -400, max = 400) Double> loadStepsMw,
+            @ForAll @IntRange(min = 0, max = 2) int turbineKind) {
+        runAndCheck(setpointsMw, loadStepsMw, turbineKind, Integrator.EXACT, 0.1);
     }
 
     /**
@@ -41,11 +50,13 @@ class UnitLimitsPropertyTest {
      */
     @Example
     void shouldKeepSteamStageWithinRateWhenFreeValvePathPassesItInsideStep() {
-        runAndCheck(List.of(150.6494, 112.0282, 204.5203), List.of(-219.6152, -81.7221, 251.5889), 0, Integrator.EXACT);
+        runAndCheck(List.of(150.6494, 112.0282, 204.5203), List.of(-219.6152, -81.7221, 251.5889), 0, Integrator.EXACT,
+                Double.NaN);
     }
 
+    /** {@code stepS} NaN: the site's default step; each segment lasts 8 s. */
     private static void runAndCheck(List<Double> setpointsMw, List<Double> loadStepsMw, int turbineKind,
-                                    Integrator integrator) {
+                                    Integrator integrator, double stepS) {
         GridBuilder b = new GridBuilder("limits");
         b.area("a").ratingMva(6000).inertiaS(5).dampingMwPerHz(50).kMwPerHz(2000);
         UnitSpec tested = b.unit("tested", "a").ratingMw(400).droopPct(4).governorTimeConstantS(0.2)
@@ -59,7 +70,8 @@ class UnitLimitsPropertyTest {
         b.unit("system", "a").nonReheat(0.4).governorTimeConstantS(0.2).ratingMw(5000).droopPct(5).initialOutputMw(2300);
         b.load("l", "a").baseMw(2500);
         Grid grid = b.build();
-        GridSimulator sim = new GridSimulator(grid, new StepSizeRule(grid).defaultStepS(), 0, 0, integrator);
+        GridSimulator sim = new GridSimulator(grid, Double.isNaN(stepS) ? new StepSizeRule(grid).defaultStepS() : stepS, 0, 0,
+                integrator);
         int unit = grid.unitIndex("tested");
         boolean steam = turbineKind != 2;
         double h = sim.stepS();
@@ -69,7 +81,7 @@ class UnitLimitsPropertyTest {
         for (int s = 0; s < segments; s++) {
             sim.setLoadReferenceMw(unit, setpointsMw.get(s % setpointsMw.size()));
             sim.stepLoadMw("a", loadStepsMw.get(s % loadStepsMw.size()));
-            for (int k = 0; k < 400; k++) {
+            for (int k = 0; k < Math.round(8 / h); k++) {
                 sim.step();
                 double valve = sim.valvePositionMw(unit);
                 double output = sim.outputMw(unit);

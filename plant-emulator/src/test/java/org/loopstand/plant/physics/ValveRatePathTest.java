@@ -51,8 +51,8 @@ class ValveRatePathTest {
 
     private static ValveRatePath path() {
         ValveRatePath path = new ValveRatePath();
-        path.set(G_PER_S, STEP_S, Math.exp(-G_PER_S * STEP_S), G_PER_S * (COMMAND_MW - VALVE_MW), COMMAND_1,
-                COMMAND_2, 0, 0, 0, 1);
+        path.set(G_PER_S, STEP_S, Math.exp(-G_PER_S * STEP_S), G_PER_S * (COMMAND_MW - VALVE_MW),
+                new double[] {0, COMMAND_1, COMMAND_2, 0, 0, 0}, 0, 0, 1);
         return path;
     }
 
