@@ -82,12 +82,7 @@ public record BenchSettings(int units, int areas, double durationS, double warmu
         }
 
         public static RawPacing parse(String text) {
-            for (RawPacing p : values()) {
-                if (p.cliName().equals(text)) {
-                    return p;
-                }
-            }
-            throw new IllegalArgumentException("--raw-pacing must be spread or burst, got " + text);
+            return byCliName(values(), RawPacing::cliName, text, "--raw-pacing must be spread or burst");
         }
     }
 
@@ -105,13 +100,18 @@ public record BenchSettings(int units, int areas, double durationS, double warmu
         }
 
         public static PlantPublishing parse(String text) {
-            for (PlantPublishing p : values()) {
-                if (p.cliName().equals(text)) {
-                    return p;
-                }
-            }
-            throw new IllegalArgumentException("--plant-pacing must be loop, burst or spread, got " + text);
+            return byCliName(values(), PlantPublishing::cliName, text, "--plant-pacing must be loop, burst or spread");
         }
+    }
+
+    /** @throws IllegalArgumentException "{@code refusal}, got {@code text}" when no value is called {@code text} */
+    private static <E> E byCliName(E[] values, java.util.function.Function<E, String> cliName, String text, String refusal) {
+        for (E v : values) {
+            if (cliName.apply(v).equals(text)) {
+                return v;
+            }
+        }
+        throw new IllegalArgumentException(refusal + ", got " + text);
     }
 
     /** The settings with the plant publishing on its physics thread ({@link PlantPublishing#LOOP}). */
