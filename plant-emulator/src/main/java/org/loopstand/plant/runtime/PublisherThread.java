@@ -1,5 +1,7 @@
 package org.loopstand.plant.runtime;
 
+import java.util.concurrent.ArrayBlockingQueue;
+import java.util.concurrent.BlockingQueue;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.LinkedBlockingQueue;
 import java.util.concurrent.TimeUnit;
@@ -49,8 +51,11 @@ public final class PublisherThread implements StepPassMarks {
 
     private static final StepBegins STEP_BEGINS = new StepBegins();
 
-    /** jobs and step marks; jobs in it are bounded by the capacity ({@link #queuedJobs}), marks always get in */
-    private final LinkedBlockingQueue<Item> queue = new LinkedBlockingQueue<>();
+    /**
+     * jobs and (spread only) step marks; jobs in it are bounded by the capacity ({@link #queuedJobs}). Burst: an
+     * array of that capacity (no allocation per publish beyond the job); spread: linked, so that a mark always gets in
+     */
+    private final BlockingQueue<Item> queue;
     private final AtomicLong queuedJobs = new AtomicLong();
     private final int capacity;
     private final Clock wall;
@@ -81,6 +86,7 @@ public final class PublisherThread implements StepPassMarks {
         this.capacity = capacity;
         this.wall = wall;
         this.spread = pacing == TelemetryPacing.SPREAD ? new TelemetrySpread<>(MIN_SLOT_GAP_NANOS) : null;
+        this.queue = spread == null ? new ArrayBlockingQueue<>(capacity) : new LinkedBlockingQueue<>();
         this.thread = new Thread(spread == null ? this::run : this::runSpread, name);
         this.thread.setDaemon(true);
         this.thread.start();
