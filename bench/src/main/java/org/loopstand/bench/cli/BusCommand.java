@@ -98,6 +98,11 @@ public final class BusCommand implements Callable<Integer> {
             + " physics step, as the plant publishes) (default ${DEFAULT-VALUE})")
     String rawPacing;
 
+    @Option(names = "--plant-pacing", defaultValue = "loop", description = "plant: loop (publish on the physics thread,"
+            + " each step's due telemetry in one burst), burst (the same burst through the plant's publisher thread) or"
+            + " spread (the publisher thread spreads each step's unit telemetry over the step) (default ${DEFAULT-VALUE})")
+    String plantPacing;
+
     @Option(names = "--part-jvm-opts", defaultValue = "-Xss1m", description = "JVM options of the plant and controller processes"
             + " (--layout processes); {role} is replaced by plant or controller (default ${DEFAULT-VALUE})")
     String partJvmOpts;
@@ -158,7 +163,7 @@ public final class BusCommand implements Callable<Integer> {
         return new BenchSettings(units, areas, durationS, warmupS, broker, brokerConfig, g, poolSize, intakeConnections,
                 telemetryMs, meterMs, cycleS, sampleS, !noRaw, !noWake, unitScanMs, loadStepMw, dir,
                 l, BenchSettings.RawPacing.parse(rawPacing), partJvmOpts, l == BenchSettings.Layout.HOSTS ? "bench" : "",
-                fieldScanMs);
+                fieldScanMs, BenchSettings.PlantPublishing.parse(plantPacing));
     }
 
     private static void say(String line) {

@@ -48,8 +48,8 @@ public record BenchResult(BenchSettings settings, String broker, int plantConnec
     /** Writes the table as Markdown. */
     public void print(PrintStream out) {
         BenchSettings s = settings;
-        out.printf(Locale.ROOT, "### %d units, %d areas, %s, layout %s, raw loop %s%n%n", s.units(), s.areas(), broker,
-                s.layout().cliName(), s.raw() ? s.rawPacing().cliName() : "off");
+        out.printf(Locale.ROOT, "### %d units, %d areas, %s, layout %s, plant pacing %s, raw loop %s%n%n", s.units(), s.areas(),
+                broker, s.layout().cliName(), s.plantPacing().cliName(), s.raw() ? s.rawPacing().cliName() : "off");
         out.printf(Locale.ROOT, "grouping %s%s (%d plant connections), %d controller intake connection(s) ($share/ctl),"
                         + " telemetry %d ms (%d B, QoS 0), meters %d ms, cycle %d s, measured %.0f s after %.0f s warm-up;"
                         + " unit scan %d ms, controller woken by its intake: %s%n%n",

@@ -33,13 +33,14 @@ import org.loopstand.plant.runtime.ConnectionGrouping;
  *                           {@link #BROKER_PASSWORD_FILE} of the run folder (layout hosts)
  * @param fieldScanMs        layout hosts: period of the plant's field readings to the unit hosts, ms, ≥ 1 (the
  *                           plant's default is 200)
+ * @param plantPacing        where and how the plant publishes (layouts one-jvm and processes)
  */
 public record BenchSettings(int units, int areas, double durationS, double warmupS, String broker, Path brokerConfig,
                             ConnectionGrouping grouping, int poolSize, int intakeConnections, long telemetryScanMs,
                             long meterScanMs, int cycleS, double sampleS, boolean raw, boolean wakeOnInput,
                             long unitScanMs, double loadStepMw, Path outDir, Layout layout, RawPacing rawPacing,
                             String partJvmOpts, String brokerUser,
-                            long fieldScanMs) {
+                            long fieldScanMs, PlantPublishing plantPacing) {
     /** The file in the run folder whose first line is the password of {@link #brokerUser}. */
     public static final String BROKER_PASSWORD_FILE = "broker-login.password";
 
@@ -81,13 +82,47 @@ public record BenchSettings(int units, int areas, double durationS, double warmu
         }
 
         public static RawPacing parse(String text) {
-            for (RawPacing p : values()) {
-                if (p.cliName().equals(text)) {
-                    return p;
-                }
-            }
-            throw new IllegalArgumentException("--raw-pacing must be spread or burst, got " + text);
+            return byCliName(values(), RawPacing::cliName, text, "--raw-pacing must be spread or burst");
         }
+    }
+
+    /** Where and how the plant publishes. */
+    public enum PlantPublishing {
+        /** on the physics thread, each step's due telemetry one message after the other (as before the option) */
+        LOOP,
+        /** through the plant's publisher thread, each message as soon as it is taken (the step's burst) */
+        BURST,
+        /** through the publisher thread, each step's unit telemetry spread evenly over the step */
+        SPREAD;
+
+        public String cliName() {
+            return name().toLowerCase(java.util.Locale.ROOT);
+        }
+
+        public static PlantPublishing parse(String text) {
+            return byCliName(values(), PlantPublishing::cliName, text, "--plant-pacing must be loop, burst or spread");
+        }
+    }
+
+    /** @throws IllegalArgumentException "{@code refusal}, got {@code text}" when no value is called {@code text} */
+    private static <E> E byCliName(E[] values, java.util.function.Function<E, String> cliName, String text, String refusal) {
+        for (E v : values) {
+            if (cliName.apply(v).equals(text)) {
+                return v;
+            }
+        }
+        throw new IllegalArgumentException(refusal + ", got " + text);
+    }
+
+    /** The settings with the plant publishing on its physics thread ({@link PlantPublishing#LOOP}). */
+    public BenchSettings(int units, int areas, double durationS, double warmupS, String broker, Path brokerConfig,
+                         ConnectionGrouping grouping, int poolSize, int intakeConnections, long telemetryScanMs,
+                         long meterScanMs, int cycleS, double sampleS, boolean raw, boolean wakeOnInput,
+                         long unitScanMs, double loadStepMw, Path outDir, Layout layout, RawPacing rawPacing,
+                         String partJvmOpts, String brokerUser, long fieldScanMs) {
+        this(units, areas, durationS, warmupS, broker, brokerConfig, grouping, poolSize, intakeConnections, telemetryScanMs,
+                meterScanMs, cycleS, sampleS, raw, wakeOnInput, unitScanMs, loadStepMw, outDir, layout, rawPacing,
+                partJvmOpts, brokerUser, fieldScanMs, PlantPublishing.LOOP);
     }
 
     public BenchSettings {
@@ -103,8 +138,8 @@ public record BenchSettings(int units, int areas, double durationS, double warmu
         if (poolSize < 1 || intakeConnections < 1) {
             throw new IllegalArgumentException("pool size and intake connections must be ≥ 1");
         }
-        if (layout == null || rawPacing == null || partJvmOpts == null || brokerUser == null) {
-            throw new IllegalArgumentException("layout, raw pacing, part JVM options and broker user are required");
+        if (layout == null || rawPacing == null || partJvmOpts == null || brokerUser == null || plantPacing == null) {
+            throw new IllegalArgumentException("layout, raw pacing, plant pacing, part JVM options and broker user are required");
         }
     }
 

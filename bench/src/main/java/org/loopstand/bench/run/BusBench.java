@@ -120,6 +120,7 @@ public final class BusBench {
             BusCounters ctlCounters = ctl.counters();
             BusCounters plantCounters = plant.counters();
             Throwable plantFailure = plant.failure();
+            say.accept("bench: " + plant.spreadFigures());
             plant.close();
             ctl.closeBus();
             Histogram jitter = JitterLog.since(s.outDir().resolve("controller.hlog"), markEpochMs);

@@ -15,6 +15,9 @@ import org.loopstand.plant.physics.GridSimulator;
 import org.loopstand.plant.runtime.LinkFactory;
 import org.loopstand.plant.runtime.PlantOptions;
 import org.loopstand.plant.runtime.PlantRunner;
+import org.loopstand.plant.runtime.PublisherThread;
+import org.loopstand.plant.runtime.StepPassMarks;
+import org.loopstand.plant.runtime.TelemetryPacing;
 import org.loopstand.plant.runtime.UnitDutyCycle;
 import org.loopstand.plant.scenario.PhysicsEvents;
 import org.loopstand.plant.scenario.ScenarioEvent;
@@ -32,11 +35,16 @@ import org.loopstand.protocol.time.Clock;
  * JVM (layout one-jvm) or in a plant process of its own (layout processes).
  */
 final class PlantSide implements AutoCloseable {
+    /** Publishes that may wait for the plant's publisher thread (as the plant command's). */
+    static final int PUBLISH_QUEUE = 65_536;
+
     private final List<MqttLink> links = new ArrayList<>();
     private final PlantRunner plant;
     private final GridSimulator sim;
     private final int telemetryBytes;
     private final long connectWaitMs;
+    /** the plant's publisher thread, null when it publishes on its physics thread */
+    private final PublisherThread publisher;
 
     /** @param stamps where publishes are stamped, null when the controller runs in another process */
     PlantSide(BenchSettings s, Grid grid, String serverUri, PublishStamps stamps, StampingBus.CommandTally tally,
@@ -51,6 +59,10 @@ final class PlantSide implements AutoCloseable {
             links.add(l);
             return new StampingBus(l.start(), stamps, clock, tally);
         };
+        // the stamp is taken where the message is handed to the client: on the publisher thread when there is one
+        publisher = s.plantPacing() == BenchSettings.PlantPublishing.LOOP ? null
+                : new PublisherThread(PUBLISH_QUEUE, clock, "plant-publisher",
+                        s.plantPacing() == BenchSettings.PlantPublishing.SPREAD ? TelemetryPacing.SPREAD : TelemetryPacing.BURST);
         List<MeterSettings> meters = new ArrayList<>();
         for (Area a : grid.areas()) {
             meters.add(MeterSettings.defaults(a.id()).withScanPeriodMs(s.meterScanMs()));
@@ -62,8 +74,9 @@ final class PlantSide implements AutoCloseable {
         PlantOptions po = new PlantOptions(1.0, remote, s.grouping(), s.poolSize(), meters, iface,
                 Qos.AT_MOST_ONCE, 256, 1, 1.0);
         sim = new GridSimulator(grid);
-        plant = new PlantRunner(sim, loadSteps(grid, s), po, factory, clock, say::accept).unitScanMs(s.unitScanMs())
-                .fieldPeriodMs(s.fieldScanMs());
+        plant = new PlantRunner(sim, loadSteps(grid, s), po, publisher == null ? factory : publisher.wrap(factory), clock,
+                say::accept).unitScanMs(s.unitScanMs()).fieldPeriodMs(s.fieldScanMs())
+                .markStepPasses(publisher == null ? StepPassMarks.NONE : publisher);
         List<UnitDutyCycle> hosts = plant.unitCycles();
         long periodNanos = s.telemetryScanMs() * 1_000_000L;
         for (int i = 0; i < hosts.size(); i++) {
@@ -121,6 +134,16 @@ final class PlantSide implements AutoCloseable {
 
     Throwable failure() {
         return plant.failure();
+    }
+
+    /** @return what the publisher thread's spread did, or a note that there is none */
+    String spreadFigures() {
+        if (publisher == null) {
+            return "plant publishes on its physics thread";
+        }
+        PublisherThread.SpreadCounts c = publisher.spreadCounts();
+        return "plant publisher thread: " + publisher.published() + " published, " + publisher.refusedFull()
+                + " refused (queue full)" + (c == null ? "" : "; step telemetry: " + c);
     }
 
     BusCounters counters() {

@@ -47,7 +47,7 @@ final class SettingsFile {
             args[i] = value(types[i], v);
         }
         try {
-            return BenchSettings.class.getDeclaredConstructor(types).newInstance(args);
+            return BenchSettings.class.getDeclaredConstructor(types).newInstance(args); // the canonical one
         } catch (ReflectiveOperationException e) {
             throw new IOException(file + ": " + e, e);
         }
@@ -70,6 +70,8 @@ final class SettingsFile {
             return BenchSettings.Layout.valueOf(v);
         } else if (type == BenchSettings.RawPacing.class) {
             return BenchSettings.RawPacing.valueOf(v);
+        } else if (type == BenchSettings.PlantPublishing.class) {
+            return BenchSettings.PlantPublishing.valueOf(v);
         }
         return v;
     }

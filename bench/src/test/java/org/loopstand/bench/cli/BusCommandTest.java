@@ -54,14 +54,16 @@ class BusCommandTest {
         assertThat(s.plantRatePerS()).isEqualTo(1010.0);
         assertThat(s.layout()).isEqualTo(BenchSettings.Layout.ONE_JVM);
         assertThat(s.rawPacing()).isEqualTo(BenchSettings.RawPacing.SPREAD);
+        assertThat(s.plantPacing()).isEqualTo(BenchSettings.PlantPublishing.LOOP);
     }
 
     @Test
     void shouldParseTheLayoutAndRawPacing() {
         BusCommand c = new BusCommand();
         new CommandLine(c).parseArgs("--units", "100", "--layout", "processes", "--raw-pacing", "burst",
-                "--part-jvm-opts", "-Xmx1g -Xss1m");
+                "--plant-pacing", "spread", "--part-jvm-opts", "-Xmx1g -Xss1m");
         BenchSettings s = c.settings();
+        assertThat(s.plantPacing()).isEqualTo(BenchSettings.PlantPublishing.SPREAD);
         assertThat(s.layout()).isEqualTo(BenchSettings.Layout.PROCESSES);
         assertThat(s.rawPacing()).isEqualTo(BenchSettings.RawPacing.BURST);
         assertThat(s.partJvmOpts()).isEqualTo("-Xmx1g -Xss1m");
@@ -69,6 +71,9 @@ class BusCommandTest {
         BusCommand bad = new BusCommand();
         new CommandLine(bad).parseArgs("--units", "100", "--layout", "two-jvms");
         assertThatThrownBy(bad::settings).hasMessageContaining("--layout must be one-jvm, processes or hosts, got two-jvms");
+        BusCommand badPacing = new BusCommand();
+        new CommandLine(badPacing).parseArgs("--units", "100", "--plant-pacing", "even");
+        assertThatThrownBy(badPacing::settings).hasMessageContaining("--plant-pacing must be loop, burst or spread, got even");
     }
 
     @Test
@@ -114,15 +119,19 @@ class BusCommandTest {
     void shouldRunTenUnitsInOneJvm() throws Exception {
         BenchSettings s = new BenchSettings(10, 2, 4, 2, broker.serverUri(), Path.of("config/broker/mosquitto-bench.conf"),
                 ConnectionGrouping.POOLED, 2, 2, 1000, 2000, 1, 3, true, true, 100, 0, dir.resolve("run"),
-                BenchSettings.Layout.ONE_JVM, BenchSettings.RawPacing.SPREAD, "-Xss1m", "", 200);
-        BenchResult r = new BusBench(s, line -> { }).run();
+                BenchSettings.Layout.ONE_JVM, BenchSettings.RawPacing.SPREAD, "-Xss1m", "", 200,
+                BenchSettings.PlantPublishing.SPREAD);
+        java.util.List<String> said = new java.util.concurrent.CopyOnWriteArrayList<>();
+        BenchResult r = new BusBench(s, said::add).run();
         r.write(s.outDir());
         assertThat(r.plantFailure()).isNull();
         // every unit and meter message went through the shared-subscription intake and was validated
         assertThat(r.rigUs().getTotalCount()).isGreaterThan(30);
         assertThat(r.rawUs().getTotalCount()).isGreaterThan(30);
         assertThat(r.commandsUnaccounted()).isZero();
-        assertThat(Files.readString(s.outDir().resolve("table.md"))).contains("ratio p99 rig / raw");
+        assertThat(Files.readString(s.outDir().resolve("table.md"))).contains("ratio p99 rig / raw", "plant pacing spread");
+        // the plant published through its publisher thread, spreading each step's telemetry
+        assertThat(said).anyMatch(l -> l.startsWith("bench: plant publisher thread: ") && l.contains("step telemetry: spread "));
     }
 
     @Test

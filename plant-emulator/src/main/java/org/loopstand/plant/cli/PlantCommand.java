@@ -219,6 +219,7 @@ public final class PlantCommand implements Callable<Integer> {
             say("plant: wire profile " + profile.name() + " from " + wireProfile + " on the controller's side of the bus");
         }
         PlantRunner runner = new PlantRunner(sim, events, options, loop.links(links::connect), clock, PlantCommand::say);
+        runner.markStepPasses(loop.stepMarks());
         start.pace(clock, runner, iface.watchdogS);
         PlantSecurity.requireSignedCommands(security, runner.unitCycles().stream().map(UnitDutyCycle::unit).toList(), clock);
         PlantRunJournal runJournal = null;
@@ -328,7 +329,7 @@ public final class PlantCommand implements Callable<Integer> {
         say(String.format(Locale.ROOT, "plant: %s at %.1f s simulated; step lateness p99 %d µs, max %d µs%s", why,
                 runner.sim().timeS(), runner.lateness().histogramUs().getValueAtPercentile(99),
                 runner.lateness().histogramUs().getMaxValue(),
-                journalDir == null ? "" : "; journal " + journalDir.resolve("plant.jsonl")));
+                (journalDir == null ? "" : "; journal " + journalDir.resolve("plant.jsonl")) + loop.summary()));
         if (security.insecure()) {
             say("plant: INSECURE run (no broker auth, commands unsigned): commands taken per controller "
                     + record.acceptedByController() + "; any id besides the rehearsed controller's is a third party");

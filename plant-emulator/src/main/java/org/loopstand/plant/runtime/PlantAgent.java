@@ -61,6 +61,10 @@ public final class PlantAgent implements Agent {
     private Consumer<PlantAgent> sampler;
     private Runnable cycleWatcher;
     private int unitWork;
+    /** told about each step's unit pass (a publisher that spreads the step's telemetry), or none */
+    private StepPassMarks stepMarks = StepPassMarks.NONE;
+    /** the physics step in wall time at the run's rate, ns */
+    private final long wallStepNanos;
     /** the scenario clock the physics' time is told to after every step (its leash), or null */
     private final HeldStartClock leashed;
 
@@ -76,7 +80,9 @@ public final class PlantAgent implements Agent {
 
         @Override
         public void sampled() {
+            stepMarks.stepPassBegins();
             unitWork += workUnits((int) (p.sim().stepCount() % unitSlices));
+            stepMarks.stepPassEnds(wallStepNanos);
         }
     };
 
@@ -85,6 +91,7 @@ public final class PlantAgent implements Agent {
         // simulated time 0 = the clock's now, the instant the engine below counts its steps from
         parts.physicsEpoch().startAt(parts.clock().epochMillis());
         this.stepNanos = Math.round(parts.sim().stepS() * 1e9);
+        this.wallStepNanos = parts.rate() > 0 ? Math.max(1, Math.round(stepNanos / parts.rate())) : stepNanos;
         this.controls = new BusPlantControls(parts.clock(), parts.physicsEpoch(), parts.plantBus(), parts.topics(),
                 parts.codec(), parts.units());
         this.clockPublisher = new PlantClockPublisher(parts.clock(), parts.plantBus(), parts.topics(), parts.codec(),
@@ -170,6 +177,11 @@ public final class PlantAgent implements Agent {
             throw new IllegalArgumentException("unitScanMs must be in [0, 1000], got " + unitScanMs);
         }
         this.unitSlices = (int) Math.max(1, unitScanMs * 1_000_000L / stepNanos);
+    }
+
+    /** Before start: {@code marks} is told when each step's unit pass begins and ends (loop thread). */
+    public void markStepPasses(StepPassMarks marks) {
+        this.stepMarks = marks;
     }
 
     /** Before start: {@code watcher} runs on the loop's thread after every cycle of a running scenario (cheap). */

@@ -223,6 +223,15 @@ public final class PlantRunner implements AutoCloseable {
         return this;
     }
 
+    /**
+     * Before {@link #start}: {@code marks} (the publisher thread, when it spreads each step's telemetry over
+     * the step) is told when each physics step's unit pass begins and ends.
+     */
+    public PlantRunner markStepPasses(StepPassMarks marks) {
+        agent.markStepPasses(marks);
+        return this;
+    }
+
     /** Starts the loop on its own thread (parks 1 ms when idle). */
     public PlantRunner start() {
         runner = new AgentRunner(agent, 1_000_000L).start();

@@ -50,5 +50,9 @@ class PlantCommandTest {
         assertThatThrownBy(() -> parse("--site", SITE.toString(), "--meter-scan", "west=100")).hasMessageContaining("area 'west'");
         assertThatThrownBy(() -> parse("--site", SITE.toString(), "--rate", "0")).hasMessageContaining("--rate");
         assertThatThrownBy(() -> parse("--site", SITE.toString(), "--watchdog-action", "panic")).hasMessageContaining("--watchdog-action");
+        assertThatThrownBy(() -> parse("--site", SITE.toString(), "--telemetry-pacing", "even"))
+                .hasMessageContaining("--telemetry-pacing must be burst or spread, got even");
+        assertThatThrownBy(() -> parse("--site", SITE.toString(), "--telemetry-pacing", "spread", "--publish-on-loop"))
+                .hasMessageContaining("--telemetry-pacing spread needs the publisher thread");
     }
 }

@@ -79,4 +79,33 @@ class PublisherThreadTest {
         assertThat(publisher.published()).isEqualTo(3);
         assertThat(PublisherThread.unwrap(link)).isNotSameAs(link).isInstanceOf(MessageBus.class);
     }
+
+    @Test
+    void shouldSpreadMarkedStepsTelemetryKeepingEveryMessageAndItsOrder() throws Exception {
+        Inbox inbox = new Inbox();
+        broker.connect("tester").subscribe("loopstand/v1/site-a/#", Qos.AT_LEAST_ONCE, inbox);
+        org.loopstand.protocol.topic.TopicTree topics = org.loopstand.protocol.topic.TopicTree.forSite("site-a");
+        PublisherThread publisher = new PublisherThread(1_000, WallClock.INSTANCE, "test-publisher", TelemetryPacing.SPREAD);
+        MessageBus link = publisher.wrap((id, will) -> broker.connect(id, will)).connect("plant", null);
+        CompletableFuture<Void> last = null;
+        int n = 0;
+        for (int step = 0; step < 5; step++) {
+            publisher.stepPassBegins();
+            for (int u = 0; u < 4; u++) {
+                last = link.publish(OutboundMessage.of(topics.unitTelemetry("u" + u), new byte[] {(byte) n++}, Qos.AT_MOST_ONCE));
+            }
+            publisher.stepPassEnds(2_000_000L); // 2 ms steps: 0.5 ms slots
+        }
+        last = link.publish(OutboundMessage.of(topics.unitAck("u0"), new byte[] {(byte) n++}, Qos.AT_MOST_ONCE));
+        last.get(10, TimeUnit.SECONDS);
+        link.close();
+        assertThat(inbox.messages()).extracting(m -> m.payload()[0] & 0xff)
+                .containsExactlyElementsOf(java.util.stream.IntStream.range(0, 21).boxed().toList());
+        assertThat(publisher.published()).isEqualTo(21);
+        PublisherThread.SpreadCounts c = publisher.spreadCounts();
+        // each of the 20 telemetry messages left in its slot or at once and counted, none lost
+        assertThat(c.spread() + c.atOnceBehind() + c.atOnceDense() + c.earlyForOrder()).isEqualTo(20);
+        assertThat(c.atOnceDense()).isZero();
+        assertThat(new PublisherThread(10, WallClock.INSTANCE, "burst").spreadCounts()).isNull();
+    }
 }
