@@ -36,7 +36,14 @@ public final class HostsBench {
     static final int HOSTS = 4;
     static final int MQTT_PORT = 1883;
     static final int CLUSTER_PORT = 61616;
-    static final String NODE_HEAP = "-Xmx1g";
+    /**
+     * Heap of each node: 1 GB carried 1,000 units; at 10,000 units (5,000 per unit host) nodes n2 and n3 ran out of a
+     * 1 GB heap within two minutes of the units' start (OutOfMemoryError: every unit's retained link state is a queue
+     * of its own on the node where it was published, "$sys.mqtt.retain.…/link", besides the messages in flight).
+     */
+    static String nodeHeap(int units) {
+        return units > 2_000 ? "-Xmx3g" : "-Xmx1g";
+    }
     /** How long the nodes may take, once listening, to connect their cluster bridges to each other, s. */
     static final long CLUSTER_FORM_S = 120;
     /** How long a part may take to connect and have its subscriptions acknowledged, s (see {@link BenchLinks}). */
@@ -139,18 +146,20 @@ public final class HostsBench {
             say.accept("bench: layout hosts, " + s.units() + " units, " + s.areas() + " areas; warm-up " + s.warmupS() + " s");
             LockSupport.parkNanos(Math.round(s.warmupS() * 1e9));
             parts.forEach(p -> p.order("mark"));
-            Map<String, Long> ticksAtMark = ticks(pids);
-            NodeFigures.order(nodes, s.outDir(), "start", clock);
             long t0 = clock.monotonicNanos();
+            Map<String, Long> ticksAtMark = ticks(pids);
+            // the nodes' readings right after the parts' orders (ms apart when the nodes answer at once); a node that
+            // does not answer is reported, its threads dumped, and the run goes on without that reading
+            List<String> silent = new ArrayList<>(NodeFigures.order(nodes, s.outDir(), "start", clock));
             watch(pids, t0);
             double windowS = (clock.monotonicNanos() - t0) / 1e9;
             Map<String, Long> ticksAtEnd = ticks(pids);
-            NodeFigures.order(nodes, s.outDir(), "end", clock);
             Map<String, Long> resident = new LinkedHashMap<>();
             pids.forEach((name, pid) -> resident.put(name, ProcStat.residentBytes(pid)));
             plant.order("end");
             unitHosts.forEach(u -> u.order("end"));
             ctl.order("stop");
+            silent.addAll(NodeFigures.order(nodes, s.outDir(), "end", clock));
             ctl.awaitDone(PART_DONE_S);
             for (PartProcess u : unitHosts) {
                 u.order("stop");
@@ -159,7 +168,10 @@ public final class HostsBench {
             plant.order("stop");
             plant.awaitDone(PART_DONE_S);
             say.accept("bench: every part wrote its figures");
-            NodeFigures.order(nodes, s.outDir(), "final", clock);
+            silent.addAll(NodeFigures.order(nodes, s.outDir(), "final", clock));
+            if (!silent.isEmpty()) {
+                say.accept("bench: broker nodes that wrote no counters when ordered (threads in node-*-threads-*.txt): " + silent);
+            }
             List<NodeFigures> nodeFigures = new ArrayList<>();
             for (int i = 1; i <= 3; i++) {
                 nodeFigures.add(NodeFigures.read(s.outDir(), "n" + i));
@@ -224,7 +236,7 @@ public final class HostsBench {
     }
 
     private Process startNode(NamespaceHosts hosts, int i, Path users) throws IOException {
-        List<String> cmd = hosts.java(i, List.of(NODE_HEAP), "org.loopstand.brokernode.cli.BrokerNodeCli");
+        List<String> cmd = hosts.java(i, List.of(nodeHeap(s.units())), "org.loopstand.brokernode.cli.BrokerNodeCli");
         cmd.addAll(List.of("--name", "n" + i, "--host", hosts.address(i), "--mqtt-port", "" + MQTT_PORT, "--cluster-port",
                 "" + CLUSTER_PORT, "--config", nodeConfig.toString(), "--users", users.toString(), "--cluster-password-file",
                 s.outDir().resolve("cluster.password").toString(), "--work-dir", s.outDir().resolve("n" + i).toString(),

@@ -87,6 +87,10 @@ public record HostsResult(BenchSettings settings, double windowS, Map<String, Do
                 "metersOutOfOrder")) {
             seq.put(k, ctl.counters().getOrDefault(k, -1L));
         }
+        // a message that comes after a later one of its source is counted missing when the later one is taken, then
+        // out of order when it comes: missing − out of order is what never came (duplicates aside)
+        seq.put("telemetryNeverArrived", Math.max(0, seq.get("telemetryMissing") - Math.max(0, seq.get("telemetryOutOfOrder"))));
+        seq.put("metersNeverArrived", Math.max(0, seq.get("metersMissing") - Math.max(0, seq.get("metersOutOfOrder"))));
         Histogram latency = new Histogram(3);
         Map<String, Map<String, Long>> perHost = new LinkedHashMap<>();
         Map<String, Long> heap = new LinkedHashMap<>();
@@ -181,8 +185,10 @@ public record HostsResult(BenchSettings settings, double windowS, Map<String, Do
         long mMissing = inputSeq.get("metersMissing");
         out.printf(Locale.ROOT, "telemetry at the controller: %d taken, %d missing by seq (%.3f %%); meters: %d taken, %d missing"
                 + " (%.3f %%)%n", tTaken, tMissing, pct(tMissing, tTaken + tMissing), mTaken, mMissing, pct(mMissing, mTaken + mMissing));
-        out.printf(Locale.ROOT, "  arrived out of order (behind a later seq of the same source, not used): telemetry %d, meters %d%n",
-                inputSeq.get("telemetryOutOfOrder"), inputSeq.get("metersOutOfOrder"));
+        out.printf(Locale.ROOT, "  of them arrived late (behind a later seq of the same source; the controller does not use them):"
+                + " telemetry %d, meters %d; so never arrived: telemetry %d, meters %d%n",
+                inputSeq.get("telemetryOutOfOrder"), inputSeq.get("metersOutOfOrder"),
+                inputSeq.get("telemetryNeverArrived"), inputSeq.get("metersNeverArrived"));
         out.printf(Locale.ROOT, "command latency issuedAt → unit host, ms: p50 %d, p99 %d, max %d (%d commands)%n",
                 latencyMs.getValueAtPercentile(50), latencyMs.getValueAtPercentile(99), latencyMs.getMaxValue(),
                 latencyMs.getTotalCount());

@@ -24,26 +24,50 @@ import org.loopstand.protocol.time.Clock;
  *
  * @param name    n1, n2, n3
  * @param nodeId  the node's cluster id (its peers' bridge queues towards it are named by it)
- * @param window  end − start of every counter; gauges (what queues hold, address sizes) at the window's end
+ * @param window  end − start of every counter; gauges (what queues hold, address sizes) at the window's end, and
+ *                at its start as {@code atStart.gauge.…}
  * @param whole   every counter at the final reading (from the node's start)
  */
 record NodeFigures(String name, String nodeId, Map<String, Long> window, Map<String, Long> whole) {
 
-    /** Orders a reading on every node and waits for the files. */
-    static void order(List<Process> nodes, Path dir, String label, Clock clock) throws IOException {
+    /** How long a node may take to write a reading, s (a starved node took more than 30 s at load 30). */
+    static final long READING_WAIT_S = 90;
+
+    /**
+     * Orders a reading on every node and waits for the files.
+     *
+     * @return the nodes (n1..) that wrote none within {@link #READING_WAIT_S}: their threads are dumped to
+     *         {@code node-NAME-threads-LABEL.txt} and the run goes on without that reading
+     */
+    static List<String> order(List<Process> nodes, Path dir, String label, Clock clock) throws IOException {
         for (int i = 0; i < nodes.size(); i++) {
             Files.deleteIfExists(file(dir, "n" + (i + 1), label));
             PrintWriter w = new PrintWriter(nodes.get(i).getOutputStream(), true, StandardCharsets.UTF_8);
             w.println("counters " + label);
         }
-        long until = clock.monotonicNanos() + 30_000_000_000L;
+        long until = clock.monotonicNanos() + READING_WAIT_S * 1_000_000_000L;
+        List<String> silent = new java.util.ArrayList<>();
         for (int i = 0; i < nodes.size(); i++) {
-            while (!Files.exists(file(dir, "n" + (i + 1), label))) {
-                if (clock.monotonicNanos() > until) {
-                    throw new IllegalStateException("node n" + (i + 1) + " wrote no counters '" + label + "' within 30 s");
-                }
+            String name = "n" + (i + 1);
+            while (!Files.exists(file(dir, name, label)) && clock.monotonicNanos() < until) {
                 LockSupport.parkNanos(50_000_000L);
             }
+            if (!Files.exists(file(dir, name, label))) {
+                silent.add(name);
+                dumpThreads(nodes.get(i), dir.resolve("node-" + name + "-threads-" + label + ".txt"));
+            }
+        }
+        return silent;
+    }
+
+    private static void dumpThreads(Process node, Path out) {
+        try {
+            new ProcessBuilder("jcmd", Long.toString(node.pid()), "Thread.print").redirectErrorStream(true)
+                    .redirectOutput(out.toFile()).start().waitFor(60, java.util.concurrent.TimeUnit.SECONDS);
+        } catch (IOException e) {
+            // no jcmd: the missing reading is reported all the same
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
         }
     }
 
@@ -59,9 +83,13 @@ record NodeFigures(String name, String nodeId, Map<String, Long> window, Map<Str
         long t0 = clock.monotonicNanos();
         for (int k = 0; ; k++) {
             String label = "formed-" + k;
-            order(nodes, dir, label, clock);
+            List<String> silent = order(nodes, dir, label, clock);
             StringBuilder shortOf = new StringBuilder();
             for (int i = 1; i <= nodes.size(); i++) {
+                if (silent.contains("n" + i)) {
+                    shortOf.append(" n").append(i).append(" did not answer");
+                    continue;
+                }
                 long b = Long.parseLong(load(file(dir, "n" + i, label)).getOrDefault("gauge.bridgesConnected", "0"));
                 if (b < nodes.size() - 1) {
                     shortOf.append(" n").append(i).append(" has ").append(b).append(" of ").append(nodes.size() - 1);
@@ -84,10 +112,11 @@ record NodeFigures(String name, String nodeId, Map<String, Long> window, Map<Str
         return dir.resolve("counters-" + node + "-" + label + ".properties");
     }
 
+    /** @return the node's figures; a reading it did not write counts as empty (its figures then read 0 or −1) */
     static NodeFigures read(Path dir, String node) throws IOException {
-        Map<String, String> start = load(file(dir, node, "start"));
-        Map<String, String> end = load(file(dir, node, "end"));
-        Map<String, String> last = load(file(dir, node, "final"));
+        Map<String, String> start = loadIfWritten(file(dir, node, "start"));
+        Map<String, String> end = loadIfWritten(file(dir, node, "end"));
+        Map<String, String> last = loadIfWritten(file(dir, node, "final"));
         Map<String, Long> window = new TreeMap<>();
         for (Map.Entry<String, String> e : end.entrySet()) {
             if (e.getKey().equals("nodeId")) {
@@ -96,13 +125,28 @@ record NodeFigures(String name, String nodeId, Map<String, Long> window, Map<Str
             long v = Long.parseLong(e.getValue());
             window.put(e.getKey(), e.getKey().startsWith("gauge.") ? v : v - Long.parseLong(start.getOrDefault(e.getKey(), "0")));
         }
+        // what sat in the queues when the window started: a backlog left from the set-up drains into the window
+        start.forEach((k, v) -> {
+            if (k.startsWith("gauge.")) {
+                window.put("atStart." + k, Long.parseLong(v));
+            }
+        });
         Map<String, Long> whole = new TreeMap<>();
         last.forEach((k, v) -> {
             if (!k.equals("nodeId")) {
                 whole.put(k, Long.parseLong(v));
             }
         });
-        return new NodeFigures(node, end.get("nodeId"), window, whole);
+        String id = end.getOrDefault("nodeId", last.getOrDefault("nodeId", start.getOrDefault("nodeId", "?")));
+        if (start.isEmpty() || end.isEmpty()) {
+            window.clear();
+            window.put("readingMissing", 1L);
+        }
+        return new NodeFigures(node, id, window, whole);
+    }
+
+    private static Map<String, String> loadIfWritten(Path f) throws IOException {
+        return Files.exists(f) ? load(f) : new TreeMap<>();
     }
 
     private static Map<String, String> load(Path f) throws IOException {
@@ -136,6 +180,9 @@ record NodeFigures(String name, String nodeId, Map<String, Long> window, Map<Str
      */
     Map<String, Long> summary(Map<String, String> names) {
         Map<String, Long> s = new LinkedHashMap<>();
+        if (window.containsKey("readingMissing")) {
+            s.put("readingMissing", 1L);
+        }
         s.put("fromClients", windowSum("count.in.client.", ""));
         s.put("fromPeers", windowSum("count.in.peer.", ""));
         s.put("noSubscriber", windowSum("count.noSubscriber.", ""));
@@ -150,12 +197,15 @@ record NodeFigures(String name, String nodeId, Map<String, Long> window, Map<Str
         s.put("expired", windowSum("count.expired.", ""));
         s.put("expiredCommands", windowSum("count.expired.", ".command"));
         s.put("killed", windowSum("count.killed.", ""));
+        s.put("heldInSubscriptionsAtStart", windowSum("atStart.gauge.queue.subscription.", ".held"));
+        s.put("heldInBridgesAtStart", windowSum("atStart.gauge.queue.bridge.", ".held"));
         s.put("heldInSubscriptionsAtEnd", windowSum("gauge.queue.subscription.", ".held"));
         s.put("heldInBridgesAtEnd", windowSum("gauge.queue.bridge.", ".held"));
         s.put("addressesFullAtEnd", window.getOrDefault("gauge.addressesFull", 0L));
         s.put("bridgesConnectedAtEnd", window.getOrDefault("gauge.bridgesConnected", -1L));
         s.put("addressBytesMaxAtEnd", window.getOrDefault("gauge.addressBytesMax", 0L));
         s.put("commandsExpiredWholeRun", wholeSum("count.expired.", ".command"));
+        s.put("commandsFromClientsWholeRun", wholeSum("count.in.client.command", ""));
         return s;
     }
 

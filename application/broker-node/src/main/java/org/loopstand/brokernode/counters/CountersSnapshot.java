@@ -72,17 +72,14 @@ public final class CountersSnapshot {
                 biggest = Math.max(biggest, ps.getAddressSize());
             }
         }
-        // the cluster as this node sees it: bridges towards peers that are connected now, nodes it knows
+        // the cluster as this node sees it: bridges towards peers that are connected now
         long bridges = 0;
-        long known = 0;
         for (ClusterConnection cc : server.getClusterManager().getClusterConnections()) {
             for (Bridge b : cc.getBridges()) {
                 bridges += b.isConnected() ? 1 : 0;
             }
-            known = Math.max(known, cc.getNodes().size());
         }
         m.put("gauge.bridgesConnected", bridges);
-        m.put("gauge.peersKnown", known);
         m.put("gauge.addressesFull", full);
         m.put("gauge.addressBytesMax", biggest);
         return m;
