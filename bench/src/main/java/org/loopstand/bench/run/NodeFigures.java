@@ -142,6 +142,11 @@ record NodeFigures(String name, String nodeId, Map<String, Long> window, Map<Str
             window.clear();
             window.put("readingMissing", 1L);
         }
+        // Artemis counts no message its DROP policy dropped; it logs AMQ222039 when an address becomes full
+        Path log = dir.resolve("node-" + node + ".log");
+        long full = Files.exists(log) ? Files.readAllLines(log, StandardCharsets.UTF_8).stream()
+                .filter(l -> l.contains("AMQ222039")).count() : -1;
+        whole.put("log.addressFullDropping", full);
         return new NodeFigures(node, id, window, whole);
     }
 
@@ -155,7 +160,9 @@ record NodeFigures(String name, String nodeId, Map<String, Long> window, Map<Str
             p.load(r);
         }
         Map<String, String> m = new TreeMap<>();
-        p.stringPropertyNames().forEach(k -> m.put(k, p.getProperty(k)));
+        // a value that is not a number (a key that held '=' before families were cleaned) is left out
+        p.stringPropertyNames().stream().filter(k -> k.equals("nodeId") || p.getProperty(k).matches("-?\\d+"))
+                .forEach(k -> m.put(k, p.getProperty(k)));
         return m;
     }
 
@@ -206,6 +213,7 @@ record NodeFigures(String name, String nodeId, Map<String, Long> window, Map<Str
         s.put("addressBytesMaxAtEnd", window.getOrDefault("gauge.addressBytesMax", 0L));
         s.put("commandsExpiredWholeRun", wholeSum("count.expired.", ".command"));
         s.put("commandsFromClientsWholeRun", wholeSum("count.in.client.command", ""));
+        s.put("addressesDroppingWholeRun", whole.getOrDefault("log.addressFullDropping", -1L));
         return s;
     }
 

@@ -28,6 +28,8 @@ public final class NodeCounters implements ActiveMQServerMessagePlugin {
     public static String family(String address) {
         int cut = Math.max(address.lastIndexOf('.'), address.lastIndexOf('/'));
         String f = cut < 0 ? address : address.substring(cut + 1);
+        // it becomes part of a key=value line: Artemis's own addresses hold '=' (…ActiveMQServerImpl_name=n3)
+        f = f.replaceAll("[^A-Za-z0-9_*#+-]", "_");
         return f.isEmpty() ? "-" : f;
     }
 
