@@ -49,7 +49,7 @@ public final class NodeCounters implements ActiveMQServerMessagePlugin {
         String protocol = session == null || session.getRemotingConnection() == null ? "internal"
                 : session.getRemotingConnection().getProtocolName();
         // Artemis names an MQTT connection's protocol with its version ("MQTT" + version); bridges speak CORE
-        String from = protocol.toUpperCase(java.util.Locale.ROOT).startsWith("MQTT") ? "client" : "peer";
+        String from = protocol != null && protocol.toUpperCase(java.util.Locale.ROOT).startsWith("MQTT") ? "client" : "peer";
         String outcome = switch (result == null ? RoutingStatus.OK : result) {
             case OK -> "in";
             case NO_BINDINGS -> "noSubscriber";
