@@ -13,6 +13,8 @@ import org.apache.activemq.artemis.core.config.impl.SecurityConfiguration;
 import org.apache.activemq.artemis.core.server.embedded.EmbeddedActiveMQ;
 import org.apache.activemq.artemis.spi.core.security.ActiveMQJAASSecurityManager;
 import org.apache.activemq.artemis.spi.core.security.jaas.InVMLoginModule;
+import org.loopstand.brokernode.counters.CountersSnapshot;
+import org.loopstand.brokernode.counters.NodeCounters;
 import org.loopstand.protocol.security.LinkSecurity;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
@@ -30,6 +32,7 @@ public final class BrokerNode implements AutoCloseable {
 
     private final BrokerNodeSettings settings;
     private final EmbeddedActiveMQ server = new EmbeddedActiveMQ();
+    private final NodeCounters counters = new NodeCounters();
 
     private BrokerNode(BrokerNodeSettings settings) {
         this.settings = settings;
@@ -59,6 +62,7 @@ public final class BrokerNode implements AutoCloseable {
         node.server.setSecurityManager(new ActiveMQJAASSecurityManager(InVMLoginModule.class.getName(),
                 node.securityConfiguration(clusterPassword)));
         node.server.start();
+        node.server.getActiveMQServer().registerBrokerPlugin(node.counters);
         LOG.info("broker node {} listening on {} (cluster port {}, peers {}, {})", settings.nodeName(),
                 settings.mqttUri(), settings.clusterPort(), settings.peers(),
                 settings.insecure() ? "no login" : "login required");
@@ -118,6 +122,20 @@ public final class BrokerNode implements AutoCloseable {
             throw new IllegalArgumentException(option + " " + file + ":1: the first line is empty");
         }
         return first;
+    }
+
+    /**
+     * Writes this node's counters now ({@link CountersSnapshot}): what its clients and peers sent it, what its
+     * queues took, delivered, expired and killed, by topic family.
+     */
+    public void writeCounters(Path file) throws Exception {
+        CountersSnapshot.write(file, server.getActiveMQServer().getNodeID().toString(),
+                CountersSnapshot.read(server.getActiveMQServer(), counters));
+    }
+
+    /** @return the cluster's id of this node (a peer's bridge queue towards it is named by it) */
+    public String nodeId() {
+        return server.getActiveMQServer().getNodeID().toString();
     }
 
     public BrokerNodeSettings settings() {

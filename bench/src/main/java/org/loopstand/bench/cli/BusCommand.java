@@ -56,10 +56,11 @@ public final class BusCommand implements Callable<Integer> {
     @Option(names = "--intake-connections", defaultValue = "2", description = "controller connections sharing the intake (default ${DEFAULT-VALUE})")
     int intakeConnections;
 
-    @Option(names = "--telemetry-ms", defaultValue = "1000", description = "unit telemetry period, ms (default ${DEFAULT-VALUE})")
+    @Option(names = "--telemetry-ms", defaultValue = "1000", description = "unit telemetry period, ms, 10..9000 (the controller takes a reading for 10 s at most);"
+            + " --layout hosts: each unit host's units publish at it (default ${DEFAULT-VALUE})")
     long telemetryMs;
 
-    @Option(names = {"--meter-scan-ms", "--meter-ms"}, defaultValue = "2000", description = "area meter period, ms (default ${DEFAULT-VALUE})")
+    @Option(names = {"--meter-scan-ms", "--meter-ms"}, defaultValue = "2000", description = "area meter period, ms, 10..9000 (default ${DEFAULT-VALUE})")
     long meterMs;
 
     @Option(names = "--cycle-s", defaultValue = "4", description = "controller cycle, s (default ${DEFAULT-VALUE})")

@@ -15,8 +15,8 @@ import org.loopstand.plant.runtime.ConnectionGrouping;
  * @param grouping           plant connection grouping
  * @param poolSize           connections for the pooled grouping, ≥ 1
  * @param intakeConnections  controller connections sharing the intake subscriptions, ≥ 1
- * @param telemetryScanMs    unit telemetry period, ms
- * @param meterScanMs        area meter period, ms
+ * @param telemetryScanMs    unit telemetry period, ms, {@value #MIN_SCAN_MS}..{@value #MAX_SCAN_MS}
+ * @param meterScanMs        area meter period, ms, the same range
  * @param cycleS             controller cycle, s
  * @param sampleS            heap/CPU sample period, s, > 0
  * @param raw                run the raw Paho loop beside the rig
@@ -43,6 +43,18 @@ public record BenchSettings(int units, int areas, double durationS, double warmu
                             long fieldScanMs, PlantPublishing plantPacing) {
     /** The file in the run folder whose first line is the password of {@link #brokerUser}. */
     public static final String BROKER_PASSWORD_FILE = "broker-login.password";
+    /** The controller's default age limit of unit telemetry and meter readings, ms (ControllerSettings). */
+    public static final long CONTROLLER_TELEMETRY_AGE_MS = 10_000;
+    /** Longest field reading period (layout hosts), ms. */
+    public static final long MAX_FIELD_SCAN_MS = 60_000;
+    /** Shortest telemetry and meter period, ms. */
+    public static final long MIN_SCAN_MS = 10;
+    /**
+     * Longest telemetry and meter period, ms: the controller takes an area meter reading for at most 10 s (its inputs'
+     * default age limit), so a longer period leaves an area stale between readings; 9 s leaves a second for the way
+     * there. (Unit telemetry: see {@link #unitTelemetryMaxAgeMs}.)
+     */
+    public static final long MAX_SCAN_MS = 9_000;
 
     /** Where plant and controller run. */
     public enum Layout {
@@ -132,8 +144,14 @@ public record BenchSettings(int units, int areas, double durationS, double warmu
         if (!(durationS > 0) || warmupS < 0 || !(sampleS > 0)) {
             throw new IllegalArgumentException("duration and sample period must be > 0, warm-up ≥ 0");
         }
-        if (fieldScanMs < 1) {
-            throw new IllegalArgumentException("field scan period must be ≥ 1 ms, got " + fieldScanMs);
+        if (telemetryScanMs < MIN_SCAN_MS || telemetryScanMs > MAX_SCAN_MS || meterScanMs < MIN_SCAN_MS
+                || meterScanMs > MAX_SCAN_MS) {
+            throw new IllegalArgumentException("telemetry and meter periods must be " + MIN_SCAN_MS + ".." + MAX_SCAN_MS
+                    + " ms (the controller's 10 s age limit), got " + telemetryScanMs + " and " + meterScanMs);
+        }
+        if (fieldScanMs < 1 || fieldScanMs > MAX_FIELD_SCAN_MS) {
+            throw new IllegalArgumentException("field scan period must be ≥ 1 ms and ≤ " + MAX_FIELD_SCAN_MS + " ms, got "
+                    + fieldScanMs);
         }
         if (poolSize < 1 || intakeConnections < 1) {
             throw new IllegalArgumentException("pool size and intake connections must be ≥ 1");
@@ -141,6 +159,20 @@ public record BenchSettings(int units, int areas, double durationS, double warmu
         if (layout == null || rawPacing == null || partJvmOpts == null || brokerUser == null || plantPacing == null) {
             throw new IllegalArgumentException("layout, raw pacing, plant pacing, part JVM options and broker user are required");
         }
+    }
+
+    /**
+     * Layout hosts: a unit's telemetry reports the turbine reading the plant last sent it and carries that reading's
+     * time, so its age at the controller reaches the field period plus the telemetry period plus the way through the
+     * cluster (4 s allowed here, seen up to ≈ 1 s at load 26). The generated site sets the controller's
+     * {@code unitTelemetryMaxAgeMs} to that when it is above the controller's 10 s default, so that slower periods
+     * chosen to fit the cluster do not make every unit ineligible; a real site with slow scans must do the same.
+     *
+     * @return the unit telemetry age limit the generated site asks of the controller, ms
+     */
+    public long unitTelemetryMaxAgeMs() {
+        long needed = layout == Layout.HOSTS ? telemetryScanMs + fieldScanMs + 4_000 : telemetryScanMs + 4_000;
+        return Math.max(CONTROLLER_TELEMETRY_AGE_MS, needed);
     }
 
     /** @return total measured-value messages per second the plant sends (telemetry + meters) */

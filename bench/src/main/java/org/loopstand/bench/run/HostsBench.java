@@ -16,6 +16,9 @@ import java.util.concurrent.locks.LockSupport;
 import java.util.function.Consumer;
 import org.loopstand.bench.site.SiteGenerator;
 import org.loopstand.brokernode.hosts.NamespaceHosts;
+import org.loopstand.plant.grid.GeneratingUnit;
+import org.loopstand.plant.grid.Grid;
+import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.protocol.time.Clock;
 import org.loopstand.protocol.time.WallClock;
 
@@ -33,7 +36,16 @@ public final class HostsBench {
     static final int HOSTS = 4;
     static final int MQTT_PORT = 1883;
     static final int CLUSTER_PORT = 61616;
-    static final String NODE_HEAP = "-Xmx1g";
+    /**
+     * Heap of each node: 1 GB carried 1,000 units; at 10,000 units (5,000 per unit host) nodes n2 and n3 ran out of a
+     * 1 GB heap within two minutes of the units' start (OutOfMemoryError: every unit's retained link state is a queue
+     * of its own on the node where it was published, "$sys.mqtt.retain.…/link", besides the messages in flight).
+     */
+    static String nodeHeap(int units) {
+        return units > 2_000 ? "-Xmx3g" : "-Xmx1g";
+    }
+    /** How long the nodes may take, once listening, to connect their cluster bridges to each other, s. */
+    static final long CLUSTER_FORM_S = 120;
     /** How long a part may take to connect and have its subscriptions acknowledged, s (see {@link BenchLinks}). */
     static final long PART_READY_S = 1_200;
     /**
@@ -82,7 +94,8 @@ public final class HostsBench {
         }
         double loadBefore = ProcStat.loadAverage1Min();
         String siteId = "bench-" + s.units();
-        SiteGenerator.write(s.outDir().resolve("site.yaml"), siteId, s.units(), s.areas(), s.cycleS());
+        SiteGenerator.write(s.outDir().resolve("site.yaml"), siteId, s.units(), s.areas(), s.cycleS(),
+                s.unitTelemetryMaxAgeMs() > BenchSettings.CONTROLLER_TELEMETRY_AGE_MS ? s.unitTelemetryMaxAgeMs() : 0);
         Path settingsFile = s.outDir().resolve("bench-settings.properties");
         SettingsFile.write(s, settingsFile);
         Path users = writeLogins();
@@ -104,6 +117,9 @@ public final class HostsBench {
                 awaitLine(s.outDir().resolve("node-n" + i + ".log"), "broker node n" + i + " listening", nodes.get(i - 1));
             }
             say.accept("bench: three broker nodes up on hosts A, B, C (" + hosts.address(1) + ".." + hosts.address(3) + ")");
+            double formedS = NodeFigures.awaitCluster(nodes, s.outDir(), CLUSTER_FORM_S, clock);
+            say.accept(String.format(Locale.ROOT, "bench: cluster formed (every node's bridges to both peers connected)"
+                    + " %.1f s after the last node listened", formedS));
             // one after the other: each subscribes what it needs, which the nodes set up one queue at a time
             Map<String, Double> readyS = new LinkedHashMap<>();
             long started = clock.monotonicNanos();
@@ -130,8 +146,11 @@ public final class HostsBench {
             say.accept("bench: layout hosts, " + s.units() + " units, " + s.areas() + " areas; warm-up " + s.warmupS() + " s");
             LockSupport.parkNanos(Math.round(s.warmupS() * 1e9));
             parts.forEach(p -> p.order("mark"));
-            Map<String, Long> ticksAtMark = ticks(pids);
             long t0 = clock.monotonicNanos();
+            Map<String, Long> ticksAtMark = ticks(pids);
+            // the nodes' readings right after the parts' orders (ms apart when the nodes answer at once); a node that
+            // does not answer is reported, its threads dumped, and the run goes on without that reading
+            List<String> silent = new ArrayList<>(NodeFigures.order(nodes, s.outDir(), "start", clock));
             watch(pids, t0);
             double windowS = (clock.monotonicNanos() - t0) / 1e9;
             Map<String, Long> ticksAtEnd = ticks(pids);
@@ -140,6 +159,7 @@ public final class HostsBench {
             plant.order("end");
             unitHosts.forEach(u -> u.order("end"));
             ctl.order("stop");
+            silent.addAll(NodeFigures.order(nodes, s.outDir(), "end", clock));
             ctl.awaitDone(PART_DONE_S);
             for (PartProcess u : unitHosts) {
                 u.order("stop");
@@ -148,12 +168,21 @@ public final class HostsBench {
             plant.order("stop");
             plant.awaitDone(PART_DONE_S);
             say.accept("bench: every part wrote its figures");
+            silent.addAll(NodeFigures.order(nodes, s.outDir(), "final", clock));
+            if (!silent.isEmpty()) {
+                say.accept("bench: broker nodes that wrote no counters when ordered (threads in node-*-threads-*.txt): " + silent);
+            }
+            List<NodeFigures> nodeFigures = new ArrayList<>();
+            for (int i = 1; i <= 3; i++) {
+                nodeFigures.add(NodeFigures.read(s.outDir(), "n" + i));
+            }
             Map<String, Double> cpuPct = new LinkedHashMap<>();
             pids.keySet().forEach(name -> cpuPct.put(name, ticksAtEnd.get(name) < 0 || ticksAtMark.get(name) < 0 ? Double.NaN
                     : 100.0 * (ticksAtEnd.get(name) - ticksAtMark.get(name)) / ProcStat.CLOCK_TICKS_PER_S / windowS));
             return HostsResult.of(s, windowS, cpuPct, resident, readyS, loadBefore, ProcStat.loadAverage1Min(),
                     PartFigures.read(s.outDir(), "plant"), PartFigures.read(s.outDir(), "controller"),
-                    List.of(PartFigures.read(s.outDir(), "units-0"), PartFigures.read(s.outDir(), "units-1")));
+                    List.of(PartFigures.read(s.outDir(), "units-0"), PartFigures.read(s.outDir(), "units-1")), nodeFigures,
+                    commandsExpiredTowardsTheirUnit(siteId, nodeFigures));
         } finally {
             for (PartProcess p : parts) {
                 p.close();
@@ -168,6 +197,23 @@ public final class HostsBench {
             }
             hosts.close();
         }
+    }
+
+    /**
+     * @return commands the nodes expired on the way to their unit's own host over the whole run (units-0 connects
+     *         first to n2, units-1 to n3)
+     */
+    private long commandsExpiredTowardsTheirUnit(String siteId, List<NodeFigures> nodes) throws IOException {
+        Grid grid = SiteLoader.load(s.outDir().resolve("site.yaml"));
+        Map<String, Integer> hostOfUnit = new java.util.HashMap<>();
+        for (int h = 0; h < 2; h++) {
+            for (GeneratingUnit u : UnitHost.share(grid, h, 2)) {
+                hostOfUnit.put(u.id(), h);
+            }
+        }
+        return NodeFigures.commandsExpiredTowardsTheirUnit(nodes, hostOfUnit,
+                List.of(UnitHost.clientIdPrefix(siteId, 0), UnitHost.clientIdPrefix(siteId, 1)),
+                List.of(nodes.get(1).nodeId(), nodes.get(2).nodeId()));
     }
 
     /** Notes how long a part took from its start to ready (JVM start, connect, every SUBACK); @return it, said */
@@ -190,10 +236,11 @@ public final class HostsBench {
     }
 
     private Process startNode(NamespaceHosts hosts, int i, Path users) throws IOException {
-        List<String> cmd = hosts.java(i, List.of(NODE_HEAP), "org.loopstand.brokernode.cli.BrokerNodeCli");
+        List<String> cmd = hosts.java(i, List.of(nodeHeap(s.units())), "org.loopstand.brokernode.cli.BrokerNodeCli");
         cmd.addAll(List.of("--name", "n" + i, "--host", hosts.address(i), "--mqtt-port", "" + MQTT_PORT, "--cluster-port",
                 "" + CLUSTER_PORT, "--config", nodeConfig.toString(), "--users", users.toString(), "--cluster-password-file",
-                s.outDir().resolve("cluster.password").toString(), "--work-dir", s.outDir().resolve("n" + i).toString()));
+                s.outDir().resolve("cluster.password").toString(), "--work-dir", s.outDir().resolve("n" + i).toString(),
+                "--counters-dir", s.outDir().toString()));
         for (int j = 1; j <= 3; j++) {
             if (j != i) {
                 cmd.addAll(List.of("--peer", hosts.address(j) + ":" + CLUSTER_PORT));

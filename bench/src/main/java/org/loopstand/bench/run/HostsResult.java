@@ -33,17 +33,22 @@ import org.HdrHistogram.Histogram;
  * @param heapAfterGcBytes the largest heap after GC each part sampled (not the broker nodes)
  * @param load1MinBefore machine's 1-minute load average before the run
  * @param load1MinAfter  and after the window
+ * @param nodes         each broker node's own figures over the window ({@link NodeFigures#summary}): messages in from
+ *                      clients and peers, delivered to clients, forwarded to peers, expired, killed, held at the end
+ * @param nodeFamilies  each node's window counts by topic family
  */
 public record HostsResult(BenchSettings settings, double windowS, Map<String, Double> ratesPerS, Map<String, Long> commands,
                           Map<String, Long> acksRejected, Map<String, Long> inputSeq, Histogram latencyMs,
                           Map<String, Map<String, Long>> unitsPerHost, Map<String, Double> cpuPct,
                           Map<String, Long> residentBytes, Map<String, Double> readyS, Map<String, Long> heapAfterGcBytes,
                           double load1MinBefore,
-                          double load1MinAfter, String plantFailure) {
+                          double load1MinAfter, String plantFailure, Map<String, Map<String, Long>> nodes,
+                          Map<String, Map<String, Map<String, Long>>> nodeFamilies) {
 
     static HostsResult of(BenchSettings s, double windowS, Map<String, Double> cpuPct, Map<String, Long> resident,
                           Map<String, Double> readyS,
-                          double loadBefore, double loadAfter, PartFigures plant, PartFigures ctl, List<PartFigures> units) {
+                          double loadBefore, double loadAfter, PartFigures plant, PartFigures ctl, List<PartFigures> units,
+                          List<NodeFigures> nodeFigures, long commandsExpiredInBroker) {
         Map<String, Double> rates = new LinkedHashMap<>();
         rates.put("telemetry published (unit hosts)", sum(units, "telemetryPublishedInWindow") / windowS);
         rates.put("telemetry received (controller)", ctl.counter("telemetryReceivedInWindow") / windowS);
@@ -64,7 +69,10 @@ public record HostsResult(BenchSettings settings, double windowS, Map<String, Do
         commands.put("arrived", arrived);
         commands.put("acksPublished", (long) sum(units, "acksPublished"));
         commands.put("acksReceived", ctl.counter("acksReceived"));
-        commands.put("lost", Math.max(0, sent - arrived));
+        // a command a node expired (its MQTT expiry, the command's validity, ran out in a queue) was not lost: the
+        // node did what it was told; lost is what is left unaccounted
+        commands.put("expiredInBroker", commandsExpiredInBroker);
+        commands.put("lost", Math.max(0, sent - arrived - commandsExpiredInBroker));
         commands.put("duplicates", Math.max(0, arrived - sent));
         Map<String, Long> rejected = new LinkedHashMap<>();
         for (PartFigures u : units) {
@@ -75,9 +83,14 @@ public record HostsResult(BenchSettings settings, double windowS, Map<String, Do
             });
         }
         Map<String, Long> seq = new LinkedHashMap<>();
-        for (String k : List.of("telemetryTaken", "telemetryMissing", "metersTaken", "metersMissing")) {
-            seq.put(k, ctl.counter(k));
+        for (String k : List.of("telemetryTaken", "telemetryMissing", "metersTaken", "metersMissing", "telemetryOutOfOrder",
+                "metersOutOfOrder")) {
+            seq.put(k, ctl.counters().getOrDefault(k, -1L));
         }
+        // a message that comes after a later one of its source is counted missing when the later one is taken, then
+        // out of order when it comes: missing − out of order is what never came (duplicates aside)
+        seq.put("telemetryNeverArrived", Math.max(0, seq.get("telemetryMissing") - Math.max(0, seq.get("telemetryOutOfOrder"))));
+        seq.put("metersNeverArrived", Math.max(0, seq.get("metersMissing") - Math.max(0, seq.get("metersOutOfOrder"))));
         Histogram latency = new Histogram(3);
         Map<String, Map<String, Long>> perHost = new LinkedHashMap<>();
         Map<String, Long> heap = new LinkedHashMap<>();
@@ -91,8 +104,16 @@ public record HostsResult(BenchSettings settings, double windowS, Map<String, Do
             heap.put("units-" + i, maxHeap(u));
         }
         heap.put("controller", maxHeap(ctl));
+        Map<String, String> names = new LinkedHashMap<>();
+        nodeFigures.forEach(n -> names.put(n.nodeId(), n.name()));
+        Map<String, Map<String, Long>> nodes = new LinkedHashMap<>();
+        Map<String, Map<String, Map<String, Long>>> families = new LinkedHashMap<>();
+        for (NodeFigures n : nodeFigures) {
+            nodes.put(n.name(), n.summary(names));
+            families.put(n.name(), n.byFamily());
+        }
         return new HostsResult(s, windowS, rates, commands, rejected, seq, latency, perHost, cpuPct, resident, readyS, heap,
-                loadBefore, loadAfter, plant.failure());
+                loadBefore, loadAfter, plant.failure(), nodes, families);
     }
 
     private static double sum(List<PartFigures> parts, String counter) {
@@ -143,6 +164,8 @@ public record HostsResult(BenchSettings settings, double windowS, Map<String, Do
         json.put("load1MinBefore", load1MinBefore);
         json.put("load1MinAfter", load1MinAfter);
         json.put("plantFailure", plantFailure);
+        json.put("brokerNodes", nodes);
+        json.put("brokerNodesByFamily", nodeFamilies);
         new ObjectMapper().enable(SerializationFeature.INDENT_OUTPUT).writeValue(dir.resolve("hosts-result.json").toFile(), json);
         try (PrintStream out = new PrintStream(Files.newOutputStream(dir.resolve("hosts-table.txt")), true, "UTF-8")) {
             print(out);
@@ -162,6 +185,10 @@ public record HostsResult(BenchSettings settings, double windowS, Map<String, Do
         long mMissing = inputSeq.get("metersMissing");
         out.printf(Locale.ROOT, "telemetry at the controller: %d taken, %d missing by seq (%.3f %%); meters: %d taken, %d missing"
                 + " (%.3f %%)%n", tTaken, tMissing, pct(tMissing, tTaken + tMissing), mTaken, mMissing, pct(mMissing, mTaken + mMissing));
+        out.printf(Locale.ROOT, "  of them arrived late (behind a later seq of the same source; the controller does not use them):"
+                + " telemetry %d, meters %d; so never arrived: telemetry %d, meters %d%n",
+                inputSeq.get("telemetryOutOfOrder"), inputSeq.get("metersOutOfOrder"),
+                inputSeq.get("telemetryNeverArrived"), inputSeq.get("metersNeverArrived"));
         out.printf(Locale.ROOT, "command latency issuedAt → unit host, ms: p50 %d, p99 %d, max %d (%d commands)%n",
                 latencyMs.getValueAtPercentile(50), latencyMs.getValueAtPercentile(99), latencyMs.getMaxValue(),
                 latencyMs.getTotalCount());
@@ -175,6 +202,10 @@ public record HostsResult(BenchSettings settings, double windowS, Map<String, Do
             out.printf(Locale.ROOT, "  %-14s %12.1f %13.0f %15s%n", name, pctCore, residentBytes.get(name) / 1e6,
                     heap == null ? "-" : String.format(Locale.ROOT, "%.0f", heap / 1e6));
         });
+        out.println("broker nodes over the window (their own counters; held and full at the window's end):");
+        nodes.forEach((name, f) -> out.println("  " + name + " " + f));
+        out.println("broker nodes by topic family over the window:");
+        nodeFamilies.forEach((name, f) -> out.println("  " + name + " " + f));
         if (plantFailure != null) {
             out.println("plant failure: " + plantFailure);
         }

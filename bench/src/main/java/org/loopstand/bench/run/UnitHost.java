@@ -66,16 +66,13 @@ final class UnitHost implements AutoCloseable {
     UnitHost(BenchSettings s, Grid grid, String serverUri, int share, int shares, Clock clock) {
         this.connectWaitMs = BenchLinks.connectWaitMs(s, 60_000);
         this.clock = clock;
-        List<GeneratingUnit> mine = new ArrayList<>();
-        for (int i = share; i < grid.units().size(); i += shares) {
-            mine.add(grid.units().get(i));
-        }
+        List<GeneratingUnit> mine = share(grid, share, shares);
         if (mine.isEmpty()) {
             throw new IllegalArgumentException("unit share " + share + "/" + shares + " holds no unit");
         }
         for (int k = 0; k < Math.min(s.poolSize(), mine.size()); k++) {
             links.add(new MqttLink(BenchLinks.configure(MqttLinkConfig.builder().serverUri(serverUri)
-                    .clientId(grid.siteId() + "-unithost" + share + "-" + k).receiveQueueCapacity(100_000), s).build(), clock));
+                    .clientId(clientIdPrefix(grid.siteId(), share) + k).receiveQueueCapacity(100_000), s).build(), clock));
         }
         // one wildcard per kind for the whole site, on different connections of the pool so that their
         // delivery threads share the work; the other host's units' messages are counted and dropped
@@ -100,6 +97,20 @@ final class UnitHost implements AutoCloseable {
             units.add(u);
         }
         runner = new AgentRunner(new ScanAll(s.unitScanMs() * 1_000_000L), 1_000_000L);
+    }
+
+    /** @return the units a unit host of {@code shares} serves: those whose index in the site modulo shares is share */
+    static List<GeneratingUnit> share(Grid grid, int share, int shares) {
+        List<GeneratingUnit> mine = new ArrayList<>();
+        for (int i = share; i < grid.units().size(); i += shares) {
+            mine.add(grid.units().get(i));
+        }
+        return mine;
+    }
+
+    /** @return the client id prefix of a unit host's pooled connections */
+    static String clientIdPrefix(String siteId, int share) {
+        return siteId + "-unithost" + share + "-";
     }
 
     /** Starts the scan, then the links (the first connect subscribes all), and waits for them. */

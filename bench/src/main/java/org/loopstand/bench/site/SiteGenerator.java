@@ -28,6 +28,14 @@ public final class SiteGenerator {
      * @return the YAML text
      */
     public static String yaml(String siteId, int units, int areas, int cycleS) {
+        return yaml(siteId, units, areas, cycleS, 0);
+    }
+
+    /**
+     * @param unitTelemetryMaxAgeMs the controller's age limit of unit telemetry, ms; 0: its default (not written)
+     * @return the YAML text
+     */
+    public static String yaml(String siteId, int units, int areas, int cycleS, long unitTelemetryMaxAgeMs) {
         if (areas < 1 || areas > 1000) {
             throw new IllegalArgumentException("areas must be in [1, 1000], got " + areas);
         }
@@ -92,12 +100,21 @@ public final class SiteGenerator {
         }
         y.append("controller:\n  cycleS: ").append(cycleS).append('\n');
         y.append("  intake:\n    queueCapacity: ").append(Math.max(20_000, 4 * units)).append('\n');
+        if (unitTelemetryMaxAgeMs > 0) {
+            y.append("    unitTelemetryMaxAgeMs: ").append(unitTelemetryMaxAgeMs).append('\n');
+        }
         return y.toString();
     }
 
     /** Writes {@link #yaml} to {@code file}. */
     public static Path write(Path file, String siteId, int units, int areas, int cycleS) throws IOException {
-        Files.writeString(file, yaml(siteId, units, areas, cycleS), StandardCharsets.UTF_8);
+        return write(file, siteId, units, areas, cycleS, 0);
+    }
+
+    /** Writes {@link #yaml} with the controller's unit telemetry age limit (0: its default) to {@code file}. */
+    public static Path write(Path file, String siteId, int units, int areas, int cycleS, long unitTelemetryMaxAgeMs)
+            throws IOException {
+        Files.writeString(file, yaml(siteId, units, areas, cycleS, unitTelemetryMaxAgeMs), StandardCharsets.UTF_8);
         return file;
     }
 

@@ -87,7 +87,30 @@ class BusCommandTest {
         assertThat(s.durationS()).isEqualTo(180);
         BusCommand bad = new BusCommand();
         new CommandLine(bad).parseArgs("--units", "100", "--layout", "hosts", "--field-scan-ms", "0");
-        assertThatThrownBy(bad::settings).hasMessageContaining("field scan period must be ≥ 1 ms, got 0");
+        assertThatThrownBy(bad::settings).hasMessageContaining("field scan period must be ≥ 1 ms and ≤ 60000 ms, got 0");
+    }
+
+    @Test
+    void shouldTakeATelemetryPeriodUpToNineSecondsAndRefuseLonger() {
+        BusCommand c = new BusCommand();
+        new CommandLine(c).parseArgs("--units", "10000", "--layout", "hosts", "--telemetry-ms", "5000");
+        BenchSettings s = c.settings();
+        assertThat(s.telemetryScanMs()).isEqualTo(5000);
+        // 10,000 units each 5 s + 50 meters each 2 s
+        assertThat(s.plantRatePerS()).isEqualTo(2025.0);
+        assertThat(s.unitTelemetryMaxAgeMs()).as("the controller's 10 s default covers 5 s + 200 ms + 4 s").isEqualTo(10_000);
+        BusCommand slow = new BusCommand();
+        new CommandLine(slow).parseArgs("--units", "10000", "--layout", "hosts", "--telemetry-ms", "5000",
+                "--field-scan-ms", "4000");
+        // a unit's telemetry carries its field reading's time: up to 4 s + 5 s old, and 4 s for the way
+        assertThat(slow.settings().unitTelemetryMaxAgeMs()).isEqualTo(13_000);
+        BusCommand tooLong = new BusCommand();
+        new CommandLine(tooLong).parseArgs("--units", "100", "--telemetry-ms", "10000");
+        assertThatThrownBy(tooLong::settings).hasMessageContaining("telemetry and meter periods must be 10..9000 ms")
+                .hasMessageContaining("got 10000 and 2000");
+        BusCommand tooShort = new BusCommand();
+        new CommandLine(tooShort).parseArgs("--units", "100", "--meter-scan-ms", "5");
+        assertThatThrownBy(tooShort::settings).hasMessageContaining("got 1000 and 5");
     }
 
     @Test
@@ -107,6 +130,9 @@ class BusCommandTest {
         assertThat(ctl.units()).hasSize(101);
         assertThat(ctl.ties()).hasSize(7); // a ring of 7 areas has 7 ties
         assertThat(ctl.settings().cycleMs()).isEqualTo(4000);
+        assertThat(ctl.settings().unitTelemetryMaxAgeMs()).as("the controller's default").isEqualTo(10_000);
+        var slow = ControllerSiteReader.read(SiteGenerator.write(dir.resolve("slow.yaml"), "gen", 101, 7, 4, 13_000));
+        assertThat(slow.settings().unitTelemetryMaxAgeMs()).isEqualTo(13_000);
     }
 
     @Test

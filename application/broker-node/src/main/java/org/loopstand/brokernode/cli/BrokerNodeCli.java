@@ -57,6 +57,11 @@ public final class BrokerNodeCli implements Callable<Integer> {
             + " (default: loopstand-broker-node in the system temp folder)")
     Path workDir = Path.of(System.getProperty("java.io.tmpdir"), "loopstand-broker-node");
 
+    @Option(names = "--counters-dir", description = "on a line 'counters LABEL' on standard input, write this node's"
+            + " message counters to DIR/counters-NAME-LABEL.properties (by topic family: received from clients and peers,"
+            + " queued, delivered, expired, killed; docs/broker.md) and print 'counters LABEL written'")
+    Path countersDir;
+
     public static void main(String[] args) {
         System.exit(new CommandLine(new BrokerNodeCli()).execute(withoutCommandName(args)));
     }
@@ -95,8 +100,11 @@ public final class BrokerNodeCli implements Callable<Integer> {
             stopped.countDown();
         }, "broker-node-shutdown"));
         System.out.println("broker node " + name + " listening on " + s.mqttUri() + " (cluster port " + clusterPort
-                + ", peers " + peers + ")");
+                + ", peers " + peers + ", node id " + node.nodeId() + ")");
         System.out.flush();
+        if (countersDir != null) {
+            CountersOrders.start(node, countersDir, name);
+        }
         stopped.await();
         return 0;
     }
