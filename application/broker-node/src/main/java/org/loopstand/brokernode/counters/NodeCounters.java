@@ -28,9 +28,27 @@ public final class NodeCounters implements ActiveMQServerMessagePlugin {
     public static String family(String address) {
         int cut = Math.max(address.lastIndexOf('.'), address.lastIndexOf('/'));
         String f = cut < 0 ? address : address.substring(cut + 1);
-        // it becomes part of a key=value line: Artemis's own addresses hold '=' (…ActiveMQServerImpl_name=n3)
-        f = f.replaceAll("[^A-Za-z0-9_*#+-]", "_");
-        return f.isEmpty() ? "-" : f;
+        if (f.isEmpty()) {
+            return "-";
+        }
+        // it becomes part of a key=value line: Artemis's own addresses hold '=' (…ActiveMQServerImpl_name=n3).
+        // Called for every message a node routes: a scan, no regular expression (compiled per call by replaceAll)
+        char[] chars = null;
+        for (int i = 0; i < f.length(); i++) {
+            if (!keyChar(f.charAt(i))) {
+                if (chars == null) {
+                    chars = f.toCharArray();
+                }
+                chars[i] = '_';
+            }
+        }
+        return chars == null ? f : new String(chars);
+    }
+
+    /** @return true for the characters a family keeps: letters and digits of ASCII, {@code _ * # + -} */
+    private static boolean keyChar(char c) {
+        return c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9'
+                || c == '_' || c == '*' || c == '#' || c == '+' || c == '-';
     }
 
     private void count(String key) {

@@ -36,6 +36,8 @@ class NodeCountersTest {
         assertThat(NodeCounters.family("loopstand/v1/s/field/unit/*/reading")).isEqualTo("reading");
         // Artemis's own notification addresses: no '=' may reach a key=value line
         assertThat(NodeCounters.family("activemq.notifications.ActiveMQServerImpl_name=n3")).isEqualTo("ActiveMQServerImpl_name_n3");
+        assertThat(NodeCounters.family("a.x=y z\u00e9#+*-_")).isEqualTo("x_y_z_#+*-_");
+        assertThat(NodeCounters.family("loopstand.v1.")).isEqualTo("-");
         assertThat(NodeCounters.destination("bench-40-unithost1-0.loopstand.v1.bench-40.unit.*.command"))
                 .isEqualTo("bench-40-unithost1-0");
         assertThat(NodeCounters.destination("$.artemis.internal.sf.loopstand-cluster.6f1c-aa"))
