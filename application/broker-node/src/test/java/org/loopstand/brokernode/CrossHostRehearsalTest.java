@@ -112,13 +112,15 @@ class CrossHostRehearsalTest {
         List<String> plant = hosts.java(1, "-Xmx512m", "org.loopstand.plant.cli.PlantCli");
         Path hostsFile = hosts.writeHostsFile(dir.resolve("hosts.yaml"), List.of("plant-host", "unit-host", "control-host"),
                 1, 3, 3);
+        // --wait-go: scenario time starts once every part is connected (below), as a rehearsal starts it; a unit
+        // process that connects seconds late on a busy machine would otherwise meet its watchdog before the partition
         plant.addAll(List.of("plant", "--site", SITE.toString(), "--scenario", SCENARIO.toString(), "--rate", "20",
-                "--broker", list(1, 2, 3), "--duration", "70", "--journal", run.toString(), "--credentials-file",
+                "--wait-go", "--broker", list(1, 2, 3), "--duration", "70", "--journal", run.toString(), "--credentials-file",
                 usersFile.toString(), "--hosts", hostsFile.toString(), "--units",
                 String.join(",", UNITS.stream().filter(u -> !ELSEWHERE.contains(u)).toList())));
         plant.addAll(tls);
         Process plantProcess = launch(plant, "plant");
-        awaitStarted(dir.resolve("plant.out"), "plant: site demo-site", 40_000); // its clock ticks from here on
+        awaitStarted(dir.resolve("plant.out"), "plant: site demo-site", 40_000); // connected, scenario time held at 0
         List<Process> unitProcesses = new ArrayList<>();
         for (String u : ELSEWHERE) {
             List<String> unit = hosts.java(2, "-Xmx128m", "org.loopstand.plant.cli.PlantCli");
@@ -139,6 +141,13 @@ class CrossHostRehearsalTest {
         try (OutputStream in = controller.getOutputStream()) {
             in.write("demo-site\n".getBytes(StandardCharsets.UTF_8)); // the typed confirmation off loopback
         }
+        for (String u : ELSEWHERE) {
+            awaitStarted(dir.resolve("unit-" + u + ".err"), ": connected to ", 60_000);
+        }
+        awaitStarted(dir.resolve("controller.err"), ": connected to ", 60_000);
+        OutputStream plantIn = plantProcess.getOutputStream();
+        plantIn.write("go\n".getBytes(StandardCharsets.UTF_8));
+        plantIn.flush(); // left open: the plant reads no more after the go
 
         // the plant ends with its scenario (45 s of wall time at rate 20); --duration only caps a plant that cannot keep
         // the rate: it must reach the end, where it decides the scenario's checks
