@@ -55,6 +55,7 @@ public final class PlantAgent implements Agent {
     /** False in a lockstep study: another loop steps the physics. */
     private boolean stepsPhysics = true;
     private PlantCheckVerdicts verdicts;
+    private boolean closed;
     private FaultHooks faults;
     /** Steps between two passes over one unit interface (1 = every unit after every step). */
     private int unitSlices = 1;
@@ -282,6 +283,10 @@ public final class PlantAgent implements Agent {
 
     @Override
     public void onClose() {
+        if (closed) {
+            return; // a runner that was never started closes its agent itself: verdicts are told once
+        }
+        closed = true;
         PlantRunJournal j = journal.journal();
         if (verdicts != null) {
             verdicts.decide(engine, epochMsAt(p.sim().timeS()), j);

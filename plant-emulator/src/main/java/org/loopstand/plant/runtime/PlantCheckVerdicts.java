@@ -1,6 +1,7 @@
 package org.loopstand.plant.runtime;
 
 import java.util.List;
+import java.util.Map;
 import java.util.function.Consumer;
 
 import org.loopstand.plant.check.CheckOutcome;
@@ -11,7 +12,8 @@ import org.loopstand.plant.journal.PlantRunJournal;
 /**
  * The scenario's checks in a real-time run: decided by the {@link ScenarioEngine} over its run
  * record when the scenario ran to its end, each told to a sink as one line and journaled as a
- * {@code check} entry; a run stopped early decides none and says so.
+ * {@code check} entry; a run stopped early decides none and says so, on the sink and in the journal
+ * ({@code checksNotDecided}, reason {@code stoppedBeforeEnd}).
  */
 final class PlantCheckVerdicts {
     private final List<CheckSpec> checks;
@@ -31,7 +33,12 @@ final class PlantCheckVerdicts {
             return;
         }
         if (!engine.ended()) {
-            sink.accept("plant: scenario checks not decided: the run stopped at " + engine.grid().timeS() + " s, before its end");
+            double stoppedAtS = engine.grid().timeS();
+            sink.accept("plant: scenario checks not decided: the run stopped at " + stoppedAtS + " s, before its end");
+            if (journal != null) { // a reader of the journal alone must see why no verdict follows
+                journal.event(epochMs, Map.of("event", "checksNotDecided", "reason", "stoppedBeforeEnd", "stoppedAtS",
+                        stoppedAtS, "checks", checks.stream().map(CheckSpec::name).toList()));
+            }
             return;
         }
         for (CheckOutcome o : engine.decideChecks(checks)) {
