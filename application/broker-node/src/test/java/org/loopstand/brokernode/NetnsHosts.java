@@ -8,6 +8,7 @@ import org.loopstand.brokernode.hosts.NamespaceHosts;
 /** Network-namespace hosts for a test ({@link NamespaceHosts}), or a clear refusal when they cannot be made. */
 final class NetnsHosts {
     private static final AtomicInteger CREATED = new AtomicInteger();
+    private static final String FAMILY = "ls";
 
     private NetnsHosts() {
     }
@@ -17,10 +18,11 @@ final class NetnsHosts {
      * CI=true (it must run there) and is skipped otherwise, saying why either way.
      */
     static NamespaceHosts createOrSkip(int count) {
-        // unique per JVM and per call, short enough for interface names (at most 15 characters)
-        String prefix = "ls" + (ProcessHandle.current().pid() % 100_000) + (char) ('a' + CREATED.getAndIncrement() % 26);
         try {
-            return NamespaceHosts.create(prefix, count);
+            // a test JVM killed before its clean-up (a CI timeout) leaves its hosts and their processes behind
+            NamespaceHosts.sweepOrphans(FAMILY).forEach(ns -> System.err.println("removed hosts left by a gone test run: " + ns));
+            // unique per JVM and per call
+            return NamespaceHosts.forThisProcess(FAMILY, (char) ('a' + CREATED.getAndIncrement() % 26), count);
         } catch (IllegalStateException e) {
             String why = "cannot create network namespaces (needs root and iproute2): " + e.getMessage();
             if ("true".equals(System.getenv("CI"))) {

@@ -34,6 +34,8 @@ import org.loopstand.protocol.time.WallClock;
 public final class HostsBench {
     /** Hosts A..D; the first three carry a broker node each. */
     static final int HOSTS = 4;
+    /** first letters of the bench's namespaces ({@link NamespaceHosts#forThisProcess}) */
+    static final String FAMILY = "lb";
     static final int MQTT_PORT = 1883;
     static final int CLUSTER_PORT = 61616;
     /**
@@ -101,7 +103,8 @@ public final class HostsBench {
         Path users = writeLogins();
         NamespaceHosts hosts;
         try {
-            hosts = NamespaceHosts.create("lb" + ProcessHandle.current().pid() % 100_000, HOSTS);
+            NamespaceHosts.sweepOrphans(FAMILY).forEach(ns -> say.accept("bench: removed hosts left by a gone bench: " + ns));
+            hosts = NamespaceHosts.forThisProcess(FAMILY, 'a', HOSTS);
         } catch (IllegalStateException e) {
             throw new NamespacesUnavailable("cannot create network namespaces (needs root and iproute2): "
                     + e.getMessage(), e);
@@ -109,6 +112,9 @@ public final class HostsBench {
         say.accept("bench: hosts A..D made");
         List<Process> nodes = new ArrayList<>();
         List<PartProcess> parts = new ArrayList<>();
+        // Ctrl-C or a kill (not -9) of the bench must not leave broker nodes, parts and namespaces running
+        Thread hook = new Thread(() -> stopAll(parts, nodes, hosts), "hosts-bench-cleanup");
+        Runtime.getRuntime().addShutdownHook(hook);
         try {
             for (int i = 1; i <= 3; i++) {
                 nodes.add(startNode(hosts, i, users));
@@ -184,17 +190,36 @@ public final class HostsBench {
                     List.of(PartFigures.read(s.outDir(), "units-0"), PartFigures.read(s.outDir(), "units-1")), nodeFigures,
                     commandsExpiredTowardsTheirUnit(siteId, nodeFigures));
         } finally {
+            stopAll(parts, nodes, hosts);
+            try {
+                Runtime.getRuntime().removeShutdownHook(hook);
+            } catch (IllegalStateException shuttingDown) {
+                // the hook runs or ran: stopAll is idempotent
+            }
+        }
+    }
+
+    /** Stops the parts, then the nodes, then removes the hosts; a second call (the hook after finally) does nothing. */
+    private static void stopAll(List<PartProcess> parts, List<Process> nodes, NamespaceHosts hosts) {
+        synchronized (parts) {
             for (PartProcess p : parts) {
                 p.close();
             }
+            parts.clear();
             for (Process n : nodes) {
                 n.destroy();
             }
             for (Process n : nodes) {
-                if (!n.waitFor(20, TimeUnit.SECONDS)) {
-                    n.destroyForcibly().waitFor(10, TimeUnit.SECONDS);
+                try {
+                    if (!n.waitFor(20, TimeUnit.SECONDS)) {
+                        n.destroyForcibly().waitFor(10, TimeUnit.SECONDS);
+                    }
+                } catch (InterruptedException e) {
+                    Thread.currentThread().interrupt();
+                    n.destroyForcibly();
                 }
             }
+            nodes.clear();
             hosts.close();
         }
     }

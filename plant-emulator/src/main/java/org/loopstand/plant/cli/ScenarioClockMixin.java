@@ -11,6 +11,7 @@ import java.util.function.Supplier;
 import org.loopstand.plant.physics.GridSimulator;
 import org.loopstand.plant.runtime.HeartbeatPacing;
 import org.loopstand.plant.runtime.HeldStartClock;
+import org.loopstand.plant.runtime.PhysicsWarmUp;
 import org.loopstand.plant.runtime.PlantPacing;
 import org.loopstand.plant.runtime.PlantRunner;
 import org.loopstand.protocol.time.Clock;
@@ -112,7 +113,7 @@ public final class ScenarioClockMixin {
             return true;
         }
         long t0 = WallClock.INSTANCE.monotonicNanos();
-        long steps = PlantPacing.warmUp(warmUpSims, WallClock.INSTANCE, WARM_UP_STEPS, WARM_UP_WALL_NANOS);
+        long steps = PhysicsWarmUp.run(warmUpSims, WallClock.INSTANCE, WARM_UP_STEPS, WARM_UP_WALL_NANOS);
         say.accept(String.format(Locale.ROOT, "plant: physics warmed up (%d steps in %.0f ms)", steps,
                 (WallClock.INSTANCE.monotonicNanos() - t0) / 1e6));
         BufferedReader in = new BufferedReader(new InputStreamReader(System.in, StandardCharsets.UTF_8));

@@ -6,6 +6,8 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.concurrent.TimeUnit;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
 
 /**
  * Hosts on one machine for tests and the hosts bench: a network namespace per host, each joined by a veth pair to a
@@ -52,6 +54,54 @@ public final class NamespaceHosts implements AutoCloseable {
             h.close();
             throw e;
         }
+    }
+
+    /**
+     * @param family a few letters that start every name a kind of owner makes (the bench's, the tests')
+     * @param count  hosts, 1 – 9
+     * @return hosts named after this process ({@code family}, its pid, {@code tag}), so that a later run can
+     *         tell them from a live owner's ({@link #sweepOrphans})
+     */
+    public static NamespaceHosts forThisProcess(String family, char tag, int count) {
+        if (!family.matches("[a-z]{1,3}") || tag < 'a' || tag > 'z' || count < 1 || count > 9) {
+            throw new IllegalArgumentException("family must be 1-3 letters a-z, tag a letter a-z and count 1-9, got '"
+                    + family + "', '" + tag + "', " + count);
+        }
+        return create(family + ProcessHandle.current().pid() + tag, count);
+    }
+
+    /**
+     * Removes the namespaces of a {@code family} whose owning process is gone (a bench or test JVM killed before
+     * it could clean up), first killing whatever still runs inside them (broker nodes, parts). Namespaces of
+     * live owners are left alone.
+     *
+     * @return the namespaces removed, each with the processes killed in it
+     */
+    public static List<String> sweepOrphans(String family) {
+        Pattern name = Pattern.compile(Pattern.quote(family) + "(\\d+)[a-z](hub|h\\d)");
+        List<String> swept = new ArrayList<>();
+        NamespaceHosts any = new NamespaceHosts(family, 0);
+        for (String line : any.output("ip", "netns", "list").split("\n")) {
+            String ns = line.strip().split("\\s+")[0];
+            Matcher m = name.matcher(ns);
+            if (!m.matches() || ProcessHandle.of(Long.parseLong(m.group(1))).map(ProcessHandle::isAlive).orElse(false)) {
+                continue;
+            }
+            List<String> killed = new ArrayList<>();
+            for (String pid : any.output("ip", "netns", "pids", ns).split("\\s+")) {
+                if (!pid.isBlank()) {
+                    ProcessHandle.of(Long.parseLong(pid)).ifPresent(ProcessHandle::destroyForcibly);
+                    killed.add(pid);
+                }
+            }
+            try {
+                any.run("ip", "netns", "del", ns);
+                swept.add(ns + (killed.isEmpty() ? "" : " (killed " + String.join(", ", killed) + ")"));
+            } catch (IllegalStateException e) {
+                swept.add(ns + " not removed: " + e.getMessage());
+            }
+        }
+        return swept;
     }
 
     public String hub() {
@@ -117,12 +167,18 @@ public final class NamespaceHosts implements AutoCloseable {
     }
 
     public void run(String... command) {
+        output(command);
+    }
+
+    /** Runs {@code command} (10 s at most) and returns its output; fails with both when it exits non-zero. */
+    private String output(String... command) {
         try {
             Process p = new ProcessBuilder(command).redirectErrorStream(true).start();
             String out = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8).strip();
             if (!p.waitFor(10, TimeUnit.SECONDS) || p.exitValue() != 0) {
                 throw new IllegalStateException(String.join(" ", command) + " failed: " + out);
             }
+            return out;
         } catch (IOException e) {
             throw new IllegalStateException(String.join(" ", command) + " could not run: " + e.getMessage(), e);
         } catch (InterruptedException e) {
