@@ -297,9 +297,25 @@ public final class RunReportBuilder {
     private static void endNotes(RunFolder run, List<String> notes) {
         run.journals().forEach((name, c) -> c.summary().endReason().ifPresent(r -> {
             if (name.equals("plant") && r == EndReason.STOPPED) {
-                notes.add("The plant was stopped before the scenario's end (journal end reason: stopped).");
+                notes.add(stoppedNote(c));
             }
         }));
+    }
+
+    /** The plant's early stop, with the time and the checks it left undecided when its journal says (checksNotDecided). */
+    private static String stoppedNote(JournalReader.Contents plant) {
+        return plant.entries().stream().filter(e -> e.kind().equals("event") && "checksNotDecided".equals(e.text("event")))
+                .findFirst().map(e -> {
+                    List<String> names = new ArrayList<>();
+                    e.get("checks").forEach(n -> names.add(n.asText()));
+                    JsonNode durationS = plant.summary().header().map(h -> h.path("scenarioDurationS"))
+                            .orElse(com.fasterxml.jackson.databind.node.MissingNode.getInstance());
+                    return String.format(Locale.ROOT, "The plant was stopped before the scenario's end, at %.1f s%s"
+                                    + " (journal end reason: stopped): its checks %s were not decided (checksNotDecided,"
+                                    + " reason %s).", e.get("stoppedAtS").asDouble(),
+                            durationS.isNumber() ? String.format(Locale.ROOT, " of %.0f s", durationS.asDouble()) : "",
+                            String.join(", ", names), e.text("reason"));
+                }).orElse("The plant was stopped before the scenario's end (journal end reason: stopped).");
     }
 
     private static Map<String, String> configuration(ObjectNode ph, ObjectNode ch, Map<String, String> extra, double eps) {

@@ -27,8 +27,13 @@ class RunReportBuilderTest {
     final VirtualClock wall = new VirtualClock(T0);
 
     void writeRun(boolean closePlant) {
+        writeRun(closePlant ? EndReason.COMPLETED : null);
+    }
+
+    /** @param plantEnd the plant journal's end reason, null: no end entry (the plant was killed) */
+    void writeRun(EndReason plantEnd) {
         JournalWriter plant = JournalWriter.create(run.resolve("plant.jsonl"), "plant", T0, Map.of("site", "s1",
-                "scenario", "trip.yaml", "rate", 10.0,
+                "scenario", "trip.yaml", "rate", 10.0, "scenarioDurationS", 900.0,
                 "areas", Map.of("a", Map.of("nominalFrequencyHz", 50.0, "betaMwPerHz", 500.0, "scheduledNetInterchangeMw", 0.0)),
                 "units", Map.of("u1", "a")), wall, JournalWriter.DEFAULT_FLUSH_INTERVAL);
         JournalWriter ctl = JournalWriter.create(run.resolve("controller.jsonl"), "controller", T0, Map.of("controllerId", "c1"),
@@ -40,8 +45,13 @@ class RunReportBuilderTest {
                     "ties", Map.of(), "units", Map.of("u1", Map.of("outputMw", 100.0, "loadReferenceMw", 100.0))));
         }
         plant.append(T0 + 60_000, "event", Map.of("event", "unitTrip", "unit", "u1", "atS", 60.0));
-        plant.append(T0 + 121_000, "check", Map.of("name", "ace-recovered", "passed", true, "decidingFigure", "40 s",
-                "limit", "900 s", "source", "from the scenario"));
+        if (plantEnd == EndReason.STOPPED) { // stopped at 121 s of its 900 s: no verdict, and why
+            plant.append(T0 + 121_000, "event", Map.of("event", "checksNotDecided", "reason", "stoppedBeforeEnd",
+                    "stoppedAtS", 121.0, "checks", List.of("ace-recovered", "tie-back")));
+        } else {
+            plant.append(T0 + 121_000, "check", Map.of("name", "ace-recovered", "passed", true, "decidingFigure", "40 s",
+                    "limit", "900 s", "source", "from the scenario"));
+        }
         for (int k = 0; k <= 30; k++) {
             long t = T0 + k * 4_000L;
             double ace = t < T0 + 60_000 ? 0.0 : t < T0 + 100_000 ? -60.0 : 0.0; // ACE −60 MW from 60 s to 100 s
@@ -52,8 +62,8 @@ class RunReportBuilderTest {
         ctl.append(T0 + 64_250, "received", Map.of("ack", "u1", "commandSeq", 1, "outcome", "accepted"));
         plant.append(T0 + 64_100, "command", Map.of("unit", "u1", "commandSeq", 1, "outcome", "accepted"));
         ctl.close(T0 + 122_000, EndReason.STOPPED);
-        if (closePlant) {
-            plant.close(T0 + 121_000, EndReason.COMPLETED);
+        if (plantEnd != null) {
+            plant.close(T0 + 121_000, plantEnd);
         } else {
             plant.flush(); // the plant was killed: no end entry
         }
@@ -93,6 +103,16 @@ class RunReportBuilderTest {
         assertThat(m.sections()).extracting(MetricSection::group).contains(MetricSection.Group.COMMUNICATION);
         assertThat(m.notes()).anyMatch(n -> n.contains("configured assumption"));
         assertThat(m.configuration()).containsEntry("rate", "10").containsKey("ε1 for CPS1/BAAL");
+    }
+
+    @Test
+    void shouldSayWhenAndWhichChecksWereLeftUndecidedByAPlantStoppedBeforeTheScenariosEnd() {
+        writeRun(EndReason.STOPPED);
+        ReportModel m = RunReportBuilder.build(RunFolder.read(run), Map.of(), List.of(), "test");
+        assertThat(m.checks()).isEmpty();
+        assertThat(m.notes()).contains("The plant was stopped before the scenario's end, at 121.0 s of 900 s (journal end"
+                + " reason: stopped): its checks ace-recovered, tie-back were not decided (checksNotDecided, reason"
+                + " stoppedBeforeEnd).");
     }
 
     @Test
