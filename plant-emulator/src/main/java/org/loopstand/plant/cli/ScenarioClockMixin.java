@@ -39,7 +39,8 @@ public final class ScenarioClockMixin {
 
     @Option(names = "--pace-command-share", defaultValue = "" + PlantPacing.COMMAND_AGE_SHARE, description = "with the"
             + " pace keeper on: a command that arrives with more than this share of its validity gone slows the clock in"
-            + " proportion (paceSlowed, reason commandPath); 0 = never, 0 – 1 (default ${DEFAULT-VALUE})")
+            + " proportion, never below real time (paceSlowed, reason commandPath), and stops watching when the age does"
+            + " not follow the rate (paceWatchStopped, reason ageNotFromPath); 0 = never, 0 – 1 (default ${DEFAULT-VALUE})")
     double paceCommandShare;
 
     @Option(names = "--pace-factor", defaultValue = "1.1", description = "say RATE NOT KEPT at the end when the asked rate"
@@ -87,7 +88,7 @@ public final class ScenarioClockMixin {
     void pace(Clock clock, PlantRunner runner, double watchdogS) {
         if (clock instanceof HeldStartClock held && paceLagS > 0) {
             pacing = new PlantPacing(held, WallClock.INSTANCE, Math.round(runner.sim().stepS() * 1e9),
-                    new PlantPacing.Settings(paceLagS, paceFactor, 0.8, 5.0), runner.agent()::noteEvent)
+                    new org.loopstand.plant.runtime.PacingSettings(paceLagS, paceFactor, 0.8, 5.0), runner.agent()::noteEvent)
                     .watch(runner.lateness());
             if (paceCommandShare != 0) {
                 pacing.watchCommandsBeyond(paceCommandShare);

@@ -10,19 +10,19 @@ import org.loopstand.protocol.message.UnitCommand;
 import org.loopstand.protocol.time.Clock;
 
 /**
- * The pace keeper: when the physics falls more than {@link Settings#lagS()} of scenario time behind
+ * The pace keeper: when the physics falls more than {@link PacingSettings#lagS()} of scenario time behind
  * the scenario clock, it holds the clock until the physics has caught up. When the catch-up ran at
  * less than {@value #CATCH_UP_MARGIN} × the rate (the loop itself cannot keep the rate), the clock
- * then runs on at a lower rate ({@link Settings#slowFactor()} × the rate it ran at), journaled as
+ * then runs on at a lower rate ({@link PacingSettings#slowFactor()} × the rate it ran at), journaled as
  * {@code paceSlowed}; when the catch-up was fast (the loop was held up once: a pause, a busy
- * machine) it runs on at the same rate, journaled as {@code paceHeld}; both with the figures. After {@link Settings#calmWallS()} wall seconds without a lag above a quarter of
+ * machine) it runs on at the same rate, journaled as {@code paceHeld}; both with the figures. After {@link PacingSettings#calmWallS()} wall seconds without a lag above a quarter of
  * the limit it raises the rate again by the same factor, up to the asked rate ({@code paceRaised}).
  * So a machine that cannot keep the asked rate slows the scenario (the controller follows the clock
  * ticks, so both see the same, slower time) instead of running the physics late and reaching a
  * different verdict. At the end {@link #finish(double)} compares the rate kept over the run with the
- * asked one and says {@code RATE NOT KEPT} beyond {@link Settings#notKeptFactor()}.
+ * asked one and says {@code RATE NOT KEPT} beyond {@link PacingSettings#notKeptFactor()}.
  *
- * <p>It also puts the clock on a leash of {@link Settings#lagS()} ({@link HeldStartClock#leashTo}): the
+ * <p>It also puts the clock on a leash of {@link PacingSettings#lagS()} ({@link HeldStartClock#leashTo}): the
  * clock never reads more than that ahead of the physics, so a stall of the loop (a GC pause, a busy
  * machine) holds the clock the moment the limit is reached, not after the next step ran with the
  * physics already far behind (at rate 40 a 0.5 s stall is 20 s of scenario time, which the physics
@@ -51,29 +51,6 @@ public final class PlantPacing {
     /** Name of its own hold on the scenario clock ({@link HeldStartClock#hold(String)}); a leash hold it lets go of as {@link HeldStartClock#LEASH}. */
     public static final String HOLD = "physicsLag";
 
-    /**
-     * @param lagS          scenario seconds the physics may fall behind the clock before the clock is held, &gt; 0
-     * @param notKeptFactor asked rate / kept rate beyond which the run says RATE NOT KEPT, ≥ 1
-     * @param slowFactor    rate multiplier at each slow-down, (0, 1)
-     * @param calmWallS     wall seconds without lag before the rate is raised again, &gt; 0
-     */
-    public record Settings(double lagS, double notKeptFactor, double slowFactor, double calmWallS) {
-        public Settings {
-            if (!(lagS > 0) || Double.isInfinite(lagS)) {
-                throw new IllegalArgumentException("pace lag must be a positive number of scenario seconds, got " + lagS);
-            }
-            if (!(notKeptFactor >= 1) || Double.isInfinite(notKeptFactor)) {
-                throw new IllegalArgumentException("pace factor must be at least 1, got " + notKeptFactor);
-            }
-            if (!(slowFactor > 0 && slowFactor < 1)) {
-                throw new IllegalArgumentException("slow factor must be in (0, 1), got " + slowFactor);
-            }
-            if (!(calmWallS > 0) || Double.isInfinite(calmWallS)) {
-                throw new IllegalArgumentException("calm time must be a positive number of wall seconds, got " + calmWallS);
-            }
-        }
-    }
-
     /** A catch-up faster than this many times the rate is a one-off hold-up: the rate is kept. */
     public static final double CATCH_UP_MARGIN = 2.0;
 
@@ -90,13 +67,19 @@ public final class PlantPacing {
     /** Wall seconds after a rate change in which an old command does not slow the clock again. */
     public static final double COMMAND_PATH_SETTLE_WALL_S = 1.0;
 
+    /**
+     * Lowest rate the command path slows the clock to: at real time the way commands take is the field's own,
+     * and a slower clock would only hide it.
+     */
+    public static final double COMMAND_PATH_FLOOR_RATE = 1.0;
+
     /** Lowest rate the pace keeper slows to, scenario seconds per wall second. */
     public static final double MIN_RATE = 0.05;
 
     private final HeldStartClock clock;
     private final Clock wall;
     private final long stepNanos;
-    private final Settings settings;
+    private final PacingSettings settings;
     private final Consumer<Map<String, Object>> journal;
     private final long lagNanos;
     private final long calmNanos;
@@ -110,7 +93,8 @@ public final class PlantPacing {
     private long holds;
     private long raises;
     private long commandPathSlowdowns;
-    private final CommandPathWatch commandPath = new CommandPathWatch(COMMAND_AGE_SHARE);
+    private final CommandPathWatch commandPath = new CommandPathWatch(COMMAND_AGE_SHARE,
+            Math.round(COMMAND_PATH_SETTLE_WALL_S * 1e9));
     private long heldWallNanos;
     private double lowestRate;
     private long goWallNanos = -1;
@@ -131,7 +115,7 @@ public final class PlantPacing {
      * @param journal   takes each {@code paceSlowed}/{@code paceRaised}/{@code paceSummary} entry
      *                  (e.g. {@link PlantAgent#noteEvent}); called on the loop's thread
      */
-    public PlantPacing(HeldStartClock clock, Clock wall, long stepNanos, Settings settings,
+    public PlantPacing(HeldStartClock clock, Clock wall, long stepNanos, PacingSettings settings,
                        Consumer<Map<String, Object>> journal) {
         this.clock = clock;
         this.wall = wall;
@@ -284,17 +268,23 @@ public final class PlantPacing {
         long arrivedMs = clock.epochMillis() - (clock.monotonicNanos() - receivedNanos) / 1_000_000L;
         long w = wall.monotonicNanos();
         CommandPathWatch.OldCommand old = commandPath.observe(c, arrivedMs, w);
-        if (old == null || holding || !clock.running()) {
+        CommandPathWatch.Unanswered unanswered = commandPath.takeUnanswered();
+        if (unanswered != null) {
+            restore(unanswered, w);
+            return;
+        }
+        if (old == null || holding || !clock.running() || commandPath.awaitingAnswer()) {
             return;
         }
         double from = clock.currentRate();
-        if (w - lastChangeWallNanos < Math.round(COMMAND_PATH_SETTLE_WALL_S * 1e9) || from <= MIN_RATE) {
+        if (w - lastChangeWallNanos < Math.round(COMMAND_PATH_SETTLE_WALL_S * 1e9) || from <= COMMAND_PATH_FLOOR_RATE) {
             return;
         }
-        double to = Math.max(MIN_RATE, rounded(old.rateFrom(from, MAX_COMMAND_PATH_CUT)));
+        double to = Math.max(COMMAND_PATH_FLOOR_RATE, rounded(old.rateFrom(from, MAX_COMMAND_PATH_CUT)));
         clock.runAt(to);
         slowedAt(w, to);
         commandPathSlowdowns++;
+        commandPath.cutMade(old, from, to, w);
         Map<String, Object> e = entry("paceSlowed", from, to);
         e.put("reason", "commandPath");
         e.put("unit", c.unit());
@@ -302,6 +292,25 @@ public final class PlantPacing {
         e.put("commandAgeS", old.ageMs() / 1000.0);
         e.put("validityS", old.validityMs() / 1000.0);
         e.put("limitS", old.limitMs() / 1000.0);
+        journal.accept(e);
+    }
+
+    /**
+     * The commands stayed as old after a cut: their age is in their stamps, not on the way, and slowing on helps
+     * nothing. Back to the rate before that cut, and the watch is off for the rest of the run (journaled).
+     */
+    private void restore(CommandPathWatch.Unanswered u, long w) {
+        double from = clock.currentRate();
+        double to = Math.max(from, u.fromRate());
+        clock.runAt(to);
+        lastChangeWallNanos = w;
+        Map<String, Object> e = entry("paceWatchStopped", from, to);
+        e.put("reason", "ageNotFromPath");
+        e.put("cutAgeS", u.cutAgeMs() / 1000.0);
+        e.put("cutFromRate", u.fromRate());
+        e.put("cutToRate", u.toRate());
+        e.put("youngestAgeAfterS", u.youngestAfterMs() / 1000.0);
+        e.put("commandsAfter", u.commandsAfter());
         journal.accept(e);
     }
 
@@ -336,6 +345,7 @@ public final class PlantPacing {
         e.put("slowdowns", slowdowns);
         e.put("commandPathSlowdowns", commandPathSlowdowns);
         e.put("maxCommandAgeS", commandPath.maxAgeS()); // null: none watched
+        e.put("commandPathWatchStopped", commandPath.stopped());
         e.put("holds", holds);
         e.put("raises", raises);
         e.put("heldWallMs", heldWallNanos / 1e6);
@@ -354,9 +364,12 @@ public final class PlantPacing {
         return Optional.of(String.format(Locale.ROOT, "RATE NOT KEPT: asked %sx, kept %.1fx over %.1f s wall"
                         + " (clock held %d times and slowed %d times (%d for old commands), held %.0f ms in all, slipped %d times on stalls of the"
                         + " loop (%.0f ms in all, %.1f s of scenario not run), lowest rate %.1fx, physics at most"
-                        + " %.2f s behind; limit %.2f s); rehearse at a lower --rate for this machine",
+                        + " %.2f s behind; limit %.2f s); %s",
                 trim(clock.rate()), kept, wallS, keeperHolds(), slowdowns, commandPathSlowdowns, heldWallNanos / 1e6, slips,
-                slipWallNanos / 1e6, notRunS, lowestRate, maxLateNanos / 1e9, settings.lagS()));
+                slipWallNanos / 1e6, notRunS, lowestRate, maxLateNanos / 1e9, settings.lagS(), commandPath.stopped()
+                        ? "the command-path watch stopped (ageNotFromPath): the commands' age is in their own stamps, a"
+                        + " lower --rate would not make them younger"
+                        : "rehearse at a lower --rate for this machine"));
     }
 
     /** @return a one-line account of the pacing so far, for the plant's last lines */

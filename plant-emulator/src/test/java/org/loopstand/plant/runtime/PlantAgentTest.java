@@ -274,7 +274,7 @@ class PlantAgentTest {
         try (PlantRunner p = plant(ConnectionGrouping.PER_UNIT, Set.of(), 40, scenario)) {
             List<Map<String, Object>> paceEntries = new java.util.ArrayList<>();
             long stepNanos = Math.round(p.sim().stepS() * 1e9);
-            PlantPacing pacing = new PlantPacing(scenario, clock, stepNanos, new PlantPacing.Settings(1.0, 1.1, 0.8, 5.0),
+            PlantPacing pacing = new PlantPacing(scenario, clock, stepNanos, new PacingSettings(1.0, 1.1, 0.8, 5.0),
                     paceEntries::add).watch(p.lateness());
             scenario.release();
             pacing.started();

@@ -19,7 +19,7 @@ class PlantPacingTest {
     final HeldStartClock clock = new HeldStartClock(wall, 40);
     final List<Map<String, Object>> journal = new ArrayList<>();
     final PlantPacing pacing = new PlantPacing(clock, wall, 20_000_000L,
-            new PlantPacing.Settings(1.0, 1.1, 0.8, 5.0), journal::add);
+            new PacingSettings(1.0, 1.1, 0.8, 5.0), journal::add);
 
     {
         clock.release();
@@ -218,20 +218,89 @@ class PlantPacingTest {
         now = clock.epochMillis();
         pacing.onCommandArrived(pulse(4, now - 2_200, now + 1_800), clock.monotonicNanos());
         assertThat(clock.currentRate()).isEqualTo(5.68);
+        // the path answered the cut (1.9 s, under 0.9 × 2.2 s), and 1.9 s is under the 2 s limit: no cut
+        wall.advanceMillis(1_100);
+        now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(5, now - 1_900, now + 2_100), clock.monotonicNanos());
+        assertThat(clock.currentRate()).isEqualTo(5.68);
         // 5 s old (expired) at 5.68x: the proportional 1.14x is below the deepest cut, a quarter of the rate
         wall.advanceMillis(1_100);
         now = clock.epochMillis();
-        pacing.onCommandArrived(pulse(5, now - 5_000, now - 1_000), clock.monotonicNanos());
+        pacing.onCommandArrived(pulse(6, now - 5_000, now - 1_000), clock.monotonicNanos());
         assertThat(clock.currentRate()).isEqualTo(1.42);
-        // just over the limit (2.2 s at 1.42x): 1.42 × 1 / 2.2, to 0.01
+        // just over the limit (2.2 s at 1.42x): 1.42 × 1 / 2.2 = 0.65, but never below real time for the path
         wall.advanceMillis(1_100);
         now = clock.epochMillis();
-        pacing.onCommandArrived(pulse(6, now - 2_200, now + 1_800), clock.monotonicNanos());
-        assertThat(clock.currentRate()).isEqualTo(0.65);
+        pacing.onCommandArrived(pulse(7, now - 2_200, now + 1_800), clock.monotonicNanos());
+        assertThat(clock.currentRate()).isEqualTo(PlantPacing.COMMAND_PATH_FLOOR_RATE);
+        // at real time, a command still too old slows nothing further
+        wall.advanceMillis(1_100);
+        now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(8, now - 1_900, now + 2_100), clock.monotonicNanos());
+        wall.advanceMillis(1_100);
+        now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(9, now - 3_000, now + 1_000), clock.monotonicNanos());
+        assertThat(clock.currentRate()).isEqualTo(1.0);
         pacing.finish(100);
         assertThat(journal.get(4)).containsEntry("event", "paceSummary").containsEntry("slowdowns", 4L)
                 .containsEntry("commandPathSlowdowns", 4L).containsEntry("maxCommandAgeS", 5.0)
-                .containsEntry("lowestRate", 0.65);
+                .containsEntry("lowestRate", 1.0).containsEntry("commandPathWatchStopped", false);
+    }
+
+    /**
+     * A controller that stamps its commands 20 s in the past (its clock behind the plant's): slowing the clock does
+     * not make them younger, so after one cut and the commands' non-answer the rate goes back and the watch stops;
+     * the commands are judged as they are (refused as expired), not waited for at an ever lower rate.
+     */
+    @Test
+    void shouldGoBackToTheRateAndStopWatchingWhenTheCommandsAgeDoesNotFollowTheRate() {
+        wall.advanceMillis(2_000);
+        long now = clock.epochMillis();
+        // valid 8 s, limit 4 s: 40 × 2 / 20 = 4, below the deepest cut, a quarter of 40
+        pacing.onCommandArrived(pulse(1, now - 20_000, now - 12_000), clock.monotonicNanos());
+        assertThat(clock.currentRate()).isEqualTo(10.0);
+        long seq = 2;
+        for (int wallMs : new int[] {500, 600, 400, 500, 200}) { // 1.1, 1.5, 2.0 (span 0.9 s) and 2.2 s after the cut
+            wall.advanceMillis(wallMs);
+            now = clock.epochMillis();
+            pacing.onCommandArrived(pulse(seq++, now - 20_000, now - 12_000), clock.monotonicNanos());
+            assertThat(clock.currentRate()).as("at command " + (seq - 1)).isEqualTo(seq <= 6 ? 10.0 : 40.0);
+        }
+        assertThat(journal).hasSize(2);
+        assertThat(journal.get(1)).containsEntry("event", "paceWatchStopped").containsEntry("reason", "ageNotFromPath")
+                .containsEntry("fromRate", 10.0).containsEntry("toRate", 40.0).containsEntry("cutAgeS", 20.0)
+                .containsEntry("cutFromRate", 40.0).containsEntry("cutToRate", 10.0).containsEntry("youngestAgeAfterS", 20.0)
+                .containsEntry("commandsAfter", 4);
+        wall.advanceMillis(2_000);
+        now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(seq, now - 20_000, now - 12_000), clock.monotonicNanos());
+        assertThat(clock.currentRate()).isEqualTo(40.0);
+        pacing.finish(100);
+        assertThat(journal.get(2)).containsEntry("event", "paceSummary").containsEntry("commandPathSlowdowns", 1L)
+                .containsEntry("commandPathWatchStopped", true);
+    }
+
+    /** One hold-up delays a burst of commands: all old at one instant is no proof that the age is in their stamps. */
+    @Test
+    void shouldNotTakeOneBurstOfOldCommandsForStampedAge() {
+        wall.advanceMillis(2_000);
+        long now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(1, now - 3_200, now + 800), clock.monotonicNanos());
+        assertThat(clock.currentRate()).isEqualTo(12.5);
+        wall.advanceMillis(1_200);
+        now = clock.epochMillis();
+        for (long seq = 2; seq <= 5; seq++) { // four commands held up together, as old as the one that made the cut
+            pacing.onCommandArrived(pulse(seq, now - 3_200, now + 800), clock.monotonicNanos());
+        }
+        assertThat(clock.currentRate()).isEqualTo(12.5);
+        wall.advanceMillis(300);
+        now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(6, now - 500, now + 3_500), clock.monotonicNanos()); // the path answers
+        wall.advanceMillis(1_100);
+        now = clock.epochMillis();
+        pacing.onCommandArrived(pulse(7, now - 2_500, now + 1_500), clock.monotonicNanos()); // a new hold-up: cut again
+        assertThat(clock.currentRate()).isEqualTo(5.0); // 12.5 × 1 / 2.5
+        assertThat(journal).extracting(e -> e.get("event")).containsExactly("paceSlowed", "paceSlowed");
     }
 
     @Test
@@ -276,9 +345,9 @@ class PlantPacingTest {
 
     @Test
     void shouldRefuseSettingsOutsideTheirRange() {
-        org.assertj.core.api.Assertions.assertThatThrownBy(() -> new PlantPacing.Settings(0, 1.1, 0.8, 5))
+        org.assertj.core.api.Assertions.assertThatThrownBy(() -> new PacingSettings(0, 1.1, 0.8, 5))
                 .hasMessageContaining("pace lag");
-        org.assertj.core.api.Assertions.assertThatThrownBy(() -> new PlantPacing.Settings(1, 0.9, 0.8, 5))
+        org.assertj.core.api.Assertions.assertThatThrownBy(() -> new PacingSettings(1, 0.9, 0.8, 5))
                 .hasMessageContaining("pace factor");
     }
 }

@@ -10,7 +10,6 @@ import java.util.OptionalDouble;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
-import org.loopstand.protocol.journal.EndReason;
 import org.loopstand.protocol.journal.JournalEntry;
 import org.loopstand.protocol.journal.JournalReader;
 import org.loopstand.report.metrics.AceStatistics;
@@ -89,7 +88,7 @@ public final class RunReportBuilder {
         List<String> notes = new ArrayList<>(extraNotes);
         notes.addAll(run.problems());
         run.skipped().forEach(f -> notes.add("Skipped in the run folder: " + f + "."));
-        endNotes(run, notes);
+        notes.addAll(PlantDecisionNotes.of(run));
         if (ctl.isEmpty() && !run.journals().containsKey("controller")) {
             notes.add("No controller journal in this run folder: every figure comes from the plant side; the controller's"
                     + " own counters (acks received, data age at use, its decisions) are not shown.");
@@ -292,30 +291,6 @@ public final class RunReportBuilder {
             out.add(new AreaInfo(a, 50, Double.NaN, 0));
         }
         return out;
-    }
-
-    private static void endNotes(RunFolder run, List<String> notes) {
-        run.journals().forEach((name, c) -> c.summary().endReason().ifPresent(r -> {
-            if (name.equals("plant") && r == EndReason.STOPPED) {
-                notes.add(stoppedNote(c));
-            }
-        }));
-    }
-
-    /** The plant's early stop, with the time and the checks it left undecided when its journal says (checksNotDecided). */
-    private static String stoppedNote(JournalReader.Contents plant) {
-        return plant.entries().stream().filter(e -> e.kind().equals("event") && "checksNotDecided".equals(e.text("event")))
-                .findFirst().map(e -> {
-                    List<String> names = new ArrayList<>();
-                    e.get("checks").forEach(n -> names.add(n.asText()));
-                    JsonNode durationS = plant.summary().header().map(h -> h.path("scenarioDurationS"))
-                            .orElse(com.fasterxml.jackson.databind.node.MissingNode.getInstance());
-                    return String.format(Locale.ROOT, "The plant was stopped before the scenario's end, at %.1f s%s"
-                                    + " (journal end reason: stopped): its checks %s were not decided (checksNotDecided,"
-                                    + " reason %s).", e.get("stoppedAtS").asDouble(),
-                            durationS.isNumber() ? String.format(Locale.ROOT, " of %.0f s", durationS.asDouble()) : "",
-                            String.join(", ", names), e.text("reason"));
-                }).orElse("The plant was stopped before the scenario's end (journal end reason: stopped).");
     }
 
     private static Map<String, String> configuration(ObjectNode ph, ObjectNode ch, Map<String, String> extra, double eps) {

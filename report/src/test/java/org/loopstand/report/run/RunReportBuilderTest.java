@@ -32,6 +32,11 @@ class RunReportBuilderTest {
 
     /** @param plantEnd the plant journal's end reason, null: no end entry (the plant was killed) */
     void writeRun(EndReason plantEnd) {
+        writeRun(plantEnd, List.of());
+    }
+
+    /** @param plantEvents further plant events, each journaled at 70 s */
+    void writeRun(EndReason plantEnd, List<Map<String, Object>> plantEvents) {
         JournalWriter plant = JournalWriter.create(run.resolve("plant.jsonl"), "plant", T0, Map.of("site", "s1",
                 "scenario", "trip.yaml", "rate", 10.0, "scenarioDurationS", 900.0,
                 "areas", Map.of("a", Map.of("nominalFrequencyHz", 50.0, "betaMwPerHz", 500.0, "scheduledNetInterchangeMw", 0.0)),
@@ -45,6 +50,7 @@ class RunReportBuilderTest {
                     "ties", Map.of(), "units", Map.of("u1", Map.of("outputMw", 100.0, "loadReferenceMw", 100.0))));
         }
         plant.append(T0 + 60_000, "event", Map.of("event", "unitTrip", "unit", "u1", "atS", 60.0));
+        plantEvents.forEach(e -> plant.append(T0 + 70_000, "event", e));
         if (plantEnd == EndReason.STOPPED) { // stopped at 121 s of its 900 s: no verdict, and why
             plant.append(T0 + 121_000, "event", Map.of("event", "checksNotDecided", "reason", "stoppedBeforeEnd",
                     "stoppedAtS", 121.0, "checks", List.of("ace-recovered", "tie-back")));
@@ -113,6 +119,20 @@ class RunReportBuilderTest {
         assertThat(m.notes()).contains("The plant was stopped before the scenario's end, at 121.0 s of 900 s (journal end"
                 + " reason: stopped): its checks ace-recovered, tie-back were not decided (checksNotDecided, reason"
                 + " stoppedBeforeEnd).");
+    }
+
+    @Test
+    void shouldSayWhyThePlantStoppedItsCommandPathWatchWithTheFiguresItJournaled() {
+        writeRun(EndReason.COMPLETED, List.of(Map.of("event", "paceWatchStopped", "atS", 70.0, "fromRate", 10.0,
+                "toRate", 40.0, "reason", "ageNotFromPath", "cutAgeS", 20.0, "cutFromRate", 40.0, "cutToRate", 10.0,
+                "youngestAgeAfterS", 19.8, "commandsAfter", 4)));
+        ReportModel m = RunReportBuilder.build(RunFolder.read(run), Map.of(), List.of(), "test");
+        assertThat(m.notes()).contains("The plant's command-path watch stopped at 70.0 s of scenario time (reason"
+                + " ageNotFromPath): a command 20.0 s old made it cut the rate from 40x to 10x, and the next 4 commands"
+                + " were still at least 19.8 s old, so their age is in their own stamps (a controller clock behind the"
+                + " plant's, or back-dated commands), not on the way; the rate went back to 40x and the commands were"
+                + " judged as they came.");
+        assertThat(m.verdict()).isEqualTo(ReportModel.Verdict.PASS); // a note, not a verdict of its own
     }
 
     @Test
