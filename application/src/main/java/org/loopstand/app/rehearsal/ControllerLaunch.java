@@ -167,8 +167,9 @@ final class ControllerLaunch {
                 if (waitedMs >= timeoutMs) {
                     String others = refusedStatuses(statusTopic);
                     throw new IllegalStateException(String.format(Locale.ROOT, "no status from controller '%s' on %s within"
-                            + " %d s%s. Check that it connects to the broker given above and publishes its status there.",
-                            controller.controllerId(), statusTopic, timeoutMs / 1000, others)
+                            + " %d s%s. %s", controller.controllerId(), statusTopic, timeoutMs / 1000, others, others.isEmpty()
+                            ? "Check that it connects to the broker given above and publishes its status there."
+                            : "Statuses did arrive: fix what is named above.")
                             + (child == null ? "" : " Its last output:\n" + child.tail()));
                 }
             } catch (ExecutionException e) {

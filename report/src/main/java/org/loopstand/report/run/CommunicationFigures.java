@@ -168,6 +168,7 @@ final class CommunicationFigures {
             reasons.add(new Metric("commands refused at the plant", "0", "", "plant command entries"));
         }
         reasons.addAll(statusRefusals(plant));
+        reasons.addAll(watchdogFallbacks(plant, ph));
         Map<String, Long> intake = new LinkedHashMap<>(JournalSeries.count(intakeRefusals));
         intake.forEach((r, n) -> reasons.add(Metric.of("input refused by the controller: " + r, n, 0, "",
                 "controller refused entries (intake)")));
@@ -225,5 +226,28 @@ final class CommunicationFigures {
         unitsByReason.forEach((r, units) -> out.add(Metric.of("controller status refused by the units: " + r, units.size(), 0,
                 "units", "not taken as a heartbeat (docs/plant.md, status checks); e.g. " + example.get(r))));
         return out;
+    }
+
+    /**
+     * Units that left remote on their watchdog (plant {@code event} entries {@code watchdog}): from then on they refuse every
+     * command ({@code notInRemote}) until an operator returns them, which often decides a run by itself.
+     */
+    static List<Metric> watchdogFallbacks(List<JournalEntry> plant, ObjectNode ph) {
+        long startMs = ph == null ? Long.MIN_VALUE : ph.path("startedAt").asLong(Long.MIN_VALUE);
+        Set<String> units = new TreeSet<>();
+        JournalEntry first = null;
+        for (JournalEntry e : plant) {
+            if (e.kind().equals("event") && "watchdog".equals(e.text("event"))) {
+                units.add(String.valueOf(e.text("unit")));
+                first = first == null ? e : first;
+            }
+        }
+        if (first == null) {
+            return List.of();
+        }
+        String at = startMs == Long.MIN_VALUE ? "" : String.format(Locale.ROOT, " at %.0f s", (first.tMs() - startMs) / 1000.0);
+        return List.of(Metric.of("units that left remote on their watchdog", units.size(), 0, "units", "first " + first.text("unit")
+                + at + ": " + first.fields().path("detail").asText("") + "; all: " + units
+                + " (they refuse commands as notInRemote until an operator returns them)"));
     }
 }

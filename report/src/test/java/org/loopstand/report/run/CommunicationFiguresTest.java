@@ -130,4 +130,19 @@ class CommunicationFiguresTest {
         assertThat(m.value()).isEqualTo("2");
         assertThat(m.note()).contains("fjord-hydro-1: status of controller controller-1 arrived on controller someone-else's topic");
     }
+
+    @Test
+    void shouldNameTheUnitsThatLeftRemoteOnTheirWatchdogAndWhen() {
+        ObjectNode header = JSON.createObjectNode();
+        header.put("startedAt", 1_796_336_037_451L);
+        List<JournalEntry> plant = new ArrayList<>();
+        plant.add(new JournalEntry(1_796_336_067_505L, "event", JSON.valueToTree(Map.of("event", "watchdog", "unit", "fjord-hydro-1",
+                "detail", "left remote: no controller status for 30.0 s (watchdog 30.0 s)")), 1));
+        plant.add(new JournalEntry(1_796_336_067_650L, "event", JSON.valueToTree(Map.of("event", "watchdog", "unit", "fjord-gas-1",
+                "detail", "left remote: no controller status for 30.2 s (watchdog 30.0 s)")), 2));
+        Metric m = byName(CommunicationFigures.sections(plant, List.of(), header, 600)).get("units that left remote on their watchdog");
+        assertThat(m.value()).isEqualTo("2");
+        assertThat(m.note()).startsWith("first fjord-hydro-1 at 30 s: left remote: no controller status for 30.0 s (watchdog 30.0 s);"
+                + " all: [fjord-gas-1, fjord-hydro-1]");
+    }
 }
