@@ -12,6 +12,8 @@ import java.util.concurrent.ExecutionException;
 import java.util.concurrent.TimeUnit;
 import java.util.concurrent.TimeoutException;
 
+import org.loopstand.protocol.codec.DecodeError;
+import org.loopstand.protocol.codec.Decoded;
 import org.loopstand.protocol.codec.MessageCodec;
 import org.loopstand.protocol.message.ControllerStatus;
 import org.loopstand.protocol.topic.TopicTree;
@@ -32,6 +34,9 @@ final class ControllerLaunch {
     private final MessageCodec codec = new MessageCodec();
     private final CompletableFuture<ControllerStatus> firstStatus = new CompletableFuture<>();
     private final Set<String> otherIds = new TreeSet<>();
+    private final Set<String> wrongTopics = new TreeSet<>();
+    private int undecodable;
+    private DecodeError lastDecodeError;
 
     ControllerLaunch(ControllerUnderTest controller) {
         this.controller = controller;
@@ -87,20 +92,56 @@ final class ControllerLaunch {
                         + TopicTree.forSite(siteId).controllerStatus(s.controller().controllerId()) + ".");
     }
 
-    /** Bus thread: every controller status the rehearsal's own link receives. */
-    void onStatus(byte[] payload, boolean retained) {
+    /**
+     * Bus thread: every controller status the rehearsal's own link receives. Ready takes what a unit would take as a
+     * status of the accepted id: it decodes and its {@code controllerId} is the id of its topic (else the units refuse it,
+     * {@code wrongTopic}). What was refused is kept, so a timeout can say what the controller did wrong.
+     *
+     * @param topic the topic it came on ({@code …/controller/{id}/status})
+     */
+    void onStatus(String topic, byte[] payload, boolean retained) {
         if (retained) {
             return; // left by an earlier run: not a sign of life
         }
-        codec.decode(payload, ControllerStatus.class).message().ifPresent(st -> {
-            if (st.controllerId().equals(controller.controllerId())) {
-                firstStatus.complete(st);
-            } else {
-                synchronized (otherIds) {
-                    otherIds.add(st.controllerId());
+        String topicId = TopicTree.parse(topic).map(p -> p.ids().get(0)).orElse("?");
+        Decoded<ControllerStatus> d = codec.decode(payload, ControllerStatus.class);
+        synchronized (otherIds) {
+            if (d.rejection().isPresent()) {
+                if (topicId.equals(controller.controllerId())) {
+                    undecodable++;
+                    lastDecodeError = d.rejection().get();
                 }
+                return;
             }
-        });
+            ControllerStatus st = d.message().orElseThrow();
+            if (st.controllerId().equals(controller.controllerId()) && topicId.equals(st.controllerId())) {
+                firstStatus.complete(st);
+            } else if (st.controllerId().equals(controller.controllerId())) {
+                wrongTopics.add(topic);
+            } else {
+                otherIds.add(st.controllerId());
+            }
+        }
+    }
+
+    /** @return what arrived but did not count, for the timeout message; empty when nothing did */
+    String refusedStatuses(String statusTopic) {
+        StringBuilder b = new StringBuilder();
+        synchronized (otherIds) {
+            if (undecodable > 0) {
+                b.append(String.format(Locale.ROOT, "; %d status%s on %s did not decode (the units refuse %s too), the last: %s"
+                        + " (docs/messages.md, ControllerStatus)", undecodable, undecodable == 1 ? "" : "es", statusTopic,
+                        undecodable == 1 ? "it" : "them", lastDecodeError));
+            }
+            if (!wrongTopics.isEmpty()) {
+                b.append("; statuses with controllerId '").append(controller.controllerId()).append("' arrived on ")
+                        .append(wrongTopics).append(", not on its own topic (the units refuse them: wrongTopic)");
+            }
+            if (!otherIds.isEmpty()) {
+                b.append("; statuses did arrive from ").append(otherIds).append(", which is not the accepted id");
+            }
+        }
+        return b.toString();
     }
 
     /**
@@ -124,14 +165,11 @@ final class ControllerLaunch {
                             .orElse("") + " before its first status; its last output:\n" + child.tail());
                 }
                 if (waitedMs >= timeoutMs) {
-                    String others;
-                    synchronized (otherIds) {
-                        others = otherIds.isEmpty() ? "" : "; statuses did arrive from " + otherIds
-                                + ", which is not the accepted id";
-                    }
+                    String others = refusedStatuses(statusTopic);
                     throw new IllegalStateException(String.format(Locale.ROOT, "no status from controller '%s' on %s within"
-                            + " %d s%s. Check that it connects to the broker given above and publishes its status there.",
-                            controller.controllerId(), statusTopic, timeoutMs / 1000, others)
+                            + " %d s%s. %s", controller.controllerId(), statusTopic, timeoutMs / 1000, others, others.isEmpty()
+                            ? "Check that it connects to the broker given above and publishes its status there."
+                            : "Statuses did arrive: fix what is named above.")
                             + (child == null ? "" : " Its last output:\n" + child.tail()));
                 }
             } catch (ExecutionException e) {

@@ -299,7 +299,7 @@ public final class Rehearsal {
             link.subscribe(filter, Qos.AT_MOST_ONCE, m -> {
                 view.onMessage(m.topic(), m.payload());
                 if (filter.equals(topics.filterAll(TopicKind.CONTROLLER_STATUS))) {
-                    launch.onStatus(m.payload(), m.retained());
+                    launch.onStatus(m.topic(), m.payload(), m.retained());
                 }
             });
         }

@@ -8,7 +8,8 @@ import org.loopstand.report.model.ReportModel;
 
 /**
  * The verdict as the terminal shows it at the end of a rehearsal: the same verdict as the report's badge
- * (both come from {@link ReportModel#verdict()}), and each failing check with its deciding figure.
+ * (both come from {@link ReportModel#verdict()}), and each failing check with its deciding figure, or, where it has
+ * none, the detail that decided it.
  */
 public final class VerdictLines {
     private VerdictLines() {
@@ -29,7 +30,10 @@ public final class VerdictLines {
         out.add("verdict: " + label + " (" + detail + ")");
         for (CheckResult c : checks) {
             if (!c.passed()) {
-                out.add("  FAIL " + c.name() + ": " + c.decidingFigure() + " (limit " + c.limit() + ")");
+                // a check that never got a figure (never back, nothing to judge) is decided by its detail: say it
+                boolean noFigure = c.decidingFigure().startsWith("n/a") && !c.source().isEmpty();
+                out.add("  FAIL " + c.name() + ": " + c.decidingFigure() + " (limit " + c.limit() + ")"
+                        + (noFigure ? " - " + c.source() : ""));
             }
         }
         return out;

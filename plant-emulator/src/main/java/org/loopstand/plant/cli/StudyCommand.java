@@ -10,6 +10,7 @@ import org.loopstand.plant.scenario.Scenario;
 import org.loopstand.plant.scenario.RunScenario;
 import org.loopstand.plant.scenario.RunScenarioLoader;
 import org.loopstand.protocol.config.ConfigFileException;
+import org.loopstand.protocol.config.YamlNode;
 import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.plant.study.ProgressReporter;
 import org.loopstand.plant.study.StudyResult;
@@ -17,6 +18,7 @@ import org.loopstand.plant.study.StudyRunner;
 import org.loopstand.protocol.time.WallClock;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
+import picocli.CommandLine.Parameters;
 
 /** {@code loopstand study}: runs a scenario on the physics alone, as fast as possible, into a directory. */
 @Command(name = "study", mixinStandardHelpOptions = true,
@@ -25,14 +27,18 @@ public final class StudyCommand implements Callable<Integer> {
     @picocli.CommandLine.Spec
     picocli.CommandLine.Model.CommandSpec spec;
 
-    @Option(names = "--site", required = true, description = "site file (YAML)")
+    @Option(names = "--site", description = "site file (YAML); default: the scenario's siteId found as rehearse finds it"
+            + " (<siteId>.yaml beside the scenario, in a sites/ folder next to it, or in the shipped config/sites/)")
     private Path site;
 
-    @Option(names = "--scenario", required = true,
+    @Option(names = "--scenario",
             description = "scenario file (YAML); a rehearsal scenario too: its faults apply to the physics, its checks are decided, its rate is unused")
     private Path scenarioFile;
 
-    @Option(names = "--out", required = true, description = "output directory (created if missing)")
+    @Parameters(arity = "0..1", paramLabel = "SCENARIO", description = "the scenario file, as --scenario")
+    private Path scenarioArgument;
+
+    @Option(names = "--out", description = "output directory (created if missing); default runs/<time>-<scenario>-study")
     private Path out;
 
     @Option(names = {"--duration-s", "--duration"}, description = "simulated seconds; overrides the scenario's durationS")
@@ -48,7 +54,24 @@ public final class StudyCommand implements Callable<Integer> {
     public Integer call() throws Exception {
         org.loopstand.protocol.cli.OldSpellings.of("--duration", "--duration-s", "--trace-interval", "--trace-interval-s")
                 .warn(spec.commandLine().getParseResult().originalArgs(), System.err::println);
+        if (scenarioFile == null) {
+            scenarioFile = scenarioArgument;
+        } else if (scenarioArgument != null && !scenarioArgument.equals(scenarioFile)) {
+            System.err.println("study: two scenarios given (" + scenarioArgument + " and --scenario " + scenarioFile + "); give one");
+            return 2;
+        }
+        if (scenarioFile == null) {
+            System.err.println("study: give a scenario: loopstand study SCENARIO [--site FILE] [--out DIR]"
+                    + " (add --with-controller for the closed loop with the built-in controller)");
+            return 2;
+        }
         try {
+            if (site == null) {
+                site = siteOf(scenarioFile);
+            }
+            if (out == null) {
+                out = defaultOut(scenarioFile, WallClock.INSTANCE.epochMillis());
+            }
             Grid grid = SiteLoader.loadForRun(site, System.err::println);
             // one scenario format for every run: a rehearsal scenario's rate is unused here, its checks decided on the physics
             org.loopstand.protocol.config.OldKeys.SCENARIO.warn(scenarioFile, System.err::println);
@@ -87,5 +110,20 @@ public final class StudyCommand implements Callable<Integer> {
             System.err.println("study: refused: " + e.getMessage());
             return 2;
         }
+    }
+
+    /** @return the site file a scenario names by its {@code siteId:} (old spelling {@code site:}), found as rehearse finds it */
+    static Path siteOf(Path scenario) {
+        String siteId = YamlNode.topLevelText(scenario, "siteId").or(() -> YamlNode.topLevelText(scenario, "site"))
+                .orElseThrow(() -> new ConfigFileException(java.util.List.of(scenario + ":1:1: the scenario names no site"
+                        + " (top-level siteId:); give --site FILE")));
+        return org.loopstand.protocol.config.InstallFolder.fromEnvironment().siteFor(scenario, siteId);
+    }
+
+    /** @return {@code runs/<yyyyMMdd-HHmmss>-<scenario>-study} at {@code wallMs} (local time), as rehearse names its folders */
+    static Path defaultOut(Path scenario, long wallMs) {
+        String stamp = java.time.format.DateTimeFormatter.ofPattern("yyyyMMdd-HHmmss", java.util.Locale.ROOT)
+                .format(java.time.Instant.ofEpochMilli(wallMs).atZone(java.time.ZoneId.systemDefault()));
+        return Path.of("runs", stamp + "-" + scenario.getFileName().toString().replaceFirst("\\.ya?ml$", "") + "-study");
     }
 }

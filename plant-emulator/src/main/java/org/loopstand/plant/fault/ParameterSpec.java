@@ -42,7 +42,8 @@ public record ParameterSpec(String name, String unit, boolean text, double min, 
     public Optional<String> check(Object value) {
         if (text) {
             if (!(value instanceof String s)) {
-                return Optional.of(name + " must be a text" + choicesText() + ", got " + value);
+                return Optional.of(name + " must be a text" + choicesText() + ", got " + value
+                        + (value instanceof Number ? " (a number)" : ""));
             }
             if (!choices.isEmpty() && !choices.contains(s)) {
                 return Optional.of(name + " must be one of " + choices + ", got '" + s + "'");
@@ -50,7 +51,9 @@ public record ParameterSpec(String name, String unit, boolean text, double min, 
             return Optional.empty();
         }
         if (!(value instanceof Number n) || !Double.isFinite(n.doubleValue())) {
-            return Optional.of(name + " must be a finite number (" + unitText() + "), got " + value);
+            // quoted text ("350") reads like the number it holds unless the message shows its quotes
+            return Optional.of(name + " must be a finite number (" + unitText() + "), got " + (value instanceof String
+                    ? "the text \"" + value + "\" (write numbers without quotes)" : value));
         }
         double v = n.doubleValue();
         if (v < min || v > max) {

@@ -109,9 +109,16 @@ public final class RunScenarioLoader {
                     }
                 }
             }
+            // event types as written, refused ones too: a check after one of those is not a second problem
+            Set<String> written = new HashSet<>();
+            for (YamlNode n : top.sequence("events", false)) {
+                if (n instanceof YamlNode.Mapping m) {
+                    m.text("type").ifPresent(written::add);
+                }
+            }
             Set<String> names = new HashSet<>();
             for (YamlNode n : top.sequence("checks", false)) {
-                readCheck(n, durationS, events, catalog, problems, names);
+                readCheck(n, durationS, events, written, catalog, problems, names);
             }
         }
 
@@ -171,8 +178,8 @@ public final class RunScenarioLoader {
             }
         }
 
-        private void readCheck(YamlNode n, double durationS, List<ScenarioEvent> events, TargetCatalog catalog,
-                List<String> problems, Set<String> names) {
+        private void readCheck(YamlNode n, double durationS, List<ScenarioEvent> events, Set<String> writtenEventTypes,
+                TargetCatalog catalog, List<String> problems, Set<String> names) {
             MappingReader r = new MappingReader(n, "check", problems);
             String type = r.requiredString("type");
             String name = r.optionalString("name", type);
@@ -194,6 +201,9 @@ public final class RunScenarioLoader {
                     problems.add(r.locationOf("after") + ": check " + name + ": give afterS or after, not both");
                 }
                 Double at = momentOf(after, events);
+                if (at == null && writtenEventTypes.contains(after)) {
+                    return; // its event was refused at its own line; that refusal says what to fix
+                }
                 if (at == null) {
                     problems.add(r.locationOf("after") + ": check " + name + ": after '" + after
                             + "' is neither an event type of this scenario nor a fault id (events: "

@@ -121,6 +121,17 @@ class RunScenarioLoaderTest {
     }
 
     @Test
+    void shouldNotBlameACheckForTheEventItFollowsWhenThatEventWasRefused() {
+        // a typo in the step's key refuses the step; the check after it is not a second problem
+        String yaml = HEAD + "events:\n  - {atS: 60, type: loadStep, area: north-basin, deltMw: 60}\n"
+                + "checks:\n  - {name: back, type: frequencyRestored, area: north-basin, after: loadStep, withinS: 300}\n";
+        assertThatThrownBy(() -> load(yaml)).isInstanceOf(ConfigFileException.class)
+                .hasMessageContaining("s.yaml:4:5: event is missing 'deltaMw'")
+                .hasMessageContaining("unknown key 'deltMw' in event (did you mean 'deltaMw'?)")
+                .satisfies(e -> assertThat(((ConfigFileException) e).problems()).hasSize(2));
+    }
+
+    @Test
     void shouldRefuseAnUnknownFaultTypeAndABadParameter() {
         String yaml = HEAD + "faults:\n"
                 + "  - {id: f1, type: meltdown, target: north-basin, startS: 1, endS: 2}\n"

@@ -68,8 +68,23 @@ public final class InstallFolder {
 
     /** @return "no site file for siteId … of FILE (looked for …)", for a refusal when {@link #findSite} found none */
     public String noSite(Path file, String siteId) {
-        return "no site file for siteId '" + siteId + "' of " + file + " (looked for "
+        return "no site file for siteId '" + siteId + "' of " + siteIdAt(file) + " (looked for "
                 + String.join(", ", siteCandidates(file, siteId).stream().map(Path::toString).toList()) + ")";
+    }
+
+    /** @return file:line:column of the file's {@code siteId:} value (or the old {@code site:}), else the file */
+    private static String siteIdAt(Path file) {
+        try {
+            if (YamlNode.read(file) instanceof YamlNode.Mapping m) {
+                YamlNode.Entry e = m.entries().containsKey("siteId") ? m.entries().get("siteId") : m.entries().get("site");
+                if (e != null) {
+                    return e.value().location().toString();
+                }
+            }
+        } catch (ConfigFileException e) {
+            // unreadable: its own reader refuses it at its line; here the file alone
+        }
+        return file.toString();
     }
 
     /** @return the places {@link #siteFor} looks, in order, without repeats */

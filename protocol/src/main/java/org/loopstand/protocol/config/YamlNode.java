@@ -61,10 +61,13 @@ public sealed interface YamlNode permits YamlNode.Mapping, YamlNode.Sequence, Ya
      * @throws ConfigFileException when the file cannot be read, on a syntax error or a duplicate key
      */
     static YamlNode read(Path file) {
+        if (Files.isDirectory(file)) {
+            throw new ConfigFileException(List.of(file + ": is a folder, not a file")); // it opens on Linux, then reads nothing
+        }
         try (Reader r = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
             return read(file.toString(), r);
         } catch (IOException e) {
-            throw new ConfigFileException(List.of(file + ": cannot read: " + e));
+            throw new ConfigFileException(List.of(YamlErrors.cannotRead(file, e)));
         }
     }
 
@@ -96,9 +99,7 @@ public sealed interface YamlNode permits YamlNode.Mapping, YamlNode.Sequence, Ya
             }
             return readValue(fileName, p);
         } catch (JsonProcessingException e) {
-            JsonLocation l = e.getLocation();
-            String where = l == null ? fileName : fileName + ":" + l.getLineNr() + ":" + l.getColumnNr();
-            throw new ConfigFileException(List.of(where + ": not valid YAML: " + e.getOriginalMessage().replace("\n", "; ")));
+            throw new ConfigFileException(List.of(YamlErrors.notValid(fileName, e)));
         }
     }
 

@@ -11,8 +11,8 @@ import java.util.Objects;
  * @param controllerId sending controller id
  * @param epoch        controller epoch, epoch ms (its start time; raised on each takeover), ≥ 0
  * @param issuedAt     epoch ms the command was issued, &gt; 0
- * @param validUntil   epoch ms after which the unit must not act on it, &gt; issuedAt; also the
- *                     MQTT message expiry
+ * @param validUntil   epoch ms after which the unit must not act on it, &gt; issuedAt; the MQTT
+ *                     message expiry is set from it in wall seconds (docs/controller-contract.md § 6)
  * @param kind         pulse or setpoint
  * @param direction    raise or lower for a pulse; absent for a setpoint
  * @param durationMs   pulse length, ms, in [1, 600000]; 0 for a setpoint

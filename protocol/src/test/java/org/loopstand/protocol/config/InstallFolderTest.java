@@ -42,13 +42,13 @@ class InstallFolderTest {
     }
 
     @Test
-    void shouldNameEveryPlaceLookedInWhenNoSiteFileExists() throws IOException {
+    void shouldNameEveryPlaceLookedInAndTheSiteIdsPlaceWhenNoSiteFileExists() throws IOException {
         Path scenario = Files.writeString(dir.resolve("trip.yaml"), "siteId: nowhere\n");
         InstallFolder install = InstallFolder.of(Map.of("LOOPSTAND_HOME", dir.resolve("home").toString()));
 
         assertThatThrownBy(() -> install.siteFor(scenario, "nowhere"))
                 .isInstanceOf(IllegalArgumentException.class)
-                .hasMessageContaining("no site file for siteId 'nowhere'")
+                .hasMessageContaining("no site file for siteId 'nowhere' of " + scenario + ":1:9 (looked for ")
                 .hasMessageContaining(dir.resolve("nowhere.yaml").toString())
                 .hasMessageContaining(dir.resolve("home/config/sites/nowhere.yaml").toString())
                 .hasMessageEndingWith("give --site FILE");

@@ -104,6 +104,25 @@ class MappingReaderTest {
     }
 
     @Test
+    void shouldPointAtTheProblemOfBrokenYamlOnOneLine() {
+        // a missing comma in a flow mapping: the parser's problem is at the second key, line 2 column 41
+        assertThatThrownBy(() -> YamlNode.read("s.yaml", "faults:\n  - {id: quarry-lossy, type: drop target: quarry-heights}\n"))
+                .hasMessage("s.yaml:2:41: not valid YAML: expected ',' or '}', but got : (while parsing a flow mapping at 2:5)");
+        // a line indented out of its list: the problem is on that line, not where the list's last item ended
+        assertThatThrownBy(() -> YamlNode.read("i.yaml", "events:\n  - {atS: 60}\n   bad: x\n"))
+                .hasMessageStartingWith("i.yaml:3:4: not valid YAML: expected <block end>, but found '<block mapping start>'")
+                .hasMessageEndingWith("(while parsing a block collection at 2:3)");
+    }
+
+    @Test
+    void shouldSayInWordsThatAFileIsMissingOrAFolder(@org.junit.jupiter.api.io.TempDir java.nio.file.Path dir) {
+        java.nio.file.Path missing = dir.resolve("tarnwik.yaml");
+        assertThatThrownBy(() -> YamlNode.read(missing)).hasMessage(missing + ": no such file (relative paths start at "
+                + java.nio.file.Path.of("").toAbsolutePath() + ")");
+        assertThatThrownBy(() -> YamlNode.read(dir)).hasMessage(dir + ": is a folder, not a file");
+    }
+
+    @Test
     void shouldRefuseBrokenYamlAndDuplicateKeysWithTheirPlace() {
         assertThatThrownBy(() -> YamlNode.read("b.yaml", "a: [1, 2\nb: 3\n")).isInstanceOf(ConfigFileException.class)
                 .hasMessageStartingWith("b.yaml:").hasMessageContaining("not valid YAML");

@@ -8,6 +8,7 @@ import java.util.Locale;
 import java.util.Map;
 import java.util.Set;
 import java.util.TreeMap;
+import java.util.TreeSet;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.node.ObjectNode;
@@ -35,6 +36,17 @@ final class CommunicationFigures {
         long acksSentByPlant = 0;
         for (JournalEntry e : plant) {
             if (!e.kind().equals("published")) {
+                continue;
+            }
+            if (e.fields().has("fate")) {
+                // a fault stage's entry: the transport journaled the message as sent when it handed it to the stage
+                // (why throughFaultStage), so only the stage knows whether it went out
+                String fate = e.text("fate");
+                if (!"sent".equals(fate)) {
+                    String type = typeOfStream(e.text("stream"));
+                    publishedByType.merge(type, -1L, Long::sum);
+                    notSentByWhy.merge(type + " " + fate + " by fault " + String.join(", ", faultIds(e)), 1L, Long::sum);
+                }
                 continue;
             }
             if (e.fields().path("sent").asBoolean(false)) {
@@ -96,7 +108,8 @@ final class CommunicationFigures {
         if (notSentByWhy.isEmpty()) {
             loss.add(new Metric("plant messages not sent", "0", "", "meter, telemetry and acks dropped at the source (link down)"));
         }
-        notSentByWhy.forEach((k, n) -> loss.add(Metric.of("not sent: " + k, n, 0, "", "dropped at the source, never sent late")));
+        notSentByWhy.forEach((k, n) -> loss.add(Metric.of("not sent: " + k, n, 0, "", k.contains(" by fault ")
+                ? "held back by the fault stage (its published entries' fate)" : "dropped at the source, never sent late")));
         loss.addAll(DataUseFigures.loss(plant, JournalSeries.ofKind(ctl, "decided")));
         out.add(new MetricSection("Loss", MetricSection.Group.COMMUNICATION, loss));
 
@@ -154,6 +167,8 @@ final class CommunicationFigures {
         if (cs.refusalsByReason().isEmpty()) {
             reasons.add(new Metric("commands refused at the plant", "0", "", "plant command entries"));
         }
+        reasons.addAll(statusRefusals(plant));
+        reasons.addAll(watchdogFallbacks(plant, ph));
         Map<String, Long> intake = new LinkedHashMap<>(JournalSeries.count(intakeRefusals));
         intake.forEach((r, n) -> reasons.add(Metric.of("input refused by the controller: " + r, n, 0, "",
                 "controller refused entries (intake)")));
@@ -169,5 +184,70 @@ final class CommunicationFigures {
     private static String wallNote(double scenarioMs, double rate) {
         return Double.isNaN(scenarioMs) ? "" : String.format(Locale.ROOT, "≈ %.0f ms wall at rate %s", scenarioMs / rate,
                 RunReportBuilder.trim(rate));
+    }
+
+    /** @return the message type a fault stage's stream carries: {@code meter/{area}/{meter}} or {@code telemetry/{unit}} */
+    static String typeOfStream(String stream) {
+        if (stream == null) {
+            return "message";
+        }
+        if (stream.startsWith("meter/")) {
+            return "AreaMeter";
+        }
+        if (stream.startsWith("telemetry/")) {
+            return "UnitTelemetry";
+        }
+        int slash = stream.indexOf('/');
+        return slash < 0 ? stream : stream.substring(0, slash);
+    }
+
+    private static List<String> faultIds(JournalEntry e) {
+        List<String> ids = new ArrayList<>();
+        e.fields().path("faults").forEach(f -> ids.add(f.asText()));
+        return ids.isEmpty() ? List.of("?") : ids;
+    }
+
+    /**
+     * Controller statuses the units refused (plant {@code event} entries {@code statusRefused}): a refused status is no
+     * heartbeat, so the units' watchdog never armed on it; a unit journals each reason once per controller and watchdog
+     * period, so the figure is the units that refused, not the statuses.
+     */
+    static List<Metric> statusRefusals(List<JournalEntry> plant) {
+        Map<String, Set<String>> unitsByReason = new TreeMap<>();
+        Map<String, String> example = new TreeMap<>();
+        for (JournalEntry e : plant) {
+            if (e.kind().equals("event") && "statusRefused".equals(e.text("event"))) {
+                String reason = String.valueOf(e.text("reason"));
+                unitsByReason.computeIfAbsent(reason, r -> new TreeSet<>()).add(String.valueOf(e.text("unit")));
+                example.putIfAbsent(reason, e.text("unit") + ": " + e.fields().path("detail").asText(""));
+            }
+        }
+        List<Metric> out = new ArrayList<>();
+        unitsByReason.forEach((r, units) -> out.add(Metric.of("controller status refused by the units: " + r, units.size(), 0,
+                "units", "not taken as a heartbeat (docs/plant.md, status checks); e.g. " + example.get(r))));
+        return out;
+    }
+
+    /**
+     * Units that left remote on their watchdog (plant {@code event} entries {@code watchdog}): from then on they refuse every
+     * command ({@code notInRemote}) until an operator returns them, which often decides a run by itself.
+     */
+    static List<Metric> watchdogFallbacks(List<JournalEntry> plant, ObjectNode ph) {
+        long startMs = ph == null ? Long.MIN_VALUE : ph.path("startedAt").asLong(Long.MIN_VALUE);
+        Set<String> units = new TreeSet<>();
+        JournalEntry first = null;
+        for (JournalEntry e : plant) {
+            if (e.kind().equals("event") && "watchdog".equals(e.text("event"))) {
+                units.add(String.valueOf(e.text("unit")));
+                first = first == null ? e : first;
+            }
+        }
+        if (first == null) {
+            return List.of();
+        }
+        String at = startMs == Long.MIN_VALUE ? "" : String.format(Locale.ROOT, " at %.0f s", (first.tMs() - startMs) / 1000.0);
+        return List.of(Metric.of("units that left remote on their watchdog", units.size(), 0, "units", "first " + first.text("unit")
+                + at + ": " + first.fields().path("detail").asText("") + "; all: " + units
+                + " (they refuse commands as notInRemote until an operator returns them)"));
     }
 }

@@ -96,4 +96,53 @@ class CommunicationFiguresTest {
         assertThat(m.get("commands taken by the units from intruder").value()).isEqualTo("1");
         assertThat(m.get("commands taken by the units from controller-1").value()).isEqualTo("2");
     }
+
+    @Test
+    void shouldCountAMeterReadingAFaultDroppedAsNotSentByThatFault() {
+        // as a plant journal holds a lossy meter: the transport journals each reading it hands to the fault stage as
+        // sent (why throughFaultStage); the stage's own entry says whether it went out
+        List<JournalEntry> plant = new ArrayList<>();
+        String[] fates = {"dropped", "sent", "dropped"};
+        for (int i = 0; i < 3; i++) {
+            long t = 100_000 + 2_000L * i;
+            plant.add(new JournalEntry(t, "published", JSON.valueToTree(Map.of("stream", "meter/quarry-heights/main",
+                    "fate", fates[i], "faults", List.of("quarry-lossy"), "detail", fates[i])), plant.size() + 1));
+            plant.add(new JournalEntry(t + 1, "published", JSON.valueToTree(Map.of("type", "AreaMeter", "seq", 57 + i,
+                    "sent", true, "why", "throughFaultStage")), plant.size() + 1));
+        }
+        Map<String, Metric> m = byName(CommunicationFigures.sections(plant, List.of(), null, 6));
+        assertThat(m.get("not sent: AreaMeter dropped by fault quarry-lossy").value()).isEqualTo("2");
+        assertThat(m.get("AreaMeter published by the plant").note()).startsWith("1 messages");
+        assertThat(m.keySet()).noneMatch(k -> k.contains("null"));
+    }
+
+    @Test
+    void shouldShowTheStatusesTheUnitsRefusedWithTheirReason() {
+        List<JournalEntry> plant = new ArrayList<>();
+        for (String unit : List.of("fjord-hydro-1", "quarry-steam-1", "fjord-hydro-1")) {
+            plant.add(new JournalEntry(199_538, "event", JSON.valueToTree(Map.of("event", "statusRefused", "unit", unit,
+                    "reason", "wrongTopic", "detail", "status of controller controller-1 arrived on controller someone-else's topic")),
+                    plant.size() + 1));
+        }
+        Metric m = byName(CommunicationFigures.sections(plant, List.of(), null, 600))
+                .get("controller status refused by the units: wrongTopic");
+        // two units, one of them journaled it twice (once per watchdog period)
+        assertThat(m.value()).isEqualTo("2");
+        assertThat(m.note()).contains("fjord-hydro-1: status of controller controller-1 arrived on controller someone-else's topic");
+    }
+
+    @Test
+    void shouldNameTheUnitsThatLeftRemoteOnTheirWatchdogAndWhen() {
+        ObjectNode header = JSON.createObjectNode();
+        header.put("startedAt", 1_796_336_037_451L);
+        List<JournalEntry> plant = new ArrayList<>();
+        plant.add(new JournalEntry(1_796_336_067_505L, "event", JSON.valueToTree(Map.of("event", "watchdog", "unit", "fjord-hydro-1",
+                "detail", "left remote: no controller status for 30.0 s (watchdog 30.0 s)")), 1));
+        plant.add(new JournalEntry(1_796_336_067_650L, "event", JSON.valueToTree(Map.of("event", "watchdog", "unit", "fjord-gas-1",
+                "detail", "left remote: no controller status for 30.2 s (watchdog 30.0 s)")), 2));
+        Metric m = byName(CommunicationFigures.sections(plant, List.of(), header, 600)).get("units that left remote on their watchdog");
+        assertThat(m.value()).isEqualTo("2");
+        assertThat(m.note()).startsWith("first fjord-hydro-1 at 30 s: left remote: no controller status for 30.0 s (watchdog 30.0 s);"
+                + " all: [fjord-gas-1, fjord-hydro-1]");
+    }
 }
