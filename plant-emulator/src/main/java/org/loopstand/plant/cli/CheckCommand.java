@@ -3,6 +3,7 @@ package org.loopstand.plant.cli;
 import java.io.IOException;
 import java.io.PrintWriter;
 import java.nio.file.Path;
+import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -50,6 +51,9 @@ public final class CheckCommand implements Callable<Integer> {
     @Spec
     private CommandSpec spec;
 
+    /** site files whose warnings this run of check printed already, absolute */
+    private final java.util.Set<Path> sitesWarned = new java.util.HashSet<>();
+
     @Override
     public Integer call() {
         PrintWriter out = spec.commandLine().getOut();
@@ -83,8 +87,14 @@ public final class CheckCommand implements Callable<Integer> {
         Map<String, String> top = topKeys(file);
         boolean isScenario = top.containsKey("durationS") || top.containsKey("events") || top.containsKey("site");
         if (top.containsKey("areas") || top.containsKey("siteId") && !isScenario) {
-            Grid grid = SiteLoader.loadForRun(file, out::println);
-            out.println(file + ": site " + grid.siteId() + " ok; " + SmallSignalStability.assess(grid).describe());
+            List<String> warnings = new ArrayList<>();
+            Grid grid = SiteLoader.loadForRun(file, warnings::add);
+            warnings.forEach(out::println);
+            sitesWarned.add(file.toAbsolutePath().normalize());
+            String stability = SmallSignalStability.assess(grid).describe();
+            // a lightly damped site was warned about on the line above: not a second time on the ok line
+            out.println(file + ": site " + grid.siteId() + " ok; " + (warnings.stream().anyMatch(w -> w.contains(stability))
+                    ? "stability warning above" : stability));
             return true;
         }
         if (isScenario) {
@@ -95,7 +105,9 @@ public final class CheckCommand implements Callable<Integer> {
                 return false;
             }
             Path siteFile = site != null ? site : org.loopstand.protocol.config.InstallFolder.fromEnvironment().siteFor(file, siteId);
-            Grid grid = SiteLoader.loadForRun(siteFile, out::println);
+            // its site's warnings once per run of check, even when the site was given as a file of its own too
+            boolean warned = !sitesWarned.add(siteFile.toAbsolutePath().normalize());
+            Grid grid = SiteLoader.loadForRun(siteFile, warned ? w -> { } : out::println);
             HostLinks hosts = hostsFile == null ? HostLinks.NONE : NamespaceHostLinks.read(hostsFile);
             RunScenario scenario = RunScenarioLoader.load(file, EventTypeRegistry.physics(), grid, hosts);
             RunScenarioLoader.startWarnings(file, scenario, grid).forEach(out::println);

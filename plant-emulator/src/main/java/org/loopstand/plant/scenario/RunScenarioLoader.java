@@ -201,8 +201,8 @@ public final class RunScenarioLoader {
                     problems.add(r.locationOf("after") + ": check " + name + ": give afterS or after, not both");
                 }
                 Double at = momentOf(after, events);
-                if (at == null && writtenEventTypes.contains(after)) {
-                    return; // its event was refused at its own line; that refusal says what to fix
+                if (at == null && writtenEventTypes.contains(after) || at != null && at < 0) {
+                    return; // its event was refused at its own line (a negative atS too): that refusal says what to fix
                 }
                 if (at == null) {
                     problems.add(r.locationOf("after") + ": check " + name + ": after '" + after

@@ -37,6 +37,20 @@ class CheckCommandTest {
     }
 
     @Test
+    void shouldWarnOnceAboutALightlyDampedSiteGivenAsAFileAndAsAScenariosSite() throws Exception {
+        Path scenario = Files.writeString(tmp.resolve("step.yaml"), "siteId: tarnwick\ndurationS: 300\nevents:\n"
+                + "  - {atS: 60, type: loadStep, area: quarry-heights, deltaMw: 60}\n");
+        Path site = TEST_SITES.resolve("tarnwick.yaml");
+        int code = check("--site", site.toAbsolutePath().toString(), site.toString(), scenario.toString());
+        assertThat(code).as(out.toString()).isZero();
+        // 2.9 % damping, under the 3 % the screen asks (SmallSignalStability.MIN_DAMPING_RATIO)
+        assertThat(out.toString().split("lightly damped: least-damped mode below 3 % damping", -1)).as(out.toString())
+                .hasSize(2);
+        assertThat(out.toString()).contains("tarnwick.yaml: warning: lightly damped", "damping ratio 2.9 %",
+                "tarnwick.yaml: site tarnwick ok; stability warning above", "step.yaml: scenario ok against ");
+    }
+
+    @Test
     void shouldRefuseTheUnstableSiteWithExitTwoNamingTheMode() {
         int code = check(TEST_SITES.resolve("unstable-three-area.yaml").toString());
         assertThat(code).isEqualTo(2);

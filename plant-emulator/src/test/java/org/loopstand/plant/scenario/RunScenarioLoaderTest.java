@@ -132,6 +132,15 @@ class RunScenarioLoaderTest {
     }
 
     @Test
+    void shouldNotBlameACheckForTheNegativeTimeOfTheEventItFollows() {
+        String yaml = HEAD + "events:\n  - {atS: -5, type: loadStep, area: north-basin, deltaMw: 60}\n"
+                + "checks:\n  - {name: back, type: frequencyRestored, area: north-basin, after: loadStep, withinS: 300}\n";
+        assertThatThrownBy(() -> load(yaml)).isInstanceOf(ConfigFileException.class)
+                .hasMessageContaining("s.yaml:4:6: atS must be 0 or more, got -5.0")
+                .satisfies(e -> assertThat(((ConfigFileException) e).problems()).hasSize(1));
+    }
+
+    @Test
     void shouldRefuseAnUnknownFaultTypeAndABadParameter() {
         String yaml = HEAD + "faults:\n"
                 + "  - {id: f1, type: meltdown, target: north-basin, startS: 1, endS: 2}\n"
