@@ -3,6 +3,7 @@ package org.loopstand.app.rehearsal;
 import java.util.ArrayList;
 import java.util.List;
 
+import org.loopstand.report.model.CheckMargin;
 import org.loopstand.report.model.CheckResult;
 import org.loopstand.report.model.ReportModel;
 
@@ -34,6 +35,11 @@ public final class VerdictLines {
                 boolean noFigure = c.decidingFigure().startsWith("n/a") && !c.source().isEmpty();
                 out.add("  FAIL " + c.name() + ": " + c.decidingFigure() + " (limit " + c.limit() + ")"
                         + (noFigure ? " - " + c.source() : ""));
+            }
+        }
+        for (CheckResult c : checks) {
+            if (CheckMargin.near(c)) {
+                out.add("  near its limit: " + CheckMargin.describe(c));
             }
         }
         return out;

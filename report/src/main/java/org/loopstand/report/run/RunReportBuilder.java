@@ -20,6 +20,7 @@ import org.loopstand.report.metrics.FrequencyExcursion;
 import org.loopstand.report.metrics.InadvertentEnergy;
 import org.loopstand.report.metrics.Interconnection;
 import org.loopstand.report.model.Chart;
+import org.loopstand.report.model.CheckMargin;
 import org.loopstand.report.model.CheckResult;
 import org.loopstand.report.model.Metric;
 import org.loopstand.report.model.MetricSection;
@@ -147,6 +148,7 @@ public final class RunReportBuilder {
         }
         sections.addAll(comparisons);
         checks.addAll(journalChecks(run));
+        checks.stream().filter(CheckMargin::near).forEach(c -> notes.add("Check " + CheckMargin.describe(c) + "."));
         if (!freq.isEmpty()) {
             charts.add(new Chart("Frequency", "Hz", freq, false));
         }
