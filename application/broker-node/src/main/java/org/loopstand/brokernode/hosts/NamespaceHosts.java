@@ -80,22 +80,21 @@ public final class NamespaceHosts implements AutoCloseable {
     public static List<String> sweepOrphans(String family) {
         Pattern name = Pattern.compile(Pattern.quote(family) + "(\\d+)[a-z](hub|h\\d)");
         List<String> swept = new ArrayList<>();
-        NamespaceHosts any = new NamespaceHosts(family, 0);
-        for (String line : any.output("ip", "netns", "list").split("\n")) {
+        for (String line : output("ip", "netns", "list").split("\n")) {
             String ns = line.strip().split("\\s+")[0];
             Matcher m = name.matcher(ns);
             if (!m.matches() || ProcessHandle.of(Long.parseLong(m.group(1))).map(ProcessHandle::isAlive).orElse(false)) {
                 continue;
             }
             List<String> killed = new ArrayList<>();
-            for (String pid : any.output("ip", "netns", "pids", ns).split("\\s+")) {
+            for (String pid : output("ip", "netns", "pids", ns).split("\\s+")) {
                 if (!pid.isBlank()) {
                     ProcessHandle.of(Long.parseLong(pid)).ifPresent(ProcessHandle::destroyForcibly);
                     killed.add(pid);
                 }
             }
             try {
-                any.run("ip", "netns", "del", ns);
+                output("ip", "netns", "del", ns);
                 swept.add(ns + (killed.isEmpty() ? "" : " (killed " + String.join(", ", killed) + ")"));
             } catch (IllegalStateException e) {
                 swept.add(ns + " not removed: " + e.getMessage());
@@ -171,7 +170,7 @@ public final class NamespaceHosts implements AutoCloseable {
     }
 
     /** Runs {@code command} (10 s at most) and returns its output; fails with both when it exits non-zero. */
-    private String output(String... command) {
+    private static String output(String... command) {
         try {
             Process p = new ProcessBuilder(command).redirectErrorStream(true).start();
             String out = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8).strip();
