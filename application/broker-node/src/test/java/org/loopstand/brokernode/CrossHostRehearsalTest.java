@@ -232,8 +232,10 @@ class CrossHostRehearsalTest {
         long cutMs = networkFaults.get(0).tMs();
         long healMs = networkFaults.get(1).tMs();
         List<JournalEntry> events = new ArrayList<>(of(plant, JournalFormat.KIND_EVENT));
+        List<JournalEntry> unitEntries = new ArrayList<>(plant.entries());
         for (String u : ELSEWHERE) { // the unit processes on host 2 journal their own decisions
             JournalReader.Contents unit = JournalReader.readAll(run.resolve("unit-" + u + ".jsonl"));
+            unitEntries.addAll(unit.entries());
             assertThat(unit.summary().damagedLines()).isEmpty();
             assertThat(of(unit, "command")).as(u + " took commands from the controller across the cluster")
                     .anySatisfy(e -> assertThat(e.text("outcome")).isEqualTo("accepted"));
@@ -243,7 +245,10 @@ class CrossHostRehearsalTest {
                 .filter(e -> "watchdog".equals(e.text("event")) && e.tMs() > cutMs && e.tMs() < healMs).toList();
         // the demo site's units: 30 s watchdog (site file), so each left remote inside the 80 s cut, on host 1
         // and on host 2 alike
-        assertThat(fellBack.stream().map(e -> e.text("unit")).distinct()).hasSize(UNITS.size() - 1) // ridge-hydro-2 tripped
+        assertThat(fellBack.stream().map(e -> e.text("unit")).distinct())
+                .as(() -> "units that fell back on their watchdog inside the cut; the others' decisions, s from the cut:"
+                        + notFallenBack(fellBack, unitEntries, cutMs))
+                .hasSize(UNITS.size() - 1) // ridge-hydro-2 tripped
                 .containsAll(ELSEWHERE);
         List<JournalEntry> decided = of(controller, JournalFormat.KIND_DECIDED);
         // blind during the cut, the controller extrapolates the plant's clock at the last tick's rate; a plant
@@ -280,6 +285,27 @@ class CrossHostRehearsalTest {
         assertThat(noBump.get("passed").asBoolean()).as(noBump.text("source")).isTrue();
         assertThat(noBump.text("source")).as("a resume from the suspension on stale data was judged")
                 .contains("after suspended [frequencyUnusable:");
+    }
+
+    /** What each unit that did not fall back inside the cut decided about its mode and the controller's statuses. */
+    private static String notFallenBack(List<JournalEntry> fellBack, List<JournalEntry> entries, long cutMs) {
+        StringBuilder why = new StringBuilder();
+        for (String u : UNITS) {
+            if (fellBack.stream().anyMatch(e -> u.equals(e.text("unit")))) {
+                continue;
+            }
+            why.append("\n  ").append(u).append(':');
+            List<JournalEntry> mine = entries.stream().filter(e -> u.equals(e.text("unit"))).toList();
+            mine.stream().filter(e -> !List.of("command", "telemetry", "published").contains(e.kind()))
+                    .forEach(e -> why.append(String.format(Locale.ROOT, "\n    %+.1f %s %s %s %s", (e.tMs() - cutMs) / 1000.0,
+                            e.kind(), e.text("event"), e.text("code"), e.text("detail"))));
+            mine.stream().filter(e -> e.kind().equals("command") && e.tMs() < cutMs).reduce((a, b) -> b)
+                    .ifPresent(e -> why.append(String.format(Locale.ROOT, "\n    last command before the cut at %+.1f: %s",
+                            (e.tMs() - cutMs) / 1000.0, e.text("outcome"))));
+            why.append("\n    commands after the cut: ").append(mine.stream()
+                    .filter(e -> e.kind().equals("command") && e.tMs() >= cutMs).count());
+        }
+        return why.toString();
     }
 
     private static List<String> names() {

@@ -35,6 +35,7 @@ import org.loopstand.protocol.security.CommandSigner;
 import org.loopstand.protocol.security.StatusSeal;
 import org.loopstand.protocol.time.BusClock;
 import org.loopstand.protocol.time.Clock;
+import org.loopstand.protocol.time.ClockSilenceWatch;
 import org.loopstand.protocol.topic.TopicTree;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;

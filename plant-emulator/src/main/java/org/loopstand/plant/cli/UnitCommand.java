@@ -116,6 +116,7 @@ public final class UnitCommand implements Callable<Integer> {
             if (plantClock != null) {
                 // from here on every tick on the unit's own connection moves its clock (the pace keeper's holds too)
                 PlantClockFollower.feed(process.bus(), TopicTree.forSite(grid.siteId()), plantClock);
+                process.followPlantClock(plantClock);
             }
         } catch (IllegalArgumentException e) {
             System.err.println("unit: refused: " + e.getMessage());
@@ -160,8 +161,9 @@ public final class UnitCommand implements Callable<Integer> {
     private BusClock plantClock(LinkFactory links, String siteId) throws InterruptedException {
         MessageBus bus = links.connect(UnitProcess.clientId(siteId, unit), null);
         try {
-            return PlantClockFollower.await(bus, TopicTree.forSite(siteId), WallClock.INSTANCE, plantTickTimeoutMs)
-                    .orElse(null);
+            // a unit's time stands while the ticks are silent: its watchdog counts the plant's time, never a guess
+            return PlantClockFollower.await(bus, TopicTree.forSite(siteId), WallClock.INSTANCE, plantTickTimeoutMs,
+                    BusClock.WhenSilent.STAND_STILL).orElse(null);
         } finally {
             bus.close();
         }

@@ -86,14 +86,14 @@ public final class ControlCentreLink implements UnitOutput {
 
     /**
      * A controller status payload with the controller id of the topic it arrived on (null when the
-     * topic is not a status topic of this tree).
+     * topic is not a status topic of this tree); {@code retained} for the retained copy a subscription brings.
      */
-    public record StatusArrival(String topicControllerId, byte[] payload) {
+    public record StatusArrival(String topicControllerId, byte[] payload, boolean retained) {
     }
 
     /** Bus thread: queues a controller status payload that arrived on {@code topicControllerId}'s topic. */
-    public void offerStatus(String topicControllerId, byte[] payload) {
-        if (!failed && !statuses.offer(new StatusArrival(topicControllerId, payload))) {
+    public void offerStatus(String topicControllerId, byte[] payload, boolean retained) {
+        if (!failed && !statuses.offer(new StatusArrival(topicControllerId, payload, retained))) {
             overflow.increment();
         }
     }

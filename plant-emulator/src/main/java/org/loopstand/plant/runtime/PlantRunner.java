@@ -147,7 +147,7 @@ public final class PlantRunner implements AutoCloseable {
         bus.subscribe(filter, Qos.AT_LEAST_ONCE, m -> {
             String topicId = TopicTree.parse(m.topic()).filter(t -> t.kind() == TopicKind.CONTROLLER_STATUS)
                     .map(t -> t.id("controller")).orElse(null);
-            groupLinks.forEach(l -> l.offerStatus(topicId, m.payload()));
+            groupLinks.forEach(l -> l.offerStatus(topicId, m.payload(), m.retained()));
         });
     }
 

@@ -22,6 +22,7 @@ public final class UnitDutyCycle {
     private FaultHooks faults;
     private StatusDecoding statusDecoding;
     private CommandArrivals arrivals;
+    private java.util.function.BooleanSupplier timeKnown = () -> true;
 
     /** Told of every command that came off the bus, decoded, before any command fault stage (owner thread). */
     public interface CommandArrivals {
@@ -92,15 +93,27 @@ public final class UnitDutyCycle {
         this.faults = hooks;
     }
 
+    /**
+     * Owner thread, before start: while {@code known} says false (a followed clock standing until the plant's
+     * next tick) controller statuses wait in their queue and the interface is not ticked, so a status is
+     * never stamped with a time the plant has left behind, nor the watchdog judged on it (the next tick
+     * may move the time on by seconds at once).
+     */
+    void judgeTimeOnlyWhen(java.util.function.BooleanSupplier known) {
+        this.timeKnown = known;
+    }
+
     /** @return work done (messages handled + telemetry published) */
     public int work() {
         int work = 0;
         link.announceIfDue();
-        for (ControlCentreLink.StatusArrival s; (s = link.pollStatus()) != null; work++) {
+        boolean known = timeKnown.getAsBoolean();
+        for (ControlCentreLink.StatusArrival s; known && (s = link.pollStatus()) != null; work++) {
             Decoded<ControllerStatus> d = statusDecoding != null ? statusDecoding.decode(s.payload())
                     : codec.decode(s.payload(), ControllerStatus.class);
             String topicId = s.topicControllerId() == null ? "?" : s.topicControllerId();
-            d.message().ifPresent(status -> unit.onControllerStatus(status, topicId));
+            boolean retained = s.retained();
+            d.message().ifPresent(status -> unit.onControllerStatus(status, topicId, retained));
         }
         ControlCentreLink.Received r;
         for (int i = 0; i < MAX_COMMANDS_PER_CYCLE && (r = link.pollCommand()) != null; i++, work++) {
@@ -123,6 +136,6 @@ public final class UnitDutyCycle {
             overflowSeen = overflow;
             unit.reportOverflow(overflow);
         }
-        return work + unit.tick();
+        return known ? work + unit.tick() : work;
     }
 }

@@ -1,6 +1,8 @@
 package org.loopstand.plant.runtime;
 
+import java.util.LinkedHashMap;
 import java.util.List;
+import java.util.Map;
 
 import org.loopstand.plant.field.RemoteTurbineField;
 import org.loopstand.plant.grid.GeneratingUnit;
@@ -13,7 +15,9 @@ import org.loopstand.protocol.agent.AgentRunner;
 import org.loopstand.protocol.bus.MessageBus;
 import org.loopstand.protocol.bus.Qos;
 import org.loopstand.protocol.codec.MessageCodec;
+import org.loopstand.protocol.time.BusClock;
 import org.loopstand.protocol.time.Clock;
+import org.loopstand.protocol.time.ClockSilenceWatch;
 import org.loopstand.protocol.topic.TopicTree;
 
 /**
@@ -22,6 +26,7 @@ import org.loopstand.protocol.topic.TopicTree;
  * a lost plant link: the controller sees the will and the physics keeps the last load reference.
  */
 public final class UnitProcess implements AutoCloseable {
+    private static final org.slf4j.Logger LOG = org.slf4j.LoggerFactory.getLogger(UnitProcess.class);
     private final MessageBus bus;
     private final UnitProcessAgent agent;
     private final UnitPlantInterface unitInterface;
@@ -30,6 +35,7 @@ public final class UnitProcess implements AutoCloseable {
     private final Clock clock;
     private final PlantJournal journal = new PlantJournal();
     private AgentRunner runner;
+    private volatile PlantRunJournal runJournal;
 
     public UnitProcess(String site, GeneratingUnit unit, InterfaceOptions options, Qos telemetryQos,
                        LinkFactory links, Clock clock) {
@@ -76,11 +82,33 @@ public final class UnitProcess implements AutoCloseable {
      * command-to-reference latency; the caller closes the journal.
      */
     public UnitProcess journalTo(PlantRunJournal j) {
+        runJournal = j;
         journal.attach(j);
         link.journalTo(j);
         orders.journalTo(j, clock);
         unitInterface.latency().listen((what, us) -> j.record("toReference".equals(what)
                 ? PlantRunJournal.COMMAND_TO_REFERENCE_US : PlantRunJournal.COMMAND_TO_OUTPUT_US, us));
+        return this;
+    }
+
+    /**
+     * Runs on the plant's clock this unit follows ({@code --clock bus}, call before {@link #start()}): while
+     * that time stands waiting for the next tick the controller's statuses wait and the watchdog is not
+     * judged ({@link UnitDutyCycle#judgeTimeOnlyWhen}); each silence is journaled, {@code clockSilent} when
+     * no tick came for the clock's silence limit, {@code clockHeard} when one came again.
+     */
+    public UnitProcess followPlantClock(BusClock plantClock) {
+        agent.dutyCycle().judgeTimeOnlyWhen(() -> !plantClock.standing());
+        String unitId = unitInterface.unitId();
+        agent.watchClockSilence(new ClockSilenceWatch(plantClock, e -> {
+            Map<String, Object> entry = new LinkedHashMap<>(e);
+            entry.put("unit", unitId);
+            LOG.warn("unit {}: {}", unitId, entry);
+            PlantRunJournal j = runJournal;
+            if (j != null) {
+                j.event(clock.epochMillis(), entry);
+            }
+        }));
         return this;
     }
 

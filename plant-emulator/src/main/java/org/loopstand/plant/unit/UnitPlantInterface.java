@@ -31,10 +31,9 @@ import org.loopstand.protocol.time.Clock;
  * injected clock: no bus, no threads. One owner thread calls every method; only the counters are
  * safe to read from other threads.
  *
- * <p>Watchdog: armed by the first status of an accepted controller; when no status has come for
- * {@code watchdogS} or the controller reports itself offline, a unit in remote leaves remote (mode
- * becomes local) and holds its load reference or returns to its base point. It goes back to remote
- * only on an explicit order ({@link #setControlMode}).
+ * <p>Watchdog ({@link StatusHeartbeat}): when no live status has come for {@code watchdogS} or the
+ * controller reports itself offline, a unit in remote leaves remote (mode becomes local) and holds its
+ * load reference or returns to its base point; back to remote only on an order ({@link #setControlMode}).
  */
 public final class UnitPlantInterface {
     private final UnitSettings settings;
@@ -51,8 +50,7 @@ public final class UnitPlantInterface {
     /** telemetry and acks each count their own seq, so the controller can reckon loss per kind */
     private long seq;
     private long lastTickNanos;
-    private long lastHeartbeatNanos;
-    private boolean watchdogArmed;
+    private final StatusHeartbeat heartbeat = new StatusHeartbeat();
     private final IntakeOverflowReport overflow;
     private PlantFaultFlags faults = PlantFaultFlags.NONE;
     private CommandOutcomeListener outcomes = CommandOutcomeListener.NONE;
@@ -156,30 +154,10 @@ public final class UnitPlantInterface {
             return;
         }
         double targetBeforeMw = motion.targetMw();
-        String detail;
-        double sign;
-        boolean acted = true;
-        if (c.kind() == CommandKind.PULSE) {
-            double askedMw = settings.pulseRateMwPerMin() * c.durationMs() / 60_000.0;
-            PulseDirection wired = faults.swapRaiseLower()
-                    ? (c.direction() == PulseDirection.RAISE ? PulseDirection.LOWER : PulseDirection.RAISE) : c.direction();
-            acted = !faults.ignorePulses();
-            // an ignored pulse is acked as if taken: the controller must find out from the output
-            double takenMw = acted ? motion.pulse(wired, c.durationMs())
-                    : (c.direction() == PulseDirection.RAISE ? askedMw : -askedMw);
-            sign = Math.signum(takenMw);
-            detail = Math.abs(takenMw) < askedMw - 1e-9
-                    ? String.format(java.util.Locale.ROOT, "atLimit: moved %.3f MW of %.3f MW asked", Math.abs(takenMw), askedMw)
-                    : null;
-        } else {
-            double taken = motion.setpoint(c.setpointMw());
-            sign = Math.signum(taken - motion.referenceMw());
-            detail = taken != c.setpointMw()
-                    ? String.format(java.util.Locale.ROOT, "atLimit: setpoint held at %.3f MW", taken) : null;
-        }
-        latency.accepted(receivedNanos, field.outputMw(), sign);
-        answers.accepted(nowMs, c, detail, targetBeforeMw, motion.targetMw());
-        outcomes.handled(nowMs, c, AckOutcome.ACCEPTED, null, acted);
+        CommandEffect effect = CommandEffect.apply(c, motion, settings, faults);
+        latency.accepted(receivedNanos, field.outputMw(), effect.sign());
+        answers.accepted(nowMs, c, effect.detail(), targetBeforeMw, motion.targetMw());
+        outcomes.handled(nowMs, c, AckOutcome.ACCEPTED, null, effect.acted());
     }
 
     /** Handles a payload that did not decode as a command (never applied). */
@@ -187,9 +165,14 @@ public final class UnitPlantInterface {
         refuse(null, commandSeq, controllerId, new Refusal(RefusalReason.MALFORMED, detail));
     }
 
-    /** As {@link #onControllerStatus(ControllerStatus, String)} for a status that arrived on its own topic. */
+    /** As {@link #onControllerStatus(ControllerStatus, String, boolean)} for a live status on its own topic. */
     public void onControllerStatus(ControllerStatus s) {
         onControllerStatus(s, s.controllerId());
+    }
+
+    /** As {@link #onControllerStatus(ControllerStatus, String, boolean)} for a live status. */
+    public void onControllerStatus(ControllerStatus s, String topicControllerId) {
+        onControllerStatus(s, topicControllerId, false);
     }
 
     /**
@@ -198,8 +181,10 @@ public final class UnitPlantInterface {
      * ({@code statusRefused}, at most once per code and controller per watchdog period).
      *
      * @param topicControllerId controller id of the topic it arrived on
+     * @param retainedCopy      true for the retained copy a subscription brings (not a heartbeat: its epoch
+     *                          and an offline state count, but it neither arms nor feeds the watchdog)
      */
-    public void onControllerStatus(ControllerStatus s, String topicControllerId) {
+    public void onControllerStatus(ControllerStatus s, String topicControllerId, boolean retainedCopy) {
         long nowNanos = clock.monotonicNanos();
         if (!statusCheck.admit(s, topicControllerId, clock.epochMillis(), nowNanos)) {
             return;
@@ -210,8 +195,10 @@ public final class UnitPlantInterface {
             leaveRemote("controller " + s.controllerId() + " reported offline");
             return;
         }
-        lastHeartbeatNanos = nowNanos;
-        watchdogArmed = true;
+        if (retainedCopy) {
+            return;
+        }
+        heartbeat.beat(nowNanos);
     }
 
     /**
@@ -239,7 +226,7 @@ public final class UnitPlantInterface {
      *         (what the watchdog counts), else -1
      */
     public long heartbeatAgeNanos(long nowNanos) {
-        return watchdogArmed && mode == ControlMode.REMOTE ? nowNanos - lastHeartbeatNanos : -1;
+        return mode == ControlMode.REMOTE ? heartbeat.ageNanos(nowNanos) : -1;
     }
 
     /** Operator order: sets the control mode (the only way back to remote after the watchdog). */
@@ -250,7 +237,7 @@ public final class UnitPlantInterface {
         journal.event(clock.epochMillis(), settings.unitId(), "mode", mode.wireName() + " -> " + newMode.wireName() + ": " + why);
         mode = newMode;
         if (newMode == ControlMode.REMOTE) {
-            lastHeartbeatNanos = clock.monotonicNanos(); // a fresh watchdog period from the order on
+            heartbeat.restart(clock.monotonicNanos()); // a fresh watchdog period from the order on
         } else if (ensureMotion()) {
             motion.hold();
         }
@@ -320,9 +307,9 @@ public final class UnitPlantInterface {
     }
 
     private void checkWatchdog(long now) {
-        if (watchdogArmed && mode == ControlMode.REMOTE && now - lastHeartbeatNanos > settings.watchdogS() * 1e9) {
+        if (mode == ControlMode.REMOTE && heartbeat.overdue(now, settings.watchdogS())) {
             leaveRemote(String.format(java.util.Locale.ROOT, "no controller status for %.1f s (watchdog %.1f s)",
-                    (now - lastHeartbeatNanos) / 1e9, settings.watchdogS()));
+                    heartbeat.ageNanos(now) / 1e9, settings.watchdogS()));
         }
     }
 

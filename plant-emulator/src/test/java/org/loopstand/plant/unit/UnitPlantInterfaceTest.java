@@ -265,6 +265,29 @@ class UnitPlantInterfaceTest {
     }
 
     @Test
+    void shouldArmAndFeedTheWatchdogOnLiveStatusesOnlyNotOnTheRetainedCopyASubscriptionBrings() {
+        UnitPlantInterface u = unit();
+        u.onControllerStatus(status(0, ControllerState.REGULATING), CTRL, true); // on subscribing: perhaps old
+        run(u, 45); // watchdog 30 s: not armed by the retained copy
+        assertThat(u.controlMode()).isEqualTo(ControlMode.REMOTE);
+        assertThat(u.heartbeatAgeNanos(clock.monotonicNanos())).isEqualTo(-1);
+        u.onControllerStatus(status(0, ControllerState.REGULATING), CTRL, false); // the first live one arms it
+        run(u, 20);
+        u.onControllerStatus(status(0, ControllerState.REGULATING), CTRL, true); // a resubscription's copy: no heartbeat
+        run(u, 9);
+        assertThat(u.controlMode()).isEqualTo(ControlMode.REMOTE);
+        assertThat(u.heartbeatAgeNanos(clock.monotonicNanos())).isEqualTo(29_000_000_000L);
+        run(u, 2);
+        assertThat(u.controlMode()).isEqualTo(ControlMode.LOCAL); // 31 s after the last live status
+        assertThat(journal.entries()).filteredOn(e -> e.kind().equals("watchdog")).singleElement()
+                .satisfies(e -> assertThat(e.detail()).contains("no controller status for 30.0"));
+
+        UnitPlantInterface fresh = unit();
+        fresh.onControllerStatus(status(0, ControllerState.OFFLINE), CTRL, true); // the will of a controller gone
+        assertThat(fresh.controlMode()).isEqualTo(ControlMode.LOCAL);
+    }
+
+    @Test
     void shouldPublishTelemetryOnItsScanPeriod() {
         UnitPlantInterface u = unit();
         u.tick();

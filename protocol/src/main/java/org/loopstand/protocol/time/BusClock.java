@@ -11,8 +11,11 @@ import org.loopstand.protocol.message.ClockTick;
  * the last tick would only find its inputs stale and its commands ahead of the plant. Time then
  * stands still until the next tick. When no tick came for {@link #silentAfterWallNanos(double)} of
  * wall time (at least {@value #SILENT_AFTER_WALL_MS} ms) the time source is silent
- * ({@link #silentWallNanos()}: a partition, a plant gone): time runs on blind at the last tick's rate
- * from where it stood, so inputs age and the areas suspend on their own staleness rules. A tick a little behind the extrapolation (up to
+ * ({@link #silentWallNanos()}: a partition, a plant gone): a controller's time ({@link WhenSilent#RUN_BLIND})
+ * runs on blind at the last tick's rate from where it stood, so inputs age and the areas suspend on their
+ * own staleness rules; a unit interface's time ({@link WhenSilent#STAND_STILL}) stands until the next tick,
+ * so a stall of its own connection (a loaded broker node) is not taken for scenario time without the
+ * controller's status, i.e. a watchdog the machine made. A tick a little behind the extrapolation (up to
  * {@value #RESTART_BEHIND_MS} ms of scenario time) holds time until it catches up. A tick further
  * behind is a restarted plant (the rig's plant numbers its ticks from its start, epoch ms, so a
  * restarted plant's ticks number above the old ones), unless its seq is up to
@@ -24,6 +27,14 @@ import org.loopstand.protocol.message.ClockTick;
  */
 public final class BusClock implements Clock {
     private record Anchor(long scenarioEpochMs, long wallNanos, double rate) {
+    }
+
+    /** What the time does once the source is silent. */
+    public enum WhenSilent {
+        /** runs on at the last tick's rate from where it stood (a controller: its inputs age) */
+        RUN_BLIND,
+        /** stands where it stood until the next tick (a unit interface: its watchdog counts the plant's time only) */
+        STAND_STILL
     }
 
     /** A tick further behind the extrapolation than this, scenario ms, is a restarted plant. */
@@ -41,6 +52,7 @@ public final class BusClock implements Clock {
     public static final int SILENT_AFTER_TICK_PERIODS = 3;
 
     private final Clock wall;
+    private final WhenSilent whenSilent;
     private volatile Anchor anchor;
     private long lastNanos = Long.MIN_VALUE;
     /** monotonic − scenario time, ns: grows by whole seconds at each restart followed */
@@ -56,9 +68,18 @@ public final class BusClock implements Clock {
     /** wall ns the latest silence lasted, up to the tick that ended it */
     private long lastSilenceWallNanos;
 
-    /** @param wall the wall clock used between ticks */
+    /** @param wall the wall clock used between ticks; time runs on blind once the source is silent */
     public BusClock(Clock wall) {
+        this(wall, WhenSilent.RUN_BLIND);
+    }
+
+    /**
+     * @param wall       the wall clock used between ticks
+     * @param whenSilent what the time does once the source is silent
+     */
+    public BusClock(Clock wall, WhenSilent whenSilent) {
         this.wall = wall;
+        this.whenSilent = java.util.Objects.requireNonNull(whenSilent, "whenSilent");
     }
 
     /** Takes a tick as the new anchor. */
@@ -122,7 +143,8 @@ public final class BusClock implements Clock {
             return base + (long) (elapsed * a.rate());
         }
         // stands at the cap until the source is silent, then runs on blind from there (never a jump)
-        return base + (long) ((capWall + Math.max(0, w - silentAtWallNanos(a, capWall))) * a.rate());
+        long blindWall = whenSilent == WhenSilent.RUN_BLIND ? Math.max(0, w - silentAtWallNanos(a, capWall)) : 0;
+        return base + (long) ((capWall + blindWall) * a.rate());
     }
 
     /** @return wall ns from which the source behind anchor {@code a} is silent: the limit, or at once when the link is down */
@@ -162,6 +184,24 @@ public final class BusClock implements Clock {
      */
     public long silentWallNanos() {
         return silentWallNanos(anchor);
+    }
+
+    /**
+     * @return true while the time stands waiting for the plant's next tick: before the first, or past the
+     *         extrapolation of a running one (and, when it runs blind, before the silence limit), i.e. when the
+     *         next tick may move it on at once
+     */
+    public boolean standing() {
+        Anchor a = anchor;
+        if (a == null) {
+            return true;
+        }
+        if (a.rate() <= 0) {
+            return false; // the plant holds its clock: its time is known, it stands
+        }
+        long capWall = extrapolationCapWallNanos(a.rate());
+        long w = wall.monotonicNanos();
+        return w - a.wallNanos() > capWall && (whenSilent == WhenSilent.STAND_STILL || w < silentAtWallNanos(a, capWall));
     }
 
     /** @return how many silences a tick has ended */

@@ -34,12 +34,21 @@ public final class PlantClockFollower {
      */
     public static Optional<BusClock> await(MessageBus bus, TopicTree topics, Clock wall, long timeoutMs)
             throws InterruptedException {
+        return await(bus, topics, wall, timeoutMs, BusClock.WhenSilent.RUN_BLIND);
+    }
+
+    /**
+     * As {@link #await(MessageBus, TopicTree, Clock, long)}, for a clock that does {@code whenSilent} once
+     * the plant's ticks stop.
+     */
+    public static Optional<BusClock> await(MessageBus bus, TopicTree topics, Clock wall, long timeoutMs,
+                                           BusClock.WhenSilent whenSilent) throws InterruptedException {
         MessageCodec codec = new MessageCodec();
         CompletableFuture<BusClock> first = new CompletableFuture<>();
         bus.subscribe(topics.clock(), Qos.AT_MOST_ONCE, m -> {
             if (!m.retained()) {
                 codec.decode(m.payload(), ClockTick.class).message().filter(ClockTick::running).ifPresent(t -> {
-                    BusClock c = new BusClock(wall);
+                    BusClock c = new BusClock(wall, whenSilent);
                     c.onTick(t);
                     first.complete(c);
                 });

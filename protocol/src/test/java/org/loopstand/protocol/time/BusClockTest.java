@@ -133,4 +133,43 @@ class BusClockTest {
         assertThat(clock.epochMillis()).isEqualTo(SCENARIO_MS + 18_000);
         assertThat(clock.silentWallNanos()).isZero();
     }
+
+    @Test
+    void shouldStandStillWhileTheSourceIsSilentWhenToldToAndTakeThePlantsTimeFromTheNextTick() {
+        BusClock unit = new BusClock(wall, BusClock.WhenSilent.STAND_STILL); // a unit interface's clock
+        unit.onTick(tick(1, SCENARIO_MS, 20, true));
+        wall.advanceMillis(3_500); // its connection stalled 3.5 s: blind at 20x would be 2 s + 1.5 s x 20 = 32 s on
+        assertThat(unit.silentWallNanos()).isEqualTo(3_500_000_000L); // still named silent
+        assertThat(unit.epochMillis()).isEqualTo(SCENARIO_MS + 2_000); // two tick periods past the tick, no further
+        unit.onTick(tick(2, SCENARIO_MS + 70_000, 20, true)); // the plant ran on meanwhile: its time, at once
+        assertThat(unit.epochMillis()).isEqualTo(SCENARIO_MS + 70_000);
+        assertThat(unit.silencesEnded()).isEqualTo(1);
+        assertThat(unit.restartsFollowed()).isZero();
+        unit.linkUp(false); // its own link down: silent at once, and still standing
+        wall.advanceMillis(1_000);
+        assertThat(unit.silentWallNanos()).isPositive();
+        assertThat(unit.epochMillis()).isEqualTo(SCENARIO_MS + 72_000);
+    }
+
+    @Test
+    void shouldSayWhenItsTimeStandsWaitingForTheNextTick() {
+        BusClock unit = new BusClock(wall, BusClock.WhenSilent.STAND_STILL);
+        assertThat(unit.standing()).as("no time before the first tick").isTrue();
+        unit.onTick(tick(1, SCENARIO_MS, 20, true));
+        wall.advanceMillis(100); // two tick periods of extrapolation at rate 20
+        assertThat(unit.standing()).isFalse();
+        wall.advanceMillis(1);
+        assertThat(unit.standing()).isTrue();
+        wall.advanceMillis(5_000); // silent: still standing
+        assertThat(unit.standing()).isTrue();
+        unit.onTick(tick(2, SCENARIO_MS + 1_000, 20, false)); // the plant holds its clock: known, not waiting
+        wall.advanceMillis(5_000);
+        assertThat(unit.standing()).isFalse();
+
+        clock.onTick(tick(1, SCENARIO_MS, 20, true)); // a controller's clock stands from the cap to the silence limit
+        wall.advanceMillis(1_000);
+        assertThat(clock.standing()).isTrue();
+        wall.advanceMillis(1_001); // then runs on blind
+        assertThat(clock.standing()).isFalse();
+    }
 }

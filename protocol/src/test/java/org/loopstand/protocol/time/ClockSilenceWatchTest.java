@@ -1,4 +1,4 @@
-package org.loopstand.controller.runtime;
+package org.loopstand.protocol.time;
 
 import static org.assertj.core.api.Assertions.assertThat;
 
@@ -8,8 +8,6 @@ import java.util.Map;
 
 import org.junit.jupiter.api.Test;
 import org.loopstand.protocol.message.ClockTick;
-import org.loopstand.protocol.time.BusClock;
-import org.loopstand.protocol.time.VirtualClock;
 
 /** A silent time source named in the journal and the status, a stall of the plant not. */
 class ClockSilenceWatchTest {

@@ -1,23 +1,23 @@
-package org.loopstand.controller.runtime;
+package org.loopstand.protocol.time;
 
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.function.Consumer;
 
-import org.loopstand.protocol.time.BusClock;
 
 /**
  * Names a silent time source ({@code --clock bus}): when no clock tick came for the {@link BusClock}'s
  * silence limit while the last one said running, journals {@code clockSilent} (wall ms silent, the
- * last tick's scenario time and rate) and adds the reason {@code clockSilent} to every status while it
- * lasts; when a tick comes again, journals {@code clockHeard} with how long the silence lasted. A
- * stall of the plant shorter than the limit only stops the controller's time (no cycle runs), and is
- * not a silence. Agent thread only.
+ * last tick's scenario time and rate); a controller adds the reason {@code clockSilent} to every status
+ * while it lasts ({@link #withSilence}); when a tick comes again, journals {@code clockHeard} with how long
+ * the silence lasted. A stall of the plant shorter than the limit only stops the follower's time (no
+ * cycle runs), and is not a silence. Used by the controller and by a unit process ({@code --clock bus}).
+ * Agent thread only.
  */
-final class ClockSilenceWatch {
+public final class ClockSilenceWatch {
     /** Status reason while the time source is silent. */
-    static final String REASON = "clockSilent";
+    public static final String REASON = "clockSilent";
 
     private final BusClock clock;
     private final Consumer<Map<String, Object>> events;
@@ -28,13 +28,13 @@ final class ClockSilenceWatch {
      * @param clock  the clock followed from the ticks
      * @param events takes each journal event
      */
-    ClockSilenceWatch(BusClock clock, Consumer<Map<String, Object>> events) {
+    public ClockSilenceWatch(BusClock clock, Consumer<Map<String, Object>> events) {
         this.clock = clock;
         this.events = events;
     }
 
     /** Looks at the clock once (each agent pass). @return 1 when an event was journaled, else 0 */
-    int poll() {
+    public int poll() {
         long silentNanos = clock.silentWallNanos();
         if (silentNanos > 0 && !silent) {
             silent = true;
@@ -60,12 +60,12 @@ final class ClockSilenceWatch {
     }
 
     /** @return true while the time source is silent (the last {@link #poll} said so) */
-    boolean silent() {
+    public boolean silent() {
         return silent;
     }
 
     /** @return {@code reasons} with {@value #REASON} added while silent */
-    List<String> withSilence(List<String> reasons) {
+    public List<String> withSilence(List<String> reasons) {
         if (!silent) {
             return reasons;
         }
