@@ -1,8 +1,6 @@
 package org.loopstand.controller.following;
 
-import java.util.ArrayDeque;
 import java.util.Collections;
-import java.util.Deque;
 import java.util.HashMap;
 import java.util.Map;
 import java.util.Set;
@@ -45,7 +43,7 @@ import java.util.TreeSet;
  */
 public final class UnitFollowingMonitor {
     private final FollowingSettings settings;
-    private final Map<String, Track> tracks = new HashMap<>();
+    private final Map<String, FollowingTrack> tracks = new HashMap<>();
     private final Map<String, Long> lagMsByUnit = new HashMap<>();
 
     public UnitFollowingMonitor(FollowingSettings settings) {
@@ -67,8 +65,8 @@ public final class UnitFollowingMonitor {
         lagMsByUnit.put(unitId, Math.round(lagS * 1000));
     }
 
-    private Track track(String unitId, double mw, long nowMs) {
-        return tracks.computeIfAbsent(unitId, k -> new Track(mw, nowMs, lagMsByUnit.getOrDefault(unitId, 0L)));
+    private FollowingTrack track(String unitId, double mw, long nowMs) {
+        return tracks.computeIfAbsent(unitId, k -> new FollowingTrack(mw, nowMs, lagMsByUnit.getOrDefault(unitId, 0L), settings.deadTimeMs()));
     }
 
     /** A command was sent: the unit's target moves by {@code deltaMw}. No governor allowance. */
@@ -84,7 +82,7 @@ public final class UnitFollowingMonitor {
      */
     public void onCommand(String unitId, double deltaMw, long issuedAtMs, double measuredOutputMw,
                           double governorUncertaintyMw) {
-        Track t = track(unitId, measuredOutputMw, issuedAtMs);
+        FollowingTrack t = track(unitId, measuredOutputMw, issuedAtMs);
         if (!t.commanded) {
             t.resync(measuredOutputMw, issuedAtMs);
             t.baselineUncertaintyMw = Math.max(0, governorUncertaintyMw);
@@ -120,7 +118,7 @@ public final class UnitFollowingMonitor {
      */
     public FollowingCheck check(String unitId, long nowMs, long readingTimeMs, double measuredOutputMw,
                                 double rampMwPerMin, double governorUncertaintyMw) {
-        Track t = track(unitId, measuredOutputMw, nowMs);
+        FollowingTrack t = track(unitId, measuredOutputMw, nowMs);
         if (!t.commanded) {
             // nothing asked of the unit: follow its drift (governor action) without judging it
             t.resync(measuredOutputMw, nowMs);
@@ -201,7 +199,7 @@ public final class UnitFollowingMonitor {
      * @param maxMw highest regulating output, MW, ≥ minMw
      */
     public void limitTarget(String unitId, double minMw, double maxMw) {
-        Track t = tracks.get(unitId);
+        FollowingTrack t = tracks.get(unitId);
         if (t != null && t.commanded && minMw <= maxMw) {
             t.targetMw = Math.max(minMw, Math.min(maxMw, t.targetMw));
         }
@@ -209,7 +207,7 @@ public final class UnitFollowingMonitor {
 
     /** @return true when the unit is flagged, no probe is under way and its next probe is due at {@code nowMs} */
     public boolean probeDue(String unitId, long nowMs) {
-        Track t = tracks.get(unitId);
+        FollowingTrack t = tracks.get(unitId);
         return t != null && t.flagged && !t.probing && nowMs >= t.nextProbeMs;
     }
 
@@ -225,7 +223,7 @@ public final class UnitFollowingMonitor {
      */
     public void startProbe(String unitId, double deltaMw, long issuedAtMs, double measuredOutputMw,
                            double governorUncertaintyMw, double rampMwPerMin) {
-        Track t = tracks.get(unitId);
+        FollowingTrack t = tracks.get(unitId);
         if (t == null || !t.flagged) {
             throw new IllegalStateException("unit " + unitId + " is not flagged: no probe");
         }
@@ -241,7 +239,7 @@ public final class UnitFollowingMonitor {
 
     /** @return true when no move of the unit is being tracked (its next command starts a new baseline) */
     public boolean idle(String unitId) {
-        Track t = tracks.get(unitId);
+        FollowingTrack t = tracks.get(unitId);
         return t == null || !t.commanded;
     }
 
@@ -250,7 +248,7 @@ public final class UnitFollowingMonitor {
      * at the baseline's reading is known: the expected output and the target move with it.
      */
     public void rebase(String unitId, double deltaMw) {
-        Track t = tracks.get(unitId);
+        FollowingTrack t = tracks.get(unitId);
         if (t != null && t.commanded && Double.isFinite(deltaMw)) {
             t.shift(deltaMw);
         }
@@ -261,7 +259,7 @@ public final class UnitFollowingMonitor {
      * taken back from the target, so the unit is not judged on a move it never got.
      */
     public void withdraw(String unitId, double deltaMw) {
-        Track t = tracks.get(unitId);
+        FollowingTrack t = tracks.get(unitId);
         if (t != null && t.commanded && Double.isFinite(deltaMw)) {
             t.targetMw -= deltaMw;
         }
@@ -274,7 +272,7 @@ public final class UnitFollowingMonitor {
      * @return true when the unit was not flagged before
      */
     public boolean flag(String unitId, long nowMs, double outputMw) {
-        Track t = track(unitId, outputMw, nowMs);
+        FollowingTrack t = track(unitId, outputMw, nowMs);
         if (t.flagged) {
             return false;
         }
@@ -290,7 +288,7 @@ public final class UnitFollowingMonitor {
     }
 
     public boolean flagged(String unitId) {
-        Track t = tracks.get(unitId);
+        FollowingTrack t = tracks.get(unitId);
         return t != null && t.flagged;
     }
 
@@ -303,102 +301,5 @@ public final class UnitFollowingMonitor {
             }
         });
         return Collections.unmodifiableSet(out);
-    }
-
-    private final class Track {
-        final long lagMs;
-        boolean commanded;
-        double lastDirection;
-        double targetMw;
-        /** the ramp-limited commanded move */
-        double expectedMw;
-        /** that move through the unit's response lag: what the unit's output should show */
-        double laggedMw;
-        long lastMs;
-        long lastCommandMs = Long.MIN_VALUE / 2;
-        int missed;
-        int followed;
-        boolean flagged;
-        boolean probing;
-        long nextProbeMs;
-        long probeDeadlineMs;
-        long lastJudgedMs = Long.MIN_VALUE;
-        /** the largest governor uncertainty passed since the baseline, MW */
-        double largestUncertaintyMw;
-        /** how far the governor share at the baseline may have been off, MW */
-        double baselineUncertaintyMw;
-        final Deque<long[]> historyTimes = new ArrayDeque<>();
-        final Deque<Double> historyValues = new ArrayDeque<>();
-
-        Track(double mw, long nowMs, long lagMs) {
-            this.lagMs = lagMs;
-            resync(mw, nowMs);
-        }
-
-        void resync(double mw, long nowMs) {
-            targetMw = mw;
-            expectedMw = mw;
-            laggedMw = mw;
-            lastMs = nowMs;
-            historyTimes.clear();
-            historyValues.clear();
-            push(nowMs, mw);
-        }
-
-        void shift(double deltaMw) {
-            targetMw += deltaMw;
-            expectedMw += deltaMw;
-            laggedMw += deltaMw;
-            int n = historyValues.size();
-            for (int i = 0; i < n; i++) {
-                historyValues.addLast(historyValues.removeFirst() + deltaMw);
-            }
-        }
-
-        void advance(long nowMs, double rampMwPerMin) {
-            long dtMs = Math.max(0, nowMs - lastMs);
-            double step = rampMwPerMin * dtMs / 60_000.0;
-            double d = targetMw - expectedMw;
-            double before = expectedMw;
-            expectedMw += Math.max(-step, Math.min(step, d));
-            if (lagMs <= 0) {
-                laggedMw = expectedMw;
-            } else if (dtMs > 0) {
-                // first-order lag of a linear input over dt, exact: y = x − k·T + (y0 − x0 + k·T)·e^(−dt/T)
-                double k = (expectedMw - before) / dtMs;
-                double decay = Math.exp(-(double) dtMs / lagMs);
-                laggedMw = expectedMw - k * lagMs + (laggedMw - before + k * lagMs) * decay;
-            }
-            lastMs = Math.max(lastMs, nowMs);
-            push(nowMs, laggedMw);
-        }
-
-        /** Latest expected value at or before {@code tMs}; the oldest one if none is that old. */
-        double expectedAt(long tMs) {
-            double v = historyValues.peekFirst();
-            var ti = historyTimes.iterator();
-            var vi = historyValues.iterator();
-            while (ti.hasNext()) {
-                long t = ti.next()[0];
-                double x = vi.next();
-                if (t <= tMs) {
-                    v = x;
-                } else {
-                    break;
-                }
-            }
-            return v;
-        }
-
-        private void push(long tMs, double v) {
-            historyTimes.addLast(new long[] {tMs});
-            historyValues.addLast(v);
-            // keep what the dead time needs plus a margin; bounded in count as well
-            while (historyTimes.size() > 2 && (historyTimes.size() > 1024
-                    || historyTimes.peekFirst()[0] < tMs - 2 * settings.deadTimeMs() - 60_000 - lagMs)) {
-                historyTimes.removeFirst();
-                historyValues.removeFirst();
-            }
-        }
     }
 }

@@ -16,7 +16,6 @@ import java.util.concurrent.atomic.AtomicBoolean;
 
 import org.loopstand.plant.fault.HostLinks;
 import org.loopstand.plant.journal.PlantRunJournal;
-import org.loopstand.plant.network.NamespaceHostLinks;
 import org.loopstand.plant.live.LiveView;
 
 import org.loopstand.plant.broker.EmbeddedBroker;
@@ -31,15 +30,12 @@ import org.loopstand.plant.runtime.PlantOptions;
 import org.loopstand.plant.runtime.PlantRunner;
 import org.loopstand.plant.runtime.RunAnnouncer;
 import org.loopstand.protocol.message.RunPhase;
-import org.loopstand.plant.scenario.EventTypeRegistry;
 import org.loopstand.plant.scenario.Scenario;
 import org.loopstand.plant.scenario.ScenarioEvent;
 import org.loopstand.plant.scenario.RunScenario;
-import org.loopstand.plant.scenario.RunScenarioLoader;
 import org.loopstand.plant.check.RunRecord;
 import org.loopstand.plant.runtime.FaultHooks;
 import org.loopstand.protocol.config.ConfigFileException;
-import org.loopstand.plant.site.SiteLoader;
 import org.loopstand.plant.runtime.UnitDutyCycle;
 import org.loopstand.protocol.security.AuthOptions;
 import org.loopstand.protocol.security.LinkSecurity;
@@ -137,37 +133,19 @@ public final class PlantCommand implements Callable<Integer> {
     public Integer call() throws Exception {
         org.loopstand.protocol.cli.OldSpellings.of("--duration", "--wall-duration-s")
                 .warn(spec.commandLine().getParseResult().originalArgs(), System.err::println);
-        Grid grid;
-        Scenario scenario = null;
-        RunScenario rehearsal = null;
-        HostLinks hostLinks;
+        PlantInputs inputs;
         try {
-            hostLinks = hostsFile == null ? HostLinks.NONE : NamespaceHostLinks.read(hostsFile);
-            grid = SiteLoader.loadForRun(site, System.err::println);
-            if (quietLoads) {
-                grid = grid.withoutLoadNoise();
-            }
-            if (scenarioFile != null) {
-                org.loopstand.protocol.config.OldKeys.SCENARIO.warn(scenarioFile, System.err::println);
-                rehearsal = RunScenarioLoader.load(scenarioFile, EventTypeRegistry.physics(), grid, hostLinks);
-                RunScenarioLoader.startWarnings(scenarioFile, rehearsal, grid).forEach(System.err::println);
-                scenario = rehearsal.scenario();
-            }
+            inputs = PlantInputs.read(site, scenarioFile, hostsFile, wireProfile, quietLoads, System.err::println);
         } catch (ConfigFileException e) {
             System.err.println("plant: refused:");
             System.err.println(e.getMessage());
             return 2;
         }
-        org.loopstand.plant.profile.WireProfile profile = null;
-        if (wireProfile != null) {
-            try {
-                profile = org.loopstand.plant.profile.WireProfileLoader.load(wireProfile, grid.siteId());
-            } catch (ConfigFileException e) {
-                System.err.println("plant: refused:");
-                System.err.println(e.getMessage());
-                return 2;
-            }
-        }
+        Grid grid = inputs.grid();
+        Scenario scenario = inputs.scenario();
+        RunScenario rehearsal = inputs.rehearsal();
+        HostLinks hostLinks = inputs.hostLinks();
+        org.loopstand.plant.profile.WireProfile profile = inputs.profile();
         PlantOptions options;
         try {
             options = options(grid);

@@ -25,12 +25,17 @@ final class PlantDecisionNotes {
         if (plant == null) {
             return notes;
         }
+        JournalEntry notDecided = null;
         for (JournalEntry e : plant.entries()) {
-            if (e.kind().equals("event") && "paceWatchStopped".equals(e.text("event"))) {
+            String event = e.kind().equals("event") ? e.text("event") : null;
+            if ("paceWatchStopped".equals(event)) {
                 notes.add(watchStopped(e));
+            } else if (notDecided == null && "checksNotDecided".equals(event)) {
+                notDecided = e;
             }
         }
-        plant.summary().endReason().filter(r -> r == EndReason.STOPPED).ifPresent(r -> notes.add(stopped(plant)));
+        JournalEntry undecided = notDecided;
+        plant.summary().endReason().filter(r -> r == EndReason.STOPPED).ifPresent(r -> notes.add(stopped(plant, undecided)));
         return notes;
     }
 
@@ -49,19 +54,21 @@ final class PlantDecisionNotes {
         return v == Math.rint(v) ? Long.toString((long) v) : Double.toString(v);
     }
 
-    /** The plant's early stop, with the time and the checks it left undecided when its journal says (checksNotDecided). */
-    private static String stopped(JournalReader.Contents plant) {
-        return plant.entries().stream().filter(e -> e.kind().equals("event") && "checksNotDecided".equals(e.text("event")))
-                .findFirst().map(e -> {
-                    List<String> names = new ArrayList<>();
-                    e.get("checks").forEach(n -> names.add(n.asText()));
-                    JsonNode durationS = plant.summary().header().map(h -> h.path("scenarioDurationS"))
-                            .orElse(MissingNode.getInstance());
-                    return String.format(Locale.ROOT, "The plant was stopped before the scenario's end, at %.1f s%s"
-                                    + " (journal end reason: stopped): its checks %s were not decided (checksNotDecided,"
-                                    + " reason %s).", e.get("stoppedAtS").asDouble(),
-                            durationS.isNumber() ? String.format(Locale.ROOT, " of %.0f s", durationS.asDouble()) : "",
-                            String.join(", ", names), e.text("reason"));
-                }).orElse("The plant was stopped before the scenario's end (journal end reason: stopped).");
+    /**
+     * The plant's early stop, with the time and the checks it left undecided when its journal says so
+     * ({@code notDecided}, its first checksNotDecided event, or null).
+     */
+    private static String stopped(JournalReader.Contents plant, JournalEntry notDecided) {
+        return java.util.Optional.ofNullable(notDecided).map(e -> {
+            List<String> names = new ArrayList<>();
+            e.get("checks").forEach(n -> names.add(n.asText()));
+            JsonNode durationS = plant.summary().header().map(h -> h.path("scenarioDurationS"))
+                    .orElse(MissingNode.getInstance());
+            return String.format(Locale.ROOT, "The plant was stopped before the scenario's end, at %.1f s%s"
+                            + " (journal end reason: stopped): its checks %s were not decided (checksNotDecided,"
+                            + " reason %s).", e.get("stoppedAtS").asDouble(),
+                    durationS.isNumber() ? String.format(Locale.ROOT, " of %.0f s", durationS.asDouble()) : "",
+                    String.join(", ", names), e.text("reason"));
+        }).orElse("The plant was stopped before the scenario's end (journal end reason: stopped).");
     }
 }
